@@ -1,0 +1,176 @@
+-- CreateTable
+CREATE TABLE "User" (
+    "id" TEXT NOT NULL PRIMARY KEY,
+    "email" TEXT NOT NULL,
+    "name" TEXT NOT NULL,
+    "role" TEXT NOT NULL DEFAULT 'organiser',
+    "passwordHash" TEXT NOT NULL,
+    "createdAt" DATETIME NOT NULL DEFAULT CURRENT_TIMESTAMP
+);
+
+-- CreateTable
+CREATE TABLE "ApiToken" (
+    "id" TEXT NOT NULL PRIMARY KEY,
+    "userId" TEXT NOT NULL,
+    "name" TEXT NOT NULL,
+    "tokenHash" TEXT NOT NULL,
+    "createdAt" DATETIME NOT NULL DEFAULT CURRENT_TIMESTAMP,
+    "lastUsedAt" DATETIME,
+    "revokedAt" DATETIME,
+    CONSTRAINT "ApiToken_userId_fkey" FOREIGN KEY ("userId") REFERENCES "User" ("id") ON DELETE CASCADE ON UPDATE CASCADE
+);
+
+-- CreateTable
+CREATE TABLE "RosterMember" (
+    "id" TEXT NOT NULL PRIMARY KEY,
+    "ownerId" TEXT NOT NULL,
+    "name" TEXT NOT NULL,
+    "email" TEXT NOT NULL,
+    "group" TEXT NOT NULL DEFAULT '',
+    "createdAt" DATETIME NOT NULL DEFAULT CURRENT_TIMESTAMP,
+    CONSTRAINT "RosterMember_ownerId_fkey" FOREIGN KEY ("ownerId") REFERENCES "User" ("id") ON DELETE CASCADE ON UPDATE CASCADE
+);
+
+-- CreateTable
+CREATE TABLE "Panel" (
+    "id" TEXT NOT NULL PRIMARY KEY,
+    "ownerId" TEXT NOT NULL,
+    "title" TEXT NOT NULL,
+    "description" TEXT NOT NULL DEFAULT '',
+    "status" TEXT NOT NULL DEFAULT 'draft',
+    "consensusMeasure" TEXT NOT NULL DEFAULT 'relative-iqr',
+    "consensusThreshold" REAL NOT NULL,
+    "stabilityThreshold" REAL NOT NULL,
+    "roundLimit" INTEGER NOT NULL,
+    "createdAt" DATETIME NOT NULL DEFAULT CURRENT_TIMESTAMP,
+    "updatedAt" DATETIME NOT NULL,
+    CONSTRAINT "Panel_ownerId_fkey" FOREIGN KEY ("ownerId") REFERENCES "User" ("id") ON DELETE RESTRICT ON UPDATE CASCADE
+);
+
+-- CreateTable
+CREATE TABLE "PanelShare" (
+    "panelId" TEXT NOT NULL,
+    "userId" TEXT NOT NULL,
+    "role" TEXT NOT NULL,
+
+    PRIMARY KEY ("panelId", "userId"),
+    CONSTRAINT "PanelShare_panelId_fkey" FOREIGN KEY ("panelId") REFERENCES "Panel" ("id") ON DELETE CASCADE ON UPDATE CASCADE,
+    CONSTRAINT "PanelShare_userId_fkey" FOREIGN KEY ("userId") REFERENCES "User" ("id") ON DELETE CASCADE ON UPDATE CASCADE
+);
+
+-- CreateTable
+CREATE TABLE "Question" (
+    "id" TEXT NOT NULL PRIMARY KEY,
+    "panelId" TEXT NOT NULL,
+    "position" INTEGER NOT NULL,
+    "text" TEXT NOT NULL,
+    "unit" TEXT NOT NULL,
+    "targetPeriod" TEXT NOT NULL,
+    "lowerBound" REAL NOT NULL,
+    "upperBound" REAL NOT NULL,
+    "answerFormat" TEXT NOT NULL,
+    "aggregation" TEXT NOT NULL,
+    "createdAt" DATETIME NOT NULL DEFAULT CURRENT_TIMESTAMP,
+    CONSTRAINT "Question_panelId_fkey" FOREIGN KEY ("panelId") REFERENCES "Panel" ("id") ON DELETE CASCADE ON UPDATE CASCADE
+);
+
+-- CreateTable
+CREATE TABLE "Round" (
+    "id" TEXT NOT NULL PRIMARY KEY,
+    "panelId" TEXT NOT NULL,
+    "number" INTEGER NOT NULL,
+    "status" TEXT NOT NULL DEFAULT 'draft',
+    "deadline" DATETIME,
+    "openedAt" DATETIME,
+    "closedAt" DATETIME,
+    CONSTRAINT "Round_panelId_fkey" FOREIGN KEY ("panelId") REFERENCES "Panel" ("id") ON DELETE CASCADE ON UPDATE CASCADE
+);
+
+-- CreateTable
+CREATE TABLE "Invitation" (
+    "id" TEXT NOT NULL PRIMARY KEY,
+    "panelId" TEXT NOT NULL,
+    "rosterMemberId" TEXT NOT NULL,
+    "pseudonym" TEXT NOT NULL,
+    "tokenHash" TEXT NOT NULL,
+    "expiresAt" DATETIME NOT NULL,
+    "revokedAt" DATETIME,
+    "createdAt" DATETIME NOT NULL DEFAULT CURRENT_TIMESTAMP,
+    "lastSeenAt" DATETIME,
+    CONSTRAINT "Invitation_panelId_fkey" FOREIGN KEY ("panelId") REFERENCES "Panel" ("id") ON DELETE CASCADE ON UPDATE CASCADE,
+    CONSTRAINT "Invitation_rosterMemberId_fkey" FOREIGN KEY ("rosterMemberId") REFERENCES "RosterMember" ("id") ON DELETE RESTRICT ON UPDATE CASCADE
+);
+
+-- CreateTable
+CREATE TABLE "Answer" (
+    "id" TEXT NOT NULL PRIMARY KEY,
+    "roundId" TEXT NOT NULL,
+    "questionId" TEXT NOT NULL,
+    "invitationId" TEXT NOT NULL,
+    "version" INTEGER NOT NULL,
+    "value" REAL NOT NULL,
+    "low" REAL,
+    "high" REAL,
+    "rationale" TEXT NOT NULL DEFAULT '',
+    "idempotencyKey" TEXT,
+    "createdAt" DATETIME NOT NULL DEFAULT CURRENT_TIMESTAMP,
+    CONSTRAINT "Answer_roundId_fkey" FOREIGN KEY ("roundId") REFERENCES "Round" ("id") ON DELETE CASCADE ON UPDATE CASCADE,
+    CONSTRAINT "Answer_questionId_fkey" FOREIGN KEY ("questionId") REFERENCES "Question" ("id") ON DELETE CASCADE ON UPDATE CASCADE,
+    CONSTRAINT "Answer_invitationId_fkey" FOREIGN KEY ("invitationId") REFERENCES "Invitation" ("id") ON DELETE CASCADE ON UPDATE CASCADE
+);
+
+-- CreateTable
+CREATE TABLE "RoundStatistic" (
+    "id" TEXT NOT NULL PRIMARY KEY,
+    "roundId" TEXT NOT NULL,
+    "questionId" TEXT NOT NULL,
+    "data" TEXT NOT NULL,
+    "computedAt" DATETIME NOT NULL DEFAULT CURRENT_TIMESTAMP,
+    CONSTRAINT "RoundStatistic_roundId_fkey" FOREIGN KEY ("roundId") REFERENCES "Round" ("id") ON DELETE CASCADE ON UPDATE CASCADE,
+    CONSTRAINT "RoundStatistic_questionId_fkey" FOREIGN KEY ("questionId") REFERENCES "Question" ("id") ON DELETE CASCADE ON UPDATE CASCADE
+);
+
+-- CreateTable
+CREATE TABLE "AuditEvent" (
+    "id" TEXT NOT NULL PRIMARY KEY,
+    "actorId" TEXT,
+    "panelId" TEXT,
+    "action" TEXT NOT NULL,
+    "detail" TEXT NOT NULL DEFAULT '{}',
+    "createdAt" DATETIME NOT NULL DEFAULT CURRENT_TIMESTAMP,
+    CONSTRAINT "AuditEvent_actorId_fkey" FOREIGN KEY ("actorId") REFERENCES "User" ("id") ON DELETE SET NULL ON UPDATE CASCADE
+);
+
+-- CreateIndex
+CREATE UNIQUE INDEX "User_email_key" ON "User"("email");
+
+-- CreateIndex
+CREATE UNIQUE INDEX "ApiToken_tokenHash_key" ON "ApiToken"("tokenHash");
+
+-- CreateIndex
+CREATE UNIQUE INDEX "RosterMember_ownerId_email_key" ON "RosterMember"("ownerId", "email");
+
+-- CreateIndex
+CREATE UNIQUE INDEX "Round_panelId_number_key" ON "Round"("panelId", "number");
+
+-- CreateIndex
+CREATE UNIQUE INDEX "Invitation_tokenHash_key" ON "Invitation"("tokenHash");
+
+-- CreateIndex
+CREATE UNIQUE INDEX "Invitation_panelId_rosterMemberId_key" ON "Invitation"("panelId", "rosterMemberId");
+
+-- CreateIndex
+CREATE INDEX "Answer_roundId_questionId_idx" ON "Answer"("roundId", "questionId");
+
+-- CreateIndex
+CREATE UNIQUE INDEX "Answer_roundId_questionId_invitationId_version_key" ON "Answer"("roundId", "questionId", "invitationId", "version");
+
+-- CreateIndex
+CREATE UNIQUE INDEX "Answer_invitationId_idempotencyKey_key" ON "Answer"("invitationId", "idempotencyKey");
+
+-- CreateIndex
+CREATE UNIQUE INDEX "RoundStatistic_roundId_questionId_key" ON "RoundStatistic"("roundId", "questionId");
+
+-- CreateIndex
+CREATE INDEX "AuditEvent_panelId_createdAt_idx" ON "AuditEvent"("panelId", "createdAt");
+

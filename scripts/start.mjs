@@ -1,0 +1,56 @@
+#!/usr/bin/env node
+// `npm start`: apply migrations to the embedded SQLite database, load the demo on first start,
+// build the production app when the sources are newer than the last build, then serve on $PORT.
+import { spawnSync, spawn } from "node:child_process";
+import { existsSync, mkdirSync, readFileSync, statSync, writeFileSync, readdirSync } from "node:fs";
+import path from "node:path";
+import { randomBytes } from "node:crypto";
+
+const root = path.resolve(path.dirname(new URL(import.meta.url).pathname), "..");
+process.chdir(root);
+const bin = (name) => path.join(root, "node_modules", ".bin", name);
+
+function run(cmd, args, env = process.env) {
+  const r = spawnSync(cmd, args, { stdio: "inherit", env });
+  if (r.status !== 0) {
+    console.error(`triangulate: "${path.basename(cmd)} ${args.join(" ")}" failed (exit ${r.status})`);
+    process.exit(r.status ?? 1);
+  }
+}
+
+const dataDir = path.join(root, "data");
+mkdirSync(dataDir, { recursive: true });
+const env = { NEXT_TELEMETRY_DISABLED: "1", ...process.env };
+env.DATABASE_URL ??= `file:${path.join(dataDir, "triangulate.db")}`;
+env.PORT ??= "3000";
+env.NEXTAUTH_URL ??= `http://localhost:${env.PORT}`;
+if (!env.NEXTAUTH_SECRET) {
+  // A random secret for this installation, kept beside the database so sessions survive restarts.
+  const secretFile = path.join(dataDir, "auth-secret");
+  if (!existsSync(secretFile)) writeFileSync(secretFile, randomBytes(32).toString("base64url"), { mode: 0o600 });
+  env.NEXTAUTH_SECRET = readFileSync(secretFile, "utf8").trim();
+}
+
+run(bin("prisma"), ["migrate", "deploy"], env);
+run(process.execPath, [path.join(root, "bin", "triangulate.mjs"), "demo", "--if-empty"], env);
+
+function newestMtime(p) {
+  if (!existsSync(p)) return 0;
+  const st = statSync(p);
+  if (!st.isDirectory()) return st.mtimeMs;
+  let newest = 0;
+  for (const entry of readdirSync(p)) {
+    if (entry === "generated" || entry === "node_modules") continue;
+    newest = Math.max(newest, newestMtime(path.join(p, entry)));
+  }
+  return newest;
+}
+const buildId = path.join(root, ".next", "BUILD_ID");
+const sources = ["app", "lib", "next.config.mjs", "package.json", "prisma"].map((p) => newestMtime(path.join(root, p)));
+if (!existsSync(buildId) || Math.max(...sources) > statSync(buildId).mtimeMs) {
+  run(bin("next"), ["build"], env);
+}
+
+const server = spawn(bin("next"), ["start", "-p", env.PORT], { stdio: "inherit", env });
+for (const sig of ["SIGINT", "SIGTERM"]) process.on(sig, () => server.kill(sig));
+server.on("exit", (code) => process.exit(code ?? 0));
