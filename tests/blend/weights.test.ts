@@ -1,0 +1,207 @@
+import { describe, expect, it } from "vitest";
+import {
+  EQUAL_PANEL_WEIGHT,
+  MIN_RESOLVED_FOR_CORRELATION,
+  MIN_RESOLVED_FOR_WEIGHTS,
+  batesGrangerWeights,
+  blendWeights,
+  equalWeights,
+  inverseMseWeights,
+  optimalWeights,
+  organiserWeights,
+  type ResolvedPair,
+} from "../../lib/blend";
+import { runR, rVector } from "../stats/rscript";
+
+/** History whose panel and baseline errors (actual − figure) are the given series. */
+function historyFromErrors(ePanel: readonly number[], eBaseline: readonly number[]): readonly ResolvedPair[] {
+  return Object.freeze(
+    ePanel.map((e, i) => {
+      const actual = 1000 + 37 * i;
+      return Object.freeze({ actual, panel: actual - e, baseline: actual - eBaseline[i] });
+    }),
+  );
+}
+
+describe("batesGrangerWeights: REFERENCES.md §5a check table [COMPUTED-ONLY from the formula]", () => {
+  // Rows σ1, σ2, ρ → w1, w2, combined MSE, as printed in REFERENCES.md §5a (10 decimals).
+  const rows = [
+    [2, 1, 0, 0.2, 0.8, 0.8],
+    [2, 1, 0.5, 0, 1, 1],
+    [1, 1, 0, 0.5, 0.5, 0.5],
+    [1, 1, 0.6, 0.5, 0.5, 0.8],
+    [3, 2, 0.3, 0.2340425532, 0.7659574468, 3.485106383],
+  ] as const;
+  for (const [s1, s2, rho, w1, w2, mse] of rows) {
+    it(`σ1=${s1}, σ2=${s2}, ρ=${rho} gives w1 ${w1}, w2 ${w2}, MSE ${mse}`, () => {
+      const r = batesGrangerWeights(s1, s2, rho);
+      expect(r.w1).toBeCloseTo(w1, 9);
+      expect(r.w2).toBeCloseTo(w2, 9);
+      expect(r.combinedMse).toBeCloseTo(mse, 9);
+    });
+  }
+
+  it("matches R optimize() minimising E[ε_c²](λ) = (1−λ)²σ1² + λ²σ2² + 2λ(1−λ)ρσ1σ2 numerically", () => {
+    const cases = [
+      [2.5, 1.7, -0.4],
+      [0.8, 1.9, 0.35],
+      [5, 4, 0.7],
+    ] as const;
+    const code = cases
+      .map(
+        ([s1, s2, rho]) => `f <- function(l) (1-l)^2*${s1}^2 + l^2*${s2}^2 + 2*l*(1-l)*${rho}*${s1}*${s2}
+o <- optimize(f, c(-5, 5), tol = 1e-12); out(c(o$minimum, o$objective))`,
+      )
+      .join("\n");
+    const r = runR(code);
+    cases.forEach(([s1, s2, rho], i) => {
+      const bg = batesGrangerWeights(s1, s2, rho);
+      expect(Math.abs(bg.w2 - r[i][0])).toBeLessThan(1e-8);
+      expect(Math.abs(bg.combinedMse - r[i][1]) / r[i][1]).toBeLessThan(1e-12);
+    });
+  });
+
+  it("gives NaN weights when every weight is equally good (σ1 = σ2, ρ = 1), and checks its inputs", () => {
+    const r = batesGrangerWeights(2, 2, 1);
+    expect(r.w1).toBeNaN();
+    expect(r.w2).toBeNaN();
+    expect(() => batesGrangerWeights(-1, 1, 0)).toThrow(RangeError);
+    expect(() => batesGrangerWeights(1, NaN, 0)).toThrow(/sigma2/);
+    expect(() => batesGrangerWeights(1, 1, 1.5)).toThrow(/rho/);
+  });
+});
+
+describe("inverseMseWeights (Bates & Granger 1969, ρ = 0)", () => {
+  // REFERENCES.md §5a [COMPUTED-ONLY from the formula]: e1 = (2, −1, 3, −2, 1), e2 = (1, 1, −1, 0.5, −0.5)
+  // give MSE1 = 3.8, MSE2 = 0.7, w1 = 0.1555555556, w2 = 0.8444444444.
+  const history = historyFromErrors([2, -1, 3, -2, 1], [1, 1, -1, 0.5, -0.5]);
+
+  it("reproduces the §5a inverse-MSE check values and reports the inputs behind the weight", () => {
+    const w = inverseMseWeights(history);
+    expect(w.applied).toBe("inverse-mse");
+    expect(w.nResolved).toBe(5);
+    expect(w.msePanel).toBeCloseTo(3.8, 12);
+    expect(w.mseBaseline).toBeCloseTo(0.7, 12);
+    expect(w.panel).toBeCloseTo(0.1555555556, 9);
+    expect(w.baseline).toBeCloseTo(0.8444444444, 9);
+    // Hand computation from §5a with ρ = 0: E[ε_c²] = w1²·MSE1 + w2²·MSE2 = MSE1·MSE2/(MSE1 + MSE2) = 2.66/4.5.
+    expect(w.expectedMse).toBeCloseTo(2.66 / 4.5, 12);
+    expect(w.reason).toMatch(/Bates & Granger 1969/);
+  });
+
+  it(`falls back to equal weights with a reason below ${MIN_RESOLVED_FOR_WEIGHTS} resolved questions (common practice)`, () => {
+    for (const h of [[], history.slice(0, 1), history.slice(0, 2)]) {
+      const w = inverseMseWeights(h);
+      expect(w.requested).toBe("inverse-mse");
+      expect(w.applied).toBe("equal");
+      expect(w.panel).toBe(0.5);
+      expect(w.nResolved).toBe(h.length);
+      expect(w.reason).toContain(`fewer than the ${MIN_RESOLVED_FOR_WEIGHTS}`);
+    }
+    expect(inverseMseWeights(history.slice(0, 3)).applied).toBe("inverse-mse");
+    expect(inverseMseWeights(history.slice(0, 3), { minResolved: 4 }).applied).toBe("equal");
+  });
+
+  it("gives weight 1 to a figure that was exact, and equal weights when both were", () => {
+    expect(inverseMseWeights(historyFromErrors([0, 0, 0], [1, -2, 1])).panel).toBe(1);
+    expect(inverseMseWeights(historyFromErrors([1, 2, 3], [0, 0, 0])).panel).toBe(0);
+    const both = inverseMseWeights(historyFromErrors([0, 0, 0], [0, 0, 0]));
+    expect(both.applied).toBe("equal");
+    expect(both.panel).toBe(0.5);
+  });
+});
+
+describe("optimalWeights (Bates & Granger 1969 with error correlation)", () => {
+  it("matches R: optimize() over λ of the mean squared combined error mean(((1−λ)e_p + λe_b)²)", () => {
+    const ep = [12, -8, 15, 4, -3, 9, -11];
+    const eb = [-6, 3, 10, -9, 2, -7, 8];
+    const [[lambda, mse, rho]] = runR(`ep <- ${rVector(ep)}; eb <- ${rVector(eb)}
+f <- function(l) mean(((1-l)*ep + l*eb)^2)
+o <- optimize(f, c(-2, 3), tol = 1e-12)
+out(c(o$minimum, o$objective, mean(ep*eb)/sqrt(mean(ep^2)*mean(eb^2))))`);
+    const w = optimalWeights(historyFromErrors(ep, eb));
+    expect(w.applied).toBe("optimal");
+    expect(w.nResolved).toBe(7);
+    expect(lambda).toBeGreaterThan(0); // R's optimum is interior here (about 0.62), so no clipping
+    expect(lambda).toBeLessThan(1);
+    expect(Math.abs(w.baseline - lambda)).toBeLessThan(1e-8);
+    expect(Math.abs(w.expectedMse - mse) / mse).toBeLessThan(1e-12);
+    expect(w.errorCorrelation).toBeCloseTo(rho, 12);
+    expect(w.unconstrainedPanel).toBe(w.panel);
+  });
+
+  it("clips when R's unconstrained optimum λ lies above 1, and reports the unconstrained panel weight 1 − λ", () => {
+    const ep = [12, -8, 15, 4, -3, 9, -11];
+    const eb = [6, -2, 10, -5, 1, 7, -4];
+    const [[lambda, mseB]] = runR(`ep <- ${rVector(ep)}; eb <- ${rVector(eb)}
+o <- optimize(function(l) mean(((1-l)*ep + l*eb)^2), c(-2, 3), tol = 1e-12)
+out(c(o$minimum, mean(eb^2)))`);
+    expect(lambda).toBeGreaterThan(1);
+    const w = optimalWeights(historyFromErrors(ep, eb));
+    expect(w.panel).toBe(0);
+    expect(w.expectedMse).toBeCloseTo(mseB, 10);
+    expect(Math.abs(w.unconstrainedPanel - (1 - lambda))).toBeLessThan(1e-8);
+    expect(w.reason).toMatch(/unconstrained panel weight -0\.3684 was clipped to 0/); // 1 − λ to 4 digits
+  });
+
+  it("clips a negative panel weight to 0 and says so (errors nearly proportional, ρ > σ_b/σ_p)", () => {
+    const eb = [1, -1, 2, -2, 1];
+    const ep = [2.2, -1.9, 4.1, -4, 2];
+    const w = optimalWeights(historyFromErrors(ep, eb));
+    expect(w.panel).toBe(0);
+    expect(w.baseline).toBe(1);
+    // At λ = 1 the combination is the baseline: its expected MSE is the baseline's MSE (hand: 11/5 = 2.2).
+    expect(w.expectedMse).toBeCloseTo(2.2, 12);
+    expect(w.reason).toMatch(/clipped to 0/);
+    expect(w.unconstrainedPanel).toBeLessThan(0);
+  });
+
+  it(`falls back to equal weights below ${MIN_RESOLVED_FOR_CORRELATION} questions and for identical errors`, () => {
+    const h4 = historyFromErrors([1, 2, -1, 3], [2, 1, 0, -1]);
+    expect(optimalWeights(h4).applied).toBe("equal");
+    expect(optimalWeights(h4).reason).toContain(`fewer than the ${MIN_RESOLVED_FOR_CORRELATION}`);
+    const same = optimalWeights(historyFromErrors([1, 2, -1, 3, 2], [1, 2, -1, 3, 2]));
+    expect(same.applied).toBe("equal");
+    expect(same.reason).toMatch(/identical/);
+    expect(optimalWeights(historyFromErrors([0, 0, 0, 0, 0], [1, 2, -1, 3, 2])).panel).toBe(1);
+  });
+});
+
+describe("equal, organiser and dispatch", () => {
+  it("equal weights are 0.5 / 0.5 (Blattberg & Hoch 1990)", () => {
+    const w = equalWeights();
+    expect(EQUAL_PANEL_WEIGHT).toBe(0.5);
+    expect([w.panel, w.baseline, w.nResolved]).toEqual([0.5, 0.5, 0]);
+    expect(w.reason).toMatch(/Blattberg & Hoch 1990/);
+  });
+
+  it("organiser weight is validated to [0, 1]", () => {
+    const w = organiserWeights(0.3);
+    expect(w.panel).toBe(0.3);
+    expect(w.baseline).toBeCloseTo(0.7, 15);
+    expect(organiserWeights(0).panel).toBe(0);
+    expect(organiserWeights(1).panel).toBe(1);
+    for (const bad of [-0.1, 1.2, NaN, Infinity]) expect(() => organiserWeights(bad)).toThrow(RangeError);
+  });
+
+  it("blendWeights dispatches on the rule", () => {
+    const h = historyFromErrors([2, -1, 3, -2, 1], [1, 1, -1, 0.5, -0.5]);
+    expect(blendWeights({ rule: "equal" }).panel).toBe(0.5);
+    expect(blendWeights({ rule: "organiser", panelWeight: 0.25 }).panel).toBe(0.25);
+    expect(blendWeights({ rule: "inverse-mse", history: h }).panel).toBeCloseTo(0.1555555556, 9);
+    expect(blendWeights({ rule: "inverse-mse", history: h, minResolved: 6 }).applied).toBe("equal");
+    expect(blendWeights({ rule: "optimal", history: h }).applied).toBe("optimal");
+    expect(() => blendWeights({ rule: "median" } as never)).toThrow(/unknown rule/);
+  });
+
+  it("policy: NaN or Infinity in history throws a RangeError naming the entry and field", () => {
+    const h = [
+      { actual: 10, panel: 9, baseline: 11 },
+      { actual: 12, panel: NaN, baseline: 11 },
+      { actual: 13, panel: 12, baseline: 12 },
+    ];
+    expect(() => inverseMseWeights(h)).toThrow(/history\[1\]\.panel/);
+    expect(() => optimalWeights([{ actual: Infinity, panel: 1, baseline: 1 }])).toThrow(/history\[0\]\.actual/);
+    expect(() => inverseMseWeights(h.slice(0, 1), { minResolved: 0 })).toThrow(/minResolved/);
+  });
+});
