@@ -64,6 +64,11 @@ export interface Fit {
   readonly sse: number;
   /** Notes for people (fallbacks taken, bounds hit, …). */
   readonly notes: readonly string[];
+  /**
+   * Names of the explanatory columns a `regression` fit used, in the order its forecast
+   * expects `futureX` (optional; other methods leave it out).
+   */
+  readonly xNames?: readonly string[];
 }
 
 /** Point forecasts and prediction intervals for steps 1..h. */

@@ -1,0 +1,90 @@
+/**
+ * Test helper: runs R (Rscript, R 4.2.2 with package `forecast` on the CI image) and returns
+ * the numbers it prints. Expected values in the tests come from R, outside this project.
+ * The helper never skips: if Rscript is missing the test fails and says so.
+ */
+import { execFileSync } from "node:child_process";
+import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+
+/** R prelude: `out(x)` prints a numeric vector at full precision on one line. */
+const PRELUDE = `
+out <- function(x) cat(sprintf("%.17g", as.numeric(x)), "\\n")
+suppressPackageStartupMessages({ library(stats) })
+`;
+
+/** Formats a JS number array as an R vector literal (shortest round-trip decimal). */
+export function rVector(values: readonly number[]): string {
+  return `c(${values.map((v) => (Number.isNaN(v) ? "NaN" : v === Infinity ? "Inf" : v === -Infinity ? "-Inf" : String(v))).join(", ")})`;
+}
+
+function parseToken(tok: string): number {
+  if (tok === "NA" || tok === "NaN") return NaN;
+  if (tok === "Inf") return Infinity;
+  if (tok === "-Inf") return -Infinity;
+  const v = Number(tok);
+  if (Number.isNaN(v)) throw new Error(`R printed a non-number: ${tok}`);
+  return v;
+}
+
+/**
+ * Runs `code` in Rscript and returns each printed line as an array of numbers
+ * (each `out(x)` call gives one line).
+ */
+export function runR(code: string): number[][] {
+  let stdout: string;
+  // The script goes through a file: `Rscript -e` truncates long expressions.
+  const dir = mkdtempSync(join(tmpdir(), "triangulate-r-"));
+  const file = join(dir, "check.R");
+  writeFileSync(file, PRELUDE + code);
+  try {
+    stdout = execFileSync("Rscript", ["--vanilla", file], {
+      encoding: "utf8",
+      stdio: ["ignore", "pipe", "pipe"],
+      maxBuffer: 64 * 1024 * 1024,
+    });
+  } catch (err) {
+    const e = err as { code?: string; stderr?: string; message: string };
+    if (e.code === "ENOENT") {
+      throw new Error("Rscript not found: install Debian r-base-core and r-cran-forecast (see .ci/run)");
+    }
+    throw new Error(`Rscript failed: ${e.stderr ?? e.message}`);
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+  return stdout
+    .split("\n")
+    .map((l) => l.trim())
+    .filter((l) => l.length > 0)
+    .map((l) => l.split(/\s+/).map(parseToken));
+}
+
+/** Relative difference |a − b| / max(|b|, tiny); 0 when both are the same non-finite value. */
+export function relErr(a: number, b: number): number {
+  if (Object.is(a, b) || (Number.isNaN(a) && Number.isNaN(b))) return 0;
+  if (a === b) return 0;
+  return Math.abs(a - b) / Math.max(Math.abs(b), 1e-300);
+}
+
+/**
+ * Asserts element-wise agreement: relative error ≤ rel, or absolute error ≤ absTol (for values
+ * that are zero up to rounding). The message shows the index and both values.
+ */
+export function expectClose(
+  actual: readonly number[],
+  expected: readonly number[],
+  rel: number,
+  label = "",
+  absTol = 0,
+): void {
+  if (actual.length !== expected.length) {
+    throw new Error(`${label}: length ${actual.length} differs from expected ${expected.length}`);
+  }
+  for (let i = 0; i < actual.length; i++) {
+    const e = relErr(actual[i], expected[i]);
+    if (!(e <= rel) && !(Math.abs(actual[i] - expected[i]) <= absTol)) {
+      throw new Error(`${label}[${i}]: got ${actual[i]}, expected ${expected[i]} (relative error ${e} > ${rel})`);
+    }
+  }
+}
