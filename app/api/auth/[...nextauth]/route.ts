@@ -1,0 +1,2 @@
+import { handler } from "@/lib/auth";
+export { handler as GET, handler as POST };

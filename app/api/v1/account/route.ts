@@ -1,0 +1,5 @@
+import { handle } from "@/lib/http/handler";
+import { routes } from "@/lib/http/routes";
+import { getAccount } from "@/lib/accounts/users";
+
+export const GET = handle(routes.getAccount, ({ actor }) => getAccount(actor));

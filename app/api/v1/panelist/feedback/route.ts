@@ -1,0 +1,5 @@
+import { handle } from "@/lib/http/handler";
+import { routes } from "@/lib/http/routes";
+import { getFeedback } from "@/lib/panels/feedback";
+
+export const GET = handle(routes.getFeedback, ({ actor }) => getFeedback(actor));

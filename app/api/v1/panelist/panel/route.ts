@@ -1,0 +1,5 @@
+import { handle } from "@/lib/http/handler";
+import { routes } from "@/lib/http/routes";
+import { getPanelistPanel } from "@/lib/panels/answers";
+
+export const GET = handle(routes.getPanelistPanel, ({ actor }) => getPanelistPanel(actor));

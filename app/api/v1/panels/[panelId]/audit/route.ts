@@ -1,0 +1,5 @@
+import { handle } from "@/lib/http/handler";
+import { routes } from "@/lib/http/routes";
+import { listAuditEvents } from "@/lib/panels/audit";
+
+export const GET = handle(routes.listAuditEvents, ({ actor, params }) => listAuditEvents(actor, params.panelId));

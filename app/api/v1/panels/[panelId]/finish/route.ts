@@ -1,0 +1,5 @@
+import { handle } from "@/lib/http/handler";
+import { routes } from "@/lib/http/routes";
+import { finishPanel } from "@/lib/panels/rounds";
+
+export const POST = handle(routes.finishPanel, ({ actor, params }) => finishPanel(actor, params.panelId));

@@ -1,0 +1,5 @@
+import { handle } from "@/lib/http/handler";
+import { routes } from "@/lib/http/routes";
+import { reissueInvitation } from "@/lib/panels/invitations";
+
+export const POST = handle(routes.reissueInvitation, ({ actor, params, body }) => reissueInvitation(actor, params.panelId, params.invitationId, body));

@@ -1,0 +1,5 @@
+import { handle } from "@/lib/http/handler";
+import { routes } from "@/lib/http/routes";
+import { revokeInvitation } from "@/lib/panels/invitations";
+
+export const DELETE = handle(routes.revokeInvitation, ({ actor, params }) => revokeInvitation(actor, params.panelId, params.invitationId));

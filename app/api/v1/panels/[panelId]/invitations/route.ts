@@ -1,0 +1,6 @@
+import { handle } from "@/lib/http/handler";
+import { routes } from "@/lib/http/routes";
+import { createInvitations, listInvitations } from "@/lib/panels/invitations";
+
+export const GET = handle(routes.listInvitations, ({ actor, params }) => listInvitations(actor, params.panelId));
+export const POST = handle(routes.createInvitations, ({ actor, params, body }) => createInvitations(actor, params.panelId, body));

@@ -1,0 +1,5 @@
+import { handle } from "@/lib/http/handler";
+import { routes } from "@/lib/http/routes";
+import { getProgress } from "@/lib/panels/rounds";
+
+export const GET = handle(routes.getProgress, ({ actor, params }) => getProgress(actor, params.panelId));

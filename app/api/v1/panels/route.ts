@@ -1,0 +1,6 @@
+import { handle } from "@/lib/http/handler";
+import { routes } from "@/lib/http/routes";
+import { createPanel, listPanels } from "@/lib/panels/panels";
+
+export const GET = handle(routes.listPanels, ({ actor }) => listPanels(actor));
+export const POST = handle(routes.createPanel, ({ actor, body }) => createPanel(actor, body));

@@ -1,0 +1,6 @@
+import { handle } from "@/lib/http/handler";
+import { routes } from "@/lib/http/routes";
+import { deleteRosterMember, updateRosterMember } from "@/lib/panels/roster";
+
+export const PATCH = handle(routes.updateRosterMember, ({ actor, params, body }) => updateRosterMember(actor, params.memberId, body));
+export const DELETE = handle(routes.deleteRosterMember, ({ actor, params }) => deleteRosterMember(actor, params.memberId));

@@ -1,0 +1,5 @@
+import { handle } from "@/lib/http/handler";
+import { routes } from "@/lib/http/routes";
+import { revokeApiToken } from "@/lib/accounts/users";
+
+export const DELETE = handle(routes.revokeApiToken, ({ actor, params }) => revokeApiToken(actor, params.tokenId));

@@ -1,0 +1,76 @@
+/**
+ * Who is asking. Every domain service takes an `Actor` as its first argument and decides
+ * from it what may be done (lib/panels/access.ts). Route handlers obtain the actor from the
+ * request (lib/http/context.ts); pages from the session (lib/session.ts) or from the
+ * invitation token in the link `/p/<token>` ({@link actorFromInvitationToken}).
+ */
+import { db } from "@/lib/db";
+import { NotAuthenticatedError } from "@/lib/errors";
+import { API_TOKEN_PREFIX, hashToken, tokenMatches } from "./tokens";
+
+export type UserRole = "organiser" | "reviewer";
+
+/** A signed-in organiser or reviewer (session cookie or personal API token). */
+export interface UserActor {
+  readonly kind: "user";
+  readonly userId: string;
+  readonly role: UserRole;
+  readonly name: string;
+  readonly email: string;
+}
+
+/** A panelist, known only through their invitation (one panel). */
+export interface PanelistActor {
+  readonly kind: "panelist";
+  readonly invitationId: string;
+  readonly panelId: string;
+  readonly pseudonym: string;
+}
+
+export type Actor = UserActor | PanelistActor;
+
+function toUserActor(u: { id: string; role: string; name: string; email: string }): UserActor {
+  return { kind: "user", userId: u.id, role: u.role === "reviewer" ? "reviewer" : "organiser", name: u.name, email: u.email };
+}
+
+/** The actor for a user id (from a session); null when the user no longer exists. */
+export async function actorFromUserId(userId: string): Promise<UserActor | null> {
+  const user = await db.user.findUnique({ where: { id: userId } });
+  return user ? toUserActor(user) : null;
+}
+
+/**
+ * The actor for a personal API token (`trg_pat_…`).
+ * @throws NotAuthenticatedError when the token is unknown or revoked.
+ */
+export async function actorFromApiToken(token: string): Promise<UserActor> {
+  const row = await db.apiToken.findUnique({ where: { tokenHash: hashToken(token) }, include: { user: true } });
+  if (!row || !tokenMatches(token, row.tokenHash) || row.revokedAt) {
+    throw new NotAuthenticatedError("The API token is unknown or has been revoked.");
+  }
+  await db.apiToken.update({ where: { id: row.id }, data: { lastUsedAt: new Date() } });
+  return toUserActor(row.user);
+}
+
+/**
+ * The actor for an invitation token (the secret in `/p/<token>`, or a Bearer token on the API).
+ * @throws NotAuthenticatedError when the token is unknown, revoked (also: replaced by a
+ *   re-issued one) or expired; the message says which and what to do.
+ */
+export async function actorFromInvitationToken(token: string): Promise<PanelistActor> {
+  const row = await db.invitation.findUnique({ where: { tokenHash: hashToken(token) } });
+  if (!row || !tokenMatches(token, row.tokenHash)) {
+    throw new NotAuthenticatedError("This invitation link is not valid (it may have been replaced by a newer one).");
+  }
+  if (row.revokedAt) throw new NotAuthenticatedError("This invitation has been withdrawn by the organiser.");
+  if (row.expiresAt.getTime() <= Date.now()) {
+    throw new NotAuthenticatedError("This invitation has expired; ask the organiser for a new link.");
+  }
+  await db.invitation.update({ where: { id: row.id }, data: { lastSeenAt: new Date() } });
+  return { kind: "panelist", invitationId: row.id, panelId: row.panelId, pseudonym: row.pseudonym };
+}
+
+/** The actor for a Bearer token of either kind (API tokens carry the `trg_pat_` prefix). */
+export function actorFromBearerToken(token: string): Promise<Actor> {
+  return token.startsWith(API_TOKEN_PREFIX) ? actorFromApiToken(token) : actorFromInvitationToken(token);
+}

@@ -1,0 +1,149 @@
+/**
+ * Accounts of organisers and reviewers, and the personal API tokens of organisers.
+ */
+import { db } from "@/lib/db";
+import { ConflictError, ForbiddenError, NotFoundError } from "@/lib/errors";
+import type { Actor, UserActor, UserRole } from "./actor";
+import { dummyPasswordHash, hashPassword, verifyPassword } from "./passwords";
+import { newApiToken } from "./tokens";
+
+/** A user as shown to others (never the password hash). */
+export interface UserView {
+  readonly id: string;
+  readonly email: string;
+  readonly name: string;
+  readonly role: UserRole;
+  readonly createdAt: string;
+}
+
+export interface NewUser {
+  readonly email: string;
+  readonly name: string;
+  readonly password: string;
+  readonly role?: UserRole;
+}
+
+function view(u: { id: string; email: string; name: string; role: string; createdAt: Date }): UserView {
+  return { id: u.id, email: u.email, name: u.name, role: u.role === "reviewer" ? "reviewer" : "organiser", createdAt: u.createdAt.toISOString() };
+}
+
+/** E-mail addresses are compared case-insensitively: they are stored lower-cased. */
+function normaliseEmail(email: string): string {
+  return email.trim().toLowerCase();
+}
+
+/**
+ * Creates an organiser or reviewer account (admin CLI; no actor: whoever runs the CLI owns
+ * the database). @throws ConflictError when the e-mail is taken.
+ */
+export async function createUser(input: NewUser): Promise<UserView> {
+  const email = normaliseEmail(input.email);
+  if (await db.user.findUnique({ where: { email } })) throw new ConflictError(`A user with e-mail ${email} already exists.`);
+  const passwordHash = await hashPassword(input.password);
+  const user = await db.user.create({ data: { email, name: input.name.trim(), role: input.role ?? "organiser", passwordHash } });
+  return view(user);
+}
+
+/** True when at least one organiser account exists (the first-run page hides itself then). */
+export async function hasOrganiser(): Promise<boolean> {
+  return (await db.user.count({ where: { role: "organiser" } })) > 0;
+}
+
+/**
+ * Creates the first organiser: works only while no organiser exists (the /setup page and
+ * `POST /api/v1/setup`). The check and the insert run in one transaction.
+ * @throws ConflictError when an organiser already exists.
+ */
+export async function createFirstOrganiser(input: Omit<NewUser, "role">): Promise<UserView> {
+  const passwordHash = await hashPassword(input.password);
+  const email = normaliseEmail(input.email);
+  const user = await db.$transaction(async (tx) => {
+    if ((await tx.user.count({ where: { role: "organiser" } })) > 0) {
+      throw new ConflictError("An organiser already exists; sign in, or ask an organiser for an account.");
+    }
+    if (await tx.user.findUnique({ where: { email } })) throw new ConflictError(`A user with e-mail ${email} already exists.`);
+    return tx.user.create({ data: { email, name: input.name.trim(), role: "organiser", passwordHash } });
+  });
+  return view(user);
+}
+
+/**
+ * Checks an e-mail and password (next-auth's credentials provider). Returns the user, or null
+ * when either is wrong; an unknown e-mail costs the same scrypt work as a wrong password.
+ */
+export async function authenticate(email: string, password: string): Promise<UserView | null> {
+  const user = await db.user.findUnique({ where: { email: normaliseEmail(email) } });
+  if (!user) {
+    await verifyPassword(password, await dummyPasswordHash());
+    return null;
+  }
+  return (await verifyPassword(password, user.passwordHash)) ? view(user) : null;
+}
+
+/** The signed-in user's own account. @throws ForbiddenError for a panelist. */
+export async function getAccount(actor: Actor): Promise<UserView> {
+  const user = requireUser(actor);
+  const row = await db.user.findUnique({ where: { id: user.userId } });
+  if (!row) throw new NotFoundError("The account");
+  return view(row);
+}
+
+/** The actor as an organiser. @throws ForbiddenError for a reviewer or a panelist. */
+export function requireOrganiser(actor: Actor): UserActor {
+  if (actor.kind !== "user" || actor.role !== "organiser") throw new ForbiddenError("Only organisers may do this.");
+  return actor;
+}
+
+/** The actor as a signed-in user. @throws ForbiddenError for a panelist. */
+export function requireUser(actor: Actor): UserActor {
+  if (actor.kind !== "user") throw new ForbiddenError("Panelists have no account; this needs an organiser or reviewer.");
+  return actor;
+}
+
+export interface ApiTokenView {
+  readonly id: string;
+  readonly name: string;
+  readonly createdAt: string;
+  readonly lastUsedAt: string | null;
+  readonly revokedAt: string | null;
+}
+
+function tokenView(t: { id: string; name: string; createdAt: Date; lastUsedAt: Date | null; revokedAt: Date | null }): ApiTokenView {
+  return {
+    id: t.id,
+    name: t.name,
+    createdAt: t.createdAt.toISOString(),
+    lastUsedAt: t.lastUsedAt?.toISOString() ?? null,
+    revokedAt: t.revokedAt?.toISOString() ?? null,
+  };
+}
+
+/**
+ * Creates a personal API token for the signed-in organiser. The returned `token` is shown
+ * once: only its SHA-256 digest is stored.
+ */
+export async function createApiToken(actor: Actor, input: { name: string }): Promise<ApiTokenView & { token: string }> {
+  const user = requireOrganiser(actor);
+  const { token, tokenHash } = newApiToken();
+  const row = await db.apiToken.create({ data: { userId: user.userId, name: input.name.trim(), tokenHash } });
+  return { ...tokenView(row), token };
+}
+
+/** The organiser's API tokens (never the tokens themselves), newest first. */
+export async function listApiTokens(actor: Actor): Promise<ApiTokenView[]> {
+  const user = requireOrganiser(actor);
+  const rows = await db.apiToken.findMany({ where: { userId: user.userId }, orderBy: { createdAt: "desc" } });
+  return rows.map(tokenView);
+}
+
+/**
+ * Revokes one of the organiser's API tokens (idempotent: revoking twice keeps the first time).
+ * @throws NotFoundError when the token is not the organiser's.
+ */
+export async function revokeApiToken(actor: Actor, tokenId: string): Promise<ApiTokenView> {
+  const user = requireOrganiser(actor);
+  const row = await db.apiToken.findFirst({ where: { id: tokenId, userId: user.userId } });
+  if (!row) throw new NotFoundError("The API token");
+  const updated = row.revokedAt ? row : await db.apiToken.update({ where: { id: row.id }, data: { revokedAt: new Date() } });
+  return tokenView(updated);
+}

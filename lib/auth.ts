@@ -1,0 +1,45 @@
+/**
+ * next-auth options: a credentials provider (e-mail + password, checked with scrypt in
+ * lib/accounts/passwords.ts) and JWT sessions. The JWT carries the user id and role; every
+ * request re-reads the user from the database (lib/session.ts, lib/http/context.ts), so a
+ * deleted account loses access at once.
+ */
+import NextAuth, { type NextAuthOptions } from "next-auth";
+import CredentialsProvider from "next-auth/providers/credentials";
+import { authenticate } from "@/lib/accounts/users";
+
+export const authOptions: NextAuthOptions = {
+  session: { strategy: "jwt", maxAge: 12 * 60 * 60 },
+  pages: { signIn: "/sign-in" },
+  providers: [
+    CredentialsProvider({
+      name: "E-mail and password",
+      credentials: {
+        email: { label: "E-mail", type: "email" },
+        password: { label: "Password", type: "password" },
+      },
+      async authorize(credentials) {
+        const email = typeof credentials?.email === "string" ? credentials.email : "";
+        const password = typeof credentials?.password === "string" ? credentials.password : "";
+        if (!email || !password) return null;
+        const user = await authenticate(email, password);
+        return user ? { id: user.id, email: user.email, name: user.name, role: user.role } : null;
+      },
+    }),
+  ],
+  callbacks: {
+    jwt({ token, user }) {
+      if (user) {
+        token.sub = user.id;
+        token.role = (user as { role?: string }).role;
+      }
+      return token;
+    },
+    session({ session, token }) {
+      return { ...session, user: { ...session.user, id: token.sub, role: token.role } };
+    },
+  },
+};
+
+/** The next-auth route handler (re-exported by app/api/auth/[...nextauth]/route.ts). */
+export const handler = NextAuth(authOptions);

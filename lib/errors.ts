@@ -1,0 +1,58 @@
+/**
+ * Domain errors. Services throw these; lib/http/problem.ts maps each to its HTTP status and an
+ * `application/problem+json` body (RFC 9457). Anything that is not a DomainError (or a zod
+ * error) becomes a 500 that reveals nothing.
+ */
+
+/** One offending input field, named by its path ("questions.0.lowerBound"). */
+export interface FieldError {
+  readonly field: string;
+  readonly message: string;
+}
+
+export class DomainError extends Error {
+  constructor(
+    readonly status: number,
+    readonly title: string,
+    message: string,
+    readonly errors: readonly FieldError[] = [],
+  ) {
+    super(message);
+    this.name = new.target.name;
+  }
+}
+
+/** 401: no valid credentials (no session, unknown / revoked / expired token). */
+export class NotAuthenticatedError extends DomainError {
+  constructor(message = "Sign in, or send an API token or invitation token as 'Authorization: Bearer <token>'.") {
+    super(401, "Not authenticated", message);
+  }
+}
+
+/** 403: authenticated, but this actor may not do this. */
+export class ForbiddenError extends DomainError {
+  constructor(message = "You are signed in but may not do this.") {
+    super(403, "Forbidden", message);
+  }
+}
+
+/** 404: no such thing, or not visible to this actor (existence is not revealed). */
+export class NotFoundError extends DomainError {
+  constructor(what: string) {
+    super(404, "Not found", `${what} was not found.`);
+  }
+}
+
+/** 409: the request conflicts with the current state (round closed, panel finished, …). */
+export class ConflictError extends DomainError {
+  constructor(message: string) {
+    super(409, "Conflict", message);
+  }
+}
+
+/** 422: well-formed request whose content breaks a domain rule; names the fields. */
+export class InvalidInputError extends DomainError {
+  constructor(errors: readonly FieldError[], message = "The request has invalid fields.") {
+    super(422, "Invalid input", message, errors);
+  }
+}

@@ -1,0 +1,102 @@
+/**
+ * The OpenAPI 3.1 document of the JSON API, generated from the route table
+ * (lib/http/routes.ts) and its zod schemas with zod 4's `z.toJSONSchema` (JSON Schema
+ * draft 2020-12, the dialect OpenAPI 3.1 uses). Request bodies are described as input
+ * (defaults make fields optional), responses as output.
+ */
+import { z } from "zod";
+import { problem } from "@/lib/validation/outputs";
+import { routes, type RouteDef } from "./routes";
+
+type Json = Record<string, unknown>;
+
+function schemaOf(s: z.ZodType, io: "input" | "output"): Json {
+  const { $schema: _ignored, ...rest } = z.toJSONSchema(s, { target: "draft-2020-12", io, unrepresentable: "any" }) as Json;
+  return rest;
+}
+
+const STATUS_TEXT: Record<number, string> = {
+  200: "OK",
+  201: "Created",
+  400: "The body is not JSON",
+  401: "Not authenticated: no, unknown, revoked or expired credentials",
+  403: "Authenticated but not allowed",
+  404: "Not found, or not visible to you",
+  409: "Conflicts with the current state (round not open, panel finished, …)",
+  422: "Invalid input; `errors` names each field",
+};
+
+function operation(r: RouteDef): Json {
+  const parameters: Json[] = [];
+  if (r.params) {
+    for (const [name, schema] of Object.entries(r.params.shape)) {
+      parameters.push({ name, in: "path", required: true, schema: schemaOf(schema as z.ZodType, "input") });
+    }
+  }
+  if (r.idempotent) {
+    parameters.push({
+      name: "Idempotency-Key",
+      in: "header",
+      required: false,
+      description: "A retried request with the same key returns the version stored the first time.",
+      schema: { type: "string", maxLength: 200 },
+    });
+  }
+  const problemRef = { $ref: "#/components/schemas/Problem" };
+  const responses: Json = {
+    [String(r.status)]: { description: STATUS_TEXT[r.status], content: { "application/json": { schema: schemaOf(r.response, "output") } } },
+  };
+  const errs = new Set<number>(r.errors);
+  if (r.body) errs.add(400);
+  for (const s of [...errs].sort()) {
+    responses[String(s)] = { description: STATUS_TEXT[s] ?? "Error", content: { "application/problem+json": { schema: problemRef } } };
+  }
+  responses["500"] = { description: "Unexpected server error (reveals nothing)", content: { "application/problem+json": { schema: problemRef } } };
+  return {
+    operationId: r.operationId,
+    summary: r.summary,
+    tags: [r.tag],
+    security: r.auth === "none" ? [] : r.auth === "panelist" ? [{ invitationToken: [] }] : [{ apiToken: [] }, { session: [] }],
+    ...(parameters.length > 0 ? { parameters } : {}),
+    // An empty body counts as {} (lib/http/handler.ts), so a body whose fields are all optional is optional.
+    ...(r.body ? { requestBody: { required: !r.body.safeParse({}).success, content: { "application/json": { schema: schemaOf(r.body, "input") } } } } : {}),
+    responses,
+  };
+}
+
+/** The OpenAPI 3.1 document (a plain object, ready for JSON.stringify). */
+export function openApiDocument(): Json {
+  const paths: Record<string, Json> = {};
+  for (const r of Object.values(routes) as RouteDef[]) {
+    paths[r.path] ??= {};
+    paths[r.path][r.method.toLowerCase()] = operation(r);
+  }
+  paths["/api/v1/openapi.json"] = {
+    get: {
+      operationId: "getOpenApiDocument",
+      summary: "This document",
+      tags: ["setup"],
+      security: [],
+      responses: { "200": { description: "OK", content: { "application/json": { schema: { type: "object" } } } } },
+    },
+  };
+  return {
+    openapi: "3.1.0",
+    info: {
+      title: "Triangulate API",
+      version: "1",
+      description:
+        "Delphi-method expert panels: organisers run panels, panelists answer with their invitation token. Errors are application/problem+json (RFC 9457).",
+    },
+    servers: [{ url: "/" }],
+    paths,
+    components: {
+      schemas: { Problem: schemaOf(problem, "output") },
+      securitySchemes: {
+        apiToken: { type: "http", scheme: "bearer", description: "An organiser's personal API token (trg_pat_…)." },
+        invitationToken: { type: "http", scheme: "bearer", description: "A panelist's invitation token (the secret in /p/<token>)." },
+        session: { type: "apiKey", in: "cookie", name: "next-auth.session-token", description: "The web app's session cookie." },
+      },
+    },
+  };
+}

@@ -1,0 +1,58 @@
+/**
+ * The one place that resolves "who is asking and what may they do with this panel".
+ *
+ * - An organiser reaches the panels they own, and panels shared with them as organiser
+ *   (co-organiser: full control); a panel shared with an organiser as reviewer is read-only.
+ * - A reviewer reaches only panels shared with them, read-only.
+ * - A panelist reaches only their own invitation's panel, and only through the panelist
+ *   services (lib/panels/answers.ts, lib/panels/feedback.ts): the organiser-side services
+ *   refuse panelists with 403 whatever the panel.
+ * A panel the user cannot reach is reported as not found (404), so its existence is not
+ * revealed; a panel the user can read but not change gives 403 on changes.
+ */
+import { db } from "@/lib/db";
+import { ForbiddenError, NotFoundError } from "@/lib/errors";
+import type { Actor, PanelistActor, UserActor } from "@/lib/accounts/actor";
+import type { Panel } from "@/lib/generated/prisma/client";
+
+/** What the actor is to the panel. */
+export type PanelRole = "owner" | "organiser" | "reviewer";
+
+export interface PanelAccess {
+  readonly actor: UserActor;
+  readonly panel: Panel;
+  readonly role: PanelRole;
+  /** owner or co-organiser */
+  readonly canManage: boolean;
+}
+
+/** What the caller needs: "read" (reports, statistics) or "manage" (everything else). */
+export type PanelNeed = "read" | "manage";
+
+/**
+ * Resolves the actor's access to a panel and checks it covers `need`.
+ * @throws ForbiddenError for a panelist (any panel), or for a read-only user asking to manage.
+ * @throws NotFoundError when the panel does not exist or the user cannot reach it.
+ */
+export async function authorisePanel(actor: Actor, panelId: string, need: PanelNeed): Promise<PanelAccess> {
+  if (actor.kind !== "user") throw new ForbiddenError("Panelists can only use the panelist pages and /api/v1/panelist.");
+  const panel = await db.panel.findUnique({ where: { id: panelId }, include: { shares: { where: { userId: actor.userId } } } });
+  if (!panel) throw new NotFoundError("The panel");
+  const share = panel.shares[0];
+  let role: PanelRole | null = null;
+  if (actor.role === "organiser" && panel.ownerId === actor.userId) role = "owner";
+  else if (share) role = actor.role === "organiser" && share.role === "organiser" ? "organiser" : "reviewer";
+  if (!role) throw new NotFoundError("The panel");
+  const canManage = role === "owner" || role === "organiser";
+  if (need === "manage" && !canManage) throw new ForbiddenError("You have read-only access to this panel.");
+  const { shares: _shares, ...plain } = panel;
+  return { actor, panel: plain, role, canManage };
+}
+
+/** The actor as a panelist. @throws ForbiddenError for a user (organisers do not answer). */
+export function requirePanelist(actor: Actor): PanelistActor {
+  if (actor.kind !== "panelist") {
+    throw new ForbiddenError("Only panelists (with an invitation token) can use this; organisers and reviewers do not answer.");
+  }
+  return actor;
+}

@@ -1,0 +1,257 @@
+/**
+ * The panelist's side: their panel, questions and answers, and submitting an answer.
+ *
+ * Answers are accepted only while a round is open (its deadline is checked first, lazily).
+ * Every change is a new version row (nothing is overwritten), written in one transaction
+ * before the answer is acknowledged. An idempotency key (the `Idempotency-Key` header) makes a
+ * retried request return the version it stored the first time.
+ *
+ * From round 2 on, a panelist whose final answer to a shared-quantity question in the previous
+ * round lay outside that round's interquartile range (below Q1 or above Q3, type 7) must give a
+ * rationale: Delphi feedback asks those outside the IQR to explain (DESIGN.md workflow step 4).
+ * Sum-of-parts answers estimate different parts, so the rule does not apply to them.
+ */
+import { db } from "@/lib/db";
+import { ConflictError, InvalidInputError, type FieldError } from "@/lib/errors";
+import type { Actor, PanelistActor } from "@/lib/accounts/actor";
+import type { Answer, Prisma, Question } from "@/lib/generated/prisma/client";
+import type { AnswerInput } from "@/lib/validation/inputs";
+import { requirePanelist } from "./access";
+import { finalAnswers, settleDeadlines } from "./round-closing";
+import { currentRound, questionView, roundView, type QuestionView, type RoundView } from "./panels";
+import type { QuestionStatistics } from "./round-statistics";
+
+type Tx = Prisma.TransactionClient;
+
+export interface AnswerView {
+  readonly questionId: string;
+  readonly roundNumber: number;
+  readonly version: number;
+  readonly value: number;
+  readonly low: number | null;
+  readonly high: number | null;
+  readonly rationale: string;
+  readonly answeredAt: string;
+}
+
+export interface PanelistQuestionView extends QuestionView {
+  /** True when this round's answer must come with a rationale (see the module comment). */
+  readonly rationaleRequired: boolean;
+  /** Why, in words for the panelist (null when not required). */
+  readonly rationaleReason: string | null;
+  /** The latest version of the panelist's answer in the current round. */
+  readonly answer: AnswerView | null;
+  /** All versions in the current round, oldest first. */
+  readonly versions: readonly AnswerView[];
+}
+
+export interface PanelistPanelView {
+  readonly panel: { readonly title: string; readonly description: string; readonly status: "draft" | "running" | "finished" };
+  /** The panelist's own pseudonym. */
+  readonly pseudonym: string;
+  readonly round: RoundView | null;
+  readonly acceptingAnswers: boolean;
+  readonly questions: readonly PanelistQuestionView[];
+}
+
+function answerView(a: Answer, roundNumber: number): AnswerView {
+  return {
+    questionId: a.questionId,
+    roundNumber,
+    version: a.version,
+    value: a.value,
+    low: a.low,
+    high: a.high,
+    rationale: a.rationale,
+    answeredAt: a.createdAt.toISOString(),
+  };
+}
+
+/**
+ * For round `roundNumber` (≥ 2): the questions on which the panelist's final answer in the
+ * previous round lay outside that round's IQR, with the reason to show.
+ */
+export async function explanationsRequired(
+  tx: Tx,
+  panelist: PanelistActor,
+  roundNumber: number,
+): Promise<Map<string, string>> {
+  const required = new Map<string, string>();
+  if (roundNumber < 2) return required;
+  const prev = await tx.round.findUnique({
+    where: { panelId_number: { panelId: panelist.panelId, number: roundNumber - 1 } },
+    include: { statistics: true },
+  });
+  if (!prev || prev.status !== "closed") return required;
+  const finals = await finalAnswers(tx, prev.id);
+  for (const row of prev.statistics) {
+    const s = JSON.parse(row.data) as QuestionStatistics;
+    if (s.aggregation !== "shared" || !s.values || s.values.q1 === null || s.values.q3 === null) continue;
+    const mine = finals.get(row.questionId)?.find((a) => a.invitationId === panelist.invitationId);
+    if (!mine) continue;
+    if (mine.value < s.values.q1) {
+      required.set(row.questionId, `Your round ${prev.number} answer (${mine.value}) was below the group's lower quartile (${s.values.q1}); please explain your reasoning.`);
+    } else if (mine.value > s.values.q3) {
+      required.set(row.questionId, `Your round ${prev.number} answer (${mine.value}) was above the group's upper quartile (${s.values.q3}); please explain your reasoning.`);
+    }
+  }
+  return required;
+}
+
+/** The panelist's panel: questions, the current round and their own answers in it. */
+export async function getPanelistPanel(actor: Actor): Promise<PanelistPanelView> {
+  const me = requirePanelist(actor);
+  await settleDeadlines(me.panelId);
+  const panel = await db.panel.findUniqueOrThrow({
+    where: { id: me.panelId },
+    include: { questions: { orderBy: { position: "asc" } }, rounds: true },
+  });
+  const round = currentRound(panel.rounds.filter((r) => r.status !== "draft"));
+  const versions = round
+    ? await db.answer.findMany({ where: { roundId: round.id, invitationId: me.invitationId }, orderBy: { version: "asc" } })
+    : [];
+  const accepting = round?.status === "open" && panel.status !== "finished";
+  const required = accepting && round ? await explanationsRequired(db, me, round.number) : new Map<string, string>();
+  return {
+    panel: { title: panel.title, description: panel.description, status: panel.status as PanelistPanelView["panel"]["status"] },
+    pseudonym: me.pseudonym,
+    round: round ? roundView(round) : null,
+    acceptingAnswers: accepting,
+    questions: panel.questions.map((q) => {
+      const mine = versions.filter((v) => v.questionId === q.id).map((v) => answerView(v, round!.number));
+      return {
+        ...questionView(q),
+        rationaleRequired: required.has(q.id),
+        rationaleReason: required.get(q.id) ?? null,
+        answer: mine.at(-1) ?? null,
+        versions: mine,
+      };
+    }),
+  };
+}
+
+/** Field errors of an answer against its question (format, order, plausible bounds). */
+export function answerFieldErrors(q: Pick<Question, "answerFormat" | "lowerBound" | "upperBound" | "unit">, input: AnswerInput): FieldError[] {
+  const errors: FieldError[] = [];
+  const bounds = `between ${q.lowerBound} and ${q.upperBound} ${q.unit} (the question's plausible bounds)`;
+  const inBounds = (field: string, v: number | undefined) => {
+    if (v !== undefined && (v < q.lowerBound || v > q.upperBound)) errors.push({ field, message: `must be ${bounds}` });
+  };
+  if (q.answerFormat === "three-point") {
+    if (input.low === undefined) errors.push({ field: "low", message: "a three-point answer needs a low value (10th percentile)" });
+    if (input.high === undefined) errors.push({ field: "high", message: "a three-point answer needs a high value (90th percentile)" });
+    if (input.low !== undefined && input.low > input.value) errors.push({ field: "low", message: "low must not be above the most likely value" });
+    if (input.high !== undefined && input.high < input.value) errors.push({ field: "high", message: "high must not be below the most likely value" });
+    inBounds("low", input.low);
+    inBounds("high", input.high);
+  } else {
+    if (input.low !== undefined) errors.push({ field: "low", message: "this question takes a single value, not a low value" });
+    if (input.high !== undefined) errors.push({ field: "high", message: "this question takes a single value, not a high value" });
+  }
+  inBounds("value", input.value);
+  return errors;
+}
+
+function sameAnswer(a: Answer, input: AnswerInput): boolean {
+  return (
+    a.questionId === input.questionId &&
+    a.value === input.value &&
+    a.low === (input.low ?? null) &&
+    a.high === (input.high ?? null) &&
+    a.rationale === input.rationale
+  );
+}
+
+function isUniqueViolation(err: unknown): boolean {
+  return typeof err === "object" && err !== null && (err as { code?: string }).code === "P2002";
+}
+
+async function replay(invitationId: string, key: string, input: AnswerInput): Promise<{ answer: AnswerView; replayed: true } | null> {
+  const prior = await db.answer.findUnique({
+    where: { invitationId_idempotencyKey: { invitationId, idempotencyKey: key } },
+    include: { round: true },
+  });
+  if (!prior) return null;
+  if (!sameAnswer(prior, input)) {
+    throw new ConflictError("This Idempotency-Key was already used for a different answer; use a new key for a new answer.");
+  }
+  return { answer: answerView(prior, prior.round.number), replayed: true };
+}
+
+/**
+ * Stores a new version of the panelist's answer to one question in the open round.
+ * Returns the stored version; `replayed` is true when the idempotency key had already stored it.
+ * @throws ConflictError (409) when no round is open (late answers, or round 1 not opened yet),
+ *   the panel is finished, or the key was used for a different answer.
+ * @throws InvalidInputError (422) naming the field: unknown question, wrong format, low/high out
+ *   of order, outside the plausible bounds, or a missing rationale where one is required.
+ */
+export async function submitAnswer(
+  actor: Actor,
+  input: AnswerInput,
+  options: { idempotencyKey?: string } = {},
+): Promise<{ answer: AnswerView; replayed: boolean }> {
+  const me = requirePanelist(actor);
+  await settleDeadlines(me.panelId);
+  if (options.idempotencyKey) {
+    const prior = await replay(me.invitationId, options.idempotencyKey, input);
+    if (prior) return prior;
+  }
+  const panel = await db.panel.findUniqueOrThrow({ where: { id: me.panelId } });
+  if (panel.status === "finished") throw new ConflictError("The panel is finished; answers are no longer accepted.");
+  const question = await db.question.findFirst({ where: { id: input.questionId, panelId: me.panelId } });
+  if (!question) throw new InvalidInputError([{ field: "questionId", message: "no such question in your panel" }]);
+  const round = await db.round.findFirst({ where: { panelId: me.panelId, status: "open" } });
+  if (!round) {
+    const last = await db.round.findFirst({ where: { panelId: me.panelId, status: "closed" }, orderBy: { number: "desc" } });
+    throw new ConflictError(
+      last
+        ? `Round ${last.number} closed at ${last.closedAt?.toISOString()}; answers are no longer accepted. Wait for the next round to open.`
+        : "Round 1 has not opened yet; answers are accepted once the organiser opens it.",
+    );
+  }
+  const errors = answerFieldErrors(question, input);
+  if (errors.length > 0) throw new InvalidInputError(errors, "The answer was not stored: correct the fields named below.");
+
+  const attempt = () =>
+    db.$transaction(async (tx) => {
+      const fresh = await tx.round.findUniqueOrThrow({ where: { id: round.id } });
+      if (fresh.status !== "open" || (fresh.deadline && fresh.deadline.getTime() <= Date.now())) {
+        throw new ConflictError(`Round ${round.number} has closed; answers are no longer accepted.`);
+      }
+      const required = await explanationsRequired(tx, me, round.number);
+      if (required.has(question.id) && input.rationale.length === 0) {
+        throw new InvalidInputError([{ field: "rationale", message: required.get(question.id)! }], "A rationale is required for this answer.");
+      }
+      const last = await tx.answer.aggregate({
+        where: { roundId: round.id, questionId: question.id, invitationId: me.invitationId },
+        _max: { version: true },
+      });
+      return tx.answer.create({
+        data: {
+          roundId: round.id,
+          questionId: question.id,
+          invitationId: me.invitationId,
+          version: (last._max.version ?? 0) + 1,
+          value: input.value,
+          low: input.low ?? null,
+          high: input.high ?? null,
+          rationale: input.rationale,
+          idempotencyKey: options.idempotencyKey ?? null,
+        },
+      });
+    });
+  for (let tries = 0; ; tries++) {
+    try {
+      const stored = await attempt();
+      return { answer: answerView(stored, round.number), replayed: false };
+    } catch (err) {
+      if (!isUniqueViolation(err) || tries >= 2) throw err;
+      // A concurrent request won: the same idempotency key (replay it) or the same version (retry).
+      if (options.idempotencyKey) {
+        const prior = await replay(me.invitationId, options.idempotencyKey, input);
+        if (prior) return prior;
+      }
+    }
+  }
+}

@@ -1,0 +1,317 @@
+/**
+ * Panels and their questions, stopping rules and sharing.
+ *
+ * A new panel starts as `draft` with round 1 in draft; it becomes `running` when round 1
+ * opens and `finished` when the organiser finishes it (lib/panels/rounds.ts). Questions can
+ * be added, changed and removed only while the panel is a draft: once answers exist, a
+ * changed question would no longer match them.
+ */
+import { db } from "@/lib/db";
+import { ConflictError, ForbiddenError, InvalidInputError, NotFoundError } from "@/lib/errors";
+import type { Actor } from "@/lib/accounts/actor";
+import { requireOrganiser } from "@/lib/accounts/users";
+import type { Panel, Question, Round } from "@/lib/generated/prisma/client";
+import type { PanelCreate, PanelUpdate, QuestionInput, QuestionUpdate, ShareInput } from "@/lib/validation/inputs";
+import {
+  STOPPING_RULE_DEFAULTS,
+  defaultConsensusThreshold,
+  type ConsensusMeasure,
+} from "@/lib/stats/stopping-rules";
+import { authorisePanel, type PanelRole } from "./access";
+import { recordAudit } from "./audit";
+import { settleDeadlines } from "./round-closing";
+
+export interface QuestionView {
+  readonly id: string;
+  readonly position: number;
+  readonly text: string;
+  readonly unit: string;
+  readonly targetPeriod: string;
+  readonly lowerBound: number;
+  readonly upperBound: number;
+  readonly answerFormat: "single" | "three-point";
+  readonly aggregation: "shared" | "sum-of-parts";
+}
+
+export interface RoundView {
+  readonly number: number;
+  readonly status: "draft" | "open" | "closed";
+  readonly deadline: string | null;
+  readonly openedAt: string | null;
+  readonly closedAt: string | null;
+}
+
+export interface PanelRules {
+  readonly consensusMeasure: ConsensusMeasure;
+  readonly consensusThreshold: number;
+  readonly stabilityThreshold: number;
+  readonly roundLimit: number;
+}
+
+export interface PanelSummary {
+  readonly id: string;
+  readonly title: string;
+  readonly status: "draft" | "running" | "finished";
+  readonly role: PanelRole;
+  readonly questionCount: number;
+  readonly currentRound: RoundView | null;
+  readonly createdAt: string;
+}
+
+export interface PanelView extends PanelRules {
+  readonly id: string;
+  readonly title: string;
+  readonly description: string;
+  readonly status: "draft" | "running" | "finished";
+  readonly role: PanelRole;
+  readonly questions: readonly QuestionView[];
+  readonly rounds: readonly RoundView[];
+  readonly createdAt: string;
+  readonly updatedAt: string;
+}
+
+export function questionView(q: Question): QuestionView {
+  return {
+    id: q.id,
+    position: q.position,
+    text: q.text,
+    unit: q.unit,
+    targetPeriod: q.targetPeriod,
+    lowerBound: q.lowerBound,
+    upperBound: q.upperBound,
+    answerFormat: q.answerFormat === "three-point" ? "three-point" : "single",
+    aggregation: q.aggregation === "sum-of-parts" ? "sum-of-parts" : "shared",
+  };
+}
+
+export function roundView(r: Round): RoundView {
+  return {
+    number: r.number,
+    status: r.status as RoundView["status"],
+    deadline: r.deadline?.toISOString() ?? null,
+    openedAt: r.openedAt?.toISOString() ?? null,
+    closedAt: r.closedAt?.toISOString() ?? null,
+  };
+}
+
+export function panelRules(p: Panel): PanelRules {
+  return {
+    consensusMeasure: p.consensusMeasure === "relative-iqr" ? "relative-iqr" : "cv",
+    consensusThreshold: p.consensusThreshold,
+    stabilityThreshold: p.stabilityThreshold,
+    roundLimit: p.roundLimit,
+  };
+}
+
+/** The round panelists are working on or last saw: the open one, else the highest number. */
+export function currentRound<R extends { number: number; status: string }>(rounds: readonly R[]): R | null {
+  return rounds.find((r) => r.status === "open") ?? [...rounds].sort((a, b) => b.number - a.number)[0] ?? null;
+}
+
+async function loadPanelView(panelId: string, role: PanelRole): Promise<PanelView> {
+  const p = await db.panel.findUniqueOrThrow({
+    where: { id: panelId },
+    include: { questions: { orderBy: { position: "asc" } }, rounds: { orderBy: { number: "asc" } } },
+  });
+  return {
+    id: p.id,
+    title: p.title,
+    description: p.description,
+    status: p.status as PanelView["status"],
+    role,
+    ...panelRules(p),
+    questions: p.questions.map(questionView),
+    rounds: p.rounds.map(roundView),
+    createdAt: p.createdAt.toISOString(),
+    updatedAt: p.updatedAt.toISOString(),
+  };
+}
+
+/** Panels the user can reach (owned, or shared with them), newest first. */
+export async function listPanels(actor: Actor): Promise<PanelSummary[]> {
+  if (actor.kind !== "user") throw new ForbiddenError("Panelists can only use the panelist pages and /api/v1/panelist.");
+  const where =
+    actor.role === "organiser"
+      ? { OR: [{ ownerId: actor.userId }, { shares: { some: { userId: actor.userId } } }] }
+      : { shares: { some: { userId: actor.userId } } };
+  const panels = await db.panel.findMany({
+    where,
+    orderBy: { createdAt: "desc" },
+    include: { rounds: true, shares: { where: { userId: actor.userId } }, _count: { select: { questions: true } } },
+  });
+  for (const p of panels) await settleDeadlines(p.id);
+  return panels.map((p) => {
+    const share = p.shares[0];
+    const role: PanelRole =
+      actor.role === "organiser" && p.ownerId === actor.userId
+        ? "owner"
+        : actor.role === "organiser" && share?.role === "organiser"
+          ? "organiser"
+          : "reviewer";
+    const round = currentRound(p.rounds);
+    return {
+      id: p.id,
+      title: p.title,
+      status: p.status as PanelSummary["status"],
+      role,
+      questionCount: p._count.questions,
+      currentRound: round ? roundView(round) : null,
+      createdAt: p.createdAt.toISOString(),
+    };
+  });
+}
+
+/** One panel with its questions, rules and rounds (organisers and reviewers of the panel). */
+export async function getPanel(actor: Actor, panelId: string): Promise<PanelView> {
+  const access = await authorisePanel(actor, panelId, "read");
+  await settleDeadlines(panelId);
+  return loadPanelView(panelId, access.role);
+}
+
+/**
+ * Creates a panel owned by the organiser, with its questions (in the given order) and round 1
+ * as a draft. Omitted rules take STOPPING_RULE_DEFAULTS.
+ */
+export async function createPanel(actor: Actor, input: PanelCreate): Promise<PanelView> {
+  const user = requireOrganiser(actor);
+  const measure = input.consensusMeasure ?? STOPPING_RULE_DEFAULTS.consensusMeasure.value;
+  const panel = await db.$transaction(async (tx) => {
+    const p = await tx.panel.create({
+      data: {
+        ownerId: user.userId,
+        title: input.title,
+        description: input.description,
+        consensusMeasure: measure,
+        consensusThreshold: input.consensusThreshold ?? defaultConsensusThreshold(measure),
+        stabilityThreshold: input.stabilityThreshold ?? STOPPING_RULE_DEFAULTS.stabilityThreshold.value,
+        roundLimit: input.roundLimit ?? STOPPING_RULE_DEFAULTS.roundLimit.value,
+        questions: { create: input.questions.map((q, i) => ({ ...q, position: i + 1 })) },
+        rounds: { create: { number: 1, status: "draft" } },
+      },
+    });
+    await recordAudit(tx, { actorId: user.userId, panelId: p.id, action: "panel.created", detail: { title: p.title } });
+    return p;
+  });
+  return loadPanelView(panel.id, "owner");
+}
+
+/** Changes the title, description or stopping rules (not once the panel is finished). */
+export async function updatePanel(actor: Actor, panelId: string, input: PanelUpdate): Promise<PanelView> {
+  const access = await authorisePanel(actor, panelId, "manage");
+  if (access.panel.status === "finished") throw new ConflictError("The panel is finished; it can no longer be changed.");
+  await db.$transaction(async (tx) => {
+    await tx.panel.update({ where: { id: panelId }, data: input });
+    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "panel.updated", detail: { ...input } });
+  });
+  return loadPanelView(panelId, access.role);
+}
+
+/** Deletes a panel with everything in it (its owner only). */
+export async function deletePanel(actor: Actor, panelId: string): Promise<{ id: string; deleted: true }> {
+  const access = await authorisePanel(actor, panelId, "manage");
+  if (access.role !== "owner") throw new ForbiddenError("Only the panel's owner can delete it.");
+  await db.$transaction(async (tx) => {
+    await tx.panel.delete({ where: { id: panelId } });
+    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "panel.deleted", detail: { title: access.panel.title } });
+  });
+  return { id: panelId, deleted: true };
+}
+
+function requireDraft(panel: Panel): void {
+  if (panel.status !== "draft") {
+    throw new ConflictError("Questions are fixed once round 1 has opened; create a new panel to ask something else.");
+  }
+}
+
+/** Adds a question at the end (draft panels only). */
+export async function addQuestion(actor: Actor, panelId: string, input: QuestionInput): Promise<QuestionView> {
+  const access = await authorisePanel(actor, panelId, "manage");
+  requireDraft(access.panel);
+  const q = await db.$transaction(async (tx) => {
+    const last = await tx.question.aggregate({ where: { panelId }, _max: { position: true } });
+    const created = await tx.question.create({ data: { ...input, panelId, position: (last._max.position ?? 0) + 1 } });
+    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "question.created", detail: { questionId: created.id, ...input } });
+    return created;
+  });
+  return questionView(q);
+}
+
+/** Changes a question (draft panels only); the merged bounds must stay in order. */
+export async function updateQuestion(actor: Actor, panelId: string, questionId: string, input: QuestionUpdate): Promise<QuestionView> {
+  const access = await authorisePanel(actor, panelId, "manage");
+  const existing = await db.question.findFirst({ where: { id: questionId, panelId } });
+  if (!existing) throw new NotFoundError("The question");
+  requireDraft(access.panel);
+  const lower = input.lowerBound ?? existing.lowerBound;
+  const upper = input.upperBound ?? existing.upperBound;
+  if (!(lower < upper)) throw new InvalidInputError([{ field: "lowerBound", message: "lower bound must be below the upper bound" }]);
+  const q = await db.$transaction(async (tx) => {
+    const updated = await tx.question.update({ where: { id: questionId }, data: input });
+    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "question.updated", detail: { questionId, ...input } });
+    return updated;
+  });
+  return questionView(q);
+}
+
+/** Removes a question (draft panels only). */
+export async function deleteQuestion(actor: Actor, panelId: string, questionId: string): Promise<{ id: string; deleted: true }> {
+  const access = await authorisePanel(actor, panelId, "manage");
+  const existing = await db.question.findFirst({ where: { id: questionId, panelId } });
+  if (!existing) throw new NotFoundError("The question");
+  requireDraft(access.panel);
+  await db.$transaction(async (tx) => {
+    await tx.question.delete({ where: { id: questionId } });
+    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "question.deleted", detail: { questionId, text: existing.text } });
+  });
+  return { id: questionId, deleted: true };
+}
+
+export interface ShareView {
+  readonly userId: string;
+  readonly name: string;
+  readonly email: string;
+  readonly role: "organiser" | "reviewer";
+}
+
+/** Who else can reach the panel (organisers of the panel). */
+export async function listShares(actor: Actor, panelId: string): Promise<ShareView[]> {
+  await authorisePanel(actor, panelId, "manage");
+  const rows = await db.panelShare.findMany({ where: { panelId }, include: { user: true } });
+  return rows.map((s) => ({ userId: s.userId, name: s.user.name, email: s.user.email, role: s.role === "organiser" ? "organiser" : "reviewer" }));
+}
+
+/**
+ * Shares the panel with an existing user as co-organiser or reviewer (owner only). A reviewer
+ * account always gets read-only access whatever `role` says.
+ * @throws NotFoundError when no user has that e-mail.
+ */
+export async function sharePanel(actor: Actor, panelId: string, input: ShareInput): Promise<ShareView> {
+  const access = await authorisePanel(actor, panelId, "manage");
+  if (access.role !== "owner") throw new ForbiddenError("Only the panel's owner can share it.");
+  const user = await db.user.findUnique({ where: { email: input.email.trim().toLowerCase() } });
+  if (!user) throw new NotFoundError(`A user with e-mail ${input.email}`);
+  if (user.id === access.panel.ownerId) throw new ConflictError("The owner already has full access.");
+  const role = user.role === "reviewer" ? "reviewer" : input.role;
+  await db.$transaction(async (tx) => {
+    await tx.panelShare.upsert({
+      where: { panelId_userId: { panelId, userId: user.id } },
+      create: { panelId, userId: user.id, role },
+      update: { role },
+    });
+    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "panel.shared", detail: { userId: user.id, role } });
+  });
+  return { userId: user.id, name: user.name, email: user.email, role };
+}
+
+/** Withdraws a share (owner only). */
+export async function unsharePanel(actor: Actor, panelId: string, userId: string): Promise<{ userId: string; deleted: true }> {
+  const access = await authorisePanel(actor, panelId, "manage");
+  if (access.role !== "owner") throw new ForbiddenError("Only the panel's owner can change who it is shared with.");
+  const share = await db.panelShare.findUnique({ where: { panelId_userId: { panelId, userId } } });
+  if (!share) throw new NotFoundError("The share");
+  await db.$transaction(async (tx) => {
+    await tx.panelShare.delete({ where: { panelId_userId: { panelId, userId } } });
+    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "panel.unshared", detail: { userId } });
+  });
+  return { userId, deleted: true };
+}

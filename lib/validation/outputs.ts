@@ -1,0 +1,264 @@
+/**
+ * zod 4 schemas of what the API returns. They describe the domain services' return types
+ * (lib/panels, lib/accounts) for the OpenAPI document; tests/app checks responses against
+ * the document's shapes through real requests.
+ */
+import { z } from "zod";
+import { AGGREGATIONS, ANSWER_FORMATS, CONSENSUS_MEASURES, USER_ROLES } from "./inputs";
+
+const num = z.number();
+const numOrNull = z.number().nullable();
+const dateTime = z.string().describe("ISO 8601 date-time");
+const dateTimeOrNull = dateTime.nullable();
+
+export const problem = z
+  .object({
+    type: z.string(),
+    title: z.string(),
+    status: z.number().int(),
+    detail: z.string(),
+    instance: z.string().optional(),
+    errors: z.array(z.object({ field: z.string().describe("dotted path, e.g. questions.0.lowerBound"), message: z.string() })).optional(),
+  })
+  .describe("RFC 9457 problem details");
+
+export const user = z.object({ id: z.string(), email: z.string(), name: z.string(), role: z.enum(USER_ROLES), createdAt: dateTime });
+
+export const apiToken = z.object({ id: z.string(), name: z.string(), createdAt: dateTime, lastUsedAt: dateTimeOrNull, revokedAt: dateTimeOrNull });
+export const issuedApiToken = apiToken.extend({ token: z.string().describe("Shown once; send as 'Authorization: Bearer <token>'.") });
+
+export const question = z.object({
+  id: z.string(),
+  position: z.number().int(),
+  text: z.string(),
+  unit: z.string(),
+  targetPeriod: z.string(),
+  lowerBound: num,
+  upperBound: num,
+  answerFormat: z.enum(ANSWER_FORMATS),
+  aggregation: z.enum(AGGREGATIONS),
+});
+
+export const round = z.object({
+  number: z.number().int(),
+  status: z.enum(["draft", "open", "closed"]),
+  deadline: dateTimeOrNull,
+  openedAt: dateTimeOrNull,
+  closedAt: dateTimeOrNull,
+});
+
+const panelStatus = z.enum(["draft", "running", "finished"]);
+const panelRole = z.enum(["owner", "organiser", "reviewer"]);
+const rules = {
+  consensusMeasure: z.enum(CONSENSUS_MEASURES),
+  consensusThreshold: num,
+  stabilityThreshold: num,
+  roundLimit: z.number().int(),
+};
+
+export const panelSummary = z.object({
+  id: z.string(),
+  title: z.string(),
+  status: panelStatus,
+  role: panelRole,
+  questionCount: z.number().int(),
+  currentRound: round.nullable(),
+  createdAt: dateTime,
+});
+
+export const panel = z.object({
+  id: z.string(),
+  title: z.string(),
+  description: z.string(),
+  status: panelStatus,
+  role: panelRole,
+  ...rules,
+  questions: z.array(question),
+  rounds: z.array(round),
+  createdAt: dateTime,
+  updatedAt: dateTime,
+});
+
+export const deleted = z.object({ id: z.string(), deleted: z.literal(true) });
+
+export const share = z.object({ userId: z.string(), name: z.string(), email: z.string(), role: z.enum(USER_ROLES) });
+
+export const rosterMember = z.object({ id: z.string(), name: z.string(), email: z.string(), group: z.string(), createdAt: dateTime });
+
+export const invitation = z.object({
+  id: z.string(),
+  rosterMemberId: z.string(),
+  name: z.string(),
+  email: z.string(),
+  group: z.string(),
+  status: z.enum(["active", "revoked", "expired"]),
+  expiresAt: dateTime,
+  createdAt: dateTime,
+});
+export const issuedInvitation = invitation.extend({
+  token: z.string().describe("Shown once: the panelist's secret (Bearer token on the API)."),
+  link: z.string().describe("Path of the panelist's page: /p/<token>"),
+});
+
+export const progress = z.object({
+  round: round.nullable(),
+  questionCount: z.number().int(),
+  invited: z.number().int(),
+  answeredAll: z.number().int(),
+  answeredSome: z.number().int(),
+  panelists: z.array(z.object({ pseudonym: z.string(), questionsAnswered: z.number().int(), lastAnswerAt: dateTimeOrNull })),
+});
+
+export const identity = z.object({ pseudonym: z.string(), name: z.string(), email: z.string(), group: z.string() });
+
+const summaryFigures = z
+  .object({
+    n: num,
+    mean: numOrNull,
+    sd: numOrNull,
+    cv: numOrNull,
+    min: numOrNull,
+    max: numOrNull,
+    q1: numOrNull,
+    median: numOrNull,
+    q3: numOrNull,
+    iqr: numOrNull,
+    relativeIqr: numOrNull,
+  })
+  .describe("Quartiles by Hyndman & Fan (1996) type 7; sd with divisor n − 1; null where undefined");
+
+export const questionStatistics = z.object({
+  questionId: z.string(),
+  roundNumber: z.number().int(),
+  text: z.string(),
+  unit: z.string(),
+  answerFormat: z.enum(ANSWER_FORMATS),
+  aggregation: z.enum(AGGREGATIONS),
+  n: z.number().int(),
+  values: summaryFigures.nullable().describe("single values, or most-likely values of three-point answers"),
+  lows: summaryFigures.nullable(),
+  highs: summaryFigures.nullable(),
+  pooled: z
+    .object({ n: num, p10: num, p25: num, p50: num, p75: num, p90: num, mean: num, sd: num })
+    .nullable()
+    .describe("linear opinion pool of the three-point answers (lib/stats/three-point.ts)"),
+  sumOfParts: z
+    .object({ total: num, parts: z.array(z.object({ pseudonym: z.string(), value: num, share: numOrNull })) })
+    .nullable(),
+});
+
+export const roundStatistics = z.object({ round, questions: z.array(questionStatistics) });
+
+export const roundAnswers = z.object({
+  round,
+  questions: z.array(
+    z.object({
+      questionId: z.string(),
+      answers: z.array(
+        z.object({ pseudonym: z.string(), value: num, low: numOrNull, high: numOrNull, rationale: z.string(), version: z.number().int(), answeredAt: dateTime }),
+      ),
+    }),
+  ),
+});
+
+const verdicts = z.object({
+  questionId: z.string(),
+  consensus: z.object({ applicable: z.boolean(), measure: z.enum(CONSENSUS_MEASURES), value: numOrNull, threshold: num, met: z.boolean() }),
+  stability: z.object({
+    applicable: z.boolean(),
+    medianChange: numOrNull,
+    iqrChange: numOrNull,
+    totalChange: numOrNull,
+    threshold: num,
+    met: z.boolean(),
+  }),
+  settled: z.boolean(),
+});
+
+export const convergence = z.object({
+  rules: z.object(rules),
+  questions: z.array(
+    z.object({
+      questionId: z.string(),
+      text: z.string(),
+      unit: z.string(),
+      aggregation: z.enum(AGGREGATIONS),
+      rounds: z.array(
+        z.object({ round: z.number().int(), n: z.number().int(), median: numOrNull, q1: numOrNull, q3: numOrNull, iqr: numOrNull, relativeIqr: numOrNull, cv: numOrNull, total: numOrNull }),
+      ),
+    }),
+  ),
+  evaluation: z
+    .object({
+      roundNumber: z.number().int(),
+      questions: z.array(verdicts),
+      roundLimit: z.object({ limit: z.number().int(), roundNumber: z.number().int(), met: z.boolean() }),
+      recommendation: z.enum(["stop", "another-round"]),
+      reasons: z.array(z.string()),
+    })
+    .nullable(),
+});
+
+const ruleDefault = z.object({ value: z.union([num, z.string()]), source: z.string(), verified: z.boolean(), note: z.string() });
+export const ruleDefaults = z.object({
+  consensusMeasure: ruleDefault,
+  consensusThreshold: z.object({ cv: ruleDefault, "relative-iqr": ruleDefault }),
+  stabilityThreshold: ruleDefault,
+  roundLimit: ruleDefault,
+});
+
+export const answer = z.object({
+  questionId: z.string(),
+  roundNumber: z.number().int(),
+  version: z.number().int(),
+  value: num,
+  low: numOrNull,
+  high: numOrNull,
+  rationale: z.string(),
+  answeredAt: dateTime,
+});
+export const answerStored = z.object({ answer, replayed: z.boolean().describe("true when the Idempotency-Key had already stored this answer") });
+
+export const panelistPanel = z.object({
+  panel: z.object({ title: z.string(), description: z.string(), status: panelStatus }),
+  pseudonym: z.string(),
+  round: round.nullable(),
+  acceptingAnswers: z.boolean(),
+  questions: z.array(
+    question.extend({
+      rationaleRequired: z.boolean(),
+      rationaleReason: z.string().nullable(),
+      answer: answer.nullable(),
+      versions: z.array(answer),
+    }),
+  ),
+});
+
+export const feedback = z.object({
+  round: z.number().int().nullable(),
+  questions: z.array(
+    z.object({
+      questionId: z.string(),
+      text: z.string(),
+      unit: z.string(),
+      answerFormat: z.enum(ANSWER_FORMATS),
+      aggregation: z.enum(AGGREGATIONS),
+      n: z.number().int(),
+      median: numOrNull,
+      q1: numOrNull,
+      q3: numOrNull,
+      min: numOrNull,
+      max: numOrNull,
+      pooled: z.object({ p10: num, p50: num, p90: num }).nullable(),
+      total: numOrNull,
+      values: z.array(num),
+      myAnswer: z.object({ value: num, low: numOrNull, high: numOrNull }).nullable(),
+      myPosition: z.enum(["below-iqr", "within-iqr", "above-iqr"]).nullable(),
+      explanationRequested: z.boolean(),
+      rationales: z.array(z.object({ value: num, rationale: z.string() })),
+    }),
+  ),
+});
+
+export const auditEvent = z.object({ id: z.string(), action: z.string(), actorName: z.string().nullable(), detail: z.record(z.string(), z.unknown()), createdAt: dateTime });
+export const finished = z.object({ id: z.string(), status: z.literal("finished") });

@@ -1,0 +1,81 @@
+/**
+ * The first-run endpoint (POST /api/v1/setup: only while no organiser exists) and the OpenAPI
+ * 3.1 document generated from the route table's zod schemas.
+ */
+import { afterAll, describe, expect, it } from "vitest";
+import { routes } from "../../lib/http/routes";
+import { api, clearDatabase, openDb, signIn } from "./api-client";
+
+afterAll(() => clearDatabase());
+
+describe("POST /api/v1/setup", () => {
+  it("creates the first organiser only while none exists; the account can sign in", async () => {
+    const conn = openDb();
+    const organisers = (conn.prepare(`SELECT COUNT(*) AS n FROM User WHERE role = 'organiser'`).get() as { n: number }).n;
+    conn.close();
+    const first = { email: "Wren.Owner@Example.com", name: "Odile Ashcombe", password: "a sensible passphrase" };
+    const res = await api("POST", "/api/v1/setup", { body: first });
+    if (organisers === 0) {
+      expect(res.status).toBe(201);
+      expect(res.body).toMatchObject({ email: "wren.owner@example.com", name: "Odile Ashcombe", role: "organiser" });
+      expect(res.text).not.toContain("scrypt");
+      const cookie = await signIn({ ...first, email: "wren.owner@example.com" });
+      expect((await api("GET", "/api/v1/account", { cookie })).body.email).toBe("wren.owner@example.com");
+    } else {
+      // Another app test file ran first and left an organiser: the endpoint must refuse.
+      expect(res.status).toBe(409);
+    }
+    const second = await api("POST", "/api/v1/setup", { body: { email: "late@example.com", name: "Late", password: "another passphrase" } });
+    expect(second.status).toBe(409);
+    expect(second.contentType).toContain("application/problem+json");
+    expect(second.body.detail).toMatch(/organiser already exists/);
+  });
+
+  it("a wrong password does not sign in", async () => {
+    await expect(signIn({ email: "wren.owner@example.com", name: "x", password: "not the passphrase" })).rejects.toThrow(/no session cookie/);
+  });
+});
+
+describe("GET /api/v1/openapi.json", () => {
+  it("is an OpenAPI 3.1 document with every operation of the route table", async () => {
+    const res = await api("GET", "/api/v1/openapi.json");
+    expect(res.status).toBe(200);
+    const doc = res.body;
+    expect(doc.openapi).toBe("3.1.0");
+    for (const r of Object.values(routes)) {
+      const op = doc.paths[r.path]?.[r.method.toLowerCase()];
+      expect(op, `${r.method} ${r.path}`).toBeDefined();
+      expect(op.operationId).toBe(r.operationId);
+      expect(Object.keys(op.responses)).toContain(String(r.status));
+      if (r.auth !== "none") expect(Object.keys(op.responses)).toEqual(expect.arrayContaining(["401", "403"]));
+    }
+  });
+
+  it("describes request bodies from the zod schemas (enums, bounds, nested questions)", async () => {
+    const doc = (await api("GET", "/api/v1/openapi.json")).body;
+    const create = doc.paths["/api/v1/panels"].post.requestBody.content["application/json"].schema;
+    expect(create.required).toEqual(["title"]);
+    const q = create.properties.questions.items;
+    expect(q.properties.answerFormat.enum).toEqual(["single", "three-point"]);
+    expect(q.properties.aggregation.enum).toEqual(["shared", "sum-of-parts"]);
+    expect(q.required).toEqual(expect.arrayContaining(["lowerBound", "upperBound", "unit", "targetPeriod"]));
+    const stability = doc.paths["/api/v1/panels/{panelId}"].patch.requestBody.content["application/json"].schema.properties.stabilityThreshold;
+    expect(stability.maximum).toBe(1);
+    expect(doc.paths["/api/v1/panels"].post.requestBody.required).toBe(true);
+    expect(doc.paths["/api/v1/panels/{panelId}/rounds/{roundNumber}/open"].post.requestBody.required).toBe(false);
+    const answer = doc.paths["/api/v1/panelist/answers"].post;
+    expect(answer.parameters.map((p: { name: string }) => p.name)).toContain("Idempotency-Key");
+    expect(answer.responses["422"].content["application/problem+json"].schema.$ref).toBe("#/components/schemas/Problem");
+    expect(doc.components.schemas.Problem.properties.errors.items.properties.field.type).toBe("string");
+  });
+});
+
+describe("unknown API paths", () => {
+  it("answer 404 as problem+json", async () => {
+    const res = await api("GET", "/api/v1/no-such-thing/here");
+    expect(res.status).toBe(404);
+    expect(res.contentType).toContain("application/problem+json");
+    expect(res.body.detail).toMatch(/openapi\.json/);
+  });
+});
+
