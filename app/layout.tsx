@@ -1,4 +1,6 @@
 import type { Metadata } from "next";
+import { getCurrentUser } from "@/lib/session";
+import SiteHeader from "@/lib/ui/site-header";
 import "./globals.css";
 
 export const metadata: Metadata = {
@@ -7,20 +9,12 @@ export const metadata: Metadata = {
     "Expert panels by the Delphi method, checked against a statistical baseline and each estimator's track record.",
 };
 
-export default function RootLayout({ children }: { children: React.ReactNode }) {
+export default async function RootLayout({ children }: { children: React.ReactNode }) {
+  const user = await getCurrentUser();
   return (
     <html lang="en">
       <body>
-        <header className="site-header">
-          <a href="/" className="brand">
-            Triangulate
-          </a>
-          <nav aria-label="Main">
-            <a href="/panels">Panels</a>
-            <a href="/reports">Reports</a>
-            <a href="/sign-in">Sign in</a>
-          </nav>
-        </header>
+        <SiteHeader user={user} />
         <main className="site-main">{children}</main>
       </body>
     </html>

@@ -1,0 +1,5 @@
+import { handle } from "@/lib/http/handler";
+import { routes } from "@/lib/http/routes";
+import { setPanelBlendRule } from "@/lib/panels/triangulation";
+
+export const PUT = handle(routes.setPanelBlendRule, ({ actor, params, body }) => setPanelBlendRule(actor, params.panelId, body));

@@ -1,0 +1,5 @@
+import { handle } from "@/lib/http/handler";
+import { routes } from "@/lib/http/routes";
+import { previewBaseline } from "@/lib/panels/baselines";
+
+export const POST = handle(routes.previewBaseline, ({ actor, params, body }) => previewBaseline(actor, params.panelId, params.questionId, body));

@@ -1,0 +1,5 @@
+import { handle } from "@/lib/http/handler";
+import { routes } from "@/lib/http/routes";
+import { getQuestionReport } from "@/lib/panels/report";
+
+export const GET = handle(routes.getQuestionReport, ({ actor, params }) => getQuestionReport(actor, params.panelId, params.questionId));

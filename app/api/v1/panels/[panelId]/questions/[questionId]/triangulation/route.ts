@@ -1,0 +1,5 @@
+import { handle } from "@/lib/http/handler";
+import { routes } from "@/lib/http/routes";
+import { getTriangulation } from "@/lib/panels/triangulation";
+
+export const GET = handle(routes.getTriangulation, ({ actor, params }) => getTriangulation(actor, params.panelId, params.questionId));

@@ -1,0 +1,5 @@
+import { handle } from "@/lib/http/handler";
+import { routes } from "@/lib/http/routes";
+import { listTrackRecords } from "@/lib/panels/track-records";
+
+export const GET = handle(routes.listTrackRecords, ({ actor }) => listTrackRecords(actor));

@@ -1,0 +1,149 @@
+import type { Metadata } from "next";
+import { getPanelistPanel } from "@/lib/panels/answers";
+import { getFeedback } from "@/lib/panels/feedback";
+import ActionForm, { FieldError } from "@/lib/ui/action-form";
+import Figure from "@/lib/ui/figure";
+import { formatDateTime, formatNumber } from "@/lib/ui/format";
+import { panelistFromLink } from "@/lib/ui/panelist-access";
+import QuestionFeedback from "@/lib/ui/question-feedback";
+import { submitAnswerAction } from "./actions";
+
+// The link is a secret: no referrer leaves the page, and search engines stay out.
+export const metadata: Metadata = { title: "Your answers", referrer: "no-referrer", robots: { index: false, follow: false } };
+export const dynamic = "force-dynamic";
+
+export default async function PanelistPage({ params }: { params: Promise<{ token: string }> }) {
+  const { token } = await params;
+  const who = await panelistFromLink(token);
+  if ("problem" in who) {
+    return (
+      <section className="narrow">
+        <h1>This link does not work</h1>
+        <p className="form-error">{who.problem}</p>
+      </section>
+    );
+  }
+  const [view, feedback] = await Promise.all([getPanelistPanel(who.actor), getFeedback(who.actor)]);
+  const round = view.round;
+  const answerAction = submitAnswerAction.bind(null, token);
+  const feedbackFor = (questionId: string) => feedback.questions.find((q) => q.questionId === questionId) ?? null;
+  const showInlineFeedback = feedback.round !== null && view.acceptingAnswers;
+
+  return (
+    <article className="panelist-page">
+      <h1>{view.panel.title}</h1>
+      {view.panel.description ? <p>{view.panel.description}</p> : null}
+      <p className="muted small">
+        Your answers are anonymous to the other panelists: they see only the group&apos;s figures and unnamed rationales.
+      </p>
+      {view.panel.status === "finished" ? (
+        <p className="notice">This panel is finished. Thank you for taking part.</p>
+      ) : view.acceptingAnswers && round ? (
+        <p className="notice" data-round-open={round.number}>
+          Round {round.number} is open.
+          {round.deadline ? ` It closes at ${formatDateTime(round.deadline)}.` : " The organiser closes it."} You can revise your
+          answers until then.
+        </p>
+      ) : round?.status === "closed" ? (
+        <p className="notice">
+          Round {round.number} is closed. {feedback.round !== null ? "The group's figures are below. " : ""}You will be able
+          to answer again with this link if the organiser opens another round.
+        </p>
+      ) : (
+        <p className="notice">Round 1 has not opened yet. Come back to this link once the organiser opens it.</p>
+      )}
+      {feedback.round !== null ? (
+        <p>
+          <a href={`/p/${token}/feedback`}>Full feedback of round {feedback.round}</a>
+        </p>
+      ) : null}
+
+      {view.questions.map((q, i) => {
+        const f = feedbackFor(q.id);
+        const three = q.answerFormat === "three-point";
+        return (
+          <section key={q.id} className="card" data-question={q.id}>
+            <h2>
+              {i + 1}. {q.text}
+            </h2>
+            <p className="muted small">
+              In {q.unit}, for {q.targetPeriod}. Plausible range {formatNumber(q.lowerBound, 8)} to {formatNumber(q.upperBound, 8)}.
+              {q.aggregation === "sum-of-parts" ? " Estimate your own part (e.g. your territory); the panel adds the parts." : ""}
+            </p>
+            {showInlineFeedback && f && feedback.round !== null ? <QuestionFeedback f={f} round={feedback.round} collapseRationales /> : null}
+            {q.answer ? (
+              <p className="current-answer" data-current-answer={q.answer.value}>
+                Your answer in round {q.answer.roundNumber}:{" "}
+                <strong>
+                  {three && q.answer.low !== null && q.answer.high !== null ? (
+                    <>
+                      low <Figure value={q.answer.low} />, most likely <Figure value={q.answer.value} />, high{" "}
+                      <Figure value={q.answer.high} />
+                    </>
+                  ) : (
+                    <Figure value={q.answer.value} />
+                  )}{" "}
+                  {q.unit}
+                </strong>
+                <span className="muted small">
+                  {" "}
+                  (saved {formatDateTime(q.answer.answeredAt)}
+                  {q.versions.length > 1 ? `; revised ${q.versions.length - 1} time${q.versions.length === 2 ? "" : "s"}` : ""})
+                </span>
+                {q.answer.rationale ? (
+                  <>
+                    <br />
+                    <span className="muted small">Your rationale: {q.answer.rationale}</span>
+                  </>
+                ) : null}
+              </p>
+            ) : null}
+            {view.acceptingAnswers ? (
+              <ActionForm action={answerAction} submitLabel={q.answer ? "Save revised answer" : "Save answer"} ariaLabel={`Answer to question ${i + 1}`}>
+                <input type="hidden" name="questionId" value={q.id} />
+                {three ? (
+                  <div className="row">
+                    <label>
+                      Low (10th percentile) <span className="hint">Only a 1-in-10 chance it is lower.</span>
+                      <input name="low" inputMode="decimal" defaultValue={q.answer?.low ?? ""} />
+                      <FieldError name="low" />
+                    </label>
+                    <label>
+                      Most likely (50th percentile)
+                      <input name="value" inputMode="decimal" defaultValue={q.answer?.value ?? ""} />
+                      <FieldError name="value" />
+                    </label>
+                    <label>
+                      High (90th percentile) <span className="hint">Only a 1-in-10 chance it is higher.</span>
+                      <input name="high" inputMode="decimal" defaultValue={q.answer?.high ?? ""} />
+                      <FieldError name="high" />
+                    </label>
+                  </div>
+                ) : (
+                  <label>
+                    Your estimate ({q.unit})
+                    <input name="value" inputMode="decimal" defaultValue={q.answer?.value ?? ""} />
+                    <FieldError name="value" />
+                  </label>
+                )}
+                {q.rationaleRequired ? (
+                  <p className="caution" data-rationale-required="true">
+                    {q.rationaleReason}
+                  </p>
+                ) : null}
+                <label>
+                  Rationale {q.rationaleRequired ? <strong>(required this round)</strong> : <span className="hint">What your estimate rests on; others read it without your name.</span>}
+                  <textarea name="rationale" rows={3} maxLength={2000} defaultValue={q.answer?.rationale ?? ""} />
+                  <FieldError name="rationale" />
+                </label>
+                <FieldError name="questionId" />
+              </ActionForm>
+            ) : !showInlineFeedback && f && feedback.round !== null ? (
+              <QuestionFeedback f={f} round={feedback.round} collapseRationales />
+            ) : null}
+          </section>
+        );
+      })}
+    </article>
+  );
+}

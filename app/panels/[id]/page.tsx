@@ -1,0 +1,447 @@
+import type { Metadata } from "next";
+import { notFound, redirect } from "next/navigation";
+import { NotFoundError } from "@/lib/errors";
+import { listAuditEvents } from "@/lib/panels/audit";
+import { listInvitations } from "@/lib/panels/invitations";
+import { getPanel, listShares } from "@/lib/panels/panels";
+import { listRoster } from "@/lib/panels/roster";
+import { getProgress } from "@/lib/panels/rounds";
+import { getConvergencePage } from "@/lib/panels/views";
+import { STOPPING_RULE_DEFAULTS as D } from "@/lib/stats/stopping-rules";
+import ActionForm, { FieldError } from "@/lib/ui/action-form";
+import ConvergenceView from "@/lib/ui/convergence-view";
+import DeadlineInput from "@/lib/ui/deadline-input";
+import { formatDateTime, formatNumber, formatPercent } from "@/lib/ui/format";
+import LiveProgress from "@/lib/ui/live-progress";
+import QuestionFields from "@/lib/ui/question-fields";
+import { requireSignedIn } from "@/lib/ui/require-user";
+import RuleSource from "@/lib/ui/rule-source";
+import {
+  addQuestionAction,
+  closeRoundAction,
+  deleteQuestionAction,
+  finishPanelAction,
+  inviteAction,
+  nextRoundAction,
+  openRoundAction,
+  reissueInvitationAction,
+  revealNamesAction,
+  revokeInvitationAction,
+  shareAction,
+  updateQuestionAction,
+  updateRulesAction,
+} from "./actions";
+
+export const metadata: Metadata = { title: "Panel" };
+
+const MEASURE = { cv: "coefficient of variation", "relative-iqr": "relative IQR" } as const;
+
+export default async function PanelPage({ params }: { params: Promise<{ id: string }> }) {
+  const { id } = await params;
+  const user = await requireSignedIn(`/panels/${id}`);
+  if (user.role === "reviewer") redirect(`/reports/${id}`);
+  let panel;
+  try {
+    panel = await getPanel(user, id);
+  } catch (error) {
+    if (error instanceof NotFoundError) notFound();
+    throw error;
+  }
+  if (panel.role === "reviewer") redirect(`/reports/${id}`);
+  const [invitations, roster, progress, convergence, shares, audit] = await Promise.all([
+    listInvitations(user, id),
+    listRoster(user),
+    getProgress(user, id),
+    getConvergencePage(user, id),
+    listShares(user, id),
+    listAuditEvents(user, id),
+  ]);
+  const finished = panel.status === "finished";
+  const draft = panel.status === "draft";
+  const openRound = panel.rounds.find((r) => r.status === "open") ?? null;
+  const draftRound = panel.rounds.find((r) => r.status === "draft") ?? null;
+  const lastRound = panel.rounds.at(-1) ?? null;
+  const canStartNext = !finished && !openRound && !draftRound && lastRound?.status === "closed";
+  const invitedIds = new Set(invitations.map((i) => i.rosterMemberId));
+  const notInvited = roster.filter((m) => !invitedIds.has(m.id));
+  const activeInvitations = invitations.filter((i) => i.status === "active").length;
+  const reveal = revealNamesAction.bind(null, id);
+
+  return (
+    <article className="panel-page">
+      <p className="muted small">
+        <a href="/panels">Panels</a> /
+      </p>
+      <h1>{panel.title}</h1>
+      <p>
+        <span className="status" data-panel-status={panel.status}>
+          {panel.status}
+        </span>{" "}
+        <span className="muted small">
+          {panel.role === "owner" ? "You own this panel." : "Shared with you as co-organiser."} Created {formatDateTime(panel.createdAt)}.
+        </span>
+      </p>
+      {panel.description ? <p className="lead">{panel.description}</p> : null}
+
+      <section aria-labelledby="rounds-h">
+        <h2 id="rounds-h">Rounds</h2>
+        {panel.rounds.length === 0 ? <p className="muted">No rounds yet.</p> : null}
+        <ul>
+          {panel.rounds.map((r) => (
+            <li key={r.number} data-round-status={r.status} data-round-number={r.number}>
+              Round {r.number}: <span className={`status status-${r.status}`}>{r.status}</span>
+              {r.openedAt ? ` · opened ${formatDateTime(r.openedAt)}` : ""}
+              {r.deadline ? ` · deadline ${formatDateTime(r.deadline)}` : ""}
+              {r.closedAt ? ` · closed ${formatDateTime(r.closedAt)}` : ""}
+            </li>
+          ))}
+        </ul>
+        {draftRound && !finished ? (
+          <div className="card">
+            <h3>Open round {draftRound.number}</h3>
+            {panel.questions.length === 0 ? (
+              <p className="muted">Add at least one question first.</p>
+            ) : activeInvitations === 0 ? (
+              <p className="muted">Nobody is invited yet; you can open the round now and invite people while it runs.</p>
+            ) : (
+              <p className="muted">
+                {activeInvitations} panelist{activeInvitations === 1 ? "" : "s"} can answer once it is open.
+                {draft ? " Questions can no longer be changed after round 1 opens." : ""}
+              </p>
+            )}
+            <ActionForm action={openRoundAction} submitLabel={`Open round ${draftRound.number}`} ariaLabel="Open round">
+              <input type="hidden" name="panelId" value={id} />
+              <input type="hidden" name="roundNumber" value={draftRound.number} />
+              <DeadlineInput />
+              <FieldError name="deadline" />
+            </ActionForm>
+          </div>
+        ) : null}
+        {openRound ? (
+          <div className="card" id="live-progress">
+            <h3>Round {openRound.number} is open — live progress</h3>
+            <LiveProgress
+              url={`/api/v1/panels/${encodeURIComponent(id)}/progress`}
+              initial={progress}
+              checkedAt={new Date().toISOString()}
+              reveal={reveal}
+            />
+            <ActionForm
+              action={closeRoundAction}
+              submitLabel={`Close round ${openRound.number}`}
+              confirm={`Close round ${openRound.number} now? Panelists can no longer answer it, and its statistics are computed.`}
+              ariaLabel="Close round"
+            >
+              <input type="hidden" name="panelId" value={id} />
+              <input type="hidden" name="roundNumber" value={openRound.number} />
+            </ActionForm>
+          </div>
+        ) : null}
+        {canStartNext ? (
+          <div className="card">
+            <h3>After round {lastRound!.number}</h3>
+            <p className="muted">
+              Read the convergence view below, then either run another round (panelists see the feedback of round{" "}
+              {lastRound!.number} and may revise their answers) or finish the panel.
+            </p>
+            {lastRound!.number >= panel.roundLimit ? (
+              <p className="notice">
+                The round limit of {panel.roundLimit} is reached. To run another round, raise the limit under &ldquo;Stopping
+                rules&rdquo;.
+              </p>
+            ) : (
+              <ActionForm action={nextRoundAction} submitLabel={`Start round ${lastRound!.number + 1}`} ariaLabel="Next round">
+                <input type="hidden" name="panelId" value={id} />
+                <label className="inline">
+                  <input type="checkbox" name="open" value="yes" defaultChecked /> Open it at once
+                </label>
+                <DeadlineInput />
+                <FieldError name="deadline" />
+              </ActionForm>
+            )}
+            <ActionForm
+              action={finishPanelAction}
+              submitLabel="Finish the panel"
+              submitClassName="secondary"
+              confirm="Finish the panel? No further rounds can be run."
+              ariaLabel="Finish panel"
+            >
+              <input type="hidden" name="panelId" value={id} />
+            </ActionForm>
+          </div>
+        ) : null}
+        {finished ? <p className="notice">This panel is finished.</p> : null}
+      </section>
+
+      <section aria-labelledby="convergence-h" id="convergence">
+        <h2 id="convergence-h">Convergence</h2>
+        <ConvergenceView view={convergence} />
+      </section>
+
+      <section aria-labelledby="questions-h">
+        <h2 id="questions-h">Questions</h2>
+        {panel.questions.length === 0 ? <p className="muted">No questions yet.</p> : null}
+        {panel.questions.map((q) => (
+          <div className="card" key={q.id} data-question={q.id}>
+            <h3>
+              {q.position}. {q.text}
+            </h3>
+            <dl className="facts">
+              <dt>Unit</dt>
+              <dd>{q.unit}</dd>
+              <dt>Target period</dt>
+              <dd>{q.targetPeriod}</dd>
+              <dt>Plausible range</dt>
+              <dd>
+                {formatNumber(q.lowerBound, 8)} to {formatNumber(q.upperBound, 8)} {q.unit}
+              </dd>
+              <dt>Answer format</dt>
+              <dd>{q.answerFormat === "single" ? "single value" : "low / most likely / high (P10 / P50 / P90)"}</dd>
+              <dt>Aggregation</dt>
+              <dd>{q.aggregation === "shared" ? "shared quantity (median)" : "sum of parts (total)"}</dd>
+            </dl>
+            {draft ? (
+              <details>
+                <summary>Edit or remove this question</summary>
+                <ActionForm action={updateQuestionAction} submitLabel="Save question">
+                  <input type="hidden" name="panelId" value={id} />
+                  <input type="hidden" name="questionId" value={q.id} />
+                  <QuestionFields question={q} />
+                </ActionForm>
+                <ActionForm
+                  action={deleteQuestionAction}
+                  submitLabel="Remove question"
+                  submitClassName="secondary"
+                  confirm="Remove this question?"
+                >
+                  <input type="hidden" name="panelId" value={id} />
+                  <input type="hidden" name="questionId" value={q.id} />
+                </ActionForm>
+              </details>
+            ) : null}
+          </div>
+        ))}
+        {draft ? (
+          <div className="card">
+            <h3>Add a question</h3>
+            <ActionForm action={addQuestionAction} submitLabel="Add question" resetOnSuccess ariaLabel="Add a question">
+              <input type="hidden" name="panelId" value={id} />
+              <QuestionFields />
+            </ActionForm>
+          </div>
+        ) : (
+          <p className="hint">Questions are fixed once round 1 has opened, so that every answer matches its question.</p>
+        )}
+      </section>
+
+      <section aria-labelledby="invitations-h">
+        <h2 id="invitations-h">Panelists and invitations</h2>
+        <p className="muted">
+          Each panelist gets a private link; only a hash of it is stored, so a link is shown once, when it is created or
+          re-issued. Panelists see each other only as anonymous answers.
+        </p>
+        {invitations.length > 0 ? (
+          <div className="table-scroll">
+            <table>
+              <thead>
+                <tr>
+                  <th>Name</th>
+                  <th>Group</th>
+                  <th>Status</th>
+                  <th>Link expires</th>
+                  <th>Link</th>
+                </tr>
+              </thead>
+              <tbody>
+                {invitations.map((i) => (
+                  <tr key={i.id} data-invitation={i.email}>
+                    <td>
+                      {i.name}
+                      <br />
+                      <span className="muted small">{i.email}</span>
+                    </td>
+                    <td>{i.group || "—"}</td>
+                    <td>{i.status}</td>
+                    <td>{formatDateTime(i.expiresAt)}</td>
+                    <td>
+                      {finished ? null : (
+                        <details>
+                          <summary>Revoke or re-issue</summary>
+                          {i.status === "active" ? (
+                            <ActionForm
+                              action={revokeInvitationAction}
+                              submitLabel="Revoke link"
+                              submitClassName="secondary"
+                              confirm={`Revoke ${i.name}'s link? It stops working at once; answers already given stay.`}
+                            >
+                              <input type="hidden" name="panelId" value={id} />
+                              <input type="hidden" name="invitationId" value={i.id} />
+                            </ActionForm>
+                          ) : null}
+                          <ActionForm
+                            action={reissueInvitationAction}
+                            submitLabel="Re-issue link"
+                            confirm={`Give ${i.name} a new link? The old one stops working.`}
+                          >
+                            <input type="hidden" name="panelId" value={id} />
+                            <input type="hidden" name="invitationId" value={i.id} />
+                            <label>
+                              Days until it expires
+                              <input name="expiresInDays" inputMode="numeric" defaultValue={30} />
+                              <FieldError name="expiresInDays" />
+                            </label>
+                          </ActionForm>
+                        </details>
+                      )}
+                    </td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </div>
+        ) : null}
+        {finished ? null : (
+          <div className="card">
+            <h3>Invite from your expert roster</h3>
+            {/* The form stays mounted after everyone is invited: it holds the links shown once. */}
+            <ActionForm
+              action={inviteAction}
+              submitLabel="Create invitations"
+              ariaLabel="Invite panelists"
+              submitDisabled={notInvited.length === 0}
+            >
+              <input type="hidden" name="panelId" value={id} />
+              {notInvited.length === 0 ? (
+                <p className="muted">
+                  Everyone on your roster is invited. Add people on the <a href="/roster">expert roster</a> page.
+                </p>
+              ) : (
+                <>
+                  <fieldset>
+                    <legend>People to invite</legend>
+                    {notInvited.map((m) => (
+                      <label key={m.id} className="inline" style={{ display: "flex" }}>
+                        <input type="checkbox" name="rosterMemberIds" value={m.id} defaultChecked />
+                        {m.name} <span className="muted small">&nbsp;{m.group ? `· ${m.group}` : ""}</span>
+                      </label>
+                    ))}
+                    <FieldError name="rosterMemberIds" />
+                  </fieldset>
+                  <label className="narrow">
+                    Days until the links expire
+                    <input name="expiresInDays" inputMode="numeric" defaultValue={30} />
+                    <FieldError name="expiresInDays" />
+                  </label>
+                </>
+              )}
+            </ActionForm>
+          </div>
+        )}
+      </section>
+
+      <section aria-labelledby="rules-h">
+        <h2 id="rules-h">Stopping rules</h2>
+        <ul>
+          <li>
+            Consensus: {MEASURE[panel.consensusMeasure]} at or under {formatNumber(panel.consensusThreshold)}.{" "}
+            <RuleSource rule={D.consensusThreshold[panel.consensusMeasure]} shown={String(D.consensusThreshold[panel.consensusMeasure].value)} />
+          </li>
+          <li>
+            Stability: median and IQR each change by at most {formatPercent(panel.stabilityThreshold, 0)} between rounds.{" "}
+            <RuleSource rule={D.stabilityThreshold} shown={formatPercent(D.stabilityThreshold.value, 0)} />
+          </li>
+          <li>
+            Round limit: {panel.roundLimit}. <RuleSource rule={D.roundLimit} shown={String(D.roundLimit.value)} />
+          </li>
+        </ul>
+        {finished ? null : (
+          <details>
+            <summary>Change the stopping rules</summary>
+            <ActionForm action={updateRulesAction} submitLabel="Save rules">
+              <input type="hidden" name="panelId" value={id} />
+              <label className="inline">
+                <input type="radio" name="consensusMeasure" value="cv" defaultChecked={panel.consensusMeasure === "cv"} /> Coefficient of
+                variation
+              </label>
+              <label className="inline">
+                <input type="radio" name="consensusMeasure" value="relative-iqr" defaultChecked={panel.consensusMeasure === "relative-iqr"} />{" "}
+                Relative IQR
+              </label>
+              <div className="row">
+                <label>
+                  Consensus threshold
+                  <input name="consensusThreshold" inputMode="decimal" defaultValue={panel.consensusThreshold} />
+                  <FieldError name="consensusThreshold" />
+                </label>
+                <label>
+                  Stability threshold (fraction)
+                  <input name="stabilityThreshold" inputMode="decimal" defaultValue={panel.stabilityThreshold} />
+                  <FieldError name="stabilityThreshold" />
+                </label>
+                <label>
+                  Round limit
+                  <input name="roundLimit" inputMode="numeric" defaultValue={panel.roundLimit} />
+                  <FieldError name="roundLimit" />
+                </label>
+              </div>
+            </ActionForm>
+          </details>
+        )}
+      </section>
+
+      {panel.role === "owner" ? (
+        <section aria-labelledby="sharing-h">
+          <h2 id="sharing-h">Sharing</h2>
+          {shares.length === 0 ? (
+            <p className="muted">Not shared with anyone.</p>
+          ) : (
+            <ul>
+              {shares.map((s) => (
+                <li key={s.userId}>
+                  {s.name} ({s.email}) — {s.role === "reviewer" ? "reviewer, read only" : "co-organiser"}
+                </li>
+              ))}
+            </ul>
+          )}
+          <details>
+            <summary>Share with a reviewer or co-organiser</summary>
+            <ActionForm action={shareAction} submitLabel="Share" resetOnSuccess>
+              <input type="hidden" name="panelId" value={id} />
+              <label>
+                Their account e-mail
+                <input name="email" type="email" />
+                <FieldError name="email" />
+              </label>
+              <label className="inline">
+                <input type="radio" name="role" value="reviewer" defaultChecked /> Reviewer (reads the reports)
+              </label>
+              <label className="inline">
+                <input type="radio" name="role" value="organiser" /> Co-organiser (full control)
+              </label>
+              <FieldError name="role" />
+            </ActionForm>
+          </details>
+        </section>
+      ) : null}
+
+      <section aria-labelledby="audit-h">
+        <h2 id="audit-h">Audit log</h2>
+        <details>
+          <summary>{audit.length} recorded actions (opening and closing rounds, invitations, revealed names…)</summary>
+          <table className="small">
+            <tbody>
+              {audit.map((e) => (
+                <tr key={e.id}>
+                  <td>{formatDateTime(e.createdAt)}</td>
+                  <td>{e.actorName ?? "system"}</td>
+                  <td>{e.action}</td>
+                  <td className="muted">{typeof e.detail.reason === "string" ? `reason: ${e.detail.reason}` : ""}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </details>
+      </section>
+    </article>
+  );
+}

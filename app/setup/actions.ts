@@ -1,0 +1,18 @@
+"use server";
+import { redirect } from "next/navigation";
+import { createFirstOrganiser } from "@/lib/accounts/users";
+import { setupInput } from "@/lib/validation/inputs";
+import type { FormState } from "@/lib/ui/form-state";
+import { formObject, fromThrown, fromZodError } from "@/lib/ui/form-result";
+
+/** Creates the first organiser (refused by the service once one exists), then asks them to sign in. */
+export async function createFirstOrganiserAction(_previous: FormState, formData: FormData): Promise<FormState> {
+  const parsed = setupInput.safeParse(formObject(formData));
+  if (!parsed.success) return fromZodError(parsed.error);
+  try {
+    await createFirstOrganiser(parsed.data);
+  } catch (error) {
+    return fromThrown(error);
+  }
+  redirect("/sign-in?created=1");
+}

@@ -1,0 +1,33 @@
+import type { Metadata } from "next";
+import { redirect } from "next/navigation";
+import { hasOrganiser } from "@/lib/accounts/users";
+import { getCurrentUser } from "@/lib/session";
+import SignInForm from "@/lib/ui/sign-in-form";
+
+export const metadata: Metadata = { title: "Sign in" };
+
+/** Only same-site paths are followed after signing in. */
+function safeNext(next: string | string[] | undefined): string | null {
+  return typeof next === "string" && next.startsWith("/") && !next.startsWith("//") ? next : null;
+}
+
+export default async function SignInPage({ searchParams }: { searchParams: Promise<{ next?: string | string[]; created?: string }> }) {
+  const { next, created } = await searchParams;
+  const user = await getCurrentUser();
+  const home = (role: string) => (role === "organiser" ? "/panels" : "/reports");
+  if (user) redirect(safeNext(next) ?? home(user.role));
+  const firstRun = !(await hasOrganiser());
+  return (
+    <section>
+      <h1>Sign in</h1>
+      <p className="muted">For organisers and reviewers. Panelists need no account: they use the private link in their invitation.</p>
+      {created ? <p className="notice">The organiser account was created. Sign in with it.</p> : null}
+      {firstRun ? (
+        <p className="notice">
+          No organiser account exists yet. <a href="/setup">Create the first organiser</a>.
+        </p>
+      ) : null}
+      <SignInForm next={safeNext(next) ?? "/panels"} />
+    </section>
+  );
+}

@@ -1,0 +1,112 @@
+"use client";
+/**
+ * A form wired to a server action through React's useActionState. Field errors returned by the
+ * action are read by <FieldError name="…"/> anywhere inside the form; a form-level message and
+ * any secret shown once appear above the submit row. The form is submitted in a transition
+ * (not through the `action` prop) so that what the user typed stays in place when the server
+ * rejects it; it is cleared only after a success, when `resetOnSuccess` is set.
+ */
+import { createContext, startTransition, useActionState, useContext, useEffect, useRef, type ReactNode } from "react";
+import { EMPTY_FORM_STATE, type FormAction, type FormState } from "./form-state";
+
+const StateContext = createContext<FormState>(EMPTY_FORM_STATE);
+const PendingContext = createContext(false);
+
+export interface ActionFormProps {
+  readonly action: FormAction;
+  readonly children: ReactNode;
+  readonly submitLabel: string;
+  readonly pendingLabel?: string;
+  readonly resetOnSuccess?: boolean;
+  /** Asks for confirmation before submitting (e.g. before a logged action). */
+  readonly confirm?: string;
+  readonly className?: string;
+  readonly submitClassName?: string;
+  readonly successMessage?: string;
+  readonly ariaLabel?: string;
+  /** Keeps the form (and what it last returned, e.g. secrets shown once) but disables submitting. */
+  readonly submitDisabled?: boolean;
+}
+
+export default function ActionForm({
+  action,
+  children,
+  submitLabel,
+  pendingLabel,
+  resetOnSuccess = false,
+  confirm,
+  className,
+  submitClassName,
+  successMessage,
+  ariaLabel,
+  submitDisabled = false,
+}: ActionFormProps) {
+  const [state, formAction, pending] = useActionState(action, EMPTY_FORM_STATE);
+  const form = useRef<HTMLFormElement>(null);
+  useEffect(() => {
+    if (state.ok && resetOnSuccess) form.current?.reset();
+  }, [state, resetOnSuccess]);
+  return (
+    <StateContext.Provider value={state}>
+      <PendingContext.Provider value={pending}>
+        <form
+          ref={form}
+          className={className}
+          aria-label={ariaLabel}
+          noValidate
+          onSubmit={(event) => {
+            event.preventDefault();
+            if (confirm && !window.confirm(confirm)) return;
+            const data = new FormData(event.currentTarget);
+            startTransition(() => formAction(data));
+          }}
+        >
+          {state.message && !state.ok ? (
+            <p className="form-error" role="alert">
+              {state.message}
+            </p>
+          ) : null}
+          {children}
+          {state.ok && (state.message || successMessage) ? (
+            <p className="notice" role="status">
+              {state.message ?? successMessage}
+            </p>
+          ) : null}
+          {state.secret ? <SecretOnce label={state.secret.label} value={state.secret.value} /> : null}
+          {state.secrets?.map((s) => <SecretOnce key={s.value} label={s.label} value={s.value} />)}
+          <div className="actions">
+            <button type="submit" className={submitClassName} disabled={pending || submitDisabled}>
+              {pending ? (pendingLabel ?? "Saving…") : submitLabel}
+            </button>
+            {state.ok === false && state.fieldErrors && Object.keys(state.fieldErrors).length > 0 ? (
+              <span className="field-error">Not saved: see the messages in red above.</span>
+            ) : null}
+          </div>
+        </form>
+      </PendingContext.Provider>
+    </StateContext.Provider>
+  );
+}
+
+/** The errors the last submission returned for one field (nothing when there are none). */
+export function FieldError({ name }: { name: string }) {
+  const state = useContext(StateContext);
+  const errors = state.fieldErrors?.[name];
+  if (!errors || errors.length === 0) return null;
+  return (
+    <span className="field-error" role="alert" data-field={name}>
+      {errors.join(" ")}
+    </span>
+  );
+}
+
+/** A secret shown once: it cannot be displayed again after the page is left. */
+export function SecretOnce({ label, value }: { label: string; value: string }) {
+  return (
+    <div className="card secret-once" data-secret-label={label}>
+      <strong>{label}</strong>
+      <span className="hint">Copy it now: it is shown only this once and cannot be displayed again.</span>
+      <code className="secret">{value}</code>
+    </div>
+  );
+}

@@ -1,0 +1,27 @@
+/**
+ * Number formatting for pages. Figures are shown rounded for reading; the exact value travels
+ * alongside in a data-value attribute (see <Figure/>) so that nothing is lost to rounding.
+ */
+
+/** A figure with up to `digits` significant digits, thousands separated; "—" when undefined. */
+export function formatNumber(value: number | null | undefined, digits = 4): string {
+  if (value === null || value === undefined || Number.isNaN(value)) return "—";
+  if (!Number.isFinite(value)) return value > 0 ? "∞" : "−∞";
+  if (value === 0) return "0";
+  const abs = Math.abs(value);
+  const decimals = abs >= 10 ** digits ? 0 : Math.max(0, digits - 1 - Math.floor(Math.log10(abs)));
+  return value.toLocaleString("en-GB", { maximumFractionDigits: Math.min(decimals, 10), minimumFractionDigits: 0 });
+}
+
+/** A ratio as a percentage, e.g. 0.153 → "15.3%". */
+export function formatPercent(value: number | null | undefined, digits = 1): string {
+  if (value === null || value === undefined || Number.isNaN(value) || !Number.isFinite(value)) return "—";
+  return `${(value * 100).toFixed(digits)}%`;
+}
+
+/** A date and time in UTC, e.g. "1 Dec 2026, 21:50 UTC". */
+export function formatDateTime(value: string | Date | null | undefined): string {
+  if (!value) return "—";
+  const d = typeof value === "string" ? new Date(value) : value;
+  return `${d.toLocaleString("en-GB", { day: "numeric", month: "short", year: "numeric", hour: "2-digit", minute: "2-digit", timeZone: "UTC" })} UTC`;
+}

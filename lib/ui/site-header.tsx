@@ -1,0 +1,38 @@
+/**
+ * The site header. Its navigation follows who is signed in: organisers get their panels,
+ * expert roster, reports and API tokens; reviewers their reports; nobody signed in gets the
+ * sign-in link. Panelist pages (/p/…) show the name only (see HeaderNav).
+ */
+import type { UserActor } from "@/lib/accounts/actor";
+import HeaderNav from "./header-nav";
+import SignOutButton from "./sign-out-button";
+
+export default function SiteHeader({ user }: { user: UserActor | null }) {
+  return (
+    <header className="site-header">
+      <a href="/" className="brand">
+        Triangulate
+      </a>
+      <HeaderNav>
+        {user === null ? (
+          <a href="/sign-in">Sign in</a>
+        ) : (
+          <>
+            {user.role === "organiser" ? (
+              <>
+                <a href="/panels">Panels</a>
+                <a href="/roster">Expert roster</a>
+              </>
+            ) : null}
+            <a href="/reports">Reports</a>
+            {user.role === "organiser" ? <a href="/account/tokens">API tokens</a> : null}
+            <span className="who">
+              {user.name} ({user.role})
+            </span>
+            <SignOutButton />
+          </>
+        )}
+      </HeaderNav>
+    </header>
+  );
+}
