@@ -1,0 +1,153 @@
+import { autocorrelations, classicalDecomposition } from "../decompose";
+import { checkHorizon, checkSeries, fitEts } from "../ets";
+import { ForecastInputError, type Fit, type FitInput, type Forecast, type Method } from "../types";
+import { normalQuantile } from "../../stats/normal";
+
+/** Level of the one-sided seasonality test on the lag-m autocorrelation (R forecast::thetaf: 90%, i.e. qnorm(0.95)). */
+export const THETA_SEASONAL_TEST_PROBABILITY = 0.95;
+/** Seasonal indices below this (in absolute value) make the adjustment unsafe (thetaf's rule). */
+export const THETA_MIN_SEASONAL_INDEX = 1e-4;
+/** Lower floor of alpha in the drift term, as in thetaf (avoids division by zero). */
+const ALPHA_FLOOR = 1e-10;
+const MIN_LENGTH = 3;
+
+/**
+ * The standard Theta method (Assimakopoulos & Nikolopoulos 2000), in the form shown by
+ * Hyndman & Billah (2003), "Unmasking the Theta method", IJF 19(2): simple exponential
+ * smoothing plus half the OLS trend slope; the arithmetic follows R forecast::thetaf
+ * (REFERENCES.md §9).
+ *
+ * Steps:
+ * 1. Seasonality test (only when m > 1, the series is not constant and n > 2m): with r_k
+ *    the sample autocorrelations, the series is seasonal when
+ *    |r_m| / √((1 + 2·Σ_{k<m} r_k²)/n) > Φ⁻¹(0.95) (a 90% two-sided test, thetaf's rule).
+ *    If seasonal, y is divided by the seasonal indices of a classical multiplicative
+ *    decomposition (skipped, with a note, when an index is below 1e-4 or an observation is
+ *    not above zero).
+ * 2. SES (ETS(A,N,N)) is fitted to the (adjusted) series x by least squares: alpha and l0
+ *    are estimated unless given in `fixed` (keys alpha, l0).
+ * 3. b = OLS slope of x on t = 0..n−1; forecast
+ *    ŷ_{n+h} = [ℓ_n + (b/2)·((h − 1) + (1 − (1 − α)^n)/α)] × (seasonal index of that position).
+ * 4. Intervals as thetaf: ŷ ± z·σ·√(1 + (h − 1)α²), σ² the SES residual variance
+ *    (SSE/(n − k), k estimated parameters) on the adjusted scale.
+ *
+ * Fitted values follow thetaf: the SES one-step fitted values, reseasonalised (the drift
+ * term is not included in-sample).
+ * Input: finite y (n ≥ 3); season m ≥ 1. Constant series: forecast is the constant, zero-width
+ * intervals.
+ */
+const theta: Method = {
+  id: "theta",
+  /** Three observations (an SES level, a slope and one degree of freedom). */
+  minLength(): number {
+    return MIN_LENGTH;
+  },
+  /** Any series of at least three observations. */
+  applicable(y: readonly number[]): boolean {
+    return y.length >= MIN_LENGTH;
+  },
+  /** @throws ForecastInputError for unusable input. */
+  fit(input: FitInput): Fit {
+    const { y } = input;
+    checkSeries(y, "theta");
+    const n = y.length;
+    if (n < MIN_LENGTH) throw new ForecastInputError(`theta: needs at least ${MIN_LENGTH} observations (got ${n})`);
+    const m = input.season;
+    if (!Number.isInteger(m) || m < 1) throw new ForecastInputError(`theta: the season length must be a whole number ≥ 1 (got ${m})`);
+    const notes: string[] = [];
+    let constant = true;
+    for (let i = 1; i < n; i++) if (y[i] !== y[0]) constant = false;
+
+    let seasonal = false;
+    if (m > 1 && !constant && n > 2 * m) {
+      const r = autocorrelations(y, m);
+      let s2 = 0;
+      for (let k = 0; k < m - 1; k++) s2 += r[k] * r[k];
+      const stat = Math.sqrt((1 + 2 * s2) / n);
+      seasonal = Math.abs(r[m - 1]) / stat > normalQuantile(THETA_SEASONAL_TEST_PROBABILITY);
+      notes.push(seasonal ? `seasonal at lag ${m} (90% autocorrelation test): seasonally adjusted` : `no significant seasonality at lag ${m}`);
+    } else if (m > 1) {
+      notes.push(`seasonality not tested: needs more than ${2 * m} observations and a non-constant series`);
+    }
+    let indices: number[] | null = null;
+    if (seasonal) {
+      if (y.some((v) => !(v > 0))) {
+        notes.push("multiplicative seasonal adjustment needs every observation above zero: non-seasonal Theta used");
+      } else {
+        const d = classicalDecomposition(y, m, "multiplicative");
+        if (d.figure.some((v) => Math.abs(v) < THETA_MIN_SEASONAL_INDEX)) {
+          notes.push("seasonal indices close to zero: non-seasonal Theta used");
+        } else {
+          indices = d.seasonal;
+        }
+      }
+    }
+    const x = indices ? y.map((v, t) => v / indices![t]) : [...y];
+    const fixed = input.fixed;
+    if (fixed) {
+      for (const key of Object.keys(fixed)) {
+        if (key !== "alpha" && key !== "l0") throw new ForecastInputError(`theta: unknown fixed parameter "${key}"; this method accepts alpha, l0`);
+      }
+    }
+    const ses = fitEts("theta", { trend: "N", season: "N" }, x, 1, fixed);
+    notes.push(...ses.notes);
+    // OLS slope of x on 0..n−1.
+    const tbar = (n - 1) / 2;
+    let xbar = 0;
+    for (let t = 0; t < n; t++) xbar += x[t];
+    xbar /= n;
+    let sxy = 0;
+    let sxx = 0;
+    for (let t = 0; t < n; t++) {
+      sxy += (t - tbar) * (x[t] - xbar);
+      sxx += (t - tbar) * (t - tbar);
+    }
+    const slope = sxy / sxx;
+    const fitted = ses.fitted.map((f, t) => (indices ? f * indices[t] : f));
+    const residuals = fitted.map((f, t) => y[t] - f);
+    let sse = 0;
+    for (const e of residuals) sse += e * e;
+    const next: number[] = [];
+    if (indices) for (let j = 0; j < m; j++) next.push(indices[(n - m + j) % n]);
+    return {
+      method: "theta",
+      parameters: { alpha: ses.alpha, drift: slope / 2 },
+      state: { level: ses.level, l0: ses.l0, slope, season: next, n },
+      fitted,
+      residuals,
+      sigma2: ses.sigma2,
+      n,
+      season: m,
+      sse,
+      notes,
+    };
+  },
+  /** @throws ForecastInputError for a bad horizon or level. */
+  forecast(fit: Fit, h: number, levels: readonly number[]): Forecast {
+    checkHorizon("theta", h, levels);
+    const alpha = Math.max(ALPHA_FLOOR, fit.parameters.alpha);
+    const drift = fit.parameters.drift;
+    const level = fit.state.level as number;
+    const n = fit.state.n as number;
+    const next = fit.state.season as readonly number[];
+    const tail = (1 - (1 - alpha) ** n) / alpha;
+    const mean: number[] = [];
+    const sd: number[] = [];
+    const sigma = Math.sqrt(Math.max(fit.sigma2, 0));
+    for (let i = 0; i < h; i++) {
+      const base = level + drift * (i + tail);
+      mean.push(next.length > 0 ? base * next[i % next.length] : base);
+      sd.push(sigma * Math.sqrt(1 + i * alpha * alpha));
+    }
+    const lower: Record<string, number[]> = {};
+    const upper: Record<string, number[]> = {};
+    for (const lv of levels) {
+      const z = normalQuantile(0.5 + lv / 200);
+      lower[String(lv)] = mean.map((v, i) => v - z * sd[i]);
+      upper[String(lv)] = mean.map((v, i) => v + z * sd[i]);
+    }
+    return { method: "theta", mean, levels: [...levels], lower, upper, sd };
+  },
+};
+
+export default theta;

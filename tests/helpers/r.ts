@@ -1,0 +1,72 @@
+/**
+ * Run R code from a test and read back named numeric vectors.
+ *
+ * The code calls `out(name, x)` for each result; this prints `name=v1,v2,…` with 17
+ * significant digits (no jsonlite needed). `NA` and `NaN` come back as NaN. The package
+ * `forecast` is attached first. R must be installed (Debian `r-base-core r-cran-forecast`);
+ * without it the tests that use this helper fail with R's error rather than being skipped.
+ */
+import { execFileSync } from "node:child_process";
+
+const PRELUDE = `suppressMessages(library(forecast))
+out <- function(name, x) cat(name, "=", paste(format(as.numeric(x), digits = 17), collapse = ","), "\\n", sep = "")
+`;
+
+const PRELUDE_BASE = PRELUDE.replace("suppressMessages(library(forecast))\n", "");
+
+/**
+ * Evaluate R code; returns every vector printed with `out(name, x)`.
+ * `withForecast: false` skips attaching the forecast package (faster start).
+ */
+export function rEval(code: string, options: { withForecast?: boolean } = {}): Record<string, number[]> {
+  const prelude = options.withForecast === false ? PRELUDE_BASE : PRELUDE;
+  const text = execFileSync("Rscript", ["-e", prelude + code], {
+    encoding: "utf8",
+    stdio: ["ignore", "pipe", "pipe"],
+    maxBuffer: 64 * 1024 * 1024,
+  });
+  const result: Record<string, number[]> = {};
+  for (const line of text.split("\n")) {
+    const eq = line.indexOf("=");
+    if (eq <= 0) continue;
+    const name = line.slice(0, eq).trim();
+    const body = line.slice(eq + 1).trim();
+    result[name] = body === "" ? [] : body.split(",").map((v) => (v.trim() === "NA" ? NaN : Number(v)));
+  }
+  return result;
+}
+
+/** Format numbers as an R vector literal with full precision. */
+export function rVector(x: readonly number[]): string {
+  return `c(${x.map((v) => v.toPrecision(17)).join(", ")})`;
+}
+
+const seriesCache = new Map<string, { y: number[]; m: number }>();
+
+/** Load several built-in R series (datasets package) in one R call and cache them. */
+export function preloadSeries(names: readonly string[]): void {
+  const missing = names.filter((nm) => !seriesCache.has(nm));
+  if (missing.length === 0) return;
+  const code = missing.map((nm) => `out("${nm}.y", ${nm}); out("${nm}.m", frequency(${nm}))`).join("\n");
+  const r = rEval(code, { withForecast: false });
+  for (const nm of missing) seriesCache.set(nm, { y: r[`${nm}.y`], m: r[`${nm}.m`][0] });
+}
+
+/** A built-in R series (datasets package): values and frequency (cached). */
+export function rSeries(name: string): { y: number[]; m: number } {
+  preloadSeries([name]);
+  return seriesCache.get(name)!;
+}
+
+/** Relative difference |a − b| / max(|b|, floor). */
+export function relDiff(a: number, b: number, floor = 1e-12): number {
+  return Math.abs(a - b) / Math.max(Math.abs(b), floor);
+}
+
+/** Largest relative difference between two equal-length arrays. */
+export function maxRelDiff(a: readonly number[], b: readonly number[], floor = 1e-12): number {
+  if (a.length !== b.length) throw new Error(`length ${a.length} differs from ${b.length}`);
+  let worst = 0;
+  for (let i = 0; i < a.length; i++) worst = Math.max(worst, relDiff(a[i], b[i], floor));
+  return worst;
+}
