@@ -1,0 +1,188 @@
+/**
+ * `npm run load`: answers under load, measured, then checked for loss and duplicates.
+ *
+ * 1. Builds the production app into NEXT_DIST_DIR (default .next-load) unless a build is there
+ *    (LOAD_REBUILD=1 forces one), migrates a fresh SQLite database in a temporary folder and
+ *    starts `next start` on a free 127.0.0.1 port.
+ * 2. Through the JSON API with an organiser's API token: PANELISTS roster members, a panel with
+ *    QUESTIONS single-value questions, an invitation for each, round 1 opened.
+ * 3. Load, CONCURRENCY requests in flight: every panelist answers every question, then half of
+ *    them revise every answer. One request in 50 is deliberately invalid (outside the plausible
+ *    bounds) and must be refused with 422. Every request carries a fresh Idempotency-Key.
+ * 4. Prints throughput (answer requests per second over the whole load phase), p50/p95/p99
+ *    latency and the count of each status.
+ * 5. Retries RETRIES acknowledged requests with their original key: each must return 200 with the
+ *    same version, and no row may be added.
+ * 6. Stops the server and checks the database with better-sqlite3: every acknowledged answer is
+ *    stored exactly once with its acknowledged version and value, no refused answer is stored,
+ *    versions run 1…n without gaps, and `PRAGMA integrity_check` is ok.
+ *
+ * Settings (environment): PANELISTS (500), QUESTIONS (2), CONCURRENCY (50), RETRIES (25),
+ * NEXT_DIST_DIR (.next-load), LOAD_REBUILD. Exit code 1 when any check fails. Traffic goes
+ * only to the server this script starts; the run ends by itself.
+ */
+import { mkdtempSync, rmSync } from "node:fs";
+import { cpus, loadavg, tmpdir } from "node:os";
+import path from "node:path";
+import { performance } from "node:perf_hooks";
+import Database from "better-sqlite3";
+import {
+  build,
+  Client,
+  createOrganiser,
+  createPanel,
+  freePort,
+  hasBuild,
+  migrate,
+  newKey,
+  organiserToken,
+  percentile,
+  pool,
+  sendAnswer,
+  startServer,
+  verifyAnswers,
+  type AnswerAttempt,
+  type AnswerOutcome,
+} from "./harness";
+
+const PANELISTS = Number(process.env.PANELISTS ?? 500);
+const QUESTIONS = Number(process.env.QUESTIONS ?? 2);
+const CONCURRENCY = Number(process.env.CONCURRENCY ?? 50);
+const RETRIES = Number(process.env.RETRIES ?? 25);
+const distDir = process.env.NEXT_DIST_DIR || ".next-load";
+
+/** A deterministic value generator (mulberry32, fixed start) so runs are comparable. */
+function mulberry32(a: number): () => number {
+  return () => {
+    a |= 0;
+    a = (a + 0x6d2b79f5) | 0;
+    let t = Math.imul(a ^ (a >>> 15), 1 | a);
+    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t;
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+function summarise(label: string, outcomes: readonly AnswerOutcome[], seconds: number): void {
+  const ms = outcomes.filter((o) => o.status !== 0).map((o) => o.ms);
+  const statuses = new Map<number, number>();
+  for (const o of outcomes) statuses.set(o.status, (statuses.get(o.status) ?? 0) + 1);
+  const fmt = (x: number) => x.toFixed(1).padStart(7);
+  console.log(
+    `${label.padEnd(10)} ${String(outcomes.length).padStart(6)} requests in ${seconds.toFixed(2)} s = ${(outcomes.length / seconds).toFixed(0).padStart(5)} /s` +
+      `   latency ms p50 ${fmt(percentile(ms, 50))} p95 ${fmt(percentile(ms, 95))} p99 ${fmt(percentile(ms, 99))} max ${fmt(Math.max(...ms))}` +
+      `   statuses ${[...statuses].sort((a, b) => a[0] - b[0]).map(([s, n]) => `${s === 0 ? "no-response" : s}:${n}`).join(" ")}`,
+  );
+}
+
+async function main(): Promise<number> {
+  const started = Date.now();
+  if (process.env.LOAD_REBUILD === "1" || !hasBuild(distDir)) {
+    console.log(`building into ${distDir} …`);
+    build(distDir);
+  }
+  const dir = mkdtempSync(path.join(tmpdir(), "triangulate-load-"));
+  const dbFile = path.join(dir, "load.db");
+  const port = await freePort();
+  const o = { dbFile, port, distDir };
+  migrate(o);
+  const server = await startServer(o);
+  const c = new Client(server.baseURL, CONCURRENCY + 4);
+  let failures = 0;
+  try {
+    console.log(`server ${server.baseURL} (pid ${server.child.pid}), build ${distDir}, database ${dbFile}`);
+    console.log(`machine: ${cpus().length} cores (${cpus()[0]?.model ?? "?"}), load average ${loadavg().map((x) => x.toFixed(2)).join(" ")}`);
+    const user = createOrganiser(dbFile);
+    const token = await organiserToken(server.baseURL, user);
+    const t0 = performance.now();
+    const setup = await createPanel(c, token, PANELISTS, QUESTIONS);
+    console.log(`setup: ${PANELISTS} roster members, ${QUESTIONS} questions, ${setup.panelists.length} invitations, round 1 open in ${((performance.now() - t0) / 1000).toFixed(1)} s`);
+
+    const rnd = mulberry32(20261201);
+    const attempt = (p: (typeof setup.panelists)[number], questionId: string): AnswerAttempt => {
+      const invalid = rnd() < 0.02;
+      return {
+        invitationId: p.invitationId,
+        token: p.token,
+        questionId,
+        value: invalid ? 200_000 + Math.floor(rnd() * 1000) : 1000 + Math.floor(rnd() * 9000),
+        idempotencyKey: newKey(),
+        invalid,
+      };
+    };
+    const first = setup.panelists.flatMap((p) => setup.questionIds.map((q) => attempt(p, q)));
+    const revisions = setup.panelists.filter((_, i) => i % 2 === 0).flatMap((p) => setup.questionIds.map((q) => attempt(p, q)));
+
+    // Warm-up: the first requests compile routes and fill caches; not counted (and not stored:
+    // a GET of the panelist's own panel changes nothing but the invitation's last-seen time).
+    await pool(setup.panelists.slice(0, CONCURRENCY), CONCURRENCY, (p) => c.request("GET", "/api/v1/panelist/panel", { token: p.token }));
+
+    const tLoad = performance.now();
+    const firstOut = await pool(first, CONCURRENCY, (a) => sendAnswer(c, a));
+    const tMid = performance.now();
+    const revOut = await pool(revisions, CONCURRENCY, (a) => sendAnswer(c, a));
+    const tEnd = performance.now();
+    const all = [...firstOut, ...revOut];
+    console.log("");
+    summarise("answers", firstOut, (tMid - tLoad) / 1000);
+    summarise("revisions", revOut, (tEnd - tMid) / 1000);
+    summarise("all", all, (tEnd - tLoad) / 1000);
+
+    const unexpected = all.filter((o) => (o.attempt.invalid ? o.status !== 422 : o.status !== 201));
+    if (unexpected.length > 0) {
+      failures++;
+      console.log(`UNEXPECTED: ${unexpected.length} requests, e.g. ${unexpected.slice(0, 3).map((o) => `${o.status} ${JSON.stringify(o.body)}`).join(" | ")}`);
+    }
+
+    // Retries with the same key: 200, replayed, same version, nothing added.
+    const countRows = () => {
+      const conn = new Database(dbFile, { readonly: true });
+      try {
+        return (conn.prepare(`SELECT COUNT(*) AS n FROM "Answer"`).get() as { n: number }).n;
+      } finally {
+        conn.close();
+      }
+    };
+    const before = countRows();
+    const acked = all.filter((o) => o.status === 201);
+    const toRetry = acked.filter((_, i) => i % Math.max(1, Math.floor(acked.length / RETRIES)) === 0).slice(0, RETRIES);
+    const retried = await pool(toRetry, 10, (o) => sendAnswer(c, o.attempt));
+    const badRetries = retried.filter((r, i) => r.status !== 200 || r.replayed !== true || r.version !== toRetry[i].version);
+    const after = countRows();
+    console.log(`\nretries with the same Idempotency-Key: ${retried.length}, all 200 replayed with the first version: ${badRetries.length === 0 ? "yes" : "NO"}; answer rows ${before} → ${after}`);
+    if (badRetries.length > 0 || after !== before) failures++;
+
+    // Panelists can read their answers back (a sample).
+    const sample = setup.panelists.slice(0, 5);
+    for (const p of sample) {
+      const r = await c.request("GET", "/api/v1/panelist/panel", { token: p.token });
+      if (r.status !== 200) failures++;
+    }
+
+    await server.stop();
+    const v = verifyAnswers(dbFile, [...all, ...retried]);
+    console.log(
+      `verification (better-sqlite3 on ${path.basename(dbFile)}): acknowledged ${v.acknowledged}, missing ${v.missing.length}, duplicated ${v.duplicated.length}, ` +
+        `stored-but-refused ${v.refusedButStored.length}, mismatched ${v.mismatched.length}, rows without acknowledgement ${v.unacknowledgedRows}, integrity_check ${v.integrity}`,
+    );
+    if (v.missing.length || v.duplicated.length || v.refusedButStored.length || v.mismatched.length || v.unacknowledgedRows || v.integrity !== "ok") failures++;
+    const expectedAcks = all.filter((o) => !o.attempt.invalid).length;
+    if (v.acknowledged !== expectedAcks) {
+      console.log(`expected ${expectedAcks} acknowledged answers, got ${v.acknowledged}`);
+      failures++;
+    }
+    console.log(`\n${failures === 0 ? "PASS" : `FAIL (${failures} checks)`} in ${((Date.now() - started) / 1000).toFixed(0)} s`);
+  } finally {
+    c.close();
+    await server.stop();
+    rmSync(dir, { recursive: true, force: true });
+  }
+  return failures === 0 ? 0 : 1;
+}
+
+main().then(
+  (code) => process.exit(code),
+  (err) => {
+    console.error(err);
+    process.exit(1);
+  },
+);

@@ -1,0 +1,176 @@
+/**
+ * Admin commands of the CLI, run as a user would: `node bin/triangulate.mjs …` with
+ * DATABASE_URL pointing at a fresh, migrated SQLite file. The demo's stored round statistics
+ * are checked against R (quantile type 7, median, IQR, sd via Rscript) on the answers found in
+ * the database.
+ */
+import { spawnSync } from "node:child_process";
+import { existsSync, mkdtempSync, rmSync } from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import Database from "better-sqlite3";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { verifyPassword } from "../../lib/accounts/passwords";
+import { expectClose, runR, rVector } from "../stats/rscript";
+
+const root = path.resolve(__dirname, "..", "..");
+let dir = "";
+let dbFile = "";
+
+function run(args: string[], input = ""): { code: number | null; out: string; err: string } {
+  const r = spawnSync(process.execPath, [path.join(root, "bin", "triangulate.mjs"), ...args], {
+    input,
+    cwd: os.tmpdir(), // any working directory must do
+    env: { ...process.env, DATABASE_URL: `file:${dbFile}` },
+    encoding: "utf8",
+  });
+  return { code: r.status, out: r.stdout, err: r.stderr };
+}
+
+function query<T>(file: string, sql: string, ...params: unknown[]): T[] {
+  const conn = new Database(file, { readonly: true });
+  try {
+    return conn.prepare(sql).all(...params) as T[];
+  } finally {
+    conn.close();
+  }
+}
+
+beforeAll(() => {
+  dir = mkdtempSync(path.join(os.tmpdir(), "triangulate-cli-"));
+  dbFile = path.join(dir, "admin.db");
+  const r = spawnSync(path.join(root, "node_modules", ".bin", "prisma"), ["migrate", "deploy"], {
+    cwd: root,
+    env: { ...process.env, DATABASE_URL: `file:${dbFile}` },
+    encoding: "utf8",
+  });
+  if (r.status !== 0) throw new Error(`migrate deploy failed: ${r.stderr}`);
+}, 120_000);
+afterAll(() => rmSync(dir, { recursive: true, force: true }));
+
+describe("create-organiser", () => {
+  it("creates an organiser whose password verifies against the stored scrypt hash", async () => {
+    const r = run(["create-organiser", "--email", "Ida.Penrose@Example.com", "--name", "Ida Penrose", "--password", "correct horse battery"]);
+    expect(r.code).toBe(0);
+    expect(r.out).toBe("created organiser ida.penrose@example.com (Ida Penrose)\n");
+    const [u] = query<{ role: string; passwordHash: string }>(dbFile, `SELECT role, passwordHash FROM User WHERE email = ?`, "ida.penrose@example.com");
+    expect(u.role).toBe("organiser");
+    expect(u.passwordHash).toMatch(/^scrypt\$15\$8\$1\$/);
+    expect(await verifyPassword("correct horse battery", u.passwordHash)).toBe(true);
+    expect(await verifyPassword("correct horse battery!", u.passwordHash)).toBe(false);
+  });
+
+  it("creates a reviewer with --role reviewer", () => {
+    const r = run(["create-organiser", "--email", "rev@example.com", "--name", "Rev Iew", "--password", "long enough pass", "--role", "reviewer"]);
+    expect(r.code).toBe(0);
+    expect(query<{ role: string }>(dbFile, `SELECT role FROM User WHERE email = 'rev@example.com'`)[0].role).toBe("reviewer");
+  });
+
+  it("reads the password from standard input with --password -", async () => {
+    const r = run(["create-organiser", "--email", "stdin@example.com", "--name", "Std In", "--password", "-"], "piped passphrase 42\n");
+    expect(r.code, r.err).toBe(0);
+    const [u] = query<{ passwordHash: string }>(dbFile, `SELECT passwordHash FROM User WHERE email = 'stdin@example.com'`);
+    expect(await verifyPassword("piped passphrase 42", u.passwordHash)).toBe(true);
+  });
+
+  it("exits 1 for a taken e-mail and 2 for bad usage", () => {
+    const taken = run(["create-organiser", "--email", "ida.penrose@example.com", "--name", "Again", "--password", "correct horse battery"]);
+    expect(taken.code).toBe(1);
+    expect(taken.err).toMatch(/already exists/);
+    const short = run(["create-organiser", "--email", "x@example.com", "--name", "X", "--password", "short"]);
+    expect(short.code).toBe(2);
+    expect(short.err).toMatch(/--password: at least 12 characters/);
+    expect(run(["create-organiser", "--email", "x@example.com"]).code).toBe(2);
+    expect(run(["create-organiser", "--bogus"]).code).toBe(2);
+    expect(run(["create-organiser", "--email", "y@example.com", "--name", "Y", "--password", "long enough pass", "--role", "admin"]).code).toBe(2);
+  });
+});
+
+describe("demo", () => {
+  it("--if-empty loads nothing when accounts exist", () => {
+    const r = run(["demo", "--if-empty"]);
+    expect(r.code).toBe(0);
+    expect(r.out).toMatch(/nothing loaded/);
+    expect(query(dbFile, `SELECT id FROM Panel`)).toHaveLength(0);
+  });
+
+  it("loads the Quillmoor panel: roster, seven invitations, two closed rounds and an open third", async () => {
+    const r = run(["demo"]);
+    expect(r.code, r.err).toBe(0);
+    const password = /organiser@quillmoor\.example\s+password: (\S+)/.exec(r.out)?.[1];
+    expect(password).toBeDefined();
+    const [org] = query<{ passwordHash: string }>(dbFile, `SELECT passwordHash FROM User WHERE email = 'organiser@quillmoor.example'`);
+    expect(await verifyPassword(password!, org.passwordHash)).toBe(true);
+    expect(query(dbFile, `SELECT id FROM User WHERE email = 'reviewer@quillmoor.example' AND role = 'reviewer'`)).toHaveLength(1);
+    expect(r.out.match(/\/p\/[A-Za-z0-9_-]{43}/g)).toHaveLength(7);
+
+    const [panel] = query<{ id: string; title: string; status: string }>(dbFile, `SELECT id, title, status FROM Panel WHERE title = 'Year-one unit sales of the Wren-2'`);
+    expect(panel).toMatchObject({ title: "Year-one unit sales of the Wren-2", status: "running" });
+    const groups = query<{ grp: string; n: number }>(dbFile, `SELECT "group" AS grp, COUNT(*) AS n FROM RosterMember GROUP BY "group" ORDER BY grp`);
+    expect(groups).toEqual([{ grp: "engineering", n: 3 }, { grp: "operations", n: 2 }, { grp: "sales", n: 3 }]);
+    expect(query(dbFile, `SELECT id FROM Invitation WHERE panelId = ?`, panel.id)).toHaveLength(7);
+    const questions = query<{ answerFormat: string; aggregation: string }>(dbFile, `SELECT answerFormat, aggregation FROM Question WHERE panelId = ? ORDER BY position`, panel.id);
+    expect(questions).toEqual([{ answerFormat: "three-point", aggregation: "shared" }, { answerFormat: "single", aggregation: "sum-of-parts" }]);
+    expect(query<{ number: number; status: string }>(dbFile, `SELECT number, status FROM Round WHERE panelId = ? ORDER BY number`, panel.id)).toEqual([
+      { number: 1, status: "closed" },
+      { number: 2, status: "closed" },
+      { number: 3, status: "open" },
+    ]);
+    expect(query(dbFile, `SELECT panelId FROM PanelShare WHERE role = 'reviewer'`)).toHaveLength(1);
+  });
+
+  it("stores round statistics that equal R's on the stored answers, and the rounds converge", () => {
+    const stats = query<{ number: number; position: number; data: string; questionId: string; roundId: string }>(
+      dbFile,
+      `SELECT r.number, q.position, s.data, s.questionId, s.roundId FROM RoundStatistic s JOIN Round r ON r.id = s.roundId JOIN Question q ON q.id = s.questionId JOIN Panel p ON p.id = r.panelId WHERE p.title = 'Year-one unit sales of the Wren-2' ORDER BY r.number, q.position`,
+    );
+    expect(stats.map((s) => [s.number, s.position])).toEqual([[1, 1], [1, 2], [2, 1], [2, 2]]);
+    const iqrs: number[] = [];
+    for (const s of stats.filter((x) => x.position === 1)) {
+      // Final answers: each invitation's highest version in that round.
+      const rows = query<{ value: number }>(
+        dbFile,
+        `SELECT a.value FROM Answer a WHERE a.roundId = ? AND a.questionId = ? AND a.version = (SELECT MAX(b.version) FROM Answer b WHERE b.roundId = a.roundId AND b.questionId = a.questionId AND b.invitationId = a.invitationId)`,
+        s.roundId,
+        s.questionId,
+      );
+      expect(rows).toHaveLength(7);
+      const x = rows.map((r) => r.value);
+      const [expected] = runR(`x <- ${rVector(x)}; out(c(quantile(x, c(0.25, 0.5, 0.75), type = 7, names = FALSE), IQR(x), sd(x)))`);
+      const d = JSON.parse(s.data);
+      expectClose([d.values.q1, d.values.median, d.values.q3, d.values.iqr, d.values.sd], expected, 1e-12, `round ${s.number} vs R`);
+      iqrs.push(d.values.iqr);
+    }
+    expect(iqrs[1]).toBeLessThan(iqrs[0]);
+    const total = JSON.parse(stats[1].data).sumOfParts.total;
+    const [[rTotal]] = runR(`out(sum(c(2600, 1800, 3400, 1500, 2200, 1200, 2900)))`);
+    expect(total).toBe(rTotal);
+  });
+
+  it("refuses to load twice", () => {
+    const r = run(["demo"]);
+    expect(r.code).toBe(1);
+    expect(r.err).toMatch(/already loaded/);
+  });
+});
+
+describe("backup", () => {
+  it("writes a consistent copy holding the same rows", () => {
+    const target = path.join(dir, "copy.db");
+    const r = run(["backup", target]);
+    expect(r.code).toBe(0);
+    expect(existsSync(target)).toBe(true);
+    for (const table of ["User", "RosterMember", "Panel", "Question", "Round", "Invitation", "Answer", "RoundStatistic", "AuditEvent"]) {
+      const sql = `SELECT * FROM "${table}" ORDER BY id`;
+      expect(query(target, sql), table).toEqual(query(dbFile, sql));
+    }
+    expect(query(target, `SELECT id FROM Answer`).length).toBeGreaterThan(0);
+  });
+
+  it("refuses to overwrite a file and needs exactly one argument", () => {
+    const again = run(["backup", path.join(dir, "copy.db")]);
+    expect(again.code).toBe(1);
+    expect(again.err).toMatch(/already exists/);
+    expect(run(["backup"]).code).toBe(2);
+  });
+});

@@ -1,0 +1,196 @@
+import { execFileSync, spawnSync } from "node:child_process";
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join, resolve } from "node:path";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+
+const BIN = resolve(__dirname, "../../bin/triangulate.mjs");
+const NIST12 = "/work/shared/reference-data/nist_handbook_6431_ses12.csv";
+let dir: string;
+
+function cli(args: string[], input?: string) {
+  const r = spawnSync(process.execPath, [BIN, ...args], { encoding: "utf8", input, cwd: dir });
+  return { code: r.status, out: r.stdout, err: r.stderr };
+}
+
+/** Evaluates R code and returns the printed numbers. */
+function r(code: string): number[] {
+  const out = execFileSync("Rscript", ["-e", code], { encoding: "utf8", stdio: "pipe" });
+  return out.trim().split(/\s+/).map(Number);
+}
+
+beforeAll(() => {
+  dir = mkdtempSync(join(tmpdir(), "triangulate-cli-"));
+  // Public test data: R's datasets::AirPassengers and datasets::Nile, written by R itself.
+  execFileSync("Rscript", [
+    "-e",
+    `write.csv(data.frame(value = as.numeric(AirPassengers)), "${dir}/airpassengers.csv", row.names = FALSE);
+     write.csv(data.frame(year = as.numeric(time(Nile)), flow = as.numeric(Nile)), "${dir}/nile.csv", row.names = FALSE)`,
+  ]);
+  // The NIST series with a bad cell in row 4 (header = row 1) and with a gap.
+  const lines = readFileSync(NIST12, "utf8").trim().split(/\r?\n/);
+  writeFileSync(join(dir, "bad.csv"), lines.map((l, i) => (i === 3 ? "3,abc" : l)).join("\n"));
+});
+
+afterAll(() => rmSync(dir, { recursive: true, force: true }));
+
+describe("triangulate baseline", () => {
+  it("--method naive on the NIST 12-point series equals R's forecast::naive, bounds included", () => {
+    const res = cli(["baseline", NIST12, "--value", "y", "--method", "naive", "--horizon", "3", "--levels", "80,95"]);
+    expect(res.err).toBe("");
+    expect(res.code).toBe(0);
+    const out = JSON.parse(res.out);
+    // Expected: R 4.2.2, forecast 8.20, naive(y, h = 3, level = c(80, 95)) on the NIST e-Handbook §6.4.3.1 series.
+    const rv = r(
+      `y <- read.csv("${NIST12}")$y; f <- forecast::naive(y, h = 3, level = c(80, 95));
+       cat(format(c(f$mean, f$lower[, 1], f$upper[, 1], f$lower[, 2], f$upper[, 2]), digits = 17))`,
+    );
+    expect(out.file).toBe(NIST12);
+    expect(out.method).toBe("naive");
+    expect(out.horizon).toBe(3);
+    expect(out.forecast.map((s: { mean: number }) => s.mean)).toEqual([70, 70, 70]);
+    out.forecast.forEach((s: { step: number; lower: Record<string, number>; upper: Record<string, number> }, i: number) => {
+      expect(s.step).toBe(i + 1);
+      expect(s.lower["80"]).toBeCloseTo(rv[3 + i], 9);
+      expect(s.upper["80"]).toBeCloseTo(rv[6 + i], 9);
+      expect(s.lower["95"]).toBeCloseTo(rv[9 + i], 9);
+      expect(s.upper["95"]).toBeCloseTo(rv[12 + i], 9);
+    });
+    // In-sample naive MASE is 1 by construction and MAE = 29/11 (REFERENCES.md §4, R accuracy()).
+    expect(out.accuracy.insample.mase).toBeCloseTo(1, 12);
+    expect(out.accuracy.insample.mae).toBeCloseTo(29 / 11, 12);
+    expect(out.fitted[0]).toBeNull();
+    expect(out.fitted[1]).toBe(71);
+  });
+
+  it("automatic selection reports every candidate's MASE and the field names of issue 2", () => {
+    const res = cli(["baseline", "airpassengers.csv", "--season", "12", "--horizon", "12"]);
+    expect(res.err).toBe("");
+    expect(res.code).toBe(0);
+    const out = JSON.parse(res.out);
+    for (const key of ["file", "method", "parameters", "season", "horizon", "forecast", "fitted", "accuracy", "candidates", "notes"]) {
+      expect(out).toHaveProperty(key);
+    }
+    expect(Object.keys(out.accuracy.insample).sort()).toEqual(["mae", "mape", "mase", "rmse", "smape"]);
+    expect(out.season).toBe(12);
+    expect(out.forecast).toHaveLength(12);
+    expect(out.fitted).toHaveLength(144);
+    const scored = out.candidates.filter((c: { mase: number | null }) => c.mase !== null);
+    expect(scored.length).toBeGreaterThanOrEqual(5);
+    // Candidates are listed best first; the chosen method is the best scored one (or their combination).
+    const masess = scored.map((c: { mase: number }) => c.mase);
+    expect([...masess].sort((a, b) => a - b)).toEqual(masess);
+    if (out.method !== "combination") expect(out.method).toBe(scored[0].method);
+    // Methods that cannot run are listed with the reason (regression has no explanatory column here).
+    expect(out.candidates.find((c: { method: string }) => c.method === "regression")?.error).toBe("regression needs explanatory columns");
+  });
+
+  it("regression uses the explanatory columns and their future rows like R's lm() and predict()", () => {
+    // R's datasets::freeny (quarterly revenue with four explanatory series); the last 4 values
+    // are blanked so that their explanatory rows become future rows.
+    execFileSync("Rscript", [
+      "-e",
+      `d <- freeny; names(d) <- c("value", "lagrev", "price", "income", "potential"); d$value <- as.numeric(d$value);
+       d$value[36:39] <- NA; write.csv(d, "${dir}/freeny.csv", row.names = FALSE, na = "")`,
+    ], { stdio: "pipe" });
+    const res = cli(["baseline", "freeny.csv", "--method", "regression", "--levels", "80,95"]);
+    expect(res.err).toBe("");
+    const out = JSON.parse(res.out);
+    expect(out.horizon).toBe(4);
+    // Expected: R 4.2.2 lm() on the same CSV, predict(interval = "prediction") at 80% and 95%.
+    const rv = r(
+      `d <- read.csv("${dir}/freeny.csv"); fit <- lm(value ~ lagrev + price + income + potential, data = d[1:35, ]);
+       p80 <- predict(fit, d[36:39, ], interval = "prediction", level = 0.8); p95 <- predict(fit, d[36:39, ], interval = "prediction", level = 0.95);
+       cat(format(c(coef(fit), p80, p95[, 2:3]), digits = 17))`,
+    );
+    expect(out.parameters.intercept).toBeCloseTo(rv[0], 8);
+    expect(out.parameters.potential).toBeCloseTo(rv[4], 8);
+    out.forecast.forEach((s: { mean: number; lower: Record<string, number>; upper: Record<string, number> }, i: number) => {
+      expect(s.mean).toBeCloseTo(rv[5 + i], 9);
+      expect(s.lower["80"]).toBeCloseTo(rv[9 + i], 9);
+      expect(s.upper["80"]).toBeCloseTo(rv[13 + i], 9);
+      expect(s.lower["95"]).toBeCloseTo(rv[17 + i], 9);
+      expect(s.upper["95"]).toBeCloseTo(rv[21 + i], 9);
+    });
+  });
+
+  it("forecasts several files in one call, in order, reading - from standard input", () => {
+    const nile = readFileSync(join(dir, "nile.csv"), "utf8");
+    const res = cli(["baseline", NIST12, "-", "--value", "flow", "--method", "drift", "--horizon", "2"], nile);
+    // NIST12 has no 'flow' column, so this call must fail as a whole …
+    expect(res.code).toBe(1);
+    expect(res.out).toBe("");
+    expect(res.err).toContain(`${NIST12}: no column named 'flow'`);
+    // … while two files that both have the column give an array in the order given.
+    writeFileSync(join(dir, "nile2.csv"), nile);
+    const ok = cli(["baseline", "nile2.csv", "-", "--value", "flow", "--method", "drift", "--horizon", "2"], nile);
+    expect(ok.err).toBe("");
+    const arr = JSON.parse(ok.out);
+    expect(Array.isArray(arr)).toBe(true);
+    expect(arr.map((x: { file: string }) => x.file)).toEqual(["nile2.csv", "-"]);
+    // Drift forecasts from R 4.2.2 forecast::rwf(Nile, h = 2, drift = TRUE).
+    const rv = r("cat(format(forecast::rwf(Nile, h = 2, drift = TRUE)$mean, digits = 17))");
+    expect(arr[1].forecast[0].mean).toBeCloseTo(rv[0], 9);
+    expect(arr[1].forecast[1].mean).toBeCloseTo(rv[1], 9);
+  });
+
+  it("names file, row and column of a bad cell, exits 1 and writes nothing to stdout", () => {
+    const res = cli(["baseline", NIST12, "bad.csv", "--value", "y", "--method", "naive"]);
+    expect(res.code).toBe(1);
+    expect(res.out).toBe("");
+    expect(res.err).toBe("triangulate baseline: bad.csv: row 4, column 'y': 'abc' is not a number\n");
+  });
+
+  it("refuses unknown options, bad values and absurd horizons", () => {
+    const unknown = cli(["baseline", NIST12, "--sesaon", "4"]);
+    expect(unknown.code).toBe(2);
+    expect(unknown.out).toBe("");
+    expect(unknown.err).toContain("Unknown option '--sesaon'");
+    const method = cli(["baseline", NIST12, "--method", "prophecy"]);
+    expect(method.code).toBe(2);
+    expect(method.err).toContain("--method: unknown method 'prophecy'");
+    const season = cli(["baseline", NIST12, "--season", "1.5"]);
+    expect(season.code).toBe(2);
+    expect(season.err).toContain("--season must be a whole number of at least 1 (got '1.5')");
+    const horizon = cli(["baseline", NIST12, "--value", "y", "--horizon", "5000"]);
+    expect(horizon.code).toBe(1);
+    expect(horizon.out).toBe("");
+    expect(horizon.err).toContain("horizon 5000 is above the maximum of 1000 steps");
+    const missing = cli(["baseline", "no-such-file.csv"]);
+    expect(missing.code).toBe(1);
+    expect(missing.err).toContain("no-such-file.csv: cannot read the file (ENOENT)");
+  });
+
+  it("loads only the engine: no database, Prisma or Next module is imported by baseline", () => {
+    const root = resolve(__dirname, "../..");
+    const probe = join(dir, "probe.mjs");
+    writeFileSync(
+      probe,
+      `import { register } from ${JSON.stringify(join(root, "node_modules/tsx/dist/esm/api/index.mjs"))};
+       const seen = [];
+       register({ tsconfig: ${JSON.stringify(join(root, "tsconfig.json"))}, onImport: (u) => seen.push(u) });
+       const { main } = await import(${JSON.stringify(join(root, "lib/cli/main.ts"))});
+       const io = { out: () => {}, err: (t) => process.stderr.write(t), stdin: () => "" };
+       const code = await main(["baseline", ${JSON.stringify(NIST12)}, "--value", "y", "--horizon", "2"], io);
+       process.stdout.write(JSON.stringify({ code, seen }));`,
+    );
+    const res = spawnSync(process.execPath, [probe], { encoding: "utf8" });
+    const { code, seen } = JSON.parse(res.stdout) as { code: number; seen: string[] };
+    expect(code).toBe(0);
+    expect(seen.some((u) => u.includes("/lib/forecast/baseline.ts"))).toBe(true);
+    expect(seen.filter((u) => /prisma|\/lib\/db|\/next\/|better-sqlite3|\/lib\/cli\/admin/.test(u))).toEqual([]);
+  });
+
+  it("prints a table for people and lists the commands", () => {
+    const res = cli(["baseline", NIST12, "--value", "y", "--method", "naive", "--horizon", "2", "--format", "table"]);
+    expect(res.code).toBe(0);
+    expect(res.out).toContain("method naive, season 1, horizon 2");
+    expect(res.out).toMatch(/step\s+mean\s+lower 80%\s+upper 80%\s+lower 95%\s+upper 95%/);
+    const help = cli(["help"]);
+    expect(help.code).toBe(0);
+    expect(help.out).toContain("baseline");
+    const none = cli(["frobnicate"]);
+    expect(none.code).toBe(2);
+    expect(none.err).toContain("unknown command 'frobnicate'");
+  });
+});
