@@ -1598,6 +1598,7 @@ export const MAX_HORIZON = 10000;
  * A,A,M: the bounds are sample quantiles (Hyndman & Fan type 7) of SIMULATION_PATHS paths of
  * the model with N(0, σ²) errors from a deterministic generator (mulberry32, Box–Muller;
  * rng start SIMULATION_RNG_START); `sd` is the standard deviation of the simulated paths.
+ * With no levels asked, A,A,M skips the simulation and `sd` is NaN.
  * @throws ForecastInputError for a bad horizon or level.
  */
 export function etsForecast(what: string, method: MethodId, model: EtsModel, fit: Fit, h: number, levels: readonly number[]): Forecast {
@@ -1644,6 +1645,9 @@ export function etsForecast(what: string, method: MethodId, model: EtsModel, fit
       lower[String(lv)] = mean.map((v, i) => v - z * sd[i]);
       upper[String(lv)] = mean.map((v, i) => v + z * sd[i]);
     }
+  } else if (levels.length === 0) {
+    // No interval asked (automatic selection scores point forecasts only): skip the simulation.
+    for (let i = 0; i < h; i++) sd.push(Number.NaN);
   } else {
     const paths = simulateAam(level, trend, seasonNext, m, alpha, beta, gamma, phi, Math.sqrt(sigma2), h, SIMULATION_PATHS);
     for (const lv of levels) {
