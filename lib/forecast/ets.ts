@@ -1051,7 +1051,6 @@ function solveStatesMult(
     let improved = false;
     for (let attempt = 0; attempt < 12; attempt++) {
       // Solve (A + λ·diag(A)) step = rhs by Cholesky.
-      let ok = true;
       for (let i = 0; i < p; i++) {
         for (let j = i; j < p; j++) {
           const v = a[i * p + j];
@@ -1059,33 +1058,9 @@ function solveStatesMult(
           chol[j * p + i] = v;
         }
         chol[i * p + i] = a[i * p + i] * (1 + lambda) + 1e-300;
+        step[i] = rhs[i];
       }
-      for (let j = 0; j < p && ok; j++) {
-        let d = chol[j * p + j];
-        for (let kk = 0; kk < j; kk++) d -= chol[j * p + kk] * chol[j * p + kk];
-        if (!(d > 0)) {
-          ok = false;
-          break;
-        }
-        const ljj = Math.sqrt(d);
-        chol[j * p + j] = ljj;
-        for (let i = j + 1; i < p; i++) {
-          let v = chol[i * p + j];
-          for (let kk = 0; kk < j; kk++) v -= chol[i * p + kk] * chol[j * p + kk];
-          chol[i * p + j] = v / ljj;
-        }
-      }
-      if (ok) {
-        for (let i = 0; i < p; i++) {
-          let v = rhs[i];
-          for (let kk = 0; kk < i; kk++) v -= chol[i * p + kk] * step[kk];
-          step[i] = v / chol[i * p + i];
-        }
-        for (let i = p - 1; i >= 0; i--) {
-          let v = step[i];
-          for (let kk = i + 1; kk < p; kk++) v -= chol[kk * p + i] * step[kk];
-          step[i] = v / chol[i * p + i];
-        }
+      if (choleskySolve(chol, step, p)) {
         for (let i = 0; i < p; i++) zTrial[i] = z[i] + step[i];
         loadStates(zTrial, g, trendOn, m, freeL0, freeB0, freeS, s, LB);
         const trial = filter(y, n, trendOn, 2, m, alpha, beta, gamma, phi, LB[0], LB[1], s, null, 0, null);
@@ -1124,6 +1099,38 @@ interface JointSpec {
   phiFixed: number;
 }
 
+
+/**
+ * Solves C·x = b in place by Cholesky factorisation (Golub & Van Loan, Matrix Computations,
+ * §4.2): `c` holds the symmetric p×p matrix row-major and is overwritten by its lower factor;
+ * `x` holds b on entry and the solution on return. Returns false, leaving `x` partly
+ * overwritten, when C is not positive definite. O(p³); no allocation.
+ */
+function choleskySolve(c: Float64Array, x: Float64Array, p: number): boolean {
+  for (let j = 0; j < p; j++) {
+    let d = c[j * p + j];
+    for (let k = 0; k < j; k++) d -= c[j * p + k] * c[j * p + k];
+    if (!(d > 0)) return false;
+    const ljj = Math.sqrt(d);
+    c[j * p + j] = ljj;
+    for (let i = j + 1; i < p; i++) {
+      let v = c[i * p + j];
+      for (let k = 0; k < j; k++) v -= c[i * p + k] * c[j * p + k];
+      c[i * p + j] = v / ljj;
+    }
+  }
+  for (let i = 0; i < p; i++) {
+    let v = x[i];
+    for (let k = 0; k < i; k++) v -= c[i * p + k] * x[k];
+    x[i] = v / c[i * p + i];
+  }
+  for (let i = p - 1; i >= 0; i--) {
+    let v = x[i];
+    for (let k = i + 1; k < p; k++) v -= c[k * p + i] * x[k];
+    x[i] = v / c[i * p + i];
+  }
+  return true;
+}
 /**
  * One derivative pass of {@link refineJoint}: accumulates J'J (upper triangle) into `a` and
  * J'e into `rhs`, J being the derivatives of the one-step fitted values with respect to the
@@ -1424,33 +1431,7 @@ function refineJoint(
           step[i] = 0;
         }
       }
-      let ok = true;
-      for (let j = 0; j < P && ok; j++) {
-        let d = chol[j * P + j];
-        for (let kk = 0; kk < j; kk++) d -= chol[j * P + kk] * chol[j * P + kk];
-        if (!(d > 0)) {
-          ok = false;
-          break;
-        }
-        const ljj = Math.sqrt(d);
-        chol[j * P + j] = ljj;
-        for (let i = j + 1; i < P; i++) {
-          let v = chol[i * P + j];
-          for (let kk = 0; kk < j; kk++) v -= chol[i * P + kk] * chol[j * P + kk];
-          chol[i * P + j] = v / ljj;
-        }
-      }
-      if (ok) {
-        for (let i = 0; i < P; i++) {
-          let v = step[i];
-          for (let kk = 0; kk < i; kk++) v -= chol[i * P + kk] * step[kk];
-          step[i] = v / chol[i * P + i];
-        }
-        for (let i = P - 1; i >= 0; i--) {
-          let v = step[i];
-          for (let kk = i + 1; kk < P; kk++) v -= chol[kk * P + i] * step[kk];
-          step[i] = v / chol[i * P + i];
-        }
+      if (choleskySolve(chol, step, P)) {
         for (let i = 0; i < P; i++) {
           let v = w[i] + step[i];
           if (i < nPar) v = Math.min(upper[i], Math.max(lower[i], v));
