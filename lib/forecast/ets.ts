@@ -879,29 +879,11 @@ function solveStates(
   let maxDiag = 0;
   for (let i = 0; i < p; i++) if (a[i * p + i] > maxDiag) maxDiag = a[i * p + i];
   const ridge = 1e-12 * maxDiag + 1e-300;
-  // Cholesky in place (lower triangle).
-  for (let j = 0; j < p; j++) {
-    let d = a[j * p + j] + ridge;
-    for (let kk = 0; kk < j; kk++) d -= a[j * p + kk] * a[j * p + kk];
-    if (!(d > 0)) return Infinity;
-    const ljj = Math.sqrt(d);
-    a[j * p + j] = ljj;
-    for (let i = j + 1; i < p; i++) {
-      let v = a[i * p + j];
-      for (let kk = 0; kk < j; kk++) v -= a[i * p + kk] * a[j * p + kk];
-      a[i * p + j] = v / ljj;
-    }
-  }
   for (let i = 0; i < p; i++) {
-    let v = rhs[i];
-    for (let kk = 0; kk < i; kk++) v -= a[i * p + kk] * z[kk];
-    z[i] = v / a[i * p + i];
+    a[i * p + i] += ridge;
+    z[i] = rhs[i];
   }
-  for (let i = p - 1; i >= 0; i--) {
-    let v = z[i];
-    for (let kk = i + 1; kk < p; kk++) v -= a[kk * p + i] * z[kk];
-    z[i] = v / a[i * p + i];
-  }
+  if (!choleskySolve(a, z, p)) return Infinity;
   // SSE(z) = e⁰·e⁰ − z·(X'e⁰) at the least-squares solution.
   let explained = 0;
   for (let i = 0; i < p; i++) explained += z[i] * rhs[i];
@@ -1099,7 +1081,6 @@ interface JointSpec {
   phiFixed: number;
 }
 
-
 /**
  * Solves C·x = b in place by Cholesky factorisation (Golub & Van Loan, Matrix Computations,
  * §4.2): `c` holds the symmetric p×p matrix row-major and is overwritten by its lower factor;
@@ -1131,6 +1112,7 @@ function choleskySolve(c: Float64Array, x: Float64Array, p: number): boolean {
   }
   return true;
 }
+
 /**
  * One derivative pass of {@link refineJoint}: accumulates J'J (upper triangle) into `a` and
  * J'e into `rhs`, J being the derivatives of the one-step fitted values with respect to the
