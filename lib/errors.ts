@@ -8,6 +8,10 @@
 export interface FieldError {
   readonly field: string;
   readonly message: string;
+  /** For a CSV cell: its row (the header is row 1, as a spreadsheet shows it). */
+  readonly row?: number;
+  /** For a CSV cell: its column name. */
+  readonly column?: string;
 }
 
 export class DomainError extends Error {

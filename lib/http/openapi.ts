@@ -44,7 +44,7 @@ function operation(r: RouteDef): Json {
   }
   const problemRef = { $ref: "#/components/schemas/Problem" };
   const responses: Json = {
-    [String(r.status)]: { description: STATUS_TEXT[r.status], content: { "application/json": { schema: schemaOf(r.response, "output") } } },
+    [String(r.status)]: { description: STATUS_TEXT[r.status], content: { [r.produces ?? "application/json"]: { schema: schemaOf(r.response, "output") } } },
   };
   const errs = new Set<number>(r.errors);
   if (r.body) errs.add(400);

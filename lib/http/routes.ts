@@ -11,8 +11,10 @@
 import type { z } from "zod";
 import * as input from "@/lib/validation/inputs";
 import * as out from "@/lib/validation/outputs";
+import * as tin from "@/lib/validation/triangulation-inputs";
+import * as tout from "@/lib/validation/triangulation-outputs";
 
-export type HttpMethod = "GET" | "POST" | "PATCH" | "DELETE";
+export type HttpMethod = "GET" | "POST" | "PUT" | "PATCH" | "DELETE";
 export type RouteAuth = "none" | "user" | "panelist";
 
 export interface RouteDef {
@@ -21,7 +23,7 @@ export interface RouteDef {
   /** OpenAPI path template, e.g. /api/v1/panels/{panelId} */
   readonly path: string;
   readonly summary: string;
-  readonly tag: "setup" | "account" | "roster" | "panels" | "invitations" | "rounds" | "panelist";
+  readonly tag: "setup" | "account" | "roster" | "panels" | "invitations" | "rounds" | "panelist" | "triangulation";
   readonly auth: RouteAuth;
   readonly params?: z.ZodObject;
   readonly body?: z.ZodType;
@@ -29,6 +31,8 @@ export interface RouteDef {
   readonly idempotent?: boolean;
   readonly status: 200 | 201;
   readonly response: z.ZodType;
+  /** Content type of the success response when it is not JSON (e.g. "text/csv"). */
+  readonly produces?: string;
   /** Problem statuses the operation can answer with (documented). */
   readonly errors: readonly number[];
 }
@@ -507,6 +511,179 @@ export const routes = {
     auth: "panelist",
     status: 200,
     response: out.feedback,
+    errors: [...AUTH_ERRORS],
+  }),
+  getBaseline: route({
+    operationId: "getBaseline",
+    method: "GET",
+    path: "/api/v1/panels/{panelId}/questions/{questionId}/baseline",
+    summary: "The question's baseline: what was read, method, parameters, holdout accuracy and the target-period forecast",
+    tag: "triangulation",
+    auth: "user",
+    params: input.params.question,
+    status: 200,
+    response: tout.baseline,
+    errors: [...AUTH_ERRORS, 404],
+  }),
+  attachBaseline: route({
+    operationId: "attachBaseline",
+    method: "PUT",
+    path: "/api/v1/panels/{panelId}/questions/{questionId}/baseline",
+    summary: "Attach or replace the question's baseline (CSV or pasted values, optionally an analogous product's history scaled by a factor)",
+    tag: "triangulation",
+    auth: "user",
+    params: input.params.question,
+    body: tin.baselineInput,
+    status: 200,
+    response: tout.baseline,
+    errors: [...AUTH_ERRORS, 404, 409, 422],
+  }),
+  removeBaseline: route({
+    operationId: "removeBaseline",
+    method: "DELETE",
+    path: "/api/v1/panels/{panelId}/questions/{questionId}/baseline",
+    summary: "Remove the question's baseline (not once the question is resolved)",
+    tag: "triangulation",
+    auth: "user",
+    params: input.params.question,
+    status: 200,
+    response: out.deleted,
+    errors: [...AUTH_ERRORS, 404, 409],
+  }),
+  previewBaseline: route({
+    operationId: "previewBaseline",
+    method: "POST",
+    path: "/api/v1/panels/{panelId}/questions/{questionId}/baseline/preview",
+    summary: "Read and fit a baseline without storing it: what was read and the forecast",
+    tag: "triangulation",
+    auth: "user",
+    params: input.params.question,
+    body: tin.baselineInput,
+    status: 200,
+    response: tout.baseline,
+    errors: [...AUTH_ERRORS, 404, 422],
+  }),
+  setPanelBlendRule: route({
+    operationId: "setPanelBlendRule",
+    method: "PUT",
+    path: "/api/v1/panels/{panelId}/blend-rule",
+    summary: "Set the panel's blend weight rule: equal, inverse-MSE (Bates & Granger) or organiser-set",
+    tag: "triangulation",
+    auth: "user",
+    params: input.params.panelId,
+    body: tin.panelBlendRuleInput,
+    status: 200,
+    response: tout.blendRule,
+    errors: [...AUTH_ERRORS, 404, 422],
+  }),
+  setQuestionBlendRule: route({
+    operationId: "setQuestionBlendRule",
+    method: "PUT",
+    path: "/api/v1/panels/{panelId}/questions/{questionId}/blend-rule",
+    summary: "Set one question's blend weight rule, or 'panel' to use the panel's",
+    tag: "triangulation",
+    auth: "user",
+    params: input.params.question,
+    body: tin.questionBlendRuleInput,
+    status: 200,
+    response: tout.questionBlendRule,
+    errors: [...AUTH_ERRORS, 404, 422],
+  }),
+  getTriangulation: route({
+    operationId: "getTriangulation",
+    method: "GET",
+    path: "/api/v1/panels/{panelId}/questions/{questionId}/triangulation",
+    summary: "Panel figure raw and bias-corrected, baseline, blend with its range, and departures (computed on read)",
+    tag: "triangulation",
+    auth: "user",
+    params: input.params.question,
+    status: 200,
+    response: tout.triangulation,
+    errors: [...AUTH_ERRORS, 404],
+  }),
+  getResolution: route({
+    operationId: "getResolution",
+    method: "GET",
+    path: "/api/v1/panels/{panelId}/questions/{questionId}/resolution",
+    summary: "The question's actual value with the scores of every figure",
+    tag: "triangulation",
+    auth: "user",
+    params: input.params.question,
+    status: 200,
+    response: tout.resolution,
+    errors: [...AUTH_ERRORS, 404],
+  }),
+  resolveQuestion: route({
+    operationId: "resolveQuestion",
+    method: "POST",
+    path: "/api/v1/panels/{panelId}/questions/{questionId}/resolution",
+    summary: "Record the question's actual value (once) and score every figure",
+    tag: "triangulation",
+    auth: "user",
+    params: input.params.question,
+    body: tin.resolutionInput,
+    status: 201,
+    response: tout.resolution,
+    errors: [...AUTH_ERRORS, 404, 409, 422],
+  }),
+  correctResolution: route({
+    operationId: "correctResolution",
+    method: "PATCH",
+    path: "/api/v1/panels/{panelId}/questions/{questionId}/resolution",
+    summary: "Correct a recorded actual value (audited, with the reason); the scores are recomputed",
+    tag: "triangulation",
+    auth: "user",
+    params: input.params.question,
+    body: tin.resolutionCorrection,
+    status: 200,
+    response: tout.resolution,
+    errors: [...AUTH_ERRORS, 404, 422],
+  }),
+  getQuestionReport: route({
+    operationId: "getQuestionReport",
+    method: "GET",
+    path: "/api/v1/panels/{panelId}/questions/{questionId}/report.json",
+    summary: "The question's report: blend first, the three legs, convergence, departures, bias correction, notes and cautions",
+    tag: "triangulation",
+    auth: "user",
+    params: input.params.question,
+    status: 200,
+    response: tout.questionReport,
+    errors: [...AUTH_ERRORS, 404],
+  }),
+  getQuestionReportCsv: route({
+    operationId: "getQuestionReportCsv",
+    method: "GET",
+    path: "/api/v1/panels/{panelId}/questions/{questionId}/report.csv",
+    summary: "The question's report as CSV (formula-like cells neutralised)",
+    tag: "triangulation",
+    auth: "user",
+    params: input.params.question,
+    status: 200,
+    produces: "text/csv",
+    response: tout.csvText,
+    errors: [...AUTH_ERRORS, 404],
+  }),
+  listTrackRecords: route({
+    operationId: "listTrackRecords",
+    method: "GET",
+    path: "/api/v1/track-records",
+    summary: "Track record and bias factor of every roster member over the organiser's resolved questions",
+    tag: "triangulation",
+    auth: "user",
+    status: 200,
+    response: tout.rosterTrackRecord.array(),
+    errors: [...AUTH_ERRORS],
+  }),
+  getAccuracyHistory: route({
+    operationId: "getAccuracyHistory",
+    method: "GET",
+    path: "/api/v1/accuracy-history",
+    summary: "Raw panel vs corrected vs baseline vs blend over the organiser's resolved questions, with the tracking signal",
+    tag: "triangulation",
+    auth: "user",
+    status: 200,
+    response: tout.accuracyHistory,
     errors: [...AUTH_ERRORS],
   }),
 } as const satisfies Record<string, RouteDef>;

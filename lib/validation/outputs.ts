@@ -18,7 +18,16 @@ export const problem = z
     status: z.number().int(),
     detail: z.string(),
     instance: z.string().optional(),
-    errors: z.array(z.object({ field: z.string().describe("dotted path, e.g. questions.0.lowerBound"), message: z.string() })).optional(),
+    errors: z
+      .array(
+        z.object({
+          field: z.string().describe("dotted path, e.g. questions.0.lowerBound"),
+          message: z.string(),
+          row: z.number().int().optional().describe("CSV errors: the row (header = 1)"),
+          column: z.string().optional().describe("CSV errors: the column name"),
+        }),
+      )
+      .optional(),
   })
   .describe("RFC 9457 problem details");
 

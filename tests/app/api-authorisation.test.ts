@@ -28,6 +28,10 @@ let panelistElsewhere = "";
 let P = "";
 let qP = "";
 let memberP = "";
+/** A panel (shared with the reviewer) whose question is resolved. */
+let R = "";
+let qR = "";
+const BASELINE = { values: [400, 410, 405, 420, 415, 430], method: "naive", horizon: 1 };
 
 const creds = (role: Role): Credentials =>
   ({
@@ -55,6 +59,15 @@ async function freshPanel(state: "draft" | "open" | "closed" = "draft"): Promise
   if (state !== "draft") await ok("POST", `/api/v1/panels/${p.id}/rounds/1/open`, owner, {});
   if (state === "closed") await ok("POST", `/api/v1/panels/${p.id}/rounds/1/close`, owner);
   return { id: p.id, questionId: p.questions[0].id };
+}
+
+/** A new panel of the owner with round 1 closed and one answer in it (ready to resolve). */
+async function freshAnsweredPanel(): Promise<{ id: string; questionId: string }> {
+  const p = await freshPanel("open");
+  const [inv] = await ok("POST", `/api/v1/panels/${p.id}/invitations`, owner, { rosterMemberIds: [await freshMember()] });
+  await ok("POST", "/api/v1/panelist/answers", inv.token, { questionId: p.questionId, value: 405 });
+  await ok("POST", `/api/v1/panels/${p.id}/rounds/1/close`, owner);
+  return p;
 }
 
 async function freshMember(): Promise<string> {
@@ -150,6 +163,44 @@ const ROWS: readonly Row[] = [
     expect: { ...panelistRoute(201), panelistElsewhere: 422 },
   },
   { route: "getFeedback", path: () => "/api/v1/panelist/feedback", expect: panelistRoute(200) },
+  { route: "getBaseline", path: () => `/api/v1/panels/${P}/questions/${qP}/baseline`, expect: panelRead(200) },
+  {
+    route: "attachBaseline",
+    path: async () => {
+      const p = await freshPanel();
+      return `/api/v1/panels/${p.id}/questions/${p.questionId}/baseline`;
+    },
+    body: () => BASELINE,
+    expect: ownerOnly(200),
+  },
+  {
+    route: "removeBaseline",
+    path: async () => {
+      const p = await freshPanel();
+      await ok("PUT", `/api/v1/panels/${p.id}/questions/${p.questionId}/baseline`, owner, BASELINE);
+      return `/api/v1/panels/${p.id}/questions/${p.questionId}/baseline`;
+    },
+    expect: ownerOnly(200),
+  },
+  { route: "previewBaseline", path: () => `/api/v1/panels/${P}/questions/${qP}/baseline/preview`, body: () => BASELINE, expect: ownerOnly(200) },
+  { route: "setPanelBlendRule", path: () => `/api/v1/panels/${P}/blend-rule`, body: () => ({ rule: "inverse-mse" }), expect: ownerOnly(200) },
+  { route: "setQuestionBlendRule", path: () => `/api/v1/panels/${P}/questions/${qP}/blend-rule`, body: () => ({ rule: "organiser", panelWeight: 0.6 }), expect: ownerOnly(200) },
+  { route: "getTriangulation", path: () => `/api/v1/panels/${P}/questions/${qP}/triangulation`, expect: panelRead(200) },
+  { route: "getResolution", path: () => `/api/v1/panels/${R}/questions/${qR}/resolution`, expect: panelRead(200) },
+  {
+    route: "resolveQuestion",
+    path: async () => {
+      const p = await freshAnsweredPanel();
+      return `/api/v1/panels/${p.id}/questions/${p.questionId}/resolution`;
+    },
+    body: () => ({ actual: 410 }),
+    expect: ownerOnly(201),
+  },
+  { route: "correctResolution", path: () => `/api/v1/panels/${R}/questions/${qR}/resolution`, body: () => ({ actual: 412, reason: "matrix" }), expect: ownerOnly(200) },
+  { route: "getQuestionReport", path: () => `/api/v1/panels/${P}/questions/${qP}/report.json`, expect: panelRead(200) },
+  { route: "getQuestionReportCsv", path: () => `/api/v1/panels/${P}/questions/${qP}/report.csv`, expect: panelRead(200) },
+  { route: "listTrackRecords", path: () => "/api/v1/track-records", expect: organiserRoute(200) },
+  { route: "getAccuracyHistory", path: () => "/api/v1/accuracy-history", expect: organiserRoute(200) },
 ];
 
 beforeAll(async () => {
@@ -168,6 +219,11 @@ beforeAll(async () => {
   await ok("POST", "/api/v1/panelist/answers", panelistHere, { questionId: qP, value: 400 });
   await ok("POST", `/api/v1/panels/${P}/rounds/1/close`, owner);
   await ok("POST", `/api/v1/panels/${P}/rounds`, owner, { open: true });
+  await ok("PUT", `/api/v1/panels/${P}/questions/${qP}/baseline`, owner, BASELINE);
+  const resolved = await freshAnsweredPanel();
+  R = resolved.id;
+  qR = resolved.questionId;
+  await ok("POST", `/api/v1/panels/${R}/questions/${qR}/resolution`, owner, { actual: 411 });
 
   const p2 = await ok("POST", "/api/v1/panels", other, { title: "Another organiser's panel", questions: [QUESTION] });
   const m2 = await ok("POST", "/api/v1/roster", other, { name: "Dana Quill", email: `d.${unique()}@example.com` });
@@ -195,7 +251,7 @@ describe("authorisation matrix", () => {
           expect(res.contentType, `${role}: ${res.text}`).toContain("application/problem+json");
           expect(res.body.status).toBe(res.status);
         } else {
-          expect(res.contentType).toContain("application/json");
+          expect(res.contentType).toContain(row.route === "getQuestionReportCsv" ? "text/csv" : "application/json");
         }
       }
       expect(seen).toEqual(row.expect);

@@ -36,7 +36,11 @@ export async function api<T = any>(
 ): Promise<ApiResult<T>> {
   const headers: Record<string, string> = { ...options.headers };
   if (options.token) headers.authorization = `Bearer ${options.token}`;
-  if (options.cookie) headers.cookie = options.cookie;
+  if (options.cookie) {
+    headers.cookie = options.cookie;
+    // What a browser sends with a same-site request (lib/http/handler.ts refuses cookie changes without it).
+    headers.origin ??= baseURL;
+  }
   let body: string | undefined;
   if (options.body !== undefined) {
     headers["content-type"] = "application/json";
@@ -115,8 +119,15 @@ export function clearDatabase(): void {
   const conn = openDb();
   try {
     conn.pragma("foreign_keys = OFF");
-    const tables = ["AuditEvent", "Answer", "RoundStatistic", "Invitation", "Round", "Question", "PanelShare", "Panel", "RosterMember", "ApiToken", "User"];
-    conn.transaction(() => tables.forEach((t) => conn.prepare(`DELETE FROM "${t}"`).run()))();
+    const tables = ["Resolution", "Baseline", "AuditEvent", "Answer", "RoundStatistic", "Invitation", "Round", "Question", "PanelShare", "Panel", "RosterMember", "ApiToken", "User"];
+    // The audit log is append-only (triggers of prisma/migrations/0002_audit_append_only): drop them
+    // for the clean-up and put them back as they were.
+    const triggers = conn.prepare(`SELECT name, sql FROM sqlite_master WHERE type = 'trigger' AND tbl_name = 'AuditEvent'`).all() as { name: string; sql: string }[];
+    conn.transaction(() => {
+      for (const t of triggers) conn.exec(`DROP TRIGGER "${t.name}"`);
+      tables.forEach((t) => conn.prepare(`DELETE FROM "${t}"`).run());
+      for (const t of triggers) conn.exec(t.sql);
+    })();
   } finally {
     conn.close();
   }

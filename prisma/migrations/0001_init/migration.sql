@@ -42,6 +42,8 @@ CREATE TABLE "Panel" (
     "consensusThreshold" REAL NOT NULL,
     "stabilityThreshold" REAL NOT NULL,
     "roundLimit" INTEGER NOT NULL,
+    "blendRule" TEXT NOT NULL DEFAULT 'equal',
+    "blendPanelWeight" REAL,
     "createdAt" DATETIME NOT NULL DEFAULT CURRENT_TIMESTAMP,
     "updatedAt" DATETIME NOT NULL,
     CONSTRAINT "Panel_ownerId_fkey" FOREIGN KEY ("ownerId") REFERENCES "User" ("id") ON DELETE RESTRICT ON UPDATE CASCADE
@@ -70,8 +72,48 @@ CREATE TABLE "Question" (
     "upperBound" REAL NOT NULL,
     "answerFormat" TEXT NOT NULL,
     "aggregation" TEXT NOT NULL,
+    "blendRule" TEXT,
+    "blendPanelWeight" REAL,
     "createdAt" DATETIME NOT NULL DEFAULT CURRENT_TIMESTAMP,
     CONSTRAINT "Question_panelId_fkey" FOREIGN KEY ("panelId") REFERENCES "Panel" ("id") ON DELETE CASCADE ON UPDATE CASCADE
+);
+
+-- CreateTable
+CREATE TABLE "Baseline" (
+    "id" TEXT NOT NULL PRIMARY KEY,
+    "questionId" TEXT NOT NULL,
+    "source" TEXT NOT NULL,
+    "data" TEXT NOT NULL,
+    "valueColumn" TEXT NOT NULL DEFAULT 'value',
+    "futureX" TEXT NOT NULL DEFAULT '{}',
+    "analogue" BOOLEAN NOT NULL DEFAULT false,
+    "scaleFactor" REAL NOT NULL DEFAULT 1,
+    "scaleNote" TEXT NOT NULL DEFAULT '',
+    "season" INTEGER NOT NULL DEFAULT 1,
+    "method" TEXT NOT NULL DEFAULT 'auto',
+    "horizon" INTEGER NOT NULL,
+    "result" TEXT NOT NULL,
+    "preview" TEXT NOT NULL,
+    "createdById" TEXT,
+    "createdAt" DATETIME NOT NULL DEFAULT CURRENT_TIMESTAMP,
+    "updatedAt" DATETIME NOT NULL,
+    CONSTRAINT "Baseline_questionId_fkey" FOREIGN KEY ("questionId") REFERENCES "Question" ("id") ON DELETE CASCADE ON UPDATE CASCADE
+);
+
+-- CreateTable
+CREATE TABLE "Resolution" (
+    "id" TEXT NOT NULL PRIMARY KEY,
+    "questionId" TEXT NOT NULL,
+    "ownerId" TEXT NOT NULL,
+    "actual" REAL NOT NULL,
+    "partActuals" TEXT NOT NULL DEFAULT '[]',
+    "note" TEXT NOT NULL DEFAULT '',
+    "figures" TEXT NOT NULL,
+    "scores" TEXT NOT NULL,
+    "resolvedById" TEXT,
+    "resolvedAt" DATETIME NOT NULL DEFAULT CURRENT_TIMESTAMP,
+    "correctedAt" DATETIME,
+    CONSTRAINT "Resolution_questionId_fkey" FOREIGN KEY ("questionId") REFERENCES "Question" ("id") ON DELETE CASCADE ON UPDATE CASCADE
 );
 
 -- CreateTable
@@ -149,6 +191,15 @@ CREATE UNIQUE INDEX "ApiToken_tokenHash_key" ON "ApiToken"("tokenHash");
 
 -- CreateIndex
 CREATE UNIQUE INDEX "RosterMember_ownerId_email_key" ON "RosterMember"("ownerId", "email");
+
+-- CreateIndex
+CREATE UNIQUE INDEX "Baseline_questionId_key" ON "Baseline"("questionId");
+
+-- CreateIndex
+CREATE UNIQUE INDEX "Resolution_questionId_key" ON "Resolution"("questionId");
+
+-- CreateIndex
+CREATE INDEX "Resolution_ownerId_resolvedAt_idx" ON "Resolution"("ownerId", "resolvedAt");
 
 -- CreateIndex
 CREATE UNIQUE INDEX "Round_panelId_number_key" ON "Round"("panelId", "number");

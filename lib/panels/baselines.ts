@@ -1,0 +1,337 @@
+/**
+ * Baselines on questions (DESIGN.md workflow step 6): the organiser attaches a history — CSV
+ * text or pasted values, optionally with explanatory columns and their values for the target
+ * period, or an analogous product's history scaled by a stated factor — and the engine
+ * (lib/forecast/baseline.ts) fits it, automatically or with a chosen method, and forecasts
+ * the target period `horizon` steps after the last observation with 80% and 95% intervals.
+ *
+ * Storage: the inputs and the engine's result are stored together when the baseline is
+ * attached or replaced (the result is a pure function of the stored inputs, so nothing can go
+ * stale). A resolved question's baseline is part of its scored record and can no longer change.
+ *
+ * Errors: CSV problems give 422 naming the row and column (`errors[0].row`, `.column`); the
+ * engine's input errors (too short, season too long for the series, a method that does not
+ * apply) give 422 naming the option. Cells that look like spreadsheet formulas (`=…`) are not
+ * numbers, so they are refused in the value column and ignored as labels elsewhere; they are
+ * never evaluated.
+ */
+import { db } from "@/lib/db";
+import { ConflictError, InvalidInputError, NotFoundError, type FieldError } from "@/lib/errors";
+import type { Actor } from "@/lib/accounts/actor";
+import type { Baseline, Question } from "@/lib/generated/prisma/client";
+import { CsvError, readSeriesCsv, type SeriesTable } from "@/lib/csv/parse";
+import { baseline, type BaselineResult } from "@/lib/forecast/baseline";
+import { ForecastInputError, type MethodId } from "@/lib/forecast/types";
+import type { BaselineInput } from "@/lib/validation/triangulation-inputs";
+import { authorisePanel } from "./access";
+import { recordAudit } from "./audit";
+
+/** One row of the history as read. */
+export interface PreviewRow {
+  /** CSV row number (header = 1), or the position of a pasted value (1-based). */
+  readonly row: number;
+  /** The value as read (null: missing). */
+  readonly value: number | null;
+  /** The value the engine used: value × scale factor (null: missing). */
+  readonly scaled: number | null;
+  /** Explanatory columns' values on this row. */
+  readonly x: Readonly<Record<string, number | null>>;
+}
+
+/** What was read, for the preview before and after attaching. */
+export interface BaselinePreview {
+  readonly source: "csv" | "values";
+  readonly valueColumn: string;
+  readonly explanatoryColumns: readonly string[];
+  /** Columns left out because they are not numeric (dates, labels). */
+  readonly ignoredColumns: readonly string[];
+  readonly rows: readonly PreviewRow[];
+  /** Explanatory columns' values for steps 1…horizon. */
+  readonly futureRows: readonly { readonly step: number; readonly x: Readonly<Record<string, number>> }[];
+  readonly observations: number;
+  readonly missing: number;
+  readonly scaleFactor: number;
+}
+
+/** The baseline's forecast for the question's target period. */
+export interface BaselineTarget {
+  /** Steps after the last observation (the horizon). */
+  readonly step: number;
+  readonly mean: number | null;
+  readonly lower80: number | null;
+  readonly upper80: number | null;
+  readonly lower95: number | null;
+  readonly upper95: number | null;
+}
+
+export interface BaselineView {
+  readonly questionId: string;
+  readonly source: "csv" | "values";
+  readonly valueColumn: string;
+  readonly analogue: { readonly scaleFactor: number; readonly note: string } | null;
+  readonly season: number;
+  /** The method asked for ("auto" or an id); `result.method` is the one used. */
+  readonly requestedMethod: "auto" | MethodId;
+  readonly horizon: number;
+  readonly target: BaselineTarget;
+  readonly result: BaselineResult;
+  readonly preview: BaselinePreview;
+  /** False for a preview that was not stored. */
+  readonly stored: boolean;
+  readonly createdAt: string | null;
+  readonly updatedAt: string | null;
+}
+
+/** Everything computed from a baseline input (no I/O). */
+interface Analysed {
+  readonly source: "csv" | "values";
+  readonly data: string;
+  readonly futureX: Record<string, number[]>;
+  readonly horizon: number;
+  readonly result: BaselineResult;
+  readonly preview: BaselinePreview;
+  readonly target: BaselineTarget;
+}
+
+/** Which option an engine error is about, from its message (for the problem's `field`). */
+function engineField(message: string, source: "csv" | "values"): string {
+  if (/season/i.test(message)) return "season";
+  if (/horizon/i.test(message)) return "horizon";
+  if (/method|regression/i.test(message)) return "method";
+  return source;
+}
+
+function csvFieldError(err: CsvError): FieldError {
+  return { field: "csv", message: err.message, ...(err.row !== undefined ? { row: err.row } : {}), ...(err.column !== undefined ? { column: err.column } : {}) };
+}
+
+/** Pasted values as the one-column CSV that is stored. */
+function valuesCsv(values: readonly number[]): string {
+  return ["value", ...values.map(String)].join("\n");
+}
+
+/**
+ * Reads and fits a baseline input (pure apart from the engine's computation).
+ * @throws InvalidInputError naming the field (and the CSV row and column).
+ */
+export function analyseBaseline(input: BaselineInput): Analysed {
+  const source = input.csv !== undefined ? "csv" : "values";
+  const data = input.csv !== undefined ? input.csv : valuesCsv(input.values ?? []);
+  const valueColumn = source === "csv" ? input.valueColumn : "value";
+  let table: SeriesTable;
+  try {
+    table = readSeriesCsv(data, { value: valueColumn });
+  } catch (err) {
+    if (err instanceof CsvError) {
+      const fe = csvFieldError(err);
+      // A missing value column is the valueColumn field's fault, not a cell's.
+      throw new InvalidInputError([err.row === 1 && err.column === valueColumn ? { ...fe, field: "valueColumn" } : fe], "The history could not be read.");
+    }
+    throw err;
+  }
+  if (table.y.length === 0) throw new InvalidInputError([{ field: source, message: "the history has no data rows" }], "The history could not be read.");
+
+  let futureX: (readonly number[])[] = table.futureX.map((c) => [...c]);
+  const givenFuture: Record<string, number[]> = {};
+  if (input.futureValues) {
+    const errors: FieldError[] = [];
+    for (const name of Object.keys(input.futureValues)) {
+      if (!table.xNames.includes(name)) errors.push({ field: `futureValues.${name}`, message: `no explanatory column '${name}' in the CSV (columns: ${table.xNames.join(", ") || "none"})` });
+    }
+    for (const name of table.xNames) {
+      if (!input.futureValues[name]) errors.push({ field: `futureValues.${name}`, message: `give the values of '${name}' for the target period` });
+    }
+    if (errors.length > 0) throw new InvalidInputError(errors);
+    futureX = table.xNames.map((name) => input.futureValues![name]);
+    for (const name of table.xNames) givenFuture[name] = [...input.futureValues[name]];
+  }
+  const futureLength = futureX.length > 0 ? Math.min(...futureX.map((c) => c.length)) : 0;
+  const horizon = input.horizon ?? (futureLength > 0 ? futureLength : 1);
+  const factor = input.analogue?.scaleFactor ?? 1;
+  const y = table.y.map((v) => (v === null ? null : v * factor));
+
+  let result: BaselineResult;
+  try {
+    result = baseline(
+      { y, rows: table.rows, x: table.x, xNames: table.xNames, futureX },
+      { season: input.season, horizon, method: input.method, levels: [80, 95] },
+    );
+  } catch (err) {
+    if (err instanceof ForecastInputError || err instanceof RangeError) {
+      throw new InvalidInputError([{ field: engineField(err.message, source), message: err.message }], "The baseline could not be computed.");
+    }
+    throw err;
+  }
+  if (factor !== 1) {
+    result = { ...result, notes: [...result.notes, `the history is an analogous product's, multiplied by ${factor} before fitting: ${input.analogue!.note}`] };
+  }
+  const step = result.forecast[horizon - 1];
+  const target: BaselineTarget = {
+    step: horizon,
+    mean: step?.mean ?? null,
+    lower80: step?.lower["80"] ?? null,
+    upper80: step?.upper["80"] ?? null,
+    lower95: step?.lower["95"] ?? null,
+    upper95: step?.upper["95"] ?? null,
+  };
+  const preview: BaselinePreview = {
+    source,
+    valueColumn,
+    explanatoryColumns: table.xNames,
+    ignoredColumns: table.ignored,
+    rows: table.y.map((v, i) => ({
+      row: source === "csv" ? table.rows[i] : i + 1,
+      value: v,
+      scaled: y[i],
+      x: Object.fromEntries(table.xNames.map((name, k) => [name, table.x[k][i]])),
+    })),
+    futureRows: Array.from({ length: futureLength }, (_, i) => ({ step: i + 1, x: Object.fromEntries(table.xNames.map((name, k) => [name, futureX[k][i]])) })),
+    observations: table.y.filter((v) => v !== null).length,
+    missing: table.y.filter((v) => v === null).length,
+    scaleFactor: factor,
+  };
+  return { source, data, futureX: givenFuture, horizon, result, preview, target };
+}
+
+function toView(b: Baseline): BaselineView {
+  return {
+    questionId: b.questionId,
+    source: b.source === "values" ? "values" : "csv",
+    valueColumn: b.valueColumn,
+    analogue: b.analogue ? { scaleFactor: b.scaleFactor, note: b.scaleNote } : null,
+    season: b.season,
+    requestedMethod: b.method as BaselineView["requestedMethod"],
+    horizon: b.horizon,
+    target: targetOf(b),
+    result: JSON.parse(b.result) as BaselineResult,
+    preview: JSON.parse(b.preview) as BaselinePreview,
+    stored: true,
+    createdAt: b.createdAt.toISOString(),
+    updatedAt: b.updatedAt.toISOString(),
+  };
+}
+
+/** The stored baseline's target-period forecast. */
+export function targetOf(b: Pick<Baseline, "result" | "horizon">): BaselineTarget {
+  const r = JSON.parse(b.result) as BaselineResult;
+  const s = r.forecast[b.horizon - 1];
+  return {
+    step: b.horizon,
+    mean: s?.mean ?? null,
+    lower80: s?.lower["80"] ?? null,
+    upper80: s?.upper["80"] ?? null,
+    lower95: s?.lower["95"] ?? null,
+    upper95: s?.upper["95"] ?? null,
+  };
+}
+
+async function findQuestion(panelId: string, questionId: string): Promise<Question> {
+  const q = await db.question.findFirst({ where: { id: questionId, panelId } });
+  if (!q) throw new NotFoundError("The question");
+  return q;
+}
+
+async function refuseIfResolved(questionId: string): Promise<void> {
+  if (await db.resolution.findUnique({ where: { questionId } })) {
+    throw new ConflictError("The question is resolved; its baseline is part of the scored record and can no longer change.");
+  }
+}
+
+/**
+ * Reads and fits a baseline without storing it: what was read and what the engine made of it
+ * (organisers of the panel).
+ */
+export async function previewBaseline(actor: Actor, panelId: string, questionId: string, input: BaselineInput): Promise<BaselineView> {
+  await authorisePanel(actor, panelId, "manage");
+  await findQuestion(panelId, questionId);
+  const a = analyseBaseline(input);
+  return {
+    questionId,
+    source: a.source,
+    valueColumn: a.preview.valueColumn,
+    analogue: input.analogue ? { scaleFactor: input.analogue.scaleFactor, note: input.analogue.note } : null,
+    season: input.season,
+    requestedMethod: input.method,
+    horizon: a.horizon,
+    target: a.target,
+    result: a.result,
+    preview: a.preview,
+    stored: false,
+    createdAt: null,
+    updatedAt: null,
+  };
+}
+
+/** Stores an analysed baseline on a question inside a transaction (also used by the demo). */
+export async function storeBaseline(
+  tx: Pick<typeof db, "baseline">,
+  questionId: string,
+  input: BaselineInput,
+  a: Analysed,
+  createdById: string | null,
+): Promise<Baseline> {
+  const data = {
+    source: a.source,
+    data: a.data,
+    valueColumn: a.preview.valueColumn,
+    futureX: JSON.stringify(a.futureX),
+    analogue: input.analogue !== undefined,
+    scaleFactor: input.analogue?.scaleFactor ?? 1,
+    scaleNote: input.analogue?.note ?? "",
+    season: input.season,
+    method: input.method,
+    horizon: a.horizon,
+    result: JSON.stringify(a.result),
+    preview: JSON.stringify(a.preview),
+    createdById,
+  };
+  return tx.baseline.upsert({ where: { questionId }, create: { questionId, ...data }, update: data });
+}
+
+/**
+ * Attaches a baseline to a question, or replaces the one it has (organisers of the panel;
+ * audited). Returns the stored baseline with its preview.
+ * @throws InvalidInputError (422) naming the field, and the CSV row and column.
+ * @throws ConflictError (409) when the question is resolved.
+ */
+export async function attachBaseline(actor: Actor, panelId: string, questionId: string, input: BaselineInput): Promise<BaselineView> {
+  const access = await authorisePanel(actor, panelId, "manage");
+  await findQuestion(panelId, questionId);
+  await refuseIfResolved(questionId);
+  const a = analyseBaseline(input);
+  const stored = await db.$transaction(async (tx) => {
+    const existed = (await tx.baseline.count({ where: { questionId } })) > 0;
+    const b = await storeBaseline(tx, questionId, input, a, access.actor.userId);
+    await recordAudit(tx, {
+      actorId: access.actor.userId,
+      panelId,
+      action: existed ? "baseline.replaced" : "baseline.attached",
+      detail: { questionId, method: a.result.method, horizon: a.horizon, observations: a.preview.observations, scaleFactor: input.analogue?.scaleFactor ?? 1 },
+    });
+    return b;
+  });
+  return toView(stored);
+}
+
+/** A question's baseline (organisers and reviewers of the panel). @throws NotFoundError when none. */
+export async function getBaseline(actor: Actor, panelId: string, questionId: string): Promise<BaselineView> {
+  await authorisePanel(actor, panelId, "read");
+  await findQuestion(panelId, questionId);
+  const b = await db.baseline.findUnique({ where: { questionId } });
+  if (!b) throw new NotFoundError("The question's baseline");
+  return toView(b);
+}
+
+/** Removes a question's baseline (organisers; audited). @throws ConflictError when resolved. */
+export async function removeBaseline(actor: Actor, panelId: string, questionId: string): Promise<{ id: string; deleted: true }> {
+  const access = await authorisePanel(actor, panelId, "manage");
+  await findQuestion(panelId, questionId);
+  await refuseIfResolved(questionId);
+  const b = await db.baseline.findUnique({ where: { questionId } });
+  if (!b) throw new NotFoundError("The question's baseline");
+  await db.$transaction(async (tx) => {
+    await tx.baseline.delete({ where: { questionId } });
+    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "baseline.removed", detail: { questionId } });
+  });
+  return { id: b.id, deleted: true };
+}

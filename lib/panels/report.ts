@@ -1,0 +1,379 @@
+/**
+ * The report of one question (DESIGN.md workflow step 8), a read model for the reviewer report
+ * page and the JSON/CSV exports: the blended figure and range first; the three legs side by
+ * side (panel raw and corrected with ranges, baseline with method and interval, track-record
+ * summary); convergence across rounds; departures; the bias correction applied per panelist;
+ * the resolution when there is one; method notes, inputs and cautions.
+ *
+ * Panelists appear under their pseudonyms. Names are added only for an organiser of the panel
+ * who has revealed the identities (an audited action, lib/panels/rounds.ts `revealIdentities`).
+ *
+ * CSV export: one row per figure (section, item, measure, value, unit). Any cell that a
+ * spreadsheet could run as a formula — one starting with =, +, -, @, a tab or a carriage
+ * return — gets a leading apostrophe (the OWASP "CSV injection" advice), except a cell that is
+ * exactly a decimal number such as -12.5, which a spreadsheet reads as a number, not a formula.
+ */
+import { db } from "@/lib/db";
+import type { Actor } from "@/lib/accounts/actor";
+import { trackRecord, type TrackRecord } from "@/lib/blend";
+import type { BaselineResult } from "@/lib/forecast/baseline";
+import { authorisePanel, type PanelRole } from "./access";
+import type { BaselinePreview } from "./baselines";
+import { getConvergence, type ConvergencePoint } from "./rounds";
+import { resolutionView, type ResolutionView } from "./resolution";
+import { computeTriangulation, loadTriangulation, type CorrectedAnswer, type DepartureReport } from "./triangulation";
+import { trackRecordsFor } from "./track-records";
+import { jsonSafe, type JsonSafe } from "./json";
+import type { BlendInterval, Distribution } from "@/lib/blend";
+import type { QuestionVerdict } from "@/lib/stats/stopping-rules";
+
+type Intervals = readonly { readonly level: number; readonly lower: number | null; readonly upper: number | null }[];
+
+export interface ReportPanelist {
+  readonly pseudonym: string;
+  /** Only for an organiser who revealed identities; otherwise null. */
+  readonly name: string | null;
+}
+
+export interface QuestionReport {
+  readonly generatedAt: string;
+  readonly panel: { readonly id: string; readonly title: string; readonly status: string };
+  readonly question: {
+    readonly id: string;
+    readonly text: string;
+    readonly unit: string;
+    readonly targetPeriod: string;
+    readonly aggregation: "shared" | "sum-of-parts";
+    readonly answerFormat: "single" | "three-point";
+  };
+  readonly viewer: { readonly role: PanelRole; readonly namesShown: boolean };
+  /** The blended figure and range (null without a baseline or without a panel figure). */
+  readonly blend: {
+    readonly figure: number | null;
+    readonly median: number | null;
+    readonly mean: number | null;
+    readonly intervals: Intervals;
+    readonly panelWeight: number | null;
+    readonly baselineWeight: number | null;
+    readonly ruleRequested: string;
+    readonly ruleApplied: string;
+    readonly ruleFrom: "question" | "panel";
+    readonly reason: string;
+    readonly resolvedQuestionsBehindWeight: number | null;
+    readonly msePanel: number | null;
+    readonly mseBaseline: number | null;
+  } | null;
+  readonly legs: {
+    readonly panel: {
+      readonly round: number;
+      readonly n: number;
+      readonly rule: string;
+      readonly raw: { readonly figure: number | null; readonly intervals: Intervals };
+      readonly corrected: { readonly figure: number | null; readonly intervals: Intervals };
+    } | null;
+    readonly baseline: {
+      readonly method: string;
+      readonly requestedMethod: string;
+      readonly parameters: Readonly<Record<string, number | null>>;
+      readonly season: number;
+      readonly horizon: number;
+      readonly target: { readonly mean: number | null; readonly lower80: number | null; readonly upper80: number | null; readonly lower95: number | null; readonly upper95: number | null };
+      readonly sd: number | null;
+      readonly sdSource: string | null;
+      readonly holdout: { readonly chosenMase: number | null; readonly candidates: readonly { readonly method: string; readonly mase: number | null; readonly error?: string }[] };
+      readonly insample: Readonly<Record<string, number | null>>;
+      readonly source: string;
+      readonly observations: number;
+      readonly analogue: { readonly scaleFactor: number; readonly note: string } | null;
+      readonly notes: readonly string[];
+    } | null;
+    readonly trackRecord: {
+      readonly panelistsWithRecord: number;
+      readonly panelists: readonly (ReportPanelist & JsonSafe<Omit<TrackRecord, "bias" | "intervalHitRate">> & {
+        readonly biasFactor: number | null;
+        readonly unshrunkFactor: number | null;
+        readonly credibility: number | null;
+        readonly intervalHits: number;
+        readonly intervalCount: number;
+        readonly intervalHitRate: number | null;
+      })[];
+    };
+  };
+  readonly convergence: {
+    readonly rounds: readonly ConvergencePoint[];
+    readonly verdict: JsonSafe<QuestionVerdict> | null;
+    readonly recommendation: "stop" | "another-round" | null;
+    readonly reasons: readonly string[];
+  };
+  readonly departures: JsonSafe<DepartureReport> | null;
+  readonly biasCorrection: readonly (ReportPanelist & JsonSafe<Omit<CorrectedAnswer, "invitationId" | "pseudonym">>)[];
+  readonly resolution: ResolutionView | null;
+  /** The distributions behind the ranges, for charts. */
+  readonly distributions: { readonly panelRaw: Distribution | null; readonly panelCorrected: Distribution | null; readonly baseline: Distribution | null; readonly blend: Distribution | null };
+  readonly methodNotes: readonly string[];
+  readonly inputs: readonly string[];
+  readonly cautions: readonly string[];
+}
+
+const safeIntervals = (iv: readonly BlendInterval[]): Intervals => jsonSafe(iv) as Intervals;
+
+async function revealedBy(actor: Actor, panelId: string, canManage: boolean): Promise<boolean> {
+  if (!canManage || actor.kind !== "user") return false;
+  return (await db.auditEvent.count({ where: { panelId, actorId: actor.userId, action: "identities.revealed" } })) > 0;
+}
+
+/**
+ * The report of one question (organisers and reviewers of the panel). Computed on read from the
+ * stored answers, baseline, resolutions and rules (see lib/panels/triangulation.ts).
+ */
+export async function getQuestionReport(actor: Actor, panelId: string, questionId: string): Promise<QuestionReport> {
+  const access = await authorisePanel(actor, panelId, "read");
+  const loaded = await loadTriangulation(panelId, questionId);
+  const t = computeTriangulation(loaded.input);
+  const namesShown = await revealedBy(actor, panelId, access.canManage);
+  const invitations = await db.invitation.findMany({ where: { panelId }, include: { rosterMember: { select: { name: true } } } });
+  const nameOf = (invitationId: string) => (namesShown ? (invitations.find((i) => i.id === invitationId)?.rosterMember.name ?? null) : null);
+  const stored = await db.baseline.findUnique({ where: { questionId } });
+  const resolution = await db.resolution.findUnique({ where: { questionId } });
+  const convergence = await getConvergence(actor, panelId);
+  const cq = convergence.questions.find((q) => q.questionId === questionId);
+  const verdict = convergence.evaluation?.questions.find((v) => v.questionId === questionId) ?? null;
+  const records = await trackRecordsFor(loaded.ownerId, { excludeQuestionId: questionId, ...(loaded.resolvedAt ? { before: loaded.resolvedAt } : {}) });
+
+  const panelists = t.panel?.answers ?? [];
+  const trackPanelists = panelists.map((a) => {
+    const rec = records.get(loaded.members.get(a.invitationId) ?? "")?.record ?? trackRecord([]);
+    const { bias, intervalHitRate, ...rest } = rec;
+    return {
+      pseudonym: a.pseudonym,
+      name: nameOf(a.invitationId),
+      ...jsonSafe(rest),
+      biasFactor: jsonSafe(bias.factor),
+      unshrunkFactor: jsonSafe(bias.raw),
+      credibility: jsonSafe(bias.credibility),
+      intervalHits: intervalHitRate.hits,
+      intervalCount: intervalHitRate.count,
+      intervalHitRate: jsonSafe(intervalHitRate.rate),
+    };
+  });
+
+  let baselineLeg: QuestionReport["legs"]["baseline"] = null;
+  const inputs: string[] = [];
+  if (stored) {
+    const result = JSON.parse(stored.result) as BaselineResult;
+    const preview = JSON.parse(stored.preview) as BaselinePreview;
+    const chosen = result.candidates?.find((c) => c.method === result.method);
+    baselineLeg = {
+      method: result.method,
+      requestedMethod: stored.method,
+      parameters: result.parameters,
+      season: result.season,
+      horizon: stored.horizon,
+      target: {
+        mean: loaded.baselineTarget?.mean ?? null,
+        lower80: loaded.baselineTarget?.lower80 ?? null,
+        upper80: loaded.baselineTarget?.upper80 ?? null,
+        lower95: loaded.baselineTarget?.lower95 ?? null,
+        upper95: loaded.baselineTarget?.upper95 ?? null,
+      },
+      sd: t.baseline ? jsonSafe(t.baseline.sd) : null,
+      sdSource: t.baseline?.sdSource ?? null,
+      holdout: { chosenMase: chosen?.mase ?? null, candidates: result.candidates ?? [] },
+      insample: { ...result.accuracy.insample },
+      source: stored.source,
+      observations: preview.observations,
+      analogue: stored.analogue ? { scaleFactor: stored.scaleFactor, note: stored.scaleNote } : null,
+      notes: result.notes,
+    };
+    const first = preview.rows[0]?.row;
+    const last = preview.rows.at(-1)?.row;
+    inputs.push(
+      `Baseline: ${stored.source === "csv" ? `CSV column '${stored.valueColumn}'` : "pasted values"}, ${preview.observations} observations${first !== undefined ? ` (rows ${first}–${last})` : ""}${preview.explanatoryColumns.length > 0 ? `, explanatory columns ${preview.explanatoryColumns.join(", ")}` : ""}; season ${stored.season}; method ${stored.method === "auto" ? `chosen automatically: ${result.method}` : result.method}; target period ${stored.horizon} step${stored.horizon === 1 ? "" : "s"} after the last observation.`,
+    );
+    if (stored.analogue) inputs.push(`The baseline history is an analogous product's, multiplied by ${stored.scaleFactor}: ${stored.scaleNote}`);
+  } else {
+    inputs.push("No baseline is attached.");
+  }
+  if (t.panel) inputs.push(`Panel: ${t.panel.n} final answers of round ${t.panel.round} (the last closed round with answers).`);
+  const withRecord = trackPanelists.filter((p) => (p.count ?? 0) > 0).length;
+  const resolvedBehind = Math.max(0, ...trackPanelists.map((p) => p.count ?? 0));
+  inputs.push(
+    `Track records: the organiser's resolved questions${loaded.resolvedAt ? " resolved before this one" : ""}, this question excluded; ${withRecord} of ${trackPanelists.length} panelists have one (up to ${resolvedBehind} resolved answers each).`,
+  );
+  inputs.push(`Weight rule: ${loaded.rule.rule}${loaded.rule.rule === "organiser" ? ` (${loaded.rule.panelWeight} on the panel)` : ""}, set on the ${loaded.rule.from}.`);
+
+  const cautions = [...t.cautions];
+  if (t.weights && t.weights.applied !== t.weights.requested) cautions.push(t.weights.reason);
+  if (t.panel && t.panel.n < 5) cautions.push(`Only ${t.panel.n} panelists answered: the panel's median and range rest on very few people.`);
+  if (resolution) cautions.push("This question is resolved: the figures above are recomputed from the stored inputs; the scores use the figures as they stood at resolution.");
+
+  const w = t.weights;
+  return {
+    generatedAt: new Date().toISOString(),
+    panel: { id: access.panel.id, title: access.panel.title, status: access.panel.status },
+    question: loaded.question,
+    viewer: { role: access.role, namesShown },
+    blend:
+      t.blend && w
+        ? {
+            figure: jsonSafe(t.blend.figure),
+            median: jsonSafe(t.blend.median),
+            mean: jsonSafe(t.blend.mean),
+            intervals: safeIntervals(t.blend.intervals),
+            panelWeight: w.panel,
+            baselineWeight: w.baseline,
+            ruleRequested: w.requested,
+            ruleApplied: w.applied,
+            ruleFrom: loaded.rule.from,
+            reason: w.reason,
+            resolvedQuestionsBehindWeight: w.nResolved,
+            msePanel: jsonSafe(w.msePanel),
+            mseBaseline: jsonSafe(w.mseBaseline),
+          }
+        : null,
+    legs: {
+      panel: t.panel
+        ? {
+            round: t.panel.round,
+            n: t.panel.n,
+            rule: t.panel.rule,
+            raw: { figure: jsonSafe(t.panel.raw.figure), intervals: safeIntervals(t.panel.raw.intervals) },
+            corrected: { figure: jsonSafe(t.panel.corrected.figure), intervals: safeIntervals(t.panel.corrected.intervals) },
+          }
+        : null,
+      baseline: baselineLeg,
+      trackRecord: { panelistsWithRecord: withRecord, panelists: trackPanelists },
+    },
+    convergence: {
+      rounds: cq?.rounds ?? [],
+      verdict: verdict ? jsonSafe(verdict) : null,
+      recommendation: convergence.evaluation?.recommendation ?? null,
+      reasons: convergence.evaluation?.reasons ?? [],
+    },
+    departures: t.departures ? jsonSafe(t.departures) : null,
+    biasCorrection: panelists.map(({ invitationId, pseudonym, ...rest }) => ({ pseudonym, name: nameOf(invitationId), ...jsonSafe(rest) })),
+    resolution: resolution ? resolutionView(resolution) : null,
+    distributions: {
+      panelRaw: t.panel?.raw.distribution ?? null,
+      panelCorrected: t.panel?.corrected.distribution ?? null,
+      baseline: t.baseline ? { kind: "normal", mean: t.baseline.mean, sd: t.baseline.sd } : null,
+      blend: t.blend?.distribution ?? null,
+    },
+    methodNotes: t.notes,
+    inputs,
+    cautions,
+  };
+}
+
+const PLAIN_NUMBER = /^-?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
+
+/**
+ * One CSV cell (RFC 4180 quoting), neutralised against formula injection: a cell starting with
+ * = + - @ tab or CR gets a leading apostrophe unless it is exactly a decimal number.
+ */
+export function csvCell(value: string | number | boolean | null | undefined): string {
+  let s = value === null || value === undefined ? "" : typeof value === "number" ? (Number.isFinite(value) ? String(value) : "") : String(value);
+  if (/^[=+\-@\t\r]/.test(s) && !PLAIN_NUMBER.test(s)) s = `'${s}`;
+  return /[",\r\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
+}
+
+/** The report as CSV: a header and one row per figure (section, item, measure, value, unit). */
+export function reportCsv(r: QuestionReport): string {
+  const rows: (string | number | boolean | null)[][] = [["section", "item", "measure", "value", "unit"]];
+  const unit = r.question.unit;
+  const add = (section: string, item: string, measure: string, value: string | number | boolean | null | undefined, u = "") => rows.push([section, item, measure, value ?? null, u]);
+  add("report", r.panel.title, "panel status", r.panel.status);
+  add("report", r.panel.title, "generated at", r.generatedAt);
+  add("question", r.question.text, "unit", r.question.unit);
+  add("question", r.question.text, "target period", r.question.targetPeriod);
+  add("question", r.question.text, "aggregation", r.question.aggregation);
+  add("question", r.question.text, "answer format", r.question.answerFormat);
+  if (r.blend) {
+    add("blend", "blended figure", "figure", r.blend.figure, unit);
+    for (const iv of r.blend.intervals) {
+      add("blend", "blended figure", `${iv.level}% lower`, iv.lower, unit);
+      add("blend", "blended figure", `${iv.level}% upper`, iv.upper, unit);
+    }
+    add("blend", "weights", "panel weight", r.blend.panelWeight);
+    add("blend", "weights", "baseline weight", r.blend.baselineWeight);
+    add("blend", "weights", "rule", r.blend.ruleApplied);
+    add("blend", "weights", "reason", r.blend.reason);
+  }
+  if (r.legs.panel) {
+    for (const [label, leg] of [["raw panel", r.legs.panel.raw], ["corrected panel", r.legs.panel.corrected]] as const) {
+      add("panel", label, "figure", leg.figure, unit);
+      for (const iv of leg.intervals) {
+        add("panel", label, `${iv.level}% lower`, iv.lower, unit);
+        add("panel", label, `${iv.level}% upper`, iv.upper, unit);
+      }
+    }
+    add("panel", "final round", "round", r.legs.panel.round);
+    add("panel", "final round", "answers", r.legs.panel.n);
+  }
+  if (r.legs.baseline) {
+    const b = r.legs.baseline;
+    add("baseline", b.method, "forecast", b.target.mean, unit);
+    add("baseline", b.method, "80% lower", b.target.lower80, unit);
+    add("baseline", b.method, "80% upper", b.target.upper80, unit);
+    add("baseline", b.method, "95% lower", b.target.lower95, unit);
+    add("baseline", b.method, "95% upper", b.target.upper95, unit);
+    add("baseline", b.method, "holdout MASE", b.holdout.chosenMase);
+    for (const [k, v] of Object.entries(b.parameters)) add("baseline", b.method, `parameter ${k}`, v);
+    if (b.analogue) add("baseline", b.method, "analogue scale factor", b.analogue.scaleFactor);
+  }
+  for (const p of r.legs.trackRecord.panelists) {
+    const who = p.name ? `${p.pseudonym} (${p.name})` : p.pseudonym;
+    add("track record", who, "resolved questions", p.count);
+    add("track record", who, "mean log ratio", p.meanLogRatio);
+    add("track record", who, "MAPE %", p.mape);
+    add("track record", who, "bias factor", p.biasFactor);
+    add("track record", who, "interval hit rate", p.intervalHitRate);
+  }
+  for (const p of r.biasCorrection) {
+    const who = p.name ? `${p.pseudonym} (${p.name})` : p.pseudonym;
+    add("bias correction", who, "answer", p.value, unit);
+    add("bias correction", who, "factor", p.factor);
+    add("bias correction", who, "corrected answer", p.correctedValue, unit);
+  }
+  for (const c of r.convergence.rounds) {
+    add("convergence", `round ${c.round}`, "median", c.median, unit);
+    add("convergence", `round ${c.round}`, "IQR", c.iqr, unit);
+    add("convergence", `round ${c.round}`, "relative IQR", c.relativeIqr);
+    if (c.total !== null) add("convergence", `round ${c.round}`, "total", c.total, unit);
+  }
+  if (r.departures) {
+    for (const d of r.departures.panel.rounds) {
+      add("departure", `panel round ${d.round}`, "difference", d.difference, unit);
+      add("departure", `panel round ${d.round}`, "z", d.z);
+      add("departure", `panel round ${d.round}`, "percentile", d.percentile);
+    }
+    for (const d of r.departures.answers) {
+      const item = `${d.pseudonym} round ${d.round}`;
+      add("departure", item, "difference", d.difference, unit);
+      add("departure", item, "percent", d.percent);
+      add("departure", item, "z", d.z);
+      add("departure", item, "percentile", d.percentile);
+      add("departure", item, "outside 80%", d.outside80);
+      add("departure", item, "outside 95%", d.outside95);
+    }
+  }
+  if (r.resolution) {
+    add("resolution", "actual", "value", r.resolution.actual, unit);
+    for (const s of [r.resolution.scores.rawPanel, r.resolution.scores.correctedPanel, r.resolution.scores.baseline, r.resolution.scores.blend, ...r.resolution.scores.panelists]) {
+      if (!s) continue;
+      add("resolution", s.label, "forecast", s.forecast, unit);
+      add("resolution", s.label, "error", s.error, unit);
+      add("resolution", s.label, "absolute percent error", s.absolutePercentError);
+    }
+  }
+  r.methodNotes.forEach((n, i) => add("method notes", String(i + 1), "note", n));
+  r.inputs.forEach((n, i) => add("inputs", String(i + 1), "input", n));
+  r.cautions.forEach((n, i) => add("cautions", String(i + 1), "caution", n));
+  return rows.map((row) => row.map(csvCell).join(",")).join("\r\n") + "\r\n";
+}
+
+/** The report as CSV text with a file name (organisers and reviewers of the panel). */
+export async function getQuestionReportCsv(actor: Actor, panelId: string, questionId: string): Promise<{ filename: string; csv: string }> {
+  const report = await getQuestionReport(actor, panelId, questionId);
+  return { filename: `report-${questionId}.csv`, csv: reportCsv(report) };
+}

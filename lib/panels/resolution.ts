@@ -1,0 +1,224 @@
+/**
+ * Resolution (DESIGN.md workflow step 9): the organiser records a question's actual value,
+ * once. The figures as they stand at that moment (raw panel, corrected panel, baseline, blend
+ * and each panelist's final answer, with the bias factor applied to it) are stored with it and
+ * scored by lib/blend `scoreResolution` / `scoreFigure` (errors actual − figure, percent
+ * errors, and the scaled error against the baseline history's naive MAE, Hyndman & Koehler
+ * 2006). Track records and the accuracy history are derived from these rows on read
+ * (lib/panels/track-records.ts).
+ *
+ * Correcting a recorded actual is a separate, audited action with a reason; it rescores the
+ * stored figures (which do not change: they are what was reported).
+ *
+ * A question can be resolved once its panel has a closed round with answers to it and no
+ * round is open (an open round would change the panel figure after it was scored).
+ */
+import { db } from "@/lib/db";
+import { ConflictError, InvalidInputError, NotFoundError, type FieldError } from "@/lib/errors";
+import type { Actor } from "@/lib/accounts/actor";
+import { scoreFigure, scoreResolution, type FigureScore, type ResolutionScores } from "@/lib/blend";
+import type { ResolutionCorrection, ResolutionInput } from "@/lib/validation/triangulation-inputs";
+import { authorisePanel } from "./access";
+import { recordAudit } from "./audit";
+import { computeTriangulation, loadTriangulation } from "./triangulation";
+import type { ResolutionFigures } from "./track-records";
+import { jsonSafe, type JsonSafe } from "./json";
+import type { BaselinePreview } from "./baselines";
+
+/** The scores of a resolution; baseline and blend are null without a baseline. */
+export interface StoredScores {
+  readonly actual: number;
+  readonly rawPanel: FigureScore;
+  readonly correctedPanel: FigureScore;
+  readonly baseline: FigureScore | null;
+  readonly blend: FigureScore | null;
+  /** One per panelist's final answer, labelled by pseudonym. */
+  readonly panelists: readonly FigureScore[];
+}
+
+export interface ResolutionView {
+  readonly questionId: string;
+  readonly actual: number;
+  readonly note: string;
+  readonly parts: readonly { readonly pseudonym: string; readonly actual: number }[];
+  readonly resolvedAt: string;
+  readonly correctedAt: string | null;
+  readonly figures: Omit<ResolutionFigures, "panelists" | "baselineTraining"> & {
+    readonly panelists: readonly { readonly pseudonym: string; readonly value: number; readonly low: number | null; readonly high: number | null; readonly factor: number }[];
+  };
+  readonly scores: JsonSafe<StoredScores>;
+}
+
+/**
+ * Scores the stored figures against `actual` (pure). The panelists' answers are scored with
+ * their pseudonyms as labels; the MASE scale is the baseline history's (none without one).
+ */
+export function scoreFigures(actual: number, f: ResolutionFigures): StoredScores {
+  const options = f.baselineTraining.length >= 2 ? { training: f.baselineTraining, season: f.baselineSeason } : {};
+  const panelists = Object.fromEntries(f.panelists.map((p) => [p.pseudonym, p.value]));
+  if (f.baseline !== null && f.blend !== null) {
+    const s: ResolutionScores = scoreResolution(actual, { rawPanel: f.rawPanel, correctedPanel: f.correctedPanel, baseline: f.baseline, blend: f.blend, panelists }, options);
+    return s;
+  }
+  return {
+    actual,
+    rawPanel: scoreFigure("raw panel", actual, f.rawPanel, options),
+    correctedPanel: scoreFigure("corrected panel", actual, f.correctedPanel, options),
+    baseline: null,
+    blend: null,
+    panelists: f.panelists.map((p) => scoreFigure(p.pseudonym, actual, p.value, options)),
+  };
+}
+
+function partsFor(
+  parts: readonly { pseudonym: string; actual: number }[],
+  figures: ResolutionFigures,
+): { invitationId: string; actual: number }[] {
+  if (parts.length > 0 && figures.aggregation !== "sum-of-parts") {
+    throw new InvalidInputError([{ field: "parts", message: "part actuals apply only to sum-of-parts questions" }]);
+  }
+  const errors: FieldError[] = [];
+  const out: { invitationId: string; actual: number }[] = [];
+  parts.forEach((p, i) => {
+    const who = figures.panelists.find((x) => x.pseudonym === p.pseudonym);
+    if (!who) errors.push({ field: `parts.${i}.pseudonym`, message: `no panelist ${p.pseudonym} answered this question in round ${figures.round}` });
+    else out.push({ invitationId: who.invitationId, actual: p.actual });
+  });
+  if (errors.length > 0) throw new InvalidInputError(errors);
+  return out;
+}
+
+function view(r: { questionId: string; actual: number; note: string; partActuals: string; figures: string; scores: string; resolvedAt: Date; correctedAt: Date | null }): ResolutionView {
+  const f = JSON.parse(r.figures) as ResolutionFigures;
+  const parts = JSON.parse(r.partActuals) as { invitationId: string; actual: number }[];
+  const { baselineTraining: _t, panelists, ...rest } = f;
+  return {
+    questionId: r.questionId,
+    actual: r.actual,
+    note: r.note,
+    parts: parts.map((p) => ({ pseudonym: f.panelists.find((x) => x.invitationId === p.invitationId)?.pseudonym ?? "?", actual: p.actual })),
+    resolvedAt: r.resolvedAt.toISOString(),
+    correctedAt: r.correctedAt?.toISOString() ?? null,
+    figures: { ...rest, panelists: panelists.map((p) => ({ pseudonym: p.pseudonym, value: p.value, low: p.low, high: p.high, factor: p.factor })) },
+    scores: JSON.parse(r.scores) as JsonSafe<StoredScores>,
+  };
+}
+
+/** The figures of a question as they stand now, for storing at resolution. */
+export async function currentFigures(panelId: string, questionId: string): Promise<ResolutionFigures> {
+  const loaded = await loadTriangulation(panelId, questionId);
+  const t = computeTriangulation(loaded.input);
+  if (!t.panel) throw new ConflictError("No closed round has answers to this question, so there is no panel figure to score yet.");
+  const b = await db.baseline.findUnique({ where: { questionId } });
+  const preview = b ? (JSON.parse(b.preview) as BaselinePreview) : null;
+  return {
+    round: t.panel.round,
+    aggregation: loaded.question.aggregation,
+    answerFormat: loaded.question.answerFormat,
+    rawPanel: t.panel.raw.figure,
+    correctedPanel: t.panel.corrected.figure,
+    baseline: t.baseline?.mean ?? null,
+    blend: t.blend?.figure ?? null,
+    panelWeight: t.weights?.panel ?? null,
+    weightRule: t.weights?.applied ?? null,
+    panelists: t.panel.answers.map((a) => ({
+      invitationId: a.invitationId,
+      rosterMemberId: loaded.members.get(a.invitationId) ?? "",
+      pseudonym: a.pseudonym,
+      value: a.value,
+      low: a.low,
+      high: a.high,
+      factor: a.factor,
+    })),
+    baselineTraining: preview ? preview.rows.flatMap((r) => (r.scaled === null ? [] : [r.scaled])) : [],
+    baselineSeason: b?.season ?? 1,
+  };
+}
+
+/**
+ * Records a question's actual value and scores every figure (organisers of the panel; audited).
+ * @throws ConflictError (409) when already resolved, a round is open, or there is no panel figure.
+ * @throws InvalidInputError (422) for part actuals on a shared question or an unknown pseudonym.
+ */
+export async function resolveQuestion(actor: Actor, panelId: string, questionId: string, input: ResolutionInput): Promise<ResolutionView> {
+  const access = await authorisePanel(actor, panelId, "manage");
+  const question = await db.question.findFirst({ where: { id: questionId, panelId } });
+  if (!question) throw new NotFoundError("The question");
+  if (await db.resolution.findUnique({ where: { questionId } })) {
+    throw new ConflictError("The question is already resolved; correct the recorded value instead (PATCH, with a reason).");
+  }
+  if (await db.round.findFirst({ where: { panelId, status: "open" } })) {
+    throw new ConflictError("A round is open: close it before resolving, so the panel figure that is scored is final.");
+  }
+  const figures = await currentFigures(panelId, questionId);
+  const parts = partsFor(input.parts, figures);
+  const scores = jsonSafe(scoreFigures(input.actual, figures));
+  const stored = await db.$transaction(async (tx) => {
+    if (await tx.resolution.findUnique({ where: { questionId } })) {
+      throw new ConflictError("The question was resolved a moment ago by someone else; correct the recorded value instead.");
+    }
+    const r = await tx.resolution.create({
+      data: {
+        questionId,
+        ownerId: access.panel.ownerId,
+        actual: input.actual,
+        note: input.note,
+        partActuals: JSON.stringify(parts),
+        figures: JSON.stringify(figures),
+        scores: JSON.stringify(scores),
+        resolvedById: access.actor.userId,
+      },
+    });
+    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "question.resolved", detail: { questionId, actual: input.actual, parts: parts.length } });
+    return r;
+  }).catch((err: unknown) => {
+    // Two resolutions racing: the unique questionId lets one win; the other is told so.
+    if (typeof err === "object" && err !== null && (err as { code?: string }).code === "P2002") {
+      throw new ConflictError("The question was resolved a moment ago by someone else; correct the recorded value instead.");
+    }
+    throw err;
+  });
+  return view(stored);
+}
+
+/**
+ * Corrects a recorded actual value (organisers; audited with the old value, the new one and
+ * the reason). The stored figures stay as they were reported; their scores are recomputed.
+ * @throws NotFoundError when the question is not resolved.
+ */
+export async function correctResolution(actor: Actor, panelId: string, questionId: string, input: ResolutionCorrection): Promise<ResolutionView> {
+  const access = await authorisePanel(actor, panelId, "manage");
+  const question = await db.question.findFirst({ where: { id: questionId, panelId } });
+  if (!question) throw new NotFoundError("The question");
+  const existing = await db.resolution.findUnique({ where: { questionId } });
+  if (!existing) throw new NotFoundError("The question's resolution");
+  const figures = JSON.parse(existing.figures) as ResolutionFigures;
+  const parts = input.parts !== undefined ? partsFor(input.parts, figures) : (JSON.parse(existing.partActuals) as { invitationId: string; actual: number }[]);
+  const scores = jsonSafe(scoreFigures(input.actual, figures));
+  const updated = await db.$transaction(async (tx) => {
+    const r = await tx.resolution.update({
+      where: { questionId },
+      data: { actual: input.actual, partActuals: JSON.stringify(parts), scores: JSON.stringify(scores), correctedAt: new Date() },
+    });
+    await recordAudit(tx, {
+      actorId: access.actor.userId,
+      panelId,
+      action: "resolution.corrected",
+      detail: { questionId, from: existing.actual, to: input.actual, reason: input.reason },
+    });
+    return r;
+  });
+  return view(updated);
+}
+
+/** A question's resolution (organisers and reviewers). @throws NotFoundError when unresolved. */
+export async function getResolution(actor: Actor, panelId: string, questionId: string): Promise<ResolutionView> {
+  await authorisePanel(actor, panelId, "read");
+  const q = await db.question.findFirst({ where: { id: questionId, panelId }, include: { resolution: true } });
+  if (!q) throw new NotFoundError("The question");
+  if (!q.resolution) throw new NotFoundError("The question's resolution");
+  return view(q.resolution);
+}
+
+/** The resolution view of a stored row (for the report). */
+export const resolutionView = view;

@@ -1,0 +1,242 @@
+/**
+ * Track records and the accuracy history, derived on read from the stored resolutions
+ * (lib/panels/resolution.ts): each Resolution row keeps the actual value and the figures as
+ * they stood when the question was resolved, including every panelist's final answer with
+ * their roster member. Nothing is counted up in place, so correcting an actual value or
+ * deleting a panel changes every derived figure consistently.
+ *
+ * - Track record per roster member (lib/blend `trackRecord`): count, mean error, mean log
+ *   ratio actual/answer, MAPE, interval hit rate of three-point answers, Theil's decomposition
+ *   once there are enough questions, and the bias factor shrunk toward 1.
+ *   A shared-quantity answer is scored against the question's actual value; a sum-of-parts
+ *   answer against its own part's actual when the organiser recorded one (else it is left out).
+ *   Answers or actuals ≤ 0 are left out (a log ratio needs both positive) and counted in `skipped`.
+ * - Accuracy history per organiser (lib/blend `accuracyHistory`): raw panel, corrected panel,
+ *   baseline and blend over the resolved questions that had a baseline, in resolution order,
+ *   with the tracking signal. The inverse-MSE blend weights (Bates & Granger 1969) use the
+ *   same history: the corrected panel figure (the one that is blended) against the baseline,
+ *   with each error taken relative to the actual value ((actual − figure)/actual), so that a
+ *   question counted in thousands of units does not outweigh one counted in hundreds
+ *   (questions with an actual of 0 are left out of the weights).
+ *
+ * A question's own figures never use its own resolution: bias factors and weights for a
+ * question come from resolutions of the organiser's other questions, and for a resolved
+ * question only from those resolved before it.
+ */
+import { db } from "@/lib/db";
+import type { Actor } from "@/lib/accounts/actor";
+import { requireOrganiser } from "@/lib/accounts/users";
+import {
+  accuracyHistory,
+  trackRecord,
+  type AccuracyHistory,
+  type HistoryEntry,
+  type ResolvedAnswer,
+  type ResolvedPair,
+  type TrackRecord,
+} from "@/lib/blend";
+import { jsonSafe, type JsonSafe } from "./json";
+
+/** One panelist's final answer as it stood at resolution. */
+export interface ResolvedPanelistFigure {
+  readonly invitationId: string;
+  readonly rosterMemberId: string;
+  readonly pseudonym: string;
+  readonly value: number;
+  readonly low: number | null;
+  readonly high: number | null;
+  /** The bias factor applied to this answer in the corrected panel figure. */
+  readonly factor: number;
+}
+
+/** The figures of a question at resolution (stored as JSON in Resolution.figures). */
+export interface ResolutionFigures {
+  readonly round: number;
+  readonly aggregation: "shared" | "sum-of-parts";
+  readonly answerFormat: "single" | "three-point";
+  readonly rawPanel: number;
+  readonly correctedPanel: number;
+  readonly baseline: number | null;
+  readonly blend: number | null;
+  readonly panelWeight: number | null;
+  readonly weightRule: string | null;
+  readonly panelists: readonly ResolvedPanelistFigure[];
+  /** The baseline's history as used (scaled), for the MASE scale of the scores. */
+  readonly baselineTraining: readonly number[];
+  readonly baselineSeason: number;
+}
+
+/** A stored resolution, parsed. */
+export interface ResolvedQuestion {
+  readonly questionId: string;
+  readonly panelId: string;
+  readonly panelTitle: string;
+  readonly text: string;
+  readonly unit: string;
+  readonly resolvedAt: Date;
+  readonly actual: number;
+  readonly partActuals: readonly { readonly invitationId: string; readonly actual: number }[];
+  readonly figures: ResolutionFigures;
+}
+
+/** Which resolutions count for a question's figures (see the module comment). */
+export interface HistoryFilter {
+  /** Leave this question out. */
+  readonly excludeQuestionId?: string;
+  /** Only resolutions strictly before this time. */
+  readonly before?: Date;
+}
+
+/** The organiser's resolutions, oldest first. */
+export async function loadResolutions(ownerId: string, filter: HistoryFilter = {}): Promise<ResolvedQuestion[]> {
+  const rows = await db.resolution.findMany({
+    where: {
+      ownerId,
+      ...(filter.excludeQuestionId ? { questionId: { not: filter.excludeQuestionId } } : {}),
+      ...(filter.before ? { resolvedAt: { lt: filter.before } } : {}),
+    },
+    orderBy: [{ resolvedAt: "asc" }, { id: "asc" }],
+    include: { question: { include: { panel: { select: { id: true, title: true } } } } },
+  });
+  return rows.map((r) => ({
+    questionId: r.questionId,
+    panelId: r.question.panel.id,
+    panelTitle: r.question.panel.title,
+    text: r.question.text,
+    unit: r.question.unit,
+    resolvedAt: r.resolvedAt,
+    actual: r.actual,
+    partActuals: JSON.parse(r.partActuals) as ResolvedQuestion["partActuals"],
+    figures: JSON.parse(r.figures) as ResolutionFigures,
+  }));
+}
+
+/** Each roster member's resolved answers (see the module comment for what is left out). */
+export function recordsByMember(resolutions: readonly ResolvedQuestion[]): Map<string, { records: ResolvedAnswer[]; skipped: number }> {
+  const out = new Map<string, { records: ResolvedAnswer[]; skipped: number }>();
+  for (const r of resolutions) {
+    for (const p of r.figures.panelists) {
+      const entry = out.get(p.rosterMemberId) ?? { records: [], skipped: 0 };
+      out.set(p.rosterMemberId, entry);
+      const actual = r.figures.aggregation === "shared" ? r.actual : r.partActuals.find((x) => x.invitationId === p.invitationId)?.actual;
+      if (actual === undefined) continue;
+      if (!(actual > 0) || !(p.value > 0)) {
+        entry.skipped++;
+        continue;
+      }
+      const threePoint = r.figures.answerFormat === "three-point" && p.low !== null && p.high !== null;
+      entry.records.push(threePoint ? { actual, answer: p.value, low: p.low!, high: p.high! } : { actual, answer: p.value });
+    }
+  }
+  return out;
+}
+
+/** Track records (lib/blend `trackRecord`) of the organiser's roster members. */
+export async function trackRecordsFor(ownerId: string, filter: HistoryFilter = {}): Promise<Map<string, { record: TrackRecord; skipped: number }>> {
+  const byMember = recordsByMember(await loadResolutions(ownerId, filter));
+  const out = new Map<string, { record: TrackRecord; skipped: number }>();
+  for (const [id, { records, skipped }] of byMember) out.set(id, { record: trackRecord(records), skipped });
+  return out;
+}
+
+/** The resolved questions with a baseline, as blend-weight history and accuracy-history entries. */
+export function historyOf(resolutions: readonly ResolvedQuestion[]): {
+  readonly pairs: ResolvedPair[];
+  readonly entries: HistoryEntry[];
+  readonly used: ResolvedQuestion[];
+  readonly withoutBaseline: number;
+} {
+  const used = resolutions.filter((r) => r.figures.baseline !== null && r.figures.blend !== null);
+  return {
+    used,
+    withoutBaseline: resolutions.length - used.length,
+    // Relative errors (figure / actual against 1), so that questions of different sizes count alike.
+    pairs: used.filter((r) => r.actual !== 0).map((r) => ({ actual: 1, panel: r.figures.correctedPanel / r.actual, baseline: r.figures.baseline! / r.actual })),
+    entries: used.map((r) => ({
+      actual: r.actual,
+      rawPanel: r.figures.rawPanel,
+      correctedPanel: r.figures.correctedPanel,
+      baseline: r.figures.baseline!,
+      blend: r.figures.blend!,
+    })),
+  };
+}
+
+export interface RosterTrackRecordView {
+  readonly rosterMemberId: string;
+  readonly name: string;
+  readonly group: string;
+  /** Resolved answers left out (a value or actual ≤ 0). */
+  readonly skipped: number;
+  readonly record: JsonSafe<TrackRecord>;
+}
+
+/**
+ * The track record of every member of the organiser's roster, over all the organiser's
+ * resolved questions (organisers only; their own roster). Members without resolved answers
+ * have count 0 and bias factor 1.
+ */
+export async function listTrackRecords(actor: Actor): Promise<RosterTrackRecordView[]> {
+  const user = requireOrganiser(actor);
+  const members = await db.rosterMember.findMany({ where: { ownerId: user.userId }, orderBy: [{ group: "asc" }, { name: "asc" }] });
+  const records = await trackRecordsFor(user.userId);
+  return members.map((m) => {
+    const r = records.get(m.id);
+    return {
+      rosterMemberId: m.id,
+      name: m.name,
+      group: m.group,
+      skipped: r?.skipped ?? 0,
+      record: jsonSafe(r?.record ?? trackRecord([])),
+    };
+  });
+}
+
+export interface AccuracyHistoryView {
+  /** Resolved questions in the history (those with a baseline), oldest first. */
+  readonly questions: readonly {
+    readonly questionId: string;
+    readonly panelId: string;
+    readonly panelTitle: string;
+    readonly text: string;
+    readonly unit: string;
+    readonly resolvedAt: string;
+    readonly actual: number;
+    readonly rawPanel: number;
+    readonly correctedPanel: number;
+    readonly baseline: number;
+    readonly blend: number;
+  }[];
+  /** Resolved questions left out because they had no baseline. */
+  readonly withoutBaseline: number;
+  /** Accuracy of each figure with its tracking signal; null with no resolved question. */
+  readonly history: JsonSafe<AccuracyHistory> | null;
+  readonly notes: readonly string[];
+}
+
+/** The organiser's accuracy history: raw vs corrected vs baseline vs blend (organisers only). */
+export async function getAccuracyHistory(actor: Actor): Promise<AccuracyHistoryView> {
+  const user = requireOrganiser(actor);
+  const h = historyOf(await loadResolutions(user.userId));
+  return {
+    questions: h.used.map((r) => ({
+      questionId: r.questionId,
+      panelId: r.panelId,
+      panelTitle: r.panelTitle,
+      text: r.text,
+      unit: r.unit,
+      resolvedAt: r.resolvedAt.toISOString(),
+      actual: r.actual,
+      rawPanel: r.figures.rawPanel,
+      correctedPanel: r.figures.correctedPanel,
+      baseline: r.figures.baseline!,
+      blend: r.figures.blend!,
+    })),
+    withoutBaseline: h.withoutBaseline,
+    history: h.entries.length > 0 ? jsonSafe(accuracyHistory(h.entries)) : null,
+    notes: [
+      "Errors are actual − figure (positive: the figure was too low). MAE, RMSE and ME mix the questions' units; MAPE and sMAPE compare across questions. MASE is not given across questions (their scales differ).",
+      "Tracking signal = cumulative error / running MAD after each question; |TS| > 4 flags a biased figure (±4 is common practice, no authoritative source).",
+    ],
+  };
+}

@@ -1,0 +1,468 @@
+/**
+ * Triangulation of one question (DESIGN.md workflow step 7): the panel figure and its
+ * distribution, the bias-corrected panel figure, the blend with the baseline and its range,
+ * and the departure report. Every figure comes from lib/blend; this file only gathers the
+ * inputs and composes the calls.
+ *
+ * Computed on read, not cached: the inputs are the final answers of the closed rounds, the
+ * stored baseline, the question's or panel's weight rule, and the track records derived from
+ * the organiser's stored resolutions (lib/panels/track-records.ts). The computation takes a few
+ * milliseconds, and computing on read means no cached figure can outlive a changed input.
+ *
+ * Rules (each stated again in the result's notes):
+ * - Panel figure: the final closed round's median of the answers (most likely values of
+ *   three-point answers) for a shared quantity; the sum of the parts for sum of parts.
+ * - Panel distribution: three-point answers → linear pool of the answers (shared) or the
+ *   normal approximation of the total (sum of parts); single values → a normal from the
+ *   round's spread (median, IQR/1.349) for a shared quantity; single-value parts give no spread,
+ *   so the panel leg is a point at the total (a caution says so).
+ * - Bias correction: each panelist's answer × their shrunk bias factor from their track record
+ *   (lib/blend `shrunkBiasFactor`); the corrected figure is the median of the corrected answers
+ *   or the sum of the corrected parts; the corrected distribution is built the same way from the
+ *   corrected answers. Raw and corrected are always both reported.
+ * - Blend: the corrected panel figure and distribution with the baseline's target-period
+ *   forecast and its normal predictive distribution, weight by the question's rule, else the
+ *   panel's (equal, inverse-MSE from the organiser's resolved history, or organiser-set).
+ * - Departures: every answer of every closed round (shared quantity only: a part is not
+ *   comparable with a baseline of the total) and the panel figure per round, against the
+ *   baseline's target-period forecast.
+ */
+import { db } from "@/lib/db";
+import { InvalidInputError, NotFoundError } from "@/lib/errors";
+import type { Actor } from "@/lib/accounts/actor";
+import {
+  DEFAULT_BLEND_LEVELS,
+  answerDepartures,
+  baselineDistribution,
+  blend,
+  blendWeights,
+  correctThreePoint,
+  correctedPanelFigure,
+  departure,
+  departureAcrossRounds,
+  distributionQuantile,
+  normalDistribution,
+  panelFromParts,
+  panelFromSpread,
+  panelFromThreePoint,
+  shrunkBiasFactor,
+  type BaselineForecast,
+  type BiasFactor,
+  type BlendInterval,
+  type BlendResult,
+  type BlendWeights,
+  type Departure,
+  type DepartureAcrossRounds,
+  type Distribution,
+  type ResolvedPair,
+  type WeightSpec,
+} from "@/lib/blend";
+import type { PanelWeightRule, PanelBlendRuleInput, QuestionBlendRuleInput } from "@/lib/validation/triangulation-inputs";
+import { authorisePanel } from "./access";
+import { recordAudit } from "./audit";
+import { targetOf, type BaselineTarget } from "./baselines";
+import { finalAnswers, settleDeadlines } from "./round-closing";
+import { historyOf, loadResolutions, trackRecordsFor, type HistoryFilter } from "./track-records";
+import { jsonSafe, type JsonSafe } from "./json";
+
+/** One panelist's final answer in a closed round. */
+export interface TriangulationAnswer {
+  readonly invitationId: string;
+  readonly pseudonym: string;
+  readonly value: number;
+  readonly low: number | null;
+  readonly high: number | null;
+}
+
+/** A closed round's final answers. */
+export interface TriangulationRound {
+  readonly round: number;
+  readonly answers: readonly TriangulationAnswer[];
+}
+
+/** Everything {@link computeTriangulation} needs; plain data. */
+export interface TriangulationInput {
+  readonly aggregation: "shared" | "sum-of-parts";
+  readonly answerFormat: "single" | "three-point";
+  /** Closed rounds in order; the last is the final round. */
+  readonly rounds: readonly TriangulationRound[];
+  /** Bias factor per invitation id (missing: no track record, factor 1). */
+  readonly factors: Readonly<Record<string, BiasFactor>>;
+  /** The baseline's target-period forecast, or null without a baseline. */
+  readonly baseline: BaselineForecast | null;
+  /** The weight rule with its inputs. */
+  readonly weight: WeightSpec;
+  /** Why a stored baseline cannot be used (e.g. an interval of zero width), when `baseline` is null. */
+  readonly baselineUnusable?: string;
+}
+
+/** A panelist's answer with its correction. */
+export interface CorrectedAnswer extends TriangulationAnswer {
+  readonly factor: number;
+  /** Resolved questions behind the factor. */
+  readonly resolvedQuestions: number;
+  /** Credibility n/(n + n0) of the factor. */
+  readonly credibility: number;
+  /** The unshrunk factor exp(mean log ratio). */
+  readonly rawFactor: number;
+  readonly correctedValue: number;
+  readonly correctedLow: number | null;
+  readonly correctedHigh: number | null;
+  /** The round the answer comes from: the final round, or an earlier one for a carried-forward part. */
+  readonly fromRound: number;
+}
+
+/** One version of the panel leg (raw or corrected). */
+export interface PanelFigureWithRange {
+  readonly figure: number;
+  /** Central intervals of the panel distribution (80%, 95%). */
+  readonly intervals: readonly BlendInterval[];
+  readonly distribution: Distribution;
+}
+
+export type PanelRule = "three-point pool" | "round spread" | "sum of parts" | "sum of single-value parts (no spread)";
+
+export interface PanelLeg {
+  readonly round: number;
+  readonly n: number;
+  readonly rule: PanelRule;
+  readonly raw: PanelFigureWithRange;
+  readonly corrected: PanelFigureWithRange;
+  readonly answers: readonly CorrectedAnswer[];
+}
+
+export interface AnswerDeparture extends Departure {
+  readonly round: number;
+  readonly pseudonym: string;
+}
+
+export interface DepartureReport {
+  /** Every answer of every closed round (shared quantity only). */
+  readonly answers: readonly AnswerDeparture[];
+  /** The raw panel figure per closed round, and how its departure moved. */
+  readonly panel: DepartureAcrossRounds;
+  /** The corrected panel figure of the final round. */
+  readonly correctedPanel: Departure;
+}
+
+export interface Triangulation {
+  readonly panel: PanelLeg | null;
+  readonly baseline: (BaselineForecast & { readonly sd: number; readonly sdSource: string }) | null;
+  readonly weights: BlendWeights | null;
+  readonly blend: BlendResult | null;
+  readonly departures: DepartureReport | null;
+  readonly notes: readonly string[];
+  readonly cautions: readonly string[];
+}
+
+function intervalsOf(d: Distribution): BlendInterval[] {
+  return DEFAULT_BLEND_LEVELS.map((level) => {
+    const tail = (1 - level / 100) / 2;
+    return { level, lower: distributionQuantile(d, tail), upper: distributionQuantile(d, 1 - tail) };
+  });
+}
+
+function isThreePoint(input: TriangulationInput, answers: readonly { low: number | null; high: number | null }[]): boolean {
+  return input.answerFormat === "three-point" && answers.every((a) => a.low !== null && a.high !== null);
+}
+
+function panelDistribution(
+  input: TriangulationInput,
+  answers: readonly { value: number; low: number | null; high: number | null }[],
+  total: number,
+): { distribution: Distribution; rule: PanelRule } {
+  const tp = isThreePoint(input, answers);
+  const points = () => answers.map((a) => ({ low: a.low!, mid: a.value, high: a.high! }));
+  if (input.aggregation === "shared") {
+    return tp
+      ? { distribution: panelFromThreePoint(points()).distribution, rule: "three-point pool" }
+      : { distribution: panelFromSpread(answers.map((a) => a.value)).distribution, rule: "round spread" };
+  }
+  return tp
+    ? { distribution: panelFromParts(points()).distribution, rule: "sum of parts" }
+    : { distribution: normalDistribution(total, 0), rule: "sum of single-value parts (no spread)" };
+}
+
+/**
+ * The triangulation of one question from plain inputs (no I/O; see the module comment).
+ * @throws RangeError from lib/blend for inputs it refuses (e.g. an organiser weight outside [0, 1]).
+ */
+export function computeTriangulation(input: TriangulationInput): Triangulation {
+  const notes: string[] = [];
+  const cautions: string[] = [
+    "Every figure here is uncertain: read the ranges, not only the points. The figures support a decision; they do not make it.",
+  ];
+  const mode = input.aggregation === "shared" ? "shared-quantity" : "sum-of-parts";
+  const final = input.rounds.at(-1);
+  let panel: PanelLeg | null = null;
+  if (final && final.answers.length > 0) {
+    // Sum of parts: a panelist who did not answer in the final round keeps their latest earlier
+    // part, or the total would silently lose a territory.
+    const finalAnswers: (TriangulationAnswer & { fromRound: number })[] = final.answers.map((a) => ({ ...a, fromRound: final.round }));
+    if (input.aggregation === "sum-of-parts") {
+      const seen = new Set(final.answers.map((a) => a.invitationId));
+      for (const r of [...input.rounds].reverse().slice(1)) {
+        for (const a of r.answers) {
+          if (seen.has(a.invitationId)) continue;
+          seen.add(a.invitationId);
+          finalAnswers.push({ ...a, fromRound: r.round });
+        }
+      }
+    }
+    const carried = finalAnswers.filter((a) => a.fromRound !== final.round).length;
+    const answers: CorrectedAnswer[] = finalAnswers.map((a) => {
+      const f = input.factors[a.invitationId] ?? shrunkBiasFactor(0, 0);
+      const tp = a.low !== null && a.high !== null ? correctThreePoint({ low: a.low, mid: a.value, high: a.high }, f.factor) : null;
+      return {
+        ...a,
+        factor: f.factor,
+        resolvedQuestions: f.n,
+        credibility: f.credibility,
+        rawFactor: f.raw,
+        correctedValue: a.value * f.factor,
+        correctedLow: tp ? tp.low : null,
+        correctedHigh: tp ? tp.high : null,
+      };
+    });
+    const fig = correctedPanelFigure(answers.map((a) => ({ answer: a.value, factor: a.factor })), mode);
+    const rawD = panelDistribution(input, answers, fig.raw);
+    const corrD = panelDistribution(
+      input,
+      answers.map((a) => ({ value: a.correctedValue, low: a.correctedLow, high: a.correctedHigh })),
+      fig.corrected,
+    );
+    panel = {
+      round: final.round,
+      n: answers.length,
+      rule: rawD.rule,
+      raw: { figure: fig.raw, intervals: intervalsOf(rawD.distribution), distribution: rawD.distribution },
+      corrected: { figure: fig.corrected, intervals: intervalsOf(corrD.distribution), distribution: corrD.distribution },
+      answers,
+    };
+    notes.push(
+      input.aggregation === "shared"
+        ? `Panel figure: the median (Hyndman & Fan type 7) of the ${answers.length} final answers of round ${final.round}${input.answerFormat === "three-point" ? " (most likely values)" : ""}.`
+        : `Panel figure: the sum of the ${answers.length} parts of the final answers (round ${final.round}).`,
+    );
+    if (carried > 0) {
+      const msg = `${carried} of the ${answers.length} parts come from an earlier round: those panelists did not answer in round ${final.round}, so their latest part was kept.`;
+      notes.push(msg);
+      cautions.push(msg);
+    }
+    notes.push(
+      {
+        "three-point pool": "Panel range: the equal-weight linear pool (Stone 1961) of the three-point answers, each read as P10/P50/P90 of a two-piece normal.",
+        "round spread": "Panel range: a normal centred on the median with sd = IQR / 1.349 (the spread of the answers, not the error of the median).",
+        "sum of parts": "Panel range: the total of the parts as a normal with the summed means and variances of the three-point parts (parts taken as independent).",
+        "sum of single-value parts (no spread)": "Panel range: single-value parts give no spread, so the panel leg is a point at the total.",
+      }[rawD.rule],
+    );
+    if (rawD.rule === "sum of single-value parts (no spread)") {
+      cautions.push("The panel's parts are single values, so the panel leg has no range of its own and any blended range understates the panel's uncertainty. Three-point answers would give it one.");
+    }
+    if (rawD.rule === "sum of parts") cautions.push("The parts are treated as independent; if the territories' errors move together, the total's range is wider than shown.");
+    const corrected = answers.filter((a) => a.resolvedQuestions > 0).length;
+    notes.push(
+      corrected === 0
+        ? "Bias correction: no panelist has a resolved question yet, so every factor is 1 and the corrected figure equals the raw one."
+        : `Bias correction: ${corrected} of ${answers.length} panelists have a track record; each answer × exp(Z·mean log ratio) with Z = n/(n + 5) (shrinkage toward 1 with few resolved questions; Bühlmann-style credibility, the constant 5 is a judgement call).`,
+    );
+    if (input.aggregation === "sum-of-parts") notes.push("Corrected total: the sum of the corrected parts.");
+  } else {
+    notes.push("No closed round has answers yet, so there is no panel figure.");
+  }
+
+  let baselineOut: Triangulation["baseline"] = null;
+  let weights: BlendWeights | null = null;
+  let blended: BlendResult | null = null;
+  let departures: DepartureReport | null = null;
+  if (input.baseline) {
+    const bd = baselineDistribution(input.baseline);
+    baselineOut = { ...input.baseline, sd: bd.distribution.sd, sdSource: bd.sdSource };
+    notes.push(`Baseline distribution: a normal with the point forecast as mean and sd ${bd.distribution.sd.toPrecision(4)} implied by its ${bd.sdSource}.`);
+    if (panel) {
+      weights = blendWeights(input.weight);
+      blended = blend({
+        panelFigure: panel.corrected.figure,
+        baselineFigure: input.baseline.mean,
+        panelDistribution: panel.corrected.distribution,
+        baselineDistribution: bd.distribution,
+        panelWeight: weights.panel,
+      });
+      if (weights.applied === "inverse-mse") {
+        notes.push("Inverse-MSE weights use relative errors, (actual − figure)/actual, over the organiser's resolved questions with a baseline, so that questions of different sizes count alike; the MSEs quoted are of those relative errors.");
+      }
+      notes.push(
+        `Blend: ${weights.panel.toPrecision(3)} × corrected panel figure + ${weights.baseline.toPrecision(3)} × baseline; range from the mixture of the two distributions with the same weights (Stone 1961). ${weights.reason}`,
+      );
+      const answersOut: AnswerDeparture[] = [];
+      if (input.aggregation === "shared") {
+        for (const r of input.rounds) {
+          if (r.answers.length === 0) continue;
+          const ds = answerDepartures(r.answers.map((a) => a.value), input.baseline);
+          ds.forEach((d, i) => answersOut.push({ ...d, round: r.round, pseudonym: r.answers[i].pseudonym }));
+        }
+      } else {
+        notes.push("Departures of single parts are not shown: a part is not comparable with the baseline of the total.");
+      }
+      const rounds = input.rounds.filter((r) => r.answers.length > 0);
+      const figures = rounds.map((r) => correctedPanelFigure(r.answers.map((a) => ({ answer: a.value, factor: 1 })), mode).raw);
+      const across = departureAcrossRounds(figures, input.baseline);
+      departures = {
+        answers: answersOut,
+        panel: { ...across, rounds: across.rounds.map((d, i) => ({ ...d, round: rounds[i].round })) },
+        correctedPanel: departure(panel.corrected.figure, input.baseline),
+      };
+      notes.push("Departure: difference = figure − baseline; percent of the baseline; z = difference / baseline sd; percentile = 100·Φ(z); flags outside the baseline's own 80% and 95% bounds.");
+      const z = departures.correctedPanel.z;
+      if (Math.abs(z) > 1.96) {
+        cautions.push(`The corrected panel figure lies ${Math.abs(z).toFixed(1)} baseline standard errors ${z > 0 ? "above" : "below"} the baseline: judgment and statistics disagree; the report's inputs show why each says what it says.`);
+      }
+    }
+  } else if (input.baselineUnusable) {
+    notes.push(`The baseline cannot be blended: ${input.baselineUnusable}`);
+    cautions.push(`The baseline cannot be blended: ${input.baselineUnusable}`);
+  } else {
+    notes.push("No baseline is attached, so there is no blend and no departure report.");
+  }
+  return { panel, baseline: baselineOut, weights, blend: blended, departures, notes, cautions };
+}
+
+/** The weight rule that applies to a question, with the organiser's weight for that rule. */
+export function effectiveRule(
+  panel: { blendRule: string; blendPanelWeight: number | null },
+  question: { blendRule: string | null; blendPanelWeight: number | null },
+): { rule: PanelWeightRule; panelWeight: number | null; from: "question" | "panel" } {
+  if (question.blendRule) return { rule: question.blendRule as PanelWeightRule, panelWeight: question.blendPanelWeight, from: "question" };
+  return { rule: panel.blendRule as PanelWeightRule, panelWeight: panel.blendPanelWeight, from: "panel" };
+}
+
+function weightSpec(rule: PanelWeightRule, panelWeight: number | null, history: readonly ResolvedPair[]): WeightSpec {
+  if (rule === "organiser" && panelWeight !== null) return { rule: "organiser", panelWeight };
+  if (rule === "inverse-mse") return { rule: "inverse-mse", history };
+  return { rule: "equal" };
+}
+
+/** A question's stored inputs, loaded for {@link computeTriangulation}, with what else the report shows. */
+export interface LoadedTriangulation {
+  readonly input: TriangulationInput;
+  readonly question: { id: string; text: string; unit: string; targetPeriod: string; aggregation: "shared" | "sum-of-parts"; answerFormat: "single" | "three-point" };
+  readonly ownerId: string;
+  readonly rule: ReturnType<typeof effectiveRule>;
+  readonly baselineTarget: BaselineTarget | null;
+  /** invitation id → roster member id. */
+  readonly members: ReadonlyMap<string, string>;
+  /** Roster members with a track-record note: answers skipped. */
+  readonly resolvedAt: Date | null;
+}
+
+/** Loads a question's inputs (no access check: callers authorise). */
+export async function loadTriangulation(panelId: string, questionId: string): Promise<LoadedTriangulation> {
+  await settleDeadlines(panelId);
+  const q = await db.question.findFirst({
+    where: { id: questionId, panelId },
+    include: { panel: true, baseline: true, resolution: { select: { resolvedAt: true } } },
+  });
+  if (!q) throw new NotFoundError("The question");
+  const rounds = await db.round.findMany({ where: { panelId, status: "closed" }, orderBy: { number: "asc" } });
+  const invitations = await db.invitation.findMany({ where: { panelId }, select: { id: true, rosterMemberId: true } });
+  const members = new Map(invitations.map((i) => [i.id, i.rosterMemberId]));
+  const roundInputs: TriangulationRound[] = [];
+  for (const r of rounds) {
+    const answers = (await finalAnswers(db, r.id)).get(questionId) ?? [];
+    roundInputs.push({ round: r.number, answers: answers.map((a) => ({ invitationId: a.invitationId, pseudonym: a.pseudonym, value: a.value, low: a.low, high: a.high })) });
+  }
+  while (roundInputs.length > 0 && roundInputs.at(-1)!.answers.length === 0) roundInputs.pop();
+  const resolvedAt = q.resolution?.resolvedAt ?? null;
+  const filter: HistoryFilter = { excludeQuestionId: questionId, ...(resolvedAt ? { before: resolvedAt } : {}) };
+  const records = await trackRecordsFor(q.panel.ownerId, filter);
+  const factors: Record<string, BiasFactor> = {};
+  for (const [invitationId, memberId] of members) {
+    const r = records.get(memberId);
+    if (r) factors[invitationId] = r.record.bias;
+  }
+  const rule = effectiveRule(q.panel, q);
+  const history = rule.rule === "inverse-mse" ? historyOf(await loadResolutions(q.panel.ownerId, filter)).pairs : [];
+  const target = q.baseline ? targetOf(q.baseline) : null;
+  let baseline: BaselineForecast | null = null;
+  if (target && target.mean !== null) {
+    const b: { mean: number; lower80?: number; upper80?: number; lower95?: number; upper95?: number } = { mean: target.mean };
+    if (target.lower80 !== null && target.upper80 !== null && target.lower80 < target.upper80) {
+      b.lower80 = target.lower80;
+      b.upper80 = target.upper80;
+    }
+    if (target.lower95 !== null && target.upper95 !== null && target.lower95 < target.upper95) {
+      b.lower95 = target.lower95;
+      b.upper95 = target.upper95;
+    }
+    if (b.lower80 !== undefined || b.lower95 !== undefined) baseline = b;
+  }
+  const baselineUnusable =
+    target && !baseline
+      ? target.mean === null
+        ? "its forecast for the target period is undefined."
+        : "its prediction interval has no width (e.g. a constant history), so it gives no range to blend or to measure departures against."
+      : undefined;
+  const aggregation = q.aggregation === "sum-of-parts" ? "sum-of-parts" : "shared";
+  const answerFormat = q.answerFormat === "three-point" ? "three-point" : "single";
+  return {
+    input: { aggregation, answerFormat, rounds: roundInputs, factors, baseline, weight: weightSpec(rule.rule, rule.panelWeight, history), ...(baselineUnusable ? { baselineUnusable } : {}) },
+    question: { id: q.id, text: q.text, unit: q.unit, targetPeriod: q.targetPeriod, aggregation, answerFormat },
+    ownerId: q.panel.ownerId,
+    rule,
+    baselineTarget: target,
+    members,
+    resolvedAt,
+  };
+}
+
+/**
+ * {@link Triangulation} as JSON (non-finite numbers as null), with the rule that chose the
+ * weight. Answers carry pseudonyms only: invitation ids would let an organiser match pseudonyms
+ * to the invitation list (names) without the audited reveal.
+ */
+export type TriangulationView = Omit<JsonSafe<Triangulation>, "panel"> & {
+  readonly panel: (Omit<JsonSafe<PanelLeg>, "answers"> & { readonly answers: Omit<JsonSafe<CorrectedAnswer>, "invitationId">[] }) | null;
+  readonly questionId: string;
+  readonly weightRule: { readonly rule: PanelWeightRule; readonly panelWeight: number | null; readonly from: "question" | "panel" };
+};
+
+/** The triangulation of a question (organisers and reviewers of the panel). */
+export async function getTriangulation(actor: Actor, panelId: string, questionId: string): Promise<TriangulationView> {
+  await authorisePanel(actor, panelId, "read");
+  const loaded = await loadTriangulation(panelId, questionId);
+  const t = jsonSafe(computeTriangulation(loaded.input));
+  const panel = t.panel ? { ...t.panel, answers: t.panel.answers.map(({ invitationId: _hidden, ...a }) => a) } : null;
+  return { ...t, panel, questionId, weightRule: loaded.rule };
+}
+
+/** Sets the panel's blend weight rule (organisers; audited). */
+export async function setPanelBlendRule(actor: Actor, panelId: string, input: PanelBlendRuleInput): Promise<{ rule: PanelWeightRule; panelWeight: number | null }> {
+  const access = await authorisePanel(actor, panelId, "manage");
+  const panelWeight = input.rule === "organiser" ? input.panelWeight! : null;
+  await db.$transaction(async (tx) => {
+    await tx.panel.update({ where: { id: panelId }, data: { blendRule: input.rule, blendPanelWeight: panelWeight } });
+    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "panel.blend-rule", detail: { rule: input.rule, panelWeight } });
+  });
+  return { rule: input.rule, panelWeight };
+}
+
+/** Sets one question's blend weight rule, or hands it back to the panel's (organisers; audited). */
+export async function setQuestionBlendRule(
+  actor: Actor,
+  panelId: string,
+  questionId: string,
+  input: QuestionBlendRuleInput,
+): Promise<{ rule: PanelWeightRule; panelWeight: number | null; from: "question" | "panel" }> {
+  const access = await authorisePanel(actor, panelId, "manage");
+  const q = await db.question.findFirst({ where: { id: questionId, panelId } });
+  if (!q) throw new NotFoundError("The question");
+  if (input.rule === "organiser" && input.panelWeight === undefined) throw new InvalidInputError([{ field: "panelWeight", message: "the organiser rule needs a panel weight" }]);
+  const rule = input.rule === "panel" ? null : input.rule;
+  const panelWeight = input.rule === "organiser" ? input.panelWeight! : null;
+  await db.$transaction(async (tx) => {
+    await tx.question.update({ where: { id: questionId }, data: { blendRule: rule, blendPanelWeight: panelWeight } });
+    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "question.blend-rule", detail: { questionId, rule: input.rule, panelWeight } });
+  });
+  return effectiveRule(access.panel, { blendRule: rule, blendPanelWeight: panelWeight });
+}

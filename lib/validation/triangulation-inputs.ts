@@ -1,0 +1,104 @@
+/**
+ * zod 4 schemas of what clients send for triangulation (issue 4): baselines on questions,
+ * blend weight rules, resolutions. Used by the route table (lib/http/routes.ts) and by pages'
+ * server actions; the services in lib/panels take their parsed types.
+ */
+import { z } from "zod";
+import { METHOD_IDS } from "@/lib/forecast/types";
+
+const finite = z.number().refine(Number.isFinite, "must be a finite number");
+const text = (max: number) => z.string().trim().min(1, "must not be empty").max(max, `at most ${max} characters`);
+
+/** Largest CSV text accepted (characters). */
+export const MAX_CSV_CHARS = 1_000_000;
+/** Most pasted values accepted. */
+export const MAX_PASTED_VALUES = 10_000;
+
+export const BASELINE_METHODS = ["auto", ...METHOD_IDS] as const;
+export const WEIGHT_RULES = ["equal", "inverse-mse", "organiser"] as const;
+export type PanelWeightRule = (typeof WEIGHT_RULES)[number];
+
+/**
+ * A baseline for a question: the history as CSV text (`csv`, with `valueColumn` naming the
+ * series and other numeric columns as explanatory columns) or as pasted values (`values`),
+ * exactly one of the two. `futureValues` gives each explanatory column's values for steps
+ * 1…horizon (else the CSV's trailing rows with an empty value column are used). `analogue`
+ * marks the history as an analogous product's, scaled by `scaleFactor` (with a note saying
+ * why that factor). `horizon` is the number of steps from the last observation to the
+ * question's target period (default: the number of future rows, else 1).
+ */
+export const baselineInput = z
+  .object({
+    csv: z.string().max(MAX_CSV_CHARS, `at most ${MAX_CSV_CHARS} characters`).optional().describe("CSV text with a header row"),
+    values: z.array(finite).min(1, "give at least one value").max(MAX_PASTED_VALUES).optional().describe("Pasted values, oldest first"),
+    valueColumn: text(100).default("value").describe("CSV column holding the series"),
+    futureValues: z
+      .record(z.string().min(1).max(100), z.array(finite).min(1).max(1000))
+      .optional()
+      .describe("Explanatory columns' values for steps 1…horizon, by column name"),
+    analogue: z
+      .object({
+        scaleFactor: z.number().positive("must be above 0").max(1e6).refine(Number.isFinite, "must be a finite number"),
+        note: text(500).describe("Which product the history is from and why this factor"),
+      })
+      .optional()
+      .describe("The history is an analogous product's, scaled by scaleFactor"),
+    season: z.number().int("must be a whole number").min(1, "at least 1").max(52, "at most 52").default(1).describe("Season length (4 quarterly, 12 monthly)"),
+    method: z.enum(BASELINE_METHODS).default("auto").describe("auto (lowest rolling-origin MASE) or a method id"),
+    horizon: z.number().int("must be a whole number").min(1, "at least 1").max(1000, "at most 1000").optional().describe("Steps to the target period"),
+  })
+  .superRefine((b, ctx) => {
+    if ((b.csv === undefined) === (b.values === undefined)) {
+      ctx.addIssue({ code: "custom", path: ["csv"], message: "give either csv or values (exactly one)" });
+    }
+    if (b.values !== undefined && b.futureValues !== undefined) {
+      ctx.addIssue({ code: "custom", path: ["futureValues"], message: "pasted values have no explanatory columns; use csv" });
+    }
+  });
+export type BaselineInput = z.infer<typeof baselineInput>;
+
+/** The blend weight rule of a panel. `panelWeight` (0–1) is required for the organiser rule. */
+export const panelBlendRuleInput = z
+  .object({
+    rule: z.enum(WEIGHT_RULES).describe("equal (50/50), inverse-mse (Bates & Granger, from resolved history) or organiser"),
+    panelWeight: z.number().min(0, "at least 0").max(1, "at most 1").optional().describe("The panel's weight (organiser rule)"),
+  })
+  .superRefine((b, ctx) => {
+    if (b.rule === "organiser" && b.panelWeight === undefined) ctx.addIssue({ code: "custom", path: ["panelWeight"], message: "the organiser rule needs a panel weight between 0 and 1" });
+    if (b.rule !== "organiser" && b.panelWeight !== undefined) ctx.addIssue({ code: "custom", path: ["panelWeight"], message: "a panel weight is given only with the organiser rule" });
+  });
+export type PanelBlendRuleInput = z.infer<typeof panelBlendRuleInput>;
+
+/** A question's blend weight rule; `panel` = use the panel's rule. */
+export const questionBlendRuleInput = z
+  .object({
+    rule: z.enum(["panel", ...WEIGHT_RULES]).describe("panel (the panel's rule), equal, inverse-mse or organiser"),
+    panelWeight: z.number().min(0, "at least 0").max(1, "at most 1").optional(),
+  })
+  .superRefine((b, ctx) => {
+    if (b.rule === "organiser" && b.panelWeight === undefined) ctx.addIssue({ code: "custom", path: ["panelWeight"], message: "the organiser rule needs a panel weight between 0 and 1" });
+    if (b.rule !== "organiser" && b.panelWeight !== undefined) ctx.addIssue({ code: "custom", path: ["panelWeight"], message: "a panel weight is given only with the organiser rule" });
+  });
+export type QuestionBlendRuleInput = z.infer<typeof questionBlendRuleInput>;
+
+const partActuals = z
+  .array(z.object({ pseudonym: text(60), actual: finite }))
+  .max(500)
+  .default([])
+  .describe("Sum-of-parts questions: each part's actual, by the panelist's pseudonym (feeds their track record)");
+
+/** Resolving a question: its actual value (once). */
+export const resolutionInput = z.object({
+  actual: finite.describe("The actual value, in the question's unit"),
+  note: z.string().trim().max(2000).default("").describe("Where the actual value comes from"),
+  parts: partActuals,
+});
+export type ResolutionInput = z.infer<typeof resolutionInput>;
+
+/** Correcting a recorded actual value (audited, with the reason). */
+export const resolutionCorrection = z.object({
+  actual: finite.describe("The corrected actual value"),
+  reason: text(500).describe("Why the recorded value was wrong; kept in the audit log"),
+  parts: partActuals.optional(),
+});
+export type ResolutionCorrection = z.infer<typeof resolutionCorrection>;

@@ -1,0 +1,312 @@
+/**
+ * zod 4 schemas of what the triangulation routes return (issue 4), for the OpenAPI document.
+ * They describe the services' return types in lib/panels (baselines, triangulation,
+ * resolution, track-records, report). Numbers that are undefined for the data (e.g. a percent
+ * of a zero baseline) are null.
+ */
+import { z } from "zod";
+import { AGGREGATIONS, ANSWER_FORMATS } from "./inputs";
+import { convergence } from "./outputs";
+
+const num = z.number();
+const n0 = z.number().nullable();
+const dateTime = z.string().describe("ISO 8601 date-time");
+const loose = z.record(z.string(), z.unknown());
+const interval = z.object({ level: num, lower: n0, upper: n0 });
+const weightRule = z.enum(["equal", "inverse-mse", "organiser"]);
+
+export const baselineTarget = z.object({ step: z.number().int(), mean: n0, lower80: n0, upper80: n0, lower95: n0, upper95: n0 }).describe("Forecast for the target period");
+
+export const baselineResult = z
+  .object({
+    method: z.string(),
+    parameters: z.record(z.string(), n0),
+    season: z.number().int(),
+    horizon: z.number().int(),
+    levels: z.array(num),
+    forecast: z.array(z.object({ step: z.number().int(), mean: n0, lower: z.record(z.string(), n0), upper: z.record(z.string(), n0) })),
+    fitted: z.array(n0),
+    accuracy: z.object({ insample: z.object({ mae: n0, rmse: n0, mape: n0, smape: n0, mase: n0 }) }),
+    candidates: z.array(z.object({ method: z.string(), mase: n0, error: z.string().optional() })).optional().describe("rolling-origin holdout MASE per method (automatic selection)"),
+    combination: z.array(z.object({ method: z.string(), parameters: z.record(z.string(), n0) })).optional(),
+    notes: z.array(z.string()),
+  })
+  .describe("lib/forecast/baseline.ts result");
+
+export const baselinePreview = z.object({
+  source: z.enum(["csv", "values"]),
+  valueColumn: z.string(),
+  explanatoryColumns: z.array(z.string()),
+  ignoredColumns: z.array(z.string()),
+  rows: z.array(z.object({ row: z.number().int(), value: n0, scaled: n0, x: z.record(z.string(), n0) })),
+  futureRows: z.array(z.object({ step: z.number().int(), x: z.record(z.string(), num) })),
+  observations: z.number().int(),
+  missing: z.number().int(),
+  scaleFactor: num,
+});
+
+export const baseline = z.object({
+  questionId: z.string(),
+  source: z.enum(["csv", "values"]),
+  valueColumn: z.string(),
+  analogue: z.object({ scaleFactor: num, note: z.string() }).nullable(),
+  season: z.number().int(),
+  requestedMethod: z.string(),
+  horizon: z.number().int(),
+  target: baselineTarget,
+  result: baselineResult,
+  preview: baselinePreview,
+  stored: z.boolean(),
+  createdAt: dateTime.nullable(),
+  updatedAt: dateTime.nullable(),
+});
+
+export const blendRule = z.object({ rule: weightRule, panelWeight: n0 });
+export const questionBlendRule = blendRule.extend({ from: z.enum(["question", "panel"]) });
+
+const departureFields = {
+  value: num,
+  baseline: num,
+  difference: num,
+  percent: n0,
+  z: n0,
+  percentile: n0,
+  outside80: z.boolean(),
+  outside95: z.boolean(),
+  sd: num,
+  sdSource: z.string(),
+};
+const departure = z.object(departureFields);
+export const departures = z.object({
+  answers: z.array(z.object({ ...departureFields, round: z.number().int(), pseudonym: z.string() })),
+  panel: z.object({
+    rounds: z.array(z.object({ ...departureFields, round: z.number().int(), differenceChange: n0, zChange: n0, closer: z.boolean().nullable() })),
+    totalZChange: n0,
+  }),
+  correctedPanel: departure,
+});
+
+const correctedAnswerFields = {
+  value: num,
+  low: n0,
+  high: n0,
+  factor: n0,
+  resolvedQuestions: z.number().int(),
+  credibility: n0,
+  rawFactor: n0,
+  correctedValue: n0,
+  correctedLow: n0,
+  correctedHigh: n0,
+  fromRound: z.number().int().describe("the round the answer comes from (an earlier one: a part carried forward)"),
+};
+
+const weights = z.object({
+  requested: z.string(),
+  applied: z.string(),
+  panel: num,
+  baseline: num,
+  nResolved: z.number().int(),
+  msePanel: n0,
+  mseBaseline: n0,
+  errorCorrelation: n0,
+  unconstrainedPanel: n0,
+  expectedMse: n0,
+  reason: z.string(),
+});
+
+export const triangulation = z.object({
+  questionId: z.string(),
+  weightRule: questionBlendRule,
+  panel: z
+    .object({
+      round: z.number().int(),
+      n: z.number().int(),
+      rule: z.string(),
+      raw: z.object({ figure: n0, intervals: z.array(interval), distribution: loose }),
+      corrected: z.object({ figure: n0, intervals: z.array(interval), distribution: loose }),
+      answers: z.array(z.object({ pseudonym: z.string(), ...correctedAnswerFields })),
+    })
+    .nullable(),
+  baseline: z.object({ mean: num, lower80: num.optional(), upper80: num.optional(), lower95: num.optional(), upper95: num.optional(), sd: n0, sdSource: z.string() }).nullable(),
+  weights: weights.nullable(),
+  blend: z.object({ panelWeight: num, figure: n0, mean: n0, median: n0, intervals: z.array(interval), distribution: loose }).nullable(),
+  departures: departures.nullable(),
+  notes: z.array(z.string()),
+  cautions: z.array(z.string()),
+});
+
+const figureScore = z.object({
+  label: z.string(),
+  forecast: num,
+  actual: num,
+  error: num,
+  absoluteError: num,
+  percentError: n0,
+  absolutePercentError: n0,
+  symmetricPercentError: n0,
+  scaledError: n0.describe("|error| / the baseline history's in-sample naive MAE (null without a baseline)"),
+});
+
+export const resolution = z.object({
+  questionId: z.string(),
+  actual: num,
+  note: z.string(),
+  parts: z.array(z.object({ pseudonym: z.string(), actual: num })),
+  resolvedAt: dateTime,
+  correctedAt: dateTime.nullable(),
+  figures: z.object({
+    round: z.number().int(),
+    aggregation: z.enum(AGGREGATIONS),
+    answerFormat: z.enum(ANSWER_FORMATS),
+    rawPanel: num,
+    correctedPanel: num,
+    baseline: n0,
+    blend: n0,
+    panelWeight: n0,
+    weightRule: z.string().nullable(),
+    baselineSeason: z.number().int(),
+    panelists: z.array(z.object({ pseudonym: z.string(), value: num, low: n0, high: n0, factor: num })),
+  }),
+  scores: z.object({
+    actual: num,
+    rawPanel: figureScore,
+    correctedPanel: figureScore,
+    baseline: figureScore.nullable(),
+    blend: figureScore.nullable(),
+    panelists: z.array(figureScore),
+  }),
+});
+
+const theil = z.object({ n: num, mse: n0, um: n0, ur: n0, ud: n0, us: n0, uc: n0, r: n0 }).nullable();
+const trackRecordFields = {
+  count: z.number().int(),
+  meanError: n0,
+  meanLogRatio: n0,
+  mape: n0,
+  theil,
+  theilNote: z.string(),
+};
+
+export const rosterTrackRecord = z.object({
+  rosterMemberId: z.string(),
+  name: z.string(),
+  group: z.string(),
+  skipped: z.number().int(),
+  record: z.object({
+    ...trackRecordFields,
+    intervalHitRate: z.object({ count: z.number().int(), hits: z.number().int(), rate: n0, nominal: num }),
+    bias: z.object({ n: z.number().int(), priorStrength: num, meanLogRatio: n0, credibility: n0, raw: n0, factor: n0 }),
+  }),
+});
+
+const figureHistory = z.object({
+  accuracy: z.record(z.string(), n0).describe("ME, MAE, MSE, RMSE, MPE, MAPE, sMAPE, MASE, tracking signal"),
+  trackingSignal: z.array(n0),
+  alarm: z.object({ firstBreach: z.number().int().nullable(), value: n0, limit: num }),
+});
+
+export const accuracyHistory = z.object({
+  questions: z.array(
+    z.object({
+      questionId: z.string(),
+      panelId: z.string(),
+      panelTitle: z.string(),
+      text: z.string(),
+      unit: z.string(),
+      resolvedAt: dateTime,
+      actual: num,
+      rawPanel: num,
+      correctedPanel: num,
+      baseline: num,
+      blend: num,
+    }),
+  ),
+  withoutBaseline: z.number().int(),
+  history: z.object({ n: z.number().int(), rawPanel: figureHistory, correctedPanel: figureHistory, baseline: figureHistory, blend: figureHistory }).nullable(),
+  notes: z.array(z.string()),
+});
+
+const panelist = { pseudonym: z.string(), name: z.string().nullable().describe("only for an organiser who revealed identities") };
+
+export const questionReport = z.object({
+  generatedAt: dateTime,
+  panel: z.object({ id: z.string(), title: z.string(), status: z.string() }),
+  question: z.object({ id: z.string(), text: z.string(), unit: z.string(), targetPeriod: z.string(), aggregation: z.enum(AGGREGATIONS), answerFormat: z.enum(ANSWER_FORMATS) }),
+  viewer: z.object({ role: z.enum(["owner", "organiser", "reviewer"]), namesShown: z.boolean() }),
+  blend: z
+    .object({
+      figure: n0,
+      median: n0,
+      mean: n0,
+      intervals: z.array(interval),
+      panelWeight: n0,
+      baselineWeight: n0,
+      ruleRequested: z.string(),
+      ruleApplied: z.string(),
+      ruleFrom: z.enum(["question", "panel"]),
+      reason: z.string(),
+      resolvedQuestionsBehindWeight: n0,
+      msePanel: n0,
+      mseBaseline: n0,
+    })
+    .nullable(),
+  legs: z.object({
+    panel: z
+      .object({
+        round: z.number().int(),
+        n: z.number().int(),
+        rule: z.string(),
+        raw: z.object({ figure: n0, intervals: z.array(interval) }),
+        corrected: z.object({ figure: n0, intervals: z.array(interval) }),
+      })
+      .nullable(),
+    baseline: z
+      .object({
+        method: z.string(),
+        requestedMethod: z.string(),
+        parameters: z.record(z.string(), n0),
+        season: z.number().int(),
+        horizon: z.number().int(),
+        target: z.object({ mean: n0, lower80: n0, upper80: n0, lower95: n0, upper95: n0 }),
+        sd: n0,
+        sdSource: z.string().nullable(),
+        holdout: z.object({ chosenMase: n0, candidates: z.array(z.object({ method: z.string(), mase: n0, error: z.string().optional() })) }),
+        insample: z.record(z.string(), n0),
+        source: z.string(),
+        observations: z.number().int(),
+        analogue: z.object({ scaleFactor: num, note: z.string() }).nullable(),
+        notes: z.array(z.string()),
+      })
+      .nullable(),
+    trackRecord: z.object({
+      panelistsWithRecord: z.number().int(),
+      panelists: z.array(
+        z.object({
+          ...panelist,
+          ...trackRecordFields,
+          biasFactor: n0,
+          unshrunkFactor: n0,
+          credibility: n0,
+          intervalHits: z.number().int(),
+          intervalCount: z.number().int(),
+          intervalHitRate: n0,
+        }),
+      ),
+    }),
+  }),
+  convergence: z.object({
+    rounds: convergence.shape.questions.element.shape.rounds,
+    verdict: loose.nullable(),
+    recommendation: z.enum(["stop", "another-round"]).nullable(),
+    reasons: z.array(z.string()),
+  }),
+  departures: departures.nullable(),
+  biasCorrection: z.array(z.object({ ...panelist, ...correctedAnswerFields })),
+  resolution: resolution.nullable(),
+  distributions: z.object({ panelRaw: loose.nullable(), panelCorrected: loose.nullable(), baseline: loose.nullable(), blend: loose.nullable() }).describe("lib/blend distributions behind the ranges, for charts"),
+  methodNotes: z.array(z.string()),
+  inputs: z.array(z.string()),
+  cautions: z.array(z.string()),
+});
+
+export const csvText = z.string().describe("CSV (RFC 4180): section,item,measure,value,unit; cells that could run as spreadsheet formulas start with an apostrophe");

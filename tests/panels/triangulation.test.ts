@@ -1,0 +1,377 @@
+/**
+ * Triangulation of a question composed from lib/blend (lib/panels/triangulation.ts
+ * `computeTriangulation`), the derivation of track records and blend-weight history from stored
+ * resolutions (lib/panels/track-records.ts), resolution scores (lib/panels/resolution.ts) and
+ * the CSV export's cell neutralisation (lib/panels/report.ts). Pure: no database.
+ *
+ * Expected values come from R (Rscript, computed in the test from the same inputs: median,
+ * quantile type 7, qnorm/pnorm, uniroot on the mixture CDF written out from its definition) or
+ * from hand computations written out beside them with the formula they follow.
+ */
+import { describe, expect, it } from "vitest";
+import { trackRecord, type BiasFactor } from "../../lib/blend";
+import { computeTriangulation, type TriangulationInput } from "../../lib/panels/triangulation";
+import { historyOf, recordsByMember, type ResolvedQuestion, type ResolutionFigures } from "../../lib/panels/track-records";
+import { scoreFigures } from "../../lib/panels/resolution";
+import { csvCell, reportCsv } from "../../lib/panels/report";
+import { expectClose, runR, rVector } from "../stats/rscript";
+
+const answers = (values: readonly number[], prefix = "i") =>
+  values.map((value, k) => ({ invitationId: `${prefix}${k}`, pseudonym: `Panelist ${String.fromCharCode(65 + k)}`, value, low: null, high: null }));
+
+/** Baseline of the shared-quantity case: mean 140, 80% [125, 155], 95% [117, 163] (invented). */
+const BASELINE = { mean: 140, lower80: 125, upper80: 155, lower95: 117, upper95: 163 };
+const ROUND1 = [100, 130, 170, 180, 260];
+const ROUND2 = [120, 135, 150, 160, 210];
+
+function sharedInput(overrides: Partial<TriangulationInput> = {}): TriangulationInput {
+  return {
+    aggregation: "shared",
+    answerFormat: "single",
+    rounds: [
+      { round: 1, answers: answers(ROUND1) },
+      { round: 2, answers: answers(ROUND2) },
+    ],
+    factors: {},
+    baseline: BASELINE,
+    weight: { rule: "equal" },
+    ...overrides,
+  };
+}
+
+describe("computeTriangulation: shared quantity, single values, equal weights", () => {
+  const t = computeTriangulation(sharedInput());
+  // R: the panel is N(median, IQR/(2·qnorm(0.75))) of round 2 (type 7), the baseline N(140, 15/qnorm(0.9))
+  // (sd implied by its 80% interval); the blend's quantiles solve 0.5·Fp(x) + 0.5·Fb(x) = p by uniroot.
+  const [[med, iqr, sdp, p10, p90, p025, p975], [sdb, b10, b90, b025, b975], zs, pct, acrossZ] = runR(`
+    x <- ${rVector(ROUND2)}
+    med <- median(x); iqr <- IQR(x, type = 7); sdp <- iqr / (2 * qnorm(0.75))
+    out(c(med, iqr, sdp, qnorm(c(0.1, 0.9, 0.025, 0.975), med, sdp)))
+    sdb <- (155 - 125) / (2 * qnorm(0.9))
+    F <- function(q) 0.5 * pnorm(q, med, sdp) + 0.5 * pnorm(q, 140, sdb)
+    qb <- sapply(c(0.1, 0.9, 0.025, 0.975), function(p) uniroot(function(q) F(q) - p, c(0, 400), tol = 1e-12)$root)
+    out(c(sdb, qb))
+    all <- c(${rVector(ROUND1)}, x)
+    z <- (all - 140) / sdb
+    out(z)
+    out(100 * pnorm(z))
+    out((c(median(${rVector(ROUND1)}), med) - 140) / sdb)
+  `);
+
+  it("panel figure and its range equal R's median, IQR-based sd and normal quantiles", () => {
+    expect(t.panel!.raw.figure).toBe(med);
+    expect(iqr).toBe(25);
+    expectClose(t.panel!.raw.intervals.flatMap((i) => [i.lower, i.upper]), [p10, p90, p025, p975], 1e-12, "panel range");
+    expect(t.panel!.rule).toBe("round spread");
+    // No track record: factor 1, corrected = raw.
+    expect(t.panel!.corrected.figure).toBe(med);
+    expect(t.panel!.answers.every((a) => a.factor === 1 && a.resolvedQuestions === 0)).toBe(true);
+    expect(sdp).toBeGreaterThan(0);
+  });
+
+  it("the blend's bounds carry the right probability: R integrates the mixture density up to each bound", () => {
+    const bounds = t.blend!.intervals.flatMap((i) => [i.lower, i.upper]);
+    const [mass] = runR(`
+      sdp <- ${sdp}; sdb <- ${sdb}
+      f <- function(x) 0.5 * dnorm(x, ${med}, sdp) + 0.5 * dnorm(x, 140, sdb)
+      out(sapply(${rVector(bounds)}, function(b) integrate(f, -Inf, b, rel.tol = 1e-12)$value))
+    `);
+    expectClose(mass, [0.1, 0.9, 0.025, 0.975], 1e-8, "probability below each bound (numeric integration)");
+  });
+
+  it("blend figure is 0.5·150 + 0.5·140 = 145 (DESIGN.md, equal weights) and its range is R's mixture quantiles", () => {
+    expect(t.weights!.panel).toBe(0.5);
+    expect(t.blend!.figure).toBe(145);
+    expectClose(t.blend!.intervals.flatMap((i) => [i.lower, i.upper]), [b10, b90, b025, b975], 1e-9, "blend range");
+    expectClose([t.baseline!.sd], [sdb], 1e-12, "baseline sd");
+  });
+
+  it("departures of every answer in every round: z and percentile equal R's pnorm; flags by the baseline's own bounds", () => {
+    const d = t.departures!;
+    expect(d.answers.map((a) => [a.round, a.value])).toEqual([...ROUND1.map((v) => [1, v]), ...ROUND2.map((v) => [2, v])]);
+    expectClose(d.answers.map((a) => a.z), zs, 1e-12, "z");
+    expectClose(d.answers.map((a) => a.percentile), pct, 1e-12, "percentile");
+    // Hand: outside 80% when < 125 or > 155; outside 95% when < 117 or > 163.
+    expect(d.answers.map((a) => a.outside80)).toEqual([true, false, true, true, true, true, false, false, true, true]);
+    expect(d.answers.map((a) => a.outside95)).toEqual([true, false, true, true, true, false, false, false, false, true]);
+    // Percent: 100·(v − 140)/140 for 210 → 50.
+    expect(d.answers.at(-1)!.percent).toBeCloseTo(50, 12);
+  });
+
+  it("the panel's departure across rounds: median 170 then 150, moving toward the baseline", () => {
+    const rounds = t.departures!.panel.rounds;
+    expect(rounds.map((r) => [r.round, r.value, r.difference])).toEqual([[1, 170, 30], [2, 150, 10]]);
+    expectClose(rounds.map((r) => r.z), acrossZ, 1e-12, "z across rounds");
+    expect(rounds[1].closer).toBe(true);
+    expectClose([t.departures!.panel.totalZChange], [acrossZ[1] - acrossZ[0]], 1e-12);
+  });
+
+  it("an organiser weight of 0.3 gives 0.3·150 + 0.7·140 = 143", () => {
+    const o = computeTriangulation(sharedInput({ weight: { rule: "organiser", panelWeight: 0.3 } }));
+    expect(o.blend!.figure).toBeCloseTo(143, 12);
+    expect(o.weights!.applied).toBe("organiser");
+  });
+
+  it("without a baseline there is a panel figure but no blend and no departures", () => {
+    const o = computeTriangulation(sharedInput({ baseline: null }));
+    expect(o.panel!.raw.figure).toBe(150);
+    expect(o.blend).toBeNull();
+    expect(o.departures).toBeNull();
+    expect(o.notes.join(" ")).toMatch(/No baseline/);
+  });
+});
+
+/** A resolved question with one answer per invitation (figures as stored at resolution). */
+function resolved(
+  actual: number,
+  panelists: readonly { inv: string; member: string; value: number; low?: number; high?: number }[],
+  extra: Partial<ResolutionFigures> = {},
+  partActuals: ResolvedQuestion["partActuals"] = [],
+): ResolvedQuestion {
+  return {
+    questionId: `q${actual}`,
+    panelId: "p",
+    panelTitle: "past panel",
+    text: "past question",
+    unit: "units",
+    resolvedAt: new Date(0),
+    actual,
+    partActuals,
+    figures: {
+      round: 1,
+      aggregation: "shared",
+      answerFormat: panelists.some((p) => p.low !== undefined) ? "three-point" : "single",
+      rawPanel: 0,
+      correctedPanel: 0,
+      baseline: null,
+      blend: null,
+      panelWeight: null,
+      weightRule: null,
+      baselineTraining: [],
+      baselineSeason: 1,
+      ...extra,
+      panelists: panelists.map((p) => ({ invitationId: p.inv, rosterMemberId: p.member, pseudonym: p.inv, value: p.value, low: p.low ?? null, high: p.high ?? null, factor: 1 })),
+    },
+  };
+}
+
+describe("bias correction from track records derived from stored resolutions", () => {
+  // Invented history: "opt" answered high three times, "pes" low twice, "cal" never resolved.
+  const history = [
+    resolved(100, [{ inv: "x1", member: "opt", value: 125, low: 100, high: 150 }, { inv: "x2", member: "pes", value: 80, low: 70, high: 95 }]),
+    resolved(200, [{ inv: "y1", member: "opt", value: 240, low: 210, high: 300 }, { inv: "y2", member: "pes", value: 175, low: 150, high: 210 }]),
+    resolved(150, [{ inv: "z1", member: "opt", value: 180, low: 120, high: 200 }]),
+  ];
+  const byMember = recordsByMember(history);
+  const factor = (m: string): BiasFactor => trackRecord(byMember.get(m)!.records).bias;
+
+  it("each member's track record equals a loop over their resolved answers", () => {
+    for (const [member, rows] of [
+      ["opt", [[100, 125, 100, 150], [200, 240, 210, 300], [150, 180, 120, 200]]],
+      ["pes", [[100, 80, 70, 95], [200, 175, 150, 210]]],
+    ] as const) {
+      let sumErr = 0;
+      let sumLog = 0;
+      let sumApe = 0;
+      let hits = 0;
+      for (const [a, x, lo, hi] of rows) {
+        sumErr += a - x;
+        sumLog += Math.log(a / x);
+        sumApe += Math.abs((100 * (a - x)) / a);
+        if (a >= lo && a <= hi) hits++;
+      }
+      const n = rows.length;
+      const rec = trackRecord(byMember.get(member)!.records);
+      expect(rec.count).toBe(n);
+      expect(rec.meanError).toBeCloseTo(sumErr / n, 12);
+      expect(rec.meanLogRatio).toBeCloseTo(sumLog / n, 12);
+      expect(rec.mape).toBeCloseTo(sumApe / n, 10);
+      expect(rec.intervalHitRate.hits).toBe(hits);
+      // Shrinkage toward 1: exp(n/(n + 5) · mean log ratio) (lib/blend BIAS_PRIOR_STRENGTH = 5).
+      expect(rec.bias.factor).toBeCloseTo(Math.exp((n / (n + 5)) * (sumLog / n)), 12);
+    }
+    // opt's intervals: 100 in [100,150] yes, 200 in [210,300] no, 150 in [120,200] yes → 2 of 3.
+    expect(trackRecord(byMember.get("opt")!.records).intervalHitRate.hits).toBe(2);
+  });
+
+  it("the corrected panel figure is R's median of answer × factor; raw stays beside it", () => {
+    const current = [
+      { invitationId: "c-opt", pseudonym: "Panelist O", value: 130, low: null, high: null },
+      { invitationId: "c-pes", pseudonym: "Panelist P", value: 90, low: null, high: null },
+      { invitationId: "c-cal", pseudonym: "Panelist C", value: 105, low: null, high: null },
+    ];
+    const fo = factor("opt").factor;
+    const fp = factor("pes").factor;
+    const t = computeTriangulation(
+      sharedInput({ rounds: [{ round: 1, answers: current }], factors: { "c-opt": factor("opt"), "c-pes": factor("pes") } }),
+    );
+    const [[rawMed, corrMed, co, cp]] = runR(`
+      fo <- exp(3/8 * mean(log(c(100, 200, 150) / c(125, 240, 180))))
+      fp <- exp(2/7 * mean(log(c(100, 200) / c(80, 175))))
+      x <- c(130, 90, 105); f <- c(fo, fp, 1)
+      out(c(median(x), median(x * f), fo, fp))
+    `);
+    expectClose([fo, fp], [co, cp], 1e-12, "bias factors vs R");
+    expect(t.panel!.raw.figure).toBe(rawMed);
+    expectClose([t.panel!.corrected.figure], [corrMed], 1e-12, "corrected median");
+    expect(t.panel!.answers.map((a) => a.correctedValue)).toEqual([130 * fo, 90 * fp, 105]);
+    expect(t.blend!.figure).toBeCloseTo(0.5 * corrMed + 0.5 * 140, 9);
+  });
+
+  it("sum of parts sums the corrected parts; single-value parts give the panel no range (a caution says so)", () => {
+    const parts = [
+      { invitationId: "c-opt", pseudonym: "Panelist O", value: 400, low: null, high: null },
+      { invitationId: "c-pes", pseudonym: "Panelist P", value: 300, low: null, high: null },
+    ];
+    const t = computeTriangulation({
+      aggregation: "sum-of-parts",
+      answerFormat: "single",
+      rounds: [{ round: 1, answers: parts }],
+      factors: { "c-opt": factor("opt"), "c-pes": factor("pes") },
+      baseline: { mean: 650, lower80: 600, upper80: 700 },
+      weight: { rule: "equal" },
+    });
+    expect(t.panel!.raw.figure).toBe(700);
+    expect(t.panel!.corrected.figure).toBeCloseTo(400 * factor("opt").factor + 300 * factor("pes").factor, 12);
+    expect(t.panel!.rule).toBe("sum of single-value parts (no spread)");
+    expect(t.panel!.raw.intervals[0].lower).toBe(700);
+    expect(t.cautions.join(" ")).toMatch(/no range of its own/);
+    expect(t.departures!.answers).toEqual([]);
+  });
+
+  it("a part not answered in the final round is carried forward from the panelist's latest round (hand: 110 + 200 = 310)", () => {
+    const t = computeTriangulation({
+      aggregation: "sum-of-parts",
+      answerFormat: "single",
+      rounds: [
+        { round: 1, answers: [{ invitationId: "a", pseudonym: "A", value: 100, low: null, high: null }, { invitationId: "b", pseudonym: "B", value: 200, low: null, high: null }] },
+        { round: 2, answers: [{ invitationId: "a", pseudonym: "A", value: 110, low: null, high: null }] },
+      ],
+      factors: {},
+      baseline: null,
+      weight: { rule: "equal" },
+    });
+    expect(t.panel!.raw.figure).toBe(310);
+    expect(t.panel!.answers.map((a) => [a.pseudonym, a.fromRound])).toEqual([["A", 2], ["B", 1]]);
+    expect(t.cautions.join(" ")).toMatch(/1 of the 2 parts come from an earlier round/);
+  });
+
+  it("a sum-of-parts answer counts against its own part's actual, and only when recorded; answers ≤ 0 are skipped", () => {
+    const parts = resolved(
+      1000,
+      [{ inv: "s1", member: "opt", value: 500 }, { inv: "s2", member: "pes", value: 300 }, { inv: "s3", member: "zero", value: 0 }],
+      { aggregation: "sum-of-parts" },
+      [{ invitationId: "s1", actual: 450 }, { invitationId: "s3", actual: 20 }],
+    );
+    const m = recordsByMember([parts]);
+    expect(m.get("opt")!.records).toEqual([{ actual: 450, answer: 500 }]);
+    expect(m.get("pes")!.records).toEqual([]);
+    expect(m.get("zero")!.skipped).toBe(1);
+  });
+});
+
+describe("three-point answers: the panel range is the linear pool of two-piece normals", () => {
+  it("80% and 95% bounds equal R's uniroot on the pooled CDF written from its definition", () => {
+    const tp = [
+      { low: 80, value: 100, high: 140 },
+      { low: 90, value: 120, high: 150 },
+      { low: 70, value: 95, high: 130 },
+    ];
+    const t = computeTriangulation({
+      aggregation: "shared",
+      answerFormat: "three-point",
+      rounds: [{ round: 1, answers: tp.map((a, k) => ({ invitationId: `t${k}`, pseudonym: `P${k}`, ...a })) }],
+      factors: {},
+      baseline: null,
+      weight: { rule: "equal" },
+    });
+    // Each answer: P(X ≤ x) = Φ((x − mid)/sLow) below mid, Φ((x − mid)/sHigh) above, s = distance / qnorm(0.9).
+    const [q] = runR(`
+      lo <- c(80, 90, 70); mi <- c(100, 120, 95); hi <- c(140, 150, 130); z <- qnorm(0.9)
+      F1 <- function(x, l, m, h) if (x < m) pnorm((x - m) / ((m - l) / z)) else pnorm((x - m) / ((h - m) / z))
+      F <- function(x) mean(sapply(1:3, function(i) F1(x, lo[i], mi[i], hi[i])))
+      out(sapply(c(0.1, 0.9, 0.025, 0.975), function(p) uniroot(function(x) F(x) - p, c(0, 300), tol = 1e-12)$root))
+    `);
+    expect(t.panel!.rule).toBe("three-point pool");
+    expect(t.panel!.raw.figure).toBe(100); // median of 100, 120, 95
+    expectClose(t.panel!.raw.intervals.flatMap((i) => [i.lower, i.upper]), q, 1e-9, "pooled range");
+  });
+});
+
+describe("inverse-MSE weights from the organiser's resolved history (relative errors)", () => {
+  it("w_panel = MSE_b / (MSE_p + MSE_b) = 0.0425/0.0575 = 17/23 (Bates & Granger 1969 with ρ = 0)", () => {
+    const h = historyOf([
+      resolved(100, [], { correctedPanel: 110, rawPanel: 112, baseline: 90, blend: 100 }),
+      resolved(200, [], { correctedPanel: 190, rawPanel: 185, baseline: 230, blend: 210 }),
+      resolved(400, [], { correctedPanel: 420, rawPanel: 430, baseline: 360, blend: 390 }),
+      resolved(300, [], { correctedPanel: 310, rawPanel: 310 }), // no baseline: left out
+    ]);
+    expect(h.withoutBaseline).toBe(1);
+    // Relative errors (actual − figure)/actual: panel −0.1, 0.05, −0.05 → MSE 0.015/3;
+    // baseline 0.1, −0.15, 0.1 → MSE 0.0425/3; weight 0.0425/(0.015 + 0.0425) = 17/23.
+    const t = computeTriangulation(sharedInput({ weight: { rule: "inverse-mse", history: h.pairs } }));
+    expect(t.weights!.applied).toBe("inverse-mse");
+    expect(t.weights!.panel).toBeCloseTo(17 / 23, 12);
+    expect(t.blend!.figure).toBeCloseTo((17 / 23) * 150 + (6 / 23) * 140, 9);
+    expect(h.entries.map((e) => e.blend)).toEqual([100, 210, 390]);
+  });
+
+  it("with fewer than 3 resolved questions the rule falls back to equal weights and says why", () => {
+    const h = historyOf([resolved(100, [], { correctedPanel: 110, baseline: 90, blend: 100 })]);
+    const t = computeTriangulation(sharedInput({ weight: { rule: "inverse-mse", history: h.pairs } }));
+    expect(t.weights!.applied).toBe("equal");
+    expect(t.weights!.reason).toMatch(/only 1 resolved question/);
+  });
+});
+
+describe("resolution scores", () => {
+  it("errors are actual − figure; percent errors 100·error/actual (hand computation)", () => {
+    const s = scoreFigures(1000, resolved(1000, [{ inv: "a", member: "m", value: 1250 }], { rawPanel: 900, correctedPanel: 950, baseline: 1100, blend: 1020 }).figures);
+    expect([s.rawPanel.error, s.correctedPanel.error, s.baseline!.error, s.blend!.error]).toEqual([100, 50, -100, -20]);
+    expect(s.rawPanel.absolutePercentError).toBeCloseTo(10, 12);
+    expect(s.panelists[0]).toMatchObject({ label: "a", error: -250 });
+    const noBaseline = scoreFigures(1000, resolved(1000, [], { rawPanel: 900, correctedPanel: 950 }).figures);
+    expect(noBaseline.baseline).toBeNull();
+    expect(noBaseline.blend).toBeNull();
+  });
+});
+
+describe("CSV export cells (formula injection)", () => {
+  it("cells starting with = + - @ get a leading apostrophe; plain numbers stay numbers; quoting per RFC 4180", () => {
+    expect(csvCell("=1+1")).toBe("'=1+1");
+    expect(csvCell("+44 20")).toBe("'+44 20");
+    expect(csvCell("-2+3")).toBe("'-2+3");
+    expect(csvCell("@SUM(A1)")).toBe("'@SUM(A1)");
+    expect(csvCell("\t=x")).toBe("'\t=x");
+    expect(csvCell(-12.5)).toBe("-12.5");
+    expect(csvCell("-12.5")).toBe("-12.5");
+    expect(csvCell('=HYPERLINK("x","y")')).toBe('"\'=HYPERLINK(""x"",""y"")"');
+    expect(csvCell("a,b")).toBe('"a,b"');
+    expect(csvCell(NaN)).toBe("");
+    expect(csvCell(null)).toBe("");
+  });
+
+  it("a whole report never has a cell that starts with a formula character", () => {
+    const t = computeTriangulation(sharedInput());
+    const csv = reportCsv({
+      generatedAt: "",
+      panel: { id: "p", title: "=cmd|' /C calc'!A0", status: "running" },
+      question: { id: "q", text: "=1+1", unit: "@units", targetPeriod: "+1", aggregation: "shared", answerFormat: "single" },
+      viewer: { role: "owner", namesShown: false },
+      blend: null,
+      legs: { panel: null, baseline: null, trackRecord: { panelistsWithRecord: 0, panelists: [] } },
+      convergence: { rounds: [], verdict: null, recommendation: null, reasons: [] },
+      departures: null,
+      biasCorrection: [],
+      resolution: null,
+      distributions: { panelRaw: null, panelCorrected: null, baseline: null, blend: null },
+      methodNotes: ["-note"],
+      inputs: [],
+      cautions: t.cautions,
+    });
+    const cells = csv.trim().split("\r\n").flatMap((line) => line.split(","));
+    expect(cells).toContain("'=1+1");
+    expect(cells).toContain("'@units");
+    expect(cells.filter((c) => /^"?[=+\-@]/.test(c) && !/^-?\d/.test(c))).toEqual([]);
+  });
+});
