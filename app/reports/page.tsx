@@ -15,8 +15,8 @@ export default async function ReportsPage() {
         {user.role === "reviewer"
           ? "Panels whose reports have been shared with you. They are read-only."
           : "Read-only views of your panels and of panels shared with you, as reviewers see them."}{" "}
-        For now a report shows how the panel converged across rounds; the blend with the statistical baseline follows in a
-        later version.
+        Each question&apos;s report gives the blended figure and its range first, then the panel, the statistical baseline
+        and the track records behind it, with exports (CSV, JSON) and a print layout.
       </p>
       {panels.length === 0 ? (
         <p className="muted">Nothing has been shared with you yet.</p>

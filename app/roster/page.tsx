@@ -1,5 +1,7 @@
 import type { Metadata } from "next";
 import { listRoster } from "@/lib/panels/roster";
+import { listTrackRecords } from "@/lib/panels/track-records";
+import TrackRecordRoster from "@/lib/ui/track-record-table";
 import ActionForm, { FieldError } from "@/lib/ui/action-form";
 import { requireOrganiserPage } from "@/lib/ui/require-user";
 import { addMemberAction, deleteMemberAction, updateMemberAction } from "./actions";
@@ -8,7 +10,7 @@ export const metadata: Metadata = { title: "Expert roster" };
 
 export default async function RosterPage() {
   const user = await requireOrganiserPage("/roster");
-  const members = await listRoster(user);
+  const [members, records] = await Promise.all([listRoster(user), listTrackRecords(user)]);
   return (
     <section>
       <h1>Expert roster</h1>
@@ -97,6 +99,13 @@ export default async function RosterPage() {
           </table>
         </div>
       )}
+      <section aria-labelledby="track-records-h" id="track-records">
+        <h2 id="track-records-h">Track records</h2>
+        {records.length === 0 ? <p className="muted">Nobody on the roster yet.</p> : <TrackRecordRoster records={records} />}
+        <p className="small">
+          How the panel, the corrected panel, the baseline and the blend did overall: <a href="/accuracy">accuracy history</a>.
+        </p>
+      </section>
     </section>
   );
 }

@@ -5,6 +5,7 @@
  * type 7 quartiles); the chart only draws them. A table beside it carries the same numbers.
  */
 import { useEffect, useRef } from "react";
+import { resizeForPrint } from "./chart-print";
 import {
   Chart,
   LineController,
@@ -94,7 +95,11 @@ export default function ConvergenceChart({
         },
       },
     });
-    return () => chart.destroy();
+    const unprint = resizeForPrint(chart);
+    return () => {
+      unprint();
+      chart.destroy();
+    };
   }, [points, unit, label]);
   return (
     <div className="chart-box">

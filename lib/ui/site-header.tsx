@@ -22,6 +22,7 @@ export default function SiteHeader({ user }: { user: UserActor | null }) {
               <>
                 <a href="/panels">Panels</a>
                 <a href="/roster">Expert roster</a>
+                <a href="/accuracy">Accuracy</a>
               </>
             ) : null}
             <a href="/reports">Reports</a>

@@ -5,7 +5,7 @@ import { join, resolve } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 
 const BIN = resolve(__dirname, "../../bin/triangulate.mjs");
-const NIST12 = "/work/shared/reference-data/nist_handbook_6431_ses12.csv";
+const NIST12 = new URL("../reference-data/nist_handbook_6431_ses12.csv", import.meta.url).pathname;
 let dir: string;
 
 function cli(args: string[], input?: string) {

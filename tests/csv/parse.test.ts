@@ -2,7 +2,7 @@ import { readFileSync } from "node:fs";
 import { describe, expect, it } from "vitest";
 import { CsvError, parseCsv, readSeriesCsv } from "../../lib/csv/parse";
 
-const NIST12 = "/work/shared/reference-data/nist_handbook_6431_ses12.csv";
+const NIST12 = new URL("../reference-data/nist_handbook_6431_ses12.csv", import.meta.url).pathname;
 
 describe("parseCsv (RFC 4180)", () => {
   it("reads quoted fields with commas, doubled quotes and line breaks", () => {
@@ -32,7 +32,7 @@ describe("parseCsv (RFC 4180)", () => {
 
 describe("readSeriesCsv", () => {
   it("reads the NIST 12-point series with its t column as an explanatory column", () => {
-    // Values from the NIST/SEMATECH e-Handbook §6.4.3.1 (file in /work/shared/reference-data).
+    // Values from the NIST/SEMATECH e-Handbook §6.4.3.1 (file in tests/reference-data).
     const t = readSeriesCsv(readFileSync(NIST12, "utf8"), { value: "y" });
     expect(t.y).toEqual([71, 70, 69, 68, 64, 65, 72, 78, 75, 75, 75, 70]);
     expect(t.xNames).toEqual(["t"]);

@@ -78,6 +78,9 @@ export function expectClose(
   label = "",
   absTol = 0,
 ): void {
+  if (typeof actual?.length !== "number" || typeof expected?.length !== "number") {
+    throw new TypeError(`${label}: expectClose compares arrays (got ${typeof actual} and ${typeof expected})`);
+  }
   if (actual.length !== expected.length) {
     throw new Error(`${label}: length ${actual.length} differs from expected ${expected.length}`);
   }

@@ -9,6 +9,8 @@ import { createInvitations, reissueInvitation, revokeInvitation } from "@/lib/pa
 import { addQuestion, deleteQuestion, sharePanel, updatePanel, updateQuestion } from "@/lib/panels/panels";
 import { closeRound, finishPanel, openRound, revealIdentities, startNextRound } from "@/lib/panels/rounds";
 import { getCurrentUser } from "@/lib/session";
+import { setPanelBlendRule } from "@/lib/panels/triangulation";
+import { panelBlendRuleInput } from "@/lib/validation/triangulation-inputs";
 import {
   invitationCreate,
   invitationReissue,
@@ -261,3 +263,23 @@ export async function revealNamesAction(
   }
 }
 
+
+export async function panelBlendRuleAction(_p: FormState, formData: FormData): Promise<FormState> {
+  const user = await getCurrentUser();
+  if (!user) return NOT_SIGNED_IN;
+  const values = formObject(formData);
+  const id = params.panelId.safeParse(values);
+  if (!id.success) return fromZodError(id.error);
+  const { panelId: _omit, ...rest } = values;
+  const input = withNumbers(rest, ["panelWeight"]);
+  if (rest.rule !== "organiser") delete input.panelWeight;
+  const parsed = panelBlendRuleInput.safeParse(input);
+  if (!parsed.success) return fromZodError(parsed.error);
+  try {
+    const r = await setPanelBlendRule(user, id.data.panelId, parsed.data);
+    revalidatePath(`/reports/${id.data.panelId}`);
+    return done(id.data.panelId, `Blend weight rule: ${r.rule}${r.rule === "organiser" ? ` (w = ${r.panelWeight})` : ""}.`);
+  } catch (error) {
+    return fromThrown(error);
+  }
+}

@@ -4,6 +4,8 @@ import { NotFoundError } from "@/lib/errors";
 import { listAuditEvents } from "@/lib/panels/audit";
 import { listInvitations } from "@/lib/panels/invitations";
 import { getPanel, listShares } from "@/lib/panels/panels";
+import { MIN_RESOLVED_FOR_WEIGHTS } from "@/lib/blend";
+import { getPanelBlendRule } from "@/lib/panels/report-views";
 import { listRoster } from "@/lib/panels/roster";
 import { getProgress } from "@/lib/panels/rounds";
 import { getConvergencePage } from "@/lib/panels/views";
@@ -24,6 +26,7 @@ import {
   inviteAction,
   nextRoundAction,
   openRoundAction,
+  panelBlendRuleAction,
   reissueInvitationAction,
   revealNamesAction,
   revokeInvitationAction,
@@ -48,13 +51,14 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
     throw error;
   }
   if (panel.role === "reviewer") redirect(`/reports/${id}`);
-  const [invitations, roster, progress, convergence, shares, audit] = await Promise.all([
+  const [invitations, roster, progress, convergence, shares, audit, blendRule] = await Promise.all([
     listInvitations(user, id),
     listRoster(user),
     getProgress(user, id),
     getConvergencePage(user, id),
     listShares(user, id),
     listAuditEvents(user, id),
+    getPanelBlendRule(user, id),
   ]);
   const finished = panel.status === "finished";
   const draft = panel.status === "draft";
@@ -200,6 +204,12 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
               <dt>Aggregation</dt>
               <dd>{q.aggregation === "shared" ? "shared quantity (median)" : "sum of parts (total)"}</dd>
             </dl>
+            <p>
+              <a href={`/panels/${id}/questions/${q.id}`} data-question-link={q.id}>
+                Baseline, blend and resolution of this question
+              </a>{" "}
+              · <a href={`/reports/${id}/questions/${q.id}`}>Reviewer report</a>
+            </p>
             {draft ? (
               <details>
                 <summary>Edit or remove this question</summary>
@@ -387,6 +397,44 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
             </ActionForm>
           </details>
         )}
+      </section>
+
+      <section aria-labelledby="blend-rule-h">
+        <h2 id="blend-rule-h">Blend weight rule</h2>
+        <p className="small">
+          How much the panel counts against the statistical baseline in each question&apos;s blended figure, unless a question sets its own (
+          {blendRule.questionsWithOwnRule} do). Now:{" "}
+          <strong data-panel-blend-rule={blendRule.rule}>
+            {blendRule.rule === "equal"
+              ? "equal weights"
+              : blendRule.rule === "inverse-mse"
+                ? "inverse-MSE weights from your resolved questions"
+                : `set by the organiser, w = ${blendRule.panelWeight}`}
+          </strong>
+          .
+        </p>
+        <details>
+          <summary>Change the rule for all questions</summary>
+          <ActionForm action={panelBlendRuleAction} submitLabel="Save blend weight rule" ariaLabel="Panel blend weight rule">
+            <input type="hidden" name="panelId" value={id} />
+            <label className="inline">
+              <input type="radio" name="rule" value="equal" defaultChecked={blendRule.rule === "equal"} /> Equal weights (50/50; Blattberg &amp; Hoch 1990)
+            </label>
+            <label className="inline">
+              <input type="radio" name="rule" value="inverse-mse" defaultChecked={blendRule.rule === "inverse-mse"} /> Inverse-MSE from resolved history (Bates
+              &amp; Granger 1969; equal weights until {MIN_RESOLVED_FOR_WEIGHTS} questions are resolved)
+            </label>
+            <label className="inline">
+              <input type="radio" name="rule" value="organiser" defaultChecked={blendRule.rule === "organiser"} /> Set by me
+            </label>
+            <FieldError name="rule" />
+            <label className="narrow">
+              Panel weight w (0 to 1; only when set by you)
+              <input name="panelWeight" inputMode="decimal" defaultValue={blendRule.panelWeight ?? ""} />
+              <FieldError name="panelWeight" />
+            </label>
+          </ActionForm>
+        </details>
       </section>
 
       {panel.role === "owner" ? (

@@ -3,7 +3,9 @@ import { notFound } from "next/navigation";
 import { NotFoundError } from "@/lib/errors";
 import { getPanel } from "@/lib/panels/panels";
 import { getConvergencePage } from "@/lib/panels/views";
+import { getQuestionReport } from "@/lib/panels/report";
 import ConvergenceView from "@/lib/ui/convergence-view";
+import Figure from "@/lib/ui/figure";
 import { formatDateTime } from "@/lib/ui/format";
 import { requireSignedIn } from "@/lib/ui/require-user";
 
@@ -20,6 +22,7 @@ export default async function ReportPage({ params }: { params: Promise<{ id: str
     throw error;
   }
   const convergence = await getConvergencePage(user, id);
+  const reports = await Promise.all(panel.questions.map((q) => getQuestionReport(user, id, q.id)));
   return (
     <article>
       <p className="muted small">
@@ -40,18 +43,50 @@ export default async function ReportPage({ params }: { params: Promise<{ id: str
       </p>
       {panel.description ? <p className="lead">{panel.description}</p> : null}
       <p className="caution">
-        Every forecast is uncertain. This view shows the panel&apos;s spread round by round and the figures the stopping
-        rules rest on; it supports a decision, it does not make one. The statistical baseline and the blend are not part
-        of this report yet.
+        Every forecast is uncertain. Each question&apos;s report gives the blended figure with its range, the three legs
+        behind it (the panel&apos;s judgment raw and bias-corrected, the statistical baseline, the track records), the
+        departures and the inputs; it supports a decision, it does not make one.
       </p>
       <h2>Questions</h2>
-      <ul>
-        {panel.questions.map((q) => (
-          <li key={q.id}>
-            {q.text} <span className="muted small">({q.unit}, {q.targetPeriod}; {q.aggregation === "shared" ? "shared quantity" : "sum of parts"})</span>
-          </li>
-        ))}
-      </ul>
+      <div className="table-scroll">
+        <table>
+          <thead>
+            <tr>
+              <th>Question</th>
+              <th className="num">Blended figure</th>
+              <th className="num">80% range</th>
+              <th>Status</th>
+            </tr>
+          </thead>
+          <tbody>
+            {panel.questions.map((q, i) => {
+              const r = reports[i];
+              const iv = r.blend?.intervals.find((x) => x.level === 80);
+              return (
+                <tr key={q.id} data-report-question={q.id}>
+                  <td>
+                    <a href={`/reports/${id}/questions/${q.id}`}>{q.text}</a>{" "}
+                    <span className="muted small">
+                      ({q.unit}, {q.targetPeriod}; {q.aggregation === "shared" ? "shared quantity" : "sum of parts"})
+                    </span>
+                  </td>
+                  <td className="num">{r.blend ? <Figure value={r.blend.figure} /> : <span className="muted">no blend yet</span>}</td>
+                  <td className="num">
+                    {iv ? (
+                      <>
+                        <Figure value={iv.lower} /> to <Figure value={iv.upper} />
+                      </>
+                    ) : (
+                      "—"
+                    )}
+                  </td>
+                  <td>{r.resolution ? `resolved: ${r.resolution.actual}` : r.legs.baseline ? "baseline attached" : "no baseline"}</td>
+                </tr>
+              );
+            })}
+          </tbody>
+        </table>
+      </div>
       <h2>Convergence across rounds</h2>
       <ConvergenceView view={convergence} reader="reviewer" />
     </article>

@@ -1,0 +1,123 @@
+"use server";
+/**
+ * Server actions of the organiser's question page: baseline (preview or attach), blend weight
+ * rule, resolution and its audited correction. Each one: parse the form with the zod schema
+ * from lib/validation, call one service, revalidate, return what the form shows.
+ */
+import { revalidatePath } from "next/cache";
+import { attachBaseline, previewBaseline, type BaselineView } from "@/lib/panels/baselines";
+import { correctResolution, resolveQuestion } from "@/lib/panels/resolution";
+import { setQuestionBlendRule } from "@/lib/panels/triangulation";
+import { getCurrentUser } from "@/lib/session";
+import { params } from "@/lib/validation/inputs";
+import { baselineInput, questionBlendRuleInput, resolutionCorrection, resolutionInput } from "@/lib/validation/triangulation-inputs";
+import type { FormState } from "@/lib/ui/form-state";
+import type { BaselineFormState, BaselinePreviewPayload } from "@/lib/ui/baseline-form";
+import { formObject, fromThrown, fromZodError, withNumbers } from "@/lib/ui/form-result";
+import { baselineFormValues } from "@/lib/ui/baseline-form-values";
+
+const NOT_SIGNED_IN: FormState = { ok: false, message: "Your session has ended; sign in again." };
+
+function revalidate(panelId: string, questionId: string): void {
+  revalidatePath(`/panels/${panelId}/questions/${questionId}`);
+  revalidatePath(`/panels/${panelId}`);
+  revalidatePath(`/reports/${panelId}`);
+  revalidatePath(`/reports/${panelId}/questions/${questionId}`);
+}
+
+function payload(v: BaselineView): BaselinePreviewPayload {
+  return {
+    labels: v.preview.rows.map((r) => String(r.row)),
+    history: v.preview.rows.map((r) => r.scaled),
+    valueColumn: v.preview.valueColumn,
+    explanatoryColumns: v.preview.explanatoryColumns,
+    ignoredColumns: v.preview.ignoredColumns,
+    observations: v.preview.observations,
+    missing: v.preview.missing,
+    scaleFactor: v.preview.scaleFactor,
+    method: v.result.method,
+    horizon: v.horizon,
+    target: v.target,
+  };
+}
+
+export async function baselineAction(_p: BaselineFormState, formData: FormData): Promise<BaselineFormState> {
+  const user = await getCurrentUser();
+  if (!user) return NOT_SIGNED_IN;
+  const values = formObject(formData);
+  const id = params.question.safeParse(values);
+  if (!id.success) return fromZodError(id.error);
+  const read = baselineFormValues(values);
+  if (!read.ok) return { ok: false, message: "Please correct the fields marked below.", fieldErrors: read.fieldErrors };
+  const parsed = baselineInput.safeParse(read.input);
+  if (!parsed.success) return fromZodError(parsed.error);
+  try {
+    if (values.intent === "attach") {
+      const v = await attachBaseline(user, id.data.panelId, id.data.questionId, parsed.data);
+      revalidate(id.data.panelId, id.data.questionId);
+      return { ok: true, attached: true, message: `Baseline attached: ${v.result.method}, ${v.preview.observations} observations.`, preview: payload(v) };
+    }
+    const v = await previewBaseline(user, id.data.panelId, id.data.questionId, parsed.data);
+    return { ok: true, preview: payload(v) };
+  } catch (error) {
+    return fromThrown(error);
+  }
+}
+
+export async function blendRuleAction(_p: FormState, formData: FormData): Promise<FormState> {
+  const user = await getCurrentUser();
+  if (!user) return NOT_SIGNED_IN;
+  const values = formObject(formData);
+  const id = params.question.safeParse(values);
+  if (!id.success) return fromZodError(id.error);
+  const { panelId: _a, questionId: _b, ...rest } = values;
+  const input = withNumbers(rest, ["panelWeight"]);
+  if (rest.rule !== "organiser") delete input.panelWeight;
+  const parsed = questionBlendRuleInput.safeParse(input);
+  if (!parsed.success) return fromZodError(parsed.error);
+  try {
+    const r = await setQuestionBlendRule(user, id.data.panelId, id.data.questionId, parsed.data);
+    revalidate(id.data.panelId, id.data.questionId);
+    return { ok: true, message: `Weight rule: ${r.rule}${r.rule === "organiser" ? ` (${r.panelWeight} on the panel)` : ""}, from the ${r.from}.` };
+  } catch (error) {
+    return fromThrown(error);
+  }
+}
+
+export async function resolveAction(_p: FormState, formData: FormData): Promise<FormState> {
+  const user = await getCurrentUser();
+  if (!user) return NOT_SIGNED_IN;
+  const values = formObject(formData);
+  const id = params.question.safeParse(values);
+  if (!id.success) return fromZodError(id.error);
+  const parsed = resolutionInput.safeParse(withNumbers({ actual: values.actual ?? "", note: values.note ?? "" }, ["actual"]));
+  if (!parsed.success) return fromZodError(parsed.error);
+  try {
+    const r = await resolveQuestion(user, id.data.panelId, id.data.questionId, parsed.data);
+    revalidate(id.data.panelId, id.data.questionId);
+    revalidatePath("/accuracy");
+    revalidatePath("/roster");
+    return { ok: true, message: `Resolved with the actual value ${r.actual}; every figure is scored below.` };
+  } catch (error) {
+    return fromThrown(error);
+  }
+}
+
+export async function correctResolutionAction(_p: FormState, formData: FormData): Promise<FormState> {
+  const user = await getCurrentUser();
+  if (!user) return NOT_SIGNED_IN;
+  const values = formObject(formData);
+  const id = params.question.safeParse(values);
+  if (!id.success) return fromZodError(id.error);
+  const parsed = resolutionCorrection.safeParse(withNumbers({ actual: values.actual ?? "", reason: values.reason ?? "" }, ["actual"]));
+  if (!parsed.success) return fromZodError(parsed.error);
+  try {
+    const r = await correctResolution(user, id.data.panelId, id.data.questionId, parsed.data);
+    revalidate(id.data.panelId, id.data.questionId);
+    revalidatePath("/accuracy");
+    revalidatePath("/roster");
+    return { ok: true, message: `Actual value corrected to ${r.actual}; the correction and its reason are in the audit log.` };
+  } catch (error) {
+    return fromThrown(error);
+  }
+}

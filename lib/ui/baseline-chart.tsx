@@ -1,0 +1,118 @@
+"use client";
+/**
+ * Baseline chart: the history as read (or as scaled for an analogous product), the method's
+ * one-step fitted values, and the forecast fan — the point forecast with its 80% and 95%
+ * prediction intervals shaded — for the steps up to the target period. Without a forecast it
+ * is the preview of what was read. The figures come from lib/forecast (via the stored baseline);
+ * the chart only draws them, and a table beside it carries the same numbers.
+ */
+import { useEffect, useRef } from "react";
+import { resizeForPrint } from "./chart-print";
+import { Chart, LineController, LineElement, PointElement, LinearScale, CategoryScale, Filler, Tooltip, Legend } from "chart.js";
+
+Chart.register(LineController, LineElement, PointElement, LinearScale, CategoryScale, Filler, Tooltip, Legend);
+
+export interface BaselineChartStep {
+  readonly step: number;
+  readonly mean: number | null;
+  readonly lower80: number | null;
+  readonly upper80: number | null;
+  readonly lower95: number | null;
+  readonly upper95: number | null;
+}
+
+export interface BaselineChartProps {
+  /** Row labels of the history (CSV row numbers or positions). */
+  readonly labels: readonly string[];
+  /** The history's values (null: missing). */
+  readonly history: readonly (number | null)[];
+  /** One-step fitted values aligned with the history's end (optional). */
+  readonly fitted?: readonly (number | null)[];
+  /** Forecast steps 1…h (optional). */
+  readonly forecast?: readonly BaselineChartStep[];
+  readonly unit: string;
+  /** Marks the target period's step. */
+  readonly targetStep?: number;
+  readonly caption: string;
+}
+
+export default function BaselineChart({ labels, history, fitted = [], forecast = [], unit, targetStep, caption }: BaselineChartProps) {
+  const canvas = useRef<HTMLCanvasElement>(null);
+  useEffect(() => {
+    if (!canvas.current) return;
+    const n = history.length;
+    const h = forecast.length;
+    const allLabels = [...labels, ...forecast.map((s) => (s.step === targetStep ? `+${s.step} (target)` : `+${s.step}`))];
+    const pad = (values: readonly (number | null)[], before: number, after: number) => [
+      ...Array<number | null>(before).fill(null),
+      ...values,
+      ...Array<number | null>(after).fill(null),
+    ];
+    // Fitted values are aligned with the end of the history (the prepared series may drop leading gaps).
+    const fit = fitted.length > 0 ? pad(fitted.slice(-n), Math.max(0, n - fitted.length), h) : [];
+    // The fan starts at the last observation so that it joins the history.
+    const last = history[n - 1] ?? null;
+    const fan = (pick: (s: BaselineChartStep) => number | null) => (h === 0 ? [] : [...Array<number | null>(n - 1).fill(null), last, ...forecast.map(pick)]);
+    const chart = new Chart(canvas.current, {
+      type: "line",
+      data: {
+        labels: allLabels,
+        datasets: [
+          ...(h > 0
+            ? [
+                { label: "95% lower", data: fan((s) => s.lower95), borderColor: "rgba(138, 75, 20, 0.25)", pointRadius: 0, borderWidth: 1, fill: false },
+                {
+                  label: "95% interval",
+                  data: fan((s) => s.upper95),
+                  borderColor: "rgba(138, 75, 20, 0.25)",
+                  backgroundColor: "rgba(138, 75, 20, 0.12)",
+                  pointRadius: 0,
+                  borderWidth: 1,
+                  fill: "-1" as const,
+                },
+                { label: "80% lower", data: fan((s) => s.lower80), borderColor: "rgba(138, 75, 20, 0.45)", pointRadius: 0, borderWidth: 1, fill: false },
+                {
+                  label: "80% interval",
+                  data: fan((s) => s.upper80),
+                  borderColor: "rgba(138, 75, 20, 0.45)",
+                  backgroundColor: "rgba(138, 75, 20, 0.25)",
+                  pointRadius: 0,
+                  borderWidth: 1,
+                  fill: "-1" as const,
+                },
+                { label: "Forecast", data: fan((s) => s.mean), borderColor: "#8a4b14", backgroundColor: "#8a4b14", borderWidth: 2, pointRadius: 3, fill: false },
+              ]
+            : []),
+          ...(fit.length > 0
+            ? [{ label: "Fitted (one step ahead)", data: fit, borderColor: "#5b6673", borderDash: [5, 4], borderWidth: 1.5, pointRadius: 0, fill: false }]
+            : []),
+          { label: "History", data: pad(history, 0, h), borderColor: "#1d232b", backgroundColor: "#1d232b", borderWidth: 2, pointRadius: 2.5, fill: false },
+        ],
+      },
+      options: {
+        responsive: true,
+        maintainAspectRatio: false,
+        animation: false,
+        spanGaps: false,
+        scales: { y: { title: { display: true, text: unit } }, x: { title: { display: true, text: "row / steps after the last observation" } } },
+        plugins: {
+          legend: { labels: { filter: (item) => !item.text.endsWith("lower") } },
+          tooltip: { mode: "index", intersect: false },
+        },
+      },
+    });
+    const unprint = resizeForPrint(chart);
+    return () => {
+      unprint();
+      chart.destroy();
+    };
+  }, [labels, history, fitted, forecast, unit, targetStep]);
+  return (
+    <figure className="chart-figure">
+      <div className="chart-box" data-chart="baseline" data-points={history.length} data-steps={forecast.length}>
+        <canvas ref={canvas} role="img" aria-label={caption} />
+      </div>
+      <figcaption className="muted small">{caption}</figcaption>
+    </figure>
+  );
+}

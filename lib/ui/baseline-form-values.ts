@@ -1,0 +1,51 @@
+/**
+ * Turns the baseline form's fields (strings) into the object that lib/validation's
+ * `baselineInput` parses: the CSV or the pasted values (each token must be a number; a token
+ * that is not is reported with its position), the explanatory columns' target-period values
+ * (`future.<column>`, comma-separated), the analogue's factor and note, season, method and
+ * horizon. Empty optional fields are left out so the schema's defaults apply.
+ */
+import { withNumbers } from "./form-result";
+
+export type BaselineFormRead =
+  | { readonly ok: true; readonly input: Record<string, unknown> }
+  | { readonly ok: false; readonly fieldErrors: Record<string, string[]> };
+
+function numbers(text: string, field: string, errors: Record<string, string[]>): number[] {
+  const tokens = text.split(/[\s,;]+/).filter((t) => t !== "");
+  const out: number[] = [];
+  tokens.forEach((t, i) => {
+    const v = Number(t);
+    if (Number.isFinite(v)) out.push(v);
+    else (errors[field] ??= []).push(`item ${i + 1}: '${t}' is not a number`);
+  });
+  return out;
+}
+
+export function baselineFormValues(values: Record<string, string>): BaselineFormRead {
+  const errors: Record<string, string[]> = {};
+  const input: Record<string, unknown> = withNumbers(
+    Object.fromEntries(Object.entries({ season: values.season ?? "", horizon: values.horizon ?? "" }).filter(([, v]) => v.trim() !== "")),
+    ["season", "horizon"],
+  );
+  if (values.method) input.method = values.method;
+  if ((values.source ?? "csv") === "values") {
+    const list = numbers(values.values ?? "", "values", errors);
+    input.values = list;
+  } else {
+    input.csv = values.csv ?? "";
+    if (values.valueColumn) input.valueColumn = values.valueColumn;
+    const future: Record<string, number[]> = {};
+    for (const [key, raw] of Object.entries(values)) {
+      if (!key.startsWith("future.") || raw.trim() === "") continue;
+      const column = key.slice("future.".length);
+      future[column] = numbers(raw, `futureValues.${column}`, errors);
+    }
+    if (Object.keys(future).length > 0) input.futureValues = future;
+  }
+  if (values.analogue === "yes") {
+    const factor = withNumbers({ scaleFactor: values.scaleFactor ?? "" }, ["scaleFactor"]).scaleFactor;
+    input.analogue = { scaleFactor: factor, note: values.scaleNote ?? "" };
+  }
+  return Object.keys(errors).length > 0 ? { ok: false, fieldErrors: errors } : { ok: true, input };
+}

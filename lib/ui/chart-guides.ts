@@ -1,0 +1,49 @@
+/**
+ * A chart.js plugin that draws horizontal guide lines (e.g. z = ±1.96, tracking signal ±4)
+ * across the whole plot area, whatever the number of categories (a one-round chart included),
+ * with a small label at the right end. Pair it with `guideRange` so the y axis shows them.
+ */
+import type { Plugin } from "chart.js";
+
+export interface Guide {
+  readonly y: number;
+  readonly label: string;
+  readonly dash: readonly number[];
+}
+
+export function guidesPlugin(guides: readonly Guide[], color = "rgba(155, 44, 44, 0.75)"): Plugin {
+  return {
+    id: "horizontal-guides",
+    afterDatasetsDraw(chart) {
+      const { ctx, chartArea, scales } = chart;
+      const y = scales.y;
+      if (!y) return;
+      ctx.save();
+      ctx.strokeStyle = color;
+      ctx.fillStyle = color;
+      ctx.lineWidth = 1;
+      ctx.font = "11px system-ui, sans-serif";
+      ctx.textAlign = "right";
+      for (const g of guides) {
+        const py = y.getPixelForValue(g.y);
+        if (py < chartArea.top - 1 || py > chartArea.bottom + 1) continue;
+        ctx.setLineDash([...g.dash]);
+        ctx.beginPath();
+        ctx.moveTo(chartArea.left, py);
+        ctx.lineTo(chartArea.right, py);
+        ctx.stroke();
+        ctx.fillText(g.label, chartArea.right - 4, py - 3);
+      }
+      ctx.restore();
+    },
+  };
+}
+
+/** Axis bounds that include every value and every guide, with a little room. */
+export function guideRange(values: readonly (number | null)[], guides: readonly Guide[]): { suggestedMin: number; suggestedMax: number } {
+  const all = [...values.filter((v): v is number => v !== null && Number.isFinite(v)), ...guides.map((g) => g.y)];
+  const lo = Math.min(...all);
+  const hi = Math.max(...all);
+  const pad = (hi - lo) * 0.08 || 1;
+  return { suggestedMin: lo - pad, suggestedMax: hi + pad };
+}

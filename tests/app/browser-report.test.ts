@@ -1,0 +1,375 @@
+/**
+ * Browser test of triangulation (issue 4): baseline on a question, blend, departures,
+ * resolution, track records, accuracy history and the reviewer's report, in Chromium through
+ * playwright-core against the production build that tests/app/server-setup.ts starts.
+ *
+ * Set-up over the API: an organiser and a reviewer are created with the admin CLI
+ * (`triangulate create-organiser`), the organiser's API token creates a panel with one
+ * shared-quantity question, five roster members are invited and answer round 1 with their
+ * invitation tokens, and the round closes. Then, in the browser:
+ * - the organiser pastes the NIST/SEMATECH e-Handbook §6.4.3.1 series
+ *   (tests/reference-data/nist_handbook_6431_ses12.csv) as a CSV, first with a broken cell
+ *   (the error names the row and the column), previews it (12 observations read), attaches it
+ *   with the naive method, and the baseline figure and its 80%/95% bounds equal those of R's
+ *   forecast::naive() on the same series;
+ * - chooses equal weights: the blended figure equals 0.5 × panel median + 0.5 × baseline
+ *   (Blattberg & Hoch 1990 default; hand computation below), the panel median from R;
+ * - the departure table's z of one answer equals R's (x − mean) / sd with the sd implied by
+ *   R's own 80% interval, sd = (upper80 − lower80) / (2·qnorm(0.9));
+ * - resolves the question: the scores follow actual − forecast (hand computation); the
+ *   expert roster shows each person's track record (mean log ratio ln(actual/answer) and the
+ *   shrunk bias factor exp(n/(n+5) · ln ratio) computed here), and the accuracy page lists the
+ *   question;
+ * - the reviewer opens the report: the blended figure comes first, then the three legs, the
+ *   departure table; the CSV export downloads with the same figures.
+ *
+ * The scenario is invented: Quillmoor Instruments and its Wren-2 soil-moisture sensor.
+ * Screenshots go to test-artifacts/screenshots/ (git-ignored).
+ */
+import { readFileSync, mkdirSync } from "node:fs";
+import path from "node:path";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { chromium, type Browser, type BrowserContext, type Page } from "playwright-core";
+import { expectClose, runR, rVector } from "../stats/rscript";
+import { api, apiTokenFor, baseURL, clearDatabase, createAccount, openDb, type TestUser } from "./api-client";
+
+const shots = path.resolve(__dirname, "..", "..", "test-artifacts", "screenshots");
+const LAUNCH_ARGS = ["--no-sandbox", "--disable-gpu", "--disable-background-networking", "--disable-component-update", "--no-first-run"];
+
+/** The NIST/SEMATECH e-Handbook §6.4.3.1 series, read from the reference file (header t,y). */
+const NIST_CSV = readFileSync(path.resolve(__dirname, "..", "reference-data", "nist_handbook_6431_ses12.csv"), "utf8");
+const NIST_Y = NIST_CSV.trim()
+  .split(/\r?\n/)
+  .slice(1)
+  .map((l) => Number(l.split(",")[1]));
+
+/** Invented panelists and their round-1 answers (hundreds of Wren-2 units in the next month). */
+const PANELISTS = [
+  { name: "Oskar Fenwright", answer: 66 },
+  { name: "Priya Halloran", answer: 72 },
+  { name: "Tamsin Okonkwo-Reyes", answer: 74 },
+  { name: "Bram Etheridge", answer: 78 },
+  { name: "Della Marchbank", answer: 90 },
+] as const;
+const ACTUAL = 73;
+/** The actual value after the organiser's audited correction. */
+const CORRECTED = 75;
+
+interface RBaseline {
+  readonly mean: number;
+  readonly lower80: number;
+  readonly upper80: number;
+  readonly lower95: number;
+  readonly upper95: number;
+  readonly median: number;
+  /** z of the answer 90 with the sd implied by R's 80% interval. */
+  readonly z90: number;
+  readonly sd: number;
+}
+
+/**
+ * Expected values from R (outside this project): forecast::naive(y, h = 1, level = c(80, 95))
+ * on the NIST series (Hyndman's `forecast` package: random walk, sigma² = mean of the squared
+ * one-step differences, normal intervals); median(answers) (type 7 = R's default);
+ * z = (x − mean) / sd with sd = (upper80 − lower80) / (2·qnorm(0.9)).
+ */
+function fromR(): RBaseline {
+  const [f, m, z] = runR(`
+suppressPackageStartupMessages(library(forecast))
+y <- ${rVector(NIST_Y)}
+f <- naive(y, h = 1, level = c(80, 95))
+out(c(f$mean[1], f$lower[1, 1], f$upper[1, 1], f$lower[1, 2], f$upper[1, 2]))
+out(median(${rVector(PANELISTS.map((p) => p.answer))}))
+sd <- (f$upper[1, 1] - f$lower[1, 1]) / (2 * qnorm(0.9))
+out(c((90 - f$mean[1]) / sd, sd))
+`);
+  return { mean: f[0], lower80: f[1], upper80: f[2], lower95: f[3], upper95: f[4], median: m[0], z90: z[0], sd: z[1] };
+}
+
+let browser: Browser;
+let orgCtx: BrowserContext;
+let org: Page;
+let organiser: TestUser;
+let reviewer: TestUser;
+let token = "";
+let panelId = "";
+let questionId = "";
+let expected: RBaseline;
+
+/** One figure against its expected value, to a relative tolerance (R's figures are printed with 17 digits). */
+function near(actual: number, expected: number, rel: number, label: string): void {
+  expect(Number.isFinite(actual), `${label}: ${actual} is not a number`).toBe(true);
+  expectClose([actual], [expected], rel, label);
+}
+
+async function stat(scope: Page | ReturnType<Page["locator"]>, name: string): Promise<number> {
+  const raw = await scope.locator(`[data-stat="${name}"]`).first().getAttribute("data-value");
+  if (raw === null || raw === "") throw new Error(`no value for ${name}`);
+  return Number(raw);
+}
+
+async function signInPage(ctx: BrowserContext, user: TestUser): Promise<Page> {
+  const page = await ctx.newPage();
+  page.on("dialog", (d) => void d.accept());
+  await page.goto(`${baseURL}/sign-in`);
+  await page.getByLabel("E-mail").fill(user.email);
+  await page.getByLabel("Password").fill(user.password);
+  await page.getByRole("button", { name: "Sign in" }).click();
+  await page.waitForURL((u) => !u.pathname.startsWith("/sign-in"));
+  return page;
+}
+
+async function ok(method: string, url: string, body?: unknown, bearer = token): Promise<any> {
+  const res = await api(method, url, { token: bearer, body });
+  if (res.status >= 300) throw new Error(`${method} ${url}: ${res.status} ${res.text}`);
+  return res.body;
+}
+
+describe("triangulation in the browser", () => {
+  beforeAll(async () => {
+    mkdirSync(shots, { recursive: true });
+    expected = fromR();
+    organiser = createAccount("Mirela Saxby");
+    reviewer = createAccount("Corwin Ashgrove", "reviewer");
+    token = await apiTokenFor(organiser);
+
+    const panel = await ok("POST", "/api/v1/panels", {
+      title: "Wren-2 shipments next month (Quillmoor Instruments)",
+      questions: [
+        {
+          text: "How many Wren-2 sensors will ship next month?",
+          unit: "hundred units",
+          targetPeriod: "next month",
+          lowerBound: 0,
+          upperBound: 1000,
+          answerFormat: "single",
+          aggregation: "shared",
+        },
+      ],
+    });
+    panelId = panel.id;
+    questionId = panel.questions[0].id;
+    const memberIds: string[] = [];
+    for (const p of PANELISTS) {
+      const m = await ok("POST", "/api/v1/roster", { name: p.name, email: `${p.name.toLowerCase().replace(/[^a-z]+/g, ".")}@example.com`, group: "sales" });
+      memberIds.push(m.id);
+    }
+    const invitations = await ok("POST", `/api/v1/panels/${panelId}/invitations`, { rosterMemberIds: memberIds });
+    await ok("POST", `/api/v1/panels/${panelId}/rounds/1/open`, {});
+    for (let i = 0; i < PANELISTS.length; i++) {
+      const inv = invitations.find((x: { rosterMemberId: string }) => x.rosterMemberId === memberIds[i]);
+      await ok("POST", "/api/v1/panelist/answers", { questionId, value: PANELISTS[i].answer, rationale: "Order book and channel stock." }, inv.token);
+    }
+    await ok("POST", `/api/v1/panels/${panelId}/rounds/1/close`);
+    await ok("POST", `/api/v1/panels/${panelId}/shares`, { email: reviewer.email, role: "reviewer" });
+
+    browser = await chromium.launch({ executablePath: "/usr/bin/chromium", args: LAUNCH_ARGS });
+    orgCtx = await browser.newContext({ viewport: { width: 1280, height: 900 }, acceptDownloads: true });
+    org = await signInPage(orgCtx, organiser);
+  });
+
+  afterAll(async () => {
+    await browser?.close();
+    // Leave an empty database for the other app test files (the first-run page expects one).
+    const conn = openDb();
+    try {
+      const tables = (conn.prepare(`SELECT name FROM sqlite_master WHERE type = 'table'`).all() as { name: string }[]).map((t) => t.name);
+      for (const t of ["Resolution", "Baseline"]) if (tables.includes(t)) conn.prepare(`DELETE FROM "${t}"`).run();
+    } finally {
+      conn.close();
+    }
+    clearDatabase();
+  });
+
+  it("refuses a CSV with a broken cell, naming its row and column", async () => {
+    await org.goto(`${baseURL}/panels/${panelId}/questions/${questionId}`);
+    const broken = NIST_CSV.replace("\n5,64", "\n5,sixty-four");
+    expect(broken).not.toBe(NIST_CSV);
+    await org.getByLabel("CSV text").fill(broken);
+    await org.getByRole("combobox", { name: /^Value column/ }).selectOption("y");
+    await org.getByRole("button", { name: "Preview", exact: true }).click();
+    // The header is row 1, so the fifth data row is row 6.
+    await expect.poll(() => org.locator('[data-field="csv"]').textContent()).toContain("row 6, column 'y'");
+  });
+
+  it("reads pasted values as an analogous product's history, scaled by the stated factor, and asks for the note", async () => {
+    await org.getByLabel("Pasted values, oldest first").check();
+    await org.getByLabel(/^Values/).fill(NIST_Y.join(", "));
+    await org.getByLabel(/analogous product's launch history/).check();
+    await org.getByLabel(/^Scale factor/).fill("2.5");
+    await org.getByRole("button", { name: "Preview", exact: true }).click();
+    // The note is required with a factor (lib/validation: analogue.note must not be empty).
+    await expect.poll(() => org.locator('[data-field="analogue.note"]').textContent()).toContain("must not be empty");
+    await org.getByLabel(/^Note/).fill("Wren-1 launch months; Wren-2 is sold through 2.5 times as many dealers");
+    await org.getByRole("button", { name: "Preview", exact: true }).click();
+    await expect.poll(() => org.locator("[data-baseline-preview]").count()).toBe(1);
+    expect(await stat(org, "preview-observations")).toBe(12);
+    // Each value × 2.5 (the stated factor), by hand.
+    const shown = await org.locator('[data-preview-row] [data-stat="preview-value"]').evaluateAll((els) => els.map((e) => Number(e.getAttribute("data-value"))));
+    expect(shown).toEqual(NIST_Y.map((v) => v * 2.5));
+    // Nothing was stored by a preview.
+    expect((await api("GET", `/api/v1/panels/${panelId}/questions/${questionId}/baseline`, { token })).status).toBe(404);
+    await org.getByLabel(/analogous product's launch history/).uncheck();
+    await org.getByLabel("CSV with a header row").check();
+  });
+
+  it("previews what was read, then attaches the baseline with the naive method; figure and bounds equal R's forecast::naive", async () => {
+    await org.getByLabel("CSV text").fill(NIST_CSV);
+    await org.getByRole("combobox", { name: /^Value column/ }).selectOption("y");
+    await org.getByRole("combobox", { name: /^Method/ }).selectOption("naive");
+    await org.getByLabel(/^Horizon/).fill("1");
+    await org.getByRole("button", { name: "Preview", exact: true }).click();
+    await expect.poll(() => org.locator("[data-baseline-preview]").count()).toBe(1);
+    expect(await stat(org, "preview-observations")).toBe(12);
+    expect(await org.locator('[data-chart="baseline"]').first().getAttribute("data-points")).toBe("12");
+
+    await org.getByRole("button", { name: "Attach baseline" }).click();
+    await expect.poll(() => org.locator("[data-baseline-method]").count()).toBe(1);
+    expect(await org.locator("[data-baseline-method]").getAttribute("data-baseline-method")).toBe("naive");
+    near(await stat(org, "baseline-mean"), expected.mean, 1e-9, "baseline point = R naive mean");
+    near(await stat(org, "baseline-80-lower"), expected.lower80, 1e-9, "80% lower = R");
+    near(await stat(org, "baseline-80-upper"), expected.upper80, 1e-9, "80% upper = R");
+    near(await stat(org, "baseline-95-lower"), expected.lower95, 1e-9, "95% lower = R");
+    near(await stat(org, "baseline-95-upper"), expected.upper95, 1e-9, "95% upper = R");
+    // History 12 points and a forecast fan of one step.
+    const chart = org.locator('[data-chart="baseline"]').last();
+    expect(await chart.getAttribute("data-points")).toBe("12");
+    expect(await chart.getAttribute("data-steps")).toBe("1");
+    await org.screenshot({ path: path.join(shots, "question-baseline.png"), fullPage: true });
+  });
+
+  it("with equal weights the blended figure is 0.5 × panel + 0.5 × baseline", async () => {
+    await org.getByRole("radio", { name: /Equal weights/ }).check();
+    await org.getByRole("button", { name: "Save weight rule" }).click();
+    await expect.poll(() => org.locator('[data-weight-rule="equal"]').count()).toBe(1);
+    near(await stat(org, "panel-raw"), expected.median, 1e-12, "raw panel figure = R median");
+    // No resolved history yet: every bias factor is 1, so the corrected figure is the raw one.
+    near(await stat(org, "panel-corrected"), expected.median, 1e-12, "corrected = raw without a track record");
+    // Blattberg & Hoch (1990) 50/50: blend = 0.5·panel + 0.5·baseline (hand computation from the formula).
+    const blend = 0.5 * expected.median + 0.5 * expected.mean;
+    near(await stat(org, "blend-figure"), blend, 1e-9, "blend = 0.5 panel + 0.5 baseline");
+    expect(await stat(org, "blend-panel-weight")).toBe(0.5);
+    // The departure of the answer 90, against R's (x − mean)/sd.
+    const row = org.locator("tr[data-departure]", { has: org.locator('[data-stat="value"][data-value="90"]') });
+    near(await stat(row, "z"), expected.z90, 1e-9, "z of 90 = R (x − mean)/sd");
+  });
+
+  it("resolves the question; every figure is scored and the track records and accuracy history follow", async () => {
+    await org.getByLabel(/^Actual value/).fill(String(ACTUAL));
+    await org.getByLabel("Where the value comes from").fill("Quillmoor shipping ledger");
+    await org.getByRole("button", { name: "Resolve", exact: true }).click();
+    await expect.poll(() => org.locator('[data-resolved="yes"]').count()).toBe(1);
+    expect(await stat(org, "actual")).toBe(ACTUAL);
+    // Error = actual − forecast (Hyndman & Koehler 2006 sign convention), by hand.
+    const blend = 0.5 * expected.median + 0.5 * expected.mean;
+    near(await stat(org.locator('[data-score="blend"]'), "error"), ACTUAL - blend, 1e-9, "blend error");
+    near(await stat(org.locator('[data-score="baseline"]'), "error"), ACTUAL - expected.mean, 1e-9, "baseline error");
+    near(await stat(org.locator('[data-score="raw panel"]'), "error"), ACTUAL - expected.median, 1e-9, "raw panel error");
+
+    await org.goto(`${baseURL}/roster`);
+    await org.locator("#track-records-h").waitFor({ state: "visible" });
+    const della = org.locator('tr[data-track-record="Della Marchbank"]');
+    expect(await della.locator('[data-stat="count"]').textContent()).toBe("1");
+    near(await stat(della, "mean-error"), ACTUAL - 90, 1e-12, "mean error = actual − answer");
+    near(await stat(della, "mean-log-ratio"), Math.log(ACTUAL / 90), 1e-12, "ln(actual/answer)");
+    // Shrunk bias factor exp(Z·m), Z = n/(n + 5) with n = 1 (credibility, constant 5 stated on the page).
+    near(await stat(della, "bias-factor"), Math.exp((1 / 6) * Math.log(ACTUAL / 90)), 1e-12, "bias factor");
+    await org.screenshot({ path: path.join(shots, "roster-track-records.png"), fullPage: true });
+
+    await org.goto(`${baseURL}/accuracy`);
+    await org.locator('[data-chart="tracking-signal"]').waitFor({ state: "visible" });
+    const q = org.locator(`tr[data-history-question="${questionId}"]`);
+    expect(await stat(q, "actual")).toBe(ACTUAL);
+    near(await stat(q, "blend"), blend, 1e-9, "blend in the history");
+    // One question: MAE of the blend = |actual − blend|.
+    near(await stat(org, "blend-mae"), Math.abs(ACTUAL - blend), 1e-9, "MAE of the blend over one question");
+    await org.screenshot({ path: path.join(shots, "accuracy.png"), fullPage: true });
+  });
+
+  it("corrects the actual value with a reason: the scores follow and the correction is in the audit log", async () => {
+    await org.goto(`${baseURL}/panels/${panelId}/questions/${questionId}`);
+    await org.getByLabel(/^Corrected actual value/).fill(String(CORRECTED));
+    await org.getByLabel("Reason").fill("The ledger missed two late pallets");
+    await org.getByRole("button", { name: "Correct the actual value" }).click();
+    await expect.poll(() => org.locator('[data-stat="actual"]').first().getAttribute("data-value")).toBe(String(CORRECTED));
+    const blend = 0.5 * expected.median + 0.5 * expected.mean;
+    // The reported figures stay; only the scores move: error = corrected actual − blend.
+    near(await stat(org.locator('[data-score="blend"]'), "forecast"), blend, 1e-9, "blend as reported");
+    near(await stat(org.locator('[data-score="blend"]'), "error"), CORRECTED - blend, 1e-9, "rescored blend error");
+    await expect.poll(() => org.locator("section[aria-labelledby=resolve-h]").textContent()).toContain("The ledger missed two late pallets");
+    await org.screenshot({ path: path.join(shots, "question-resolved.png"), fullPage: true });
+  });
+
+  it("the reviewer's report puts the blended figure first, shows the three legs and the departures, and the CSV export carries the same figures", async () => {
+    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 }, acceptDownloads: true });
+    const page = await signInPage(ctx, reviewer);
+    const errors: string[] = [];
+    page.on("pageerror", (e) => errors.push(e.message));
+    await page.goto(`${baseURL}/reports/${panelId}`);
+    await page.locator(`[data-report-question="${questionId}"] a`).click();
+    await page.waitForURL(new RegExp(`/reports/${panelId}/questions/${questionId}$`));
+    await page.locator('[data-stat="blend-figure"]').waitFor({ state: "visible" });
+
+    const blend = 0.5 * expected.median + 0.5 * expected.mean;
+    // Order: the blended figure before the legs, the legs before the departures.
+    const order = await page.evaluate(() => {
+      const pos = (sel: string) => {
+        const el = document.querySelector(sel);
+        return el ? Array.from(document.querySelectorAll("*")).indexOf(el) : -1;
+      };
+      return { blend: pos('[data-stat="blend-figure"]'), judgment: pos('[data-leg="judgment"]'), statistics: pos('[data-leg="statistics"]'), track: pos('[data-leg="track-record"]'), departures: pos(".departure-table"), firstH2: document.querySelector("article h2")?.id };
+    });
+    expect(order.firstH2).toBe("blend-h");
+    expect(order.blend).toBeGreaterThan(0);
+    expect(order.blend).toBeLessThan(order.judgment);
+    expect(order.judgment).toBeLessThan(order.statistics);
+    expect(order.statistics).toBeLessThan(order.track);
+    expect(order.track).toBeLessThan(order.departures);
+    near(await stat(page, "blend-figure"), blend, 1e-9, "report blend");
+    near(await stat(page, "leg-baseline-mean"), expected.mean, 1e-9, "statistics leg = R");
+    near(await stat(page, "panel-raw"), expected.median, 1e-12, "judgment leg = R median");
+    const row = page.locator("tr[data-departure]", { has: page.locator('[data-stat="value"][data-value="90"]') });
+    near(await stat(row, "z"), expected.z90, 1e-9, "report z of 90 = R");
+    // A reviewer sees no names: the departure rows carry pseudonyms.
+    const html = await page.content();
+    for (const p of PANELISTS) expect(html).not.toContain(p.name);
+    expect(await page.locator(".caution").first().textContent()).toContain("Every forecast is uncertain");
+    await page.screenshot({ path: path.join(shots, "report-desktop.png"), fullPage: true });
+    expect(await page.getByRole("button", { name: "Print" }).count()).toBe(1);
+    await page.emulateMedia({ media: "print" });
+    expect(await page.locator(".site-header nav").isVisible()).toBe(false);
+    expect(await page.getByRole("button", { name: "Print" }).isVisible()).toBe(false);
+    await page.screenshot({ path: path.join(shots, "report-print.png"), fullPage: true });
+    await page.emulateMedia({ media: "screen" });
+
+    const [download] = await Promise.all([page.waitForEvent("download"), page.locator('[data-export="csv"]').click()]);
+    const file = await download.path();
+    const csv = readFileSync(file, "utf8");
+    const rows = csv
+      .trim()
+      .split(/\r\n/)
+      .map((l) => l.split(","));
+    const value = (section: string, item: string, measure: string) => {
+      const r = rows.find((x) => x[0] === section && x[1] === item && x[2] === measure);
+      if (!r) throw new Error(`CSV has no ${section}/${item}/${measure}`);
+      return Number(r[3]);
+    };
+    expect(rows[0]).toEqual(["section", "item", "measure", "value", "unit"]);
+    near(value("blend", "blended figure", "figure"), blend, 1e-9, "CSV blend");
+    near(value("baseline", "naive", "forecast"), expected.mean, 1e-9, "CSV baseline");
+    near(value("baseline", "naive", "80% lower"), expected.lower80, 1e-9, "CSV 80% lower");
+    near(value("baseline", "naive", "95% upper"), expected.upper95, 1e-9, "CSV 95% upper");
+    const z = rows.filter((x) => x[0] === "departure" && x[2] === "z" && / round 1$/.test(x[1]) && !x[1].startsWith("panel")).map((x) => Number(x[3]));
+    expect(z.some((v) => Math.abs(v - expected.z90) < 1e-9)).toBe(true);
+    expect(value("resolution", "actual", "value")).toBe(CORRECTED);
+
+    const json = await api("GET", `/api/v1/panels/${panelId}/questions/${questionId}/report.json`, { token });
+    expect(json.status).toBe(200);
+    near(json.body.blend.figure, blend, 1e-9, "JSON blend");
+    // The charts rendered without a script error.
+    expect(await page.locator('[data-chart="ranges"] canvas').count()).toBe(1);
+    expect(await page.locator('[data-chart="departure"] canvas').count()).toBe(1);
+    expect(errors).toEqual([]);
+    await ctx.close();
+  });
+});
