@@ -200,7 +200,7 @@ async function load(io: CommandIo): Promise<number> {
     `  organiser  organiser@quillmoor.example  password: ${organiserPassword}`,
     `  reviewer   reviewer@quillmoor.example   password: ${reviewerPassword}`,
     "  panelist links (secret; shown only now):",
-    ...issued.map((i) => `    ${i.name.padEnd(18)} ${i.link}`),
+    ...issued.map((i) => `    ${i.name.padEnd(18)} ${process.env.NEXTAUTH_URL ?? ""}${i.link}`),
   ];
   io.out(lines.join("\n") + "\n");
   return 0;
