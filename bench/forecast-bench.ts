@@ -12,7 +12,9 @@
  * training part). Summary: geometric mean over series of MASE(ours) / MASE(R).
  * Time: our automatic selection over all series in one process (performance.now around the
  * loop, after the modules are loaded) against R's `ets()` over the same series (system.time
- * around the loop inside R, so R's start-up is excluded).
+ * around the loop inside R, so R's start-up is excluded). The process's CPU time over our
+ * passes (process.cpuUsage, all threads) is printed too: on a busy machine it varies less
+ * than the wall time.
  *
  * Options: --origins N, --step N, --strategy best|combine, --combine K, --refit full|update,
  * --exclude id1,id2 (leave methods out of the candidates, to see what they cost),
@@ -165,6 +167,8 @@ interface RunSummary {
   label: string;
   rows: { name: string; season: number; n: number; h: number; method: string; ours: number; ets: number; arima: number }[];
   seconds: number;
+  /** CPU time of this process over the same loop (all its threads: compilers and GC included). */
+  cpuSeconds: number;
   vsEts: number;
   vsArima: number;
   failures: string[];
@@ -176,6 +180,7 @@ function runOurs(splits: Split[], label: string, opts: BaselineOptions): RunSumm
   const forecasts: (number[] | null)[] = [];
   const methods: string[] = [];
   const t0 = performance.now();
+  const c0 = process.cpuUsage();
   for (const s of splits) {
     try {
       const r = baseline(s.train, { ...opts, method: "auto", season: s.season, horizon: s.horizon, levels: [80, 95] });
@@ -188,6 +193,8 @@ function runOurs(splits: Split[], label: string, opts: BaselineOptions): RunSumm
     }
   }
   const seconds = (performance.now() - t0) / 1000;
+  const cpu = process.cpuUsage(c0);
+  const cpuSeconds = (cpu.user + cpu.system) / 1e6;
   splits.forEach((s, i) => {
     const f = forecasts[i];
     rows.push({
@@ -206,6 +213,7 @@ function runOurs(splits: Split[], label: string, opts: BaselineOptions): RunSumm
     label,
     rows,
     seconds,
+    cpuSeconds,
     vsEts: geomean(ok.map((r) => r.ours / r.ets)),
     vsArima: geomean(ok.map((r) => r.ours / r.arima)),
     failures,
@@ -266,6 +274,8 @@ function main() {
   console.log(`geometric mean of MASE ratios: ours/ets = ${fmt(main.vsEts)}, ours/auto.arima = ${fmt(main.vsArima)}`);
   console.log(`time: ours ${fmt(main.seconds, 2)} s (automatic selection, all series, one process); R ets() ${fmt(etsSeconds, 2)} s; R auto.arima() ${fmt(arimaSeconds, 2)} s (inside R, start-up excluded)`);
   console.log(`second pass in the same process (compiled code warm): ours ${fmt(warm.seconds, 2)} s, ratio to ets ${fmt(warm.seconds / etsSeconds)}`);
+  // CPU time is less disturbed than wall time by other processes on a loaded machine.
+  console.log(`CPU time of our passes (process.cpuUsage, all threads): first ${fmt(main.cpuSeconds, 2)} s, second ${fmt(warm.cpuSeconds, 2)} s`);
   console.log(`load average when our pass ended: ${loadavg().map((v) => v.toFixed(2)).join(", ")} (other processes slow both sides)`);
   console.log(`time ratio ours/ets (first pass) = ${fmt(main.seconds / etsSeconds)} (goal ≤ 0.1); MASE goal ours/ets ≤ 1.00: ${main.vsEts <= 1 ? "met" : "not met"}`);
   if (main.failures.length > 0) console.log(`failures:\n  ${main.failures.join("\n  ")}`);

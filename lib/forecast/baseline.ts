@@ -11,7 +11,7 @@
 import { accuracy } from "./accuracy";
 import { METHODS } from "./registry";
 import { prepareSeries, methodProblem, type RawSeries, type PreparedSeries } from "./series";
-import { selectMethod, DEFAULT_ORIGINS, DEFAULT_STEP, DEFAULT_COMBINE, DEFAULT_REFIT } from "./select";
+import { selectMethod, DEFAULT_ORIGINS, DEFAULT_STEP, DEFAULT_COMBINE, DEFAULT_REFIT, type Selection } from "./select";
 import { ForecastInputError, METHOD_IDS, type Fit, type Forecast, type Method, type MethodId } from "./types";
 
 /**
@@ -107,8 +107,13 @@ function checkLevels(levels: readonly number[]): number[] {
   return [...new Set(levels)].sort((a, b) => a - b);
 }
 
-function fitOne(method: Method, s: PreparedSeries, fixed?: Readonly<Record<string, number>>): Fit {
-  return method.fit({ y: s.y, season: s.season, x: s.x, xNames: s.xNames, fixed });
+function fitOne(
+  method: Method,
+  s: PreparedSeries,
+  fixed?: Readonly<Record<string, number>>,
+  start?: Readonly<Record<string, number>>,
+): Fit {
+  return method.fit({ y: s.y, season: s.season, x: s.x, xNames: s.xNames, fixed, ...(start ? { start } : {}) });
 }
 
 function insample(s: PreparedSeries, fitted: readonly number[]): InsampleAccuracy {
@@ -198,6 +203,8 @@ export function baseline(input: RawSeries | readonly (number | null)[], options:
   }
 
   let chosen: MethodId[];
+  // Estimates of each candidate at the forecast origins: warm starts for the whole-series fit.
+  let estimates: Selection["estimates"];
   let candidates: CandidateResult[] = [];
   if (s.constant) {
     const naive = usable.find((m) => m.id === "naive") ?? usable[0];
@@ -218,6 +225,7 @@ export function baseline(input: RawSeries | readonly (number | null)[], options:
       },
     );
     notes.push(...sel.notes);
+    estimates = sel.estimates;
     if (sel.originLengths.length > 0) {
       notes.push(
         `candidates compared by rolling-origin MASE: ${sel.originLengths.length} origin${sel.originLengths.length === 1 ? "" : "s"} (training lengths ${sel.originLengths.join(", ")}), ${sel.evaluatedHorizon}-step forecasts, scaled by the ${s.season > 1 ? "seasonal naive" : "naive"} in-sample MAE`,
@@ -243,12 +251,13 @@ export function baseline(input: RawSeries | readonly (number | null)[], options:
     }
   }
 
-  // Fit the choice on the whole series. A member that fails here is dropped with a note.
+  // Fit the choice on the whole series (warm-started from its estimates at the origins, see
+  // FitInput.start). A member that fails here is dropped with a note.
   const fits: { method: Method; fit: Fit; fc: Forecast }[] = [];
   for (const id of chosen) {
     const method = usable.find((m) => m.id === id)!;
     try {
-      const fit = fitOne(method, s);
+      const fit = fitOne(method, s, undefined, estimates?.[method.id]);
       const fc = method.forecast(fit, s.horizon, levels, s.futureX);
       if (fc.mean.some((v) => !Number.isFinite(v))) throw new Error("non-finite forecast");
       fits.push({ method, fit, fc });
@@ -262,7 +271,7 @@ export function baseline(input: RawSeries | readonly (number | null)[], options:
       if (c.mase === null || chosen.includes(c.method)) continue;
       const method = usable.find((m) => m.id === c.method)!;
       try {
-        const fit = fitOne(method, s);
+        const fit = fitOne(method, s, undefined, estimates?.[method.id]);
         const fc = method.forecast(fit, s.horizon, levels, s.futureX);
         if (fc.mean.some((v) => !Number.isFinite(v))) continue;
         fits.push({ method, fit, fc });

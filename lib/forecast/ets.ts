@@ -305,6 +305,13 @@ interface Workspace {
  * 3. For the additive models the states are finally re-solved exactly by least squares at
  *    the chosen parameters. With a single free parameter (e.g. SES), a grid + Brent search on
  *    the concentrated SSE replaces steps 1–2.
+ * Warm start: when `warmStart` gives a finite value for every free parameter and free initial
+ * state (the keys of `fixed`; extra keys are ignored), steps 1–2 are replaced by one joint
+ * Levenberg–Marquardt search run to convergence from that point (parameters clamped into
+ * their bounds). Automatic selection passes the estimates of the same model at its forecast
+ * origins, which are fits to a prefix of y and hence close to the optimum. The search falls
+ * back to steps 1–2 when the start gives a non-finite SSE. Ignored with a single free
+ * parameter.
  * Parameters stay in R ets's "usual" region: alpha, phi in their boxes, beta and gamma
  * searched as fractions of [1e-4, min(0.9999, alpha)] and [1e-4, min(0.9999, 1 − alpha)].
  * Estimated seasonal states are constrained to sum to 0 (additive) or m (multiplicative),
@@ -321,6 +328,7 @@ export function fitEts(
   y: readonly number[],
   season: number,
   fixed?: Readonly<Record<string, number>>,
+  warmStart?: Readonly<Record<string, number>>,
 ): EtsFitResult {
   checkSeries(y, what);
   const seasonal = model.season !== "N";
@@ -420,6 +428,50 @@ export function fitEts(
     }
   };
 
+  // Warm start in the search coordinates (see readPar), or null when `warmStart` lacks a free value.
+  const warm = ((): { x: number[]; z: Float64Array } | null => {
+    const start = warmStart;
+    if (!start || freeNames.length < 2) return null;
+    const keys: string[] = [...freeNames];
+    if (freeL0) keys.push("l0");
+    if (freeB0) keys.push("b0");
+    if (freeS) for (let i = 1; i < m; i++) keys.push(`s${i}`);
+    for (const key of keys) if (typeof start[key] !== "number" || !Number.isFinite(start[key])) return null;
+    const clamp = (v: number, lo: number, hi: number) => Math.min(hi, Math.max(lo, v));
+    const alpha = iAlpha >= 0 ? clamp(start.alpha, lowerOf.alpha, upperOf.alpha) : g.alpha!;
+    const frac = (v: number, lo: number, hi: number) => (hi > lo ? clamp((v - lo) / (hi - lo), 0, 1) : 0);
+    const x = freeNames.map((nm) =>
+      nm === "alpha"
+        ? alpha
+        : nm === "beta"
+          ? frac(start.beta, lowerOf.beta, betaHi(alpha))
+          : nm === "gamma"
+            ? frac(start.gamma, lowerOf.gamma, gammaHi(alpha))
+            : clamp(start.phi, lowerOf.phi, upperOf.phi),
+    );
+    const z = new Float64Array(nStates);
+    for (let j = 0; j < nStates; j++) z[j] = start[keys[freeNames.length + j]];
+    return { x, z };
+  })();
+
+  const jointSpec = (): JointSpec => ({
+    nPar: freeNames.length,
+    iAlpha,
+    iBeta,
+    iGamma,
+    iPhi,
+    lower,
+    upper,
+    betaLo: lowerOf.beta,
+    betaUp: upperOf.beta,
+    gammaLo: lowerOf.gamma,
+    gammaUp: upperOf.gamma,
+    alphaFixed: g.alpha ?? NaN,
+    betaFixed: g.beta ?? 0,
+    gammaFixed: g.gamma ?? (model.season === "M" ? NaN : 0),
+    phiFixed: g.phi ?? 1,
+  });
+
   const yArr = Float64Array.from(y);
   let ybar = 0;
   for (let t = 0; t < n; t++) ybar += yArr[t];
@@ -458,28 +510,17 @@ export function fitEts(
       const r = minimiseScalar((v) => ((arg[0] = v), concentrated(arg)), lower[0], upper[0], { tol: 1e-9 });
       evaluations += r.evaluations;
       best = { x: [r.x], value: r.value };
+    } else if (freeNames.length > 1 && warm !== null && Number.isFinite(concentrated(warm.x))) {
+      // Warm start: one joint search from the given point, run to convergence.
+      const r = refineJoint(yArr, n, m, trendOn, seasonCode, g, freeL0, freeB0, freeS, nStates, jointSpec(), warm.x, warm.z);
+      evaluations += r.iterations + 1;
+      best = { x: r.x, value: r.sse };
     } else if (freeNames.length > 1) {
       // Several parameters: score the start candidates with their exact least-squares states,
       // then refine the best ones jointly (parameters and states) by Levenberg–Marquardt.
       const pick = bestCandidates(concentrated, startCandidates(freeNames, lowerOf, upperOf, m), SEARCH_RUNS);
       evaluations += pick.evaluations;
-      const spec: JointSpec = {
-        nPar: freeNames.length,
-        iAlpha,
-        iBeta,
-        iGamma,
-        iPhi,
-        lower,
-        upper,
-        betaLo: lowerOf.beta,
-        betaUp: upperOf.beta,
-        gammaLo: lowerOf.gamma,
-        gammaUp: upperOf.gamma,
-        alphaFixed: g.alpha ?? NaN,
-        betaFixed: g.beta ?? 0,
-        gammaFixed: g.gamma ?? 0,
-        phiFixed: g.phi ?? 1,
-      };
+      const spec = jointSpec();
       // A few iterations from each start, then the leader is run to convergence.
       const z0 = new Float64Array(nStates);
       let lead: { x: number[]; z: Float64Array; sse: number } | null = null;
@@ -538,50 +579,46 @@ export function fitEts(
     };
     let best = { x: [] as number[], value: Infinity };
     let bestZ: Float64Array = Float64Array.from(start);
-    const pick = bestCandidates(
-      // Candidates are scored at the start states (one pass each); the best are refined jointly.
-      (v) => {
-        if (!readPar(v)) return Infinity;
-        loadStates(start, g, trendOn, m, freeL0, freeB0, freeS, mws.s, LB);
-        const r = filter(yArr, n, trendOn, 2, m, par[0], par[1], par[2], par[3], LB[0], LB[1], mws.s, null, 0, null);
-        return Number.isFinite(r) ? r : Infinity;
-      },
-      startCandidates(freeNames, lowerOf, upperOf, m),
-      SEARCH_RUNS,
-    );
-    evaluations += pick.evaluations;
-    const spec: JointSpec = {
-      nPar: freeNames.length,
-      iAlpha,
-      iBeta,
-      iGamma,
-      lower,
-      upper,
-      betaLo: lowerOf.beta,
-      betaUp: upperOf.beta,
-      gammaLo: lowerOf.gamma,
-      gammaUp: upperOf.gamma,
-      alphaFixed: g.alpha ?? NaN,
-      betaFixed: g.beta ?? 0,
-      gammaFixed: g.gamma ?? NaN,
-      iPhi,
-      phiFixed: g.phi ?? 1,
-    };
-    let lead: { x: number[]; z: Float64Array; sse: number } | null = null;
-    for (const x0 of pick.starts) {
-      // States for this start, then a few joint Levenberg–Marquardt iterations over parameters and states.
-      mws.z.set(start);
-      if (!Number.isFinite(objective(Float64Array.from(x0)))) continue;
-      const r = refineJoint(yArr, n, m, trendOn, 2, g, freeL0, freeB0, freeS, nStates, spec, x0, mws.z, PROBE_ITERATIONS);
+    const spec = jointSpec();
+    if (warm !== null) {
+      // Warm start: one joint search from the given point, run to convergence.
+      const r = refineJoint(yArr, n, m, trendOn, 2, g, freeL0, freeB0, freeS, nStates, spec, warm.x, warm.z);
       evaluations += r.iterations;
-      if (lead === null || r.sse < lead.sse) lead = r;
+      if (Number.isFinite(r.sse)) {
+        best = { x: r.x, value: r.sse };
+        bestZ = r.z;
+      }
     }
-    if (lead !== null) {
-      // The leader is run to convergence.
-      const r = refineJoint(yArr, n, m, trendOn, 2, g, freeL0, freeB0, freeS, nStates, spec, lead.x, lead.z);
-      evaluations += r.iterations;
-      best = { x: r.x, value: r.sse };
-      bestZ = r.z;
+    if (!Number.isFinite(best.value)) {
+      // No usable warm start: score the start candidates, probe the best, run the leader.
+      const pick = bestCandidates(
+        // Candidates are scored at the start states (one pass each); the best are refined jointly.
+        (v) => {
+          if (!readPar(v)) return Infinity;
+          loadStates(start, g, trendOn, m, freeL0, freeB0, freeS, mws.s, LB);
+          const r = filter(yArr, n, trendOn, 2, m, par[0], par[1], par[2], par[3], LB[0], LB[1], mws.s, null, 0, null);
+          return Number.isFinite(r) ? r : Infinity;
+        },
+        startCandidates(freeNames, lowerOf, upperOf, m),
+        SEARCH_RUNS,
+      );
+      evaluations += pick.evaluations;
+      let lead: { x: number[]; z: Float64Array; sse: number } | null = null;
+      for (const x0 of pick.starts) {
+        // States for this start, then a few joint Levenberg–Marquardt iterations over parameters and states.
+        mws.z.set(start);
+        if (!Number.isFinite(objective(Float64Array.from(x0)))) continue;
+        const r = refineJoint(yArr, n, m, trendOn, 2, g, freeL0, freeB0, freeS, nStates, spec, x0, mws.z, PROBE_ITERATIONS);
+        evaluations += r.iterations;
+        if (lead === null || r.sse < lead.sse) lead = r;
+      }
+      if (lead !== null) {
+        // The leader is run to convergence.
+        const r = refineJoint(yArr, n, m, trendOn, 2, g, freeL0, freeB0, freeS, nStates, spec, lead.x, lead.z);
+        evaluations += r.iterations;
+        best = { x: r.x, value: r.sse };
+        bestZ = r.z;
+      }
     }
     if (!Number.isFinite(best.value)) {
       throw new ForecastInputError(`${what}: the multiplicative model could not be fitted to this series`);
@@ -1116,8 +1153,10 @@ function choleskySolve(c: Float64Array, x: Float64Array, p: number): boolean {
 /**
  * One derivative pass of {@link refineJoint}: accumulates J'J (upper triangle) into `a` and
  * J'e into `rhs`, J being the derivatives of the one-step fitted values with respect to the
- * search variables. A separate top-level function (no captured variables) so that the
- * engine compiles its loops tightly. Returns the SSE.
+ * search variables. The rows of J and the errors are first stored (column-major in `jcols`,
+ * n·P values, and in `ecol`, n values); the products are then formed as dot products over
+ * time, each summed in time order as a running update would. A separate top-level function
+ * (no captured variables) so that the engine compiles its loops tightly. Returns the SSE.
  */
 function jointPass(
   y: Float64Array,
@@ -1147,9 +1186,9 @@ function jointPass(
   jrow: Float64Array,
   a: Float64Array,
   rhs: Float64Array,
+  jcols: Float64Array,
+  ecol: Float64Array,
 ): number {
-  a.fill(0);
-  rhs.fill(0);
   let l = l0;
   let b = b0;
   let k = 0;
@@ -1213,14 +1252,45 @@ function jointPass(
     if (iBeta >= 0) jrow[iBeta] *= cBU;
     if (iGamma >= 0) jrow[iGamma] *= cGV;
     sse += e * e;
-    for (let i = 0; i < P; i++) {
-      const ji = jrow[i];
-      if (ji === 0) continue;
-      rhs[i] += ji * e;
-      const oi = i * P;
-      for (let j = i; j < P; j++) a[oi + j] += ji * jrow[j];
-    }
+    ecol[t] = e;
+    for (let j = 0, o = t; j < P; j++, o += n) jcols[o] = jrow[j];
     if (++k === m) k = 0;
+  }
+  for (let i = 0; i < P; i++) {
+    const ci = i * n;
+    let r = 0;
+    for (let t = 0; t < n; t++) r += jcols[ci + t] * ecol[t];
+    rhs[i] = r;
+    const oi = i * P;
+    let j = i;
+    for (; j + 3 < P; j += 4) {
+      // Four columns per sweep over time (each sum still runs in time order).
+      const c0 = j * n;
+      const c1 = c0 + n;
+      const c2 = c1 + n;
+      const c3 = c2 + n;
+      let v0 = 0;
+      let v1 = 0;
+      let v2 = 0;
+      let v3 = 0;
+      for (let t = 0; t < n; t++) {
+        const x = jcols[ci + t];
+        v0 += x * jcols[c0 + t];
+        v1 += x * jcols[c1 + t];
+        v2 += x * jcols[c2 + t];
+        v3 += x * jcols[c3 + t];
+      }
+      a[oi + j] = v0;
+      a[oi + j + 1] = v1;
+      a[oi + j + 2] = v2;
+      a[oi + j + 3] = v3;
+    }
+    for (; j < P; j++) {
+      const cj = j * n;
+      let v = 0;
+      for (let t = 0; t < n; t++) v += jcols[ci + t] * jcols[cj + t];
+      a[oi + j] = v;
+    }
   }
   return sse;
 }
@@ -1326,6 +1396,8 @@ function refineJoint(
   const db = new Float64Array(P);
   const ds = new Float64Array(m * P);
   const jrow = new Float64Array(P);
+  const jcols = new Float64Array(season === 0 ? 0 : n * P);
+  const ecol = new Float64Array(season === 0 ? 0 : n);
   const a = new Float64Array(P * P);
   const rhs = new Float64Array(P);
   const chol = new Float64Array(P * P);
@@ -1386,7 +1458,7 @@ function refineJoint(
       jointPassNonSeasonal(y, n, trendOn, P, iAlpha, iBeta, iPhi, alphaNow, betaNow, phiNow, dBetaDAlpha, dBetaDu, lb[0], lb[1], dl, db, jrow, a, rhs);
     } else {
       jointPass(y, n, m, trendOn, season, P, iAlpha, iBeta, iGamma, iPhi, alphaNow, betaNow, gammaNow, phiNow,
-        dBetaDAlpha, dBetaDu, dGammaDAlpha, dGammaDv, lb[0], lb[1], ring, dl, db, ds, jrow, a, rhs);
+        dBetaDAlpha, dBetaDu, dGammaDAlpha, dGammaDv, lb[0], lb[1], ring, dl, db, ds, jrow, a, rhs, jcols, ecol);
     }
     let accepted = false;
     let gain = 0;
@@ -1617,6 +1689,14 @@ export function etsForecast(what: string, method: MethodId, model: EtsModel, fit
       lower[String(lv)] = [];
       upper[String(lv)] = [];
     }
+    // Positions (0-based, ascending) of the order statistics the quantiles below read.
+    const orderIndices = [
+      ...new Set(
+        levels.flatMap((lv) =>
+          [0.5 - lv / 200, 0.5 + lv / 200].flatMap((p) => [Math.floor((SIMULATION_PATHS - 1) * p), Math.ceil((SIMULATION_PATHS - 1) * p)]),
+        ),
+      ),
+    ].sort((a, b) => a - b);
     for (let i = 0; i < h; i++) {
       const col = paths.subarray(i * SIMULATION_PATHS, (i + 1) * SIMULATION_PATHS);
       let s1 = 0;
@@ -1625,8 +1705,16 @@ export function etsForecast(what: string, method: MethodId, model: EtsModel, fit
       let s2 = 0;
       for (let p = 0; p < col.length; p++) s2 += (col[p] - avg) ** 2;
       sd.push(Math.sqrt(s2 / (col.length - 1)));
-      col.sort();
-      const sorted = Array.from(col);
+      let sorted: readonly number[];
+      if (Number.isFinite(s1)) {
+        // Type 7 quantiles read only the order statistics at ⌊(n − 1)p⌋ and ⌈(n − 1)p⌉: put just
+        // those in their sorted places (same values as a full sort, in linear expected time).
+        selectOrderStatistics(col, orderIndices);
+        sorted = col as unknown as readonly number[];
+      } else {
+        col.sort(); // a non-finite path: the full sort orders NaN last
+        sorted = Array.from(col);
+      }
       for (const lv of levels) {
         lower[String(lv)].push(quantileOfSorted(sorted, 0.5 - lv / 200, 7));
         upper[String(lv)].push(quantileOfSorted(sorted, 0.5 + lv / 200, 7));
@@ -1634,6 +1722,41 @@ export function etsForecast(what: string, method: MethodId, model: EtsModel, fit
     }
   }
   return { method, mean, levels: [...levels], lower, upper, sd };
+}
+
+/**
+ * Rearranges finite values `a` in place so that a[k] holds the k-th smallest value (0-based)
+ * for every k in `ks` (ascending, within range), with no larger value before and no smaller
+ * one after each such position: the values a full sort would put there. Hoare's selection
+ * (Hoare 1961, "Algorithm 65: Find", CACM 4(7); Wirth's formulation) on the part of the array
+ * to the right of the previous position, O(n) expected per position; no allocation.
+ */
+function selectOrderStatistics(a: Float64Array, ks: readonly number[]): void {
+  let from = 0;
+  const last = a.length - 1;
+  for (const k of ks) {
+    let left = from;
+    let right = last;
+    while (left < right) {
+      const x = a[k];
+      let i = left;
+      let j = right;
+      do {
+        while (a[i] < x) i++;
+        while (x < a[j]) j--;
+        if (i <= j) {
+          const tmp = a[i];
+          a[i] = a[j];
+          a[j] = tmp;
+          i++;
+          j--;
+        }
+      } while (i <= j);
+      if (j < k) left = i;
+      if (k < i) right = j;
+    }
+    from = k + 1;
+  }
 }
 
 /**

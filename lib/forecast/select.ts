@@ -105,6 +105,13 @@ export interface Selection {
   readonly originLengths: readonly number[];
   readonly evaluatedHorizon: number;
   readonly notes: readonly string[];
+  /**
+   * Per scored candidate, its parameters and initial states at the forecast origins (the
+   * earliest origin's with refit "update", the latest origin's with "full"), in the form of a
+   * `fixed` record: a warm start (FitInput.start) for the fit on the whole series, whose
+   * initial states refer to the same first observation.
+   */
+  readonly estimates?: Readonly<Partial<Record<MethodId, Readonly<Record<string, number>>>>>;
 }
 
 /**
@@ -133,6 +140,8 @@ export function originPlan(
 interface OriginForecasts {
   readonly means: (readonly number[] | null)[];
   readonly error?: string;
+  /** Parameters and initial states of the last fit (see {@link frozenParameters}). */
+  readonly estimates?: Record<string, number>;
 }
 
 function sliceX(x: readonly (readonly number[])[] | undefined, from: number, to: number) {
@@ -166,6 +175,7 @@ function runOrigins(
   const out = new Array<readonly number[] | null>(lengths.length).fill(null);
   let frozen: Record<string, number> | undefined;
   let frozenWorks = refit === "update";
+  let last: Fit | undefined;
   for (const { t, k } of order) {
     const y = input.y.slice(0, t);
     if (y.length < method.minLength(input.season) || !method.applicable(y, input.season, input.x !== undefined)) continue;
@@ -183,6 +193,7 @@ function runOrigins(
         fit = method.fit(base);
         if (frozenWorks && !frozen) frozen = frozenParameters(fit);
       }
+      last = fit;
       const futureX: FutureX | undefined = sliceX(input.x, t, t + h);
       const fc = method.forecast(fit, h, [], futureX); // means only: no interval levels
       if (fc.mean.length < h || fc.mean.slice(0, h).some((v) => !Number.isFinite(v))) {
@@ -193,7 +204,7 @@ function runOrigins(
       return { means: out, error: e instanceof Error ? e.message : String(e) };
     }
   }
-  return { means: out };
+  return { means: out, ...(last ? { estimates: frozen ?? frozenParameters(last) } : {}) };
 }
 
 function scoreMeans(
@@ -269,6 +280,7 @@ export function selectMethod(methods: readonly Method[], input: EvaluationInput,
   }
 
   const runs = new Map<MethodId, OriginForecasts>();
+  const estimates: Partial<Record<MethodId, Record<string, number>>> = {};
   const candidates: CandidateScore[] = methods.map((m) => {
     if (plan.lengths.length === 0 || m.minLength(input.season) > plan.lengths[plan.lengths.length - 1]) {
       return { method: m.id, mase: null, origins: 0, error: `too few observations to evaluate ${m.id} out of sample` };
@@ -276,6 +288,7 @@ export function selectMethod(methods: readonly Method[], input: EvaluationInput,
     const run = runOrigins(m, input, plan.lengths, plan.horizon, options.refit ?? DEFAULT_REFIT);
     if (run.error) return { method: m.id, mase: null, origins: 0, error: run.error };
     runs.set(m.id, run);
+    if (run.estimates) estimates[m.id] = run.estimates;
     const sc = scoreMeans(input, plan.lengths, plan.horizon, run.means);
     if (sc.mase === null) return { method: m.id, mase: null, origins: 0, error: "no origin could be scored" };
     if (sc.origins < plan.lengths.length) {
@@ -321,5 +334,5 @@ export function selectMethod(methods: readonly Method[], input: EvaluationInput,
       }
     }
   }
-  return { chosen, mase, candidates, combination, originLengths: plan.lengths, evaluatedHorizon: plan.horizon, notes };
+  return { chosen, mase, candidates, combination, originLengths: plan.lengths, evaluatedHorizon: plan.horizon, notes, estimates };
 }

@@ -42,6 +42,15 @@ export interface FitInput {
    * held fixed; every other parameter is estimated ("estimated unless given").
    */
   readonly fixed?: Readonly<Record<string, number>>;
+  /**
+   * Optional warm start for estimation, with the keys of `fixed` (parameters and initial
+   * states): typically the estimates of the same model on a prefix of `y` (automatic
+   * selection passes those of its forecast origins). Methods that support it (the
+   * exponential smoothing models with several free parameters) run their local search from
+   * this point alone instead of scoring their grid of start candidates; others ignore it.
+   * It only moves the search's starting point, never fixes a value.
+   */
+  readonly start?: Readonly<Record<string, number>>;
 }
 
 /** A fitted model: plain data, no closures, JSON-serialisable. */

@@ -23,7 +23,7 @@ const holtWintersMultiplicative: Method = {
   },
   /** @throws ForecastInputError for unusable input (message says what to fix). */
   fit(input: FitInput): Fit {
-    return toFit("holt-winters-multiplicative", fitEts("holt-winters-multiplicative", MODEL, input.y, input.season, input.fixed));
+    return toFit("holt-winters-multiplicative", fitEts("holt-winters-multiplicative", MODEL, input.y, input.season, input.fixed, input.start));
   },
   /** @throws ForecastInputError for a bad horizon or level. */
   forecast(fit: Fit, h: number, levels: readonly number[]): Forecast {
