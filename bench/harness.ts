@@ -82,7 +82,9 @@ export interface RunningServer {
 export async function startServer(o: ServerOptions, timeoutMs = 60_000): Promise<RunningServer> {
   const baseURL = `http://127.0.0.1:${o.port}`;
   // `next start` runs the server in the same process (no worker), so a signal to the child reaches it.
-  const child = spawn(process.execPath, [path.join(root, "node_modules", "next", "dist", "bin", "next"), "start", "-p", String(o.port), "-H", "127.0.0.1"], {
+  // SERVER_NODE_ARGS, e.g. "--cpu-prof --cpu-prof-dir=/tmp/prof", profiles the server under load.
+  const nodeArgs = (process.env.SERVER_NODE_ARGS ?? "").split(" ").filter(Boolean);
+  const child = spawn(process.execPath, [...nodeArgs, path.join(root, "node_modules", "next", "dist", "bin", "next"), "start", "-p", String(o.port), "-H", "127.0.0.1"], {
     cwd: root,
     env: serverEnv(o),
     stdio: ["ignore", "ignore", "inherit"],
@@ -203,7 +205,7 @@ export async function organiserToken(baseURL: string, user: { email: string; pas
   if (!session) throw new Error(`sign-in gave no session cookie (status ${res.status})`);
   const tok = await fetch(`${baseURL}/api/v1/tokens`, {
     method: "POST",
-    headers: { cookie: session.split(";")[0], "content-type": "application/json" },
+    headers: { cookie: session.split(";")[0], "content-type": "application/json", origin: baseURL },
     body: JSON.stringify({ name: "load script" }),
   });
   if (tok.status !== 201) throw new Error(`token creation → ${tok.status}`);

@@ -10,7 +10,10 @@
  *    them revise every answer. One request in 50 is deliberately invalid (outside the plausible
  *    bounds) and must be refused with 422. Every request carries a fresh Idempotency-Key.
  * 4. Prints throughput (answer requests per second over the whole load phase), p50/p95/p99
- *    latency and the count of each status.
+ *    latency and the count of each status; and, for scale, the same for 1,000 GETs of an unknown
+ *    API path (404 from the catch-all route, no database): the framework's ceiling here; and the
+ *    server's and the load client's CPU time per request (from /proc), which, unlike wall time,
+ *    other work on a shared machine hardly changes.
  * 5. Retries RETRIES acknowledged requests with their original key: each must return 200 with the
  *    same version, and no row may be added.
  * 6. Stops the server and checks the database with better-sqlite3: every acknowledged answer is
@@ -18,10 +21,11 @@
  *    versions run 1…n without gaps, and `PRAGMA integrity_check` is ok.
  *
  * Settings (environment): PANELISTS (500), QUESTIONS (2), CONCURRENCY (50), RETRIES (25),
- * NEXT_DIST_DIR (.next-load), LOAD_REBUILD. Exit code 1 when any check fails. Traffic goes
+ * NEXT_DIST_DIR (.next-load), LOAD_REBUILD, TRIANGULATE_SQLITE_SYNCHRONOUS (NORMAL or FULL, passed
+ * to the server; lib/db.ts), SERVER_NODE_ARGS (e.g. "--cpu-prof --cpu-prof-dir=/tmp/prof"). Exit code 1 when any check fails. Traffic goes
  * only to the server this script starts; the run ends by itself.
  */
-import { mkdtempSync, rmSync } from "node:fs";
+import { mkdtempSync, readFileSync, rmSync } from "node:fs";
 import { cpus, loadavg, tmpdir } from "node:os";
 import path from "node:path";
 import { performance } from "node:perf_hooks";
@@ -62,6 +66,16 @@ function mulberry32(a: number): () => number {
   };
 }
 
+/** CPU seconds (user + system) the process has used so far, from /proc (Linux); NaN elsewhere. */
+function cpuSeconds(pid: number | undefined): number {
+  try {
+    const fields = readFileSync(`/proc/${pid}/stat`, "utf8").split(") ")[1].split(" ");
+    return (Number(fields[11]) + Number(fields[12])) / 100; // utime, stime in clock ticks (USER_HZ = 100)
+  } catch {
+    return Number.NaN;
+  }
+}
+
 function summarise(label: string, outcomes: readonly AnswerOutcome[], seconds: number): void {
   const ms = outcomes.filter((o) => o.status !== 0).map((o) => o.ms);
   const statuses = new Map<number, number>();
@@ -89,7 +103,7 @@ async function main(): Promise<number> {
   const c = new Client(server.baseURL, CONCURRENCY + 4);
   let failures = 0;
   try {
-    console.log(`server ${server.baseURL} (pid ${server.child.pid}), build ${distDir}, database ${dbFile}`);
+    console.log(`server ${server.baseURL} (pid ${server.child.pid}), build ${distDir}, database ${dbFile}, synchronous=${process.env.TRIANGULATE_SQLITE_SYNCHRONOUS ?? "NORMAL"}, ${CONCURRENCY} in flight`);
     console.log(`machine: ${cpus().length} cores (${cpus()[0]?.model ?? "?"}), load average ${loadavg().map((x) => x.toFixed(2)).join(" ")}`);
     const user = createOrganiser(dbFile);
     const token = await organiserToken(server.baseURL, user);
@@ -116,16 +130,35 @@ async function main(): Promise<number> {
     // a GET of the panelist's own panel changes nothing but the invitation's last-seen time).
     await pool(setup.panelists.slice(0, CONCURRENCY), CONCURRENCY, (p) => c.request("GET", "/api/v1/panelist/panel", { token: p.token }));
 
+    // The framework's own ceiling on this machine, for scale: an API path that is not in the route
+    // table (404 problem+json from the catch-all route: no authentication, no database).
+    await pool(Array.from({ length: 200 }), CONCURRENCY, () => c.request("GET", "/api/v1/no-such-operation"));
+    const tCeil = performance.now();
+    const ceiling = await pool(Array.from({ length: 1000 }), CONCURRENCY, () => c.request("GET", "/api/v1/no-such-operation"));
+    const ceilSeconds = (performance.now() - tCeil) / 1000;
+    console.log(
+      `ceiling: GET of an unknown API path (404, no database): ${(1000 / ceilSeconds).toFixed(0)} /s, p50 ${percentile(ceiling.map((r) => r.ms), 50).toFixed(1)} ms, p99 ${percentile(ceiling.map((r) => r.ms), 99).toFixed(1)} ms`,
+    );
+
     const tLoad = performance.now();
+    const serverCpu0 = cpuSeconds(server.child.pid);
+    const clientCpu0 = process.cpuUsage();
     const firstOut = await pool(first, CONCURRENCY, (a) => sendAnswer(c, a));
     const tMid = performance.now();
     const revOut = await pool(revisions, CONCURRENCY, (a) => sendAnswer(c, a));
     const tEnd = performance.now();
+    const serverCpu = cpuSeconds(server.child.pid) - serverCpu0;
+    const clientCpu = process.cpuUsage(clientCpu0);
     const all = [...firstOut, ...revOut];
     console.log("");
     summarise("answers", firstOut, (tMid - tLoad) / 1000);
     summarise("revisions", revOut, (tEnd - tMid) / 1000);
     summarise("all", all, (tEnd - tLoad) / 1000);
+    // CPU time, which the other work on a shared machine does not inflate the way it does wall time.
+    console.log(
+      `cpu: server ${(serverCpu * 1000 / all.length).toFixed(2)} ms per answer request (${serverCpu.toFixed(2)} s over ${((tEnd - tLoad) / 1000).toFixed(2)} s = ${(serverCpu / ((tEnd - tLoad) / 1000)).toFixed(2)} cores busy, main thread plus GC and I/O threads), ` +
+        `load client ${((clientCpu.user + clientCpu.system) / 1000 / all.length).toFixed(2)} ms per request`,
+    );
 
     const unexpected = all.filter((o) => (o.attempt.invalid ? o.status !== 422 : o.status !== 201));
     if (unexpected.length > 0) {

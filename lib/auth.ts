@@ -7,6 +7,7 @@
 import NextAuth, { type NextAuthOptions } from "next-auth";
 import CredentialsProvider from "next-auth/providers/credentials";
 import { authenticate } from "@/lib/accounts/users";
+import { clientAddress, limits, tooManyRequests } from "@/lib/http/rate-limit";
 
 export const authOptions: NextAuthOptions = {
   session: { strategy: "jwt", maxAge: 12 * 60 * 60 },
@@ -41,5 +42,24 @@ export const authOptions: NextAuthOptions = {
   },
 };
 
-/** The next-auth route handler (re-exported by app/api/auth/[...nextauth]/route.ts). */
-export const handler = NextAuth(authOptions);
+const nextAuthHandler = NextAuth(authOptions) as (req: Request, ctx: unknown) => Promise<Response>;
+
+/**
+ * The next-auth route handler (re-exported by app/api/auth/[...nextauth]/route.ts), with sign-in
+ * attempts rate-limited (lib/http/rate-limit.ts): per address and e-mail, and per e-mail from
+ * anywhere. Over the limit, the attempt is refused with 429 problem+json and Retry-After before
+ * the password is checked.
+ */
+export async function handler(req: Request, ctx: unknown): Promise<Response> {
+  if (req.method === "POST" && new URL(req.url).pathname.endsWith("/callback/credentials")) {
+    const form = await req
+      .clone()
+      .formData()
+      .catch(() => null);
+    const raw = form?.get("email");
+    const email = typeof raw === "string" ? raw.trim().toLowerCase().slice(0, 200) : "";
+    const wait = limits.signInAddress.hit(`${clientAddress(req)}\u0000${email}`) ?? limits.signInAccount.hit(email);
+    if (wait !== null) return tooManyRequests(wait, new URL(req.url).pathname, "Too many sign-in attempts.");
+  }
+  return nextAuthHandler(req, ctx);
+}

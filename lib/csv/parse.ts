@@ -23,6 +23,20 @@ export class CsvError extends Error {
   }
 }
 
+/**
+ * Refuses text that was not UTF-8: a browser or `TextDecoder` reading a Latin-1 or Windows-1252
+ * file as UTF-8 turns its accented bytes into U+FFFD (the replacement character), and a UTF-16
+ * file read as UTF-8 is full of NUL characters. Neither can be repaired without knowing the
+ * original encoding, so the message says how to save the file instead.
+ * @throws CsvError naming the first row with such a character.
+ */
+function notUtf8Check(src: string): void {
+  const at = src.search(/[\uFFFD\u0000]/);
+  if (at < 0) return;
+  const row = 1 + (src.slice(0, at).match(/\r\n|\r|\n/g)?.length ?? 0);
+  throw new CsvError(`row ${row}: the file is not UTF-8 text (it has a character that could not be read); save it as "CSV UTF-8" and upload it again`, row);
+}
+
 /** One parsed record with the 1-based record number (header = 1, blank lines not counted). */
 export interface CsvRecord {
   readonly row: number;
@@ -36,12 +50,13 @@ export interface CsvRecord {
  * spans lines counts as one row.
  *
  * @throws CsvError for an unterminated quoted field or text after a closing quote
- *   (`row 3: text after closing quote`).
+ *   (`row 3: text after closing quote`), or text that was not UTF-8 (U+FFFD or NUL characters).
  * Complexity O(length of text).
  * @example parseCsv('a,b\r\n1,"x, y"') → [{row:1, fields:["a","b"]}, {row:2, fields:["1","x, y"]}]
  */
 export function parseCsv(text: string): CsvRecord[] {
   const src = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
+  notUtf8Check(src);
   const records: CsvRecord[] = [];
   let fields: string[] = [];
   let field = "";

@@ -5,6 +5,7 @@
  */
 import { decode } from "next-auth/jwt";
 import { actorFromBearerToken, actorFromUserId, type Actor } from "@/lib/accounts/actor";
+import { authSecret } from "@/lib/env";
 import { NotAuthenticatedError } from "@/lib/errors";
 
 const SESSION_COOKIES = ["__Secure-next-auth.session-token", "next-auth.session-token"];
@@ -47,7 +48,7 @@ export async function actorFromRequest(req: Request): Promise<Actor | null> {
   }
   const token = sessionToken(req.headers.get("cookie"));
   if (!token) return null;
-  const secret = process.env.NEXTAUTH_SECRET ?? process.env.AUTH_SECRET;
+  const secret = authSecret();
   if (!secret) return null;
   const jwt = await decode({ token, secret }).catch(() => null);
   if (!jwt?.sub || (jwt.exp !== undefined && typeof jwt.exp === "number" && jwt.exp * 1000 < Date.now())) return null;

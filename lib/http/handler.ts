@@ -6,6 +6,7 @@
  * 3. one domain-service call, which authorises (403 / 404) and acts;
  * 4. respond with the entry's status and JSON, or problem+json through lib/http/problem.ts.
  * Cookie-authenticated changes must come from this site (Origin check), as a CSRF guard.
+ * Before all that: a body over MAX_BODY_BYTES → 413; rate limits (lib/http/rate-limit.ts) → 429.
  */
 import type { z } from "zod";
 import type { Actor } from "@/lib/accounts/actor";
@@ -13,6 +14,7 @@ import { ForbiddenError, InvalidInputError, NotAuthenticatedError } from "@/lib/
 import { idempotencyKey as idempotencyKeySchema } from "@/lib/validation/inputs";
 import { actorFromRequest } from "./context";
 import { problemResponse, toProblem, zodFieldErrors } from "./problem";
+import { clientAddress, INVITATION_OPERATIONS, limits, tooManyRequests } from "./rate-limit";
 import type { RouteDef } from "./routes";
 
 type Infer<T> = T extends z.ZodType ? z.output<T> : undefined;
@@ -34,13 +36,55 @@ export class Reply {
   ) {}
 }
 
+/** A non-JSON result (a CSV export): sent as is, with its content type and download name. */
+export class FileReply {
+  constructor(
+    readonly body: string,
+    readonly contentType: string,
+    readonly filename?: string,
+  ) {}
+}
+
 /** The second argument Next.js passes to a route handler. */
 export interface NextRouteContext {
   readonly params: Promise<Record<string, string | string[]>>;
 }
 
+/**
+ * The largest request body accepted, in bytes (the biggest legitimate one is a baseline CSV of at
+ * most 1 000 000 characters, lib/validation/triangulation-inputs.ts). Larger bodies get 413.
+ */
+export const MAX_BODY_BYTES = 2 * 1024 * 1024;
+
+class BodyTooLargeError extends Error {}
+
+/** The body as text: at most MAX_BODY_BYTES (counted as it streams in), and valid UTF-8. */
+async function readText(req: Request): Promise<string> {
+  if (!req.body) return "";
+  const reader = req.body.getReader();
+  const chunks: Uint8Array[] = [];
+  let size = 0;
+  for (;;) {
+    const { done, value } = await reader.read();
+    if (done) break;
+    size += value.byteLength;
+    if (size > MAX_BODY_BYTES) {
+      await reader.cancel().catch(() => undefined);
+      throw new BodyTooLargeError();
+    }
+    chunks.push(value);
+  }
+  return new TextDecoder("utf-8", { fatal: true }).decode(Buffer.concat(chunks));
+}
+
 async function readJson(req: Request): Promise<unknown> {
-  const text = await req.text();
+  let text: string;
+  try {
+    text = await readText(req);
+  } catch (err) {
+    if (err instanceof BodyTooLargeError) throw err;
+    throw new SyntaxError("body is not UTF-8");
+  }
   if (text.trim() === "") return {};
   try {
     return JSON.parse(text);
@@ -49,9 +93,14 @@ async function readJson(req: Request): Promise<unknown> {
   }
 }
 
+/**
+ * True when a cookie-authenticated change comes from this site: its `Origin` names this host, or,
+ * when a browser sends no Origin, `Sec-Fetch-Site` says same-origin. A request with neither is
+ * refused (browsers send Origin with every POST/PUT/PATCH/DELETE; scripts use Bearer tokens).
+ */
 function sameOrigin(req: Request): boolean {
   const origin = req.headers.get("origin");
-  if (!origin) return true;
+  if (!origin) return req.headers.get("sec-fetch-site") === "same-origin";
   const host = req.headers.get("x-forwarded-host") ?? req.headers.get("host");
   try {
     return new URL(origin).host === host;
@@ -67,9 +116,29 @@ export function handle<const R extends RouteDef>(
 ): (req: Request, ctx: NextRouteContext) => Promise<Response> {
   return async (req, ctx) => {
     const instance = new URL(req.url).pathname;
+    const tooLarge = () =>
+      problemResponse({ type: "about:blank", title: "Payload Too Large", status: 413, detail: `The request body is larger than ${MAX_BODY_BYTES} bytes.`, instance });
     try {
-      const actor = await actorFromRequest(req);
+      const declared = Number(req.headers.get("content-length") ?? 0);
+      if (declared > MAX_BODY_BYTES) return tooLarge();
+      const address = clientAddress(req);
+      const wait = limits.badTokens.blocked(address);
+      if (wait !== null) return tooManyRequests(wait, instance, "Too many requests with invalid credentials from this address.");
+      let actor: Actor | null;
+      try {
+        actor = await actorFromRequest(req);
+      } catch (err) {
+        if (err instanceof NotAuthenticatedError) limits.badTokens.hit(address);
+        throw err;
+      }
       if (route.auth !== "none" && !actor) throw new NotAuthenticatedError();
+      const limited =
+        actor?.kind === "panelist"
+          ? limits.panelist.hit(actor.invitationId)
+          : actor && INVITATION_OPERATIONS.has(route.operationId)
+            ? limits.invitations.hit(actor.userId)
+            : null;
+      if (limited !== null) return tooManyRequests(limited, instance);
       if (actor && route.method !== "GET" && !req.headers.get("authorization") && !sameOrigin(req)) {
         throw new ForbiddenError("Cross-site request refused.");
       }
@@ -82,8 +151,10 @@ export function handle<const R extends RouteDef>(
         let raw: unknown;
         try {
           raw = await readJson(req);
-        } catch {
-          return problemResponse({ type: "about:blank", title: "Bad Request", status: 400, detail: "The request body is not valid JSON.", instance });
+        } catch (err) {
+          if (err instanceof BodyTooLargeError) return tooLarge();
+          const detail = (err as Error).message === "body is not UTF-8" ? "The request body is not UTF-8 text." : "The request body is not valid JSON.";
+          return problemResponse({ type: "about:blank", title: "Bad Request", status: 400, detail, instance });
         }
         const parsed = route.body.safeParse(raw);
         if (!parsed.success) throw new InvalidInputError(zodFieldErrors(parsed.error));
@@ -99,6 +170,17 @@ export function handle<const R extends RouteDef>(
         }
       }
       const result = await run({ actor, params, body, idempotencyKey, request: req } as HandlerContext<R>);
+      if (result instanceof FileReply) {
+        return new Response(result.body, {
+          status: route.status,
+          headers: {
+            "content-type": result.contentType,
+            "cache-control": "no-store",
+            "x-content-type-options": "nosniff",
+            ...(result.filename ? { "content-disposition": `attachment; filename="${result.filename.replace(/[^A-Za-z0-9._-]/g, "_")}"` } : {}),
+          },
+        });
+      }
       const [status, payload] = result instanceof Reply ? [result.status, result.body] : [route.status, result];
       return new Response(JSON.stringify(payload), {
         status,

@@ -24,6 +24,8 @@ const STATUS_TEXT: Record<number, string> = {
   404: "Not found, or not visible to you",
   409: "Conflicts with the current state (round not open, panel finished, …)",
   422: "Invalid input; `errors` names each field",
+  413: "The request body is over the size limit (2 MiB)",
+  429: "Too many requests (rate limit); Retry-After says when to try again",
 };
 
 function operation(r: RouteDef): Json {
@@ -47,7 +49,12 @@ function operation(r: RouteDef): Json {
     [String(r.status)]: { description: STATUS_TEXT[r.status], content: { [r.produces ?? "application/json"]: { schema: schemaOf(r.response, "output") } } },
   };
   const errs = new Set<number>(r.errors);
-  if (r.body) errs.add(400);
+  if (r.body) {
+    errs.add(400);
+    errs.add(413);
+  }
+  // Rate limits (lib/http/rate-limit.ts): invalid credentials per address, panelists, invitations.
+  if (r.auth !== "none" || r.body) errs.add(429);
   for (const s of [...errs].sort()) {
     responses[String(s)] = { description: STATUS_TEXT[s] ?? "Error", content: { "application/problem+json": { schema: problemRef } } };
   }

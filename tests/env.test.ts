@@ -1,0 +1,38 @@
+/**
+ * Settings from the environment (lib/env.ts): what is accepted, and that a wrong setting gives a
+ * message naming the variable and what to set.
+ */
+import { describe, expect, it } from "vitest";
+import { parseEnv } from "../lib/env";
+
+const SECRET = "k".repeat(32);
+
+describe("parseEnv", () => {
+  it("accepts a production setup and applies the defaults", () => {
+    const e = parseEnv({ NODE_ENV: "production", NEXTAUTH_SECRET: SECRET, DATABASE_URL: "file:/var/lib/triangulate.db", NEXTAUTH_URL: "https://triangulate.example.com", PORT: "3000" });
+    expect(e.PORT).toBe(3000);
+    expect(e.TRIANGULATE_SQLITE_SYNCHRONOUS).toBe("NORMAL");
+  });
+
+  it("needs a secret of at least 32 characters in production, and says so", () => {
+    expect(() => parseEnv({ NODE_ENV: "production" })).toThrow(/NEXTAUTH_SECRET: must be set to at least 32/);
+    expect(() => parseEnv({ NODE_ENV: "production", NEXTAUTH_SECRET: "short" })).toThrow(/it has 5/);
+    expect(parseEnv({ NODE_ENV: "production", AUTH_SECRET: SECRET }).AUTH_SECRET).toBe(SECRET);
+    // `next build` has no run-time secret; development needs none.
+    expect(() => parseEnv({ NODE_ENV: "production", NEXT_PHASE: "phase-production-build" })).not.toThrow();
+    expect(() => parseEnv({ NODE_ENV: "development" })).not.toThrow();
+  });
+
+  it("names every wrong variable at once", () => {
+    let message = "";
+    try {
+      parseEnv({ NODE_ENV: "development", DATABASE_URL: "postgres://x", NEXTAUTH_URL: "ftp://x", PORT: "70000", TRIANGULATE_SQLITE_SYNCHRONOUS: "OFF" });
+    } catch (err) {
+      message = (err as Error).message;
+    }
+    expect(message).toMatch(/DATABASE_URL: must be a file: URL/);
+    expect(message).toMatch(/NEXTAUTH_URL: must be an http\(s\) URL/);
+    expect(message).toMatch(/PORT: must be 1–65535/);
+    expect(message).toMatch(/TRIANGULATE_SQLITE_SYNCHRONOUS: must be NORMAL or FULL/);
+  });
+});
