@@ -7,6 +7,35 @@
  * without it the tests that use this helper fail with R's error rather than being skipped.
  */
 import { execFileSync } from "node:child_process";
+import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+
+/**
+ * Runs an R script with `Rscript --vanilla` and returns what it printed. The script goes through
+ * a file (`Rscript -e` truncates long expressions). Never skips: a missing Rscript fails the test
+ * with a message saying what to install.
+ */
+export function runRscript(script: string): string {
+  const dir = mkdtempSync(join(tmpdir(), "triangulate-r-"));
+  const file = join(dir, "check.R");
+  writeFileSync(file, script);
+  try {
+    return execFileSync("Rscript", ["--vanilla", file], {
+      encoding: "utf8",
+      stdio: ["ignore", "pipe", "pipe"],
+      maxBuffer: 64 * 1024 * 1024,
+    });
+  } catch (err) {
+    const e = err as { code?: string; stderr?: string; message: string };
+    if (e.code === "ENOENT") {
+      throw new Error("Rscript not found: install Debian r-base-core and r-cran-forecast (see .ci/run)");
+    }
+    throw new Error(`Rscript failed: ${e.stderr ?? e.message}`);
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
 
 const PRELUDE = `suppressMessages(library(forecast))
 out <- function(name, x) cat(name, "=", paste(format(as.numeric(x), digits = 17), collapse = ","), "\\n", sep = "")
@@ -20,11 +49,7 @@ const PRELUDE_BASE = PRELUDE.replace("suppressMessages(library(forecast))\n", ""
  */
 export function rEval(code: string, options: { withForecast?: boolean } = {}): Record<string, number[]> {
   const prelude = options.withForecast === false ? PRELUDE_BASE : PRELUDE;
-  const text = execFileSync("Rscript", ["-e", prelude + code], {
-    encoding: "utf8",
-    stdio: ["ignore", "pipe", "pipe"],
-    maxBuffer: 64 * 1024 * 1024,
-  });
+  const text = runRscript(prelude + code);
   const result: Record<string, number[]> = {};
   for (const line of text.split("\n")) {
     const eq = line.indexOf("=");
@@ -36,9 +61,9 @@ export function rEval(code: string, options: { withForecast?: boolean } = {}): R
   return result;
 }
 
-/** Format numbers as an R vector literal with full precision. */
-export function rVector(x: readonly number[]): string {
-  return `c(${x.map((v) => v.toPrecision(17)).join(", ")})`;
+/** Formats numbers as an R vector literal (shortest round-trip decimals; NaN and ±Inf as R's). */
+export function rVector(values: readonly number[]): string {
+  return `c(${values.map((v) => (Number.isNaN(v) ? "NaN" : v === Infinity ? "Inf" : v === -Infinity ? "-Inf" : String(v))).join(", ")})`;
 }
 
 const seriesCache = new Map<string, { y: number[]; m: number }>();

@@ -3,21 +3,15 @@
  * the numbers it prints. Expected values in the tests come from R, outside this project.
  * The helper never skips: if Rscript is missing the test fails and says so.
  */
-import { execFileSync } from "node:child_process";
-import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
-import { tmpdir } from "node:os";
-import { join } from "node:path";
+import { runRscript } from "../helpers/r";
+
+export { rVector } from "../helpers/r";
 
 /** R prelude: `out(x)` prints a numeric vector at full precision on one line. */
 const PRELUDE = `
 out <- function(x) cat(sprintf("%.17g", as.numeric(x)), "\\n")
 suppressPackageStartupMessages({ library(stats) })
 `;
-
-/** Formats a JS number array as an R vector literal (shortest round-trip decimal). */
-export function rVector(values: readonly number[]): string {
-  return `c(${values.map((v) => (Number.isNaN(v) ? "NaN" : v === Infinity ? "Inf" : v === -Infinity ? "-Inf" : String(v))).join(", ")})`;
-}
 
 function parseToken(tok: string): number {
   if (tok === "NA" || tok === "NaN") return NaN;
@@ -33,26 +27,7 @@ function parseToken(tok: string): number {
  * (each `out(x)` call gives one line).
  */
 export function runR(code: string): number[][] {
-  let stdout: string;
-  // The script goes through a file: `Rscript -e` truncates long expressions.
-  const dir = mkdtempSync(join(tmpdir(), "triangulate-r-"));
-  const file = join(dir, "check.R");
-  writeFileSync(file, PRELUDE + code);
-  try {
-    stdout = execFileSync("Rscript", ["--vanilla", file], {
-      encoding: "utf8",
-      stdio: ["ignore", "pipe", "pipe"],
-      maxBuffer: 64 * 1024 * 1024,
-    });
-  } catch (err) {
-    const e = err as { code?: string; stderr?: string; message: string };
-    if (e.code === "ENOENT") {
-      throw new Error("Rscript not found: install Debian r-base-core and r-cran-forecast (see .ci/run)");
-    }
-    throw new Error(`Rscript failed: ${e.stderr ?? e.message}`);
-  } finally {
-    rmSync(dir, { recursive: true, force: true });
-  }
+  const stdout = runRscript(PRELUDE + code);
   return stdout
     .split("\n")
     .map((l) => l.trim())
