@@ -24,9 +24,9 @@ import {
   shareInput,
 } from "@/lib/validation/inputs";
 import type { FormState } from "@/lib/ui/form-state";
-import { formObject, fromThrown, fromZodError, withNumbers } from "@/lib/ui/form-result";
+import { formObject, fromThrown, withNumbers } from "@/lib/ui/form-result";
+import { NOT_SIGNED_IN, signedInAction } from "@/lib/ui/signed-in-action";
 
-const NOT_SIGNED_IN: FormState = { ok: false, message: "Your session has ended; sign in again." };
 const QUESTION_NUMBERS = ["lowerBound", "upperBound"] as const;
 
 /** The site's own address, for the full private links shown once. */
@@ -48,195 +48,104 @@ function done(panelId: string, message?: string): FormState {
 }
 
 export async function addQuestionAction(_p: FormState, formData: FormData): Promise<FormState> {
-  const user = await getCurrentUser();
-  if (!user) return NOT_SIGNED_IN;
   const values = formObject(formData);
-  const id = params.panelId.safeParse(values);
-  if (!id.success) return fromZodError(id.error);
-  const parsed = questionInput.safeParse(withNumbers(values, QUESTION_NUMBERS));
-  if (!parsed.success) return fromZodError(parsed.error);
-  try {
-    await addQuestion(user, id.data.panelId, parsed.data);
-    return done(id.data.panelId, "Question added.");
-  } catch (error) {
-    return fromThrown(error);
-  }
+  return signedInAction(values, params.panelId, async (user, id, question) => {
+    await addQuestion(user, id.panelId, question);
+    return done(id.panelId, "Question added.");
+  }, [questionInput, withNumbers(values, QUESTION_NUMBERS)]);
 }
 
 export async function updateQuestionAction(_p: FormState, formData: FormData): Promise<FormState> {
-  const user = await getCurrentUser();
-  if (!user) return NOT_SIGNED_IN;
   const values = formObject(formData);
-  const id = params.question.safeParse(values);
-  if (!id.success) return fromZodError(id.error);
-  const parsed = questionUpdate.safeParse(withNumbers(values, QUESTION_NUMBERS));
-  if (!parsed.success) return fromZodError(parsed.error);
-  try {
-    await updateQuestion(user, id.data.panelId, id.data.questionId, parsed.data);
-    return done(id.data.panelId, "Question saved.");
-  } catch (error) {
-    return fromThrown(error);
-  }
+  return signedInAction(values, params.question, async (user, id, question) => {
+    await updateQuestion(user, id.panelId, id.questionId, question);
+    return done(id.panelId, "Question saved.");
+  }, [questionUpdate, withNumbers(values, QUESTION_NUMBERS)]);
 }
 
 export async function deleteQuestionAction(_p: FormState, formData: FormData): Promise<FormState> {
-  const user = await getCurrentUser();
-  if (!user) return NOT_SIGNED_IN;
-  const id = params.question.safeParse(formObject(formData));
-  if (!id.success) return fromZodError(id.error);
-  try {
-    await deleteQuestion(user, id.data.panelId, id.data.questionId);
-    return done(id.data.panelId);
-  } catch (error) {
-    return fromThrown(error);
-  }
+  return signedInAction(formObject(formData), params.question, async (user, id) => {
+    await deleteQuestion(user, id.panelId, id.questionId);
+    return done(id.panelId);
+  });
 }
 
 export async function updateRulesAction(_p: FormState, formData: FormData): Promise<FormState> {
-  const user = await getCurrentUser();
-  if (!user) return NOT_SIGNED_IN;
-  const values = formObject(formData);
-  const id = params.panelId.safeParse(values);
-  if (!id.success) return fromZodError(id.error);
-  const { panelId: _omit, ...rest } = values;
-  const parsed = panelUpdate.safeParse(withNumbers(rest, ["consensusThreshold", "stabilityThreshold", "roundLimit"]));
-  if (!parsed.success) return fromZodError(parsed.error);
-  try {
-    await updatePanel(user, id.data.panelId, parsed.data);
-    return done(id.data.panelId, "Saved.");
-  } catch (error) {
-    return fromThrown(error);
-  }
+  const { panelId, ...rest } = formObject(formData);
+  return signedInAction({ panelId }, params.panelId, async (user, id, rules) => {
+    await updatePanel(user, id.panelId, rules);
+    return done(id.panelId, "Saved.");
+  }, [panelUpdate, withNumbers(rest, ["consensusThreshold", "stabilityThreshold", "roundLimit"])]);
 }
 
 export async function inviteAction(_p: FormState, formData: FormData): Promise<FormState> {
-  const user = await getCurrentUser();
-  if (!user) return NOT_SIGNED_IN;
   const values = formObject(formData);
-  const id = params.panelId.safeParse(values);
-  if (!id.success) return fromZodError(id.error);
-  const parsed = invitationCreate.safeParse({
-    ...withNumbers(values, ["expiresInDays"]),
-    rosterMemberIds: formData.getAll("rosterMemberIds").filter((v): v is string => typeof v === "string"),
-  });
-  if (!parsed.success) return fromZodError(parsed.error);
-  try {
-    const issued = await createInvitations(user, id.data.panelId, parsed.data);
+  const rosterMemberIds = formData.getAll("rosterMemberIds").filter((v): v is string => typeof v === "string");
+  return signedInAction(values, params.panelId, async (user, id, input) => {
+    const issued = await createInvitations(user, id.panelId, input);
     const site = await origin();
-    revalidatePath(`/panels/${id.data.panelId}`);
+    revalidatePath(`/panels/${id.panelId}`);
     return {
       ok: true,
       message: `${issued.length} invitation${issued.length === 1 ? "" : "s"} created. Send each person their own link.`,
       secrets: issued.map((i) => ({ label: `Private link for ${i.name} <${i.email}>`, value: `${site}${i.link}` })),
     };
-  } catch (error) {
-    return fromThrown(error);
-  }
+  }, [invitationCreate, { ...withNumbers(values, ["expiresInDays"]), rosterMemberIds }]);
 }
 
 export async function revokeInvitationAction(_p: FormState, formData: FormData): Promise<FormState> {
-  const user = await getCurrentUser();
-  if (!user) return NOT_SIGNED_IN;
-  const id = params.invitation.safeParse(formObject(formData));
-  if (!id.success) return fromZodError(id.error);
-  try {
-    const inv = await revokeInvitation(user, id.data.panelId, id.data.invitationId);
-    return done(id.data.panelId, `${inv.name}'s link no longer works.`);
-  } catch (error) {
-    return fromThrown(error);
-  }
+  return signedInAction(formObject(formData), params.invitation, async (user, id) => {
+    const inv = await revokeInvitation(user, id.panelId, id.invitationId);
+    return done(id.panelId, `${inv.name}'s link no longer works.`);
+  });
 }
 
 export async function reissueInvitationAction(_p: FormState, formData: FormData): Promise<FormState> {
-  const user = await getCurrentUser();
-  if (!user) return NOT_SIGNED_IN;
   const values = formObject(formData);
-  const id = params.invitation.safeParse(values);
-  if (!id.success) return fromZodError(id.error);
-  const parsed = invitationReissue.safeParse(withNumbers(values, ["expiresInDays"]));
-  if (!parsed.success) return fromZodError(parsed.error);
-  try {
-    const inv = await reissueInvitation(user, id.data.panelId, id.data.invitationId, parsed.data);
+  return signedInAction(values, params.invitation, async (user, id, input) => {
+    const inv = await reissueInvitation(user, id.panelId, id.invitationId, input);
     const site = await origin();
-    revalidatePath(`/panels/${id.data.panelId}`);
+    revalidatePath(`/panels/${id.panelId}`);
     return { ok: true, message: "The old link no longer works.", secret: { label: `New private link for ${inv.name} <${inv.email}>`, value: `${site}${inv.link}` } };
-  } catch (error) {
-    return fromThrown(error);
-  }
+  }, [invitationReissue, withNumbers(values, ["expiresInDays"])]);
 }
 
 export async function openRoundAction(_p: FormState, formData: FormData): Promise<FormState> {
-  const user = await getCurrentUser();
-  if (!user) return NOT_SIGNED_IN;
   const values = withoutEmpty(formObject(formData));
-  const id = params.round.safeParse(values);
-  if (!id.success) return fromZodError(id.error);
-  const parsed = roundOpen.safeParse(values);
-  if (!parsed.success) return fromZodError(parsed.error);
-  try {
-    await openRound(user, id.data.panelId, id.data.roundNumber, parsed.data);
-    return done(id.data.panelId, `Round ${id.data.roundNumber} is open.`);
-  } catch (error) {
-    return fromThrown(error);
-  }
+  return signedInAction(values, params.round, async (user, id, input) => {
+    await openRound(user, id.panelId, id.roundNumber, input);
+    return done(id.panelId, `Round ${id.roundNumber} is open.`);
+  }, [roundOpen, values]);
 }
 
 export async function closeRoundAction(_p: FormState, formData: FormData): Promise<FormState> {
-  const user = await getCurrentUser();
-  if (!user) return NOT_SIGNED_IN;
-  const id = params.round.safeParse(formObject(formData));
-  if (!id.success) return fromZodError(id.error);
-  try {
-    await closeRound(user, id.data.panelId, id.data.roundNumber);
-    return done(id.data.panelId, `Round ${id.data.roundNumber} is closed; its statistics are below.`);
-  } catch (error) {
-    return fromThrown(error);
-  }
+  return signedInAction(formObject(formData), params.round, async (user, id) => {
+    await closeRound(user, id.panelId, id.roundNumber);
+    return done(id.panelId, `Round ${id.roundNumber} is closed; its statistics are below.`);
+  });
 }
 
 export async function nextRoundAction(_p: FormState, formData: FormData): Promise<FormState> {
-  const user = await getCurrentUser();
-  if (!user) return NOT_SIGNED_IN;
   const values = withoutEmpty(formObject(formData));
-  const id = params.panelId.safeParse(values);
-  if (!id.success) return fromZodError(id.error);
-  const parsed = nextRoundInput.safeParse({ ...values, open: values.open === "yes" });
-  if (!parsed.success) return fromZodError(parsed.error);
-  try {
-    const round = await startNextRound(user, id.data.panelId, parsed.data);
-    return done(id.data.panelId, `Round ${round.number} ${round.status === "open" ? "is open" : "is ready to open"}.`);
-  } catch (error) {
-    return fromThrown(error);
-  }
+  return signedInAction(values, params.panelId, async (user, id, input) => {
+    const round = await startNextRound(user, id.panelId, input);
+    return done(id.panelId, `Round ${round.number} ${round.status === "open" ? "is open" : "is ready to open"}.`);
+  }, [nextRoundInput, { ...values, open: values.open === "yes" }]);
 }
 
 export async function finishPanelAction(_p: FormState, formData: FormData): Promise<FormState> {
-  const user = await getCurrentUser();
-  if (!user) return NOT_SIGNED_IN;
-  const id = params.panelId.safeParse(formObject(formData));
-  if (!id.success) return fromZodError(id.error);
-  try {
-    await finishPanel(user, id.data.panelId);
-    return done(id.data.panelId, "The panel is finished.");
-  } catch (error) {
-    return fromThrown(error);
-  }
+  return signedInAction(formObject(formData), params.panelId, async (user, id) => {
+    await finishPanel(user, id.panelId);
+    return done(id.panelId, "The panel is finished.");
+  });
 }
 
 export async function shareAction(_p: FormState, formData: FormData): Promise<FormState> {
-  const user = await getCurrentUser();
-  if (!user) return NOT_SIGNED_IN;
   const values = formObject(formData);
-  const id = params.panelId.safeParse(values);
-  if (!id.success) return fromZodError(id.error);
-  const parsed = shareInput.safeParse(values);
-  if (!parsed.success) return fromZodError(parsed.error);
-  try {
-    const share = await sharePanel(user, id.data.panelId, parsed.data);
-    return done(id.data.panelId, `Shared with ${share.name} as ${share.role}.`);
-  } catch (error) {
-    return fromThrown(error);
-  }
+  return signedInAction(values, params.panelId, async (user, id, input) => {
+    const share = await sharePanel(user, id.panelId, input);
+    return done(id.panelId, `Shared with ${share.name} as ${share.role}.`);
+  }, [shareInput, values]);
 }
 
 /**
@@ -263,23 +172,13 @@ export async function revealNamesAction(
   }
 }
 
-
 export async function panelBlendRuleAction(_p: FormState, formData: FormData): Promise<FormState> {
-  const user = await getCurrentUser();
-  if (!user) return NOT_SIGNED_IN;
-  const values = formObject(formData);
-  const id = params.panelId.safeParse(values);
-  if (!id.success) return fromZodError(id.error);
-  const { panelId: _omit, ...rest } = values;
+  const { panelId, ...rest } = formObject(formData);
   const input = withNumbers(rest, ["panelWeight"]);
   if (rest.rule !== "organiser") delete input.panelWeight;
-  const parsed = panelBlendRuleInput.safeParse(input);
-  if (!parsed.success) return fromZodError(parsed.error);
-  try {
-    const r = await setPanelBlendRule(user, id.data.panelId, parsed.data);
-    revalidatePath(`/reports/${id.data.panelId}`);
-    return done(id.data.panelId, `Blend weight rule: ${r.rule}${r.rule === "organiser" ? ` (w = ${r.panelWeight})` : ""}.`);
-  } catch (error) {
-    return fromThrown(error);
-  }
+  return signedInAction({ panelId }, params.panelId, async (user, id, rule) => {
+    const r = await setPanelBlendRule(user, id.panelId, rule);
+    revalidatePath(`/reports/${id.panelId}`);
+    return done(id.panelId, `Blend weight rule: ${r.rule}${r.rule === "organiser" ? ` (w = ${r.panelWeight})` : ""}.`);
+  }, [panelBlendRuleInput, input]);
 }

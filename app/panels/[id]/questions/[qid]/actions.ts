@@ -15,14 +15,21 @@ import type { FormState } from "@/lib/ui/form-state";
 import type { BaselineFormState, BaselinePreviewPayload } from "@/lib/ui/baseline-form";
 import { formObject, fromThrown, fromZodError, withNumbers } from "@/lib/ui/form-result";
 import { baselineFormValues } from "@/lib/ui/baseline-form-values";
+import { NOT_SIGNED_IN, signedInAction } from "@/lib/ui/signed-in-action";
 
-const NOT_SIGNED_IN: FormState = { ok: false, message: "Your session has ended; sign in again." };
 
 function revalidate(panelId: string, questionId: string): void {
   revalidatePath(`/panels/${panelId}/questions/${questionId}`);
   revalidatePath(`/panels/${panelId}`);
   revalidatePath(`/reports/${panelId}`);
   revalidatePath(`/reports/${panelId}/questions/${questionId}`);
+}
+
+/** After a resolution changes: the question's pages plus the track records and accuracy history. */
+function revalidateScored(panelId: string, questionId: string): void {
+  revalidate(panelId, questionId);
+  revalidatePath("/accuracy");
+  revalidatePath("/roster");
 }
 
 function payload(v: BaselineView): BaselinePreviewPayload {
@@ -65,59 +72,30 @@ export async function baselineAction(_p: BaselineFormState, formData: FormData):
 }
 
 export async function blendRuleAction(_p: FormState, formData: FormData): Promise<FormState> {
-  const user = await getCurrentUser();
-  if (!user) return NOT_SIGNED_IN;
-  const values = formObject(formData);
-  const id = params.question.safeParse(values);
-  if (!id.success) return fromZodError(id.error);
-  const { panelId: _a, questionId: _b, ...rest } = values;
+  const { panelId, questionId, ...rest } = formObject(formData);
   const input = withNumbers(rest, ["panelWeight"]);
   if (rest.rule !== "organiser") delete input.panelWeight;
-  const parsed = questionBlendRuleInput.safeParse(input);
-  if (!parsed.success) return fromZodError(parsed.error);
-  try {
-    const r = await setQuestionBlendRule(user, id.data.panelId, id.data.questionId, parsed.data);
-    revalidate(id.data.panelId, id.data.questionId);
+  return signedInAction({ panelId, questionId }, params.question, async (user, id, rule) => {
+    const r = await setQuestionBlendRule(user, id.panelId, id.questionId, rule);
+    revalidate(id.panelId, id.questionId);
     return { ok: true, message: `Weight rule: ${r.rule}${r.rule === "organiser" ? ` (${r.panelWeight} on the panel)` : ""}, from the ${r.from}.` };
-  } catch (error) {
-    return fromThrown(error);
-  }
+  }, [questionBlendRuleInput, input]);
 }
 
 export async function resolveAction(_p: FormState, formData: FormData): Promise<FormState> {
-  const user = await getCurrentUser();
-  if (!user) return NOT_SIGNED_IN;
   const values = formObject(formData);
-  const id = params.question.safeParse(values);
-  if (!id.success) return fromZodError(id.error);
-  const parsed = resolutionInput.safeParse(withNumbers({ actual: values.actual ?? "", note: values.note ?? "" }, ["actual"]));
-  if (!parsed.success) return fromZodError(parsed.error);
-  try {
-    const r = await resolveQuestion(user, id.data.panelId, id.data.questionId, parsed.data);
-    revalidate(id.data.panelId, id.data.questionId);
-    revalidatePath("/accuracy");
-    revalidatePath("/roster");
+  return signedInAction(values, params.question, async (user, id, input) => {
+    const r = await resolveQuestion(user, id.panelId, id.questionId, input);
+    revalidateScored(id.panelId, id.questionId);
     return { ok: true, message: `Resolved with the actual value ${r.actual}; every figure is scored below.` };
-  } catch (error) {
-    return fromThrown(error);
-  }
+  }, [resolutionInput, withNumbers({ actual: values.actual ?? "", note: values.note ?? "" }, ["actual"])]);
 }
 
 export async function correctResolutionAction(_p: FormState, formData: FormData): Promise<FormState> {
-  const user = await getCurrentUser();
-  if (!user) return NOT_SIGNED_IN;
   const values = formObject(formData);
-  const id = params.question.safeParse(values);
-  if (!id.success) return fromZodError(id.error);
-  const parsed = resolutionCorrection.safeParse(withNumbers({ actual: values.actual ?? "", reason: values.reason ?? "" }, ["actual"]));
-  if (!parsed.success) return fromZodError(parsed.error);
-  try {
-    const r = await correctResolution(user, id.data.panelId, id.data.questionId, parsed.data);
-    revalidate(id.data.panelId, id.data.questionId);
-    revalidatePath("/accuracy");
-    revalidatePath("/roster");
+  return signedInAction(values, params.question, async (user, id, input) => {
+    const r = await correctResolution(user, id.panelId, id.questionId, input);
+    revalidateScored(id.panelId, id.questionId);
     return { ok: true, message: `Actual value corrected to ${r.actual}; the correction and its reason are in the audit log.` };
-  } catch (error) {
-    return fromThrown(error);
-  }
+  }, [resolutionCorrection, withNumbers({ actual: values.actual ?? "", reason: values.reason ?? "" }, ["actual"])]);
 }
