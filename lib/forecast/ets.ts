@@ -1070,15 +1070,7 @@ function solveStatesMult(
     let improved = false;
     for (let attempt = 0; attempt < 12; attempt++) {
       // Solve (A + λ·diag(A)) step = rhs by Cholesky.
-      for (let i = 0; i < p; i++) {
-        for (let j = i; j < p; j++) {
-          const v = a[i * p + j];
-          chol[i * p + j] = v;
-          chol[j * p + i] = v;
-        }
-        chol[i * p + i] = a[i * p + i] * (1 + lambda) + 1e-300;
-        step[i] = rhs[i];
-      }
+      dampedSystem(a, rhs, lambda, p, chol, step);
       if (choleskySolve(chol, step, p)) {
         for (let i = 0; i < p; i++) zTrial[i] = z[i] + step[i];
         loadStates(zTrial, g, trendOn, m, freeL0, freeB0, freeS, s, LB);
@@ -1116,6 +1108,23 @@ interface JointSpec {
   betaFixed: number;
   gammaFixed: number;
   phiFixed: number;
+}
+
+/**
+ * The Levenberg–Marquardt system (A + λ·diag(A))·step = rhs (Marquardt 1963): copies the upper
+ * triangle of `a` (row-major p×p) into the full symmetric `chol`, scales its diagonal by 1 + λ,
+ * and puts `rhs` into `step`, ready for {@link choleskySolve}.
+ */
+function dampedSystem(a: Float64Array, rhs: Float64Array, lambda: number, p: number, chol: Float64Array, step: Float64Array): void {
+  for (let i = 0; i < p; i++) {
+    for (let j = i; j < p; j++) {
+      const v = a[i * p + j];
+      chol[i * p + j] = v;
+      chol[j * p + i] = v;
+    }
+    chol[i * p + i] = a[i * p + i] * (1 + lambda) + 1e-300;
+    step[i] = rhs[i];
+  }
 }
 
 /**
@@ -1463,15 +1472,7 @@ function refineJoint(
     let accepted = false;
     let gain = 0;
     for (let attempt = 0; attempt < 16; attempt++) {
-      for (let i = 0; i < P; i++) {
-        for (let j = i; j < P; j++) {
-          const v = a[i * P + j];
-          chol[i * P + j] = v;
-          chol[j * P + i] = v;
-        }
-        chol[i * P + i] = a[i * P + i] * (1 + lambda) + 1e-300;
-        step[i] = rhs[i];
-      }
+      dampedSystem(a, rhs, lambda, P, chol, step);
       // Active set: a parameter on its bound whose descent direction points outward is held.
       for (let i = 0; i < nPar; i++) {
         const atLo = w[i] <= lower[i] + 1e-15 && rhs[i] < 0;

@@ -4,6 +4,7 @@ import { getFeedback } from "@/lib/panels/feedback";
 import ActionForm, { FieldError } from "@/lib/ui/action-form";
 import Figure from "@/lib/ui/figure";
 import { formatDateTime, formatNumber } from "@/lib/ui/format";
+import LinkProblem from "@/lib/ui/link-problem";
 import { panelistFromLink } from "@/lib/ui/panelist-access";
 import QuestionFeedback from "@/lib/ui/question-feedback";
 import { submitAnswerAction } from "./actions";
@@ -15,14 +16,7 @@ export const dynamic = "force-dynamic";
 export default async function PanelistPage({ params }: { params: Promise<{ token: string }> }) {
   const { token } = await params;
   const who = await panelistFromLink(token);
-  if ("problem" in who) {
-    return (
-      <section className="narrow">
-        <h1>This link does not work</h1>
-        <p className="form-error">{who.problem}</p>
-      </section>
-    );
-  }
+  if ("problem" in who) return <LinkProblem problem={who.problem} />;
   const [view, feedback] = await Promise.all([getPanelistPanel(who.actor), getFeedback(who.actor)]);
   const round = view.round;
   const answerAction = submitAnswerAction.bind(null, token);

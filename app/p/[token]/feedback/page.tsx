@@ -1,5 +1,6 @@
 import type { Metadata } from "next";
 import { getFeedback } from "@/lib/panels/feedback";
+import LinkProblem from "@/lib/ui/link-problem";
 import { panelistFromLink } from "@/lib/ui/panelist-access";
 import QuestionFeedback from "@/lib/ui/question-feedback";
 
@@ -9,14 +10,7 @@ export const dynamic = "force-dynamic";
 export default async function FeedbackPage({ params }: { params: Promise<{ token: string }> }) {
   const { token } = await params;
   const who = await panelistFromLink(token);
-  if ("problem" in who) {
-    return (
-      <section className="narrow">
-        <h1>This link does not work</h1>
-        <p className="form-error">{who.problem}</p>
-      </section>
-    );
-  }
+  if ("problem" in who) return <LinkProblem problem={who.problem} />;
   const feedback = await getFeedback(who.actor);
   return (
     <article className="panelist-page">
