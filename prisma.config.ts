@@ -1,13 +1,20 @@
 import path from "node:path";
 import { defineConfig } from "prisma/config";
 import { PrismaBetterSQLite3 } from "@prisma/adapter-better-sqlite3";
-import { ensureDatabaseFile } from "./lib/env-db";
+import { PrismaPg } from "@prisma/adapter-pg";
+import { ensureDatabaseFile, isPostgresUrl } from "./lib/env-db";
+
+// One CLI configuration for both databases: DATABASE_URL naming PostgreSQL selects the derived
+// schema (prisma/postgres, see scripts/postgres-schema.mjs) and its migrations; anything else is
+// the embedded SQLite file.
+const url = process.env.DATABASE_URL;
+const postgres = isPostgresUrl(url);
 
 export default defineConfig({
   experimental: { adapter: true },
   engine: "js",
-  schema: path.join("prisma", "schema.prisma"),
+  schema: postgres ? path.join("prisma", "postgres", "schema.prisma") : path.join("prisma", "schema.prisma"),
   async adapter() {
-    return new PrismaBetterSQLite3({ url: `file:${ensureDatabaseFile()}` });
+    return postgres ? new PrismaPg({ connectionString: url }) : new PrismaBetterSQLite3({ url: `file:${ensureDatabaseFile()}` });
   },
 });

@@ -58,7 +58,7 @@ export async function handler(req: Request, ctx: unknown): Promise<Response> {
       .catch(() => null);
     const raw = form?.get("email");
     const email = typeof raw === "string" ? raw.trim().toLowerCase().slice(0, 200) : "";
-    const wait = limits.signInAddress.hit(`${clientAddress(req)}\u0000${email}`) ?? limits.signInAccount.hit(email);
+    const wait = (await limits.signInAddress.hit(`${clientAddress(req)}\u0000${email}`)) ?? (await limits.signInAccount.hit(email));
     if (wait !== null) return tooManyRequests(wait, new URL(req.url).pathname, "Too many sign-in attempts.");
   }
   return nextAuthHandler(req, ctx);

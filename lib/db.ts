@@ -1,10 +1,24 @@
 import { PrismaBetterSQLite3 } from "@prisma/adapter-better-sqlite3";
+import { PrismaPg } from "@prisma/adapter-pg";
 import { PrismaClient } from "./generated/prisma/client";
-import { ensureDatabaseFile } from "./env-db";
+import { PrismaClient as PostgresPrismaClient } from "./generated/prisma-pg/client";
+import { ensureDatabaseFile, isPostgresUrl } from "./env-db";
 import { env } from "./env";
 
 /** The one Prisma client of the process (kept on globalThis so dev reloads reuse it). */
 const globalForPrisma = globalThis as unknown as { prisma?: PrismaClient };
+
+/** Which database this process talks to: DATABASE_URL naming PostgreSQL, else the SQLite file. */
+export const dialect: "sqlite" | "postgresql" = isPostgresUrl(process.env.DATABASE_URL) ? "postgresql" : "sqlite";
+
+/**
+ * A timestamp as a raw-query parameter: a Date for PostgreSQL (a `timestamp(3)` column); for
+ * SQLite, the ISO text with `+00:00` that the better-sqlite3 adapter stores for Prisma DateTime
+ * fields, so comparisons in SQL are between strings of one format.
+ */
+export function sqlTime(d: Date): Date | string {
+  return dialect === "postgresql" ? d : d.toISOString().replace("Z", "+00:00");
+}
 
 /**
  * Connection settings, run once on the connection when Prisma opens it:
@@ -28,7 +42,18 @@ export function connectionPragmas(): string[] {
   return ["journal_mode = WAL", `synchronous = ${env().TRIANGULATE_SQLITE_SYNCHRONOUS}`, "busy_timeout = 5000", "foreign_keys = ON"];
 }
 
+/**
+ * The client for DATABASE_URL. PostgreSQL goes through a connection pool (node-postgres) of
+ * TRIANGULATE_PG_POOL connections (default 10) per app instance. Both generated clients come
+ * from the same models (scripts/postgres-schema.mjs), so the PostgreSQL one is used under the
+ * SQLite one's type.
+ */
 function createClient(): PrismaClient {
+  const { DATABASE_URL, TRIANGULATE_PG_POOL } = env();
+  if (dialect === "postgresql") {
+    const adapter = new PrismaPg({ connectionString: DATABASE_URL, max: TRIANGULATE_PG_POOL });
+    return new PostgresPrismaClient({ adapter }) as unknown as PrismaClient;
+  }
   const factory = new PrismaBetterSQLite3({ url: `file:${ensureDatabaseFile()}`, timeout: 5000 });
   const connect = factory.connect.bind(factory);
   factory.connect = async () => {

@@ -3,7 +3,9 @@
  * error naming every wrong variable and what to set; instrumentation.ts calls it when the server
  * starts, so a bad setting stops the server at start-up instead of failing the first request.
  *
- * - DATABASE_URL: a `file:` URL of the SQLite database (default data/triangulate.db, see lib/env-db.ts).
+ * - DATABASE_URL: a `file:` URL of the SQLite database (default data/triangulate.db, see lib/env-db.ts),
+ *   or a `postgresql://` URL (lib/db.ts).
+ * - TRIANGULATE_PG_POOL: connections per app instance to PostgreSQL, 1–100 (default 10).
  * - NEXTAUTH_SECRET (or AUTH_SECRET): signs session cookies; at least 32 characters in production
  *   (scripts/start.mjs creates a random one in data/auth-secret when none is given).
  * - NEXTAUTH_URL: the app's public address (an http(s) URL), optional.
@@ -20,12 +22,13 @@ const schema = z
     NEXT_PHASE: z.string().optional(),
     DATABASE_URL: z
       .string()
-      .regex(/^file:.+/, 'must be a file: URL for SQLite, e.g. "file:./data/triangulate.db"')
+      .regex(/^(file:.+|postgres(ql)?:\/\/.+)/, 'must be a file: URL for SQLite, e.g. "file:./data/triangulate.db", or a postgresql:// URL')
       .optional(),
     NEXTAUTH_SECRET: z.string().optional(),
     AUTH_SECRET: z.string().optional(),
     NEXTAUTH_URL: z.url({ protocol: /^https?$/, error: "must be an http(s) URL, e.g. https://triangulate.example.com" }).optional(),
     PORT: z.coerce.number({ error: "must be a port number" }).int("must be a whole number").min(1, "must be 1–65535").max(65535, "must be 1–65535").optional(),
+    TRIANGULATE_PG_POOL: z.coerce.number({ error: "must be a number" }).int("must be a whole number").min(1, "must be 1–100").max(100, "must be 1–100").default(10),
     TRIANGULATE_SQLITE_SYNCHRONOUS: z.enum(["NORMAL", "FULL"], { error: "must be NORMAL or FULL" }).default("NORMAL"),
   })
   .superRefine((e, ctx) => {

@@ -12,6 +12,14 @@ describe("parseEnv", () => {
     const e = parseEnv({ NODE_ENV: "production", NEXTAUTH_SECRET: SECRET, DATABASE_URL: "file:/var/lib/triangulate.db", NEXTAUTH_URL: "https://triangulate.example.com", PORT: "3000" });
     expect(e.PORT).toBe(3000);
     expect(e.TRIANGULATE_SQLITE_SYNCHRONOUS).toBe("NORMAL");
+    expect(e.TRIANGULATE_PG_POOL).toBe(10);
+  });
+
+  it("accepts a PostgreSQL URL and a pool size", () => {
+    const e = parseEnv({ DATABASE_URL: "postgresql://app:pw@db.internal:5432/triangulate", TRIANGULATE_PG_POOL: "20" });
+    expect(e.TRIANGULATE_PG_POOL).toBe(20);
+    expect(parseEnv({ DATABASE_URL: "postgres://db/t" }).DATABASE_URL).toBe("postgres://db/t");
+    expect(() => parseEnv({ TRIANGULATE_PG_POOL: "0" })).toThrow(/TRIANGULATE_PG_POOL: must be 1–100/);
   });
 
   it("needs a secret of at least 32 characters in production, and says so", () => {
@@ -26,7 +34,7 @@ describe("parseEnv", () => {
   it("names every wrong variable at once", () => {
     let message = "";
     try {
-      parseEnv({ NODE_ENV: "development", DATABASE_URL: "postgres://x", NEXTAUTH_URL: "ftp://x", PORT: "70000", TRIANGULATE_SQLITE_SYNCHRONOUS: "OFF" });
+      parseEnv({ NODE_ENV: "development", DATABASE_URL: "mysql://x", NEXTAUTH_URL: "ftp://x", PORT: "70000", TRIANGULATE_SQLITE_SYNCHRONOUS: "OFF" });
     } catch (err) {
       message = (err as Error).message;
     }

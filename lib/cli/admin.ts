@@ -94,7 +94,11 @@ export async function backup(args: string[], io: CommandIo): Promise<number> {
     io.err(`triangulate: ${target} already exists; choose a new file name\n`);
     return 1;
   }
-  const { databaseFile } = await import("../env-db");
+  const { databaseFile, isPostgresUrl } = await import("../env-db");
+  if (isPostgresUrl(process.env.DATABASE_URL)) {
+    io.err("triangulate: backup copies the embedded SQLite database; for PostgreSQL use its own tools (pg_dump, or continuous archiving)\n");
+    return 1;
+  }
   const source = databaseFile();
   if (!existsSync(source)) {
     io.err(`triangulate: no database at ${source}\n`);

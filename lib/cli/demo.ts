@@ -10,7 +10,7 @@
  * People, company and product are fictional; e-mail addresses use the reserved .example domain.
  */
 import { randomBytes } from "node:crypto";
-import { db } from "../db";
+import { db, dialect } from "../db";
 import { actorFromInvitationToken, actorFromUserId, type Actor } from "../accounts/actor";
 import { createUser } from "../accounts/users";
 import { addRosterMember } from "../panels/roster";
@@ -129,7 +129,8 @@ export async function loadDemo(options: { ifEmpty: boolean }, io: CommandIo): Pr
   // each (this connection only; the connection's own setting is restored below) loads it several
   // times faster. The price: a power cut or system crash during these seconds could leave the new
   // database file damaged; it holds nothing but the demo then, so delete it and start again. A
-  // failure inside the app leaves a partial demo, as before.
+  // failure inside the app leaves a partial demo, as before. (PostgreSQL: loaded as it is.)
+  if (dialect === "postgresql") return load(io);
   const [{ synchronous }] = await db.$queryRawUnsafe<{ synchronous: number | bigint }[]>("PRAGMA synchronous");
   await db.$queryRawUnsafe("PRAGMA synchronous = OFF");
   try {

@@ -122,21 +122,21 @@ export function handle<const R extends RouteDef>(
       const declared = Number(req.headers.get("content-length") ?? 0);
       if (declared > MAX_BODY_BYTES) return tooLarge();
       const address = clientAddress(req);
-      const wait = limits.badTokens.blocked(address);
+      const wait = await limits.badTokens.blocked(address);
       if (wait !== null) return tooManyRequests(wait, instance, "Too many requests with invalid credentials from this address.");
       let actor: Actor | null;
       try {
         actor = await actorFromRequest(req);
       } catch (err) {
-        if (err instanceof NotAuthenticatedError) limits.badTokens.hit(address);
+        if (err instanceof NotAuthenticatedError) await limits.badTokens.hit(address);
         throw err;
       }
       if (route.auth !== "none" && !actor) throw new NotAuthenticatedError();
       const limited =
         actor?.kind === "panelist"
-          ? limits.panelist.hit(actor.invitationId)
+          ? await limits.panelist.hit(actor.invitationId)
           : actor && INVITATION_OPERATIONS.has(route.operationId)
-            ? limits.invitations.hit(actor.userId)
+            ? await limits.invitations.hit(actor.userId)
             : null;
       if (limited !== null) return tooManyRequests(limited, instance);
       if (actor && route.method !== "GET" && !req.headers.get("authorization") && !sameOrigin(req)) {

@@ -2,49 +2,61 @@
  * Fixed-window rate limits (a counter per key per window; the window starts at the key's first
  * hit). Exceeding a limit gives 429 problem+json with `Retry-After` (seconds to the window's end).
  *
- * The counters live in this process's memory: one server instance (the SQLite deployment) sees
- * all traffic, but a restart forgets them and two instances would not agree. Issue 6 (several
- * instances on PostgreSQL) moves them to a database table.
+ * The counters live in the database (table "RateLimitWindow"), so every app instance sharing it
+ * counts the same hits, and a restart forgets nothing. A hit is one atomic upsert, so concurrent
+ * hits on any instances are all counted.
  *
  * Client address: the last entry of `X-Forwarded-For` (Next.js fills the header with the socket
  * address when the request has none). A client can send its own header, so per-address limits
  * only hold behind a proxy that overwrites it; the per-account limits below do not depend on it.
  */
+import { db, sqlTime } from "@/lib/db";
 import { problemResponse } from "./problem";
 
-export class FixedWindowLimiter {
-  private readonly windows = new Map<string, { start: number; count: number }>();
+/**
+ * Seconds until a window that started at `start` (ms) and counted `count` hits lets `key` try
+ * again at `now`, or null when `count` is within `limit`. Rounded up, never 0.
+ */
+export function retryAfter(limit: number, windowMs: number, start: number, count: number, now: number): number | null {
+  return count > limit ? Math.max(1, Math.ceil((start + windowMs - now) / 1000)) : null;
+}
 
+/** Windows older than this are deleted now and then (longer than any limit's window). */
+const KEEP_MS = 60 * 60_000;
+let hitsSinceSweep = 0;
+
+export class FixedWindowLimiter {
   constructor(
+    /** Distinguishes this limiter's keys from the others' in the shared table. */
+    readonly name: string,
     readonly limit: number,
     readonly windowMs: number,
   ) {}
 
-  private current(key: string, now: number): { start: number; count: number } | undefined {
-    const w = this.windows.get(key);
-    return w && now - w.start < this.windowMs ? w : undefined;
-  }
-
   /** Seconds until `key` may try again, or null when it is under the limit (counts nothing). */
-  blocked(key: string, now = Date.now()): number | null {
-    const w = this.current(key, now);
-    return w && w.count >= this.limit ? Math.max(1, Math.ceil((w.start + this.windowMs - now) / 1000)) : null;
+  async blocked(key: string, now = Date.now()): Promise<number | null> {
+    const w = await db.rateLimitWindow.findUnique({ where: { key: `${this.name}:${key}` } });
+    if (!w || now - w.windowStart.getTime() >= this.windowMs) return null;
+    return retryAfter(this.limit, this.windowMs, w.windowStart.getTime(), w.count + 1, now);
   }
 
   /** Counts one hit; returns the seconds to wait when this hit is over the limit, else null. */
-  hit(key: string, now = Date.now()): number | null {
-    let w = this.current(key, now);
-    if (!w) {
-      if (this.windows.size >= 50_000) this.sweep(now);
-      w = { start: now, count: 0 };
-      this.windows.set(key, w);
+  async hit(key: string, now = Date.now()): Promise<number | null> {
+    const at = sqlTime(new Date(now));
+    const expired = sqlTime(new Date(now - this.windowMs));
+    // One statement: a new key or an expired window starts a window with count 1; otherwise the
+    // count goes up by one. SET expressions read the row as it was before the update.
+    const [w] = await db.$queryRaw<{ windowStart: Date | string; count: number | bigint }[]>`
+      INSERT INTO "RateLimitWindow" ("key", "windowStart", "count") VALUES (${`${this.name}:${key}`}, ${at}, 1)
+      ON CONFLICT ("key") DO UPDATE SET
+        "count" = CASE WHEN "RateLimitWindow"."windowStart" <= ${expired} THEN 1 ELSE "RateLimitWindow"."count" + 1 END,
+        "windowStart" = CASE WHEN "RateLimitWindow"."windowStart" <= ${expired} THEN ${at} ELSE "RateLimitWindow"."windowStart" END
+      RETURNING "windowStart", "count"`;
+    if (++hitsSinceSweep >= 1000) {
+      hitsSinceSweep = 0;
+      await db.rateLimitWindow.deleteMany({ where: { windowStart: { lt: new Date(now - KEEP_MS) } } });
     }
-    w.count++;
-    return w.count > this.limit ? Math.max(1, Math.ceil((w.start + this.windowMs - now) / 1000)) : null;
-  }
-
-  private sweep(now: number): void {
-    for (const [k, w] of this.windows) if (now - w.start >= this.windowMs) this.windows.delete(k);
+    return retryAfter(this.limit, this.windowMs, new Date(w.windowStart).getTime(), Number(w.count), now);
   }
 }
 
@@ -58,11 +70,11 @@ const MINUTE = 60_000;
  * expired): 300 a minute per address, then every request from it is refused until the window ends.
  */
 export const limits = {
-  signInAddress: new FixedWindowLimiter(10, 15 * MINUTE),
-  signInAccount: new FixedWindowLimiter(30, 15 * MINUTE),
-  invitations: new FixedWindowLimiter(60, MINUTE),
-  panelist: new FixedWindowLimiter(120, MINUTE),
-  badTokens: new FixedWindowLimiter(300, MINUTE),
+  signInAddress: new FixedWindowLimiter("sign-in-address", 10, 15 * MINUTE),
+  signInAccount: new FixedWindowLimiter("sign-in-account", 30, 15 * MINUTE),
+  invitations: new FixedWindowLimiter("invitations", 60, MINUTE),
+  panelist: new FixedWindowLimiter("panelist", 120, MINUTE),
+  badTokens: new FixedWindowLimiter("bad-tokens", 300, MINUTE),
 };
 
 /** Operations counted against `limits.invitations` (by organiser). */

@@ -11,11 +11,11 @@
  * rationale: Delphi feedback asks those outside the IQR to explain (DESIGN.md workflow step 4).
  * Sum-of-parts answers estimate different parts, so the rule does not apply to them.
  */
-import { db } from "@/lib/db";
+import { db, dialect, sqlTime } from "@/lib/db";
 import { randomBytes } from "node:crypto";
 import { ConflictError, DomainError, InvalidInputError, type FieldError } from "@/lib/errors";
 import type { Actor, PanelistActor } from "@/lib/accounts/actor";
-import type { Answer, Prisma, Question } from "@/lib/generated/prisma/client";
+import { Prisma, type Answer, type Question } from "@/lib/generated/prisma/client";
 import type { AnswerInput } from "@/lib/validation/inputs";
 import { requirePanelist } from "./access";
 import { settleDeadlines } from "./round-closing";
@@ -207,11 +207,6 @@ export async function submitAnswer(
   }
 }
 
-/** SQLite DATETIME text as the Prisma adapter writes it (ISO 8601, "+00:00"), so that text order is time order. */
-function sqliteTime(d: Date): string {
-  return d.toISOString().replace("Z", "+00:00");
-}
-
 /** A new row id (Prisma's cuid() is generated client-side, so the raw insert makes its own). */
 function newAnswerId(): string {
   return `c${Date.now().toString(36)}${randomBytes(8).toString("hex")}`;
@@ -220,10 +215,14 @@ function newAnswerId(): string {
 /**
  * The checks, then one atomic INSERT … SELECT: the row is written only if the round is still
  * open and before its deadline, with version = 1 + the highest stored version, and not at all
- * if the idempotency key was used already (ON CONFLICT DO NOTHING). One statement is atomic and
+ * if the idempotency key was used already (ON CONFLICT DO NOTHING). One statement is atomic.
  * SQLite has one writer, so two concurrent answers cannot take the same version, and an answer
- * cannot slip in after the round closed. (The statement replaces an interactive transaction of
- * four queries: the answer path is the hottest write of the app; see bench/load.ts.)
+ * cannot slip in after the round closed. On PostgreSQL the statement locks the round row
+ * (FOR SHARE): a close (an UPDATE of that row, lib/panels/round-closing.ts) waits for the insert
+ * to commit and then counts the answer, or the insert waits for the close and then finds the
+ * round closed; two concurrent versions of one answer meet the unique (round, question,
+ * invitation, version) and the loser tries again. (The statement replaces an interactive
+ * transaction of four queries: the answer path is the hottest write of the app; bench/load.ts.)
  */
 async function storeAnswer(me: PanelistActor, input: AnswerInput, key: string | undefined): Promise<AnswerView> {
   // One raw query for the panel's status, the question and the open round (raw: it skips
@@ -277,7 +276,7 @@ async function storeAnswer(me: PanelistActor, input: AnswerInput, key: string | 
   const high = input.high ?? null;
   for (let tries = 0; tries < 3; tries++) {
     const now = new Date();
-    const at = sqliteTime(now);
+    const at = sqlTime(now);
     const rows = await db.$queryRaw<{ version: number | bigint }[]>`
       INSERT INTO "Answer" ("id", "roundId", "questionId", "invitationId", "version", "value", "low", "high", "rationale", "idempotencyKey", "createdAt")
       SELECT ${newAnswerId()}, r."id", ${question.id}, ${me.invitationId},
@@ -285,6 +284,7 @@ async function storeAnswer(me: PanelistActor, input: AnswerInput, key: string | 
              ${input.value}, ${low}, ${high}, ${input.rationale}, ${key ?? null}, ${at}
       FROM "Round" r
       WHERE r."id" = ${round.id} AND r."status" = 'open' AND (r."deadline" IS NULL OR r."deadline" > ${at})
+      ${dialect === "postgresql" ? Prisma.sql`FOR SHARE OF r` : Prisma.empty}
       ON CONFLICT DO NOTHING
       RETURNING "version"`;
     if (rows.length === 1) {
@@ -299,8 +299,11 @@ async function storeAnswer(me: PanelistActor, input: AnswerInput, key: string | 
         answeredAt: now.toISOString(),
       };
     }
-    // Nothing written: the key was used already (submitAnswer replays it), or the round closed.
-    if (key) throw new ConflictError("This Idempotency-Key was already used; use a new key for a new answer.");
+    // Nothing written: the key was used already (submitAnswer replays it), the round closed, or
+    // (PostgreSQL) a concurrent version of the same answer took this version number.
+    if (key && (await db.answer.count({ where: { invitationId: me.invitationId, idempotencyKey: key } })) > 0) {
+      throw new ConflictError("This Idempotency-Key was already used; use a new key for a new answer.");
+    }
     const fresh = await db.round.findUnique({ where: { id: round.id } });
     if (!fresh || fresh.status !== "open" || (fresh.deadline && fresh.deadline.getTime() <= Date.now())) {
       throw new ConflictError(`Round ${round.number} has closed; answers are no longer accepted.`);

@@ -1,0 +1,7 @@
+-- CreateTable
+CREATE TABLE "RateLimitWindow" (
+    "key" TEXT NOT NULL PRIMARY KEY,
+    "windowStart" DATETIME NOT NULL,
+    "count" INTEGER NOT NULL
+);
+
