@@ -1,9 +1,9 @@
 /**
  * Shared by `npm run load` (bench/load.ts) and the fault test (tests/app/fault.test.ts):
- * start the production server on 127.0.0.1 with its own fresh SQLite database, create an
- * organiser and an API token, build a panel of N invited panelists through the JSON API, send
- * answers with idempotency keys at bounded concurrency, and check the database directly
- * (better-sqlite3) against what the server acknowledged.
+ * start production servers on 127.0.0.1 on a database (a fresh SQLite file, or a PostgreSQL
+ * database), create an organiser and an API token, build a panel of N invited panelists through
+ * the JSON API, send answers with idempotency keys at bounded concurrency, and check the database
+ * directly (bench/sql.ts) against what the servers acknowledged.
  *
  * Traffic goes only to the loopback server this module starts. Demo names are invented
  * (Quillmoor Instruments).
@@ -15,7 +15,7 @@ import http from "node:http";
 import { createServer } from "node:net";
 import path from "node:path";
 import { performance } from "node:perf_hooks";
-import Database from "better-sqlite3";
+import { openSql } from "./sql";
 
 export const root = path.resolve(path.dirname(new URL(import.meta.url).pathname), "..");
 const bin = (name: string) => path.join(root, "node_modules", ".bin", name);
@@ -36,7 +36,8 @@ function run(cmd: string, args: string[], env: NodeJS.ProcessEnv): void {
 }
 
 export interface ServerOptions {
-  readonly dbFile: string;
+  /** DATABASE_URL: `file:…` (SQLite) or `postgresql://…`. */
+  readonly databaseUrl: string;
   readonly port: number;
   /** The Next.js build folder (NEXT_DIST_DIR); default .next */
   readonly distDir?: string;
@@ -49,7 +50,7 @@ export function serverEnv(o: ServerOptions): NodeJS.ProcessEnv {
     NODE_ENV: "production",
     NEXT_TELEMETRY_DISABLED: "1",
     NEXT_DIST_DIR: o.distDir ?? process.env.NEXT_DIST_DIR ?? ".next",
-    DATABASE_URL: `file:${o.dbFile}`,
+    DATABASE_URL: o.databaseUrl,
     NEXTAUTH_SECRET: "load-and-fault-secret-0123456789abcdef",
     NEXTAUTH_URL: baseURL,
     PORT: String(o.port),
@@ -66,7 +67,7 @@ export function build(distDir: string): void {
   run(bin("next"), ["build"], { ...process.env, NEXT_DIST_DIR: distDir, NEXT_TELEMETRY_DISABLED: "1" });
 }
 
-/** Applies the migrations to a (new) database file. */
+/** Applies the migrations to a (new) database. */
 export function migrate(o: ServerOptions): void {
   run(bin("prisma"), ["migrate", "deploy"], serverEnv(o));
 }
@@ -115,13 +116,13 @@ export async function startServer(o: ServerOptions, timeoutMs = 60_000): Promise
   };
 }
 
-/** Creates an organiser account through the admin CLI on the database file. */
-export function createOrganiser(dbFile: string): { email: string; password: string } {
+/** Creates an organiser account through the admin CLI on the database. */
+export function createOrganiser(databaseUrl: string): { email: string; password: string } {
   const email = `organiser.${randomBytes(4).toString("hex")}@quillmoor.example`;
   const password = `pw-${randomBytes(12).toString("base64url")}`;
   run(process.execPath, [path.join(root, "bin", "triangulate.mjs"), "create-organiser", "--email", email, "--name", "Quillmoor Planning", "--password", password], {
     ...process.env,
-    DATABASE_URL: `file:${dbFile}`,
+    DATABASE_URL: databaseUrl,
   });
   return { email, password };
 }
@@ -326,25 +327,22 @@ export interface Verification {
   readonly mismatched: string[];
   /** Rows that no acknowledgement accounts for (allowed only for requests that got no response). */
   readonly unacknowledgedRows: number;
-  readonly integrity: string;
+  /** SQLite's `PRAGMA integrity_check` ("ok"); null on PostgreSQL, which has no such check. */
+  readonly integrity: string | null;
 }
 
 /**
- * Reads the Answer table with better-sqlite3 and checks, per idempotency key:
+ * Reads the Answer table directly and checks, per idempotency key:
  * - every acknowledged answer (201/200) is stored exactly once, with the acknowledged version and value;
  * - no refused answer (4xx) is stored;
- * and runs `PRAGMA integrity_check`. Requests that got no response may or may not be stored.
+ * and, on SQLite, runs `PRAGMA integrity_check`. Requests that got no response may or may not be stored.
  */
-export function verifyAnswers(dbFile: string, outcomes: readonly AnswerOutcome[]): Verification {
-  const conn = new Database(dbFile, { readonly: true, fileMustExist: true });
+export async function verifyAnswers(databaseUrl: string, outcomes: readonly AnswerOutcome[]): Promise<Verification> {
+  const conn = await openSql(databaseUrl, { readonly: true });
   try {
-    const rows = conn.prepare(`SELECT invitationId, questionId, version, value, idempotencyKey FROM "Answer"`).all() as {
-      invitationId: string;
-      questionId: string;
-      version: number;
-      value: number;
-      idempotencyKey: string | null;
-    }[];
+    const rows = await conn.query<{ invitationId: string; questionId: string; version: number; value: number; idempotencyKey: string | null }>(
+      `SELECT "invitationId", "questionId", "version", "value", "idempotencyKey" FROM "Answer"`,
+    );
     const byKey = new Map<string, typeof rows>();
     for (const r of rows) {
       const k = `${r.invitationId}/${r.idempotencyKey}`;
@@ -368,11 +366,12 @@ export function verifyAnswers(dbFile: string, outcomes: readonly AnswerOutcome[]
       }
     }
     // Versions per (invitation, question) must be 1…n without gaps or repeats.
-    const versions = conn
-      .prepare(`SELECT invitationId, questionId, COUNT(*) AS n, COUNT(DISTINCT version) AS d, MAX(version) AS m FROM "Answer" GROUP BY roundId, invitationId, questionId`)
-      .all() as { invitationId: string; questionId: string; n: number; d: number; m: number }[];
+    const versions = await conn.query<{ invitationId: string; questionId: string; n: number; d: number; m: number }>(
+      `SELECT "invitationId", "questionId", COUNT(*) AS "n", COUNT(DISTINCT "version") AS "d", MAX("version") AS "m" FROM "Answer" GROUP BY "roundId", "invitationId", "questionId"`,
+    );
     for (const v of versions) if (v.n !== v.d || v.m !== v.n) duplicated.push(`${v.invitationId}/${v.questionId}: ${v.n} rows, versions up to ${v.m}`);
-    const integrity = (conn.pragma("integrity_check") as { integrity_check: string }[]).map((r) => r.integrity_check).join("; ");
+    const integrity =
+      conn.dialect === "sqlite" ? (await conn.query<{ integrity_check: string }>("PRAGMA integrity_check")).map((r) => r.integrity_check).join("; ") : null;
     return {
       acknowledged: acknowledgedKeys.size,
       missing,
@@ -383,7 +382,7 @@ export function verifyAnswers(dbFile: string, outcomes: readonly AnswerOutcome[]
       integrity,
     };
   } finally {
-    conn.close();
+    await conn.close();
   }
 }
 

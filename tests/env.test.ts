@@ -16,10 +16,10 @@ describe("parseEnv", () => {
   });
 
   it("accepts a PostgreSQL URL and a pool size", () => {
-    const e = parseEnv({ DATABASE_URL: "postgresql://app:pw@db.internal:5432/triangulate", TRIANGULATE_PG_POOL: "20" });
+    const e = parseEnv({ NODE_ENV: "development", DATABASE_URL: "postgresql://app:pw@db.internal:5432/triangulate", TRIANGULATE_PG_POOL: "20" });
     expect(e.TRIANGULATE_PG_POOL).toBe(20);
-    expect(parseEnv({ DATABASE_URL: "postgres://db/t" }).DATABASE_URL).toBe("postgres://db/t");
-    expect(() => parseEnv({ TRIANGULATE_PG_POOL: "0" })).toThrow(/TRIANGULATE_PG_POOL: must be 1–100/);
+    expect(parseEnv({ NODE_ENV: "development", DATABASE_URL: "postgres://db/t" }).DATABASE_URL).toBe("postgres://db/t");
+    expect(() => parseEnv({ NODE_ENV: "development", TRIANGULATE_PG_POOL: "0" })).toThrow(/TRIANGULATE_PG_POOL: must be 1–100/);
   });
 
   it("needs a secret of at least 32 characters in production, and says so", () => {

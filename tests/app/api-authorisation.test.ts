@@ -12,7 +12,7 @@
 import { randomBytes } from "node:crypto";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { routes, type RouteName } from "../../lib/http/routes";
-import { api, apiTokenFor, clearDatabase, createAccount, openDb, signIn, type Credentials, type TestUser } from "./api-client";
+import { api, apiTokenFor, clearDatabase, createAccount, signIn, sql, type Credentials, type TestUser } from "./api-client";
 
 const ROLES = ["anonymous", "panelistElsewhere", "panelistHere", "reviewer", "otherOrganiser", "owner"] as const;
 type Role = (typeof ROLES)[number];
@@ -287,19 +287,15 @@ describe("credentials", () => {
     const id = await freshInvitation();
     const token = (await ok("POST", `/api/v1/panels/${P}/invitations/${id}/reissue`, owner, {})).token;
     expect((await api("GET", "/api/v1/panelist/panel", { token })).status).toBe(200);
-    const conn = openDb();
-    conn.prepare(`UPDATE Invitation SET expiresAt = ? WHERE id = ?`).run(new Date(Date.now() - 1000).toISOString().replace("Z", "+00:00"), id);
-    conn.close();
+    await sql(`UPDATE "Invitation" SET "expiresAt" = ? WHERE "id" = ?`, [new Date(Date.now() - 1000), id]);
     const res = await api("GET", "/api/v1/panelist/panel", { token });
     expect(res.status).toBe(401);
     expect(res.body.detail).toMatch(/expired/);
   });
 
-  it("API tokens and passwords are stored only as hashes", () => {
-    const conn = openDb();
-    const tokens = conn.prepare(`SELECT tokenHash FROM ApiToken`).all() as { tokenHash: string }[];
-    const users = conn.prepare(`SELECT passwordHash FROM User`).all() as { passwordHash: string }[];
-    conn.close();
+  it("API tokens and passwords are stored only as hashes", async () => {
+    const tokens = await sql<{ tokenHash: string }>(`SELECT "tokenHash" FROM "ApiToken"`);
+    const users = await sql<{ passwordHash: string }>(`SELECT "passwordHash" FROM "User"`);
     expect(tokens.every((t) => /^[0-9a-f]{64}$/.test(t.tokenHash))).toBe(true);
     expect(tokens.some((t) => t.tokenHash.includes(owner))).toBe(false);
     expect(users.every((u) => /^scrypt\$15\$8\$1\$[A-Za-z0-9_-]{22}\$[A-Za-z0-9_-]{43}$/.test(u.passwordHash))).toBe(true);

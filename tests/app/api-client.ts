@@ -7,11 +7,13 @@
 import { execFileSync } from "node:child_process";
 import { randomBytes } from "node:crypto";
 import path from "node:path";
-import Database from "better-sqlite3";
 import { expect, inject } from "vitest";
+import { clearAllTables, dialectOf, openSql, type SqlConnection } from "../../bench/sql";
 
 export const baseURL = inject("baseURL");
 export const databaseUrl = inject("databaseUrl");
+/** The database the suite runs on (the "app" project: SQLite; "app-postgres": PostgreSQL). */
+export const dialect = dialectOf(databaseUrl);
 const root = path.resolve(__dirname, "..", "..");
 
 export interface ApiResult<T = any> {
@@ -109,26 +111,27 @@ export async function apiTokenFor(user: TestUser): Promise<string> {
   return res.body.token as string;
 }
 
-/** Opens the test database directly (for checks and for moving a deadline into the past). */
-export function openDb(): Database.Database {
-  return new Database(databaseUrl.slice("file:".length));
+/** Opens the test database directly (bench/sql.ts: `?` placeholders, double-quoted names). */
+export function openDb(): Promise<SqlConnection> {
+  return openSql(databaseUrl);
+}
+
+/** Runs one statement on the test database (for checks and for moving a deadline into the past). */
+export async function sql<T = Record<string, unknown>>(text: string, params: readonly unknown[] = []): Promise<T[]> {
+  const conn = await openDb();
+  try {
+    return await conn.query<T>(text, params);
+  } finally {
+    await conn.close();
+  }
 }
 
 /** Deletes every row, so the next app test file starts from an empty database. */
-export function clearDatabase(): void {
-  const conn = openDb();
+export async function clearDatabase(): Promise<void> {
+  const conn = await openDb();
   try {
-    conn.pragma("foreign_keys = OFF");
-    const tables = ["Resolution", "Baseline", "AuditEvent", "Answer", "RoundStatistic", "Invitation", "Round", "Question", "PanelShare", "Panel", "RosterMember", "ApiToken", "User"];
-    // The audit log is append-only (triggers of prisma/migrations/0002_audit_append_only): drop them
-    // for the clean-up and put them back as they were.
-    const triggers = conn.prepare(`SELECT name, sql FROM sqlite_master WHERE type = 'trigger' AND tbl_name = 'AuditEvent'`).all() as { name: string; sql: string }[];
-    conn.transaction(() => {
-      for (const t of triggers) conn.exec(`DROP TRIGGER "${t.name}"`);
-      tables.forEach((t) => conn.prepare(`DELETE FROM "${t}"`).run());
-      for (const t of triggers) conn.exec(t.sql);
-    })();
+    await clearAllTables(conn);
   } finally {
-    conn.close();
+    await conn.close();
   }
 }

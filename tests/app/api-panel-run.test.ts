@@ -10,7 +10,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { expectClose, runR, rVector } from "../stats/rscript";
-import { api, apiTokenFor, clearDatabase, createAccount, openDb } from "./api-client";
+import { api, apiTokenFor, clearDatabase, createAccount, sql } from "./api-client";
 
 /** Final answers per panelist (index) per round. Q1 single shared; Q2 three-point shared; Q3 sum of parts. */
 const R1 = {
@@ -113,9 +113,7 @@ describe("a panel run by script with an API token", () => {
     expect(list.text).not.toContain("Panelist ");
     expect(list.text).not.toContain(tokens[0]);
     // Only the digest is stored.
-    const conn = openDb();
-    const rows = conn.prepare(`SELECT tokenHash FROM Invitation WHERE panelId = ?`).all(panelId) as { tokenHash: string }[];
-    conn.close();
+    const rows = await sql<{ tokenHash: string }>(`SELECT "tokenHash" FROM "Invitation" WHERE "panelId" = ?`, [panelId]);
     expect(rows.map((r) => r.tokenHash).some((h) => tokens.includes(h))).toBe(false);
     expect(rows[0].tokenHash).toMatch(/^[0-9a-f]{64}$/);
   });
@@ -307,9 +305,7 @@ describe("a panel run by script with an API token", () => {
     expect(open.body).toMatchObject({ number: 3, status: "open", deadline });
     expect((await answer(2, { questionId: qIds[2], value: 720 })).status).toBe(201);
     const past = new Date(Date.now() - 60_000);
-    const conn = openDb();
-    conn.prepare(`UPDATE Round SET deadline = ? WHERE panelId = ? AND number = 3`).run(past.toISOString().replace("Z", "+00:00"), panelId);
-    conn.close();
+    await sql(`UPDATE "Round" SET "deadline" = ? WHERE "panelId" = ? AND "number" = 3`, [past, panelId]);
     const [late, p1, p2, rounds] = await Promise.all([
       answer(1, { questionId: qIds[2], value: 1100 }),
       api("GET", "/api/v1/panelist/panel", { token: tokens[0] }),

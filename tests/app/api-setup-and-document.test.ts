@@ -4,15 +4,13 @@
  */
 import { afterAll, describe, expect, it } from "vitest";
 import { routes } from "../../lib/http/routes";
-import { api, clearDatabase, openDb, signIn } from "./api-client";
+import { api, clearDatabase, signIn, sql } from "./api-client";
 
 afterAll(() => clearDatabase());
 
 describe("POST /api/v1/setup", () => {
   it("creates the first organiser only while none exists; the account can sign in", async () => {
-    const conn = openDb();
-    const organisers = (conn.prepare(`SELECT COUNT(*) AS n FROM User WHERE role = 'organiser'`).get() as { n: number }).n;
-    conn.close();
+    const [{ n: organisers }] = await sql<{ n: number }>(`SELECT COUNT(*) AS "n" FROM "User" WHERE "role" = 'organiser'`);
     const first = { email: "Wren.Owner@Example.com", name: "Odile Ashcombe", password: "a sensible passphrase" };
     const res = await api("POST", "/api/v1/setup", { body: first });
     if (organisers === 0) {

@@ -31,7 +31,7 @@ import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { chromium, type Browser, type BrowserContext, type Page } from "playwright-core";
 import { expectClose, runR, rVector } from "../stats/rscript";
-import { api, apiTokenFor, baseURL, clearDatabase, createAccount, openDb, type TestUser } from "./api-client";
+import { api, apiTokenFor, baseURL, clearDatabase, createAccount, sql, type TestUser } from "./api-client";
 
 const shots = path.resolve(__dirname, "..", "..", "test-artifacts", "screenshots");
 const LAUNCH_ARGS = ["--no-sandbox", "--disable-gpu", "--disable-background-networking", "--disable-component-update", "--no-first-run"];
@@ -171,14 +171,7 @@ describe("triangulation in the browser", () => {
   afterAll(async () => {
     await browser?.close();
     // Leave an empty database for the other app test files (the first-run page expects one).
-    const conn = openDb();
-    try {
-      const tables = (conn.prepare(`SELECT name FROM sqlite_master WHERE type = 'table'`).all() as { name: string }[]).map((t) => t.name);
-      for (const t of ["Resolution", "Baseline"]) if (tables.includes(t)) conn.prepare(`DELETE FROM "${t}"`).run();
-    } finally {
-      conn.close();
-    }
-    clearDatabase();
+    await clearDatabase();
   });
 
   it("refuses a CSV with a broken cell, naming its row and column", async () => {

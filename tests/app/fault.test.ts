@@ -1,20 +1,20 @@
 /**
- * Crash safety: a SEPARATE production server (its own port and SQLite database, not the suite's
- * shared one) receives answers from 80 panelists at 8 in flight; once 60 answers have been
+ * Crash safety: a SEPARATE production server (its own port and database, not the suite's shared
+ * one, of the suite's kind: a SQLite file, or a new PostgreSQL database) receives answers from 80 panelists at 8 in flight; once 60 answers have been
  * acknowledged it is killed with SIGKILL while requests are still in flight. Restarted on the
  * same database file, it must hold every acknowledged answer exactly once (with its acknowledged
- * version and value), nothing that was refused, `PRAGMA integrity_check` must be "ok", and the
+ * version and value), nothing that was refused, on SQLite `PRAGMA integrity_check` must be "ok", and the
  * panelists must be able to go on: the requests cut off by the kill are sent again with their
  * original Idempotency-Key (each is either stored now or, if it had been stored before the kill,
  * replayed with its first version — never twice), and new revisions are accepted.
  *
- * What makes this hold is lib/db.ts: WAL journal, commits written to the log before the answer
- * is acknowledged. The build is the suite's (tests/app/server-setup.ts, NEXT_DIST_DIR).
+ * What makes this hold on SQLite is lib/db.ts: WAL journal, commits written to the log before the
+ * answer is acknowledged; on PostgreSQL, its own commit. The build is the suite's
+ * (tests/app/server-setup.ts, NEXT_DIST_DIR).
  */
 import { mkdtempSync, rmSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import Database from "better-sqlite3";
 import { afterAll, describe, expect, it } from "vitest";
 import {
   Client,
@@ -31,23 +31,28 @@ import {
   type AnswerOutcome,
   type RunningServer,
 } from "../../bench/harness";
+import { freshDatabase, openSql } from "../../bench/sql";
+import { databaseUrl as suiteDatabase, dialect } from "./api-client";
 
 const dir = mkdtempSync(path.join(os.tmpdir(), "triangulate-fault-"));
-const dbFile = path.join(dir, "fault.db");
+let database: Awaited<ReturnType<typeof freshDatabase>> | undefined;
 const distDir = process.env.NEXT_DIST_DIR || ".next";
 let server: RunningServer | undefined;
 
 afterAll(async () => {
   await server?.stop("SIGKILL");
+  await database?.drop();
   rmSync(dir, { recursive: true, force: true });
 });
 
 describe("SIGKILL in the middle of a burst of answers", () => {
   it("keeps every acknowledged answer, stays consistent, and panelists can go on", async () => {
-    migrate({ dbFile, port: 0, distDir });
-    server = await startServer({ dbFile, port: await freePort(), distDir });
+    database = await freshDatabase(suiteDatabase, `triangulate_fault_${process.pid}`, dir);
+    const databaseUrl = database.url;
+    migrate({ databaseUrl, port: 0, distDir });
+    server = await startServer({ databaseUrl, port: await freePort(), distDir });
     let client = new Client(server.baseURL, 12);
-    const token = await organiserToken(server.baseURL, createOrganiser(dbFile));
+    const token = await organiserToken(server.baseURL, createOrganiser(databaseUrl));
     const setup = await createPanel(client, token, 80, 2);
 
     // Answers 1..80 on both questions, then a revision of each; one in 10 is out of bounds (422).
@@ -89,10 +94,10 @@ describe("SIGKILL in the middle of a burst of answers", () => {
     for (const o of answered) expect(o.status).toBe(o.attempt.invalid ? 422 : 201);
 
     // Restart on the same file; the database is checked while the server runs (WAL readers are fine).
-    server = await startServer({ dbFile, port: await freePort(), distDir });
+    server = await startServer({ databaseUrl, port: await freePort(), distDir });
     client = new Client(server.baseURL, 12);
-    const afterCrash = verifyAnswers(dbFile, outcomes);
-    expect(afterCrash.integrity).toBe("ok");
+    const afterCrash = await verifyAnswers(databaseUrl, outcomes);
+    expect(afterCrash.integrity).toBe(dialect === "sqlite" ? "ok" : null);
     expect(afterCrash.missing).toEqual([]);
     expect(afterCrash.duplicated).toEqual([]);
     expect(afterCrash.mismatched).toEqual([]);
@@ -115,16 +120,17 @@ describe("SIGKILL in the middle of a burst of answers", () => {
     const before = answered.find((o) => o.status === 201)!;
     const more = await sendAnswer(client, { ...before.attempt, value: 4321, idempotencyKey: newKey() });
     expect(more.status).toBe(201);
-    const conn = new Database(dbFile, { readonly: true });
-    const maxVersion = (
-      conn.prepare(`SELECT MAX(version) AS v FROM "Answer" WHERE invitationId = ? AND questionId = ?`).get(before.attempt.invitationId, before.attempt.questionId) as { v: number }
-    ).v;
-    conn.close();
+    const conn = await openSql(databaseUrl, { readonly: true });
+    const [{ v: maxVersion }] = await conn.query<{ v: number }>(`SELECT MAX("version") AS "v" FROM "Answer" WHERE "invitationId" = ? AND "questionId" = ?`, [
+      before.attempt.invitationId,
+      before.attempt.questionId,
+    ]);
+    await conn.close();
     expect(more.version).toBe(maxVersion);
     expect(more.version).toBeGreaterThan(1);
 
-    const final = verifyAnswers(dbFile, [...answered, ...resent, more]);
-    expect(final.integrity).toBe("ok");
+    const final = await verifyAnswers(databaseUrl, [...answered, ...resent, more]);
+    expect(final.integrity).toBe(dialect === "sqlite" ? "ok" : null);
     expect(final.missing).toEqual([]);
     expect(final.duplicated).toEqual([]);
     expect(final.mismatched).toEqual([]);

@@ -9,7 +9,7 @@
 import { randomBytes } from "node:crypto";
 import http from "node:http";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { api, apiTokenFor, baseURL, clearDatabase, createAccount, openDb, signIn, type TestUser } from "./api-client";
+import { api, apiTokenFor, baseURL, clearDatabase, createAccount, dialect, openDb, signIn, sql, type TestUser } from "./api-client";
 
 let organiser: TestUser;
 let token = "";
@@ -240,21 +240,21 @@ describe("audit log", () => {
     expect(html).toContain("Audit log");
     for (const a of ["round.opened", "round.closed", "identities.revealed", "reason: audit check"]) expect(html).toContain(a);
 
-    const conn = openDb();
+    const conn = await openDb();
     try {
-      const count = () => (conn.prepare(`SELECT COUNT(*) AS n FROM AuditEvent WHERE panelId = ?`).get(panel.id) as { n: number }).n;
-      const n = count();
-      expect(() => conn.prepare(`UPDATE AuditEvent SET action = 'nothing happened' WHERE panelId = ?`).run(panel.id)).toThrow(/append-only/);
-      expect(() => conn.prepare(`DELETE FROM AuditEvent WHERE panelId = ?`).run(panel.id)).toThrow(/append-only/);
-      expect(count()).toBe(n);
-      expect((conn.prepare(`SELECT COUNT(*) AS n FROM AuditEvent WHERE action = 'nothing happened'`).get() as { n: number }).n).toBe(0);
+      const count = async () => (await conn.query<{ n: number }>(`SELECT COUNT(*) AS "n" FROM "AuditEvent" WHERE "panelId" = ?`, [panel.id]))[0].n;
+      const n = await count();
+      await expect(conn.query(`UPDATE "AuditEvent" SET "action" = 'nothing happened' WHERE "panelId" = ?`, [panel.id])).rejects.toThrow(/append-only/);
+      await expect(conn.query(`DELETE FROM "AuditEvent" WHERE "panelId" = ?`, [panel.id])).rejects.toThrow(/append-only/);
+      if (dialect === "postgresql") await expect(conn.query(`TRUNCATE "AuditEvent" CASCADE`)).rejects.toThrow(/append-only/);
+      expect(await count()).toBe(n);
+      expect((await conn.query<{ n: number }>(`SELECT COUNT(*) AS "n" FROM "AuditEvent" WHERE "action" = 'nothing happened'`))[0].n).toBe(0);
     } finally {
-      conn.close();
+      await conn.close();
     }
     // Deleting the panel keeps its audit trail.
     expect((await api("DELETE", `/api/v1/panels/${panel.id}`, { token })).status).toBe(200);
-    const conn2 = openDb();
-    expect((conn2.prepare(`SELECT COUNT(*) AS n FROM AuditEvent WHERE panelId = ?`).get(panel.id) as { n: number }).n).toBeGreaterThanOrEqual(4);
-    conn2.close();
+    const [{ n: kept }] = await sql<{ n: number }>(`SELECT COUNT(*) AS "n" FROM "AuditEvent" WHERE "panelId" = ?`, [panel.id]);
+    expect(kept).toBeGreaterThanOrEqual(4);
   });
 });

@@ -1,8 +1,10 @@
 /**
- * Vitest global setup for the "app" project: builds the production app (unless
- * TRIANGULATE_SKIP_BUILD=1), starts it on a free loopback port with a fresh SQLite database,
- * and hands the tests its address and database URL through `inject("baseURL")` and
- * `inject("databaseUrl")`. The server is stopped after the run.
+ * Vitest global setup for the "app" and "app-postgres" projects: builds the production app once
+ * per run (unless TRIANGULATE_SKIP_BUILD=1), starts it on a free loopback port with a fresh
+ * database (app: a SQLite file; app-postgres: a new database created on the PostgreSQL server
+ * that TRIANGULATE_TEST_POSTGRES_URL names), and hands the tests its address and database URL
+ * through `inject("baseURL")` and `inject("databaseUrl")`. The server is stopped and the
+ * database removed after the run.
  */
 import { spawn, spawnSync, type ChildProcess } from "node:child_process";
 import { mkdtempSync, rmSync } from "node:fs";
@@ -10,6 +12,7 @@ import { createServer } from "node:net";
 import os from "node:os";
 import path from "node:path";
 import type { TestProject } from "vitest/node";
+import { freshDatabase } from "../../bench/sql";
 
 declare module "vitest" {
   export interface ProvidedContext {
@@ -48,24 +51,30 @@ async function waitForServer(url: string, child: ChildProcess, ms = 60_000): Pro
 
 export default async function setup(project: TestProject) {
   const dir = mkdtempSync(path.join(os.tmpdir(), "triangulate-test-"));
+  const postgres = project.name === "app-postgres";
+  const adminUrl = process.env.TRIANGULATE_TEST_POSTGRES_URL;
+  if (postgres && !adminUrl) throw new Error("the app-postgres project needs TRIANGULATE_TEST_POSTGRES_URL");
+  const database = await freshDatabase(postgres ? adminUrl! : `file:${path.join(dir, "x.db")}`, postgres ? `triangulate_test_${process.pid}` : "test", dir);
   const port = await freePort();
   const baseURL = `http://127.0.0.1:${port}`;
   const env: NodeJS.ProcessEnv = {
     ...process.env,
     NODE_ENV: "production",
     NEXT_TELEMETRY_DISABLED: "1",
-    DATABASE_URL: `file:${path.join(dir, "test.db")}`,
+    DATABASE_URL: database.url,
     NEXTAUTH_SECRET: "test-secret-for-the-app-suite-0123456789",
     NEXTAUTH_URL: baseURL,
     PORT: String(port),
   };
 
   const steps: [string, string[]][] = [[bin("prisma"), ["migrate", "deploy"]]];
-  if (process.env.TRIANGULATE_SKIP_BUILD !== "1") steps.push([bin("next"), ["build"]]);
+  // One build serves both projects (their setups run one after the other in this process).
+  if (process.env.TRIANGULATE_SKIP_BUILD !== "1" && process.env.TRIANGULATE_BUILT_IN_THIS_RUN !== "1") steps.push([bin("next"), ["build"]]);
   for (const [cmd, args] of steps) {
     const r = spawnSync(cmd, args, { cwd: root, env, encoding: "utf8" });
     if (r.status !== 0) throw new Error(`${path.basename(cmd)} ${args.join(" ")} failed:\n${r.stdout}\n${r.stderr}`);
   }
+  process.env.TRIANGULATE_BUILT_IN_THIS_RUN = "1";
 
   const server = spawn(bin("next"), ["start", "-p", String(port), "-H", "127.0.0.1"], {
     cwd: root,
@@ -79,6 +88,7 @@ export default async function setup(project: TestProject) {
   return async () => {
     server.kill("SIGTERM");
     await new Promise((r) => setTimeout(r, 300));
+    await database.drop();
     rmSync(dir, { recursive: true, force: true });
   };
 }
