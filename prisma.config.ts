@@ -14,6 +14,8 @@ export default defineConfig({
   experimental: { adapter: true },
   engine: "js",
   schema: postgres ? path.join("prisma", "postgres", "schema.prisma") : path.join("prisma", "schema.prisma"),
+  // Applied by `triangulate migrate` (lib/cli/migrate.ts), which uses Prisma Migrate for SQLite only.
+  migrations: { path: postgres ? path.join("prisma", "postgres", "migrations") : path.join("prisma", "migrations") },
   async adapter() {
     return postgres ? new PrismaPg({ connectionString: url }) : new PrismaBetterSQLite3({ url: `file:${ensureDatabaseFile()}` });
   },

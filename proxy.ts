@@ -27,6 +27,10 @@ export function contentSecurityPolicy(nonce: string, dev = process.env.NODE_ENV 
 }
 
 export function proxy(request: NextRequest): NextResponse {
+  // A NUL in the address would reach the database as part of an id (lib/validation/nul.ts).
+  if (/%00|\u0000/i.test(request.nextUrl.pathname)) {
+    return new NextResponse("Bad request: the address contains a NUL character.", { status: 400, headers: { "content-type": "text/plain; charset=utf-8" } });
+  }
   const nonce = Buffer.from(crypto.getRandomValues(new Uint8Array(16))).toString("base64");
   const csp = contentSecurityPolicy(nonce);
   const headers = new Headers(request.headers);

@@ -69,7 +69,7 @@ export function build(distDir: string): void {
 
 /** Applies the migrations to a (new) database. */
 export function migrate(o: ServerOptions): void {
-  run(bin("prisma"), ["migrate", "deploy"], serverEnv(o));
+  run(process.execPath, [path.join(root, "bin", "triangulate.mjs"), "migrate"], serverEnv(o));
 }
 
 export interface RunningServer {

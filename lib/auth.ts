@@ -22,7 +22,7 @@ export const authOptions: NextAuthOptions = {
       async authorize(credentials) {
         const email = typeof credentials?.email === "string" ? credentials.email : "";
         const password = typeof credentials?.password === "string" ? credentials.password : "";
-        if (!email || !password) return null;
+        if (!email || !password || email.includes("\u0000")) return null;
         const user = await authenticate(email, password);
         return user ? { id: user.id, email: user.email, name: user.name, role: user.role } : null;
       },
@@ -57,8 +57,9 @@ export async function handler(req: Request, ctx: unknown): Promise<Response> {
       .formData()
       .catch(() => null);
     const raw = form?.get("email");
-    const email = typeof raw === "string" ? raw.trim().toLowerCase().slice(0, 200) : "";
-    const wait = (await limits.signInAddress.hit(`${clientAddress(req)}\u0000${email}`)) ?? (await limits.signInAccount.hit(email));
+    // NUL cannot be stored in PostgreSQL text (lib/validation/nul.ts); such an e-mail matches no account anyway.
+    const email = typeof raw === "string" ? raw.trim().toLowerCase().slice(0, 200).replaceAll("\u0000", "") : "";
+    const wait = (await limits.signInAddress.hit(`${clientAddress(req)} ${email}`)) ?? (await limits.signInAccount.hit(email));
     if (wait !== null) return tooManyRequests(wait, new URL(req.url).pathname, "Too many sign-in attempts.");
   }
   return nextAuthHandler(req, ctx);

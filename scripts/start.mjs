@@ -1,5 +1,6 @@
 #!/usr/bin/env node
-// `npm start`: apply migrations to the embedded SQLite database, load the demo on first start,
+// `npm start`: apply migrations to the database (the embedded SQLite file unless DATABASE_URL
+// names another, e.g. PostgreSQL), load the demo on first start,
 // build the production app when the sources are newer than the last build, then serve on $PORT.
 import { spawnSync, spawn } from "node:child_process";
 import { existsSync, mkdirSync, readFileSync, statSync, writeFileSync, readdirSync } from "node:fs";
@@ -31,7 +32,7 @@ if (!env.NEXTAUTH_SECRET) {
   env.NEXTAUTH_SECRET = readFileSync(secretFile, "utf8").trim();
 }
 
-run(bin("prisma"), ["migrate", "deploy"], env);
+run(process.execPath, [path.join(root, "bin", "triangulate.mjs"), "migrate"], env);
 run(process.execPath, [path.join(root, "bin", "triangulate.mjs"), "demo", "--if-empty"], env);
 
 function newestMtime(p) {

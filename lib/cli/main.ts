@@ -39,6 +39,7 @@ const COMMANDS: Record<string, CommandEntry> = {
     summary: "create an organiser account (--email E --name N --password P [--role reviewer])",
     load: async () => (await import("./admin")).createOrganiser,
   },
+  migrate: { summary: "apply the pending migrations to the database (SQLite or PostgreSQL)", load: async () => (await import("./migrate")).run },
   backup: { summary: "copy the live database to FILE (SQLite online backup)", load: async () => (await import("./admin")).backup },
   demo: { summary: "load the demo panel of Quillmoor Instruments ([--if-empty])", load: async () => (await import("./admin")).demo },
 };

@@ -7,6 +7,7 @@
 import type { ZodType } from "zod";
 import type { UserActor } from "../accounts/actor";
 import { getCurrentUser } from "../session";
+import { nulFieldErrors } from "../validation/nul";
 import type { FormState } from "./form-state";
 import { fromThrown, fromZodError } from "./form-result";
 
@@ -27,6 +28,8 @@ export async function signedInAction<I, B = undefined>(
 ): Promise<FormState> {
   const user = await getCurrentUser();
   if (!user) return NOT_SIGNED_IN;
+  const nul = nulFieldErrors([values, body?.[1]]).map((e) => ({ ...e, field: e.field.replace(/^\[\d+\]\.?/, "") || "form" }));
+  if (nul.length > 0) return { ok: false, message: "Please correct the fields marked below.", fieldErrors: Object.fromEntries(nul.map((e) => [e.field, [e.message]])) };
   const id = ids.safeParse(values);
   if (!id.success) return fromZodError(id.error);
   let input = undefined as B;

@@ -67,7 +67,7 @@ export default async function setup(project: TestProject) {
     PORT: String(port),
   };
 
-  const steps: [string, string[]][] = [[bin("prisma"), ["migrate", "deploy"]]];
+  const steps: [string, string[]][] = [[process.execPath, [path.join(root, "bin", "triangulate.mjs"), "migrate"]]];
   // One build serves both projects (their setups run one after the other in this process).
   if (process.env.TRIANGULATE_SKIP_BUILD !== "1" && process.env.TRIANGULATE_BUILT_IN_THIS_RUN !== "1") steps.push([bin("next"), ["build"]]);
   for (const [cmd, args] of steps) {
