@@ -229,7 +229,7 @@ async function send(i: number, kind: string, method: string, path: string, creds
 }
 
 /**
- * Every table's row count and a SHA-256 over its rows (in id order). Left out: the "last used"
+ * Every table's row count and a SHA-256 over its rows (sorted, so the storage order does not matter). Left out: the "last used"
  * times, and the rate-limit counters, which count the hostile requests by design.
  */
 async function snapshot(): Promise<Record<string, { rows: number; sha256: string }>> {
@@ -239,12 +239,12 @@ async function snapshot(): Promise<Record<string, { rows: number; sha256: string
     const tables = (await appTables(conn)).filter((t) => t !== "RateLimitWindow");
     const out: Record<string, { rows: number; sha256: string }> = {};
     for (const t of tables) {
-      const rows = await conn.query(`SELECT * FROM "${t}" ORDER BY "id"`);
-      const h = createHash("sha256");
-      for (const row of rows) {
+      const rows = (await conn.query(`SELECT * FROM "${t}"`)).map((row) => {
         for (const col of IGNORED[t] ?? []) delete row[col];
-        h.update(JSON.stringify(row, (_, v) => (typeof v === "bigint" ? v.toString() : v)));
-      }
+        return JSON.stringify(row, (_, v) => (typeof v === "bigint" ? v.toString() : v));
+      });
+      const h = createHash("sha256");
+      for (const row of rows.sort()) h.update(row);
       out[t] = { rows: rows.length, sha256: h.digest("hex") };
     }
     return out;
