@@ -41,6 +41,8 @@ export interface ServerOptions {
   readonly port: number;
   /** The Next.js build folder (NEXT_DIST_DIR); default .next */
   readonly distDir?: string;
+  /** NEXTAUTH_SECRET; instances that share sessions need the same one. */
+  readonly secret?: string;
 }
 
 export function serverEnv(o: ServerOptions): NodeJS.ProcessEnv {
@@ -51,7 +53,7 @@ export function serverEnv(o: ServerOptions): NodeJS.ProcessEnv {
     NEXT_TELEMETRY_DISABLED: "1",
     NEXT_DIST_DIR: o.distDir ?? process.env.NEXT_DIST_DIR ?? ".next",
     DATABASE_URL: o.databaseUrl,
-    NEXTAUTH_SECRET: "load-and-fault-secret-0123456789abcdef",
+    NEXTAUTH_SECRET: o.secret ?? "load-and-fault-secret-0123456789abcdef",
     NEXTAUTH_URL: baseURL,
     PORT: String(o.port),
   };

@@ -18,6 +18,8 @@ declare module "vitest" {
   export interface ProvidedContext {
     baseURL: string;
     databaseUrl: string;
+    /** The server's NEXTAUTH_SECRET, for a second instance that shares its sessions. */
+    authSecret: string;
   }
 }
 
@@ -84,6 +86,7 @@ export default async function setup(project: TestProject) {
   await waitForServer(baseURL, server);
   project.provide("baseURL", baseURL);
   project.provide("databaseUrl", env.DATABASE_URL!);
+  project.provide("authSecret", env.NEXTAUTH_SECRET!);
 
   return async () => {
     server.kill("SIGTERM");
