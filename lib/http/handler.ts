@@ -196,3 +196,21 @@ export function handle<const R extends RouteDef>(
     }
   };
 }
+
+const METHODS = ["GET", "POST", "PUT", "PATCH", "DELETE"] as const;
+type Method = (typeof METHODS)[number];
+
+/**
+ * Handlers for the methods a route file does not serve: 405 problem+json with `Allow` (instead of
+ * the framework's empty 405). Use: `export const { PUT, PATCH } = otherMethods("GET, POST, DELETE")`.
+ */
+export function otherMethods(allow: string): Record<Method, (req: Request) => Response> {
+  const refuse = (req: Request) => {
+    const instance = new URL(req.url).pathname;
+    return problemResponse(
+      { type: "about:blank", title: "Method Not Allowed", status: 405, detail: `${req.method} is not an operation of ${instance}; allowed: ${allow}.`, instance },
+      { allow },
+    );
+  };
+  return Object.fromEntries(METHODS.map((m) => [m, refuse])) as Record<Method, (req: Request) => Response>;
+}

@@ -4,7 +4,7 @@
  */
 import { afterAll, describe, expect, it } from "vitest";
 import { routes } from "../../lib/http/routes";
-import { api, clearDatabase, signIn, sql } from "./api-client";
+import { api, baseURL, clearDatabase, signIn, sql } from "./api-client";
 
 afterAll(() => clearDatabase());
 
@@ -74,6 +74,21 @@ describe("unknown API paths", () => {
     expect(res.status).toBe(404);
     expect(res.contentType).toContain("application/problem+json");
     expect(res.body.detail).toMatch(/openapi\.json/);
+  });
+
+  it("answer a method a path does not serve with 405 problem+json and an Allow header listing the ones it does (RFC 9110 §15.5.6)", async () => {
+    const byPath = new Map<string, string[]>();
+    for (const r of Object.values(routes)) byPath.set(r.path, [...(byPath.get(r.path) ?? []), r.method]);
+    expect(byPath.size).toBeGreaterThan(30);
+    for (const [template, methods] of byPath) {
+      const other = ["GET", "POST", "PUT", "PATCH", "DELETE"].find((m) => !methods.includes(m))!;
+      const res = await api(other, template.replace(/\{[^}]+\}/g, "x1"));
+      expect(res.status, `${other} ${template}`).toBe(405);
+      expect(res.contentType).toContain("application/problem+json");
+      expect(res.body).toMatchObject({ status: 405, title: "Method Not Allowed" });
+      const allow = (await fetch(`${baseURL}${template.replace(/\{[^}]+\}/g, "x1")}`, { method: other })).headers.get("allow") ?? "";
+      expect(allow.split(", ").sort(), template).toEqual([...methods].sort());
+    }
   });
 });
 

@@ -1,5 +1,6 @@
-import { handle } from "@/lib/http/handler";
+import { handle, otherMethods } from "@/lib/http/handler";
 import { routes } from "@/lib/http/routes";
 import { getAccuracyHistory } from "@/lib/panels/track-records";
 
 export const GET = handle(routes.getAccuracyHistory, ({ actor }) => getAccuracyHistory(actor));
+export const { POST, PUT, PATCH, DELETE } = otherMethods("GET");

@@ -1,5 +1,6 @@
-import { handle } from "@/lib/http/handler";
+import { handle, otherMethods } from "@/lib/http/handler";
 import { routes } from "@/lib/http/routes";
 import { listTrackRecords } from "@/lib/panels/track-records";
 
 export const GET = handle(routes.listTrackRecords, ({ actor }) => listTrackRecords(actor));
+export const { POST, PUT, PATCH, DELETE } = otherMethods("GET");

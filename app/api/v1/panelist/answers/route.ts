@@ -1,4 +1,4 @@
-import { Reply, handle } from "@/lib/http/handler";
+import { Reply, handle, otherMethods } from "@/lib/http/handler";
 import { routes } from "@/lib/http/routes";
 import { submitAnswer } from "@/lib/panels/answers";
 
@@ -6,3 +6,4 @@ export const POST = handle(routes.submitAnswer, async ({ actor, body, idempotenc
   const stored = await submitAnswer(actor, body, { idempotencyKey });
   return stored.replayed ? new Reply(200, stored) : stored;
 });
+export const { GET, PUT, PATCH, DELETE } = otherMethods("POST");

@@ -1,5 +1,6 @@
-import { handle } from "@/lib/http/handler";
+import { handle, otherMethods } from "@/lib/http/handler";
 import { routes } from "@/lib/http/routes";
 import { getFeedback } from "@/lib/panels/feedback";
 
 export const GET = handle(routes.getFeedback, ({ actor }) => getFeedback(actor));
+export const { POST, PUT, PATCH, DELETE } = otherMethods("GET");

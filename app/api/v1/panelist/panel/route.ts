@@ -1,5 +1,6 @@
-import { handle } from "@/lib/http/handler";
+import { handle, otherMethods } from "@/lib/http/handler";
 import { routes } from "@/lib/http/routes";
 import { getPanelistPanel } from "@/lib/panels/answers";
 
 export const GET = handle(routes.getPanelistPanel, ({ actor }) => getPanelistPanel(actor));
+export const { POST, PUT, PATCH, DELETE } = otherMethods("GET");

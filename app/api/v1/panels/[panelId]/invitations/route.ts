@@ -1,6 +1,7 @@
-import { handle } from "@/lib/http/handler";
+import { handle, otherMethods } from "@/lib/http/handler";
 import { routes } from "@/lib/http/routes";
 import { createInvitations, listInvitations } from "@/lib/panels/invitations";
 
 export const GET = handle(routes.listInvitations, ({ actor, params }) => listInvitations(actor, params.panelId));
 export const POST = handle(routes.createInvitations, ({ actor, params, body }) => createInvitations(actor, params.panelId, body));
+export const { PUT, PATCH, DELETE } = otherMethods("GET, POST");

@@ -1,5 +1,6 @@
-import { handle } from "@/lib/http/handler";
+import { handle, otherMethods } from "@/lib/http/handler";
 import { routes } from "@/lib/http/routes";
 import { previewBaseline } from "@/lib/panels/baselines";
 
 export const POST = handle(routes.previewBaseline, ({ actor, params, body }) => previewBaseline(actor, params.panelId, params.questionId, body));
+export const { GET, PUT, PATCH, DELETE } = otherMethods("POST");
