@@ -9,6 +9,7 @@
  */
 import Database from "better-sqlite3";
 import pg from "pg";
+import { numberedPlaceholders } from "../lib/sql-text";
 
 export type Dialect = "sqlite" | "postgresql";
 
@@ -23,18 +24,6 @@ export function dialectOf(databaseUrl: string): Dialect {
   if (/^postgres(ql)?:\/\//.test(databaseUrl)) return "postgresql";
   if (databaseUrl.startsWith("file:")) return "sqlite";
   throw new Error(`not a database URL this app uses: ${databaseUrl.split(":")[0]}:`);
-}
-
-/** `?` → `$n`, outside single-quoted literals. */
-function numberedPlaceholders(text: string): string {
-  let n = 0;
-  let quoted = false;
-  let out = "";
-  for (const ch of text) {
-    if (ch === "'") quoted = !quoted;
-    out += ch === "?" && !quoted ? `$${++n}` : ch;
-  }
-  return out;
 }
 
 // SQLite stores Prisma DateTime values as ISO text; these columns come back as Dates.

@@ -2,8 +2,11 @@ import { PrismaBetterSQLite3 } from "@prisma/adapter-better-sqlite3";
 import { PrismaPg } from "@prisma/adapter-pg";
 import { PrismaClient } from "./generated/prisma/client";
 import { PrismaClient as PostgresPrismaClient } from "./generated/prisma-pg/client";
+import type { SqlDriverAdapter, Transaction } from "@prisma/driver-adapter-utils";
+import type BetterSqlite3 from "better-sqlite3";
 import { ensureDatabaseFile, isPostgresUrl } from "./env-db";
 import { env } from "./env";
+import { numberedPlaceholders } from "./sql-text";
 
 /** The one Prisma client of the process (kept on globalThis so dev reloads reuse it). */
 const globalForPrisma = globalThis as unknown as { prisma?: PrismaClient };
@@ -59,9 +62,83 @@ function createClient(): PrismaClient {
   factory.connect = async () => {
     const adapter = await connect();
     await adapter.executeScript(connectionPragmas().map((p) => `PRAGMA ${p};`).join("\n"));
+    sqlite = { adapter: adapter as SqlDriverAdapter & { client: BetterSqlite3.Database }, statements: new Map() };
+    holdOutsideStatements(adapter);
     return adapter;
   };
   return new PrismaClient({ adapter: factory });
+}
+
+/** The SQLite connection once Prisma has opened it, with the statements prepared on it so far. */
+let sqlite: { adapter: SqlDriverAdapter & { client: BetterSqlite3.Database }; statements: Map<string, BetterSqlite3.Statement> } | undefined;
+/** Settles when the interactive transaction open on the SQLite connection ends; null when none is open. */
+let openTransaction: Promise<void> | null = null;
+
+async function outsideTransactions(): Promise<void> {
+  while (openTransaction) await openTransaction;
+}
+
+/**
+ * SQLite has one connection per process, so an interactive transaction (BEGIN … COMMIT across
+ * awaits) spans every statement that runs on it meanwhile. Prisma's adapter serialises
+ * transactions among themselves, not the statements of other requests: one of them, say an
+ * acknowledged answer, would become part of the open transaction and vanish if it rolled back.
+ * So statements from outside wait until the open transaction has ended
+ * (tests/db/sqlite-connection.test.ts). A transaction's own statements go through its own object
+ * and are not held.
+ */
+function holdOutsideStatements(adapter: SqlDriverAdapter): void {
+  for (const method of ["queryRaw", "executeRaw"] as const) {
+    const run = adapter[method].bind(adapter) as (q: never) => Promise<never>;
+    (adapter as unknown as Record<string, unknown>)[method] = async (query: never) => {
+      await outsideTransactions();
+      return run(query);
+    };
+  }
+  const start = adapter.startTransaction.bind(adapter);
+  adapter.startTransaction = async (isolationLevel) => {
+    const tx: Transaction = await start(isolationLevel);
+    let ended!: () => void;
+    openTransaction = new Promise((resolve) => (ended = resolve));
+    const finish = () => {
+      openTransaction = null;
+      ended();
+    };
+    for (const method of ["commit", "rollback"] as const) {
+      const end = tx[method].bind(tx);
+      tx[method] = async () => {
+        try {
+          return await end();
+        } finally {
+          finish();
+        }
+      };
+    }
+    return tx;
+  };
+}
+
+/**
+ * Runs one statement (`?` placeholders, double-quoted names; lib/sql-text.ts) and returns its
+ * rows. On SQLite it runs directly on Prisma's own connection, with the statement prepared once
+ * and kept, outside any open transaction: no query compilation, no per-call preparation. This
+ * is for the few statements every panelist request runs (bench/load.ts profiles them); the rest
+ * of the app uses the Prisma client. Integers come back as bigint on SQLite and as numbers on
+ * PostgreSQL, timestamps as text on SQLite and as Dates on PostgreSQL: callers convert.
+ */
+export async function sqlRows<T = Record<string, unknown>>(text: string, params: readonly unknown[] = []): Promise<T[]> {
+  if (dialect === "postgresql") return db.$queryRawUnsafe<T[]>(numberedPlaceholders(text), ...params);
+  if (!sqlite) await db.$connect();
+  const conn = sqlite!;
+  await outsideTransactions();
+  let stmt = conn.statements.get(text);
+  if (!stmt) {
+    stmt = conn.adapter.client.prepare(text);
+    conn.statements.set(text, stmt);
+  }
+  if (stmt.reader) return stmt.all(...params) as T[];
+  stmt.run(...params);
+  return [];
 }
 
 export const db: PrismaClient = globalForPrisma.prisma ?? createClient();

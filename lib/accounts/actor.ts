@@ -4,7 +4,7 @@
  * request (lib/http/context.ts); pages from the session (lib/session.ts) or from the
  * invitation token in the link `/p/<token>` ({@link actorFromInvitationToken}).
  */
-import { db } from "@/lib/db";
+import { db, sqlRows } from "@/lib/db";
 import { NotAuthenticatedError } from "@/lib/errors";
 import { API_TOKEN_PREFIX, hashToken, tokenMatches } from "./tokens";
 
@@ -67,10 +67,12 @@ export async function actorFromApiToken(token: string): Promise<UserActor> {
  *   re-issued one) or expired; the message says which and what to do.
  */
 export async function actorFromInvitationToken(token: string): Promise<PanelistActor> {
-  // Raw SQL: this lookup runs on every panelist request (a burst of answers), and a raw query
-  // skips Prisma's per-call query compilation, the largest cost on that path (bench/load.ts).
-  const [found] = await db.$queryRaw<{ id: string; panelId: string; pseudonym: string; tokenHash: string; expiresAt: Date | string; revokedAt: Date | string | null; lastSeenAt: Date | string | null }[]>`
-    SELECT "id", "panelId", "pseudonym", "tokenHash", "expiresAt", "revokedAt", "lastSeenAt" FROM "Invitation" WHERE "tokenHash" = ${hashToken(token)}`;
+  // A prepared statement (sqlRows): this lookup runs on every panelist request (a burst of
+  // answers), where Prisma's per-call query compilation was the largest cost (bench/load.ts).
+  const [found] = await sqlRows<{ id: string; panelId: string; pseudonym: string; tokenHash: string; expiresAt: Date | string; revokedAt: Date | string | null; lastSeenAt: Date | string | null }>(
+    `SELECT "id", "panelId", "pseudonym", "tokenHash", "expiresAt", "revokedAt", "lastSeenAt" FROM "Invitation" WHERE "tokenHash" = ?`,
+    [hashToken(token)],
+  );
   const row = found && { ...found, expiresAt: new Date(found.expiresAt), revokedAt: found.revokedAt === null ? null : new Date(found.revokedAt), lastSeenAt: found.lastSeenAt === null ? null : new Date(found.lastSeenAt) };
   if (!row || !tokenMatches(token, row.tokenHash)) {
     throw new NotAuthenticatedError("This invitation link is not valid (it may have been replaced by a newer one).");

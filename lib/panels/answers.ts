@@ -11,11 +11,11 @@
  * rationale: Delphi feedback asks those outside the IQR to explain (DESIGN.md workflow step 4).
  * Sum-of-parts answers estimate different parts, so the rule does not apply to them.
  */
-import { db, dialect, sqlTime } from "@/lib/db";
+import { db, dialect, sqlRows, sqlTime } from "@/lib/db";
 import { randomBytes } from "node:crypto";
 import { ConflictError, DomainError, InvalidInputError, type FieldError } from "@/lib/errors";
 import type { Actor, PanelistActor } from "@/lib/accounts/actor";
-import { Prisma, type Answer, type Question } from "@/lib/generated/prisma/client";
+import type { Answer, Prisma, Question } from "@/lib/generated/prisma/client";
 import type { AnswerInput } from "@/lib/validation/inputs";
 import { requirePanelist } from "./access";
 import { settleDeadlines } from "./round-closing";
@@ -225,9 +225,9 @@ function newAnswerId(): string {
  * transaction of four queries: the answer path is the hottest write of the app; bench/load.ts.)
  */
 async function storeAnswer(me: PanelistActor, input: AnswerInput, key: string | undefined): Promise<AnswerView> {
-  // One raw query for the panel's status, the question and the open round (raw: it skips
-  // Prisma's per-call query compilation on the hottest path; a panel has at most one open round).
-  const [found] = await db.$queryRaw<
+  // One prepared statement (sqlRows: the hottest path skips Prisma's per-call query compilation)
+  // for the panel's status, the question and the open round (a panel has at most one open round).
+  const [found] = await sqlRows<
     {
       panelStatus: string;
       questionId: string | null;
@@ -238,15 +238,17 @@ async function storeAnswer(me: PanelistActor, input: AnswerInput, key: string | 
       roundId: string | null;
       roundNumber: number | bigint | null;
       deadline: Date | string | null;
-    }[]
-  >`
-    SELECT p."status" AS "panelStatus", q."id" AS "questionId", q."answerFormat", q."lowerBound", q."upperBound", q."unit",
-           r."id" AS "roundId", r."number" AS "roundNumber", r."deadline"
-    FROM "Panel" p
-    LEFT JOIN "Question" q ON q."panelId" = p."id" AND q."id" = ${input.questionId}
-    LEFT JOIN "Round" r ON r."panelId" = p."id" AND r."status" = 'open'
-    WHERE p."id" = ${me.panelId}
-    LIMIT 1`;
+    }
+  >(
+    `SELECT p."status" AS "panelStatus", q."id" AS "questionId", q."answerFormat", q."lowerBound", q."upperBound", q."unit",
+            r."id" AS "roundId", r."number" AS "roundNumber", r."deadline"
+     FROM "Panel" p
+     LEFT JOIN "Question" q ON q."panelId" = p."id" AND q."id" = ?
+     LEFT JOIN "Round" r ON r."panelId" = p."id" AND r."status" = 'open'
+     WHERE p."id" = ?
+     LIMIT 1`,
+    [input.questionId, me.panelId],
+  );
   if (!found) throw new ConflictError("The panel no longer exists.");
   if (found.panelStatus === "finished") throw new ConflictError("The panel is finished; answers are no longer accepted.");
   if (!found.questionId) throw new InvalidInputError([{ field: "questionId", message: "no such question in your panel" }]);
@@ -277,16 +279,18 @@ async function storeAnswer(me: PanelistActor, input: AnswerInput, key: string | 
   for (let tries = 0; tries < 3; tries++) {
     const now = new Date();
     const at = sqlTime(now);
-    const rows = await db.$queryRaw<{ version: number | bigint }[]>`
-      INSERT INTO "Answer" ("id", "roundId", "questionId", "invitationId", "version", "value", "low", "high", "rationale", "idempotencyKey", "createdAt")
-      SELECT ${newAnswerId()}, r."id", ${question.id}, ${me.invitationId},
-             COALESCE((SELECT MAX(a."version") FROM "Answer" a WHERE a."roundId" = r."id" AND a."questionId" = ${question.id} AND a."invitationId" = ${me.invitationId}), 0) + 1,
-             ${input.value}, ${low}, ${high}, ${input.rationale}, ${key ?? null}, ${at}
-      FROM "Round" r
-      WHERE r."id" = ${round.id} AND r."status" = 'open' AND (r."deadline" IS NULL OR r."deadline" > ${at})
-      ${dialect === "postgresql" ? Prisma.sql`FOR SHARE OF r` : Prisma.empty}
-      ON CONFLICT DO NOTHING
-      RETURNING "version"`;
+    const rows = await sqlRows<{ version: number | bigint }>(
+      `INSERT INTO "Answer" ("id", "roundId", "questionId", "invitationId", "version", "value", "low", "high", "rationale", "idempotencyKey", "createdAt")
+       SELECT ?, r."id", ?, ?,
+              COALESCE((SELECT MAX(a."version") FROM "Answer" a WHERE a."roundId" = r."id" AND a."questionId" = ? AND a."invitationId" = ?), 0) + 1,
+              ?, ?, ?, ?, ?, ?
+       FROM "Round" r
+       WHERE r."id" = ? AND r."status" = 'open' AND (r."deadline" IS NULL OR r."deadline" > ?)
+       ${dialect === "postgresql" ? "FOR SHARE OF r" : ""}
+       ON CONFLICT DO NOTHING
+       RETURNING "version"`,
+      [newAnswerId(), question.id, me.invitationId, question.id, me.invitationId, input.value, low, high, input.rationale, key ?? null, at, round.id, at],
+    );
     if (rows.length === 1) {
       return {
         questionId: question.id,
