@@ -9,7 +9,9 @@
  *    server (the role needs CREATEDB) and dropped afterwards.
  * 2. Through the JSON API with an organiser's API token: PANELISTS roster members, a panel with
  *    QUESTIONS single-value questions, an invitation for each, round 1 opened.
- * 3. Load, CONCURRENCY requests in flight, spread round-robin over the instances (so one
+ * 3. Warm-up (not counted): a GET per panelist (up to CONCURRENCY × INSTANCES) and one
+ *    out-of-bounds answer per panelist, refused with 422 and not stored.
+ *    Load, CONCURRENCY requests in flight, spread round-robin over the instances (so one
  *    panelist's answers reach different instances): every panelist answers every question, then half of
  *    them revise every answer. One request in 50 is deliberately invalid (outside the plausible
  *    bounds) and must be refused with 422. Every request carries a fresh Idempotency-Key.
@@ -147,9 +149,15 @@ async function main(): Promise<number> {
     const first = setup.panelists.flatMap((p) => setup.questionIds.map((q) => attempt(p, q)));
     const revisions = setup.panelists.filter((_, i) => i % 2 === 0).flatMap((p) => setup.questionIds.map((q) => attempt(p, q)));
 
-    // Warm-up: the first requests compile routes and fill caches; not counted (and not stored:
-    // a GET of the panelist's own panel changes nothing but the invitation's last-seen time).
+    // Warm-up, not counted: the first requests compile routes and fill caches on every instance.
+    // Nothing is stored: a GET of the panelist's own panel changes only the invitation's
+    // last-seen time, and each panelist's warm-up answer is outside the plausible bounds (422).
     await pool(setup.panelists.slice(0, CONCURRENCY * INSTANCES), CONCURRENCY, (p) => nextClient().request("GET", "/api/v1/panelist/panel", { token: p.token }));
+    const warm = await pool(setup.panelists, CONCURRENCY, (p) =>
+      sendAnswer(nextClient(), { invitationId: p.invitationId, token: p.token, questionId: setup.questionIds[0], value: 9_999_999, idempotencyKey: newKey(), invalid: true }),
+    );
+    console.log(`warm-up: ${setup.panelists.length} out-of-bounds answers, ${warm.filter((w) => w.status === 422).length} refused with 422 (not stored, not counted)`);
+    if (warm.some((w) => w.status !== 422)) failures++;
 
     // The framework's own ceiling on this machine, for scale: an API path that is not in the route
     // table (404 problem+json from the catch-all route: no authentication, no database).

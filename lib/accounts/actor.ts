@@ -4,7 +4,7 @@
  * request (lib/http/context.ts); pages from the session (lib/session.ts) or from the
  * invitation token in the link `/p/<token>` ({@link actorFromInvitationToken}).
  */
-import { db, sqlRows } from "@/lib/db";
+import { db, sqlRows, sqlTime } from "@/lib/db";
 import { NotAuthenticatedError } from "@/lib/errors";
 import { API_TOKEN_PREFIX, hashToken, tokenMatches } from "./tokens";
 
@@ -81,7 +81,7 @@ export async function actorFromInvitationToken(token: string): Promise<PanelistA
   if (row.expiresAt.getTime() <= Date.now()) {
     throw new NotAuthenticatedError("This invitation has expired; ask the organiser for a new link.");
   }
-  if (isStale(row.lastSeenAt)) await db.invitation.update({ where: { id: row.id }, data: { lastSeenAt: new Date() } });
+  if (isStale(row.lastSeenAt)) await sqlRows(`UPDATE "Invitation" SET "lastSeenAt" = ? WHERE "id" = ?`, [sqlTime(new Date()), row.id]);
   return { kind: "panelist", invitationId: row.id, panelId: row.panelId, pseudonym: row.pseudonym };
 }
 
