@@ -299,7 +299,13 @@ describe("triangulation in the browser", () => {
     const errors: string[] = [];
     page.on("pageerror", (e) => errors.push(e.message));
     await page.goto(`${baseURL}/reports/${panelId}`);
-    await page.locator(`[data-report-question="${questionId}"] a`).click();
+    await page
+      .locator(`[data-report-question="${questionId}"] a`)
+      .click()
+      .catch(async (err: Error) => {
+        // Say what the page showed instead (a flaky run left only a timeout to go on).
+        throw new Error(`${err.message}\npage ${page.url()}:\n${(await page.locator("body").innerText().catch(() => "?")).slice(0, 800)}`);
+      });
     await page.waitForURL(new RegExp(`/reports/${panelId}/questions/${questionId}$`));
     await page.locator('[data-stat="blend-figure"]').waitFor({ state: "visible" });
 
