@@ -97,7 +97,8 @@ export async function startServer(o: ServerOptions, timeoutMs = 60_000): Promise
   for (;;) {
     if (child.exitCode !== null || child.signalCode !== null) throw new Error(`server exited (${child.exitCode ?? child.signalCode})`);
     try {
-      const res = await fetch(`${baseURL}/api/v1/rule-defaults`);
+      // No keep-alive: an idle pooled socket could be closed by the server before the next use.
+      const res = await fetch(`${baseURL}/api/v1/rule-defaults`, { headers: { connection: "close" } });
       if (res.status === 200) break;
     } catch {
       // not listening yet

@@ -4,12 +4,25 @@ import { PrismaClient } from "./generated/prisma/client";
 import { PrismaClient as PostgresPrismaClient } from "./generated/prisma-pg/client";
 import type { SqlDriverAdapter, Transaction } from "@prisma/driver-adapter-utils";
 import type BetterSqlite3 from "better-sqlite3";
+import { createHash } from "node:crypto";
+import pg from "pg";
 import { ensureDatabaseFile, isPostgresUrl } from "./env-db";
 import { env } from "./env";
 import { numberedPlaceholders } from "./sql-text";
 
-/** The one Prisma client of the process (kept on globalThis so dev reloads reuse it). */
-const globalForPrisma = globalThis as unknown as { prisma?: PrismaClient };
+/**
+ * The one Prisma client of the process and what hangs on its connection: the SQLite connection
+ * with its prepared statements and the open-transaction gate, or the PostgreSQL pool. Kept on
+ * globalThis, so that the dev server's module reloads reuse them.
+ */
+interface Connection {
+  prisma?: PrismaClient;
+  sqlite?: { adapter: SqlDriverAdapter & { client: BetterSqlite3.Database }; statements: Map<string, BetterSqlite3.Statement> };
+  /** Settles when the interactive transaction open on the SQLite connection ends; null when none is open. */
+  openTransaction: Promise<void> | null;
+  postgresPool?: pg.Pool;
+}
+const shared: Connection = ((globalThis as unknown as { triangulateDb?: Connection }).triangulateDb ??= { openTransaction: null });
 
 /** Which database this process talks to: DATABASE_URL naming PostgreSQL, else the SQLite file. */
 export const dialect: "sqlite" | "postgresql" = isPostgresUrl(process.env.DATABASE_URL) ? "postgresql" : "sqlite";
@@ -19,8 +32,10 @@ export const dialect: "sqlite" | "postgresql" = isPostgresUrl(process.env.DATABA
  * SQLite, the ISO text with `+00:00` that the better-sqlite3 adapter stores for Prisma DateTime
  * fields, so comparisons in SQL are between strings of one format.
  */
-export function sqlTime(d: Date): Date | string {
-  return dialect === "postgresql" ? d : d.toISOString().replace("Z", "+00:00");
+export function sqlTime(d: Date): string {
+  // PostgreSQL: UTC as text, for a `timestamp(3)` column as Prisma stores it (a Date parameter
+  // would be sent in the server process's local time zone).
+  return dialect === "postgresql" ? d.toISOString().replace("T", " ").replace("Z", "") : d.toISOString().replace("Z", "+00:00");
 }
 
 /**
@@ -54,28 +69,29 @@ export function connectionPragmas(): string[] {
 function createClient(): PrismaClient {
   const { DATABASE_URL, TRIANGULATE_PG_POOL } = env();
   if (dialect === "postgresql") {
-    const adapter = new PrismaPg({ connectionString: DATABASE_URL, max: TRIANGULATE_PG_POOL });
-    return new PostgresPrismaClient({ adapter }) as unknown as PrismaClient;
+    shared.postgresPool = new pg.Pool({ connectionString: DATABASE_URL, max: TRIANGULATE_PG_POOL });
+    return new PostgresPrismaClient({ adapter: new PrismaPg(shared.postgresPool) }) as unknown as PrismaClient;
   }
   const factory = new PrismaBetterSQLite3({ url: `file:${ensureDatabaseFile()}`, timeout: 5000 });
   const connect = factory.connect.bind(factory);
   factory.connect = async () => {
     const adapter = await connect();
     await adapter.executeScript(connectionPragmas().map((p) => `PRAGMA ${p};`).join("\n"));
-    sqlite = { adapter: adapter as SqlDriverAdapter & { client: BetterSqlite3.Database }, statements: new Map() };
+    shared.sqlite = { adapter: adapter as SqlDriverAdapter & { client: BetterSqlite3.Database }, statements: new Map() };
     holdOutsideStatements(adapter);
     return adapter;
   };
   return new PrismaClient({ adapter: factory });
 }
 
-/** The SQLite connection once Prisma has opened it, with the statements prepared on it so far. */
-let sqlite: { adapter: SqlDriverAdapter & { client: BetterSqlite3.Database }; statements: Map<string, BetterSqlite3.Statement> } | undefined;
-/** Settles when the interactive transaction open on the SQLite connection ends; null when none is open. */
-let openTransaction: Promise<void> | null = null;
+/** PostgreSQL `timestamp` (OID 1114) as UTC, the way Prisma writes it; other types as node-postgres parses them. */
+const postgresTypes = {
+  getTypeParser: ((oid: number, format?: "text" | "binary") =>
+    oid === 1114 ? (text: string) => new Date(`${text.replace(" ", "T")}Z`) : pg.types.getTypeParser(oid, format)) as typeof pg.types.getTypeParser,
+};
 
 async function outsideTransactions(): Promise<void> {
-  while (openTransaction) await openTransaction;
+  while (shared.openTransaction) await shared.openTransaction;
 }
 
 /**
@@ -99,9 +115,9 @@ function holdOutsideStatements(adapter: SqlDriverAdapter): void {
   adapter.startTransaction = async (isolationLevel) => {
     const tx: Transaction = await start(isolationLevel);
     let ended!: () => void;
-    openTransaction = new Promise((resolve) => (ended = resolve));
+    shared.openTransaction = new Promise((resolve) => (ended = resolve));
     const finish = () => {
-      openTransaction = null;
+      shared.openTransaction = null;
       ended();
     };
     for (const method of ["commit", "rollback"] as const) {
@@ -121,15 +137,20 @@ function holdOutsideStatements(adapter: SqlDriverAdapter): void {
 /**
  * Runs one statement (`?` placeholders, double-quoted names; lib/sql-text.ts) and returns its
  * rows. On SQLite it runs directly on Prisma's own connection, with the statement prepared once
- * and kept, outside any open transaction: no query compilation, no per-call preparation. This
+ * and kept, outside any open transaction; on PostgreSQL, on a connection of Prisma's own pool as
+ * a named prepared statement: no query compilation, no per-call preparation. This
  * is for the few statements every panelist request runs (bench/load.ts profiles them); the rest
- * of the app uses the Prisma client. Integers come back as bigint on SQLite and as numbers on
- * PostgreSQL, timestamps as text on SQLite and as Dates on PostgreSQL: callers convert.
+ * of the app uses the Prisma client. Integers come back as bigint on SQLite and as numbers (or, for
+ * bigint results such as COUNT, text) on PostgreSQL, timestamps as text on SQLite and as Dates on
+ * PostgreSQL: callers convert. Pass timestamps as {@link sqlTime}.
  */
 export async function sqlRows<T = Record<string, unknown>>(text: string, params: readonly unknown[] = []): Promise<T[]> {
-  if (dialect === "postgresql") return db.$queryRawUnsafe<T[]>(numberedPlaceholders(text), ...params);
-  if (!sqlite) await db.$connect();
-  const conn = sqlite!;
+  if (dialect === "postgresql") {
+    const name = `q${createHash("sha1").update(text).digest("hex").slice(0, 16)}`;
+    return (await shared.postgresPool!.query({ name, text: numberedPlaceholders(text), values: params as unknown[], types: postgresTypes })).rows as T[];
+  }
+  if (!shared.sqlite) await db.$connect();
+  const conn = shared.sqlite!;
   await outsideTransactions();
   let stmt = conn.statements.get(text);
   if (!stmt) {
@@ -141,5 +162,4 @@ export async function sqlRows<T = Record<string, unknown>>(text: string, params:
   return [];
 }
 
-export const db: PrismaClient = globalForPrisma.prisma ?? createClient();
-if (process.env.NODE_ENV !== "production") globalForPrisma.prisma = db;
+export const db: PrismaClient = (shared.prisma ??= createClient());

@@ -19,6 +19,6 @@ export function migratedSqliteDatabase(): string {
   }
   conn.close();
   process.env.DATABASE_URL = `file:${file}`;
-  delete (globalThis as { prisma?: unknown }).prisma;
+  delete (globalThis as { triangulateDb?: unknown }).triangulateDb;
   return file;
 }

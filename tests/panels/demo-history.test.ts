@@ -37,7 +37,7 @@ beforeAll(async () => {
   conn.exec(readFileSync(path.join(__dirname, "..", "..", "prisma", "migrations", "0001_init", "migration.sql"), "utf8"));
   conn.close();
   process.env.DATABASE_URL = `file:${file}`;
-  delete (globalThis as { prisma?: unknown }).prisma;
+  delete (globalThis as { triangulateDb?: unknown }).triangulateDb;
   const { db } = await import("../../lib/db");
   // Refuse to go on unless the client opened this test's file.
   expect((await db.$queryRawUnsafe<{ file: string }[]>("PRAGMA database_list")).map((d) => d.file)).toContain(file);
