@@ -11,6 +11,7 @@ function app(name: string, groupOrder: number) {
       name,
       include: ["tests/app/**/*.test.ts"],
       globalSetup: ["tests/app/server-setup.ts"],
+      setupFiles: ["tests/app/fresh-connections.ts"],
       fileParallelism: false,
       testTimeout: 120_000,
       hookTimeout: 300_000,

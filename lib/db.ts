@@ -70,7 +70,8 @@ function createClient(): PrismaClient {
   const { DATABASE_URL, TRIANGULATE_PG_POOL } = env();
   if (dialect === "postgresql") {
     shared.postgresPool = new pg.Pool({ connectionString: DATABASE_URL, max: TRIANGULATE_PG_POOL });
-    return new PostgresPrismaClient({ adapter: new PrismaPg(shared.postgresPool) }) as unknown as PrismaClient;
+    // disposeExternalPool: $disconnect (the CLI commands end with it) also closes the pool.
+    return new PostgresPrismaClient({ adapter: new PrismaPg(shared.postgresPool, { disposeExternalPool: true }) }) as unknown as PrismaClient;
   }
   const factory = new PrismaBetterSQLite3({ url: `file:${ensureDatabaseFile()}`, timeout: 5000 });
   const connect = factory.connect.bind(factory);
