@@ -9,7 +9,7 @@
  */
 import Database from "better-sqlite3";
 import pg from "pg";
-import { numberedPlaceholders } from "../lib/sql-text";
+import { numberedPlaceholders, timestampParam } from "../lib/sql-text";
 
 export type Dialect = "sqlite" | "postgresql";
 
@@ -29,10 +29,6 @@ export function dialectOf(databaseUrl: string): Dialect {
 // SQLite stores Prisma DateTime values as ISO text; these columns come back as Dates.
 const TIME_COLUMN = /(At|deadline|windowStart)$/;
 
-/** A timestamp as a parameter, in the form each database stores for Prisma DateTime fields. */
-export function sqlTimestamp(dialect: Dialect, d: Date): string {
-  return dialect === "postgresql" ? d.toISOString().replace("T", " ").replace("Z", "") : d.toISOString().replace("Z", "+00:00");
-}
 
 export async function openSql(databaseUrl: string, options: { readonly?: boolean } = {}): Promise<SqlConnection> {
   if (dialectOf(databaseUrl) === "sqlite") {
@@ -41,7 +37,7 @@ export async function openSql(databaseUrl: string, options: { readonly?: boolean
       dialect: "sqlite",
       async query<T>(text: string, params: readonly unknown[] = []) {
         const stmt = conn.prepare(text);
-        const args = params.map((p) => (p instanceof Date ? sqlTimestamp("sqlite", p) : p));
+        const args = params.map((p) => (p instanceof Date ? timestampParam("sqlite", p) : p));
         if (!stmt.reader) {
           stmt.run(...args);
           return [] as T[];
@@ -70,7 +66,7 @@ export async function openSql(databaseUrl: string, options: { readonly?: boolean
   return {
     dialect: "postgresql",
     async query<T>(text: string, params: readonly unknown[] = []) {
-      const args = params.map((p) => (p instanceof Date ? sqlTimestamp("postgresql", p) : p));
+      const args = params.map((p) => (p instanceof Date ? timestampParam("postgresql", p) : p));
       return (await client.query(numberedPlaceholders(text), args as unknown[])).rows as T[];
     },
     async close() {

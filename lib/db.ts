@@ -8,7 +8,7 @@ import { createHash } from "node:crypto";
 import pg from "pg";
 import { ensureDatabaseFile, isPostgresUrl } from "./env-db";
 import { env } from "./env";
-import { numberedPlaceholders } from "./sql-text";
+import { numberedPlaceholders, timestampParam } from "./sql-text";
 
 /**
  * The one Prisma client of the process and what hangs on its connection: the SQLite connection
@@ -27,15 +27,9 @@ const shared: Connection = ((globalThis as unknown as { triangulateDb?: Connecti
 /** Which database this process talks to: DATABASE_URL naming PostgreSQL, else the SQLite file. */
 export const dialect: "sqlite" | "postgresql" = isPostgresUrl(process.env.DATABASE_URL) ? "postgresql" : "sqlite";
 
-/**
- * A timestamp as a raw-query parameter: a Date for PostgreSQL (a `timestamp(3)` column); for
- * SQLite, the ISO text with `+00:00` that the better-sqlite3 adapter stores for Prisma DateTime
- * fields, so comparisons in SQL are between strings of one format.
- */
+/** A timestamp as a parameter of {@link sqlRows} on this process's database (lib/sql-text.ts). */
 export function sqlTime(d: Date): string {
-  // PostgreSQL: UTC as text, for a `timestamp(3)` column as Prisma stores it (a Date parameter
-  // would be sent in the server process's local time zone).
-  return dialect === "postgresql" ? d.toISOString().replace("T", " ").replace("Z", "") : d.toISOString().replace("Z", "+00:00");
+  return timestampParam(dialect, d);
 }
 
 /**
