@@ -86,17 +86,22 @@ export function createAccount(name: string, role: "organiser" | "reviewer" = "or
   return user;
 }
 
-/** Signs in through next-auth's credentials callback; returns the session cookie header. */
-export async function signIn(user: TestUser): Promise<string> {
-  const csrfRes = await fetch(`${baseURL}/api/auth/csrf`);
+/** One sign-in attempt through next-auth's credentials callback (CSRF token first), on the server at `base`. */
+export async function signInAttempt(email: string, password: string, base = baseURL): Promise<Response> {
+  const csrfRes = await fetch(`${base}/api/auth/csrf`);
   const { csrfToken } = (await csrfRes.json()) as { csrfToken: string };
   const csrfCookie = csrfRes.headers.getSetCookie().map((c) => c.split(";")[0]).join("; ");
-  const res = await fetch(`${baseURL}/api/auth/callback/credentials`, {
+  return fetch(`${base}/api/auth/callback/credentials`, {
     method: "POST",
     redirect: "manual",
     headers: { "content-type": "application/x-www-form-urlencoded", cookie: csrfCookie },
-    body: new URLSearchParams({ csrfToken, email: user.email, password: user.password, json: "true" }).toString(),
+    body: new URLSearchParams({ csrfToken, email, password, json: "true" }).toString(),
   });
+}
+
+/** Signs in through next-auth's credentials callback; returns the session cookie header. */
+export async function signIn(user: TestUser): Promise<string> {
+  const res = await signInAttempt(user.email, user.password);
   const session = res.headers.getSetCookie().find((c) => c.startsWith("next-auth.session-token="));
   if (!session) throw new Error(`sign-in of ${user.email} gave no session cookie (status ${res.status})`);
   return session.split(";")[0];

@@ -14,7 +14,7 @@ import { randomBytes } from "node:crypto";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { inject } from "vitest";
 import { freePort, startServer, type RunningServer } from "../../bench/harness";
-import { api, apiTokenFor, baseURL, clearDatabase, createAccount, databaseUrl, signIn, sql, type TestUser } from "./api-client";
+import { api, apiTokenFor, baseURL, clearDatabase, createAccount, databaseUrl, signIn, signInAttempt, sql, type TestUser } from "./api-client";
 
 const A = baseURL;
 let B: string;
@@ -123,17 +123,7 @@ describe("two instances sharing one database", () => {
 
   it("sign-in attempts are counted across both instances: the 11th for one account is 429 on either", async () => {
     const user = createAccount("Joss Penhale");
-    const attempt = async (base: string, password: string) => {
-      const csrfRes = await fetch(`${base}/api/auth/csrf`);
-      const { csrfToken } = (await csrfRes.json()) as { csrfToken: string };
-      const csrfCookie = csrfRes.headers.getSetCookie().map((c) => c.split(";")[0]).join("; ");
-      return fetch(`${base}/api/auth/callback/credentials`, {
-        method: "POST",
-        redirect: "manual",
-        headers: { "content-type": "application/x-www-form-urlencoded", cookie: csrfCookie },
-        body: new URLSearchParams({ csrfToken, email: user.email, password, json: "true" }).toString(),
-      });
-    };
+    const attempt = (base: string, password: string) => signInAttempt(user.email, password, base);
     for (let i = 0; i < 10; i++) expect((await attempt(i % 2 ? A : B, `wrong-${i}`)).status).not.toBe(429);
     const onA = await attempt(A, user.password);
     const onB = await attempt(B, user.password);

@@ -9,7 +9,7 @@
 import { randomBytes } from "node:crypto";
 import http from "node:http";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { api, apiTokenFor, baseURL, clearDatabase, createAccount, dialect, openDb, signIn, sql, type TestUser } from "./api-client";
+import { api, apiTokenFor, baseURL, clearDatabase, createAccount, dialect, openDb, signIn, signInAttempt, sql, type TestUser } from "./api-client";
 
 let organiser: TestUser;
 let token = "";
@@ -159,17 +159,7 @@ describe("request bodies", () => {
 describe("rate limits", () => {
   it("sign-in: after 10 attempts for one account from one address, the 11th is 429 with Retry-After, even with the right password", async () => {
     const user = createAccount("Tomas Brill");
-    const attempt = async (password: string) => {
-      const csrfRes = await fetch(`${baseURL}/api/auth/csrf`);
-      const { csrfToken } = (await csrfRes.json()) as { csrfToken: string };
-      const csrfCookie = csrfRes.headers.getSetCookie().map((c) => c.split(";")[0]).join("; ");
-      return fetch(`${baseURL}/api/auth/callback/credentials`, {
-        method: "POST",
-        redirect: "manual",
-        headers: { "content-type": "application/x-www-form-urlencoded", cookie: csrfCookie },
-        body: new URLSearchParams({ csrfToken, email: user.email, password, json: "true" }).toString(),
-      });
-    };
+    const attempt = (password: string) => signInAttempt(user.email, password);
     for (let i = 0; i < 10; i++) {
       const res = await attempt(`wrong-${i}-${randomBytes(4).toString("hex")}`);
       expect(res.status).not.toBe(429);
