@@ -81,13 +81,13 @@ export interface RunningServer {
   stop(signal?: NodeJS.Signals): Promise<void>;
 }
 
-/** Starts `next start` on 127.0.0.1 and waits until it answers. */
+/** Starts the production server (`triangulate serve`, lib/http/server.ts) on 127.0.0.1 and waits until it answers. */
 export async function startServer(o: ServerOptions, timeoutMs = 60_000): Promise<RunningServer> {
   const baseURL = `http://127.0.0.1:${o.port}`;
-  // `next start` runs the server in the same process (no worker), so a signal to the child reaches it.
+  // The server runs in this child process (Next.js included, no worker), so a signal to the child reaches it.
   // SERVER_NODE_ARGS, e.g. "--cpu-prof --cpu-prof-dir=/tmp/prof", profiles the server under load.
   const nodeArgs = (process.env.SERVER_NODE_ARGS ?? "").split(" ").filter(Boolean);
-  const child = spawn(process.execPath, [...nodeArgs, path.join(root, "node_modules", "next", "dist", "bin", "next"), "start", "-p", String(o.port), "-H", "127.0.0.1"], {
+  const child = spawn(process.execPath, [...nodeArgs, path.join(root, "bin", "triangulate.mjs"), "serve", "--port", String(o.port), "--hostname", "127.0.0.1"], {
     cwd: root,
     env: serverEnv(o),
     stdio: ["ignore", "ignore", "inherit"],

@@ -3,7 +3,7 @@
  *
  * 1. Builds the production app into NEXT_DIST_DIR (default .next-load) unless a build is there
  *    (LOAD_REBUILD=1 forces one), migrates a fresh database and starts INSTANCES app instances
- *    (`next start`, default 1) on free 127.0.0.1 ports, all on that one database. The database is
+ *    (`triangulate serve`, default 1) on free 127.0.0.1 ports, all on that one database. The database is
  *    a SQLite file in a temporary folder, or, with `--database postgresql://…` (or
  *    LOAD_DATABASE_URL), a new database `triangulate_load_<time>` created on that PostgreSQL
  *    server (the role needs CREATEDB) and dropped afterwards.

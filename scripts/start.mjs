@@ -52,6 +52,7 @@ if (!existsSync(buildId) || Math.max(...sources) > statSync(buildId).mtimeMs) {
   run(bin("next"), ["build"], env);
 }
 
-const server = spawn(bin("next"), ["start", "-p", env.PORT], { stdio: "inherit", env });
+// The production server: Next.js, with the answer route served directly (lib/http/server.ts).
+const server = spawn(process.execPath, [path.join(root, "bin", "triangulate.mjs"), "serve", "--port", env.PORT], { stdio: "inherit", env });
 for (const sig of ["SIGINT", "SIGTERM"]) process.on(sig, () => server.kill(sig));
 server.on("exit", (code) => process.exit(code ?? 0));

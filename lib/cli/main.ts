@@ -41,6 +41,7 @@ const COMMANDS: Record<string, CommandEntry> = {
   },
   migrate: { summary: "apply the pending migrations to the database (SQLite or PostgreSQL)", load: async () => (await import("./migrate")).run },
   backup: { summary: "copy the live database to FILE (SQLite online backup)", load: async () => (await import("./admin")).backup },
+  serve: { summary: "serve the production build ([--port P] [--hostname H]; npm start builds and serves)", load: async () => (await import("./serve")).run },
   demo: { summary: "load the demo panel of Quillmoor Instruments ([--if-empty])", load: async () => (await import("./admin")).demo },
 };
 

@@ -1,5 +1,5 @@
 /**
- * Two app instances on one database: the suite's server (instance A) and a second `next start`
+ * Two app instances on one database: the suite's server (instance A) and a second `triangulate serve`
  * on another port (instance B) with the same database and secret, as behind a load balancer.
  * Nothing either instance keeps in memory may make them disagree:
  * - a session cookie issued by A is accepted by B;

@@ -78,7 +78,7 @@ export default async function setup(project: TestProject) {
   }
   process.env.TRIANGULATE_BUILT_IN_THIS_RUN = "1";
 
-  const server = spawn(bin("next"), ["start", "-p", String(port), "-H", "127.0.0.1"], {
+  const server = spawn(process.execPath, [path.join(root, "bin", "triangulate.mjs"), "serve", "--port", String(port), "--hostname", "127.0.0.1"], {
     cwd: root,
     env,
     stdio: ["ignore", "inherit", "inherit"],

@@ -1,5 +1,5 @@
 /**
- * Admin commands of the CLI, run as a user would: `node bin/triangulate.mjs …` with
+ * Admin commands of the CLI (and the usage check of `serve`), run as a user would: `node bin/triangulate.mjs …` with
  * DATABASE_URL pointing at a fresh, migrated SQLite file. The demo's stored round statistics
  * are checked against R (quantile type 7, median, IQR, sd via Rscript) on the answers found in
  * the database.
@@ -172,5 +172,16 @@ describe("backup", () => {
     expect(again.code).toBe(1);
     expect(again.err).toMatch(/already exists/);
     expect(run(["backup"]).code).toBe(2);
+  });
+});
+
+describe("serve", () => {
+  // Serving itself is what every app test runs against (tests/app/server-setup.ts); here only the usage.
+  it("refuses a bad port or an unknown option with exit 2, before starting anything", () => {
+    for (const args of [["--port", "0"], ["--port", "70000"], ["--port", "http"], ["--verbose"]]) {
+      const r = run(["serve", ...args]);
+      expect(r.code, args.join(" ")).toBe(2);
+      expect(r.err).toMatch(/usage: triangulate serve/);
+    }
   });
 });
