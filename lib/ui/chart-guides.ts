@@ -1,9 +1,13 @@
 /**
  * A chart.js plugin that draws horizontal guide lines (e.g. z = ±1.96, tracking signal ±4)
  * across the whole plot area, whatever the number of categories (a one-round chart included),
- * with a small label at the right end. Pair it with `guideRange` so the y axis shows them.
+ * with a small label at the right end. Pair it with `guideRange` so the y axis shows them;
+ * `guidedLineChart` does both.
  */
-import type { Plugin } from "chart.js";
+import { Chart, CategoryScale, Legend, LinearScale, LineController, LineElement, PointElement, Tooltip, type ChartDataset, type Plugin } from "chart.js";
+import { resizeForPrint } from "./chart-print";
+
+Chart.register(LineController, LineElement, PointElement, LinearScale, CategoryScale, Tooltip, Legend);
 
 export interface Guide {
   readonly y: number;
@@ -46,4 +50,34 @@ export function guideRange(values: readonly (number | null)[], guides: readonly 
   const hi = Math.max(...all);
   const pad = (hi - lo) * 0.08 || 1;
   return { suggestedMin: lo - pad, suggestedMax: hi + pad };
+}
+
+/**
+ * A line chart on `canvas` with one category per label, the given lines, the y axis titled
+ * `yTitle` and stretched to show every value and every guide, the guides drawn across, and a
+ * tooltip for the whole category; redrawn at print size when printed. Returns the clean-up for a
+ * React effect.
+ */
+export function guidedLineChart(
+  canvas: HTMLCanvasElement,
+  o: { labels: readonly string[]; datasets: ChartDataset<"line", (number | null)[]>[]; yTitle: string; guides: readonly Guide[] },
+): () => void {
+  const range = guideRange(o.datasets.flatMap((d) => d.data), o.guides);
+  const chart = new Chart(canvas, {
+    type: "line",
+    data: { labels: [...o.labels], datasets: o.datasets },
+    options: {
+      responsive: true,
+      maintainAspectRatio: false,
+      animation: false,
+      scales: { x: { offset: true }, y: { ...range, title: { display: true, text: o.yTitle } } },
+      plugins: { tooltip: { mode: "index", intersect: false } },
+    },
+    plugins: [guidesPlugin(o.guides)],
+  });
+  const unprint = resizeForPrint(chart);
+  return () => {
+    unprint();
+    chart.destroy();
+  };
 }

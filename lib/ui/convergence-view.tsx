@@ -5,6 +5,7 @@
  * total; then each stopping rule's verdict with the numbers behind it and the recommendation,
  * worded as support for the organiser's decision.
  */
+import type { ConvergencePoint } from "@/lib/panels/rounds";
 import type { ConvergencePageView } from "@/lib/panels/views";
 import { STOPPING_RULE_DEFAULTS as D, type QuestionVerdict } from "@/lib/stats/stopping-rules";
 import ConvergenceChart from "./convergence-chart";
@@ -61,6 +62,74 @@ function QuestionVerdictText({ v, unitLabel }: { v: QuestionVerdict; unitLabel: 
   );
 }
 
+/**
+ * The panel figure across closed rounds: the median with its interquartile band, or for a
+ * sum-of-parts question the total of the parts (a band between panelists' parts means nothing).
+ */
+export function RoundsChart({ rounds, unit, sum }: { rounds: readonly ConvergencePoint[]; unit: string; sum: boolean }) {
+  return (
+    <ConvergenceChart
+      unit={unit}
+      label={sum ? "Total of the parts" : "Median"}
+      points={rounds.map((r) => ({ round: r.round, median: sum ? r.total : r.median, q1: sum ? null : r.q1, q3: sum ? null : r.q3 }))}
+    />
+  );
+}
+
+/** The statistics of each closed round: n, the median (the total for sum-of-parts), Q1, Q3, IQR, relative IQR and CV. */
+export function RoundStatsTable({ rounds, sum }: { rounds: readonly ConvergencePoint[]; sum: boolean }) {
+  return (
+    <div className="table-scroll">
+      <table className="convergence-table">
+        <thead>
+          <tr>
+            <th>Round</th>
+            <th className="num">n</th>
+            <th className="num">{sum ? "Total" : "Median"}</th>
+            <th className="num">Q1</th>
+            <th className="num">Q3</th>
+            <th className="num">IQR</th>
+            <th className="num">Relative IQR</th>
+            <th className="num">CV</th>
+          </tr>
+        </thead>
+        <tbody>
+          {rounds.map((r) => (
+            <tr key={r.round} data-round={r.round}>
+              <td>Round {r.round}</td>
+              <td className="num">
+                <Figure value={r.n} name="n" />
+              </td>
+              <td className="num">
+                <Figure value={sum ? r.total : r.median} name="median" />
+              </td>
+              <td className="num">
+                <Figure value={r.q1} name="q1" />
+              </td>
+              <td className="num">
+                <Figure value={r.q3} name="q3" />
+              </td>
+              <td className="num">
+                <Figure value={r.iqr} name="iqr" />
+              </td>
+              <td className="num">
+                <Figure value={r.relativeIqr} name="relativeIqr" digits={3} />
+              </td>
+              <td className="num">
+                <Figure value={r.cv} name="cv" digits={3} />
+              </td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      <p className="hint">
+        Quartiles by Hyndman &amp; Fan (1996) definition 7 (R&apos;s default). Relative IQR = IQR / |median|; CV =
+        sample standard deviation / mean. A dash means the figure is not defined (e.g. CV of a single answer).
+      </p>
+    </div>
+  );
+}
+
 export default function ConvergenceView({ view, reader = "organiser" }: { view: ConvergencePageView; reader?: "organiser" | "reviewer" }) {
   const closedRounds = Math.max(0, ...view.questions.map((q) => q.rounds.length));
   if (closedRounds === 0) {
@@ -82,11 +151,7 @@ export default function ConvergenceView({ view, reader = "organiser" }: { view: 
             <p className="muted small">
               Unit: {q.unit}. {sum ? "Sum of parts: the panel figure is the total of the parts." : "Shared quantity: the panel figure is the median."}
             </p>
-            <ConvergenceChart
-              unit={q.unit}
-              label={sum ? "Total of the parts" : "Median"}
-              points={q.rounds.map((r) => ({ round: r.round, median: sum ? r.total : r.median, q1: sum ? null : r.q1, q3: sum ? null : r.q3 }))}
-            />
+            <RoundsChart rounds={q.rounds} unit={q.unit} sum={sum} />
             {sum ? (
               <div className="table-scroll">
                 <table className="parts-table">
@@ -133,54 +198,7 @@ export default function ConvergenceView({ view, reader = "organiser" }: { view: 
                 </table>
               </div>
             ) : (
-              <div className="table-scroll">
-                <table className="convergence-table">
-                  <thead>
-                    <tr>
-                      <th>Round</th>
-                      <th className="num">n</th>
-                      <th className="num">Median</th>
-                      <th className="num">Q1</th>
-                      <th className="num">Q3</th>
-                      <th className="num">IQR</th>
-                      <th className="num">Relative IQR</th>
-                      <th className="num">CV</th>
-                    </tr>
-                  </thead>
-                  <tbody>
-                    {q.rounds.map((r) => (
-                      <tr key={r.round} data-round={r.round}>
-                        <td>Round {r.round}</td>
-                        <td className="num">
-                          <Figure value={r.n} name="n" />
-                        </td>
-                        <td className="num">
-                          <Figure value={r.median} name="median" />
-                        </td>
-                        <td className="num">
-                          <Figure value={r.q1} name="q1" />
-                        </td>
-                        <td className="num">
-                          <Figure value={r.q3} name="q3" />
-                        </td>
-                        <td className="num">
-                          <Figure value={r.iqr} name="iqr" />
-                        </td>
-                        <td className="num">
-                          <Figure value={r.relativeIqr} name="relativeIqr" digits={3} />
-                        </td>
-                        <td className="num">
-                          <Figure value={r.cv} name="cv" digits={3} />
-                        </td>
-                      </tr>
-                    ))}
-                  </tbody>
-                </table>
-                <p className="hint">
-                  Quartiles by Hyndman &amp; Fan (1996) definition 7 (R&apos;s default). Relative IQR = IQR / |median|; CV =
-                  sample standard deviation / mean. A dash means the figure is not defined (e.g. CV of a single answer).
-                </p>
-              </div>
+              <RoundStatsTable rounds={q.rounds} sum={false} />
             )}
             {view.threePoint[q.questionId]?.length ? (
               <div className="table-scroll">

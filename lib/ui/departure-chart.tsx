@@ -7,11 +7,7 @@
  * lib/blend `departure`; the chart only draws them.
  */
 import { useEffect, useRef } from "react";
-import { resizeForPrint } from "./chart-print";
-import { guidesPlugin, guideRange } from "./chart-guides";
-import { Chart, LineController, LineElement, PointElement, LinearScale, CategoryScale, Tooltip, Legend } from "chart.js";
-
-Chart.register(LineController, LineElement, PointElement, LinearScale, CategoryScale, Tooltip, Legend);
+import { guidedLineChart } from "./chart-guides";
 
 export interface DepartureSeries {
   readonly label: string;
@@ -31,38 +27,23 @@ export default function DepartureChart({ rounds, answers, panel }: { rounds: rea
       { y: 1.2816, label: "+1.28 (80%)", dash: [2, 3] },
       { y: -1.2816, label: "−1.28 (80%)", dash: [2, 3] },
     ];
-    const range = guideRange([...answers.flatMap((a) => a.z), ...panel], guides);
-    const chart = new Chart(canvas.current, {
-      type: "line",
-      data: {
-        labels: rounds.map((r) => `Round ${r}`),
-        datasets: [
-          ...answers.map((a, i) => ({
-            label: a.label,
-            data: [...a.z],
-            borderColor: GREYS[i % GREYS.length],
-            backgroundColor: GREYS[i % GREYS.length],
-            borderWidth: 1,
-            pointRadius: 3,
-            fill: false,
-          })),
-          { label: "Panel figure", data: [...panel], borderColor: "#8a4b14", backgroundColor: "#8a4b14", borderWidth: 3, pointRadius: 5, fill: false },
-        ],
-      },
-      options: {
-        responsive: true,
-        maintainAspectRatio: false,
-        animation: false,
-        scales: { x: { offset: true }, y: { ...range, title: { display: true, text: "z (baseline standard errors)" } } },
-        plugins: { tooltip: { mode: "index", intersect: false } },
-      },
-      plugins: [guidesPlugin(guides)],
+    return guidedLineChart(canvas.current, {
+      labels: rounds.map((r) => `Round ${r}`),
+      datasets: [
+        ...answers.map((a, i) => ({
+          label: a.label,
+          data: [...a.z],
+          borderColor: GREYS[i % GREYS.length],
+          backgroundColor: GREYS[i % GREYS.length],
+          borderWidth: 1,
+          pointRadius: 3,
+          fill: false,
+        })),
+        { label: "Panel figure", data: [...panel], borderColor: "#8a4b14", backgroundColor: "#8a4b14", borderWidth: 3, pointRadius: 5, fill: false },
+      ],
+      yTitle: "z (baseline standard errors)",
+      guides,
     });
-    const unprint = resizeForPrint(chart);
-    return () => {
-      unprint();
-      chart.destroy();
-    };
   }, [rounds, answers, panel]);
   return (
     <figure className="chart-figure">

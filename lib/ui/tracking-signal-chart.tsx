@@ -6,11 +6,7 @@
  * `accuracyHistory`; the chart only draws them.
  */
 import { useEffect, useRef } from "react";
-import { resizeForPrint } from "./chart-print";
-import { guidesPlugin, guideRange } from "./chart-guides";
-import { Chart, LineController, LineElement, PointElement, LinearScale, CategoryScale, Tooltip, Legend } from "chart.js";
-
-Chart.register(LineController, LineElement, PointElement, LinearScale, CategoryScale, Tooltip, Legend);
+import { guidedLineChart } from "./chart-guides";
 
 export interface SignalSeries {
   readonly label: string;
@@ -32,38 +28,21 @@ export default function TrackingSignalChart({ labels, series, limit }: { labels:
       { y: limit, label: `+${limit} (common practice)`, dash: [6, 3] },
       { y: -limit, label: `−${limit}`, dash: [6, 3] },
     ];
-    const range = guideRange(series.flatMap((s) => s.values), guides);
-    const chart = new Chart(canvas.current, {
-      type: "line",
-      data: {
-        labels: [...labels],
-        datasets: [
-          ...series.map((s, i) => ({
-            label: s.label,
-            data: [...s.values],
-            borderColor: STYLE[i % STYLE.length].color,
-            backgroundColor: STYLE[i % STYLE.length].color,
-            borderDash: STYLE[i % STYLE.length].dash,
-            borderWidth: 2,
-            pointRadius: 3,
-            fill: false,
-          })),
-        ],
-      },
-      options: {
-        responsive: true,
-        maintainAspectRatio: false,
-        animation: false,
-        scales: { x: { offset: true }, y: { ...range, title: { display: true, text: "tracking signal (cumulative error / MAD)" } } },
-        plugins: { tooltip: { mode: "index", intersect: false } },
-      },
-      plugins: [guidesPlugin(guides)],
+    return guidedLineChart(canvas.current, {
+      labels,
+      datasets: series.map((s, i) => ({
+        label: s.label,
+        data: [...s.values],
+        borderColor: STYLE[i % STYLE.length].color,
+        backgroundColor: STYLE[i % STYLE.length].color,
+        borderDash: STYLE[i % STYLE.length].dash,
+        borderWidth: 2,
+        pointRadius: 3,
+        fill: false,
+      })),
+      yTitle: "tracking signal (cumulative error / MAD)",
+      guides,
     });
-    const unprint = resizeForPrint(chart);
-    return () => {
-      unprint();
-      chart.destroy();
-    };
   }, [labels, series, limit]);
   return (
     <div className="chart-box" data-chart="tracking-signal">

@@ -3,9 +3,8 @@ import { notFound } from "next/navigation";
 import { NotFoundError } from "@/lib/errors";
 import { getBaseline, type BaselineView } from "@/lib/panels/baselines";
 import { getQuestionReport, type QuestionReport } from "@/lib/panels/report";
-import ConvergenceChart from "@/lib/ui/convergence-chart";
-import Figure from "@/lib/ui/figure";
-import { formatDateTime, formatPercent } from "@/lib/ui/format";
+import { RoundsChart, RoundStatsTable } from "@/lib/ui/convergence-view";
+import { formatDateTime } from "@/lib/ui/format";
 import PrintButton from "@/lib/ui/print-button";
 import { requireSignedIn } from "@/lib/ui/require-user";
 import {
@@ -85,49 +84,8 @@ export default async function QuestionReportPage({ params }: { params: Promise<{
           <p className="muted">No round has closed yet.</p>
         ) : (
           <>
-            <ConvergenceChart
-              unit={q.unit}
-              label={q.aggregation === "sum-of-parts" ? "Total of the parts" : "Median"}
-              points={c.rounds.map((r) => ({ round: r.round, median: q.aggregation === "sum-of-parts" ? r.total : r.median, q1: q.aggregation === "sum-of-parts" ? null : r.q1, q3: q.aggregation === "sum-of-parts" ? null : r.q3 }))}
-            />
-            <div className="table-scroll">
-              <table className="small">
-                <thead>
-                  <tr>
-                    <th>Round</th>
-                    <th className="num">n</th>
-                    <th className="num">{q.aggregation === "sum-of-parts" ? "Total" : "Median"}</th>
-                    <th className="num">Q1</th>
-                    <th className="num">Q3</th>
-                    <th className="num">IQR</th>
-                    <th className="num">Relative IQR</th>
-                    <th className="num">CV</th>
-                  </tr>
-                </thead>
-                <tbody>
-                  {c.rounds.map((r) => (
-                    <tr key={r.round} data-convergence-round={r.round}>
-                      <td>Round {r.round}</td>
-                      <td className="num">{r.n}</td>
-                      <td className="num">
-                        <Figure value={q.aggregation === "sum-of-parts" ? r.total : r.median} name="median" />
-                      </td>
-                      <td className="num">
-                        <Figure value={r.q1} name="q1" />
-                      </td>
-                      <td className="num">
-                        <Figure value={r.q3} name="q3" />
-                      </td>
-                      <td className="num">
-                        <Figure value={r.iqr} />
-                      </td>
-                      <td className="num">{formatPercent(r.relativeIqr)}</td>
-                      <td className="num">{formatPercent(r.cv)}</td>
-                    </tr>
-                  ))}
-                </tbody>
-              </table>
-            </div>
+            <RoundsChart rounds={c.rounds} unit={q.unit} sum={q.aggregation === "sum-of-parts"} />
+            <RoundStatsTable rounds={c.rounds} sum={q.aggregation === "sum-of-parts"} />
             {c.recommendation ? (
               <p className="small">
                 After the latest round the stopping rules {c.recommendation === "stop" ? "suggested the panel could stop" : "suggested another round"}.{" "}
