@@ -158,3 +158,8 @@ export async function sqlRows<T = Record<string, unknown>>(text: string, params:
 }
 
 export const db: PrismaClient = (shared.prisma ??= createClient());
+
+/** True when `err` is Prisma's unique-constraint violation (P2002): another writer got there first. */
+export function isUniqueViolation(err: unknown): boolean {
+  return typeof err === "object" && err !== null && (err as { code?: string }).code === "P2002";
+}

@@ -10,7 +10,8 @@
  * People, company and product are fictional; e-mail addresses use the reserved .example domain.
  */
 import { randomBytes } from "node:crypto";
-import { db, dialect } from "../db";
+import { db, dialect, isUniqueViolation } from "../db";
+import { ConflictError } from "../errors";
 import { actorFromInvitationToken, actorFromUserId, type Actor } from "../accounts/actor";
 import { createUser } from "../accounts/users";
 import { addRosterMember } from "../panels/roster";
@@ -110,7 +111,8 @@ async function answerRound(tokens: readonly string[], round: number, questionIds
 }
 
 /**
- * Loads the demo. With `ifEmpty`, does nothing when any account exists (used by `npm start`).
+ * Loads the demo. With `ifEmpty`, does nothing when any account exists, or when another process
+ * creates the demo's organiser first (`npm start` on instances started together).
  * Returns the exit code; prints the accounts' passwords and the panelists' links.
  */
 export async function loadDemo(options: { ifEmpty: boolean }, io: CommandIo): Promise<number> {
@@ -130,20 +132,31 @@ export async function loadDemo(options: { ifEmpty: boolean }, io: CommandIo): Pr
   // times faster. The price: a power cut or system crash during these seconds could leave the new
   // database file damaged; it holds nothing but the demo then, so delete it and start again. A
   // failure inside the app leaves a partial demo, as before. (PostgreSQL: loaded as it is.)
-  if (dialect === "postgresql") return load(io);
+  if (dialect === "postgresql") return load(options, io);
   const [{ synchronous }] = await db.$queryRawUnsafe<{ synchronous: number | bigint }[]>("PRAGMA synchronous");
   await db.$queryRawUnsafe("PRAGMA synchronous = OFF");
   try {
-    return await load(io);
+    return await load(options, io);
   } finally {
     await db.$queryRawUnsafe(`PRAGMA synchronous = ${Number(synchronous)}`);
   }
 }
 
-async function load(io: CommandIo): Promise<number> {
+async function load(options: { ifEmpty: boolean }, io: CommandIo): Promise<number> {
   const organiserPassword = randomBytes(12).toString("base64url");
   const reviewerPassword = randomBytes(12).toString("base64url");
-  const organiser = await createUser({ email: "organiser@quillmoor.example", name: "Tamsin Okafor", password: organiserPassword });
+  let organiser: Awaited<ReturnType<typeof createUser>>;
+  try {
+    organiser = await createUser({ email: "organiser@quillmoor.example", name: "Tamsin Okafor", password: organiserPassword });
+  } catch (err) {
+    // Instances started together each run `demo --if-empty`: the first to create the organiser
+    // loads the demo, and the others, finding the e-mail taken, leave it to that one.
+    if (options.ifEmpty && (err instanceof ConflictError || isUniqueViolation(err))) {
+      io.out("demo: another process is loading the demo; nothing loaded\n");
+      return 0;
+    }
+    throw err;
+  }
   const reviewer = await createUser({ email: "reviewer@quillmoor.example", name: "Dorian Vale", password: reviewerPassword, role: "reviewer" });
   const actor = (await actorFromUserId(organiser.id))!;
 

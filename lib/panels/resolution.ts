@@ -13,7 +13,7 @@
  * A question can be resolved once its panel has a closed round with answers to it and no
  * round is open (an open round would change the panel figure after it was scored).
  */
-import { db } from "@/lib/db";
+import { db, isUniqueViolation } from "@/lib/db";
 import { ConflictError, InvalidInputError, NotFoundError, type FieldError } from "@/lib/errors";
 import type { Actor } from "@/lib/accounts/actor";
 import { scoreFigure, scoreResolution, type FigureScore, type ResolutionScores } from "@/lib/blend";
@@ -173,7 +173,7 @@ export async function resolveQuestion(actor: Actor, panelId: string, questionId:
     return r;
   }).catch((err: unknown) => {
     // Two resolutions racing: the unique questionId lets one win; the other is told so.
-    if (typeof err === "object" && err !== null && (err as { code?: string }).code === "P2002") {
+    if (isUniqueViolation(err)) {
       throw new ConflictError("The question was resolved a moment ago by someone else; correct the recorded value instead.");
     }
     throw err;

@@ -4,7 +4,7 @@
  * are checked against R (quantile type 7, median, IQR, sd via Rscript) on the answers found in
  * the database.
  */
-import { spawnSync } from "node:child_process";
+import { spawn, spawnSync } from "node:child_process";
 import { existsSync, mkdtempSync, rmSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
@@ -146,6 +146,30 @@ describe("demo", () => {
     const [[rTotal]] = runR(`out(sum(c(2600, 1800, 3400, 1500, 2200, 1200, 2900)))`);
     expect(total).toBe(rTotal);
   });
+
+  it("--if-empty run by three processes at once on an empty database loads the demo exactly once, and all exit 0", async () => {
+    const fresh = path.join(dir, "race.db");
+    const env = { ...process.env, DATABASE_URL: `file:${fresh}` };
+    const m = spawnSync(process.execPath, [path.join(root, "bin", "triangulate.mjs"), "migrate"], { cwd: root, env, encoding: "utf8" });
+    expect(m.status, m.stderr).toBe(0);
+    const runs = await Promise.all(
+      [0, 1, 2].map(
+        () =>
+          new Promise<{ code: number | null; out: string; err: string }>((resolve) => {
+            const child = spawn(process.execPath, [path.join(root, "bin", "triangulate.mjs"), "demo", "--if-empty"], { cwd: os.tmpdir(), env });
+            let out = "";
+            let err = "";
+            child.stdout.on("data", (c) => (out += c));
+            child.stderr.on("data", (c) => (err += c));
+            child.on("close", (code) => resolve({ code, out, err }));
+          }),
+      ),
+    );
+    for (const r of runs) expect(r.code, r.err).toBe(0);
+    expect(runs.filter((r) => /demo: loaded Quillmoor Instruments/.test(r.out))).toHaveLength(1);
+    expect(query(fresh, `SELECT email FROM User WHERE email = 'organiser@quillmoor.example'`)).toHaveLength(1);
+    expect(query(fresh, `SELECT id FROM Panel WHERE title = 'Year-one unit sales of the Wren-2'`)).toHaveLength(1);
+  }, 120_000);
 
   it("refuses to load twice", () => {
     const r = run(["demo"]);
