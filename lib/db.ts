@@ -159,7 +159,20 @@ export async function sqlRows<T = Record<string, unknown>>(text: string, params:
 
 export const db: PrismaClient = (shared.prisma ??= createClient());
 
+/** The Prisma error code of `err` ("P2002"…), if it has one. */
+function prismaCode(err: unknown): string | undefined {
+  return typeof err === "object" && err !== null ? (err as { code?: string }).code : undefined;
+}
+
 /** True when `err` is Prisma's unique-constraint violation (P2002): another writer got there first. */
 export function isUniqueViolation(err: unknown): boolean {
-  return typeof err === "object" && err !== null && (err as { code?: string }).code === "P2002";
+  return prismaCode(err) === "P2002";
+}
+
+/**
+ * True when `err` is Prisma's P2034: a serializable transaction was aborted because a concurrent
+ * one conflicted with it (PostgreSQL SQLSTATE 40001) or deadlocked.
+ */
+export function isSerializationFailure(err: unknown): boolean {
+  return prismaCode(err) === "P2034";
 }

@@ -1,7 +1,7 @@
 /**
  * Accounts of organisers and reviewers, and the personal API tokens of organisers.
  */
-import { db } from "@/lib/db";
+import { db, isSerializationFailure } from "@/lib/db";
 import { ConflictError, ForbiddenError, NotFoundError } from "@/lib/errors";
 import type { Actor, UserActor, UserRole } from "./actor";
 import { dummyPasswordHash, hashPassword, verifyPassword } from "./passwords";
@@ -49,21 +49,32 @@ export async function hasOrganiser(): Promise<boolean> {
   return (await db.user.count({ where: { role: "organiser" } })) > 0;
 }
 
+const ORGANISER_EXISTS = "An organiser already exists; sign in, or ask an organiser for an account.";
+
 /**
  * Creates the first organiser: works only while no organiser exists (the /setup page and
- * `POST /api/v1/setup`). The check and the insert run in one transaction.
+ * `POST /api/v1/setup`). The check and the insert run in one serializable transaction, so that
+ * sign-ups racing on an empty database make one organiser: SQLite runs write transactions one at
+ * a time; PostgreSQL aborts all but one of the overlapping ones (serialization failure, Prisma
+ * P2034), and those are told that an organiser exists.
  * @throws ConflictError when an organiser already exists.
  */
 export async function createFirstOrganiser(input: Omit<NewUser, "role">): Promise<UserView> {
   const passwordHash = await hashPassword(input.password);
   const email = normaliseEmail(input.email);
-  const user = await db.$transaction(async (tx) => {
-    if ((await tx.user.count({ where: { role: "organiser" } })) > 0) {
-      throw new ConflictError("An organiser already exists; sign in, or ask an organiser for an account.");
-    }
-    if (await tx.user.findUnique({ where: { email } })) throw new ConflictError(`A user with e-mail ${email} already exists.`);
-    return tx.user.create({ data: { email, name: input.name.trim(), role: "organiser", passwordHash } });
-  });
+  const user = await db
+    .$transaction(
+      async (tx) => {
+        if ((await tx.user.count({ where: { role: "organiser" } })) > 0) throw new ConflictError(ORGANISER_EXISTS);
+        if (await tx.user.findUnique({ where: { email } })) throw new ConflictError(`A user with e-mail ${email} already exists.`);
+        return tx.user.create({ data: { email, name: input.name.trim(), role: "organiser", passwordHash } });
+      },
+      { isolationLevel: "Serializable" },
+    )
+    .catch((err: unknown) => {
+      if (isSerializationFailure(err)) throw new ConflictError(ORGANISER_EXISTS);
+      throw err;
+    });
   return view(user);
 }
 

@@ -32,6 +32,20 @@ describe("POST /api/v1/setup", () => {
   it("a wrong password does not sign in", async () => {
     await expect(signIn({ email: "wren.owner@example.com", name: "x", password: "not the passphrase" })).rejects.toThrow(/no session cookie/);
   });
+
+  it("several first-run sign-ups at once on an empty database make exactly one organiser", async () => {
+    await clearDatabase();
+    // 24 at once: with 6 the check-then-insert race on PostgreSQL did not show here; with 30, before
+    // the transaction was made serializable, several of them were each made an organiser.
+    const results = await Promise.all(
+      Array.from({ length: 24 }, (_, i) => api("POST", "/api/v1/setup", { body: { email: `first.${i}@quillmoor.example`, name: `Founder ${i}`, password: "a sensible passphrase" } })),
+    );
+    expect(results.filter((r) => r.status === 201)).toHaveLength(1);
+    expect(results.filter((r) => r.status === 409)).toHaveLength(23);
+    for (const r of results.filter((x) => x.status === 409)) expect(r.body.detail).toMatch(/organiser already exists/);
+    const [{ n }] = await sql<{ n: number | bigint | string }>(`SELECT COUNT(*) AS "n" FROM "User"`);
+    expect(Number(n)).toBe(1);
+  });
 });
 
 describe("GET /api/v1/openapi.json", () => {
