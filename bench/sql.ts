@@ -9,7 +9,8 @@
  */
 import Database from "better-sqlite3";
 import pg from "pg";
-import { numberedPlaceholders, timestampParam } from "../lib/sql-text";
+import { isPostgresUrl } from "../lib/env-db";
+import { numberedPlaceholders, parsePostgresTimestamp, timestampParam } from "../lib/sql-text";
 
 export type Dialect = "sqlite" | "postgresql";
 
@@ -21,14 +22,14 @@ export interface SqlConnection {
 }
 
 export function dialectOf(databaseUrl: string): Dialect {
-  if (/^postgres(ql)?:\/\//.test(databaseUrl)) return "postgresql";
   if (databaseUrl.startsWith("file:")) return "sqlite";
+  const postgres: boolean = isPostgresUrl(databaseUrl); // (a boolean, not the narrowing guard)
+  if (postgres) return "postgresql";
   throw new Error(`not a database URL this app uses: ${databaseUrl.split(":")[0]}:`);
 }
 
 // SQLite stores Prisma DateTime values as ISO text; these columns come back as Dates.
 const TIME_COLUMN = /(At|deadline|windowStart)$/;
-
 
 export async function openSql(databaseUrl: string, options: { readonly?: boolean } = {}): Promise<SqlConnection> {
   if (dialectOf(databaseUrl) === "sqlite") {
@@ -56,7 +57,7 @@ export async function openSql(databaseUrl: string, options: { readonly?: boolean
     types: {
       getTypeParser: ((oid: number, format?: "text" | "binary") => {
         if (oid === 20 || oid === 1700) return Number; // int8 (COUNT, SUM), numeric
-        if (oid === 1114) return (s: string) => new Date(`${s.replace(" ", "T")}Z`); // timestamp(3), stored as UTC by Prisma
+        if (oid === 1114) return parsePostgresTimestamp; // timestamp(3), stored as UTC by Prisma
         return pg.types.getTypeParser(oid, format);
       }) as typeof pg.types.getTypeParser,
     },

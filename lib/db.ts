@@ -8,7 +8,7 @@ import { createHash } from "node:crypto";
 import pg from "pg";
 import { ensureDatabaseFile, isPostgresUrl } from "./env-db";
 import { env } from "./env";
-import { numberedPlaceholders, timestampParam } from "./sql-text";
+import { numberedPlaceholders, parsePostgresTimestamp, timestampParam } from "./sql-text";
 
 /**
  * The one Prisma client of the process and what hangs on its connection: the SQLite connection
@@ -21,8 +21,10 @@ interface Connection {
   /** Settles when the interactive transaction open on the SQLite connection ends; null when none is open. */
   openTransaction: Promise<void> | null;
   postgresPool?: pg.Pool;
+  /** Statement text → its PostgreSQL form: a prepared-statement name and `$n` placeholders. */
+  postgresStatements: Map<string, { name: string; text: string }>;
 }
-const shared: Connection = ((globalThis as unknown as { triangulateDb?: Connection }).triangulateDb ??= { openTransaction: null });
+const shared: Connection = ((globalThis as unknown as { triangulateDb?: Connection }).triangulateDb ??= { openTransaction: null, postgresStatements: new Map() });
 
 /** Which database this process talks to: DATABASE_URL naming PostgreSQL, else the SQLite file. */
 export const dialect: "sqlite" | "postgresql" = isPostgresUrl(process.env.DATABASE_URL) ? "postgresql" : "sqlite";
@@ -82,7 +84,7 @@ function createClient(): PrismaClient {
 /** PostgreSQL `timestamp` (OID 1114) as UTC, the way Prisma writes it; other types as node-postgres parses them. */
 const postgresTypes = {
   getTypeParser: ((oid: number, format?: "text" | "binary") =>
-    oid === 1114 ? (text: string) => new Date(`${text.replace(" ", "T")}Z`) : pg.types.getTypeParser(oid, format)) as typeof pg.types.getTypeParser,
+    oid === 1114 ? parsePostgresTimestamp : pg.types.getTypeParser(oid, format)) as typeof pg.types.getTypeParser,
 };
 
 async function outsideTransactions(): Promise<void> {
@@ -141,8 +143,12 @@ function holdOutsideStatements(adapter: SqlDriverAdapter): void {
  */
 export async function sqlRows<T = Record<string, unknown>>(text: string, params: readonly unknown[] = []): Promise<T[]> {
   if (dialect === "postgresql") {
-    const name = `q${createHash("sha1").update(text).digest("hex").slice(0, 16)}`;
-    return (await shared.postgresPool!.query({ name, text: numberedPlaceholders(text), values: params as unknown[], types: postgresTypes })).rows as T[];
+    let stmt = shared.postgresStatements.get(text);
+    if (!stmt) {
+      stmt = { name: `q${createHash("sha1").update(text).digest("hex").slice(0, 16)}`, text: numberedPlaceholders(text) };
+      shared.postgresStatements.set(text, stmt);
+    }
+    return (await shared.postgresPool!.query({ ...stmt, values: params as unknown[], types: postgresTypes })).rows as T[];
   }
   if (!shared.sqlite) await db.$connect();
   const conn = shared.sqlite!;

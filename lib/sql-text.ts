@@ -13,6 +13,14 @@ export function timestampParam(dialect: "sqlite" | "postgresql", d: Date): strin
   return dialect === "postgresql" ? d.toISOString().replace("T", " ").replace("Z", "") : d.toISOString().replace("Z", "+00:00");
 }
 
+/**
+ * A PostgreSQL `timestamp` value (OID 1114, text such as "2026-12-02 03:04:05.678") as a Date,
+ * read as UTC: Prisma writes DateTime fields to `timestamp(3)` columns in UTC.
+ */
+export function parsePostgresTimestamp(text: string): Date {
+  return new Date(`${text.replace(" ", "T")}Z`);
+}
+
 /** `?` → `$1, $2, …`, outside single-quoted literals. */
 export function numberedPlaceholders(text: string): string {
   let n = 0;
