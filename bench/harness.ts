@@ -194,17 +194,22 @@ export class Client {
   }
 }
 
-/** Signs in through next-auth's credentials callback and creates a personal API token. */
-export async function organiserToken(baseURL: string, user: { email: string; password: string }): Promise<string> {
+/** One sign-in attempt on the server at `baseURL` through next-auth's credentials callback (CSRF token first). */
+export async function signInAttempt(baseURL: string, email: string, password: string): Promise<Response> {
   const csrfRes = await fetch(`${baseURL}/api/auth/csrf`);
   const { csrfToken } = (await csrfRes.json()) as { csrfToken: string };
   const csrfCookie = csrfRes.headers.getSetCookie().map((c) => c.split(";")[0]).join("; ");
-  const res = await fetch(`${baseURL}/api/auth/callback/credentials`, {
+  return fetch(`${baseURL}/api/auth/callback/credentials`, {
     method: "POST",
     redirect: "manual",
     headers: { "content-type": "application/x-www-form-urlencoded", cookie: csrfCookie },
-    body: new URLSearchParams({ csrfToken, email: user.email, password: user.password, json: "true" }).toString(),
+    body: new URLSearchParams({ csrfToken, email, password, json: "true" }).toString(),
   });
+}
+
+/** Signs in through next-auth's credentials callback and creates a personal API token. */
+export async function organiserToken(baseURL: string, user: { email: string; password: string }): Promise<string> {
+  const res = await signInAttempt(baseURL, user.email, user.password);
   const session = res.headers.getSetCookie().find((c) => c.startsWith("next-auth.session-token="));
   if (!session) throw new Error(`sign-in gave no session cookie (status ${res.status})`);
   const tok = await fetch(`${baseURL}/api/v1/tokens`, {

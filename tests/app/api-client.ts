@@ -8,6 +8,7 @@ import { execFileSync } from "node:child_process";
 import { randomBytes } from "node:crypto";
 import path from "node:path";
 import { expect, inject } from "vitest";
+import { signInAttempt as attemptSignIn } from "../../bench/harness";
 import { clearAllTables, dialectOf, openSql, type SqlConnection } from "../../bench/sql";
 
 export const baseURL = inject("baseURL");
@@ -86,17 +87,9 @@ export function createAccount(name: string, role: "organiser" | "reviewer" = "or
   return user;
 }
 
-/** One sign-in attempt through next-auth's credentials callback (CSRF token first), on the server at `base`. */
-export async function signInAttempt(email: string, password: string, base = baseURL): Promise<Response> {
-  const csrfRes = await fetch(`${base}/api/auth/csrf`);
-  const { csrfToken } = (await csrfRes.json()) as { csrfToken: string };
-  const csrfCookie = csrfRes.headers.getSetCookie().map((c) => c.split(";")[0]).join("; ");
-  return fetch(`${base}/api/auth/callback/credentials`, {
-    method: "POST",
-    redirect: "manual",
-    headers: { "content-type": "application/x-www-form-urlencoded", cookie: csrfCookie },
-    body: new URLSearchParams({ csrfToken, email, password, json: "true" }).toString(),
-  });
+/** One sign-in attempt (bench/harness.ts), on the suite's server unless `base` names another. */
+export function signInAttempt(email: string, password: string, base = baseURL): Promise<Response> {
+  return attemptSignIn(base, email, password);
 }
 
 /** Signs in through next-auth's credentials callback; returns the session cookie header. */
