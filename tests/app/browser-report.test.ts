@@ -108,14 +108,19 @@ async function stat(scope: Page | ReturnType<Page["locator"]>, name: string): Pr
   return Number(raw);
 }
 
-async function signInPage(ctx: BrowserContext, user: TestUser): Promise<Page> {
+/**
+ * Signs in and waits for the user's home page: /panels for an organiser; /reports for a reviewer,
+ * who reaches it through a redirect from /panels. Waiting for the final page keeps that redirect
+ * from landing after the test's next navigation (it did once, leaving the test on /reports).
+ */
+async function signInPage(ctx: BrowserContext, user: TestUser, home: "/panels" | "/reports"): Promise<Page> {
   const page = await ctx.newPage();
   page.on("dialog", (d) => void d.accept());
   await page.goto(`${baseURL}/sign-in`);
   await page.getByLabel("E-mail").fill(user.email);
   await page.getByLabel("Password").fill(user.password);
   await page.getByRole("button", { name: "Sign in" }).click();
-  await page.waitForURL((u) => !u.pathname.startsWith("/sign-in"));
+  await page.waitForURL((u) => u.pathname === home);
   return page;
 }
 
@@ -165,7 +170,7 @@ describe("triangulation in the browser", () => {
 
     browser = await chromium.launch({ executablePath: "/usr/bin/chromium", args: LAUNCH_ARGS });
     orgCtx = await browser.newContext({ viewport: { width: 1280, height: 900 }, acceptDownloads: true });
-    org = await signInPage(orgCtx, organiser);
+    org = await signInPage(orgCtx, organiser, "/panels");
   });
 
   afterAll(async () => {
@@ -295,7 +300,7 @@ describe("triangulation in the browser", () => {
 
   it("the reviewer's report puts the blended figure first, shows the three legs and the departures, and the CSV export carries the same figures", async () => {
     const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 }, acceptDownloads: true });
-    const page = await signInPage(ctx, reviewer);
+    const page = await signInPage(ctx, reviewer, "/reports");
     const errors: string[] = [];
     page.on("pageerror", (e) => errors.push(e.message));
     await page.goto(`${baseURL}/reports/${panelId}`);
