@@ -1,5 +1,6 @@
 /**
- * Shared by `npm run load` (bench/load.ts) and the fault test (tests/app/fault.test.ts):
+ * Shared by `npm run load` (bench/load.ts), the app suite's setup (tests/app/server-setup.ts) and
+ * its fault, backup and two-instance tests:
  * start production servers on 127.0.0.1 on a database (a fresh SQLite file, or a PostgreSQL
  * database), create an organiser and an API token, build a panel of N invited panelists through
  * the JSON API, send answers with idempotency keys at bounded concurrency, and check the database
