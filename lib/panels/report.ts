@@ -5,8 +5,11 @@
  * summary); convergence across rounds; departures; the bias correction applied per panelist;
  * the resolution when there is one; method notes, inputs and cautions.
  *
- * Panelists appear under their pseudonyms. Names are added only for an organiser of the panel
- * who has revealed the identities (an audited action, lib/panels/rounds.ts `revealIdentities`).
+ * Panelists appear under their pseudonyms. Names, and every per-person figure drawn from a
+ * panelist's history across panels (track record, bias factor, corrected answer), are added only
+ * for an organiser of the panel who has revealed the identities (an audited action,
+ * lib/panels/rounds.ts `revealIdentities`); until then the correction is shown as the panel's
+ * aggregate (lib/panels/report-views.ts).
  *
  * CSV export: one row per figure (section, item, measure, value, unit). Any cell that a
  * spreadsheet could run as a formula — one starting with =, +, -, @, a tab or a carriage
@@ -24,6 +27,7 @@ import { resolutionView, type ResolutionView } from "./resolution";
 import { computeTriangulation, loadTriangulation, type CorrectedAnswer, type DepartureReport } from "./triangulation";
 import { trackRecordsFor } from "./track-records";
 import { jsonSafe, type JsonSafe } from "./json";
+import { correctionSummary, namesRevealed } from "./report-views";
 import type { BlendInterval, Distribution } from "@/lib/blend";
 import type { QuestionVerdict } from "@/lib/stats/stopping-rules";
 
@@ -89,6 +93,9 @@ export interface QuestionReport {
     } | null;
     readonly trackRecord: {
       readonly panelistsWithRecord: number;
+      /** Mean bias factor applied to the final answers (1 for a panelist without a record). */
+      readonly meanFactor: number | null;
+      /** Per person: only when names are shown (`viewer.namesShown`); otherwise empty. */
       readonly panelists: readonly (ReportPanelist & JsonSafe<Omit<TrackRecord, "bias" | "intervalHitRate">> & {
         readonly biasFactor: number | null;
         readonly unshrunkFactor: number | null;
@@ -106,6 +113,7 @@ export interface QuestionReport {
     readonly reasons: readonly string[];
   };
   readonly departures: JsonSafe<DepartureReport> | null;
+  /** Per person: only when names are shown (`viewer.namesShown`); otherwise empty. */
   readonly biasCorrection: readonly (ReportPanelist & JsonSafe<Omit<CorrectedAnswer, "invitationId" | "pseudonym">>)[];
   readonly resolution: ResolutionView | null;
   /** The distributions behind the ranges, for charts. */
@@ -117,11 +125,6 @@ export interface QuestionReport {
 
 const safeIntervals = (iv: readonly BlendInterval[]): Intervals => jsonSafe(iv) as Intervals;
 
-async function revealedBy(actor: Actor, panelId: string, canManage: boolean): Promise<boolean> {
-  if (!canManage || actor.kind !== "user") return false;
-  return (await db.auditEvent.count({ where: { panelId, actorId: actor.userId, action: "identities.revealed" } })) > 0;
-}
-
 /**
  * The report of one question (organisers and reviewers of the panel). Computed on read from the
  * stored answers, baseline, resolutions and rules (see lib/panels/triangulation.ts).
@@ -130,7 +133,7 @@ export async function getQuestionReport(actor: Actor, panelId: string, questionI
   const access = await authorisePanel(actor, panelId, "read");
   const loaded = await loadTriangulation(panelId, questionId);
   const t = computeTriangulation(loaded.input);
-  const namesShown = await revealedBy(actor, panelId, access.canManage);
+  const namesShown = await namesRevealed(actor, panelId, access.canManage);
   const invitations = await db.invitation.findMany({ where: { panelId }, include: { rosterMember: { select: { name: true } } } });
   const nameOf = (invitationId: string) => (namesShown ? (invitations.find((i) => i.id === invitationId)?.rosterMember.name ?? null) : null);
   const stored = await db.baseline.findUnique({ where: { questionId } });
@@ -195,7 +198,8 @@ export async function getQuestionReport(actor: Actor, panelId: string, questionI
     inputs.push("No baseline is attached.");
   }
   if (t.panel) inputs.push(`Panel: ${t.panel.n} final answers of round ${t.panel.round} (the last closed round with answers).`);
-  const withRecord = trackPanelists.filter((p) => (p.count ?? 0) > 0).length;
+  const correction = correctionSummary(panelists);
+  const withRecord = correction.panelistsWithRecord;
   const resolvedBehind = Math.max(0, ...trackPanelists.map((p) => p.count ?? 0));
   inputs.push(
     `Track records: the organiser's resolved questions${loaded.resolvedAt ? " resolved before this one" : ""}, this question excluded; ${withRecord} of ${trackPanelists.length} panelists have one (up to ${resolvedBehind} resolved answers each).`,
@@ -242,7 +246,7 @@ export async function getQuestionReport(actor: Actor, panelId: string, questionI
           }
         : null,
       baseline: baselineLeg,
-      trackRecord: { panelistsWithRecord: withRecord, panelists: trackPanelists },
+      trackRecord: { panelistsWithRecord: withRecord, meanFactor: jsonSafe(correction.meanFactor), panelists: namesShown ? trackPanelists : [] },
     },
     convergence: {
       rounds: cq?.rounds ?? [],
@@ -251,7 +255,7 @@ export async function getQuestionReport(actor: Actor, panelId: string, questionI
       reasons: convergence.evaluation?.reasons ?? [],
     },
     departures: t.departures ? jsonSafe(t.departures) : null,
-    biasCorrection: panelists.map(({ invitationId, pseudonym, ...rest }) => ({ pseudonym, name: nameOf(invitationId), ...jsonSafe(rest) })),
+    biasCorrection: namesShown ? panelists.map(({ invitationId, pseudonym, ...rest }) => ({ pseudonym, name: nameOf(invitationId), ...jsonSafe(rest) })) : [],
     resolution: resolution ? resolutionView(resolution) : null,
     distributions: {
       panelRaw: t.panel?.raw.distribution ?? null,
@@ -321,6 +325,8 @@ export function reportCsv(r: QuestionReport): string {
     for (const [k, v] of Object.entries(b.parameters)) add("baseline", b.method, `parameter ${k}`, v);
     if (b.analogue) add("baseline", b.method, "analogue scale factor", b.analogue.scaleFactor);
   }
+  add("track record", "panel", "panelists with a track record", r.legs.trackRecord.panelistsWithRecord);
+  add("track record", "panel", "mean bias factor applied", r.legs.trackRecord.meanFactor);
   for (const p of r.legs.trackRecord.panelists) {
     const who = p.name ? `${p.pseudonym} (${p.name})` : p.pseudonym;
     add("track record", who, "resolved questions", p.count);

@@ -44,7 +44,8 @@ export interface ResolutionView {
   readonly resolvedAt: string;
   readonly correctedAt: string | null;
   readonly figures: Omit<ResolutionFigures, "panelists" | "baselineTraining"> & {
-    readonly panelists: readonly { readonly pseudonym: string; readonly value: number; readonly low: number | null; readonly high: number | null; readonly factor: number }[];
+    /** Answers only: the bias factor each one got comes from its panelist's history across panels and would name them (lib/panels/report-views.ts). */
+    readonly panelists: readonly { readonly pseudonym: string; readonly value: number; readonly low: number | null; readonly high: number | null }[];
   };
   readonly scores: JsonSafe<StoredScores>;
 }
@@ -99,7 +100,7 @@ function view(r: { questionId: string; actual: number; note: string; partActuals
     parts: parts.map((p) => ({ pseudonym: f.panelists.find((x) => x.invitationId === p.invitationId)?.pseudonym ?? "?", actual: p.actual })),
     resolvedAt: r.resolvedAt.toISOString(),
     correctedAt: r.correctedAt?.toISOString() ?? null,
-    figures: { ...rest, panelists: panelists.map((p) => ({ pseudonym: p.pseudonym, value: p.value, low: p.low, high: p.high, factor: p.factor })) },
+    figures: { ...rest, panelists: panelists.map((p) => ({ pseudonym: p.pseudonym, value: p.value, low: p.low, high: p.high })) },
     scores: JSON.parse(r.scores) as JsonSafe<StoredScores>,
   };
 }

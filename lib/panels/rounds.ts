@@ -135,7 +135,10 @@ export interface ProgressView {
   readonly invited: number;
   readonly answeredAll: number;
   readonly answeredSome: number;
-  /** One row per active invitation, by pseudonym (names only through revealIdentities). */
+  /**
+   * One row per invitation, revoked ones included and not marked, by pseudonym (names only
+   * through revealIdentities): a row that vanished or was marked on revocation would name it.
+   */
   readonly panelists: readonly { readonly pseudonym: string; readonly questionsAnswered: number; readonly lastAnswerAt: string | null }[];
 }
 
@@ -149,7 +152,7 @@ export async function getProgress(actor: Actor, panelId: string): Promise<Progre
   const [rounds, questionCount, invitations] = await Promise.all([
     db.round.findMany({ where: { panelId }, orderBy: { number: "desc" } }),
     db.question.count({ where: { panelId } }),
-    db.invitation.findMany({ where: { panelId, revokedAt: null }, orderBy: { pseudonym: "asc" } }),
+    db.invitation.findMany({ where: { panelId }, orderBy: { pseudonym: "asc" } }),
   ]);
   const round = rounds.find((r) => r.status === "open") ?? rounds.find((r) => r.status === "closed") ?? rounds[0] ?? null;
   const answers = round

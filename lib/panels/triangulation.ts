@@ -64,6 +64,7 @@ import { targetOf, type BaselineTarget } from "./baselines";
 import { finalAnswers, settleDeadlines } from "./round-closing";
 import { historyOf, loadResolutions, trackRecordsFor, type HistoryFilter } from "./track-records";
 import { jsonSafe, type JsonSafe } from "./json";
+import { correctionSummary, namesRevealed, withoutHistory, type AnswerWithoutHistory, type CorrectionSummary } from "./report-views";
 
 /** One panelist's final answer in a closed round. */
 export interface TriangulationAnswer {
@@ -419,21 +420,37 @@ export async function loadTriangulation(panelId: string, questionId: string): Pr
 /**
  * {@link Triangulation} as JSON (non-finite numbers as null), with the rule that chose the
  * weight. Answers carry pseudonyms only: invitation ids would let an organiser match pseudonyms
- * to the invitation list (names) without the audited reveal.
+ * to the invitation list (names) without the audited reveal. While names are hidden, answers
+ * also carry nothing from the panelist's history (see lib/panels/report-views.ts).
  */
 export type TriangulationView = Omit<JsonSafe<Triangulation>, "panel"> & {
-  readonly panel: (Omit<JsonSafe<PanelLeg>, "answers"> & { readonly answers: Omit<JsonSafe<CorrectedAnswer>, "invitationId">[] }) | null;
+  readonly panel:
+    | (Omit<JsonSafe<PanelLeg>, "answers"> & {
+        /** Per-person correction figures only when names are shown (lib/panels/report-views.ts). */
+        readonly answers: (Omit<JsonSafe<CorrectedAnswer>, "invitationId"> | AnswerWithoutHistory)[];
+        readonly correction: JsonSafe<CorrectionSummary>;
+      })
+    | null;
   readonly questionId: string;
   readonly weightRule: { readonly rule: PanelWeightRule; readonly panelWeight: number | null; readonly from: "question" | "panel" };
+  readonly namesShown: boolean;
 };
 
 /** The triangulation of a question (organisers and reviewers of the panel). */
 export async function getTriangulation(actor: Actor, panelId: string, questionId: string): Promise<TriangulationView> {
-  await authorisePanel(actor, panelId, "read");
+  const access = await authorisePanel(actor, panelId, "read");
   const loaded = await loadTriangulation(panelId, questionId);
-  const t = jsonSafe(computeTriangulation(loaded.input));
-  const panel = t.panel ? { ...t.panel, answers: t.panel.answers.map(({ invitationId: _hidden, ...a }) => a) } : null;
-  return { ...t, panel, questionId, weightRule: loaded.rule };
+  const computed = computeTriangulation(loaded.input);
+  const t = jsonSafe(computed);
+  const namesShown = await namesRevealed(actor, panelId, access.canManage);
+  const panel = t.panel
+    ? {
+        ...t.panel,
+        answers: t.panel.answers.map(({ invitationId: _hidden, ...a }) => (namesShown ? a : withoutHistory(a))),
+        correction: jsonSafe(correctionSummary(computed.panel!.answers)),
+      }
+    : null;
+  return { ...t, panel, questionId, weightRule: loaded.rule, namesShown };
 }
 
 /** Sets the panel's blend weight rule (organisers; audited). */

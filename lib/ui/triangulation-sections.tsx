@@ -120,7 +120,6 @@ export function LegsSideBySide({ report }: { report: QuestionReport }) {
   }
   if (b) rows.push({ label: `Baseline (${b.method})`, figure: b.target.mean, lower80: b.target.lower80, upper80: b.target.upper80, lower95: b.target.lower95, upper95: b.target.upper95 });
   if (report.blend) rows.push(rangeRow("Blend", report.blend.figure, report.blend.intervals));
-  const factors = report.biasCorrection.map((x) => x.factor).filter((f): f is number => f !== null);
   return (
     <section aria-labelledby="legs-h" className="legs-section">
       <h2 id="legs-h">The three legs</h2>
@@ -193,11 +192,11 @@ export function LegsSideBySide({ report }: { report: QuestionReport }) {
         <div className="card leg" data-leg="track-record">
           <h3>Track record</h3>
           <p>
-            <strong>{t.panelistsWithRecord}</strong> of {t.panelists.length} panelists have resolved questions behind them.
+            <strong data-stat="panelists-with-record">{t.panelistsWithRecord}</strong> of {p?.n ?? 0} panelists have resolved questions behind them.
           </p>
-          {factors.length > 0 ? (
+          {t.meanFactor !== null ? (
             <p className="small">
-              Bias factors applied: {formatNumber(Math.min(...factors), 3)} to {formatNumber(Math.max(...factors), 3)}
+              Mean bias factor applied: <Figure value={t.meanFactor} name="mean-factor" digits={3} />
               {t.panelistsWithRecord === 0 ? " (all 1: no track record yet, so corrected = raw)" : ""}.
             </p>
           ) : null}
@@ -441,6 +440,22 @@ export function DepartureSection({ report }: { report: QuestionReport }) {
 /** The bias correction applied to each final answer. */
 export function BiasCorrectionTable({ report }: { report: QuestionReport }) {
   const rows = report.biasCorrection;
+  if (!report.viewer.namesShown) {
+    if (!report.legs.panel) return null;
+    return (
+      <section aria-labelledby="bias-h">
+        <h2 id="bias-h">Bias correction applied</h2>
+        <p className="small">
+          {report.legs.trackRecord.panelistsWithRecord} of {report.legs.panel.n} panelists had a usable track record; the mean factor applied was{" "}
+          <Figure value={report.legs.trackRecord.meanFactor} digits={3} />. The corrected panel figure is shown above.
+        </p>
+        <p className="small muted">
+          Each panelist&apos;s factor, and the track record behind it, comes from their answers on other panels and would tell who is behind a pseudonym,
+          so they are shown per panelist only to an organiser of this panel after revealing the names (recorded in the audit log).
+        </p>
+      </section>
+    );
+  }
   if (rows.length === 0) return null;
   return (
     <section aria-labelledby="bias-h">

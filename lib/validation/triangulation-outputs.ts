@@ -86,10 +86,15 @@ export const departures = z.object({
   correctedPanel: departure,
 });
 
-const correctedAnswerFields = {
+const ownAnswerFields = {
   value: num,
   low: n0,
   high: n0,
+  fromRound: z.number().int().describe("the round the answer comes from (an earlier one: a part carried forward)"),
+};
+
+/** Figures from the panelist's history across panels: only for an organiser who revealed the names. */
+const historyFields = {
   factor: n0,
   resolvedQuestions: z.number().int(),
   credibility: n0,
@@ -97,8 +102,9 @@ const correctedAnswerFields = {
   correctedValue: n0,
   correctedLow: n0,
   correctedHigh: n0,
-  fromRound: z.number().int().describe("the round the answer comes from (an earlier one: a part carried forward)"),
 };
+
+const correctedAnswerFields = { ...ownAnswerFields, ...historyFields };
 
 const weights = z.object({
   requested: z.string(),
@@ -124,9 +130,15 @@ export const triangulation = z.object({
       rule: z.string(),
       raw: z.object({ figure: n0, intervals: z.array(interval), distribution: loose }),
       corrected: z.object({ figure: n0, intervals: z.array(interval), distribution: loose }),
-      answers: z.array(z.object({ pseudonym: z.string(), ...correctedAnswerFields })),
+      answers: z
+        .array(z.object({ pseudonym: z.string(), ...ownAnswerFields, ...z.object(historyFields).partial().shape }))
+        .describe("the history fields (factor … correctedHigh) only when namesShown"),
+      correction: z
+        .object({ panelistsWithRecord: z.number().int(), meanFactor: n0 })
+        .describe("the bias correction as one aggregate: panelists with a track record, mean factor applied"),
     })
     .nullable(),
+  namesShown: z.boolean().describe("whether per-person figures are shown: an organiser of the panel after the audited reveal"),
   baseline: z.object({ mean: num, lower80: num.optional(), upper80: num.optional(), lower95: num.optional(), upper95: num.optional(), sd: n0, sdSource: z.string() }).nullable(),
   weights: weights.nullable(),
   blend: z.object({ panelWeight: num, figure: n0, mean: n0, median: n0, intervals: z.array(interval), distribution: loose }).nullable(),
@@ -165,7 +177,7 @@ export const resolution = z.object({
     panelWeight: n0,
     weightRule: z.string().nullable(),
     baselineSeason: z.number().int(),
-    panelists: z.array(z.object({ pseudonym: z.string(), value: num, low: n0, high: n0, factor: num })),
+    panelists: z.array(z.object({ pseudonym: z.string(), value: num, low: n0, high: n0 })),
   }),
   scores: z.object({
     actual: num,
@@ -280,6 +292,7 @@ export const questionReport = z.object({
       .nullable(),
     trackRecord: z.object({
       panelistsWithRecord: z.number().int(),
+      meanFactor: n0.describe("mean bias factor applied to the final answers (1 for a panelist without a record)"),
       panelists: z.array(
         z.object({
           ...panelist,
@@ -301,7 +314,7 @@ export const questionReport = z.object({
     reasons: z.array(z.string()),
   }),
   departures: departures.nullable(),
-  biasCorrection: z.array(z.object({ ...panelist, ...correctedAnswerFields })),
+  biasCorrection: z.array(z.object({ ...panelist, ...correctedAnswerFields })).describe("empty unless viewer.namesShown"),
   resolution: resolution.nullable(),
   distributions: z.object({ panelRaw: loose.nullable(), panelCorrected: loose.nullable(), baseline: loose.nullable(), blend: loose.nullable() }).describe("lib/blend distributions behind the ranges, for charts"),
   methodNotes: z.array(z.string()),

@@ -195,8 +195,9 @@ describe("triangulation, resolution and the report", () => {
     expect(r.blend.intervals.map((i: any) => i.level)).toEqual([80, 95]);
     expect(r.legs.panel.raw.figure).toBe(75);
     expect(r.legs.baseline).toMatchObject({ method: "naive", horizon: 3, observations: 12 });
-    expect(r.legs.trackRecord.panelists).toHaveLength(5);
-    expect(r.biasCorrection.every((b: any) => b.name === null && /^Panelist /.test(b.pseudonym))).toBe(true);
+    // While names are hidden, nothing per person from a track record (THREATS.md), only the panel's aggregate.
+    expect(r.legs.trackRecord.panelists).toEqual([]);
+    expect(r.biasCorrection).toEqual([]);
     expect(r.convergence.rounds.map((c: any) => c.median)).toEqual([75]);
     expect(r.departures.answers).toHaveLength(5);
     expect(r.resolution.actual).toBe(78);

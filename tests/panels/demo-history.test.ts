@@ -126,9 +126,11 @@ describe("demo history", () => {
     expect(r.blend!.panelWeight).toBeLessThan(1);
     expect(r.legs.baseline!.analogue!.scaleFactor).toBe(WREN2_SCALE);
     expect(r.legs.trackRecord.panelistsWithRecord).toBe(7);
-    expect(r.biasCorrection.some((b) => b.factor !== 1)).toBe(true);
-    expect(r.biasCorrection.every((b) => b.name === null)).toBe(true);
-    for (const b of r.biasCorrection) expect(b.correctedValue).toBeCloseTo(b.value! * b.factor!, 9);
+    // A reviewer never sees per-person correction figures (THREATS.md): only the panel's aggregate.
+    expect(r.biasCorrection).toEqual([]);
+    expect(r.legs.trackRecord.panelists).toEqual([]);
+    expect(r.legs.trackRecord.meanFactor).not.toBe(1);
+    expect(r.legs.panel!.corrected.figure).not.toBe(r.legs.panel!.raw.figure);
     const { db } = await import("../../lib/db");
     const stored = await db.baseline.findUniqueOrThrow({ where: { questionId: wren2.questionId } });
     const preview = JSON.parse(stored.preview) as { rows: { value: number; scaled: number }[] };

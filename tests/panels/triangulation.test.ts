@@ -359,7 +359,7 @@ describe("CSV export cells (formula injection)", () => {
       question: { id: "q", text: "=1+1", unit: "@units", targetPeriod: "+1", aggregation: "shared", answerFormat: "single" },
       viewer: { role: "owner", namesShown: false },
       blend: null,
-      legs: { panel: null, baseline: null, trackRecord: { panelistsWithRecord: 0, panelists: [] } },
+      legs: { panel: null, baseline: null, trackRecord: { panelistsWithRecord: 0, meanFactor: null, panelists: [] } },
       convergence: { rounds: [], verdict: null, recommendation: null, reasons: [] },
       departures: null,
       biasCorrection: [],
