@@ -13,6 +13,7 @@ import { parseArgs } from "node:util";
 import { readSeriesCsv } from "../csv/parse";
 import { baseline, DEFAULT_LEVELS, type BaselineResult } from "../forecast/baseline";
 import { METHOD_IDS, type MethodId } from "../forecast/types";
+import { historyRowsMessage } from "../validation/limits";
 import type { CommandIo } from "./main";
 
 /** Wraps text at spaces to lines of at most `width` characters, each indented by `indent`. */
@@ -138,8 +139,10 @@ function parseOptions(args: string[]): Options {
 /** Result of one file, as printed. */
 export type FileResult = { readonly file: string } & BaselineResult;
 
-/** Forecasts one CSV text. Throws the reader's or the engine's error unchanged. */
+/** Forecasts one CSV text. Throws the row limit's, the reader's or the engine's error unchanged. */
 export function forecastText(file: string, text: string, opts: Omit<Options, "files" | "format" | "help">): FileResult {
+  const refusal = historyRowsMessage(text);
+  if (refusal) throw new Error(refusal);
   const table = readSeriesCsv(text, { value: opts.value });
   const result = baseline(
     { y: table.y, rows: table.rows, x: table.x, xNames: table.xNames, futureX: table.futureX },

@@ -20,7 +20,7 @@ import type { AnswerInput } from "@/lib/validation/inputs";
 import { requirePanelist } from "./access";
 import { settleDeadlines } from "./round-closing";
 import { currentRound, questionView, roundView, type QuestionView, type RoundView } from "./panels";
-import type { QuestionStatistics } from "./round-statistics";
+import { closedRoundQuartiles } from "./round-quartiles";
 
 type Tx = Prisma.TransactionClient;
 
@@ -79,25 +79,20 @@ export async function explanationsRequired(
 ): Promise<Map<string, string>> {
   const required = new Map<string, string>();
   if (roundNumber < 2) return required;
-  const prev = await tx.round.findUnique({
-    where: { panelId_number: { panelId: panelist.panelId, number: roundNumber - 1 } },
-    include: { statistics: true },
-  });
+  const prev = await tx.round.findUnique({ where: { panelId_number: { panelId: panelist.panelId, number: roundNumber - 1 } } });
   if (!prev || prev.status !== "closed") return required;
   // The panelist's final (highest-version) answer per question, as finalAnswers() defines it,
   // read for this panelist only: the check runs on every answer, so it must not load the round.
   const own = await tx.answer.findMany({ where: { roundId: prev.id, invitationId: panelist.invitationId }, orderBy: { version: "desc" } });
   const finals = new Map<string, Answer>();
   for (const a of own) if (!finals.has(a.questionId)) finals.set(a.questionId, a);
-  for (const row of prev.statistics) {
-    const s = JSON.parse(row.data) as QuestionStatistics;
-    if (s.aggregation !== "shared" || !s.values || s.values.q1 === null || s.values.q3 === null) continue;
-    const mine = finals.get(row.questionId);
+  for (const [questionId, { q1, q3 }] of await closedRoundQuartiles(tx, prev)) {
+    const mine = finals.get(questionId);
     if (!mine) continue;
-    if (mine.value < s.values.q1) {
-      required.set(row.questionId, `Your round ${prev.number} answer (${mine.value}) was below the group's lower quartile (${s.values.q1}); please explain your reasoning.`);
-    } else if (mine.value > s.values.q3) {
-      required.set(row.questionId, `Your round ${prev.number} answer (${mine.value}) was above the group's upper quartile (${s.values.q3}); please explain your reasoning.`);
+    if (mine.value < q1) {
+      required.set(questionId, `Your round ${prev.number} answer (${mine.value}) was below the group's lower quartile (${q1}); please explain your reasoning.`);
+    } else if (mine.value > q3) {
+      required.set(questionId, `Your round ${prev.number} answer (${mine.value}) was above the group's upper quartile (${q3}); please explain your reasoning.`);
     }
   }
   return required;

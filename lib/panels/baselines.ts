@@ -20,9 +20,10 @@ import { ConflictError, InvalidInputError, NotFoundError, type FieldError } from
 import type { Actor } from "@/lib/accounts/actor";
 import type { Baseline, Question } from "@/lib/generated/prisma/client";
 import { CsvError, readSeriesCsv, type SeriesTable } from "@/lib/csv/parse";
-import { baseline, type BaselineResult } from "@/lib/forecast/baseline";
+import type { BaselineResult } from "@/lib/forecast/baseline";
 import { ForecastInputError, type MethodId } from "@/lib/forecast/types";
 import type { BaselineInput } from "@/lib/validation/triangulation-inputs";
+import { runJob } from "@/lib/work/pool";
 import { authorisePanel } from "./access";
 import { recordAudit } from "./audit";
 
@@ -111,10 +112,11 @@ function valuesCsv(values: readonly number[]): string {
 }
 
 /**
- * Reads and fits a baseline input (pure apart from the engine's computation).
+ * Reads and fits a baseline input (no I/O). The fit, which takes up to seconds, runs on the
+ * worker pool (lib/work/pool.ts), so the request thread goes on serving panelists meanwhile.
  * @throws InvalidInputError naming the field (and the CSV row and column).
  */
-export function analyseBaseline(input: BaselineInput): Analysed {
+export async function analyseBaseline(input: BaselineInput): Promise<Analysed> {
   const source = input.csv !== undefined ? "csv" : "values";
   const data = input.csv !== undefined ? input.csv : valuesCsv(input.values ?? []);
   const valueColumn = source === "csv" ? input.valueColumn : "value";
@@ -152,10 +154,10 @@ export function analyseBaseline(input: BaselineInput): Analysed {
 
   let result: BaselineResult;
   try {
-    result = baseline(
-      { y, rows: table.rows, x: table.x, xNames: table.xNames, futureX },
-      { season: input.season, horizon, method: input.method, levels: [80, 95] },
-    );
+    result = await runJob("baseline", {
+      series: { y, rows: table.rows, x: table.x, xNames: table.xNames, futureX },
+      options: { season: input.season, horizon, method: input.method, levels: [80, 95] },
+    });
   } catch (err) {
     if (err instanceof ForecastInputError || err instanceof RangeError) {
       throw new InvalidInputError([{ field: engineField(err.message, source), message: err.message }], "The baseline could not be computed.");
@@ -244,7 +246,7 @@ async function refuseIfResolved(questionId: string): Promise<void> {
 export async function previewBaseline(actor: Actor, panelId: string, questionId: string, input: BaselineInput): Promise<BaselineView> {
   await authorisePanel(actor, panelId, "manage");
   await findQuestion(panelId, questionId);
-  const a = analyseBaseline(input);
+  const a = await analyseBaseline(input);
   return {
     questionId,
     source: a.source,
@@ -298,7 +300,7 @@ export async function attachBaseline(actor: Actor, panelId: string, questionId: 
   const access = await authorisePanel(actor, panelId, "manage");
   await findQuestion(panelId, questionId);
   await refuseIfResolved(questionId);
-  const a = analyseBaseline(input);
+  const a = await analyseBaseline(input);
   const stored = await db.$transaction(async (tx) => {
     const existed = (await tx.baseline.count({ where: { questionId } })) > 0;
     const b = await storeBaseline(tx, questionId, input, a, access.actor.userId);

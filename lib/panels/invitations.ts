@@ -13,6 +13,7 @@ import { ConflictError, NotFoundError } from "@/lib/errors";
 import type { Actor } from "@/lib/accounts/actor";
 import { newInvitationToken } from "@/lib/accounts/tokens";
 import type { InvitationCreate, InvitationReissue } from "@/lib/validation/inputs";
+import { MAX_PANELISTS_PER_PANEL, requireWithinLimit } from "@/lib/validation/limits";
 import { authorisePanel } from "./access";
 import { recordAudit } from "./audit";
 
@@ -103,6 +104,7 @@ export async function createInvitations(actor: Actor, panelId: string, input: In
       throw new ConflictError(`Already invited: ${already.map((a) => a.rosterMember.name).join(", ")}. Re-issue their link instead.`);
     }
     const taken = new Set((await tx.invitation.findMany({ where: { panelId }, select: { pseudonym: true } })).map((i) => i.pseudonym));
+    requireWithinLimit({ current: taken.size, adding: ids.length, max: MAX_PANELISTS_PER_PANEL }, "rosterMemberIds", "panelists (invitations, revoked ones included)", "A panel");
     const issued: IssuedInvitation[] = [];
     for (const id of ids) {
       const { token, tokenHash } = newInvitationToken();

@@ -17,6 +17,7 @@ import {
   defaultConsensusThreshold,
   type ConsensusMeasure,
 } from "@/lib/stats/stopping-rules";
+import { MAX_QUESTIONS_PER_PANEL, requireWithinLimit } from "@/lib/validation/limits";
 import { authorisePanel, type PanelRole } from "./access";
 import { recordAudit } from "./audit";
 import { settleDeadlines } from "./round-closing";
@@ -223,12 +224,13 @@ function requireDraft(panel: Panel): void {
   }
 }
 
-/** Adds a question at the end (draft panels only). */
+/** Adds a question at the end (draft panels only; at most MAX_QUESTIONS_PER_PANEL). */
 export async function addQuestion(actor: Actor, panelId: string, input: QuestionInput): Promise<QuestionView> {
   const access = await authorisePanel(actor, panelId, "manage");
   requireDraft(access.panel);
   const q = await db.$transaction(async (tx) => {
-    const last = await tx.question.aggregate({ where: { panelId }, _max: { position: true } });
+    const last = await tx.question.aggregate({ where: { panelId }, _max: { position: true }, _count: true });
+    requireWithinLimit({ current: last._count, adding: 1, max: MAX_QUESTIONS_PER_PANEL }, "questions", "questions", "A panel");
     const created = await tx.question.create({ data: { ...input, panelId, position: (last._max.position ?? 0) + 1 } });
     await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "question.created", detail: { questionId: created.id, ...input } });
     return created;

@@ -8,6 +8,7 @@ import type { Actor } from "@/lib/accounts/actor";
 import { requireOrganiser } from "@/lib/accounts/users";
 import type { RosterMember } from "@/lib/generated/prisma/client";
 import type { RosterMemberInput, RosterMemberUpdate } from "@/lib/validation/inputs";
+import { MAX_ROSTER_MEMBERS, requireWithinLimit } from "@/lib/validation/limits";
 
 export interface RosterMemberView {
   readonly id: string;
@@ -44,6 +45,8 @@ export async function addRosterMember(actor: Actor, input: RosterMemberInput): P
   const user = requireOrganiser(actor);
   const email = input.email.trim().toLowerCase();
   await assertEmailFree(user.userId, email);
+  const current = await db.rosterMember.count({ where: { ownerId: user.userId } });
+  requireWithinLimit({ current, adding: 1, max: MAX_ROSTER_MEMBERS }, "email", "people", "A roster");
   return view(await db.rosterMember.create({ data: { ownerId: user.userId, name: input.name, email, group: input.group } }));
 }
 

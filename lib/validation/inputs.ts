@@ -5,6 +5,7 @@
  * `safeParse` form data with the same schemas.
  */
 import { z } from "zod";
+import { MAX_QUESTIONS_PER_PANEL } from "./limits";
 
 export const ANSWER_FORMATS = ["single", "three-point"] as const;
 export const AGGREGATIONS = ["shared", "sum-of-parts"] as const;
@@ -54,7 +55,7 @@ export const panelCreate = z.object({
   consensusThreshold: ruleFields.consensusThreshold.optional(),
   stabilityThreshold: ruleFields.stabilityThreshold.optional(),
   roundLimit: ruleFields.roundLimit.optional(),
-  questions: z.array(questionInput).max(50).default([]),
+  questions: z.array(questionInput).max(MAX_QUESTIONS_PER_PANEL, `at most ${MAX_QUESTIONS_PER_PANEL} questions on a panel`).default([]),
 });
 export type PanelCreate = z.infer<typeof panelCreate>;
 

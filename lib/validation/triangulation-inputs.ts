@@ -5,14 +5,13 @@
  */
 import { z } from "zod";
 import { METHOD_IDS } from "@/lib/forecast/types";
+import { MAX_HISTORY_ROWS, historyRowsMessage } from "./limits";
 
 const finite = z.number().refine(Number.isFinite, "must be a finite number");
 const text = (max: number) => z.string().trim().min(1, "must not be empty").max(max, `at most ${max} characters`);
 
 /** Largest CSV text accepted (characters). */
 export const MAX_CSV_CHARS = 1_000_000;
-/** Most pasted values accepted. */
-export const MAX_PASTED_VALUES = 10_000;
 
 export const BASELINE_METHODS = ["auto", ...METHOD_IDS] as const;
 export const WEIGHT_RULES = ["equal", "inverse-mse", "organiser"] as const;
@@ -29,8 +28,22 @@ export type PanelWeightRule = (typeof WEIGHT_RULES)[number];
  */
 export const baselineInput = z
   .object({
-    csv: z.string().max(MAX_CSV_CHARS, `at most ${MAX_CSV_CHARS} characters`).optional().describe("CSV text with a header row"),
-    values: z.array(finite).min(1, "give at least one value").max(MAX_PASTED_VALUES).optional().describe("Pasted values, oldest first"),
+    csv: z
+      .string()
+      .max(MAX_CSV_CHARS, `at most ${MAX_CSV_CHARS} characters`)
+      .superRefine((csv, ctx) => {
+        // Counted before any parsing: the rows' number bounds the fit's time (lib/validation/limits.ts).
+        const refusal = historyRowsMessage(csv);
+        if (refusal) ctx.addIssue({ code: "custom", message: refusal });
+      })
+      .optional()
+      .describe(`CSV text with a header row (at most ${MAX_HISTORY_ROWS} data rows)`),
+    values: z
+      .array(finite)
+      .min(1, "give at least one value")
+      .max(MAX_HISTORY_ROWS, `at most ${MAX_HISTORY_ROWS} values (far longer than any monthly or quarterly business history)`)
+      .optional()
+      .describe("Pasted values, oldest first"),
     valueColumn: text(100).default("value").describe("CSV column holding the series"),
     futureValues: z
       .record(z.string().min(1).max(100), z.array(finite).min(1).max(1000))

@@ -141,6 +141,14 @@ describe("triangulate baseline", () => {
     expect(res.err).toBe("triangulate baseline: bad.csv: row 4, column 'y': 'abc' is not a number\n");
   });
 
+  it("refuses a history over the row limit shared with the API (lib/validation/limits.ts) before reading it", () => {
+    writeFileSync(join(dir, "long.csv"), ["value", ...Array.from({ length: 5001 }, (_, i) => String(i % 10))].join("\n"));
+    const res = cli(["baseline", "long.csv"]);
+    expect(res.code).toBe(1);
+    expect(res.out).toBe("");
+    expect(res.err).toContain("long.csv: at most 5000 data rows");
+  });
+
   it("refuses unknown options, bad values and absurd horizons", () => {
     const unknown = cli(["baseline", NIST12, "--sesaon", "4"]);
     expect(unknown.code).toBe(2);

@@ -17,9 +17,9 @@ const parse = (body: unknown) => baselineInput.parse(body);
 const SALES = [410, 432, 398, 455, 470, 441, 489, 502, 468, 515, 530, 498];
 const PRICE = [9.9, 9.5, 10.2, 9.4, 9.1, 9.8, 8.9, 8.7, 9.5, 8.6, 8.4, 9.2];
 
-function errorOf(body: unknown): InvalidInputError {
+async function errorOf(body: unknown): Promise<InvalidInputError> {
   try {
-    analyseBaseline(parse(body));
+    await analyseBaseline(parse(body));
   } catch (err) {
     if (err instanceof InvalidInputError) return err;
     throw err;
@@ -28,9 +28,9 @@ function errorOf(body: unknown): InvalidInputError {
 }
 
 describe("analyseBaseline", () => {
-  it("regression on an explanatory column with its target-period values given separately equals R's lm() + predict.lm", () => {
+  it("regression on an explanatory column with its target-period values given separately equals R's lm() + predict.lm", async () => {
     const csv = ["month,price,value", ...SALES.map((v, i) => `2025-${String(i + 1).padStart(2, "0")},${PRICE[i]},${v}`)].join("\n");
-    const a = analyseBaseline(parse({ csv, method: "regression", futureValues: { price: [8.8, 8.5] } }));
+    const a = await analyseBaseline(parse({ csv, method: "regression", futureValues: { price: [8.8, 8.5] } }));
     const [[fit, l80, u80, l95, u95]] = runR(`
       d <- data.frame(y = ${rVector(SALES)}, price = ${rVector(PRICE)})
       f <- lm(y ~ price, data = d)
@@ -45,16 +45,16 @@ describe("analyseBaseline", () => {
     expectClose([a.target.mean!, a.target.lower80!, a.target.upper80!, a.target.lower95!, a.target.upper95!], [fit, l80, u80, l95, u95], 1e-10, "regression vs R");
   });
 
-  it("the CSV's own future rows give the explanatory values when none are given separately", () => {
+  it("the CSV's own future rows give the explanatory values when none are given separately", async () => {
     const csv = ["price,value", ...SALES.map((v, i) => `${PRICE[i]},${v}`), "8.8,", "8.5,"].join("\n");
-    const a = analyseBaseline(parse({ csv, method: "regression" }));
+    const a = await analyseBaseline(parse({ csv, method: "regression" }));
     expect(a.horizon).toBe(2);
     expect(a.preview.rows).toHaveLength(12);
     expect(a.preview.futureRows.map((r) => r.x.price)).toEqual([8.8, 8.5]);
   });
 
-  it("an analogous product's history × 1.15 forecasts as R's naive() on the scaled series", () => {
-    const a = analyseBaseline(parse({ values: SALES, method: "naive", horizon: 2, analogue: { scaleFactor: 1.15, note: "the older model, 15% smaller market" } }));
+  it("an analogous product's history × 1.15 forecasts as R's naive() on the scaled series", async () => {
+    const a = await analyseBaseline(parse({ values: SALES, method: "naive", horizon: 2, analogue: { scaleFactor: 1.15, note: "the older model, 15% smaller market" } }));
     const [[m, l80, u80, l95, u95]] = runR(`
       suppressMessages(library(forecast))
       f <- naive(${rVector(SALES)} * 1.15, h = 2, level = c(80, 95))
@@ -65,14 +65,14 @@ describe("analyseBaseline", () => {
     expect(a.result.notes.join(" ")).toMatch(/multiplied by 1.15 before fitting: the older model/);
   });
 
-  it("errors name the CSV row and column, the value column, the explanatory column or the option", () => {
-    const bad = errorOf({ csv: "value\n1\n2\nabc\n4" });
+  it("errors name the CSV row and column, the value column, the explanatory column or the option", async () => {
+    const bad = await errorOf({ csv: "value\n1\n2\nabc\n4" });
     expect(bad.errors).toEqual([{ field: "csv", row: 4, column: "value", message: "row 4, column 'value': 'abc' is not a number" }]);
-    expect(errorOf({ csv: "units\n1\n2", valueColumn: "sales" }).errors[0].field).toBe("valueColumn");
-    expect(errorOf({ csv: "price,value\n1,2\n2,3\n3,5", futureValues: { cost: [1] } }).errors.map((e) => e.field)).toEqual(["futureValues.cost", "futureValues.price"]);
-    expect(errorOf({ values: [1, 2, 3, 4, 5], method: "seasonal-naive", season: 4 }).errors[0].field).toBe("season");
-    expect(errorOf({ values: [5] }).errors[0].field).toBe("values");
-    expect(errorOf({ csv: "value\n" }).errors[0]).toMatchObject({ field: "csv", message: "the history has no data rows" });
+    expect((await errorOf({ csv: "units\n1\n2", valueColumn: "sales" })).errors[0].field).toBe("valueColumn");
+    expect((await errorOf({ csv: "price,value\n1,2\n2,3\n3,5", futureValues: { cost: [1] } })).errors.map((e) => e.field)).toEqual(["futureValues.cost", "futureValues.price"]);
+    expect((await errorOf({ values: [1, 2, 3, 4, 5], method: "seasonal-naive", season: 4 })).errors[0].field).toBe("season");
+    expect((await errorOf({ values: [5] })).errors[0].field).toBe("values");
+    expect((await errorOf({ csv: "value\n" })).errors[0]).toMatchObject({ field: "csv", message: "the history has no data rows" });
   });
 
   it("the request schema wants exactly one of csv and values, and an organiser weight only with its rule", () => {
