@@ -60,3 +60,13 @@ export class InvalidInputError extends DomainError {
     super(422, "Invalid input", message, errors);
   }
 }
+
+/** 429: over a rate limit (lib/http/rate-limit.ts); the response says when to try again (Retry-After). */
+export class TooManyRequestsError extends DomainError {
+  constructor(
+    readonly retryAfterSeconds: number,
+    message = "Too many requests; try again later.",
+  ) {
+    super(429, "Too Many Requests", `${message} Retry after ${retryAfterSeconds} s.`);
+  }
+}

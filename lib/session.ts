@@ -3,14 +3,14 @@
  */
 import { getServerSession } from "next-auth";
 import { authOptions } from "@/lib/auth";
-import { actorFromUserId, type UserActor } from "@/lib/accounts/actor";
+import { actorFromSession, type UserActor } from "@/lib/accounts/actor";
 
 /**
  * The signed-in organiser or reviewer as an actor for the domain services, or null when
- * nobody is signed in (or the account has been deleted since).
+ * nobody is signed in (or the account has been deleted or the session ended since).
  */
 export async function getCurrentUser(): Promise<UserActor | null> {
   const session = await getServerSession(authOptions);
-  const id = (session?.user as { id?: string } | undefined)?.id;
-  return id ? actorFromUserId(id) : null;
+  const user = session?.user as { id?: unknown; gen?: unknown } | undefined;
+  return user ? actorFromSession(user.id, user.gen) : null;
 }

@@ -2,20 +2,16 @@ import type { Metadata } from "next";
 import { redirect } from "next/navigation";
 import { hasOrganiser } from "@/lib/accounts/users";
 import { getCurrentUser } from "@/lib/session";
+import { sameOriginPath } from "@/lib/http/same-origin-path";
 import SignInForm from "@/lib/ui/sign-in-form";
 
 export const metadata: Metadata = { title: "Sign in" };
-
-/** Only same-site paths are followed after signing in. */
-function safeNext(next: string | string[] | undefined): string | null {
-  return typeof next === "string" && next.startsWith("/") && !next.startsWith("//") ? next : null;
-}
 
 export default async function SignInPage({ searchParams }: { searchParams: Promise<{ next?: string | string[]; created?: string }> }) {
   const { next, created } = await searchParams;
   const user = await getCurrentUser();
   const home = (role: string) => (role === "organiser" ? "/panels" : "/reports");
-  if (user) redirect(safeNext(next) ?? home(user.role));
+  if (user) redirect(sameOriginPath(next) ?? home(user.role));
   const firstRun = !(await hasOrganiser());
   return (
     <section>
@@ -27,7 +23,7 @@ export default async function SignInPage({ searchParams }: { searchParams: Promi
           No organiser account exists yet. <a href="/setup">Create the first organiser</a>.
         </p>
       ) : null}
-      <SignInForm next={safeNext(next) ?? "/panels"} />
+      <SignInForm next={sameOriginPath(next) ?? "/panels"} />
     </section>
   );
 }

@@ -6,7 +6,7 @@
  */
 import { db, sqlRows, sqlTime } from "@/lib/db";
 import { NotAuthenticatedError } from "@/lib/errors";
-import { API_TOKEN_PREFIX, hashToken, tokenMatches } from "./tokens";
+import { API_TOKEN_PREFIX, apiTokenExpiry, hashToken, tokenMatches } from "./tokens";
 
 export type UserRole = "organiser" | "reviewer";
 
@@ -17,6 +17,8 @@ export interface UserActor {
   readonly role: UserRole;
   readonly name: string;
   readonly email: string;
+  /** How the request was authenticated: only a session may manage tokens and the password. */
+  readonly via: "session" | "token";
 }
 
 /** A panelist, known only through their invitation (one panel). */
@@ -29,8 +31,8 @@ export interface PanelistActor {
 
 export type Actor = UserActor | PanelistActor;
 
-function toUserActor(u: { id: string; role: string; name: string; email: string }): UserActor {
-  return { kind: "user", userId: u.id, role: u.role === "reviewer" ? "reviewer" : "organiser", name: u.name, email: u.email };
+function toUserActor(u: { id: string; role: string; name: string; email: string }, via: UserActor["via"]): UserActor {
+  return { kind: "user", userId: u.id, role: u.role === "reviewer" ? "reviewer" : "organiser", name: u.name, email: u.email, via };
 }
 
 /**
@@ -42,23 +44,36 @@ function isStale(at: Date | null): boolean {
   return at === null || Date.now() - at.getTime() >= LAST_SEEN_RESOLUTION_MS;
 }
 
-/** The actor for a user id (from a session); null when the user no longer exists. */
+/** The actor for a user id (admin CLI, demo loader); null when the user no longer exists. */
 export async function actorFromUserId(userId: string): Promise<UserActor | null> {
   const user = await db.user.findUnique({ where: { id: userId } });
-  return user ? toUserActor(user) : null;
+  return user ? toUserActor(user, "session") : null;
+}
+
+/**
+ * The actor of a session (the JWT's subject and session generation, lib/auth.ts); null when the
+ * user no longer exists or the session has been ended since (sign-out or a password change
+ * raised `User.sessionGeneration`). Checked on every request, in the database, so it holds on
+ * every instance.
+ */
+export async function actorFromSession(userId: unknown, generation: unknown): Promise<UserActor | null> {
+  if (typeof userId !== "string" || typeof generation !== "number") return null;
+  const user = await db.user.findUnique({ where: { id: userId } });
+  return user && user.sessionGeneration === generation ? toUserActor(user, "session") : null;
 }
 
 /**
  * The actor for a personal API token (`trg_pat_…`).
- * @throws NotAuthenticatedError when the token is unknown or revoked.
+ * @throws NotAuthenticatedError when the token is unknown, revoked or expired.
  */
 export async function actorFromApiToken(token: string): Promise<UserActor> {
   const row = await db.apiToken.findUnique({ where: { tokenHash: hashToken(token) }, include: { user: true } });
   if (!row || !tokenMatches(token, row.tokenHash) || row.revokedAt) {
     throw new NotAuthenticatedError("The API token is unknown or has been revoked.");
   }
+  if (apiTokenExpiry(row).getTime() <= Date.now()) throw new NotAuthenticatedError("The API token has expired; create a new one.");
   if (isStale(row.lastUsedAt)) await db.apiToken.update({ where: { id: row.id }, data: { lastUsedAt: new Date() } });
-  return toUserActor(row.user);
+  return toUserActor(row.user, "token");
 }
 
 /**

@@ -37,3 +37,21 @@ export function newApiToken(): { token: string; tokenHash: string } {
   const token = API_TOKEN_PREFIX + randomBytes(32).toString("base64url");
   return { token, tokenHash: hashToken(token) };
 }
+
+/**
+ * Personal API tokens expire: after `API_TOKEN_DEFAULT_DAYS` unless the organiser asks for fewer
+ * or more days, at most `API_TOKEN_MAX_DAYS` (a leaked token stops working on its own).
+ */
+export const API_TOKEN_DEFAULT_DAYS = 90;
+export const API_TOKEN_MAX_DAYS = 365;
+const DAY_MS = 86_400_000;
+
+/** When a token made at `createdAt` for `days` days expires. */
+export function apiTokenExpiresAt(createdAt: Date, days = API_TOKEN_DEFAULT_DAYS): Date {
+  return new Date(createdAt.getTime() + days * DAY_MS);
+}
+
+/** A stored token's expiry (tokens from before expiry was stored: the default after creation). */
+export function apiTokenExpiry(row: { createdAt: Date; expiresAt: Date | null }): Date {
+  return row.expiresAt ?? apiTokenExpiresAt(row.createdAt);
+}

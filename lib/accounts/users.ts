@@ -2,10 +2,10 @@
  * Accounts of organisers and reviewers, and the personal API tokens of organisers.
  */
 import { db, isSerializationFailure } from "@/lib/db";
-import { ConflictError, ForbiddenError, NotFoundError } from "@/lib/errors";
+import { ConflictError, ForbiddenError, InvalidInputError, NotFoundError } from "@/lib/errors";
 import type { Actor, UserActor, UserRole } from "./actor";
 import { dummyPasswordHash, hashPassword, verifyPassword } from "./passwords";
-import { newApiToken } from "./tokens";
+import { apiTokenExpiresAt, apiTokenExpiry, newApiToken } from "./tokens";
 
 /** A user as shown to others (never the password hash). */
 export interface UserView {
@@ -28,7 +28,7 @@ function view(u: { id: string; email: string; name: string; role: string; create
 }
 
 /** E-mail addresses are compared case-insensitively: they are stored lower-cased. */
-function normaliseEmail(email: string): string {
+export function normaliseEmail(email: string): string {
   return email.trim().toLowerCase();
 }
 
@@ -79,16 +79,17 @@ export async function createFirstOrganiser(input: Omit<NewUser, "role">): Promis
 }
 
 /**
- * Checks an e-mail and password (next-auth's credentials provider). Returns the user, or null
+ * Checks an e-mail and password (next-auth's credentials provider). Returns the user and the
+ * session generation a new session belongs to (lib/accounts/actor.ts, actorFromSession), or null
  * when either is wrong; an unknown e-mail costs the same scrypt work as a wrong password.
  */
-export async function authenticate(email: string, password: string): Promise<UserView | null> {
+export async function authenticate(email: string, password: string): Promise<(UserView & { sessionGeneration: number }) | null> {
   const user = await db.user.findUnique({ where: { email: normaliseEmail(email) } });
   if (!user) {
     await verifyPassword(password, await dummyPasswordHash());
     return null;
   }
-  return (await verifyPassword(password, user.passwordHash)) ? view(user) : null;
+  return (await verifyPassword(password, user.passwordHash)) ? { ...view(user), sessionGeneration: user.sessionGeneration } : null;
 }
 
 /** The signed-in user's own account. @throws ForbiddenError for a panelist. */
@@ -105,6 +106,17 @@ export function requireOrganiser(actor: Actor): UserActor {
   return actor;
 }
 
+/**
+ * The actor as an organiser signed in with a session (not an API token): managing tokens and the
+ * password needs the person, so that a leaked token cannot make itself a successor or lock its
+ * owner out. @throws ForbiddenError otherwise.
+ */
+function requireSessionOrganiser(actor: Actor): UserActor {
+  const user = requireOrganiser(actor);
+  if (user.via !== "session") throw new ForbiddenError("API tokens are created and revoked by a signed-in organiser, not with an API token.");
+  return user;
+}
+
 /** The actor as a signed-in user. @throws ForbiddenError for a panelist. */
 export function requireUser(actor: Actor): UserActor {
   if (actor.kind !== "user") throw new ForbiddenError("Panelists have no account; this needs an organiser or reviewer.");
@@ -117,26 +129,31 @@ export interface ApiTokenView {
   readonly createdAt: string;
   readonly lastUsedAt: string | null;
   readonly revokedAt: string | null;
+  readonly expiresAt: string;
 }
 
-function tokenView(t: { id: string; name: string; createdAt: Date; lastUsedAt: Date | null; revokedAt: Date | null }): ApiTokenView {
+function tokenView(t: { id: string; name: string; createdAt: Date; lastUsedAt: Date | null; revokedAt: Date | null; expiresAt: Date | null }): ApiTokenView {
   return {
     id: t.id,
     name: t.name,
     createdAt: t.createdAt.toISOString(),
     lastUsedAt: t.lastUsedAt?.toISOString() ?? null,
     revokedAt: t.revokedAt?.toISOString() ?? null,
+    expiresAt: apiTokenExpiry(t).toISOString(),
   };
 }
 
 /**
- * Creates a personal API token for the signed-in organiser. The returned `token` is shown
+ * Creates a personal API token for the organiser signed in with a session, valid for
+ * `expiresInDays` (lib/accounts/tokens.ts: default and maximum). The returned `token` is shown
  * once: only its SHA-256 digest is stored.
  */
-export async function createApiToken(actor: Actor, input: { name: string }): Promise<ApiTokenView & { token: string }> {
-  const user = requireOrganiser(actor);
+export async function createApiToken(actor: Actor, input: { name: string; expiresInDays?: number }): Promise<ApiTokenView & { token: string }> {
+  const user = requireSessionOrganiser(actor);
   const { token, tokenHash } = newApiToken();
-  const row = await db.apiToken.create({ data: { userId: user.userId, name: input.name.trim(), tokenHash } });
+  const createdAt = new Date();
+  const expiresAt = apiTokenExpiresAt(createdAt, input.expiresInDays);
+  const row = await db.apiToken.create({ data: { userId: user.userId, name: input.name.trim(), tokenHash, createdAt, expiresAt } });
   return { ...tokenView(row), token };
 }
 
@@ -148,13 +165,42 @@ export async function listApiTokens(actor: Actor): Promise<ApiTokenView[]> {
 }
 
 /**
- * Revokes one of the organiser's API tokens (idempotent: revoking twice keeps the first time).
+ * Revokes one of the organiser's API tokens (signed in with a session) (idempotent: revoking twice keeps the first time).
  * @throws NotFoundError when the token is not the organiser's.
  */
 export async function revokeApiToken(actor: Actor, tokenId: string): Promise<ApiTokenView> {
-  const user = requireOrganiser(actor);
+  const user = requireSessionOrganiser(actor);
   const row = await db.apiToken.findFirst({ where: { id: tokenId, userId: user.userId } });
   if (!row) throw new NotFoundError("The API token");
   const updated = row.revokedAt ? row : await db.apiToken.update({ where: { id: row.id }, data: { revokedAt: new Date() } });
   return tokenView(updated);
+}
+
+/**
+ * Ends every session of the user (sign-out, lib/auth.ts): raises `User.sessionGeneration`, so
+ * that every session cookie issued before, copies included, is refused from now on
+ * (lib/accounts/actor.ts, actorFromSession).
+ */
+export async function endSessions(userId: string, generation: number): Promise<void> {
+  // Only from a current session: a copy of an already ended one cannot end the newer ones.
+  await db.user.updateMany({ where: { id: userId, sessionGeneration: generation }, data: { sessionGeneration: { increment: 1 } } });
+}
+
+/**
+ * Changes the password of the user signed in with a session (not an API token), after checking
+ * the current one, and ends every session of the user (sign in again with the new password).
+ * The caller counts the attempt against the sign-in limits first (lib/http/rate-limit.ts).
+ * @throws InvalidInputError when the current password is wrong.
+ */
+export async function changePassword(actor: Actor, input: { currentPassword: string; newPassword: string }): Promise<{ changed: true }> {
+  const user = requireUser(actor);
+  if (user.via !== "session") throw new ForbiddenError("The password is changed by the signed-in user, not with an API token.");
+  const row = await db.user.findUnique({ where: { id: user.userId } });
+  if (!row) throw new NotFoundError("The account");
+  if (!(await verifyPassword(input.currentPassword, row.passwordHash))) {
+    throw new InvalidInputError([{ field: "currentPassword", message: "is not your current password" }]);
+  }
+  const passwordHash = await hashPassword(input.newPassword);
+  await db.user.update({ where: { id: row.id }, data: { passwordHash, sessionGeneration: { increment: 1 } } });
+  return { changed: true };
 }

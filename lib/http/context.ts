@@ -1,10 +1,11 @@
 /**
  * Who is making an API request: `Authorization: Bearer <token>` (a personal API token
  * `trg_pat_…` of an organiser, or a panelist's invitation token), else the next-auth session
- * cookie. A Bearer header that does not resolve is a 401 (it is not silently ignored).
+ * cookie (valid while its session generation is current, lib/accounts/actor.ts). A Bearer header
+ * that does not resolve is a 401 (it is not silently ignored); a cookie that does not is no session.
  */
 import { decode } from "next-auth/jwt";
-import { actorFromBearerToken, actorFromUserId, type Actor } from "@/lib/accounts/actor";
+import { actorFromBearerToken, actorFromSession, type Actor } from "@/lib/accounts/actor";
 import { authSecret } from "@/lib/env";
 import { NotAuthenticatedError } from "@/lib/errors";
 
@@ -14,7 +15,13 @@ function cookieValue(header: string | null, name: string): string | undefined {
   if (!header) return undefined;
   for (const part of header.split(";")) {
     const eq = part.indexOf("=");
-    if (eq > 0 && part.slice(0, eq).trim() === name) return decodeURIComponent(part.slice(eq + 1).trim());
+    if (eq > 0 && part.slice(0, eq).trim() === name) {
+      try {
+        return decodeURIComponent(part.slice(eq + 1).trim());
+      } catch {
+        return undefined; // a malformed %-escape: no such cookie (no session), not a server error
+      }
+    }
   }
   return undefined;
 }
@@ -52,5 +59,5 @@ export async function actorFromRequest(req: Request): Promise<Actor | null> {
   if (!secret) return null;
   const jwt = await decode({ token, secret }).catch(() => null);
   if (!jwt?.sub || (jwt.exp !== undefined && typeof jwt.exp === "number" && jwt.exp * 1000 < Date.now())) return null;
-  return actorFromUserId(jwt.sub);
+  return actorFromSession(jwt.sub, jwt.gen);
 }

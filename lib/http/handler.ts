@@ -57,10 +57,14 @@ export interface NextRouteContext {
  */
 export const MAX_BODY_BYTES = 2 * 1024 * 1024;
 
-class BodyTooLargeError extends Error {}
+export class BodyTooLargeError extends Error {}
 
-/** The body as text: at most MAX_BODY_BYTES (counted as it streams in), and valid UTF-8. */
-async function readText(req: Request): Promise<string> {
+/**
+ * The body as text: at most `max` bytes (counted as it streams in, so a chunked body without
+ * Content-Length is cut off too), and valid UTF-8.
+ * @throws BodyTooLargeError over `max`; TypeError when it is not UTF-8
+ */
+export async function readText(req: Request, max = MAX_BODY_BYTES): Promise<string> {
   if (!req.body) return "";
   const reader = req.body.getReader();
   const chunks: Uint8Array[] = [];
@@ -69,7 +73,7 @@ async function readText(req: Request): Promise<string> {
     const { done, value } = await reader.read();
     if (done) break;
     size += value.byteLength;
-    if (size > MAX_BODY_BYTES) {
+    if (size > max) {
       await reader.cancel().catch(() => undefined);
       throw new BodyTooLargeError();
     }

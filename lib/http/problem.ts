@@ -5,7 +5,7 @@
  * - anything else → 500 with a generic text (the error is logged on the server, not sent).
  */
 import { z } from "zod";
-import { DomainError, type FieldError } from "@/lib/errors";
+import { DomainError, TooManyRequestsError, type FieldError } from "@/lib/errors";
 
 export const PROBLEM_CONTENT_TYPE = "application/problem+json";
 
@@ -48,7 +48,8 @@ export function toProblem(err: unknown, instance?: string): Response {
     });
   }
   if (err instanceof DomainError) {
-    const headers: Record<string, string> = err.status === 401 ? { "www-authenticate": 'Bearer realm="triangulate"' } : {};
+    const headers: Record<string, string> =
+      err.status === 401 ? { "www-authenticate": 'Bearer realm="triangulate"' } : err instanceof TooManyRequestsError ? { "retry-after": String(err.retryAfterSeconds) } : {};
     return problemResponse(
       {
         type: "about:blank",

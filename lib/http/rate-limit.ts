@@ -11,6 +11,7 @@
  * only hold behind a proxy that overwrites it; the per-account limits below do not depend on it.
  */
 import { db, sqlRows, sqlTime } from "@/lib/db";
+import { TooManyRequestsError } from "@/lib/errors";
 import { problemResponse } from "./problem";
 
 /**
@@ -84,8 +85,19 @@ export const limits = {
 /** Operations counted against `limits.invitations` (by organiser). */
 export const INVITATION_OPERATIONS: ReadonlySet<string> = new Set(["createInvitations", "reissueInvitation"]);
 
-/** The client's address as far as the request tells (see the module comment). */
-export function clientAddress(req: Request): string {
+/**
+ * Counts one password check against the sign-in limits: per address and account, and per account
+ * from anywhere (sign-in, lib/auth.ts; password change). Called before the password is checked.
+ * @param email the account's e-mail as the service looks it up (normaliseEmail)
+ * @throws TooManyRequestsError over either limit
+ */
+export async function countPasswordAttempt(address: string, email: string): Promise<void> {
+  const wait = (await limits.signInAddress.hit(`${address} ${email}`)) ?? (await limits.signInAccount.hit(email));
+  if (wait !== null) throw new TooManyRequestsError(wait, "Too many sign-in attempts.");
+}
+
+/** The client's address as far as the request (or a server action's headers) tells (see the module comment). */
+export function clientAddress(req: { readonly headers: Headers }): string {
   const xff = req.headers.get("x-forwarded-for");
   const last = xff?.split(",").at(-1)?.trim();
   return last || req.headers.get("x-real-ip") || "unknown";

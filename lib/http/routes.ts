@@ -75,6 +75,18 @@ export const routes = {
     response: out.user,
     errors: [...AUTH_ERRORS],
   }),
+  changePassword: route({
+    operationId: "changePassword",
+    method: "POST",
+    path: "/api/v1/account/password",
+    summary: "Change the signed-in user's password (session only; ends every session; limited like sign-in)",
+    tag: "account",
+    auth: "user",
+    body: input.passwordChange,
+    status: 200,
+    response: out.passwordChanged,
+    errors: [...AUTH_ERRORS, 422, 429],
+  }),
   listApiTokens: route({
     operationId: "listApiTokens",
     method: "GET",

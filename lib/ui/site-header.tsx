@@ -27,6 +27,7 @@ export default function SiteHeader({ user }: { user: UserActor | null }) {
             ) : null}
             <a href="/reports">Reports</a>
             {user.role === "organiser" ? <a href="/account/tokens">API tokens</a> : null}
+            <a href="/account">Account</a>
             <span className="who">
               {user.name} ({user.role})
             </span>

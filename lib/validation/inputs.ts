@@ -6,6 +6,7 @@
  */
 import { z } from "zod";
 import { MAX_QUESTIONS_PER_PANEL } from "./limits";
+import { API_TOKEN_DEFAULT_DAYS, API_TOKEN_MAX_DAYS } from "../accounts/tokens";
 
 export const ANSWER_FORMATS = ["single", "three-point"] as const;
 export const AGGREGATIONS = ["shared", "sum-of-parts"] as const;
@@ -108,17 +109,32 @@ export const answerInput = z.object({
 });
 export type AnswerInput = z.infer<typeof answerInput>;
 
-/** A personal API token's label. */
-export const apiTokenCreate = z.object({ name: text(80) });
+/** A personal API token's label and lifetime (lib/accounts/tokens.ts: default and maximum). */
+export const apiTokenCreate = z.object({
+  name: text(80),
+  expiresInDays: z
+    .number()
+    .int("must be a whole number")
+    .min(1, "at least 1")
+    .max(API_TOKEN_MAX_DAYS, `at most ${API_TOKEN_MAX_DAYS}`)
+    .optional()
+    .describe(`Days until the token expires (default ${API_TOKEN_DEFAULT_DAYS}).`),
+});
 export type ApiTokenCreate = z.infer<typeof apiTokenCreate>;
+
+const password = z.string().min(12, "at least 12 characters").max(200, "at most 200 characters");
 
 /** The first organiser (only while none exists). */
 export const setupInput = z.object({
   email: z.email("must be an e-mail address").max(200),
   name: text(120),
-  password: z.string().min(12, "at least 12 characters").max(200, "at most 200 characters"),
+  password,
 });
 export type SetupInput = z.infer<typeof setupInput>;
+
+/** A password change: the current password and the new one. */
+export const passwordChange = z.object({ currentPassword: z.string().min(1, "required").max(200, "at most 200 characters"), newPassword: password });
+export type PasswordChange = z.infer<typeof passwordChange>;
 
 /** The Idempotency-Key request header. */
 export const idempotencyKey = z.string().min(1).max(200).regex(/^[\x21-\x7e]+$/, "printable ASCII without spaces");

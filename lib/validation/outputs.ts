@@ -33,7 +33,8 @@ export const problem = z
 
 export const user = z.object({ id: z.string(), email: z.string(), name: z.string(), role: z.enum(USER_ROLES), createdAt: dateTime });
 
-export const apiToken = z.object({ id: z.string(), name: z.string(), createdAt: dateTime, lastUsedAt: dateTimeOrNull, revokedAt: dateTimeOrNull });
+export const apiToken = z.object({ id: z.string(), name: z.string(), createdAt: dateTime, lastUsedAt: dateTimeOrNull, revokedAt: dateTimeOrNull, expiresAt: dateTime });
+export const passwordChanged = z.object({ changed: z.literal(true) });
 export const issuedApiToken = apiToken.extend({ token: z.string().describe("Shown once; send as 'Authorization: Bearer <token>'.") });
 
 export const question = z.object({

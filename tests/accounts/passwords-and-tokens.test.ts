@@ -57,3 +57,15 @@ describe("tokens", () => {
     expect(tokenMatches(token, "abcd")).toBe(false);
   });
 });
+
+describe("API token expiry", () => {
+  it("is 90 days after creation by default (90 × 86,400,000 ms = 7,776,000,000 ms, hand computation); old rows without one get the default", async () => {
+    const { apiTokenExpiresAt, apiTokenExpiry } = await import("../../lib/accounts/tokens");
+    const created = new Date("2026-01-01T00:00:00.000Z");
+    expect(apiTokenExpiresAt(created).toISOString()).toBe("2026-04-01T00:00:00.000Z"); // Jan 31 + Feb 28 + Mar 31 = 90 days
+    expect(apiTokenExpiresAt(created, 7).toISOString()).toBe("2026-01-08T00:00:00.000Z");
+    expect(apiTokenExpiry({ createdAt: created, expiresAt: null }).getTime() - created.getTime()).toBe(7_776_000_000);
+    const set = new Date("2026-02-01T00:00:00.000Z");
+    expect(apiTokenExpiry({ createdAt: created, expiresAt: set })).toBe(set);
+  });
+});

@@ -18,6 +18,8 @@ const ROLES = ["anonymous", "panelistElsewhere", "panelistHere", "reviewer", "ot
 type Role = (typeof ROLES)[number];
 
 let owner = "";
+/** The owner's session (tokens are created and revoked only with one). */
+let ownerCookie = "";
 let other = "";
 let reviewerCookie = "";
 let reviewer: TestUser;
@@ -103,12 +105,14 @@ const ROWS: readonly Row[] = [
   { route: "ruleDefaults", path: () => "/api/v1/rule-defaults", expect: all(200) },
   { route: "getAccount", path: () => "/api/v1/account", expect: userRoute(200) },
   { route: "listApiTokens", path: () => "/api/v1/tokens", expect: organiserRoute(200) },
-  { route: "createApiToken", path: () => "/api/v1/tokens", body: () => ({ name: "matrix" }), expect: organiserRoute(201) },
+  // Tokens are managed only with a session, never with a token (tests/app/security.test.ts has the session cases).
+  { route: "createApiToken", path: () => "/api/v1/tokens", body: () => ({ name: "matrix" }), expect: { ...all(403), anonymous: 401 } },
   {
     route: "revokeApiToken",
-    path: async () => `/api/v1/tokens/${(await ok("POST", "/api/v1/tokens", owner, { name: "to revoke" })).id}`,
-    expect: ownerOnly(200),
+    path: async () => `/api/v1/tokens/${(await api("POST", "/api/v1/tokens", { cookie: ownerCookie, body: { name: "to revoke" } })).body.id}`,
+    expect: { ...all(403), anonymous: 401 },
   },
+  { route: "changePassword", path: () => "/api/v1/account/password", body: () => ({ currentPassword: "not-the-password", newPassword: "a-long-password-1" }), expect: { ...all(403), anonymous: 401, reviewer: 422 } },
   { route: "listRoster", path: () => "/api/v1/roster", expect: organiserRoute(200) },
   { route: "addRosterMember", path: () => "/api/v1/roster", body: () => ({ name: "New Person", email: `n.${unique()}@example.com`, group: "sales" }), expect: organiserRoute(201) },
   { route: "updateRosterMember", path: () => `/api/v1/roster/${memberP}`, body: () => ({ group: "operations" }), expect: ownerOnly(200) },
@@ -204,7 +208,9 @@ const ROWS: readonly Row[] = [
 ];
 
 beforeAll(async () => {
-  owner = await apiTokenFor(createAccount("Ada Fenwick"));
+  const ownerUser = createAccount("Ada Fenwick");
+  owner = await apiTokenFor(ownerUser);
+  ownerCookie = await signIn(ownerUser);
   other = await apiTokenFor(createAccount("Bram Oakes"));
   reviewer = createAccount("Cleo Marr", "reviewer");
   reviewerCookie = await signIn(reviewer);
@@ -265,9 +271,9 @@ describe("credentials", () => {
     expect(unknown.status).toBe(401);
     expect(unknown.headers.get("www-authenticate")).toMatch(/^Bearer/);
     expect((await api("GET", "/api/v1/panels", { headers: { authorization: "Basic abc" } })).status).toBe(401);
-    const t = await ok("POST", "/api/v1/tokens", owner, { name: "short-lived" });
+    const t = (await api("POST", "/api/v1/tokens", { cookie: ownerCookie, body: { name: "short-lived" } })).body;
     expect((await api("GET", "/api/v1/panels", { token: t.token })).status).toBe(200);
-    await ok("DELETE", `/api/v1/tokens/${t.id}`, owner);
+    expect((await api("DELETE", `/api/v1/tokens/${t.id}`, { cookie: ownerCookie })).status).toBe(200);
     const revoked = await api("GET", "/api/v1/panels", { token: t.token });
     expect(revoked.status).toBe(401);
     expect(revoked.body.detail).toMatch(/revoked/);

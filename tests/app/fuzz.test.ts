@@ -15,7 +15,7 @@
 import { createHash, randomBytes } from "node:crypto";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { routes, type RouteDef } from "../../lib/http/routes";
-import { api, apiTokenFor, baseURL, clearDatabase, createAccount, openDb, sql } from "./api-client";
+import { api, apiTokenFor, baseURL, clearDatabase, createAccount, openDb, signIn, sql } from "./api-client";
 import { appTables } from "../../bench/sql";
 
 const RNG_START = 0x7a11_f022 ^ 0x1234; // fixed: change only on purpose
@@ -254,14 +254,17 @@ async function snapshot(): Promise<Record<string, { rows: number; sha256: string
 }
 
 beforeAll(async () => {
-  owner = await apiTokenFor(createAccount("Ines Quillmoor"));
+  const ownerUser = createAccount("Ines Quillmoor");
+  owner = await apiTokenFor(ownerUser);
   other = await apiTokenFor(createAccount("Otto Farrow"));
   OTHER_USER = (await ok("GET", "/api/v1/account", other)).id;
   const tokens = await ok("GET", "/api/v1/tokens", owner);
   TOKEN_ID = tokens[0].id;
   TOKEN_ID2 = (await ok("GET", "/api/v1/tokens", other))[0].id;
-  const spare = await ok("POST", "/api/v1/tokens", owner, { name: "to revoke" });
-  await ok("DELETE", `/api/v1/tokens/${spare.id}`, owner);
+  // Tokens are created and revoked with a session only.
+  const ownerCookie = await signIn(ownerUser);
+  const spare = (await api("POST", "/api/v1/tokens", { cookie: ownerCookie, body: { name: "to revoke" } })).body;
+  expect((await api("DELETE", `/api/v1/tokens/${spare.id}`, { cookie: ownerCookie })).status).toBe(200);
   revokedPat = spare.token;
 
   const panel = await ok("POST", "/api/v1/panels", owner, { title: "Quillmoor QF-2 year one", questions: [QUESTION] });
