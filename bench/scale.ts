@@ -22,7 +22,9 @@
  * - the server's peak resident memory (VmHWM from /proc/<pid>/status).
  *
  * Arguments: `--sizes NxQ,…`, `--reps R` (5), `--concurrency C` (answers in flight, 50).
- * SERVER_NODE_ARGS (e.g. "--cpu-prof --cpu-prof-dir=/tmp/prof") profiles the server.
+ * SERVER_NODE_ARGS (e.g. "--cpu-prof --cpu-prof-dir=/tmp/prof") profiles the server (each page's
+ * line names its CLOCK_MONOTONIC window, to cut the profile); SCALE_KEEP_DB=1 keeps each size's
+ * database file (for profiling the domain services on it directly).
  * Traffic goes only to the loopback server this script starts; every loop is bounded.
  */
 import { mkdtempSync, readFileSync, rmSync } from "node:fs";
@@ -300,7 +302,8 @@ async function measureSize(n: number, q: number): Promise<Column> {
   } finally {
     c.close();
     await server.stop();
-    rmSync(dir, { recursive: true, force: true });
+    if (process.env.SCALE_KEEP_DB === "1") console.log(`database kept: ${databaseUrl}`);
+    else rmSync(dir, { recursive: true, force: true });
   }
   return col;
 }
