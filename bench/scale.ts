@@ -105,9 +105,15 @@ interface Timed {
   readonly ms: number;
 }
 
-async function postAnswer(c: Client, p: Panelist, body: unknown): Promise<Timed> {
+/**
+ * Requests sent one at a time go on a new connection (`connection: close`): a pooled socket left
+ * idle could be closed by the server (keep-alive timeout) just as it is reused.
+ */
+const FRESH = { connection: "close" };
+
+async function postAnswer(c: Client, p: Panelist, body: unknown, headers: Record<string, string> = {}): Promise<Timed> {
   try {
-    const r = await c.request("POST", "/api/v1/panelist/answers", { token: p.token, headers: { "idempotency-key": newKey() }, body, timeoutMs: 120_000 });
+    const r = await c.request("POST", "/api/v1/panelist/answers", { token: p.token, headers: { ...headers, "idempotency-key": newKey() }, body, timeoutMs: 120_000 });
     return { status: r.status, ms: r.ms };
   } catch {
     return { status: 0, ms: 0 };
@@ -244,7 +250,7 @@ async function measureSize(n: number, q: number): Promise<Column> {
       // CLOCK_MONOTONIC in µs, the clock of V8's CPU profiles: slices a server profile per page.
       const from = process.hrtime.bigint() / 1000n;
       for (let r = 0; r <= REPS; r++) {
-        const res = await c.request("GET", urlPath, { ...auth, timeoutMs: 300_000 });
+        const res = await c.request("GET", urlPath, { ...auth, headers: FRESH, timeoutMs: 300_000 });
         if (res.status !== 200) throw new Error(`GET ${urlPath} → ${res.status}`);
         if (r > 0) times.push(res.ms);
         html = typeof res.body === "string" ? res.body : JSON.stringify(res.body);
@@ -273,13 +279,17 @@ async function measureSize(n: number, q: number): Promise<Column> {
     // An answer POST at idle, and while the report page renders.
     const round3 = panelists.filter((_, k) => k % 5 >= 3);
     let next = 0;
-    const oneAnswer = () => postAnswer(c, round3[next++ % round3.length], answerBody(rnd, questions[0].id, 0, 3));
+    const oneAnswer = () => postAnswer(c, round3[next++ % round3.length], answerBody(rnd, questions[0].id, 0, 3), FRESH);
     const idle: number[] = [];
     for (let r = 0; r < 10; r++) idle.push((await oneAnswer()).ms);
     const during: number[] = [];
     for (let r = 0; r < Math.max(1, Math.min(REPS, 3)); r++) {
       let rendering = true;
-      const report = c.request("GET", reportPath, { cookie: reviewerCookie, timeoutMs: 300_000 }).finally(() => (rendering = false));
+      // Settled (never rejected) at once, so a failure waits for the await below instead of going unhandled.
+      const report = c.request("GET", reportPath, { cookie: reviewerCookie, headers: FRESH, timeoutMs: 300_000 }).then(
+        (r) => ((rendering = false), r.status === 200 ? null : new Error(`report page → ${r.status}`)),
+        (e: unknown) => ((rendering = false), e),
+      );
       // Bounded: stops when the report arrives (or times out), at most 3,000 POSTs.
       for (let k = 0; rendering && k < 3000; k++) {
         await new Promise((res) => setTimeout(res, 100));
@@ -288,7 +298,8 @@ async function measureSize(n: number, q: number): Promise<Column> {
         if (a.status !== 201) throw new Error(`answer during the report → ${a.status}`);
         during.push(a.ms);
       }
-      await report;
+      const failed = await report;
+      if (failed) throw failed;
     }
     put("answer POST, idle", `${fmtMs(median(idle))} median, max ${fmtMs(Math.max(...idle))}`, median(idle));
     put(
