@@ -120,11 +120,12 @@ export async function startServer(o: ServerOptions, timeoutMs = 60_000): Promise
   };
 }
 
-/** Creates an organiser account through the admin CLI on the database. */
-export function createOrganiser(databaseUrl: string): { email: string; password: string } {
-  const email = `organiser.${randomBytes(4).toString("hex")}@quillmoor.example`;
+/** Creates an organiser (or reviewer) account through the admin CLI on the database. */
+export function createOrganiser(databaseUrl: string, role: "organiser" | "reviewer" = "organiser"): { email: string; password: string } {
+  const email = `${role}.${randomBytes(4).toString("hex")}@quillmoor.example`;
   const password = `pw-${randomBytes(12).toString("base64url")}`;
-  run(process.execPath, [path.join(root, "bin", "triangulate.mjs"), "create-organiser", "--email", email, "--name", "Quillmoor Planning", "--password", password], {
+  const name = role === "organiser" ? "Quillmoor Planning" : "Quillmoor Finance Review";
+  run(process.execPath, [path.join(root, "bin", "triangulate.mjs"), "create-organiser", "--email", email, "--name", name, "--password", password, "--role", role], {
     ...process.env,
     DATABASE_URL: databaseUrl,
   });
@@ -208,14 +209,20 @@ export async function signInAttempt(baseURL: string, email: string, password: st
   });
 }
 
-/** Signs in through next-auth's credentials callback and creates a personal API token. */
-export async function organiserToken(baseURL: string, user: { email: string; password: string }): Promise<string> {
+/** Signs in through next-auth's credentials callback; returns the session cookie (`name=value`). */
+export async function sessionCookie(baseURL: string, user: { email: string; password: string }): Promise<string> {
   const res = await signInAttempt(baseURL, user.email, user.password);
   const session = res.headers.getSetCookie().find((c) => c.startsWith("next-auth.session-token="));
   if (!session) throw new Error(`sign-in gave no session cookie (status ${res.status})`);
+  return session.split(";")[0];
+}
+
+/** Signs in through next-auth's credentials callback and creates a personal API token. */
+export async function organiserToken(baseURL: string, user: { email: string; password: string }): Promise<string> {
+  const cookie = await sessionCookie(baseURL, user);
   const tok = await fetch(`${baseURL}/api/v1/tokens`, {
     method: "POST",
-    headers: { cookie: session.split(";")[0], "content-type": "application/json", origin: baseURL },
+    headers: { cookie, "content-type": "application/json", origin: baseURL },
     body: JSON.stringify({ name: "load script" }),
   });
   if (tok.status !== 201) throw new Error(`token creation → ${tok.status}`);
@@ -233,6 +240,17 @@ export interface PanelSetup {
   readonly panelists: readonly Panelist[];
 }
 
+/** A deterministic value generator (mulberry32, fixed start) so runs are comparable. */
+export function mulberry32(a: number): () => number {
+  return () => {
+    a |= 0;
+    a = (a + 0x6d2b79f5) | 0;
+    let t = Math.imul(a ^ (a >>> 15), 1 | a);
+    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t;
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
 /** Runs `fn` over `items` with at most `limit` calls in flight. */
 export async function pool<T, R>(items: readonly T[], limit: number, fn: (item: T, index: number) => Promise<R>): Promise<R[]> {
   const out: R[] = new Array(items.length);
@@ -248,19 +266,34 @@ export async function pool<T, R>(items: readonly T[], limit: number, fn: (item: 
   return out;
 }
 
-/**
- * A panel "Quillmoor field sensor, year-one units" with `questions` single-value questions
- * (bounds 0…100 000), `n` roster members invited, round 1 open.
- */
-export async function createPanel(c: Client, token: string, n: number, questions: number): Promise<PanelSetup> {
-  const tag = randomBytes(3).toString("hex");
-  const memberIds = await pool(Array.from({ length: n }, (_, i) => i), 16, async (i) => {
+/** `n` roster members "Quillmoor estimator i" (half sales, half engineering); returns their ids. */
+export function createRoster(c: Client, token: string, n: number, tag = randomBytes(3).toString("hex")): Promise<string[]> {
+  return pool(Array.from({ length: n }, (_, i) => i), 16, async (i) => {
     const m = await c.ok("POST", "/api/v1/roster", {
       token,
       body: { name: `Quillmoor estimator ${i + 1}`, email: `estimator.${i + 1}.${tag}@quillmoor.example`, group: i % 2 ? "sales" : "engineering" },
     });
     return m.id as string;
   });
+}
+
+/** Invites the roster members to the panel (200 per request); returns the invitations with their link tokens. */
+export async function invite(c: Client, token: string, panelId: string, memberIds: readonly string[]): Promise<Panelist[]> {
+  const panelists: Panelist[] = [];
+  for (let i = 0; i < memberIds.length; i += 200) {
+    const issued = await c.ok("POST", `/api/v1/panels/${panelId}/invitations`, { token, body: { rosterMemberIds: memberIds.slice(i, i + 200) } });
+    for (const inv of issued) panelists.push({ invitationId: inv.id, token: inv.token });
+  }
+  return panelists;
+}
+
+/**
+ * A panel "Quillmoor field sensor, year-one units" with `questions` single-value questions
+ * (bounds 0…100 000), `n` roster members invited, round 1 open.
+ */
+export async function createPanel(c: Client, token: string, n: number, questions: number): Promise<PanelSetup> {
+  const tag = randomBytes(3).toString("hex");
+  const memberIds = await createRoster(c, token, n, tag);
   const panel = await c.ok("POST", "/api/v1/panels", {
     token,
     body: {
@@ -276,11 +309,7 @@ export async function createPanel(c: Client, token: string, n: number, questions
       })),
     },
   });
-  const panelists: Panelist[] = [];
-  for (let i = 0; i < memberIds.length; i += 200) {
-    const issued = await c.ok("POST", `/api/v1/panels/${panel.id}/invitations`, { token, body: { rosterMemberIds: memberIds.slice(i, i + 200) } });
-    for (const inv of issued) panelists.push({ invitationId: inv.id, token: inv.token });
-  }
+  const panelists = await invite(c, token, panel.id, memberIds);
   await c.ok("POST", `/api/v1/panels/${panel.id}/rounds/1/open`, { token, body: {} });
   return { panelId: panel.id, questionIds: panel.questions.map((q: { id: string }) => q.id), panelists };
 }

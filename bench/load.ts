@@ -45,6 +45,7 @@ import {
   freePort,
   hasBuild,
   migrate,
+  mulberry32,
   newKey,
   organiserToken,
   percentile,
@@ -71,17 +72,6 @@ const RETRIES = Number(process.env.RETRIES ?? 25);
 const distDir = process.env.NEXT_DIST_DIR || ".next-load";
 const INSTANCES = Number(setting("instances", "INSTANCES", "1"));
 const POSTGRES = setting("database", "LOAD_DATABASE_URL", "");
-
-/** A deterministic value generator (mulberry32, fixed start) so runs are comparable. */
-function mulberry32(a: number): () => number {
-  return () => {
-    a |= 0;
-    a = (a + 0x6d2b79f5) | 0;
-    let t = Math.imul(a ^ (a >>> 15), 1 | a);
-    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t;
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 /** CPU seconds (user + system) the process has used so far, from /proc (Linux); NaN elsewhere. */
 function cpuSeconds(pid: number | undefined): number {
