@@ -14,6 +14,7 @@
  */
 import { createHash, randomBytes } from "node:crypto";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { mulberry32 } from "../helpers/prng";
 import { routes, type RouteDef } from "../../lib/http/routes";
 import { api, apiTokenFor, baseURL, clearDatabase, createAccount, openDb, sql } from "./api-client";
 import { appTables } from "../../bench/sql";
@@ -23,15 +24,6 @@ const PER_ROUTE = 20;
 /** lib/http/handler.ts MAX_BODY_BYTES (not imported: that module opens the database). */
 const MAX_BODY_BYTES = 2 * 1024 * 1024;
 
-function mulberry32(a: number): () => number {
-  return () => {
-    a |= 0;
-    a = (a + 0x6d2b79f5) | 0;
-    let t = Math.imul(a ^ (a >>> 15), 1 | a);
-    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t;
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 const rnd = mulberry32(RNG_START);
 const pick = <T>(xs: readonly T[]): T => xs[Math.floor(rnd() * xs.length)];
 
