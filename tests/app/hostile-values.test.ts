@@ -81,9 +81,12 @@ describe("an answer of 5e-324 stored before the rule", () => {
     // Ruth Calder answered 400 for an actual of 480: ln(480/400) = ln 1.2 = 0.1823215567939546 (by hand).
     expect((byName.get("Ruth Calder") as any).record.meanLogRatio).toBeCloseTo(0.1823215567939546, 12);
 
-    for (const path of ["triangulation", "report.json", "report.csv"]) {
-      const res = await api("GET", `/api/v1/panels/${P}/questions/${Q2}/${path}`, { token: owner });
-      expect(res.status, path).toBe(200);
+    // The other question's views, and those of the question that holds the stored value.
+    for (const q of [Q2, Q1]) {
+      for (const path of ["triangulation", "report.json", "report.csv"]) {
+        const res = await api("GET", `/api/v1/panels/${P}/questions/${q}/${path}`, { token: owner });
+        expect(res.status, `${q === Q1 ? "Q1" : "Q2"} ${path}`).toBe(200);
+      }
     }
     expect((await api("POST", `/api/v1/panels/${P}/questions/${Q2}/resolution`, { token: owner, body: { actual: 1000 } })).status).toBe(201);
     // Correcting the first actual works as well.
