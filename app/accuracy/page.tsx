@@ -39,6 +39,9 @@ export default async function AccuracyPage() {
       {view.withoutBaseline > 0 ? (
         <p className="muted small">{view.withoutBaseline} resolved question(s) had no baseline and are left out (there is no baseline or blend to compare).</p>
       ) : null}
+      {view.unusable > 0 ? (
+        <p className="muted small">{view.unusable} resolved question(s) are left out because a recorded value is too extreme to score (outside 0 or 1e-12 to 1e15 in size).</p>
+      ) : null}
       {h === null ? (
         <p className="muted">No resolved question with a baseline yet. Resolve a question on its page once the outcome is known.</p>
       ) : (

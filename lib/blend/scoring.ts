@@ -14,6 +14,7 @@ import {
   trackingSignalSeries,
   type AccuracyResult,
 } from "../forecast/accuracy";
+import { withinMagnitude } from "./magnitude";
 import { assertFinite, assertFiniteArray } from "./validate";
 
 /**
@@ -171,6 +172,23 @@ export interface AccuracyHistory {
 }
 
 const FIGURES = ["rawPanel", "correctedPanel", "baseline", "blend"] as const;
+
+/**
+ * Largest figure an accuracy history takes. A figure derived from values within the input range
+ * (./magnitude.ts) can exceed it by a bias factor (at most 1e27); up to 1e100 its error, squared
+ * error (1e200) and percent error against an actual ≥ 1e-12 (1e114), and their sums, stay finite.
+ */
+const MAX_FIGURE = 1e100;
+
+/**
+ * True when a resolved question can enter an accuracy history: its actual is within the input
+ * range (./magnitude.ts) and every figure is finite and at most {@link MAX_FIGURE} in size.
+ * Anything else (a value stored before the input rule) would make the history's sums overflow;
+ * callers leave such a question out and count it.
+ */
+export function usableHistoryEntry(e: HistoryEntry): boolean {
+  return withinMagnitude(e.actual) && FIGURES.every((k) => Number.isFinite(e[k]) && Math.abs(e[k]) <= MAX_FIGURE);
+}
 
 /**
  * Accuracy over resolved questions in resolution order, for the raw panel, corrected panel,

@@ -8,6 +8,7 @@ import { meanAbsolutePercentageError, meanError, meanSquaredError } from "../for
 import { median } from "../stats/summary";
 import { neumaierSum } from "../stats/sum";
 import type { ThreePointAnswer } from "./distribution";
+import { withinMagnitude } from "./magnitude";
 import { assertFinite, assertFiniteArray, assertNonEmpty, assertPositive } from "./validate";
 
 /**
@@ -213,6 +214,8 @@ export function intervalHitRate(records: readonly ResolvedAnswer[]): IntervalHit
 export interface TrackRecord {
   /** Resolved questions. */
   readonly count: number;
+  /** Resolved answers left out as unusable (see {@link usableRecord}); not in `count`. */
+  readonly skipped: number;
   /** Mean of actual − answer (positive: answers too low); NaN when count = 0. */
   readonly meanError: number;
   /** Mean ln(actual/answer); NaN when count = 0. */
@@ -236,25 +239,41 @@ export interface TrackRecordOptions {
 }
 
 /**
+ * True when every value of a resolved answer is within the range every way in accepts
+ * (./magnitude.ts: 0 or a magnitude in [1e-12, 1e15]). Within it the log ratio, the
+ * errors, their squares and sums, and the bias factor are finite; outside it (a value stored
+ * before that rule, such as an answer of 5e-324, whose ln(actual/answer) is Infinity) they are
+ * not, so such an answer is left out of the record and counted instead of making every
+ * measure NaN.
+ */
+export function usableRecord(r: ResolvedAnswer): boolean {
+  return [r.actual, r.answer, r.low ?? 0, r.high ?? 0].every(withinMagnitude);
+}
+
+/**
  * A panelist's track record over resolved questions: count; mean error and MAPE (lib/forecast/
  * accuracy: Hyndman & Koehler 2006); mean log ratio ({@link meanLogRatio}); interval hit rate
  * ({@link intervalHitRate}); Theil's decomposition ({@link theilDecomposition}) from
  * `minForTheil` questions on; the shrunk bias factor ({@link shrunkBiasFactor}).
  *
  * Input: resolved answers, possibly empty (thin history is expected: count 0, NaN measures,
- * bias factor 1, no Theil). Actuals and answers must be positive (for the log ratio).
+ * bias factor 1, no Theil). Actuals and answers must be positive (for the log ratio). Answers
+ * that are not {@link usableRecord} are left out and counted in `skipped`.
  * @throws RangeError for a non-finite or non-positive actual/answer, malformed low/high, or bad options.
  */
-export function trackRecord(records: readonly ResolvedAnswer[], options: TrackRecordOptions = {}): TrackRecord {
+export function trackRecord(all: readonly ResolvedAnswer[], options: TrackRecordOptions = {}): TrackRecord {
   const fn = "trackRecord";
-  checkRecords(records, fn);
+  checkRecords(all, fn);
   const minForTheil = options.minForTheil ?? MIN_RESOLVED_FOR_THEIL;
   assertPositive(minForTheil, fn, "minForTheil");
+  const records = all.filter(usableRecord);
+  const skipped = all.length - records.length;
   const n = records.length;
   const hit = intervalHitRate(records);
   if (n === 0) {
     return {
       count: 0,
+      skipped,
       meanError: NaN,
       meanLogRatio: NaN,
       mape: NaN,
@@ -270,6 +289,7 @@ export function trackRecord(records: readonly ResolvedAnswer[], options: TrackRe
   const enough = n >= minForTheil;
   return {
     count: n,
+    skipped,
     meanError: meanError(actual, answer),
     meanLogRatio: mlr,
     mape: meanAbsolutePercentageError(actual, answer),

@@ -10,6 +10,7 @@
  * `readSeriesCsv` turns a parsed table with a header row into a time series: the value
  * column, the explanatory (numeric) columns, and their future rows.
  */
+import { numberProblem } from "../validation/numbers";
 
 /** A CSV problem; `row` counts the header as row 1 (as a spreadsheet shows it). */
 export class CsvError extends Error {
@@ -178,7 +179,8 @@ function parseNumber(cell: string): number | undefined {
  *   listed in `ignored`. After that, every cell of the value and explanatory columns must be a
  *   number or missing (empty or `NA`).
  * - Numbers: optional sign, digits with an optional decimal point, optional exponent
- *   (`1e3`). Thousands separators and decimal commas are refused.
+ *   (`1e3`). Thousands separators and decimal commas are refused, and so are magnitudes outside
+ *   the range of lib/validation/numbers.ts (e.g. `5e-324`, `1e308`).
  * - Future rows: trailing rows whose value is missing while every explanatory cell is filled
  *   give `futureX`. (With no explanatory columns there are no future rows; trailing missing
  *   values stay in `y` as `null` for the series policy to trim.)
@@ -242,6 +244,8 @@ export function readSeriesCsv(text: string, options: ReadSeriesOptions = {}): Se
     if (v === undefined) {
       throw new CsvError(`row ${r.row}, column '${header[j]}': '${c.trim()}' is not a number`, r.row, header[j]);
     }
+    const problem = numberProblem(v);
+    if (problem) throw new CsvError(`row ${r.row}, column '${header[j]}': '${c.trim()}' ${problem}`, r.row, header[j]);
     return v;
   };
 

@@ -15,7 +15,7 @@ import { idempotencyKey as idempotencyKeySchema } from "@/lib/validation/inputs"
 import { actorFromRequest } from "./context";
 import { problemResponse, toProblem, zodFieldErrors } from "./problem";
 import { clientAddress, INVITATION_OPERATIONS, limits, tooManyRequests } from "./rate-limit";
-import { nulFieldErrors } from "../validation/nul";
+import { textFieldErrors } from "../validation/nul";
 import type { RouteDef } from "./routes";
 
 type Infer<T> = T extends z.ZodType ? z.output<T> : undefined;
@@ -148,7 +148,7 @@ export function handle<const R extends RouteDef>(
         throw new ForbiddenError("Cross-site request refused.");
       }
       const rawParams = ctx?.params ? await ctx.params : {};
-      const nulInPath = nulFieldErrors(rawParams);
+      const nulInPath = textFieldErrors(rawParams);
       if (nulInPath.length > 0) throw new InvalidInputError(nulInPath, "The address has invalid parts.");
       const parsedParams = route.params ? route.params.safeParse(rawParams) : { success: true as const, data: undefined };
       if (!parsedParams.success) throw new InvalidInputError(zodFieldErrors(parsedParams.error), "The address has invalid parts.");
@@ -163,7 +163,7 @@ export function handle<const R extends RouteDef>(
           const detail = (err as Error).message === "body is not UTF-8" ? "The request body is not UTF-8 text." : "The request body is not valid JSON.";
           return problemResponse({ type: "about:blank", title: "Bad Request", status: 400, detail, instance });
         }
-        const nul = nulFieldErrors(raw);
+        const nul = textFieldErrors(raw);
         if (nul.length > 0) throw new InvalidInputError(nul);
         const parsed = route.body.safeParse(raw);
         if (!parsed.success) throw new InvalidInputError(zodFieldErrors(parsed.error));

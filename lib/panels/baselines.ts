@@ -134,18 +134,20 @@ export async function analyseBaseline(input: BaselineInput): Promise<Analysed> {
   if (table.y.length === 0) throw new InvalidInputError([{ field: source, message: "the history has no data rows" }], "The history could not be read.");
 
   let futureX: (readonly number[])[] = table.futureX.map((c) => [...c]);
-  const givenFuture: Record<string, number[]> = {};
+  let givenFuture: Record<string, number[]> = {};
   if (input.futureValues) {
+    // A Map of the own entries: a column named `constructor` or `__proto__` must not find Object's.
+    const given = new Map(Object.entries(input.futureValues));
     const errors: FieldError[] = [];
-    for (const name of Object.keys(input.futureValues)) {
+    for (const name of given.keys()) {
       if (!table.xNames.includes(name)) errors.push({ field: `futureValues.${name}`, message: `no explanatory column '${name}' in the CSV (columns: ${table.xNames.join(", ") || "none"})` });
     }
     for (const name of table.xNames) {
-      if (!input.futureValues[name]) errors.push({ field: `futureValues.${name}`, message: `give the values of '${name}' for the target period` });
+      if (!given.has(name)) errors.push({ field: `futureValues.${name}`, message: `give the values of '${name}' for the target period` });
     }
     if (errors.length > 0) throw new InvalidInputError(errors);
-    futureX = table.xNames.map((name) => input.futureValues![name]);
-    for (const name of table.xNames) givenFuture[name] = [...input.futureValues[name]];
+    futureX = table.xNames.map((name) => given.get(name)!);
+    givenFuture = Object.fromEntries(table.xNames.map((name) => [name, [...given.get(name)!]]));
   }
   const futureLength = futureX.length > 0 ? Math.min(...futureX.map((c) => c.length)) : 0;
   const horizon = input.horizon ?? (futureLength > 0 ? futureLength : 1);

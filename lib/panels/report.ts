@@ -30,6 +30,7 @@ import { jsonSafe, type JsonSafe } from "./json";
 import { correctionSummary, namesRevealed } from "./report-views";
 import type { BlendInterval, Distribution } from "@/lib/blend";
 import type { QuestionVerdict } from "@/lib/stats/stopping-rules";
+import { csvCell } from "@/lib/csv/cell";
 
 type Intervals = readonly { readonly level: number; readonly lower: number | null; readonly upper: number | null }[];
 
@@ -269,17 +270,7 @@ export async function getQuestionReport(actor: Actor, panelId: string, questionI
   };
 }
 
-const PLAIN_NUMBER = /^-?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
-
-/**
- * One CSV cell (RFC 4180 quoting), neutralised against formula injection: a cell starting with
- * = + - @ tab or CR gets a leading apostrophe unless it is exactly a decimal number.
- */
-export function csvCell(value: string | number | boolean | null | undefined): string {
-  let s = value === null || value === undefined ? "" : typeof value === "number" ? (Number.isFinite(value) ? String(value) : "") : String(value);
-  if (/^[=+\-@\t\r]/.test(s) && !PLAIN_NUMBER.test(s)) s = `'${s}`;
-  return /[",\r\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
-}
+export { csvCell };
 
 /** The report as CSV: a header and one row per figure (section, item, measure, value, unit). */
 export function reportCsv(r: QuestionReport): string {

@@ -10,7 +10,8 @@
  *   once there are enough questions, and the bias factor shrunk toward 1.
  *   A shared-quantity answer is scored against the question's actual value; a sum-of-parts
  *   answer against its own part's actual when the organiser recorded one (else it is left out).
- *   Answers or actuals ≤ 0 are left out (a log ratio needs both positive) and counted in `skipped`.
+ *   Answers or actuals ≤ 0 are left out (a log ratio needs both positive) and counted in `skipped`,
+ *   and so are answers outside the input range (lib/blend/track-record.ts `usableRecord`, stored before that rule).
  * - Accuracy history per organiser (lib/blend `accuracyHistory`): raw panel, corrected panel,
  *   baseline and blend over the resolved questions that had a baseline, in resolution order,
  *   with the tracking signal. The inverse-MSE blend weights (Bates & Granger 1969) use the
@@ -35,6 +36,7 @@ import {
   type ResolvedPair,
   type TrackRecord,
 } from "@/lib/blend";
+import { usableHistoryEntry } from "@/lib/blend/scoring";
 import { jsonSafe, type JsonSafe } from "./json";
 
 /** One panelist's final answer as it stood at resolution. */
@@ -135,7 +137,10 @@ export function recordsByMember(resolutions: readonly ResolvedQuestion[]): Map<s
 export async function trackRecordsFor(ownerId: string, filter: HistoryFilter = {}): Promise<Map<string, { record: TrackRecord; skipped: number }>> {
   const byMember = recordsByMember(await loadResolutions(ownerId, filter));
   const out = new Map<string, { record: TrackRecord; skipped: number }>();
-  for (const [id, { records, skipped }] of byMember) out.set(id, { record: trackRecord(records), skipped });
+  for (const [id, { records, skipped }] of byMember) {
+    const record = trackRecord(records);
+    out.set(id, { record, skipped: skipped + record.skipped });
+  }
   return out;
 }
 
@@ -145,20 +150,25 @@ export function historyOf(resolutions: readonly ResolvedQuestion[]): {
   readonly entries: HistoryEntry[];
   readonly used: ResolvedQuestion[];
   readonly withoutBaseline: number;
+  /** Resolved questions with a baseline left out because a value is out of range (lib/blend/scoring.ts `usableHistoryEntry`). */
+  readonly unusable: number;
 } {
-  const used = resolutions.filter((r) => r.figures.baseline !== null && r.figures.blend !== null);
+  const entry = (r: ResolvedQuestion): HistoryEntry => ({
+    actual: r.actual,
+    rawPanel: r.figures.rawPanel,
+    correctedPanel: r.figures.correctedPanel,
+    baseline: r.figures.baseline!,
+    blend: r.figures.blend!,
+  });
+  const withBaseline = resolutions.filter((r) => r.figures.baseline !== null && r.figures.blend !== null);
+  const used = withBaseline.filter((r) => usableHistoryEntry(entry(r)));
   return {
     used,
-    withoutBaseline: resolutions.length - used.length,
+    withoutBaseline: resolutions.length - withBaseline.length,
+    unusable: withBaseline.length - used.length,
     // Relative errors (figure / actual against 1), so that questions of different sizes count alike.
     pairs: used.filter((r) => r.actual !== 0).map((r) => ({ actual: 1, panel: r.figures.correctedPanel / r.actual, baseline: r.figures.baseline! / r.actual })),
-    entries: used.map((r) => ({
-      actual: r.actual,
-      rawPanel: r.figures.rawPanel,
-      correctedPanel: r.figures.correctedPanel,
-      baseline: r.figures.baseline!,
-      blend: r.figures.blend!,
-    })),
+    entries: used.map(entry),
   };
 }
 
@@ -166,7 +176,7 @@ export interface RosterTrackRecordView {
   readonly rosterMemberId: string;
   readonly name: string;
   readonly group: string;
-  /** Resolved answers left out (a value or actual ≤ 0). */
+  /** Resolved answers left out (a value or actual ≤ 0, or outside the input range). */
   readonly skipped: number;
   readonly record: JsonSafe<TrackRecord>;
 }
@@ -209,6 +219,8 @@ export interface AccuracyHistoryView {
   }[];
   /** Resolved questions left out because they had no baseline. */
   readonly withoutBaseline: number;
+  /** Resolved questions left out because a value is outside the input range (stored before that rule). */
+  readonly unusable: number;
   /** Accuracy of each figure with its tracking signal; null with no resolved question. */
   readonly history: JsonSafe<AccuracyHistory> | null;
   readonly notes: readonly string[];
@@ -233,6 +245,7 @@ export async function getAccuracyHistory(actor: Actor): Promise<AccuracyHistoryV
       blend: r.figures.blend!,
     })),
     withoutBaseline: h.withoutBaseline,
+    unusable: h.unusable,
     history: h.entries.length > 0 ? jsonSafe(accuracyHistory(h.entries)) : null,
     notes: [
       "Errors are actual − figure (positive: the figure was too low). MAE, RMSE and ME mix the questions' units; MAPE and sMAPE compare across questions. MASE is not given across questions (their scales differ).",

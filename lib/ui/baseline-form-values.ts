@@ -35,13 +35,14 @@ export function baselineFormValues(values: Record<string, string>): BaselineForm
   } else {
     input.csv = values.csv ?? "";
     if (values.valueColumn) input.valueColumn = values.valueColumn;
-    const future: Record<string, number[]> = {};
+    // A Map, so that a column named `__proto__` is an entry like any other.
+    const future = new Map<string, number[]>();
     for (const [key, raw] of Object.entries(values)) {
       if (!key.startsWith("future.") || raw.trim() === "") continue;
       const column = key.slice("future.".length);
-      future[column] = numbers(raw, `futureValues.${column}`, errors);
+      future.set(column, numbers(raw, `futureValues.${column}`, errors));
     }
-    if (Object.keys(future).length > 0) input.futureValues = future;
+    if (future.size > 0) input.futureValues = Object.fromEntries(future);
   }
   if (values.analogue === "yes") {
     const factor = withNumbers({ scaleFactor: values.scaleFactor ?? "" }, ["scaleFactor"]).scaleFactor;

@@ -1,13 +1,15 @@
 /**
- * The fixed path of an organiser's form action: the signed-in user, the ids carried by the form,
- * the form's input parsed with its zod schema (when the action takes one), then one service call
- * in `run`. zod issues come back as field errors, a thrown DomainError as the form's message
+ * The fixed path of an organiser's form action: the signed-in user, the text rules and rate
+ * limits the JSON API applies (lib/ui/action-guard.ts), the ids carried by the form, the form's
+ * input parsed with its zod schema (when the action takes one), then one service call in `run`.
+ * zod issues come back as field errors, a thrown DomainError as the form's message
  * (lib/ui/form-result.ts).
  */
 import type { ZodType } from "zod";
 import type { UserActor } from "../accounts/actor";
 import { getCurrentUser } from "../session";
-import { nulFieldErrors } from "../validation/nul";
+import type { FixedWindowLimiter } from "../http/rate-limit";
+import { hitLimit, textProblems } from "./action-guard";
 import type { FormState } from "./form-state";
 import { fromThrown, fromZodError } from "./form-result";
 
@@ -19,17 +21,22 @@ export const NOT_SIGNED_IN: FormState = { ok: false, message: "Your session has 
  * @param ids schema of the ids the form carries (panelId, questionId, …)
  * @param run the service call; its FormState is returned as is
  * @param body the input schema and the raw input to parse with it, when the action takes one
+ * @param limiter the rate limit counted per organiser, when the API counts the same operation
+ *   (lib/http/rate-limit.ts `INVITATION_OPERATIONS`)
  */
 export async function signedInAction<I, B = undefined>(
   values: Record<string, string>,
   ids: ZodType<I>,
   run: (user: UserActor, id: I, input: B) => Promise<FormState>,
   body?: readonly [ZodType<B>, unknown],
+  limiter?: FixedWindowLimiter,
 ): Promise<FormState> {
   const user = await getCurrentUser();
   if (!user) return NOT_SIGNED_IN;
-  const nul = nulFieldErrors([values, body?.[1]]).map((e) => ({ ...e, field: e.field.replace(/^\[\d+\]\.?/, "") || "form" }));
-  if (nul.length > 0) return { ok: false, message: "Please correct the fields marked below.", fieldErrors: Object.fromEntries(nul.map((e) => [e.field, [e.message]])) };
+  const limited = limiter ? await hitLimit(limiter, user.userId) : null;
+  if (limited) return limited;
+  const refused = textProblems(values, body?.[1]);
+  if (refused) return refused;
   const id = ids.safeParse(values);
   if (!id.success) return fromZodError(id.error);
   let input = undefined as B;

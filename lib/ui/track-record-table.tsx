@@ -40,7 +40,7 @@ export default function TrackRecordRoster({ records }: { records: readonly Roste
               <tr key={r.rosterMemberId} data-track-record={r.name}>
                 <td>
                   {r.name} {r.group ? <span className="muted">· {r.group}</span> : null}
-                  {r.skipped > 0 ? <span className="hint">{r.skipped} answer(s) left out (value or actual ≤ 0)</span> : null}
+                  {r.skipped > 0 ? <span className="hint">{r.skipped} answer(s) left out (value or actual ≤ 0, or too extreme to score)</span> : null}
                 </td>
                 <td className="num" data-stat="count">
                   {r.record.count}

@@ -7,6 +7,7 @@
 import { z } from "zod";
 import { MAX_QUESTIONS_PER_PANEL } from "./limits";
 import { API_TOKEN_DEFAULT_DAYS, API_TOKEN_MAX_DAYS } from "../accounts/tokens";
+import { numberProblem } from "./numbers";
 
 export const ANSWER_FORMATS = ["single", "three-point"] as const;
 export const AGGREGATIONS = ["shared", "sum-of-parts"] as const;
@@ -15,7 +16,12 @@ export const USER_ROLES = ["organiser", "reviewer"] as const;
 
 const text = (max: number) => z.string().trim().min(1, "must not be empty").max(max, `at most ${max} characters`);
 const id = z.string().min(1).max(64).describe("identifier");
-const finite = z.number().refine(Number.isFinite, "must be a finite number");
+/** A value a client gives (an answer, a bound, an actual, a history value): the rule in ./numbers.ts. */
+export const usableNumber = z.number().superRefine((v, ctx) => {
+  const problem = numberProblem(v);
+  if (problem) ctx.addIssue({ code: "custom", message: problem });
+});
+const finite = usableNumber;
 
 const questionFields = {
   text: text(500).describe("The question as panelists read it."),

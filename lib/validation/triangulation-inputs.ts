@@ -6,8 +6,8 @@
 import { z } from "zod";
 import { METHOD_IDS } from "@/lib/forecast/types";
 import { MAX_HISTORY_ROWS, historyRowsMessage } from "./limits";
+import { usableNumber as finite } from "./inputs";
 
-const finite = z.number().refine(Number.isFinite, "must be a finite number");
 const text = (max: number) => z.string().trim().min(1, "must not be empty").max(max, `at most ${max} characters`);
 
 /** Largest CSV text accepted (characters). */
@@ -51,7 +51,7 @@ export const baselineInput = z
       .describe("Explanatory columns' values for steps 1…horizon, by column name"),
     analogue: z
       .object({
-        scaleFactor: z.number().positive("must be above 0").max(1e6).refine(Number.isFinite, "must be a finite number"),
+        scaleFactor: finite.positive("must be above 0").max(1e6),
         note: text(500).describe("Which product the history is from and why this factor"),
       })
       .optional()

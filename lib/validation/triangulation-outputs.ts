@@ -203,7 +203,7 @@ export const rosterTrackRecord = z.object({
   rosterMemberId: z.string(),
   name: z.string(),
   group: z.string(),
-  skipped: z.number().int(),
+  skipped: z.number().int().describe("Resolved answers left out: a value or actual ≤ 0, or outside the accepted range"),
   record: z.object({
     ...trackRecordFields,
     intervalHitRate: z.object({ count: z.number().int(), hits: z.number().int(), rate: n0, nominal: num }),
@@ -234,6 +234,7 @@ export const accuracyHistory = z.object({
     }),
   ),
   withoutBaseline: z.number().int(),
+  unusable: z.number().int().describe("Resolved questions left out because a stored value is outside the accepted range"),
   history: z.object({ n: z.number().int(), rawPanel: figureHistory, correctedPanel: figureHistory, baseline: figureHistory, blend: figureHistory }).nullable(),
   notes: z.array(z.string()),
 });

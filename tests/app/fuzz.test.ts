@@ -4,6 +4,7 @@
  * with the same schema before sending), bodies that are not JSON or not UTF-8, bodies over the size
  * limit, path parameters that are too long, not numbers, or name nothing, other users' resources,
  * the wrong kind of actor, forged, revoked and expired tokens, malformed Authorization headers,
+ * lone UTF-16 surrogates and values nested 10,000 deep in otherwise valid bodies,
  * forged session cookies and bad Idempotency-Keys. Every response must be a 4xx with an
  * application/problem+json body whose `status` matches, never a 5xx; and afterwards every table
  * of the database must hold exactly what it held before (row counts and a SHA-256 of all rows,
@@ -14,6 +15,7 @@
  */
 import { createHash, randomBytes } from "node:crypto";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { mulberry32 } from "../helpers/prng";
 import { routes, type RouteDef } from "../../lib/http/routes";
 import { api, apiTokenFor, baseURL, clearDatabase, createAccount, openDb, signIn, sql } from "./api-client";
 import { appTables } from "../../bench/sql";
@@ -23,15 +25,6 @@ const PER_ROUTE = 20;
 /** lib/http/handler.ts MAX_BODY_BYTES (not imported: that module opens the database). */
 const MAX_BODY_BYTES = 2 * 1024 * 1024;
 
-function mulberry32(a: number): () => number {
-  return () => {
-    a |= 0;
-    a = (a + 0x6d2b79f5) | 0;
-    let t = Math.imul(a ^ (a >>> 15), 1 | a);
-    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t;
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 const rnd = mulberry32(RNG_START);
 const pick = <T>(xs: readonly T[]): T => xs[Math.floor(rnd() * xs.length)];
 
@@ -46,6 +39,9 @@ const HOSTILE: readonly unknown[] = [
   -0,
   1e308,
   -1e308,
+  5e-324,
+  -2.2e-308,
+  "\ud800",
   2 ** 53 + 2,
   "NaN",
   "Infinity",
@@ -305,7 +301,7 @@ describe("fuzz: hostile requests over every route", () => {
         const kinds: string[] = ["forged-credentials"];
         if (r.auth !== "none") kinds.push("wrong-actor");
         if (hasParams && r.auth === "user") kinds.push("others-ids", "hostile-params");
-        if (r.body) kinds.push("invalid-body", "invalid-body", "not-json", "oversized");
+        if (r.body) kinds.push("invalid-body", "invalid-body", "not-json", "oversized", "hostile-text");
         if (r.operationId === "submitAnswer") kinds.push("answer-out-of-bounds", "answer-other-panel", "bad-idempotency-key");
         if (r.operationId === "createFirstOrganiser") kinds.push("setup-again");
         const kind = kinds[k % kinds.length]; // every kind for every route; the details are random
@@ -340,6 +336,21 @@ describe("fuzz: hostile requests over every route", () => {
           case "oversized":
             res = await send(i, kind, r.method, own, actorOwn, undefined, JSON.stringify({ name: "x".repeat(MAX_BODY_BYTES + 1000) }));
             break;
+          case "hostile-text": {
+            // A valid body plus a lone surrogate in a string, or a value nested 10,000 deep
+            // (lib/validation/nul.ts refuses both before any schema: 422 naming the field).
+            const base = validBody(r.operationId) as Record<string, unknown>;
+            const strings = Object.keys(base).filter((f) => typeof base[f] === "string");
+            if (rnd() < 0.5) {
+              res = await send(i, kind, r.method, own, actorOwn, { ...base, [strings.length > 0 ? pick(strings) : "note"]: `text \ud800 ${i}` });
+            } else {
+              // Written as text: JSON.stringify itself recurses and cannot write 10,000 levels.
+              const rest = JSON.stringify(base).slice(1);
+              const raw = `{"nested":${"[".repeat(10_000)}${"]".repeat(10_000)}${rest === "}" ? "" : ","}${rest}`;
+              res = await send(i, kind, r.method, own, actorOwn, undefined, raw);
+            }
+            break;
+          }
           case "answer-out-of-bounds":
             res = await send(i, kind, r.method, own, actorOwn, { questionId: Q, value: pick([1e308, -1e308, -1, 1001, 2 ** 60, Number.MIN_VALUE - 1]) });
             break;
@@ -366,9 +377,12 @@ describe("fuzz: hostile requests over every route", () => {
     const byKind = new Map<string, Set<number>>();
     for (const s of sent) byKind.set(s.kind, new Set([...(byKind.get(s.kind) ?? []), s.status]));
     expect([...byKind.keys()].sort()).toEqual(
-      ["answer-other-panel", "answer-out-of-bounds", "bad-idempotency-key", "forged-credentials", "hostile-params", "invalid-body", "not-json", "others-ids", "oversized", "setup-again", "wrong-actor"].sort(),
+      ["answer-other-panel", "answer-out-of-bounds", "bad-idempotency-key", "forged-credentials", "hostile-params", "hostile-text", "invalid-body", "not-json", "others-ids", "oversized", "setup-again", "wrong-actor"].sort(),
     );
     expect([...byKind.get("oversized")!]).toEqual([413]);
+    // 422, or 429 where a route's rate limit (counted first, lib/http/handler.ts) is reached by the run.
+    expect([...byKind.get("hostile-text")!].sort()).toContain(422);
+    expect([...byKind.get("hostile-text")!].every((s) => s === 422 || s === 429)).toBe(true);
     expect([...byKind.get("forged-credentials")!].every((s) => s === 401 || s === 429)).toBe(true);
 
     expect(await snapshot()).toEqual(before);

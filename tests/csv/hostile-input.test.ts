@@ -1,12 +1,16 @@
 /**
  * CSV uploads that are not what they claim: files in another encoding than UTF-8, and cells that
  * a spreadsheet would run as formulas; and the export side, where every cell goes through
- * csvCell (lib/panels/report.ts). Expected values are hand-derived from the rules in the doc
- * comments (OWASP "CSV injection": =, +, -, @, tab and CR start a formula).
+ * csvCell (lib/csv/cell.ts). Expected values are hand-derived from the rules in the doc
+ * comments (OWASP "CSV injection": =, +, -, @, tab and CR start a formula; RFC 4180 §2 for
+ * quoting; a spreadsheet whose list separator is `;` or tab splits an unquoted cell there).
  */
 import { describe, expect, it } from "vitest";
 import { CsvError, parseCsv, readSeriesCsv } from "../../lib/csv/parse";
-import { csvCell } from "../../lib/panels/report";
+import { csvCell } from "../../lib/csv/cell";
+import { analyseBaseline } from "../../lib/panels/baselines";
+import { InvalidInputError } from "../../lib/errors";
+import { baselineInput } from "../../lib/validation/triangulation-inputs";
 
 /** Bytes as a browser's File.text() or TextDecoder (UTF-8, not fatal) turns them into a string. */
 const asUtf8 = (bytes: Uint8Array) => new TextDecoder("utf-8").decode(bytes);
@@ -54,7 +58,7 @@ describe("csvCell: exports never emit a cell a spreadsheet would run", () => {
     ["+41 44 000", "'+41 44 000"],
     ["-2+3", "'-2+3"],
     ["@cmd", "'@cmd"],
-    ["\tindented", "'\tindented"],
+    ["\tindented", "\"'\tindented\""],
     ["\r=x", "\"'\r=x\""],
     ['=HYPERLINK("x","y")', `"'=HYPERLINK(""x"",""y"")"`],
     ["Quillmoor, QF-2", '"Quillmoor, QF-2"'],
@@ -68,5 +72,34 @@ describe("csvCell: exports never emit a cell a spreadsheet would run", () => {
     expect(csvCell("-1e-3")).toBe("-1e-3");
     expect(csvCell(Number.NaN)).toBe("");
     expect(csvCell(null)).toBe("");
+  });
+});
+
+describe("csvCell: cells are quoted where any common list separator would split them", () => {
+  it.each([
+    ["Quillmoor;=2+3", '"Quillmoor;=2+3"'],
+    ["a\t=2+3", '"a\t=2+3"'],
+    ["line\n=2+3", '"line\n=2+3"'],
+    ['say "hi"', '"say ""hi"""'],
+    ["=2+3;x", `"'=2+3;x"`],
+    ["plain text", "plain text"],
+  ])("%j → %j", (input, expected) => {
+    expect(csvCell(input)).toBe(expected);
+  });
+});
+
+describe("CSV columns named like Object's own properties are columns like any other", () => {
+  const parse = (body: unknown) => baselineInput.parse(body);
+  it.each(["constructor", "__proto__", "toString", "hasOwnProperty"])("a column named %s", (name) => {
+    const csv = `month,${name},value\n1,3,10\n2,4,12\n3,5,13\n4,6,15\n5,7,16\n`;
+    // Another column's target-period values given, this one's missing: a field error, not a crash.
+    let error: unknown;
+    try {
+      analyseBaseline(parse({ csv, futureValues: { month: [6] } }));
+    } catch (err) {
+      error = err;
+    }
+    expect(error).toBeInstanceOf(InvalidInputError);
+    expect((error as InvalidInputError).errors.map((e) => e.field)).toContain(`futureValues.${name}`);
   });
 });

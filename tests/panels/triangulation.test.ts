@@ -342,7 +342,7 @@ describe("CSV export cells (formula injection)", () => {
     expect(csvCell("+44 20")).toBe("'+44 20");
     expect(csvCell("-2+3")).toBe("'-2+3");
     expect(csvCell("@SUM(A1)")).toBe("'@SUM(A1)");
-    expect(csvCell("\t=x")).toBe("'\t=x");
+    expect(csvCell("\t=x")).toBe("\"'\t=x\"");
     expect(csvCell(-12.5)).toBe("-12.5");
     expect(csvCell("-12.5")).toBe("-12.5");
     expect(csvCell('=HYPERLINK("x","y")')).toBe('"\'=HYPERLINK(""x"",""y"")"');

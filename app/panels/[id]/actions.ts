@@ -24,8 +24,10 @@ import {
   shareInput,
 } from "@/lib/validation/inputs";
 import type { FormState } from "@/lib/ui/form-state";
-import { formObject, fromThrown, withNumbers } from "@/lib/ui/form-result";
+import { formList, formObject, fromThrown, withNumbers } from "@/lib/ui/form-result";
 import { NOT_SIGNED_IN, signedInAction } from "@/lib/ui/signed-in-action";
+import { textProblems } from "@/lib/ui/action-guard";
+import { limits } from "@/lib/http/rate-limit";
 
 const QUESTION_NUMBERS = ["lowerBound", "upperBound"] as const;
 
@@ -80,7 +82,7 @@ export async function updateRulesAction(_p: FormState, formData: FormData): Prom
 
 export async function inviteAction(_p: FormState, formData: FormData): Promise<FormState> {
   const values = formObject(formData);
-  const rosterMemberIds = formData.getAll("rosterMemberIds").filter((v): v is string => typeof v === "string");
+  const rosterMemberIds = formList(formData, "rosterMemberIds");
   return signedInAction(values, params.panelId, async (user, id, input) => {
     const issued = await createInvitations(user, id.panelId, input);
     const site = await origin();
@@ -90,7 +92,7 @@ export async function inviteAction(_p: FormState, formData: FormData): Promise<F
       message: `${issued.length} invitation${issued.length === 1 ? "" : "s"} created. Send each person their own link.`,
       secrets: issued.map((i) => ({ label: `Private link for ${i.name} <${i.email}>`, value: `${site}${i.link}` })),
     };
-  }, [invitationCreate, { ...withNumbers(values, ["expiresInDays"]), rosterMemberIds }]);
+  }, [invitationCreate, { ...withNumbers(values, ["expiresInDays"]), rosterMemberIds }], limits.invitations);
 }
 
 export async function revokeInvitationAction(_p: FormState, formData: FormData): Promise<FormState> {
@@ -107,7 +109,7 @@ export async function reissueInvitationAction(_p: FormState, formData: FormData)
     const site = await origin();
     revalidatePath(`/panels/${id.panelId}`);
     return { ok: true, message: "The old link no longer works.", secret: { label: `New private link for ${inv.name} <${inv.email}>`, value: `${site}${inv.link}` } };
-  }, [invitationReissue, withNumbers(values, ["expiresInDays"])]);
+  }, [invitationReissue, withNumbers(values, ["expiresInDays"])], limits.invitations);
 }
 
 export async function openRoundAction(_p: FormState, formData: FormData): Promise<FormState> {
@@ -158,6 +160,8 @@ export async function revealNamesAction(
 ): Promise<{ ok: boolean; message?: string; names?: Record<string, string> }> {
   const user = await getCurrentUser();
   if (!user) return { ok: false, message: NOT_SIGNED_IN.message };
+  const refused = textProblems({ panelId, reason });
+  if (refused) return { ok: false, message: Object.values(refused.fieldErrors ?? {})[0]?.[0] };
   const id = params.panelId.safeParse({ panelId });
   const parsed = revealInput.safeParse({ reason });
   if (!id.success) return { ok: false, message: "Unknown panel." };

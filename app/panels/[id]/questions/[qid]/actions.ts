@@ -16,6 +16,7 @@ import type { BaselineFormState, BaselinePreviewPayload } from "@/lib/ui/baselin
 import { formObject, fromThrown, fromZodError, withNumbers } from "@/lib/ui/form-result";
 import { baselineFormValues } from "@/lib/ui/baseline-form-values";
 import { NOT_SIGNED_IN, signedInAction } from "@/lib/ui/signed-in-action";
+import { textProblems } from "@/lib/ui/action-guard";
 
 
 function revalidate(panelId: string, questionId: string): void {
@@ -52,6 +53,8 @@ export async function baselineAction(_p: BaselineFormState, formData: FormData):
   const user = await getCurrentUser();
   if (!user) return NOT_SIGNED_IN;
   const values = formObject(formData);
+  const refused = textProblems(values);
+  if (refused) return refused;
   const id = params.question.safeParse(values);
   if (!id.success) return fromZodError(id.error);
   const read = baselineFormValues(values);
