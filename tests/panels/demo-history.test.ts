@@ -5,10 +5,8 @@
  * against loops written here over the demo's invented answers (lib/cli/demo-history.ts) and
  * against R (mean of log ratios, shrinkage exp(n/(n + 5)·m)).
  */
-import { mkdtempSync, readFileSync, rmSync } from "node:fs";
-import os from "node:os";
+import { rmSync } from "node:fs";
 import path from "node:path";
-import Database from "better-sqlite3";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 // Nothing that imports lib/db may be imported statically: lib/db opens the file named by
 // DATABASE_URL when it is first imported, and that must be this test's own file.
@@ -19,9 +17,8 @@ let WREN1_TTM: DemoHistory["WREN1_TTM"];
 let WREN2_SCALE: DemoHistory["WREN2_SCALE"];
 let pastAnswer: DemoHistory["pastAnswer"];
 import { expectClose, runR, rVector } from "../stats/rscript";
+import { migratedSqliteDatabase } from "../helpers/migrated-sqlite";
 
-const dir = mkdtempSync(path.join(os.tmpdir(), "triangulate-demo-"));
-const file = path.join(dir, "demo.db");
 let services: {
   listTrackRecords: typeof import("../../lib/panels/track-records").listTrackRecords;
   getAccuracyHistory: typeof import("../../lib/panels/track-records").getAccuracyHistory;
@@ -31,13 +28,10 @@ let organiser: import("../../lib/accounts/actor").Actor;
 let reviewer: import("../../lib/accounts/actor").Actor;
 let wren2: { panelId: string; questionId: string };
 let disconnect: () => Promise<void>;
+let file: string;
 
 beforeAll(async () => {
-  const conn = new Database(file);
-  conn.exec(readFileSync(path.join(__dirname, "..", "..", "prisma", "migrations", "0001_init", "migration.sql"), "utf8"));
-  conn.close();
-  process.env.DATABASE_URL = `file:${file}`;
-  delete (globalThis as { triangulateDb?: unknown }).triangulateDb;
+  file = migratedSqliteDatabase();
   const { db } = await import("../../lib/db");
   // Refuse to go on unless the client opened this test's file.
   expect((await db.$queryRawUnsafe<{ file: string }[]>("PRAGMA database_list")).map((d) => d.file)).toContain(file);
@@ -59,7 +53,7 @@ beforeAll(async () => {
 
 afterAll(async () => {
   await disconnect?.();
-  rmSync(dir, { recursive: true, force: true });
+  rmSync(path.dirname(file), { recursive: true, force: true });
 });
 
 /** Every roster member's (actual, answer, low, high) over the demo's resolved questions, from the invented tables. */
