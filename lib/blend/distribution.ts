@@ -92,7 +92,7 @@ export interface BaselineDistribution {
 }
 
 /** How a panel distribution was built, for method notes. */
-export type PanelDistributionRule = "three-point pool" | "round spread" | "sum of parts";
+export type PanelDistributionRule = "three-point pool" | "round spread" | "sum of parts" | "track record";
 
 /** A panel distribution with the rule that built it and the numbers behind it. */
 export interface PanelDistribution {

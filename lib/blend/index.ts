@@ -78,6 +78,15 @@ export {
   type PanelDistributionRule,
 } from "./distribution";
 export {
+  PANEL_LOG_ERROR_PRIOR,
+  panelErrorScale,
+  panelFromTrackRecord,
+  intervalWidthFactor,
+  widenThreePoint,
+  type PanelErrorScale,
+  type IntervalWidthFactor,
+} from "./panel-range";
+export {
   DEFAULT_BLEND_LEVELS,
   linearPool,
   blendDistribution,

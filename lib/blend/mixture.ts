@@ -154,8 +154,18 @@ export interface BlendInput {
 /** The blended figure and range. */
 export interface BlendResult {
   readonly panelWeight: number;
-  /** The point blend w·panelFigure + (1 − w)·baselineFigure (DESIGN.md "Blend"). */
+  /**
+   * The headline figure: the median of the blended distribution, so that it always lies inside
+   * the blend's own central intervals (quantiles are monotone: Q(0.025) ≤ Q(0.1) ≤ Q(0.5) ≤
+   * Q(0.9) ≤ Q(0.975)). Same value as {@link BlendResult.median}.
+   */
   readonly figure: number;
+  /**
+   * The linear combination w·panelFigure + (1 − w)·baselineFigure (Bates & Granger 1969), shown
+   * beside the figure for reference only: it combines two points, not two distributions, and can
+   * lie outside the mixture's intervals (e.g. a point-mass panel leg).
+   */
+  readonly linearCombination: number;
   /** Mean of the blended distribution. */
   readonly mean: number;
   /** Median of the blended distribution. */
@@ -167,13 +177,12 @@ export interface BlendResult {
 }
 
 /**
- * The blend: the point figure w·panel + (1 − w)·baseline (the linear combination of Bates &
- * Granger 1969), and the range from the mixture w·F_panel + (1 − w)·F_baseline (Stone 1961):
- * its mean, median and central intervals by {@link distributionQuantile}.
- *
- * The point figure and the mixture's mean or median need not coincide: the point combines the
- * two figures, the mixture combines the two distributions (whose centres may differ from the
- * figures, e.g. a skewed panel pool).
+ * The blend: one predictive distribution, the mixture w·F_panel + (1 − w)·F_baseline (Stone
+ * 1961), and everything shown is read from it: the figure is its median, the ranges its central
+ * intervals by {@link distributionQuantile}, so the figure always lies inside its own ranges.
+ * The linear combination w·panel + (1 − w)·baseline (Bates & Granger 1969) is returned beside it
+ * for reference; it is not the figure because it need not be the mixture's centre (a skewed
+ * panel pool, or legs of different widths, move the median away from it).
  *
  * @throws RangeError for a non-finite figure, a weight outside [0, 1], or a level outside (0, 100).
  */
@@ -189,11 +198,13 @@ export function blend(input: BlendInput): BlendResult {
   });
   const w = input.panelWeight;
   const distribution = blendDistribution(input.panelDistribution, input.baselineDistribution, w);
+  const median = distributionQuantile(distribution, 0.5);
   return {
     panelWeight: w,
-    figure: w * input.panelFigure + (1 - w) * input.baselineFigure,
+    figure: median,
+    linearCombination: w * input.panelFigure + (1 - w) * input.baselineFigure,
     mean: distributionMean(distribution),
-    median: distributionQuantile(distribution, 0.5),
+    median,
     intervals: levels.map((level) => {
       const tail = (1 - level / 100) / 2;
       return {

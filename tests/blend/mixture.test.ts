@@ -147,7 +147,7 @@ describe("blended mixture w·F_panel + (1 − w)·F_baseline: quantiles by bisec
     expect(distributionMean(d)).toBeCloseTo(W * panelMean + (1 - W) * 105, 10);
   });
 
-  it("blend(): point figure by hand, intervals and median equal to R's uniroot quantiles", () => {
+  it("blend(): the figure is the mixture's median (R uniroot), inside its intervals; the linear combination by hand beside it", () => {
     const [q] = runR(R_MIXTURE + "out(q)");
     const panel = panelFromThreePoint(ANSWERS);
     const b = blend({
@@ -157,8 +157,9 @@ describe("blended mixture w·F_panel + (1 − w)·F_baseline: quantiles by bisec
       baselineDistribution: baselineDistribution(BASELINE).distribution,
       panelWeight: W,
     });
-    expect(b.figure).toBeCloseTo(0.4 * 100 + 0.6 * 105, 12); // = 103 by hand
+    expect(b.linearCombination).toBeCloseTo(0.4 * 100 + 0.6 * 105, 12); // = 103 by hand (Bates & Granger 1969)
     expect(b.median).toBeCloseTo(q[3], 8);
+    expect(b.figure).toBe(b.median);
     expect(b.intervals.map((i) => i.level)).toEqual([80, 95]);
     expect(b.intervals[0].lower).toBeCloseTo(q[1], 8);
     expect(b.intervals[0].upper).toBeCloseTo(q[5], 8);
