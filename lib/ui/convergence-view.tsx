@@ -47,17 +47,23 @@ function QuestionVerdictText({ v, unitLabel }: { v: QuestionVerdict; unitLabel: 
         Stability rule (change ≤ {formatPercent(s.threshold, 0)} between rounds): <Verdict met={s.met} applicable={s.applicable} />
         {!s.applicable ? (
           <> — needs two closed rounds to compare.</>
-        ) : s.totalChange !== null || (s.medianChange === null && s.iqrChange === null) ? (
+        ) : s.totalChange !== null || s.distributionChange === null ? (
           <> — the total {unitLabel} changed by {change(s.totalChange)}.</>
         ) : (
           <>
             {" "}
-            — the median changed by {change(s.medianChange)} and the IQR by {change(s.iqrChange)} (both must be within the
-            limit).
+            — {change(s.distributionChange)} of the panelists moved between the previous round&apos;s quartile classes (the
+            median changed by {change(s.medianChange)}, for information).
           </>
         )}
       </li>
-      <li>{v.settled ? "Settled: at least one of the two rules is met." : "Not settled: neither rule is met yet."}</li>
+      <li>
+        {v.settled
+          ? v.consensus.applicable && !v.consensus.met
+            ? "Settled: the answers are stable but not in agreement; the spread of views is the finding."
+            : "Settled: the answers are stable."
+          : "Not settled: the answers are not yet stable (consensus alone does not settle a question)."}
+      </li>
     </ul>
   );
 }
