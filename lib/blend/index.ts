@@ -39,6 +39,8 @@ export {
   EQUAL_PANEL_WEIGHT,
   MIN_RESOLVED_FOR_WEIGHTS,
   MIN_RESOLVED_FOR_CORRELATION,
+  PRIOR_ERROR_CORRELATION,
+  blendErrorCorrelation,
   batesGrangerWeights,
   equalWeights,
   organiserWeights,
@@ -50,6 +52,7 @@ export {
   type ResolvedPair,
   type BlendWeights,
   type BatesGrangerOptimum,
+  type ErrorCorrelation,
   type HistoryWeightOptions,
 } from "./weights";
 export {
@@ -83,6 +86,8 @@ export {
   panelFromTrackRecord,
   intervalWidthFactor,
   widenThreePoint,
+  blendRangeScale,
+  type RangeScale,
   type PanelErrorScale,
   type IntervalWidthFactor,
 } from "./panel-range";

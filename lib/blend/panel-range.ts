@@ -14,6 +14,7 @@
  * Input policy: see `index.ts`.
  */
 import { normalQuantile } from "../stats/normal";
+import { quantile } from "../stats/quantile";
 import { studentTQuantile } from "../stats/student-t";
 import { threePointDistribution, type PanelDistribution, type ThreePointAnswer } from "./distribution";
 import { BIAS_PRIOR_STRENGTH, NOMINAL_INTERVAL_COVERAGE } from "./track-record";
@@ -144,4 +145,37 @@ export function intervalWidthFactor(hits: number, count: number, priorStrength =
 export function widenThreePoint(answer: ThreePointAnswer, factor: number): ThreePointAnswer {
   assertPositive(factor, "widenThreePoint", "factor");
   return { low: answer.mid - factor * (answer.mid - answer.low), mid: answer.mid, high: answer.mid + factor * (answer.high - answer.mid) };
+}
+
+/** The blend range's scale from the blend's own track record. */
+export interface RangeScale {
+  readonly n: number;
+  /** Q_0.8(|z_i|)/Φ⁻¹(0.9) of the history alone (NaN without history). */
+  readonly historyScale: number;
+  /** Credibility Z = n/(n + k). */
+  readonly credibility: number;
+  /** The scale used: Z·historyScale + (1 − Z)·1. */
+  readonly scale: number;
+}
+
+/**
+ * How much wider or narrower the blend's range must be to have held 80% of past outcomes: from
+ * the standardised errors z_i = (actual_i − figure_i)/sd_i of resolved blends, the empirical
+ * 80th percentile of |z_i| (Hyndman & Fan type 7) over Φ⁻¹(0.9), the value it would have for
+ * well-calibrated normal ranges; shrunk toward 1 (the range as computed) with credibility
+ * Z = n/(n + k), k = {@link BIAS_PRIOR_STRENGTH} (Bühlmann 1967, as the bias factor). This is
+ * an empirical-quantile recalibration of the interval from its own track record (the rule is
+ * this project's, stated here in full).
+ *
+ * Input: finite standardised errors (possibly none: scale 1).
+ * @throws RangeError for a non-finite error.
+ * @example blendRangeScale([]).scale // 1
+ */
+export function blendRangeScale(standardisedErrors: readonly number[], priorStrength = BIAS_PRIOR_STRENGTH): RangeScale {
+  standardisedErrors.forEach((z, i) => assertFinite(z, "blendRangeScale", `standardisedErrors[${i}]`));
+  const n = standardisedErrors.length;
+  if (n === 0) return { n, historyScale: NaN, credibility: 0, scale: 1 };
+  const historyScale = quantile(standardisedErrors.map(Math.abs), 0.8) / normalQuantile(0.9);
+  const credibility = n / (n + priorStrength);
+  return { n, historyScale, credibility, scale: credibility * historyScale + (1 - credibility) };
 }

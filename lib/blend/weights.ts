@@ -30,6 +30,14 @@ export const MIN_RESOLVED_FOR_WEIGHTS = 3;
  */
 export const MIN_RESOLVED_FOR_CORRELATION = 5;
 
+/**
+ * The prior for the correlation of the panel's and the baseline's errors, 0.5, worth
+ * {@link BIAS_PRIOR_STRENGTH} resolved questions: a panel and a model read partly the same
+ * signals and tend to miss the same surprises, so their errors are positively correlated;
+ * 0.5 is a judgement (common practice), not a published figure.
+ */
+export const PRIOR_ERROR_CORRELATION = 0.5;
+
 /** How a weight was (to be) chosen. */
 export type WeightRule = "equal" | "inverse-mse" | "optimal" | "organiser";
 
@@ -313,6 +321,39 @@ export function optimalWeights(history: readonly ResolvedPair[], options: Histor
       (clipped ? `; the unconstrained panel weight ${fmt(opt.w1)} was clipped to ${w}.` : "."),
     { ...base, errorCorrelation: rho, unconstrainedPanel: opt.w1, expectedMse: combinationMse(1 - w, mseP, mseB, rho * sp * sb) },
   );
+}
+
+/** The error correlation used for the blend's range, with what it rests on. */
+export interface ErrorCorrelation {
+  /** ρ used: Z·ρ_history + (1 − Z)·ρ_prior. */
+  readonly rho: number;
+  /** ρ from the history alone, mean(e_p·e_b)/√(MSE_p·MSE_b) (NaN without usable history). */
+  readonly historyRho: number;
+  /** Resolved questions behind it. */
+  readonly n: number;
+  /** Credibility Z = n/(n + k) of the history. */
+  readonly credibility: number;
+}
+
+/**
+ * The correlation of the two legs' errors for the blend's range: the history's
+ * ρ = mean(e_p·e_b)/√(MSE_p·MSE_b) (moments about zero, as {@link optimalWeights}), shrunk toward
+ * {@link PRIOR_ERROR_CORRELATION} with credibility Z = n/(n + k), k = {@link BIAS_PRIOR_STRENGTH}
+ * (Bühlmann 1967, as the bias factor). Without usable history (none, or a leg exact every time)
+ * it is the prior.
+ * @throws RangeError for a non-finite value in history.
+ * @example blendErrorCorrelation([]).rho // 0.5
+ */
+export function blendErrorCorrelation(history: readonly ResolvedPair[], priorStrength: number = BIAS_PRIOR_STRENGTH): ErrorCorrelation {
+  checkHistory(history, "blendErrorCorrelation", 1);
+  const n = history.length;
+  let historyRho = NaN;
+  if (n > 0) {
+    const { mseP, mseB, crossMoment } = historyMses(history);
+    if (mseP > 0 && mseB > 0) historyRho = Math.max(-1, Math.min(1, crossMoment / Math.sqrt(mseP * mseB)));
+  }
+  const z = Number.isNaN(historyRho) ? 0 : n / (n + priorStrength);
+  return { rho: z === 0 ? PRIOR_ERROR_CORRELATION : z * historyRho + (1 - z) * PRIOR_ERROR_CORRELATION, historyRho, n, credibility: z };
 }
 
 /** What {@link blendWeights} is asked for. */

@@ -119,6 +119,7 @@ export async function currentFigures(panelId: string, questionId: string): Promi
     correctedPanel: t.panel.corrected.figure,
     baseline: t.baseline?.mean ?? null,
     blend: t.blend?.figure ?? null,
+    blendSd: t.blend?.combinedSd ?? null,
     panelWeight: t.weights?.panel ?? null,
     weightRule: t.weights?.applied ?? null,
     panelists: t.panel.answers.map((a) => ({

@@ -25,8 +25,9 @@
  *   corrected answers. Raw and corrected are always both reported.
  * - Blend: the mixture of the corrected panel distribution and the baseline's normal predictive
  *   distribution, weight by the question's rule, else the panel's (equal, inverse-MSE from the
- *   organiser's resolved history shrunk toward equal, or organiser-set); the blend figure is
- *   the mixture's median, so it lies inside the blend's ranges.
+ *   organiser's resolved history shrunk toward equal, or organiser-set); the blend figure
+ *   w·panel + (1 − w)·baseline is the median of its normal predictive distribution (Bates &
+ *   Granger's combined error variance), so it lies inside the blend's ranges.
  * - Departures: every answer of every closed round (shared quantity only: a part is not
  *   comparable with a baseline of the total) and the panel figure per round, against the
  *   baseline's target-period forecast.
@@ -39,6 +40,8 @@ import {
   answerDepartures,
   baselineDistribution,
   blend,
+  blendErrorCorrelation,
+  blendRangeScale,
   blendWeights,
   correctThreePoint,
   correctedPanelFigure,
@@ -99,6 +102,10 @@ export interface TriangulationInput {
   readonly intervalHits?: Readonly<Record<string, { readonly hits: number; readonly count: number }>>;
   /** ln(actual / corrected panel figure) of the organiser's resolved questions (empty: the prior alone). */
   readonly panelLogErrors?: readonly number[];
+  /** Resolved questions with both legs (relative figures), for the legs' error correlation (empty: the prior). */
+  readonly blendHistory?: readonly ResolvedPair[];
+  /** (actual − blend)/blend sd of resolved questions, for the blend range's scale (empty: scale 1). */
+  readonly blendStandardisedErrors?: readonly number[];
   /** The baseline's target-period forecast, or null without a baseline. */
   readonly baseline: BaselineForecast | null;
   /** The weight rule with its inputs. */
@@ -302,7 +309,11 @@ export function computeTriangulation(input: TriangulationInput): Triangulation {
     notes.push(`Baseline distribution: a normal with the point forecast as mean and sd ${bd.distribution.sd.toPrecision(4)} implied by its ${bd.sdSource}.`);
     if (panel) {
       weights = blendWeights(input.weight);
+      const rho = blendErrorCorrelation(input.blendHistory ?? []);
+      const scale = blendRangeScale(input.blendStandardisedErrors ?? []);
       blended = blend({
+        errorCorrelation: rho.rho,
+        rangeScale: scale.scale,
         panelFigure: panel.corrected.figure,
         baselineFigure: input.baseline.mean,
         panelDistribution: panel.corrected.distribution,
@@ -313,7 +324,15 @@ export function computeTriangulation(input: TriangulationInput): Triangulation {
         notes.push("Inverse-MSE weights use relative errors, (actual − figure)/actual, over the organiser's resolved questions with a baseline, so that questions of different sizes count alike; the MSEs quoted are of those relative errors.");
       }
       notes.push(
-        `Blend: the mixture ${weights.panel.toPrecision(3)} × panel distribution + ${weights.baseline.toPrecision(3)} × baseline distribution (Stone 1961); the figure is the mixture's median and the ranges its central 80% and 95% intervals, so the figure lies inside them. For reference, ${weights.panel.toPrecision(3)} × corrected panel figure + ${weights.baseline.toPrecision(3)} × baseline = ${blended.linearCombination.toPrecision(6)}. ${weights.reason}`,
+        `Blend: ${weights.panel.toPrecision(3)} × corrected panel figure + ${weights.baseline.toPrecision(3)} × baseline (Bates & Granger 1969); the figure is the median of the blend's distribution, a normal with sd √(w²σp² + (1−w)²σb² + 2w(1−w)ρσpσb) = ${blended.distribution.sd.toPrecision(4)}, ` +
+          `σp = ${blended.panelSd.toPrecision(4)} and σb = ${blended.baselineSd.toPrecision(4)} implied by each leg's 80% range, ρ = ${rho.rho.toPrecision(3)} ` +
+          (rho.credibility > 0
+            ? `(errors of ${rho.n} resolved questions, correlation ${rho.historyRho.toPrecision(3)}, shrunk toward 0.5 with credibility ${rho.credibility.toPrecision(3)}). `
+            : "(the stated prior: no resolved questions with both legs yet). ") +
+          (scale.n > 0
+            ? `The sd is × ${scale.scale.toPrecision(3)}: the 80th percentile of |standardised error| of ${scale.n} resolved blends over Φ⁻¹(0.9) is ${scale.historyScale.toPrecision(3)}, shrunk toward 1 with credibility ${scale.credibility.toPrecision(3)}. `
+            : "No resolved blend yet to check the range against, so it is used as computed. ") +
+          weights.reason,
       );
       const answersOut: AnswerDeparture[] = [];
       if (input.aggregation === "shared") {
@@ -407,7 +426,11 @@ export async function loadTriangulation(panelId: string, questionId: string): Pr
   }
   const rule = effectiveRule(q.panel, q);
   const resolutions = await loadResolutions(q.panel.ownerId, filter);
-  const history = rule.rule === "inverse-mse" ? historyOf(resolutions).pairs : [];
+  const pairs = historyOf(resolutions).pairs;
+  const history = rule.rule === "inverse-mse" ? pairs : [];
+  const blendStandardisedErrors = resolutions
+    .filter((r) => r.figures.blend !== null && (r.figures.blendSd ?? 0) > 0)
+    .map((r) => (r.actual - r.figures.blend!) / r.figures.blendSd!);
   const panelLogErrors = resolutions.filter((r) => r.actual > 0 && r.figures.correctedPanel > 0).map((r) => Math.log(r.actual / r.figures.correctedPanel));
   const target = q.baseline ? targetOf(q.baseline) : null;
   let baseline: BaselineForecast | null = null;
@@ -432,7 +455,7 @@ export async function loadTriangulation(panelId: string, questionId: string): Pr
   const aggregation = q.aggregation === "sum-of-parts" ? "sum-of-parts" : "shared";
   const answerFormat = q.answerFormat === "three-point" ? "three-point" : "single";
   return {
-    input: { aggregation, answerFormat, rounds: roundInputs, factors, intervalHits, panelLogErrors, baseline, weight: weightSpec(rule.rule, rule.panelWeight, history), ...(baselineUnusable ? { baselineUnusable } : {}) },
+    input: { aggregation, answerFormat, rounds: roundInputs, factors, intervalHits, panelLogErrors, blendHistory: pairs, blendStandardisedErrors, baseline, weight: weightSpec(rule.rule, rule.panelWeight, history), ...(baselineUnusable ? { baselineUnusable } : {}) },
     question: { id: q.id, text: q.text, unit: q.unit, targetPeriod: q.targetPeriod, aggregation, answerFormat },
     ownerId: q.panel.ownerId,
     rule,

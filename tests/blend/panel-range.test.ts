@@ -7,6 +7,8 @@
 import { describe, expect, it } from "vitest";
 import {
   PANEL_LOG_ERROR_PRIOR,
+  blendErrorCorrelation,
+  blendRangeScale,
   componentQuantile,
   distributionCdf,
   intervalWidthFactor,
@@ -84,5 +86,31 @@ describe("intervalWidthFactor: a panelist's P10–P90 range rescaled by their hi
   it("widenThreePoint scales both halves about the middle value (hand)", () => {
     expect(widenThreePoint({ low: 80, mid: 100, high: 140 }, 2)).toEqual({ low: 60, mid: 100, high: 180 });
     expect(() => widenThreePoint({ low: 80, mid: 100, high: 140 }, 0)).toThrow(RangeError);
+  });
+});
+
+describe("blendRangeScale: the blend range recalibrated by its own track record", () => {
+  it("R: quantile(|z|, 0.8, type 7)/qnorm(0.9), shrunk toward 1 with Z = n/(n + 5)", () => {
+    const z = [0.3, -1.9, 0.8, -0.2, 2.4, 1.1, -0.6, 0.05, -1.4, 0.9];
+    const [[h]] = runR(`out(quantile(abs(${JSON.stringify(z).replace("[", "c(").replace("]", ")")}), 0.8, type = 7) / qnorm(0.9))`);
+    const r = blendRangeScale(z);
+    expect(r.historyScale).toBeCloseTo(h, 12);
+    expect(r.credibility).toBeCloseTo(10 / 15, 14);
+    expect(r.scale).toBeCloseTo((10 / 15) * h + 5 / 15, 12);
+    expect(blendRangeScale([]).scale).toBe(1);
+  });
+});
+
+describe("blendErrorCorrelation: ρ of the two legs' errors shrunk toward the prior 0.5", () => {
+  it("hand: errors e_p = (1, −1, 2), e_b = (1, 1, 2) → mean(e_p·e_b) = 4/3, MSEs 2 and 2 → ρ = 2/3; Z = 3/8", () => {
+    const h = [
+      { actual: 10, panel: 9, baseline: 9 },
+      { actual: 10, panel: 11, baseline: 9 },
+      { actual: 10, panel: 8, baseline: 8 },
+    ];
+    const r = blendErrorCorrelation(h);
+    expect(r.historyRho).toBeCloseTo(2 / 3, 14);
+    expect(r.rho).toBeCloseTo((3 / 8) * (2 / 3) + (5 / 8) * 0.5, 14);
+    expect(blendErrorCorrelation([]).rho).toBe(0.5);
   });
 });

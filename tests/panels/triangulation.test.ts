@@ -44,14 +44,14 @@ const LOG_ERRORS = [0.1, -0.2, 0.15, -0.05];
 
 /**
  * R prelude: the panel leg from the track record (Gelman et al. 2013 §2.6: s² = (3·0.25² + Σe²)/(3 + n),
- * P10/P90 = figure·exp(∓qt(0.9, 3 + n)·s)) as the two-piece normal through them, its CDF, and the
- * blend's quantiles by uniroot on w·F_panel + (1 − w)·pnorm(·, mean, sdb).
+ * P10/P90 = figure·exp(∓qt(0.9, 3 + n)·s)) as the two-piece normal through them; and the blend
+ * N(w·p + (1 − w)·b, σ_c²) with σ_c² = w²σp² + (1 − w)²σb² + 2w(1 − w)ρσpσb (Bates & Granger 1969,
+ * REFERENCES.md §5a), σp = (P90 − P10)/(2·qnorm(0.9)), ρ the prior 0.5 without history.
  */
 const R_LEGS = `
-F2 <- function(x, m, lo, hi) { z <- qnorm(0.9); if (x < m) pnorm((x - m) / ((m - lo) / z)) else pnorm((x - m) / ((hi - m) / z)) }
 leg <- function(fig, e) { s <- sqrt((3 * 0.25^2 + sum(e^2)) / (3 + length(e))); t <- qt(0.9, 3 + length(e)); c(fig * exp(-t * s), fig, fig * exp(t * s)) }
 Q2 <- function(p, l) if (p < 0.5) l[2] + (l[2] - l[1]) / qnorm(0.9) * qnorm(p) else l[2] + (l[3] - l[2]) / qnorm(0.9) * qnorm(p)
-qblend <- function(p, w, l, mb, sdb, range) uniroot(function(x) w * F2(x, l[2], l[1], l[3]) + (1 - w) * pnorm(x, mb, sdb) - p, range, tol = 1e-12)$root
+qblend <- function(p, w, l, mb, sdb, rho = 0.5) { sp <- (l[3] - l[1]) / (2 * qnorm(0.9)); sc <- sqrt(w^2 * sp^2 + (1 - w)^2 * sdb^2 + 2 * w * (1 - w) * rho * sp * sdb); qnorm(p, w * l[2] + (1 - w) * mb, sc) }
 `;
 
 describe("computeTriangulation: shared quantity, single values, equal weights", () => {
@@ -64,7 +64,7 @@ describe("computeTriangulation: shared quantity, single values, equal weights", 
     med <- median(x); l <- leg(med, ${rVector(LOG_ERRORS)})
     out(c(med, l[1], l[3], Q2(0.025, l), Q2(0.975, l)))
     sdb <- (155 - 125) / (2 * qnorm(0.9))
-    out(c(sdb, sapply(c(0.1, 0.9, 0.025, 0.975, 0.5), function(p) qblend(p, 0.5, l, 140, sdb, c(0, 400)))))
+    out(c(sdb, sapply(c(0.1, 0.9, 0.025, 0.975, 0.5), function(p) qblend(p, 0.5, l, 140, sdb))))
     all <- c(${rVector(ROUND1)}, x)
     z <- (all - 140) / sdb
     out(z)
@@ -89,20 +89,10 @@ describe("computeTriangulation: shared quantity, single values, equal weights", 
     expect(tight.panel!.raw.intervals).toEqual(t.panel!.raw.intervals);
   });
 
-  it("the blend's bounds carry the right probability: R integrates the mixture density up to each bound", () => {
-    const bounds = t.blend!.intervals.flatMap((i) => [i.lower, i.upper]);
-    const [mass] = runR(`${R_LEGS}
-      l <- leg(${med}, ${rVector(LOG_ERRORS)}); sl <- (l[2] - l[1]) / qnorm(0.9); sh <- (l[3] - l[2]) / qnorm(0.9)
-      f <- function(x) 0.5 * ifelse(x < l[2], dnorm(x, l[2], sl), dnorm(x, l[2], sh)) + 0.5 * dnorm(x, 140, ${sdb})
-      out(sapply(${rVector(bounds)}, function(b) integrate(f, -Inf, b, rel.tol = 1e-12, subdivisions = 1000)$value))
-    `);
-    expectClose(mass, [0.1, 0.9, 0.025, 0.975], 1e-8, "probability below each bound (numeric integration)");
-  });
-
-  it("blend figure is the mixture's median (R uniroot), inside its own ranges; 0.5·150 + 0.5·140 = 145 shown for reference", () => {
+  it("blend figure 0.5·150 + 0.5·140 = 145 (DESIGN.md, equal weights) is the median of its distribution, inside its ranges (R qnorm)", () => {
     expect(t.weights!.panel).toBe(0.5);
-    expectClose([t.blend!.figure], [b50], 1e-9, "blend median");
-    expect(t.blend!.linearCombination).toBe(145);
+    expect(t.blend!.figure).toBe(145);
+    expectClose([b50], [145], 1e-12, "R's median of the blend");
     expectClose(t.blend!.intervals.flatMap((i) => [i.lower, i.upper]), [b10, b90, b025, b975], 1e-9, "blend range");
     expectClose([t.baseline!.sd], [sdb], 1e-12, "baseline sd");
     for (const iv of t.blend!.intervals) expect(iv.lower <= t.blend!.figure && t.blend!.figure <= iv.upper).toBe(true);
@@ -127,11 +117,11 @@ describe("computeTriangulation: shared quantity, single values, equal weights", 
     expectClose([t.departures!.panel.totalZChange], [acrossZ[1] - acrossZ[0]], 1e-12);
   });
 
-  it("an organiser weight of 0.3: figure is R's median of 0.3·F_panel + 0.7·F_baseline; 0.3·150 + 0.7·140 = 143 beside it", () => {
+  it("an organiser weight of 0.3 gives 0.3·150 + 0.7·140 = 143, and R's qnorm for its 80% range", () => {
     const o = computeTriangulation(sharedInput({ panelLogErrors: LOG_ERRORS, weight: { rule: "organiser", panelWeight: 0.3 } }));
-    const [[m]] = runR(`${R_LEGS} out(qblend(0.5, 0.3, leg(150, ${rVector(LOG_ERRORS)}), 140, (155 - 125) / (2 * qnorm(0.9)), c(0, 400)))`);
-    expectClose([o.blend!.figure], [m], 1e-9, "blend median");
-    expect(o.blend!.linearCombination).toBeCloseTo(143, 12);
+    const [q] = runR(`${R_LEGS} out(sapply(c(0.1, 0.9), function(p) qblend(p, 0.3, leg(150, ${rVector(LOG_ERRORS)}), 140, (155 - 125) / (2 * qnorm(0.9)))))`);
+    expect(o.blend!.figure).toBeCloseTo(143, 12);
+    expectClose([o.blend!.intervals[0].lower, o.blend!.intervals[0].upper], q, 1e-9, "blend 80% range");
     expect(o.weights!.applied).toBe("organiser");
   });
 
@@ -238,7 +228,7 @@ describe("bias correction from track records derived from stored resolutions", (
     expect(t.panel!.raw.figure).toBe(rawMed);
     expectClose([t.panel!.corrected.figure], [corrMed], 1e-12, "corrected median");
     expect(t.panel!.answers.map((a) => a.correctedValue)).toEqual([130 * fo, 90 * fp, 105]);
-    expect(t.blend!.linearCombination).toBeCloseTo(0.5 * corrMed + 0.5 * 140, 9);
+    expect(t.blend!.figure).toBeCloseTo(0.5 * corrMed + 0.5 * 140, 9);
   });
 
   it("sum of parts sums the corrected parts; single-value parts still get a range, from the prior (R qt)", () => {
@@ -263,7 +253,7 @@ describe("bias correction from track records derived from stored resolutions", (
     expect(t.departures!.answers).toEqual([]);
   });
 
-  it("issue 12: single-value parts no longer give '11,621; 80% range 11,570 to 11,570' — the figure is the mixture's median, inside both ranges (R uniroot)", () => {
+  it("issue 12: single-value parts no longer give '11,621; 80% range 11,570 to 11,570' — the figure is inside both ranges (R qnorm)", () => {
     const parts = [
       { invitationId: "a", pseudonym: "A", value: 5000, low: null, high: null },
       { invitationId: "b", pseudonym: "B", value: 6570, low: null, high: null },
@@ -271,7 +261,7 @@ describe("bias correction from track records derived from stored resolutions", (
     const b = { mean: 12452, lower80: 12100, upper80: 12804 };
     const t = computeTriangulation({ aggregation: "sum-of-parts", answerFormat: "single", rounds: [{ round: 1, answers: parts }], factors: {}, baseline: b, weight: { rule: "equal" } });
     const [q] = runR(`${R_LEGS} l <- leg(11570, numeric(0)); sdb <- (12804 - 12100) / (2 * qnorm(0.9))
-      out(sapply(c(0.5, 0.1, 0.9, 0.025, 0.975), function(p) qblend(p, 0.5, l, 12452, sdb, c(1000, 30000))))`);
+      out(sapply(c(0.5, 0.1, 0.9, 0.025, 0.975), function(p) qblend(p, 0.5, l, 12452, sdb)))`);
     expectClose([t.blend!.figure, ...t.blend!.intervals.flatMap((i) => [i.lower, i.upper])], q, 1e-9, "blend median and range");
     expect(t.blend!.intervals[0].upper - t.blend!.intervals[0].lower).toBeGreaterThan(0);
     for (const iv of t.blend!.intervals) expect(iv.lower < t.blend!.figure && t.blend!.figure < iv.upper).toBe(true);
@@ -382,7 +372,7 @@ describe("inverse-MSE weights from the organiser's resolved history (relative er
     // Hand: Z = n/(n + 5) = 3/8 (Bühlmann-style credibility, as the bias factor); w = Z·17/23 + (1 − Z)·0.5.
     const w = (3 / 8) * (17 / 23) + (5 / 8) * 0.5;
     expect(t.weights!.panel).toBeCloseTo(w, 12);
-    expect(t.blend!.linearCombination).toBeCloseTo(w * 150 + (1 - w) * 140, 9);
+    expect(t.blend!.figure).toBeCloseTo(w * 150 + (1 - w) * 140, 9);
     expect(h.entries.map((e) => e.blend)).toEqual([100, 210, 390]);
   });
 
