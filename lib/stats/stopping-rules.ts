@@ -2,7 +2,7 @@
  * Delphi stopping rules: stability first, consensus reported beside it, and the round limit;
  * the recommendation built from them. Also the default settings and the text of their sources,
  * exported from here so that every page and the API show the same thing (the project's
- * DEVELOPERS.md "Stopping rules" section says where each rule comes from).
+ * DEVELOPERS.md "Rules the panel and the blend follow" maps each rule to its source).
  *
  * Rules, as their sources state them:
  * - Stability decides. Dajani, Sincoff & Talley (1979), "Stability and agreement criteria for

@@ -285,9 +285,9 @@ export default function ConvergenceView({ view, reader = "organiser" }: { view: 
             {ev.reasons.join(" ")}
           </p>
           <p className="caution">
-            {reader === "organiser" ? "This supports your decision; it does not make it." : "This supports the organiser's decision; it does not make it."} A question counts as settled when it meets the consensus
-            rule or the stability rule; consensus alone is not a reliable reason to stop (von der Gracht 2012), and the
-            thresholds are conventions rather than verified findings unless marked otherwise below.
+            {reader === "organiser" ? "This supports your decision; it does not make it." : "This supports the organiser's decision; it does not make it."} A question counts as settled when its answers are stable
+            (Dajani, Sincoff &amp; Talley 1979); consensus is shown but is not a reason to stop on its own (von der Gracht 2012),
+            and the thresholds are conventions rather than verified findings unless marked otherwise below.
           </p>
           <details>
             <summary>The rules of this panel and where their defaults come from</summary>
