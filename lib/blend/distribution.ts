@@ -58,7 +58,7 @@ export type Distribution = Component | Mixture;
 export interface ThreePointAnswer {
   /** 10th percentile ("low"). */
   readonly low: number;
-  /** 50th percentile ("most likely", read as the median). */
+  /** 50th percentile: the answer's middle value, read as the median. */
   readonly mid: number;
   /** 90th percentile ("high"). */
   readonly high: number;

@@ -10,7 +10,7 @@
  * milliseconds, and computing on read means no cached figure can outlive a changed input.
  *
  * Rules (each stated again in the result's notes):
- * - Panel figure: the final closed round's median of the answers (most likely values of
+ * - Panel figure: the final closed round's median of the answers (middle values, read as P50, of
  *   three-point answers) for a shared quantity; the sum of the parts for sum of parts.
  * - Panel distribution, from track records (never from the spread of the answers, which Delphi
  *   rounds narrow by design): three-point answers → each answer's P10–P90 range rescaled by its
@@ -266,7 +266,7 @@ export function computeTriangulation(input: TriangulationInput): Triangulation {
     };
     notes.push(
       input.aggregation === "shared"
-        ? `Panel figure: the median (Hyndman & Fan type 7) of the ${answers.length} final answers of round ${final.round}${input.answerFormat === "three-point" ? " (most likely values)" : ""}.`
+        ? `Panel figure: the median (Hyndman & Fan type 7) of the ${answers.length} final answers of round ${final.round}${input.answerFormat === "three-point" ? " (their middle values, read as P50)" : ""}.`
         : `Panel figure: the sum of the ${answers.length} parts of the final answers (round ${final.round}).`,
     );
     if (carried > 0) {
