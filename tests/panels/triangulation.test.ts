@@ -12,7 +12,8 @@ import { describe, expect, it } from "vitest";
 import { trackRecord, type BiasFactor } from "../../lib/blend";
 import { computeTriangulation, type TriangulationInput } from "../../lib/panels/triangulation";
 import { historyOf, recordsByMember, type ResolvedQuestion, type ResolutionFigures } from "../../lib/panels/track-records";
-import { scoreFigures } from "../../lib/panels/resolution";
+import { checkWithinBounds, scoreFigures } from "../../lib/panels/resolution";
+import { InvalidInputError } from "../../lib/errors";
 import { csvCell, reportCsv } from "../../lib/panels/report";
 import { expectClose, runR, rVector } from "../stats/rscript";
 
@@ -393,6 +394,35 @@ describe("resolution scores", () => {
     const noBaseline = scoreFigures(1000, resolved(1000, [], { rawPanel: 900, correctedPanel: 950 }).figures);
     expect(noBaseline.baseline).toBeNull();
     expect(noBaseline.blend).toBeNull();
+  });
+
+  it("a sum-of-parts answer is scored only against its own part's actual, never the total (hand: 450 − 500 = −50)", () => {
+    const f = resolved(1000, [{ inv: "s1", member: "m1", value: 500 }, { inv: "s2", member: "m2", value: 300 }], { aggregation: "sum-of-parts", rawPanel: 800, correctedPanel: 800, baseline: 900, blend: 850 }).figures;
+    const s = scoreFigures(1000, f, [{ invitationId: "s1", actual: 450 }]);
+    expect(s.rawPanel.error).toBe(200); // the total against the total
+    expect(s.panelists).toHaveLength(1); // s2 has no part actual: not scored
+    expect(s.panelists[0]).toMatchObject({ label: "s1", error: -50 });
+    expect(s.panelists[0].absolutePercentError).toBeCloseTo((100 * 50) / 450, 12);
+    expect(scoreFigures(1000, f).panelists).toEqual([]);
+  });
+
+  it("an actual outside the question's bounds is refused, naming the number (−100 for a 0–100,000 question)", () => {
+    const q = { lowerBound: 0, upperBound: 100000 };
+    expect(() => checkWithinBounds(q, -100)).toThrow(InvalidInputError);
+    let caught: unknown = null;
+    try {
+      checkWithinBounds(q, -100, [{ pseudonym: "A", actual: 200000 }]);
+    } catch (err) {
+      caught = err;
+    }
+    {
+      expect((caught as InvalidInputError).errors).toEqual([
+        { field: "actual", message: "-100 is outside the question's bounds 0 to 100000" },
+        { field: "parts.0.actual", message: "200000 is outside the question's bounds 0 to 100000" },
+      ]);
+    }
+    expect(() => checkWithinBounds(q, 0)).not.toThrow();
+    expect(() => checkWithinBounds(q, 100000)).not.toThrow();
   });
 });
 
