@@ -22,39 +22,25 @@ export interface Departure {
   readonly z: number;
   /** Where the value falls in the baseline's distribution, 100·Φ(z), in percent (0–100). */
   readonly percentile: number;
-  /** Outside the baseline's 80% interval (strictly below its lower or above its upper bound). */
+  /** Outside the baseline's central 80% interval: percentile below 10 or above 90. */
   readonly outside80: boolean;
-  /** Outside the baseline's 95% interval. */
+  /** Outside the baseline's central 95% interval: percentile below 2.5 or above 97.5. */
   readonly outside95: boolean;
   /** The baseline sd used for z and the percentile, and where it came from. */
   readonly sd: number;
   readonly sdSource: BaselineSdSource;
 }
 
-function bounds(b: BaselineForecast, level: 80 | 95, mean: number, sd: number): [number, number] {
-  const lo = level === 80 ? b.lower80 : b.lower95;
-  const hi = level === 80 ? b.upper80 : b.upper95;
-  if (lo !== undefined || hi !== undefined) {
-    if (lo === undefined || hi === undefined) {
-      throw new RangeError(`departure: the ${level}% interval needs both lower${level} and upper${level}`);
-    }
-    assertFinite(lo, "departure", `lower${level}`);
-    assertFinite(hi, "departure", `upper${level}`);
-    if (!(lo < hi)) throw new RangeError(`departure: lower${level} (${lo}) must be below upper${level} (${hi})`);
-    return [lo, hi];
-  }
-  const z = normalQuantile(1 - (1 - level / 100) / 2);
-  return [mean - z * sd, mean + z * sd];
-}
-
 /**
  * The departure of `value` from the baseline (DESIGN.md "Departure"):
- * difference d = value − m; percent = 100·d/|m|; z = d/sd; percentile = 100·Φ(z); flags
- * outside the 80% and 95% intervals. m is the baseline mean and sd its forecast standard
- * deviation at the horizon (from `baselineDistribution`: the given sd, else implied by the
- * 80% or 95% interval). The flags use the baseline's own interval bounds when given (so an
- * asymmetric interval is respected), else the normal bounds m ± Φ⁻¹(0.90)·sd and
- * m ± Φ⁻¹(0.975)·sd. Φ by lib/stats (Cody 1969, as R's pnorm). A value on a bound is inside.
+ * difference d = value − m; percent = 100·d/|m|; z = d/sd; percentile = 100·Φ(z); and the flags
+ * read from the same distribution: outside the 80% interval when |z| > Φ⁻¹(0.90), outside the
+ * 95% interval when |z| > Φ⁻¹(0.975). m is the baseline mean and sd its forecast standard
+ * deviation at the horizon (from `baselineDistribution`: the given sd, else implied by the 80%
+ * or 95% interval's width) — the same normal the blend uses, so a value at the 99.5th
+ * percentile is always outside 95% (percentile and flags cannot disagree). An asymmetric
+ * interval is summarised by its width, as in `baselineDistribution`. Φ by lib/stats (Cody 1969,
+ * as R's pnorm). A value on a bound is inside.
  *
  * @throws RangeError for a non-finite value or an invalid baseline (see `baselineDistribution`).
  * @example departure(130, { mean: 100, sd: 10 }) // z 3, percentile 99.865, outside95 true
@@ -65,8 +51,6 @@ export function departure(value: number, baseline: BaselineForecast): Departure 
   const { mean, sd } = distribution;
   const difference = value - mean;
   const z = difference / sd;
-  const [lo80, hi80] = bounds(baseline, 80, mean, sd);
-  const [lo95, hi95] = bounds(baseline, 95, mean, sd);
   return {
     value,
     baseline: mean,
@@ -74,8 +58,8 @@ export function departure(value: number, baseline: BaselineForecast): Departure 
     percent: mean === 0 ? NaN : (100 * difference) / Math.abs(mean),
     z,
     percentile: 100 * normalCdf(z),
-    outside80: value < lo80 || value > hi80,
-    outside95: value < lo95 || value > hi95,
+    outside80: Math.abs(z) > normalQuantile(0.9),
+    outside95: Math.abs(z) > normalQuantile(0.975),
     sd,
     sdSource,
   };

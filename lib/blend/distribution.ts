@@ -58,7 +58,7 @@ export type Distribution = Component | Mixture;
 export interface ThreePointAnswer {
   /** 10th percentile ("low"). */
   readonly low: number;
-  /** 50th percentile ("most likely", read as the median). */
+  /** 50th percentile: the answer's middle value, read as the median. */
   readonly mid: number;
   /** 90th percentile ("high"). */
   readonly high: number;
@@ -92,7 +92,7 @@ export interface BaselineDistribution {
 }
 
 /** How a panel distribution was built, for method notes. */
-export type PanelDistributionRule = "three-point pool" | "round spread" | "sum of parts";
+export type PanelDistributionRule = "three-point pool" | "round spread" | "sum of parts" | "track record";
 
 /** A panel distribution with the rule that built it and the numbers behind it. */
 export interface PanelDistribution {

@@ -32,6 +32,14 @@
  *   International Journal of Forecasting 7 (1991) 251–254; the issue number 8 is from memory.
  * - H. Bühlmann (1967), credibility Z = n/(n + K): the form and year seen in secondary accounts
  *   of credibility theory; the journal details (ASTIN Bulletin 4(3), 199–207) are from memory.
+ * - A. Gelman, J. B. Carlin, H. S. Stern, D. B. Dunson, A. Vehtari and D. B. Rubin (2013),
+ *   Bayesian Data Analysis, 3rd ed., CRC Press, §2.6 (normal with known mean, unknown variance;
+ *   scaled inverse-χ² prior) — from memory, section number not checked.
+ * - R. Ranjan and T. Gneiting (2010), "Combining probability forecasts", JRSS B 72(1), 71–91
+ *   (a linear pool of calibrated forecasts is over-dispersed) — from memory; the project's
+ *   simulated panel study (`npm run bench:blend`) showed the effect on the blend.
+ * - J. Smith and K. F. Wallis (2009), "A simple explanation of the forecast combination puzzle",
+ *   Oxford Bulletin of Economics and Statistics 71(3), 331–355 — from memory.
  * - Split normal (Gibbons & Mylroie 1973; John 1982): named from memory for contrast only; the
  *   three-point fitting rule in `distribution.ts` is this project's own and stated in full there.
  */
@@ -39,6 +47,8 @@ export {
   EQUAL_PANEL_WEIGHT,
   MIN_RESOLVED_FOR_WEIGHTS,
   MIN_RESOLVED_FOR_CORRELATION,
+  PRIOR_ERROR_CORRELATION,
+  blendErrorCorrelation,
   batesGrangerWeights,
   equalWeights,
   organiserWeights,
@@ -50,6 +60,7 @@ export {
   type ResolvedPair,
   type BlendWeights,
   type BatesGrangerOptimum,
+  type ErrorCorrelation,
   type HistoryWeightOptions,
 } from "./weights";
 export {
@@ -77,6 +88,17 @@ export {
   type PanelDistribution,
   type PanelDistributionRule,
 } from "./distribution";
+export {
+  PANEL_LOG_ERROR_PRIOR,
+  panelErrorScale,
+  panelFromTrackRecord,
+  intervalWidthFactor,
+  widenThreePoint,
+  blendRangeScale,
+  type RangeScale,
+  type PanelErrorScale,
+  type IntervalWidthFactor,
+} from "./panel-range";
 export {
   DEFAULT_BLEND_LEVELS,
   linearPool,

@@ -6,6 +6,7 @@
  */
 import { meanSquaredError } from "../forecast/accuracy";
 import { neumaierSum } from "../stats/sum";
+import { BIAS_PRIOR_STRENGTH } from "./track-record";
 import { assertFinite, assertPositive, assertUnitInterval } from "./validate";
 
 /**
@@ -28,6 +29,14 @@ export const MIN_RESOLVED_FOR_WEIGHTS = 3;
  * quantity (the correlation) than inverse-MSE weights. Common practice, not a published threshold.
  */
 export const MIN_RESOLVED_FOR_CORRELATION = 5;
+
+/**
+ * The prior for the correlation of the panel's and the baseline's errors, 0.5, worth
+ * {@link BIAS_PRIOR_STRENGTH} resolved questions: a panel and a model read partly the same
+ * signals and tend to miss the same surprises, so their errors are positively correlated;
+ * 0.5 is a judgement (common practice), not a published figure.
+ */
+export const PRIOR_ERROR_CORRELATION = 0.5;
 
 /** How a weight was (to be) chosen. */
 export type WeightRule = "equal" | "inverse-mse" | "optimal" | "organiser";
@@ -59,6 +68,13 @@ export interface BlendWeights {
   readonly mseBaseline: number;
   /** Correlation of the two error series (about zero, as the MSEs); NaN unless the optimal rule ran. */
   readonly errorCorrelation: number;
+  /**
+   * Inverse-MSE rule: the weight from the MSEs alone, MSE_b / (MSE_p + MSE_b), before shrinking
+   * toward equal; NaN for the other rules.
+   */
+  readonly rawPanel: number;
+  /** Inverse-MSE rule: the credibility Z = n/(n + k) given to the history; NaN for the other rules. */
+  readonly credibility: number;
   /** The optimal rule's panel weight before clipping to [0, 1]; NaN for the other rules. */
   readonly unconstrainedPanel: number;
   /**
@@ -126,7 +142,7 @@ function result(
   panel: number,
   reason: string,
   extra: Partial<
-    Pick<BlendWeights, "nResolved" | "msePanel" | "mseBaseline" | "errorCorrelation" | "unconstrainedPanel" | "expectedMse">
+    Pick<BlendWeights, "nResolved" | "msePanel" | "mseBaseline" | "rawPanel" | "credibility" | "errorCorrelation" | "unconstrainedPanel" | "expectedMse">
   > = {},
 ): BlendWeights {
   return {
@@ -137,6 +153,8 @@ function result(
     nResolved: extra.nResolved ?? 0,
     msePanel: extra.msePanel ?? NaN,
     mseBaseline: extra.mseBaseline ?? NaN,
+    rawPanel: extra.rawPanel ?? NaN,
+    credibility: extra.credibility ?? NaN,
     errorCorrelation: extra.errorCorrelation ?? NaN,
     unconstrainedPanel: extra.unconstrainedPanel ?? NaN,
     expectedMse: extra.expectedMse ?? NaN,
@@ -167,6 +185,11 @@ export function organiserWeights(panelWeight: number): BlendWeights {
 export interface HistoryWeightOptions {
   /** Fewest resolved questions before the rule is used (default: the rule's named constant). */
   readonly minResolved?: number;
+  /**
+   * Inverse-MSE rule: prior strength k of the shrinkage toward equal weights, Z = n/(n + k)
+   * (default {@link BIAS_PRIOR_STRENGTH}, the bias factor's).
+   */
+  readonly priorStrength?: number;
 }
 
 function checkHistory(history: readonly ResolvedPair[], fn: string, minResolved: number): void {
@@ -203,20 +226,30 @@ function thin(rule: WeightRule, n: number, min: number): BlendWeights {
 /**
  * Inverse-MSE weights from resolved history (Bates & Granger 1969 with the error correlation
  * set to 0; as the diagonal-only `comb_BG` of R package GeomComb, REFERENCES.md §5a):
- * w_panel = (1/MSE_p) / (1/MSE_p + 1/MSE_b) = MSE_b / (MSE_p + MSE_b), MSE by
- * lib/forecast/accuracy `meanSquaredError` (errors actual − figure).
+ * w_raw = (1/MSE_p) / (1/MSE_p + 1/MSE_b) = MSE_b / (MSE_p + MSE_b), MSE by
+ * lib/forecast/accuracy `meanSquaredError` (errors actual − figure), then shrunk toward equal
+ * weights by the number of resolved questions n, as the bias factor is:
+ * w = Z·w_raw + (1 − Z)·0.5 with Z = n/(n + k), k = {@link BIAS_PRIOR_STRENGTH} (Bühlmann-style
+ * credibility, Bühlmann 1967). Without the shrinkage, with 3 questions and two equally good
+ * legs the raw weight is Beta(n/2, n/2)-distributed (MSE_b/(MSE_p + MSE_b) of two independent
+ * χ²_n/n) and lands anywhere from 0.10 to 0.90; equal weights are hard to beat in practice
+ * (the "forecast combination puzzle", Smith & Wallis 2009, Oxford Bull. Econ. Stat. 71(3),
+ * 331–355; citation from memory).
  *
  * Fallbacks (to equal weights, with the reason): fewer than `minResolved` questions (default
- * {@link MIN_RESOLVED_FOR_WEIGHTS}), or both MSEs 0. One MSE of 0 gives that figure weight 1.
+ * {@link MIN_RESOLVED_FOR_WEIGHTS}), or both MSEs 0. One MSE of 0 gives that figure w_raw = 1.
  *
  * Input: resolved questions (possibly empty: thin history is an expected state).
  * @throws RangeError for a non-finite value in history (named by index) or a bad minResolved.
- * @example inverseMseWeights(history) // panel 0.1555555556 when MSE_p = 3.8 and MSE_b = 0.7
+ * @example inverseMseWeights(history) // raw 0.1555555556 when MSE_p = 3.8 and MSE_b = 0.7, n = 5
+ *   // → Z = 0.5, panel 0.5·0.1555555556 + 0.5·0.5 = 0.3277777778
  */
 export function inverseMseWeights(history: readonly ResolvedPair[], options: HistoryWeightOptions = {}): BlendWeights {
   const fn = "inverseMseWeights";
   const min = options.minResolved ?? MIN_RESOLVED_FOR_WEIGHTS;
+  const k = options.priorStrength ?? BIAS_PRIOR_STRENGTH;
   checkHistory(history, fn, min);
+  assertPositive(k, fn, "priorStrength", true);
   const n = history.length;
   if (n < min) return thin("inverse-mse", n, min);
   const { mseP, mseB } = historyMses(history);
@@ -224,13 +257,16 @@ export function inverseMseWeights(history: readonly ResolvedPair[], options: His
   if (mseP + mseB === 0) {
     return result("inverse-mse", "equal", EQUAL_PANEL_WEIGHT, "Equal weights: both the panel and the baseline were exact on every resolved question.", base);
   }
-  const w = mseB / (mseP + mseB);
+  const raw = mseB / (mseP + mseB);
+  const z = n / (n + k);
+  const w = z * raw + (1 - z) * EQUAL_PANEL_WEIGHT;
   return result(
     "inverse-mse",
     "inverse-mse",
     w,
-    `Inverse-MSE weights (Bates & Granger 1969) from ${n} resolved questions: panel MSE ${fmt(mseP)}, baseline MSE ${fmt(mseB)}.`,
-    { ...base, expectedMse: combinationMse(1 - w, mseP, mseB, 0) },
+    `Inverse-MSE weights (Bates & Granger 1969) from ${n} resolved questions: panel MSE ${fmt(mseP)}, baseline MSE ${fmt(mseB)}, ` +
+      `raw panel weight ${fmt(raw)} shrunk toward 0.5 with credibility ${fmt(z)} = ${n}/(${n} + ${k}).`,
+    { ...base, rawPanel: raw, credibility: z, expectedMse: combinationMse(1 - w, mseP, mseB, 0) },
   );
 }
 
@@ -287,11 +323,44 @@ export function optimalWeights(history: readonly ResolvedPair[], options: Histor
   );
 }
 
+/** The error correlation used for the blend's range, with what it rests on. */
+export interface ErrorCorrelation {
+  /** ρ used: Z·ρ_history + (1 − Z)·ρ_prior. */
+  readonly rho: number;
+  /** ρ from the history alone, mean(e_p·e_b)/√(MSE_p·MSE_b) (NaN without usable history). */
+  readonly historyRho: number;
+  /** Resolved questions behind it. */
+  readonly n: number;
+  /** Credibility Z = n/(n + k) of the history. */
+  readonly credibility: number;
+}
+
+/**
+ * The correlation of the two legs' errors for the blend's range: the history's
+ * ρ = mean(e_p·e_b)/√(MSE_p·MSE_b) (moments about zero, as {@link optimalWeights}), shrunk toward
+ * {@link PRIOR_ERROR_CORRELATION} with credibility Z = n/(n + k), k = {@link BIAS_PRIOR_STRENGTH}
+ * (Bühlmann 1967, as the bias factor). Without usable history (none, or a leg exact every time)
+ * it is the prior.
+ * @throws RangeError for a non-finite value in history.
+ * @example blendErrorCorrelation([]).rho // 0.5
+ */
+export function blendErrorCorrelation(history: readonly ResolvedPair[], priorStrength: number = BIAS_PRIOR_STRENGTH): ErrorCorrelation {
+  checkHistory(history, "blendErrorCorrelation", 1);
+  const n = history.length;
+  let historyRho = NaN;
+  if (n > 0) {
+    const { mseP, mseB, crossMoment } = historyMses(history);
+    if (mseP > 0 && mseB > 0) historyRho = Math.max(-1, Math.min(1, crossMoment / Math.sqrt(mseP * mseB)));
+  }
+  const z = Number.isNaN(historyRho) ? 0 : n / (n + priorStrength);
+  return { rho: z === 0 ? PRIOR_ERROR_CORRELATION : z * historyRho + (1 - z) * PRIOR_ERROR_CORRELATION, historyRho, n, credibility: z };
+}
+
 /** What {@link blendWeights} is asked for. */
 export type WeightSpec =
   | { readonly rule: "equal" }
   | { readonly rule: "organiser"; readonly panelWeight: number }
-  | { readonly rule: "inverse-mse"; readonly history: readonly ResolvedPair[]; readonly minResolved?: number }
+  | { readonly rule: "inverse-mse"; readonly history: readonly ResolvedPair[]; readonly minResolved?: number; readonly priorStrength?: number }
   | { readonly rule: "optimal"; readonly history: readonly ResolvedPair[]; readonly minResolved?: number };
 
 /**
@@ -306,7 +375,7 @@ export function blendWeights(spec: WeightSpec): BlendWeights {
     case "organiser":
       return organiserWeights(spec.panelWeight);
     case "inverse-mse":
-      return inverseMseWeights(spec.history, { minResolved: spec.minResolved });
+      return inverseMseWeights(spec.history, { minResolved: spec.minResolved, priorStrength: spec.priorStrength });
     case "optimal":
       return optimalWeights(spec.history, { minResolved: spec.minResolved });
     default: {

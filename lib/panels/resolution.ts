@@ -53,13 +53,23 @@ export interface ResolutionView {
 /**
  * Scores the stored figures against `actual` (pure). The panelists' answers are scored with
  * their pseudonyms as labels; the MASE scale is the baseline history's (none without one).
+ * On a sum-of-parts question an answer is a part, so it is scored only against its own part's
+ * actual (`parts`, by invitation id), never against the total, and without the total's MASE scale.
  */
-export function scoreFigures(actual: number, f: ResolutionFigures): StoredScores {
+export function scoreFigures(actual: number, f: ResolutionFigures, parts: readonly { invitationId: string; actual: number }[] = []): StoredScores {
   const options = f.baselineTraining.length >= 2 ? { training: f.baselineTraining, season: f.baselineSeason } : {};
-  const panelists = Object.fromEntries(f.panelists.map((p) => [p.pseudonym, p.value]));
+  const sum = f.aggregation === "sum-of-parts";
+  const panelistScores = () =>
+    sum
+      ? f.panelists.flatMap((p) => {
+          const part = parts.find((x) => x.invitationId === p.invitationId);
+          return part ? [scoreFigure(p.pseudonym, part.actual, p.value)] : [];
+        })
+      : f.panelists.map((p) => scoreFigure(p.pseudonym, actual, p.value, options));
   if (f.baseline !== null && f.blend !== null) {
+    const panelists = sum ? {} : Object.fromEntries(f.panelists.map((p) => [p.pseudonym, p.value]));
     const s: ResolutionScores = scoreResolution(actual, { rawPanel: f.rawPanel, correctedPanel: f.correctedPanel, baseline: f.baseline, blend: f.blend, panelists }, options);
-    return s;
+    return sum ? { ...s, panelists: panelistScores() } : s;
   }
   return {
     actual,
@@ -67,8 +77,29 @@ export function scoreFigures(actual: number, f: ResolutionFigures): StoredScores
     correctedPanel: scoreFigure("corrected panel", actual, f.correctedPanel, options),
     baseline: null,
     blend: null,
-    panelists: f.panelists.map((p) => scoreFigure(p.pseudonym, actual, p.value, options)),
+    panelists: panelistScores(),
   };
+}
+
+/**
+ * Holds an actual value, and each part's, to the question's plausible bounds, naming the number
+ * and the bounds in the message (an actual of −100 for a 0–100,000 question is refused, 422).
+ * @throws InvalidInputError for a value outside [lowerBound, upperBound].
+ */
+export function checkWithinBounds(
+  question: { lowerBound: number; upperBound: number },
+  actual: number,
+  parts: readonly { pseudonym: string; actual: number }[] = [],
+): void {
+  const errors: FieldError[] = [];
+  const check = (field: string, v: number) => {
+    if (v < question.lowerBound || v > question.upperBound) {
+      errors.push({ field, message: `${v} is outside the question's bounds ${question.lowerBound} to ${question.upperBound}` });
+    }
+  };
+  check("actual", actual);
+  parts.forEach((p, i) => check(`parts.${i}.actual`, p.actual));
+  if (errors.length > 0) throw new InvalidInputError(errors);
 }
 
 function partsFor(
@@ -120,6 +151,7 @@ export async function currentFigures(panelId: string, questionId: string): Promi
     correctedPanel: t.panel.corrected.figure,
     baseline: t.baseline?.mean ?? null,
     blend: t.blend?.figure ?? null,
+    blendSd: t.blend?.combinedSd ?? null,
     panelWeight: t.weights?.panel ?? null,
     weightRule: t.weights?.applied ?? null,
     panelists: t.panel.answers.map((a) => ({
@@ -139,7 +171,8 @@ export async function currentFigures(panelId: string, questionId: string): Promi
 /**
  * Records a question's actual value and scores every figure (organisers of the panel; audited).
  * @throws ConflictError (409) when already resolved, a round is open, or there is no panel figure.
- * @throws InvalidInputError (422) for part actuals on a shared question or an unknown pseudonym.
+ * @throws InvalidInputError (422) for part actuals on a shared question, an unknown pseudonym, or a
+ *   value outside the question's bounds.
  */
 export async function resolveQuestion(actor: Actor, panelId: string, questionId: string, input: ResolutionInput): Promise<ResolutionView> {
   const access = await authorisePanel(actor, panelId, "manage");
@@ -151,9 +184,10 @@ export async function resolveQuestion(actor: Actor, panelId: string, questionId:
   if (await db.round.findFirst({ where: { panelId, status: "open" } })) {
     throw new ConflictError("A round is open: close it before resolving, so the panel figure that is scored is final.");
   }
+  checkWithinBounds(question, input.actual, input.parts);
   const figures = await currentFigures(panelId, questionId);
   const parts = partsFor(input.parts, figures);
-  const scores = jsonSafe(scoreFigures(input.actual, figures));
+  const scores = jsonSafe(scoreFigures(input.actual, figures, parts));
   const stored = await db.$transaction(async (tx) => {
     if (await tx.resolution.findUnique({ where: { questionId } })) {
       throw new ConflictError("The question was resolved a moment ago by someone else; correct the recorded value instead.");
@@ -193,9 +227,10 @@ export async function correctResolution(actor: Actor, panelId: string, questionI
   if (!question) throw new NotFoundError("The question");
   const existing = await db.resolution.findUnique({ where: { questionId } });
   if (!existing) throw new NotFoundError("The question's resolution");
+  checkWithinBounds(question, input.actual, input.parts ?? []);
   const figures = JSON.parse(existing.figures) as ResolutionFigures;
   const parts = input.parts !== undefined ? partsFor(input.parts, figures) : (JSON.parse(existing.partActuals) as { invitationId: string; actual: number }[]);
-  const scores = jsonSafe(scoreFigures(input.actual, figures));
+  const scores = jsonSafe(scoreFigures(input.actual, figures, parts));
   const updated = await db.$transaction(async (tx) => {
     const r = await tx.resolution.update({
       where: { questionId },

@@ -9,6 +9,7 @@ import type { Actor } from "@/lib/accounts/actor";
 import type { Round } from "@/lib/generated/prisma/client";
 import type { NextRoundInput, RoundOpen } from "@/lib/validation/inputs";
 import {
+  consensusApplies,
   evaluateStoppingRules,
   type QuestionRoundFigures,
   type StoppingEvaluation,
@@ -281,16 +282,19 @@ export interface ConvergenceView {
   readonly evaluation: StoppingEvaluation | null;
 }
 
-function figuresOf(s: QuestionStatistics): QuestionRoundFigures {
+/** A round's figures for the stopping rules; CV and relative IQR only where consensus applies. */
+function figuresOf(s: QuestionStatistics, answers?: ReadonlyMap<string, readonly { value: number }[]>): QuestionRoundFigures {
+  const consensus = consensusApplies(s.aggregation);
   return {
     questionId: s.questionId,
     aggregation: s.aggregation,
     n: s.n,
     median: s.values?.median ?? null,
     iqr: s.values?.iqr ?? null,
-    relativeIqr: s.values?.relativeIqr ?? null,
-    cv: s.values?.cv ?? null,
+    relativeIqr: consensus ? (s.values?.relativeIqr ?? null) : null,
+    cv: consensus ? (s.values?.cv ?? null) : null,
     total: s.sumOfParts?.total ?? null,
+    values: answers ? (answers.get(s.questionId) ?? []).map((a) => a.value) : null,
   };
 }
 
@@ -312,11 +316,14 @@ export async function getConvergence(actor: Actor, panelId: string): Promise<Con
   const rules = panelRules(panel);
   const last = rounds.at(-1);
   const previous = rounds.at(-2);
+  // The stability rule compares the distributions of the answers, so it needs the answers themselves.
+  const lastAnswers = last ? await finalAnswers(db, last.id) : null;
+  const previousAnswers = previous ? await finalAnswers(db, previous.id) : null;
   const evaluation = last
     ? evaluateStoppingRules({
         roundNumber: last.number,
-        current: statsOf(last).map(figuresOf),
-        previous: previous ? statsOf(previous).map(figuresOf) : null,
+        current: statsOf(last).map((x) => figuresOf(x, lastAnswers!)),
+        previous: previous ? statsOf(previous).map((x) => figuresOf(x, previousAnswers!)) : null,
         config: rules,
       })
     : null;

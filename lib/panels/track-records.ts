@@ -60,6 +60,8 @@ export interface ResolutionFigures {
   readonly correctedPanel: number;
   readonly baseline: number | null;
   readonly blend: number | null;
+  /** The blend's combined sd before its range scale (lib/blend `blend`), for the blend range's track record (absent in resolutions stored before it was kept). */
+  readonly blendSd?: number | null;
   readonly panelWeight: number | null;
   readonly weightRule: string | null;
   readonly panelists: readonly ResolvedPanelistFigure[];

@@ -10,19 +10,24 @@
  * milliseconds, and computing on read means no cached figure can outlive a changed input.
  *
  * Rules (each stated again in the result's notes):
- * - Panel figure: the final closed round's median of the answers (most likely values of
+ * - Panel figure: the final closed round's median of the answers (middle values, read as P50, of
  *   three-point answers) for a shared quantity; the sum of the parts for sum of parts.
- * - Panel distribution: three-point answers → linear pool of the answers (shared) or the
- *   normal approximation of the total (sum of parts); single values → a normal from the
- *   round's spread (median, IQR/1.349) for a shared quantity; single-value parts give no spread,
- *   so the panel leg is a point at the total (a caution says so).
+ * - Panel distribution, from track records (never from the spread of the answers, which Delphi
+ *   rounds narrow by design): three-point answers → each answer's P10–P90 range rescaled by its
+ *   panelist's interval hit rate (lib/blend `intervalWidthFactor`), then the linear pool
+ *   (shared) or the normal approximation of the total (sum of parts); single values or
+ *   single-value parts → the figure's predictive distribution from the log errors of the
+ *   organiser's resolved corrected panel figures, with a stated prior when they are few
+ *   (lib/blend `panelFromTrackRecord`). A sum of parts therefore always has a range.
  * - Bias correction: each panelist's answer × their shrunk bias factor from their track record
  *   (lib/blend `shrunkBiasFactor`); the corrected figure is the median of the corrected answers
  *   or the sum of the corrected parts; the corrected distribution is built the same way from the
  *   corrected answers. Raw and corrected are always both reported.
- * - Blend: the corrected panel figure and distribution with the baseline's target-period
- *   forecast and its normal predictive distribution, weight by the question's rule, else the
- *   panel's (equal, inverse-MSE from the organiser's resolved history, or organiser-set).
+ * - Blend: the mixture of the corrected panel distribution and the baseline's normal predictive
+ *   distribution, weight by the question's rule, else the panel's (equal, inverse-MSE from the
+ *   organiser's resolved history shrunk toward equal, or organiser-set); the blend figure
+ *   w·panel + (1 − w)·baseline is the median of its normal predictive distribution (Bates &
+ *   Granger's combined error variance), so it lies inside the blend's ranges.
  * - Departures: every answer of every closed round (shared quantity only: a part is not
  *   comparable with a baseline of the total) and the panel figure per round, against the
  *   baseline's target-period forecast.
@@ -35,17 +40,21 @@ import {
   answerDepartures,
   baselineDistribution,
   blend,
+  blendErrorCorrelation,
+  blendRangeScale,
   blendWeights,
   correctThreePoint,
   correctedPanelFigure,
   departure,
   departureAcrossRounds,
   distributionQuantile,
-  normalDistribution,
+  intervalWidthFactor,
+  panelErrorScale,
   panelFromParts,
-  panelFromSpread,
   panelFromThreePoint,
+  panelFromTrackRecord,
   shrunkBiasFactor,
+  widenThreePoint,
   type BaselineForecast,
   type BiasFactor,
   type BlendInterval,
@@ -54,6 +63,7 @@ import {
   type Departure,
   type DepartureAcrossRounds,
   type Distribution,
+  type PanelErrorScale,
   type ResolvedPair,
   type WeightSpec,
 } from "@/lib/blend";
@@ -89,6 +99,14 @@ export interface TriangulationInput {
   readonly rounds: readonly TriangulationRound[];
   /** Bias factor per invitation id (missing: no track record, factor 1). */
   readonly factors: Readonly<Record<string, BiasFactor>>;
+  /** Interval hits per invitation id: resolved three-point answers and how many held the outcome (missing: none). */
+  readonly intervalHits?: Readonly<Record<string, { readonly hits: number; readonly count: number }>>;
+  /** ln(actual / corrected panel figure) of the organiser's resolved questions (empty: the prior alone). */
+  readonly panelLogErrors?: readonly number[];
+  /** Resolved questions with both legs (relative figures), for the legs' error correlation (empty: the prior). */
+  readonly blendHistory?: readonly ResolvedPair[];
+  /** (actual − blend)/blend sd of resolved questions, for the blend range's scale (empty: scale 1). */
+  readonly blendStandardisedErrors?: readonly number[];
   /** The baseline's target-period forecast, or null without a baseline. */
   readonly baseline: BaselineForecast | null;
   /** The weight rule with its inputs. */
@@ -109,6 +127,8 @@ export interface CorrectedAnswer extends TriangulationAnswer {
   readonly correctedValue: number;
   readonly correctedLow: number | null;
   readonly correctedHigh: number | null;
+  /** Factor applied to the three-point range from the panelist's interval hit rate (1 without history). */
+  readonly rangeFactor: number;
   /** The round the answer comes from: the final round, or an earlier one for a carried-forward part. */
   readonly fromRound: number;
 }
@@ -121,12 +141,14 @@ export interface PanelFigureWithRange {
   readonly distribution: Distribution;
 }
 
-export type PanelRule = "three-point pool" | "round spread" | "sum of parts" | "sum of single-value parts (no spread)";
+export type PanelRule = "three-point pool" | "track record" | "sum of parts";
 
 export interface PanelLeg {
   readonly round: number;
   readonly n: number;
   readonly rule: PanelRule;
+  /** The log-error scale behind a "track record" range (null for three-point answers). */
+  readonly errorScale: PanelErrorScale | null;
   readonly raw: PanelFigureWithRange;
   readonly corrected: PanelFigureWithRange;
   readonly answers: readonly CorrectedAnswer[];
@@ -169,19 +191,17 @@ function isThreePoint(input: TriangulationInput, answers: readonly { low: number
 
 function panelDistribution(
   input: TriangulationInput,
-  answers: readonly { value: number; low: number | null; high: number | null }[],
-  total: number,
+  answers: readonly { value: number; low: number | null; high: number | null; rangeFactor: number }[],
+  figure: number,
+  errors: PanelErrorScale,
 ): { distribution: Distribution; rule: PanelRule } {
-  const tp = isThreePoint(input, answers);
-  const points = () => answers.map((a) => ({ low: a.low!, mid: a.value, high: a.high! }));
-  if (input.aggregation === "shared") {
-    return tp
-      ? { distribution: panelFromThreePoint(points()).distribution, rule: "three-point pool" }
-      : { distribution: panelFromSpread(answers.map((a) => a.value)).distribution, rule: "round spread" };
+  if (isThreePoint(input, answers)) {
+    const points = answers.map((a) => widenThreePoint({ low: a.low!, mid: a.value, high: a.high! }, a.rangeFactor));
+    return input.aggregation === "shared"
+      ? { distribution: panelFromThreePoint(points).distribution, rule: "three-point pool" }
+      : { distribution: panelFromParts(points).distribution, rule: "sum of parts" };
   }
-  return tp
-    ? { distribution: panelFromParts(points()).distribution, rule: "sum of parts" }
-    : { distribution: normalDistribution(total, 0), rule: "sum of single-value parts (no spread)" };
+  return { distribution: panelFromTrackRecord(figure, errors, answers.length).distribution, rule: "track record" };
 }
 
 /**
@@ -213,6 +233,7 @@ export function computeTriangulation(input: TriangulationInput): Triangulation {
     const carried = finalAnswers.filter((a) => a.fromRound !== final.round).length;
     const answers: CorrectedAnswer[] = finalAnswers.map((a) => {
       const f = input.factors[a.invitationId] ?? shrunkBiasFactor(0, 0);
+      const h = input.intervalHits?.[a.invitationId] ?? { hits: 0, count: 0 };
       const tp = a.low !== null && a.high !== null ? correctThreePoint({ low: a.low, mid: a.value, high: a.high }, f.factor) : null;
       return {
         ...a,
@@ -223,26 +244,30 @@ export function computeTriangulation(input: TriangulationInput): Triangulation {
         correctedValue: a.value * f.factor,
         correctedLow: tp ? tp.low : null,
         correctedHigh: tp ? tp.high : null,
+        rangeFactor: intervalWidthFactor(h.hits, h.count).factor,
       };
     });
     const fig = correctedPanelFigure(answers.map((a) => ({ answer: a.value, factor: a.factor })), mode);
-    const rawD = panelDistribution(input, answers, fig.raw);
+    const errorScale = panelErrorScale(input.panelLogErrors ?? []);
+    const rawD = panelDistribution(input, answers, fig.raw, errorScale);
     const corrD = panelDistribution(
       input,
-      answers.map((a) => ({ value: a.correctedValue, low: a.correctedLow, high: a.correctedHigh })),
+      answers.map((a) => ({ value: a.correctedValue, low: a.correctedLow, high: a.correctedHigh, rangeFactor: a.rangeFactor })),
       fig.corrected,
+      errorScale,
     );
     panel = {
       round: final.round,
       n: answers.length,
       rule: rawD.rule,
+      errorScale: rawD.rule === "track record" ? errorScale : null,
       raw: { figure: fig.raw, intervals: intervalsOf(rawD.distribution), distribution: rawD.distribution },
       corrected: { figure: fig.corrected, intervals: intervalsOf(corrD.distribution), distribution: corrD.distribution },
       answers,
     };
     notes.push(
       input.aggregation === "shared"
-        ? `Panel figure: the median (Hyndman & Fan type 7) of the ${answers.length} final answers of round ${final.round}${input.answerFormat === "three-point" ? " (most likely values)" : ""}.`
+        ? `Panel figure: the median (Hyndman & Fan type 7) of the ${answers.length} final answers of round ${final.round}${input.answerFormat === "three-point" ? " (their middle values, read as P50)" : ""}.`
         : `Panel figure: the sum of the ${answers.length} parts of the final answers (round ${final.round}).`,
     );
     if (carried > 0) {
@@ -250,16 +275,18 @@ export function computeTriangulation(input: TriangulationInput): Triangulation {
       notes.push(msg);
       cautions.push(msg);
     }
+    const rescaled = answers.filter((a) => a.rangeFactor !== 1).length;
+    const fromHits = `each answer's P10–P90 range rescaled by Φ⁻¹(0.9)/Φ⁻¹((1 + ĥ)/2), ĥ its panelist's interval hit rate shrunk toward 80% with weight 5 (${rescaled} of ${answers.length} panelists have one)`;
+    const e = errorScale;
     notes.push(
       {
-        "three-point pool": "Panel range: the equal-weight linear pool (Stone 1961) of the three-point answers, each read as P10/P50/P90 of a two-piece normal.",
-        "round spread": "Panel range: a normal centred on the median with sd = IQR / 1.349 (the spread of the answers, not the error of the median).",
-        "sum of parts": "Panel range: the total of the parts as a normal with the summed means and variances of the three-point parts (parts taken as independent).",
-        "sum of single-value parts (no spread)": "Panel range: single-value parts give no spread, so the panel leg is a point at the total.",
+        "three-point pool": `Panel range: the equal-weight linear pool (Stone 1961) of the three-point answers, each read as P10/P50/P90 of a two-piece normal, ${fromHits}.`,
+        "sum of parts": `Panel range: the total of the parts as a normal with the summed means and variances of the three-point parts (parts taken as independent), ${fromHits}.`,
+        "track record": `Panel range: from the track record, not from the spread of the answers. Log errors ln(actual / corrected panel figure) of ${e.n} resolved question${e.n === 1 ? "" : "s"} pooled with a prior scale of ${e.priorScale} worth ${e.priorStrength} questions give a scale of ${e.scale.toPrecision(3)}; the range is figure × exp(±t·scale) with t the Student t quantile on ${e.df} degrees of freedom (Gelman et al. 2013, §2.6).`,
       }[rawD.rule],
     );
-    if (rawD.rule === "sum of single-value parts (no spread)") {
-      cautions.push("The panel's parts are single values, so the panel leg has no range of its own and any blended range understates the panel's uncertainty. Three-point answers would give it one.");
+    if (rawD.rule === "track record" && e.n < e.priorStrength) {
+      cautions.push(`The panel's range rests mostly on a default prior (typical error ${Math.round(100 * e.priorScale)}%): only ${e.n} resolved question${e.n === 1 ? "" : "s"} show how far the panel figure has been from outcomes.`);
     }
     if (rawD.rule === "sum of parts") cautions.push("The parts are treated as independent; if the territories' errors move together, the total's range is wider than shown.");
     const corrected = answers.filter((a) => a.resolvedQuestions > 0).length;
@@ -283,7 +310,11 @@ export function computeTriangulation(input: TriangulationInput): Triangulation {
     notes.push(`Baseline distribution: a normal with the point forecast as mean and sd ${bd.distribution.sd.toPrecision(4)} implied by its ${bd.sdSource}.`);
     if (panel) {
       weights = blendWeights(input.weight);
+      const rho = blendErrorCorrelation(input.blendHistory ?? []);
+      const scale = blendRangeScale(input.blendStandardisedErrors ?? []);
       blended = blend({
+        errorCorrelation: rho.rho,
+        rangeScale: scale.scale,
         panelFigure: panel.corrected.figure,
         baselineFigure: input.baseline.mean,
         panelDistribution: panel.corrected.distribution,
@@ -294,7 +325,15 @@ export function computeTriangulation(input: TriangulationInput): Triangulation {
         notes.push("Inverse-MSE weights use relative errors, (actual − figure)/actual, over the organiser's resolved questions with a baseline, so that questions of different sizes count alike; the MSEs quoted are of those relative errors.");
       }
       notes.push(
-        `Blend: ${weights.panel.toPrecision(3)} × corrected panel figure + ${weights.baseline.toPrecision(3)} × baseline; range from the mixture of the two distributions with the same weights (Stone 1961). ${weights.reason}`,
+        `Blend: ${weights.panel.toPrecision(3)} × corrected panel figure + ${weights.baseline.toPrecision(3)} × baseline (Bates & Granger 1969); the figure is the median of the blend's distribution, a normal with sd √(w²σp² + (1−w)²σb² + 2w(1−w)ρσpσb) = ${blended.distribution.sd.toPrecision(4)}, ` +
+          `σp = ${blended.panelSd.toPrecision(4)} and σb = ${blended.baselineSd.toPrecision(4)} implied by each leg's 80% range, ρ = ${rho.rho.toPrecision(3)} ` +
+          (rho.credibility > 0
+            ? `(errors of ${rho.n} resolved questions, correlation ${rho.historyRho.toPrecision(3)}, shrunk toward 0.5 with credibility ${rho.credibility.toPrecision(3)}). `
+            : "(the stated prior: no resolved questions with both legs yet). ") +
+          (scale.n > 0
+            ? `The sd is × ${scale.scale.toPrecision(3)}: the 80th percentile of |standardised error| of ${scale.n} resolved blends over Φ⁻¹(0.9) is ${scale.historyScale.toPrecision(3)}, shrunk toward 1 with credibility ${scale.credibility.toPrecision(3)}. `
+            : "No resolved blend yet to check the range against, so it is used as computed. ") +
+          weights.reason,
       );
       const answersOut: AnswerDeparture[] = [];
       if (input.aggregation === "shared") {
@@ -314,7 +353,7 @@ export function computeTriangulation(input: TriangulationInput): Triangulation {
         panel: { ...across, rounds: across.rounds.map((d, i) => ({ ...d, round: rounds[i].round })) },
         correctedPanel: departure(panel.corrected.figure, input.baseline),
       };
-      notes.push("Departure: difference = figure − baseline; percent of the baseline; z = difference / baseline sd; percentile = 100·Φ(z); flags outside the baseline's own 80% and 95% bounds.");
+      notes.push("Departure: difference = figure − baseline; percent of the baseline; z = difference / baseline sd; percentile = 100·Φ(z); flags from the same normal (outside 80% when the percentile is below 10 or above 90, outside 95% below 2.5 or above 97.5).");
       const z = departures.correctedPanel.z;
       if (Math.abs(z) > 1.96) {
         cautions.push(`The corrected panel figure lies ${Math.abs(z).toFixed(1)} baseline standard errors ${z > 0 ? "above" : "below"} the baseline: judgment and statistics disagree; the report's inputs show why each says what it says.`);
@@ -378,12 +417,22 @@ export async function loadTriangulation(panelId: string, questionId: string): Pr
   const filter: HistoryFilter = { excludeQuestionId: questionId, ...(resolvedAt ? { before: resolvedAt } : {}) };
   const records = await trackRecordsFor(q.panel.ownerId, filter);
   const factors: Record<string, BiasFactor> = {};
+  const intervalHits: Record<string, { hits: number; count: number }> = {};
   for (const [invitationId, memberId] of members) {
     const r = records.get(memberId);
-    if (r) factors[invitationId] = r.record.bias;
+    if (r) {
+      factors[invitationId] = r.record.bias;
+      intervalHits[invitationId] = { hits: r.record.intervalHitRate.hits, count: r.record.intervalHitRate.count };
+    }
   }
   const rule = effectiveRule(q.panel, q);
-  const history = rule.rule === "inverse-mse" ? historyOf(await loadResolutions(q.panel.ownerId, filter)).pairs : [];
+  const resolutions = await loadResolutions(q.panel.ownerId, filter);
+  const pairs = historyOf(resolutions).pairs;
+  const history = rule.rule === "inverse-mse" ? pairs : [];
+  const blendStandardisedErrors = resolutions
+    .filter((r) => r.figures.blend !== null && (r.figures.blendSd ?? 0) > 0)
+    .map((r) => (r.actual - r.figures.blend!) / r.figures.blendSd!);
+  const panelLogErrors = resolutions.filter((r) => r.actual > 0 && r.figures.correctedPanel > 0).map((r) => Math.log(r.actual / r.figures.correctedPanel));
   const target = q.baseline ? targetOf(q.baseline) : null;
   let baseline: BaselineForecast | null = null;
   if (target && target.mean !== null) {
@@ -407,7 +456,7 @@ export async function loadTriangulation(panelId: string, questionId: string): Pr
   const aggregation = q.aggregation === "sum-of-parts" ? "sum-of-parts" : "shared";
   const answerFormat = q.answerFormat === "three-point" ? "three-point" : "single";
   return {
-    input: { aggregation, answerFormat, rounds: roundInputs, factors, baseline, weight: weightSpec(rule.rule, rule.panelWeight, history), ...(baselineUnusable ? { baselineUnusable } : {}) },
+    input: { aggregation, answerFormat, rounds: roundInputs, factors, intervalHits, panelLogErrors, blendHistory: pairs, blendStandardisedErrors, baseline, weight: weightSpec(rule.rule, rule.panelWeight, history), ...(baselineUnusable ? { baselineUnusable } : {}) },
     question: { id: q.id, text: q.text, unit: q.unit, targetPeriod: q.targetPeriod, aggregation, answerFormat },
     ownerId: q.panel.ownerId,
     rule,

@@ -47,17 +47,23 @@ function QuestionVerdictText({ v, unitLabel }: { v: QuestionVerdict; unitLabel: 
         Stability rule (change ≤ {formatPercent(s.threshold, 0)} between rounds): <Verdict met={s.met} applicable={s.applicable} />
         {!s.applicable ? (
           <> — needs two closed rounds to compare.</>
-        ) : s.totalChange !== null || (s.medianChange === null && s.iqrChange === null) ? (
+        ) : s.totalChange !== null || s.distributionChange === null ? (
           <> — the total {unitLabel} changed by {change(s.totalChange)}.</>
         ) : (
           <>
             {" "}
-            — the median changed by {change(s.medianChange)} and the IQR by {change(s.iqrChange)} (both must be within the
-            limit).
+            — {change(s.distributionChange)} of the panelists moved between the previous round&apos;s quartile classes (the
+            median changed by {change(s.medianChange)}, for information).
           </>
         )}
       </li>
-      <li>{v.settled ? "Settled: at least one of the two rules is met." : "Not settled: neither rule is met yet."}</li>
+      <li>
+        {v.settled
+          ? v.consensus.applicable && !v.consensus.met
+            ? "Settled: the answers are stable but not in agreement; the spread of views is the finding."
+            : "Settled: the answers are stable."
+          : "Not settled: the answers are not yet stable (consensus alone does not settle a question)."}
+      </li>
     </ul>
   );
 }
@@ -279,9 +285,9 @@ export default function ConvergenceView({ view, reader = "organiser" }: { view: 
             {ev.reasons.join(" ")}
           </p>
           <p className="caution">
-            {reader === "organiser" ? "This supports your decision; it does not make it." : "This supports the organiser's decision; it does not make it."} A question counts as settled when it meets the consensus
-            rule or the stability rule; consensus alone is not a reliable reason to stop (von der Gracht 2012), and the
-            thresholds are conventions rather than verified findings unless marked otherwise below.
+            {reader === "organiser" ? "This supports your decision; it does not make it." : "This supports the organiser's decision; it does not make it."} A question counts as settled when its answers are stable
+            (Dajani, Sincoff &amp; Talley 1979); consensus is shown but is not a reason to stop on its own (von der Gracht 2012),
+            and the thresholds are conventions rather than verified findings unless marked otherwise below.
           </p>
           <details>
             <summary>The rules of this panel and where their defaults come from</summary>

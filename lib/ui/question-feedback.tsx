@@ -78,7 +78,7 @@ export default function QuestionFeedback({ f, round, collapseRationales = false 
                 <dt>Pooled range (P10 – P90)</dt>
                 <dd>
                   <Figure value={f.pooled.p10} name="p10" /> – <Figure value={f.pooled.p90} name="p90" /> {f.unit}{" "}
-                  <span className="muted small">(all three-point answers pooled; most likely <Figure value={f.pooled.p50} name="p50" />)</span>
+                  <span className="muted small">(all three-point answers pooled; median <Figure value={f.pooled.p50} name="p50" />)</span>
                 </dd>
               </>
             ) : null}

@@ -77,6 +77,7 @@ export function BlendHeadline({ report }: { report: QuestionReport }) {
       <p className="headline-figure">
         <Figure value={b.figure} name="blend-figure" /> <span className="unit">{unit}</span>
       </p>
+      <p className="hint">The median of the blended distribution: the outcome is as likely to fall above it as below.</p>
       <dl className="facts">
         <dt>80% range</dt>
         <dd>

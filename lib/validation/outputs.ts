@@ -176,6 +176,7 @@ const verdicts = z.object({
   consensus: z.object({ applicable: z.boolean(), measure: z.enum(CONSENSUS_MEASURES), value: numOrNull, threshold: num, met: z.boolean() }),
   stability: z.object({
     applicable: z.boolean(),
+    distributionChange: numOrNull,
     medianChange: numOrNull,
     iqrChange: numOrNull,
     totalChange: numOrNull,

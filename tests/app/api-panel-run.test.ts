@@ -87,7 +87,7 @@ describe("a panel run by script with an API token", () => {
       },
     });
     expect(res.status).toBe(201);
-    expect(res.body).toMatchObject({ status: "draft", role: "owner", consensusMeasure: "cv", consensusThreshold: 0.5, stabilityThreshold: 0.15, roundLimit: 3 });
+    expect(res.body).toMatchObject({ status: "draft", role: "owner", consensusMeasure: "relative-iqr", consensusThreshold: 0.25, stabilityThreshold: 0.15, roundLimit: 3 });
     expect(res.body.rounds).toEqual([{ number: 1, status: "draft", deadline: null, openedAt: null, closedAt: null }]);
     panelId = res.body.id;
     qIds = res.body.questions.map((q: { id: string }) => q.id);
@@ -267,16 +267,27 @@ describe("a panel run by script with an API token", () => {
     const ev = res.body.evaluation;
     expect(ev.roundNumber).toBe(2);
     const v1 = ev.questions[0];
-    expect(v1.consensus.value).toBeCloseTo(Math.abs(a2[3]), 12);
-    expect(v1.consensus.met).toBe(Math.abs(a2[3]) <= 0.5);
+    // Default consensus measure: relative IQR ≤ 0.25 (lib/stats/stopping-rules.ts, project convention).
+    expect(v1.consensus.value).toBeCloseTo(a2[10], 12);
+    expect(v1.consensus.met).toBe(a2[10] <= 0.25);
     expect(v1.stability.medianChange).toBeCloseTo(Math.abs(a2[7] - a1[7]) / a1[7], 12);
     expect(v1.stability.iqrChange).toBeCloseTo(Math.abs(a2[9] - a1[9]) / a1[9], 12);
+    // Stability: share of panelists changing class between round 1's type-7 quartiles (after Scheibe, Skutsch & Schofer 1975), by R.
+    const [[d1]] = runR(`a <- ${rVector(R1.q1)}; b <- ${rVector(R2.q1)}; q <- quantile(a, c(0.25, 0.5, 0.75), type = 7)
+      sh <- function(x) tabulate(findInterval(x, q, left.open = TRUE) + 1, 4) / length(x)
+      out(0.5 * sum(abs(sh(b) - sh(a))))`);
+    expect(v1.stability.distributionChange).toBeCloseTo(d1, 12);
+    expect(v1.stability.met).toBe(d1 <= 0.15);
     const [[t1, t2]] = runR(`out(c(sum(${rVector(R1.q3)}), sum(${rVector(R2.q3)})))`);
     const v3 = ev.questions[2];
     expect(v3.consensus.applicable).toBe(false);
     expect(v3.stability.totalChange).toBeCloseTo(Math.abs(t2 - t1) / t1, 12);
+    // The tables give no CV or relative IQR where the verdict calls consensus not applicable.
+    expect(res.body.questions[2].rounds.every((r: { cv: number | null; relativeIqr: number | null }) => r.cv === null && r.relativeIqr === null)).toBe(true);
     expect(ev.roundLimit).toEqual({ limit: 3, roundNumber: 2, met: false });
-    const settled = ev.questions.map((x: { consensus: { met: boolean }; stability: { met: boolean } }) => x.consensus.met || x.stability.met);
+    // Stability alone settles a question; consensus never does on its own (Dajani et al. 1979; von der Gracht 2012).
+    const settled = ev.questions.map((x: { stability: { met: boolean } }) => x.stability.met);
+    expect(ev.questions.map((x: { settled: boolean }) => x.settled)).toEqual(settled);
     expect(ev.recommendation).toBe(settled.every(Boolean) ? "stop" : "another-round");
   });
 

@@ -166,6 +166,10 @@ describe("triangulation, resolution and the report", () => {
   it("resolves once (scores: error = actual − figure), refuses a second time, and corrects with an audited reason", async () => {
     const denied = await api("POST", `${q()}/resolution`, { cookie: reviewerCookie, body: { actual: 77 } });
     expect(denied.status).toBe(403);
+    // The question's bounds are 0 to 1000: −100 is refused with the number named, and nothing is stored.
+    const outside = await api("POST", `${q()}/resolution`, { token: owner, body: { actual: -100 } });
+    expect(outside.status).toBe(422);
+    expect(outside.body.errors[0]).toEqual({ field: "actual", message: "-100 is outside the question's bounds 0 to 1000" });
     const res = await api("POST", `${q()}/resolution`, { token: owner, body: { actual: 77, note: "sales ledger" } });
     expect(res.status, res.text).toBe(201);
     expect(res.body.scores.rawPanel.error).toBe(2);

@@ -256,7 +256,7 @@ describe("triangulation in the browser", () => {
     await org.getByLabel(/^Actual value/).fill(String(ACTUAL));
     await org.getByLabel("Where the value comes from").fill("Quillmoor shipping ledger");
     await org.getByRole("button", { name: "Resolve", exact: true }).click();
-    await expect.poll(() => org.locator('[data-resolved="yes"]').count()).toBe(1);
+    await org.locator('[data-resolved="yes"]').waitFor({ state: "visible" });
     expect(await stat(org, "actual")).toBe(ACTUAL);
     // Error = actual − forecast (Hyndman & Koehler 2006 sign convention), by hand.
     const blend = 0.5 * expected.median + 0.5 * expected.mean;

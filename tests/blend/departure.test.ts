@@ -33,19 +33,29 @@ out(as.numeric(x < qnorm(0.025, m, s) | x > qnorm(0.975, m, s)))`);
     ]);
   });
 
-  it("with only an (asymmetric) 80% interval: sd from its width, flags from its own bounds (R for sd and pnorm)", () => {
+  it("with only an (asymmetric) 80% interval: sd from its width; percentile and flags from that one normal (R pnorm)", () => {
     const b = { mean: 1000, lower80: 930, upper80: 1100, lower95: 880, upper95: 1180 };
     const xs = [925, 935, 1095, 1105, 1190];
-    const [[sd], pct] = runR(`s <- (1100 - 930) / (2 * qnorm(0.9)); out(s); out(100 * pnorm(${rVector(xs)}, 1000, s))`);
+    const [[sd], pct, out80, out95] = runR(`s <- (1100 - 930) / (2 * qnorm(0.9)); x <- ${rVector(xs)}; p <- pnorm(x, 1000, s)
+out(s); out(100 * p); out(as.numeric(p < 0.1 | p > 0.9)); out(as.numeric(p < 0.025 | p > 0.975))`);
     xs.forEach((x, i) => {
       const d = departure(x, b);
       expect(d.sdSource).toBe("80% interval");
       expect(d.sd).toBeCloseTo(sd, 12);
       expect(d.percentile).toBeCloseTo(pct[i], 10);
+      expect(d.outside80).toBe(out80[i] === 1);
+      expect(d.outside95).toBe(out95[i] === 1);
     });
-    // Flags by the given bounds (by hand): 925 < 930, 1105 > 1100 outside 80%; 1190 > 1180 outside 95%.
-    expect(xs.map((x) => departure(x, b).outside80)).toEqual([true, false, false, true, true]);
-    expect(xs.map((x) => departure(x, b).outside95)).toEqual([false, false, false, false, true]);
+    // 1095 lies inside the given upper80 of 1100 but at R's pnorm 92.8th percentile of the normal
+    // the blend uses: one distribution decides, so it is outside 80% (issue 12).
+    expect(departure(1095, b).outside80).toBe(true);
+  });
+
+  it("a value at the 99.5th percentile is never 'inside 95%' (R: qnorm(0.995, 1000, 80))", () => {
+    const [[x]] = runR("out(qnorm(0.995, 1000, 80))");
+    const d = departure(x, { mean: 1000, sd: 80, lower95: 700, upper95: 1300 });
+    expect(d.percentile).toBeCloseTo(99.5, 10);
+    expect(d.outside95).toBe(true);
   });
 
   it("a value on a bound is inside; a baseline of 0 gives percent NaN; a negative baseline divides by |baseline|", () => {
@@ -78,8 +88,8 @@ describe("departure policy", () => {
     expect(() => departure(Infinity, { mean: 1, sd: 1 })).toThrow(/value/);
     expect(() => departure(1, { mean: 1, sd: -2 })).toThrow(/sd/);
     expect(() => departure(1, { mean: 1 })).toThrow(/give sd/);
-    expect(() => departure(1, { mean: 1, sd: 1, lower95: 0 })).toThrow(/needs both/);
-    expect(() => departure(1, { mean: 1, sd: 1, lower95: 3, upper95: 2 })).toThrow(/must be below/);
+    expect(() => departure(1, { mean: 1, lower95: 0 })).toThrow(/needs both/);
+    expect(() => departure(1, { mean: 1, lower95: 3, upper95: 2 })).toThrow(/must be below/);
     expect(() => departureAcrossRounds([], { mean: 1, sd: 1 })).toThrow(RangeError);
   });
 });

@@ -147,24 +147,53 @@ describe("blended mixture w·F_panel + (1 − w)·F_baseline: quantiles by bisec
     expect(distributionMean(d)).toBeCloseTo(W * panelMean + (1 - W) * 105, 10);
   });
 
-  it("blend(): point figure by hand, intervals and median equal to R's uniroot quantiles", () => {
-    const [q] = runR(R_MIXTURE + "out(q)");
+  it("blend(): figure w·panel + (1 − w)·baseline (hand), normal with Bates & Granger's combined sd; σ_p from R's uniroot on the pool", () => {
+    const [[p10, p90]] = runR(`
+      lo <- c(80, 90, 70); mid <- c(100, 110, 95); hi <- c(140, 120, 130)
+      sl <- (mid - lo) / qnorm(0.9); sh <- (hi - mid) / qnorm(0.9)
+      tp <- function(x) mean(ifelse(x <= mid, pnorm(x, mid, sl), pnorm(x, mid, sh)))
+      out(sapply(c(0.1, 0.9), function(p) uniroot(function(x) tp(x) - p, c(0, 300), tol = 1e-13)$root))`);
     const panel = panelFromThreePoint(ANSWERS);
-    const b = blend({
+    const input = {
       panelFigure: 100, // the median of the mids 100, 110, 95
       baselineFigure: 105,
       panelDistribution: panel.distribution,
       baselineDistribution: baselineDistribution(BASELINE).distribution,
       panelWeight: W,
-    });
+      errorCorrelation: 0.3,
+    };
+    const b = blend(input);
+    // Hand: σ_p = (P90 − P10)/(2·qnorm(0.9)); σ_c² = w²σ_p² + (1 − w)²σ_b² + 2w(1 − w)ρσ_pσ_b (REFERENCES.md §5a, λ = 1 − w).
+    const z90 = 1.2815515655446004; // qnorm(0.9) printed by R 4.2.2
+    const sp = (p90 - p10) / (2 * z90);
+    const sc = Math.sqrt(W * W * sp * sp + (1 - W) ** 2 * 144 + 2 * W * (1 - W) * 0.3 * sp * 12);
     expect(b.figure).toBeCloseTo(0.4 * 100 + 0.6 * 105, 12); // = 103 by hand
-    expect(b.median).toBeCloseTo(q[3], 8);
+    expect(b.median).toBe(b.figure);
+    expect(b.panelSd).toBeCloseTo(sp, 8);
+    expect(b.distribution.sd).toBeCloseTo(sc, 8);
+    const [[l80, u80, l95, u95]] = runR(`out(qnorm(c(0.1, 0.9, 0.025, 0.975), 103, ${sc}))`);
     expect(b.intervals.map((i) => i.level)).toEqual([80, 95]);
-    expect(b.intervals[0].lower).toBeCloseTo(q[1], 8);
-    expect(b.intervals[0].upper).toBeCloseTo(q[5], 8);
-    expect(b.intervals[1].lower).toBeCloseTo(q[0], 8);
-    expect(b.intervals[1].upper).toBeCloseTo(q[6], 8);
-    expect(() => blend({ ...{ panelFigure: 1, baselineFigure: 1, panelDistribution: panel.distribution }, baselineDistribution: panel.distribution, panelWeight: 0.5, levels: [100] })).toThrow(/levels\[0\]/);
+    expect(b.intervals[0].lower).toBeCloseTo(l80, 8);
+    expect(b.intervals[0].upper).toBeCloseTo(u80, 8);
+    expect(b.intervals[1].lower).toBeCloseTo(l95, 8);
+    expect(b.intervals[1].upper).toBeCloseTo(u95, 8);
+    // A range scale of 0.8 from the blend's track record narrows σ_c by 0.8 (hand).
+    expect(blend({ ...input, rangeScale: 0.8 }).distribution.sd).toBeCloseTo(0.8 * sc, 8);
+    expect(() => blend({ ...input, levels: [100] })).toThrow(/levels\[0\]/);
+    expect(() => blend({ ...input, errorCorrelation: 1.5 })).toThrow(/between -1 and 1/);
+  });
+
+  it("the figure lies inside its own ranges even with a point-mass panel leg (issue 12: '11,621; 80% range 11,570 to 11,570')", () => {
+    const b = blend({
+      panelFigure: 11570,
+      baselineFigure: 11672,
+      panelDistribution: normalDistribution(11570, 0),
+      baselineDistribution: normalDistribution(11672, 600),
+      panelWeight: 0.5,
+      errorCorrelation: 0.5,
+    });
+    for (const iv of b.intervals) expect(iv.lower < b.figure && b.figure < iv.upper).toBe(true);
+    expect(b.figure).toBe(11621); // hand: 0.5·11570 + 0.5·11672
   });
 
   it("spread-based panel: median and IQR/(2·qnorm(0.75)) from R, mixture quantiles vs R uniroot", () => {

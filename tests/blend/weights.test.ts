@@ -82,10 +82,16 @@ describe("inverseMseWeights (Bates & Granger 1969, ρ = 0)", () => {
     expect(w.nResolved).toBe(5);
     expect(w.msePanel).toBeCloseTo(3.8, 12);
     expect(w.mseBaseline).toBeCloseTo(0.7, 12);
-    expect(w.panel).toBeCloseTo(0.1555555556, 9);
-    expect(w.baseline).toBeCloseTo(0.8444444444, 9);
-    // Hand computation from §5a with ρ = 0: E[ε_c²] = w1²·MSE1 + w2²·MSE2 = MSE1·MSE2/(MSE1 + MSE2) = 2.66/4.5.
-    expect(w.expectedMse).toBeCloseTo(2.66 / 4.5, 12);
+    expect(w.rawPanel).toBeCloseTo(0.1555555556, 9);
+    // Shrunk toward equal by credibility Z = n/(n + 5) = 5/10 (Bühlmann 1967, as the bias factor):
+    // hand: 0.5·0.1555555556 + 0.5·0.5 = 0.3277777778.
+    expect(w.credibility).toBe(0.5);
+    expect(w.panel).toBeCloseTo(0.3277777778, 9);
+    expect(w.baseline).toBeCloseTo(0.6722222222, 9);
+    // Hand computation from §5a with ρ = 0 at λ = 0.6722222222: E[ε_c²] = w1²·MSE1 + w2²·MSE2.
+    expect(w.expectedMse).toBeCloseTo(0.3277777778 ** 2 * 3.8 + 0.6722222222 ** 2 * 0.7, 9);
+    // Without shrinkage (k = 0) the §5a check values themselves.
+    expect(inverseMseWeights(history, { priorStrength: 0 }).panel).toBeCloseTo(0.1555555556, 9);
     expect(w.reason).toMatch(/Bates & Granger 1969/);
   });
 
@@ -102,9 +108,12 @@ describe("inverseMseWeights (Bates & Granger 1969, ρ = 0)", () => {
     expect(inverseMseWeights(history.slice(0, 3), { minResolved: 4 }).applied).toBe("equal");
   });
 
-  it("gives weight 1 to a figure that was exact, and equal weights when both were", () => {
-    expect(inverseMseWeights(historyFromErrors([0, 0, 0], [1, -2, 1])).panel).toBe(1);
-    expect(inverseMseWeights(historyFromErrors([1, 2, 3], [0, 0, 0])).panel).toBe(0);
+  it("gives raw weight 1 to a figure that was exact, shrunk by Z = 3/8 (hand), and equal weights when both were", () => {
+    const exact = inverseMseWeights(historyFromErrors([0, 0, 0], [1, -2, 1]));
+    expect(exact.rawPanel).toBe(1);
+    expect(exact.panel).toBeCloseTo((3 / 8) * 1 + (5 / 8) * 0.5, 14); // hand: 0.6875
+    expect(inverseMseWeights(historyFromErrors([1, 2, 3], [0, 0, 0])).panel).toBeCloseTo((5 / 8) * 0.5, 14); // hand: 0.3125
+    expect(inverseMseWeights(historyFromErrors([0, 0, 0], [1, -2, 1]), { priorStrength: 0 }).panel).toBe(1);
     const both = inverseMseWeights(historyFromErrors([0, 0, 0], [0, 0, 0]));
     expect(both.applied).toBe("equal");
     expect(both.panel).toBe(0.5);
@@ -188,7 +197,8 @@ describe("equal, organiser and dispatch", () => {
     const h = historyFromErrors([2, -1, 3, -2, 1], [1, 1, -1, 0.5, -0.5]);
     expect(blendWeights({ rule: "equal" }).panel).toBe(0.5);
     expect(blendWeights({ rule: "organiser", panelWeight: 0.25 }).panel).toBe(0.25);
-    expect(blendWeights({ rule: "inverse-mse", history: h }).panel).toBeCloseTo(0.1555555556, 9);
+    expect(blendWeights({ rule: "inverse-mse", history: h }).panel).toBeCloseTo(0.3277777778, 9); // §5a, shrunk with Z = 1/2
+    expect(blendWeights({ rule: "inverse-mse", history: h, priorStrength: 0 }).panel).toBeCloseTo(0.1555555556, 9); // §5a
     expect(blendWeights({ rule: "inverse-mse", history: h, minResolved: 6 }).applied).toBe("equal");
     expect(blendWeights({ rule: "optimal", history: h }).applied).toBe("optimal");
     expect(() => blendWeights({ rule: "median" } as never)).toThrow(/unknown rule/);

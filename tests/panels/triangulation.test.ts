@@ -12,7 +12,8 @@ import { describe, expect, it } from "vitest";
 import { trackRecord, type BiasFactor } from "../../lib/blend";
 import { computeTriangulation, type TriangulationInput } from "../../lib/panels/triangulation";
 import { historyOf, recordsByMember, type ResolvedQuestion, type ResolutionFigures } from "../../lib/panels/track-records";
-import { scoreFigures } from "../../lib/panels/resolution";
+import { checkWithinBounds, scoreFigures } from "../../lib/panels/resolution";
+import { InvalidInputError } from "../../lib/errors";
 import { csvCell, reportCsv } from "../../lib/panels/report";
 import { expectClose, runR, rVector } from "../stats/rscript";
 
@@ -39,61 +40,72 @@ function sharedInput(overrides: Partial<TriangulationInput> = {}): Triangulation
   };
 }
 
+/** Log errors ln(actual / corrected panel figure) of four invented resolved questions. */
+const LOG_ERRORS = [0.1, -0.2, 0.15, -0.05];
+
+/**
+ * R prelude: the panel leg from the track record (Gelman et al. 2013 §2.6: s² = (3·0.25² + Σe²)/(3 + n),
+ * P10/P90 = figure·exp(∓qt(0.9, 3 + n)·s)) as the two-piece normal through them; and the blend
+ * N(w·p + (1 − w)·b, σ_c²) with σ_c² = w²σp² + (1 − w)²σb² + 2w(1 − w)ρσpσb (Bates & Granger 1969,
+ * REFERENCES.md §5a), σp = (P90 − P10)/(2·qnorm(0.9)), ρ the prior 0.5 without history.
+ */
+const R_LEGS = `
+leg <- function(fig, e) { s <- sqrt((3 * 0.25^2 + sum(e^2)) / (3 + length(e))); t <- qt(0.9, 3 + length(e)); c(fig * exp(-t * s), fig, fig * exp(t * s)) }
+Q2 <- function(p, l) if (p < 0.5) l[2] + (l[2] - l[1]) / qnorm(0.9) * qnorm(p) else l[2] + (l[3] - l[2]) / qnorm(0.9) * qnorm(p)
+qblend <- function(p, w, l, mb, sdb, rho = 0.5) { sp <- (l[3] - l[1]) / (2 * qnorm(0.9)); sc <- sqrt(w^2 * sp^2 + (1 - w)^2 * sdb^2 + 2 * w * (1 - w) * rho * sp * sdb); qnorm(p, w * l[2] + (1 - w) * mb, sc) }
+`;
+
 describe("computeTriangulation: shared quantity, single values, equal weights", () => {
-  const t = computeTriangulation(sharedInput());
-  // R: the panel is N(median, IQR/(2·qnorm(0.75))) of round 2 (type 7), the baseline N(140, 15/qnorm(0.9))
-  // (sd implied by its 80% interval); the blend's quantiles solve 0.5·Fp(x) + 0.5·Fb(x) = p by uniroot.
-  const [[med, iqr, sdp, p10, p90, p025, p975], [sdb, b10, b90, b025, b975], zs, pct, acrossZ] = runR(`
+  const t = computeTriangulation(sharedInput({ panelLogErrors: LOG_ERRORS }));
+  // R: the panel leg is the track-record two-piece normal at the round-2 median (R_LEGS), the
+  // baseline N(140, 15/qnorm(0.9)) (sd implied by its 80% interval); the blend's quantiles solve
+  // 0.5·Fp(x) + 0.5·Fb(x) = p by uniroot.
+  const [[med, p10, p90, p025, p975], [sdb, b10, b90, b025, b975, b50], zs, pct, acrossZ, out80, out95] = runR(`${R_LEGS}
     x <- ${rVector(ROUND2)}
-    med <- median(x); iqr <- IQR(x, type = 7); sdp <- iqr / (2 * qnorm(0.75))
-    out(c(med, iqr, sdp, qnorm(c(0.1, 0.9, 0.025, 0.975), med, sdp)))
+    med <- median(x); l <- leg(med, ${rVector(LOG_ERRORS)})
+    out(c(med, l[1], l[3], Q2(0.025, l), Q2(0.975, l)))
     sdb <- (155 - 125) / (2 * qnorm(0.9))
-    F <- function(q) 0.5 * pnorm(q, med, sdp) + 0.5 * pnorm(q, 140, sdb)
-    qb <- sapply(c(0.1, 0.9, 0.025, 0.975), function(p) uniroot(function(q) F(q) - p, c(0, 400), tol = 1e-12)$root)
-    out(c(sdb, qb))
+    out(c(sdb, sapply(c(0.1, 0.9, 0.025, 0.975, 0.5), function(p) qblend(p, 0.5, l, 140, sdb))))
     all <- c(${rVector(ROUND1)}, x)
     z <- (all - 140) / sdb
     out(z)
     out(100 * pnorm(z))
     out((c(median(${rVector(ROUND1)}), med) - 140) / sdb)
+    out(as.numeric(abs(z) > qnorm(0.9))); out(as.numeric(abs(z) > qnorm(0.975)))
   `);
 
-  it("panel figure and its range equal R's median, IQR-based sd and normal quantiles", () => {
+  it("panel range from the track record, not from the answers' spread: R's qt on the pooled log-error scale", () => {
     expect(t.panel!.raw.figure).toBe(med);
-    expect(iqr).toBe(25);
+    expect(t.panel!.rule).toBe("track record");
+    expect(t.panel!.errorScale!.n).toBe(4);
     expectClose(t.panel!.raw.intervals.flatMap((i) => [i.lower, i.upper]), [p10, p90, p025, p975], 1e-12, "panel range");
-    expect(t.panel!.rule).toBe("round spread");
     // No track record: factor 1, corrected = raw.
     expect(t.panel!.corrected.figure).toBe(med);
     expect(t.panel!.answers.every((a) => a.factor === 1 && a.resolvedQuestions === 0)).toBe(true);
-    expect(sdp).toBeGreaterThan(0);
+    expect(t.notes.join(" ")).toMatch(/not from the spread of the answers/);
   });
 
-  it("the blend's bounds carry the right probability: R integrates the mixture density up to each bound", () => {
-    const bounds = t.blend!.intervals.flatMap((i) => [i.lower, i.upper]);
-    const [mass] = runR(`
-      sdp <- ${sdp}; sdb <- ${sdb}
-      f <- function(x) 0.5 * dnorm(x, ${med}, sdp) + 0.5 * dnorm(x, 140, sdb)
-      out(sapply(${rVector(bounds)}, function(b) integrate(f, -Inf, b, rel.tol = 1e-12)$value))
-    `);
-    expectClose(mass, [0.1, 0.9, 0.025, 0.975], 1e-8, "probability below each bound (numeric integration)");
+  it("the panel's range does not shrink when the answers converge (Delphi rounds narrow the spread by design)", () => {
+    const tight = computeTriangulation(sharedInput({ panelLogErrors: LOG_ERRORS, rounds: [{ round: 3, answers: answers([149, 150, 150, 150, 151]) }] }));
+    expect(tight.panel!.raw.intervals).toEqual(t.panel!.raw.intervals);
   });
 
-  it("blend figure is 0.5·150 + 0.5·140 = 145 (DESIGN.md, equal weights) and its range is R's mixture quantiles", () => {
+  it("blend figure 0.5·150 + 0.5·140 = 145 (DESIGN.md, equal weights) is the median of its distribution, inside its ranges (R qnorm)", () => {
     expect(t.weights!.panel).toBe(0.5);
     expect(t.blend!.figure).toBe(145);
+    expectClose([b50], [145], 1e-12, "R's median of the blend");
     expectClose(t.blend!.intervals.flatMap((i) => [i.lower, i.upper]), [b10, b90, b025, b975], 1e-9, "blend range");
     expectClose([t.baseline!.sd], [sdb], 1e-12, "baseline sd");
+    for (const iv of t.blend!.intervals) expect(iv.lower <= t.blend!.figure && t.blend!.figure <= iv.upper).toBe(true);
   });
 
-  it("departures of every answer in every round: z and percentile equal R's pnorm; flags by the baseline's own bounds", () => {
+  it("departures of every answer in every round: z, percentile and flags from one normal (R pnorm/qnorm)", () => {
     const d = t.departures!;
     expect(d.answers.map((a) => [a.round, a.value])).toEqual([...ROUND1.map((v) => [1, v]), ...ROUND2.map((v) => [2, v])]);
     expectClose(d.answers.map((a) => a.z), zs, 1e-12, "z");
     expectClose(d.answers.map((a) => a.percentile), pct, 1e-12, "percentile");
-    // Hand: outside 80% when < 125 or > 155; outside 95% when < 117 or > 163.
-    expect(d.answers.map((a) => a.outside80)).toEqual([true, false, true, true, true, true, false, false, true, true]);
-    expect(d.answers.map((a) => a.outside95)).toEqual([true, false, true, true, true, false, false, false, false, true]);
+    expect(d.answers.map((a) => a.outside80)).toEqual(out80.map((x) => x === 1));
+    expect(d.answers.map((a) => a.outside95)).toEqual(out95.map((x) => x === 1));
     // Percent: 100·(v − 140)/140 for 210 → 50.
     expect(d.answers.at(-1)!.percent).toBeCloseTo(50, 12);
   });
@@ -106,9 +118,11 @@ describe("computeTriangulation: shared quantity, single values, equal weights", 
     expectClose([t.departures!.panel.totalZChange], [acrossZ[1] - acrossZ[0]], 1e-12);
   });
 
-  it("an organiser weight of 0.3 gives 0.3·150 + 0.7·140 = 143", () => {
-    const o = computeTriangulation(sharedInput({ weight: { rule: "organiser", panelWeight: 0.3 } }));
+  it("an organiser weight of 0.3 gives 0.3·150 + 0.7·140 = 143, and R's qnorm for its 80% range", () => {
+    const o = computeTriangulation(sharedInput({ panelLogErrors: LOG_ERRORS, weight: { rule: "organiser", panelWeight: 0.3 } }));
+    const [q] = runR(`${R_LEGS} out(sapply(c(0.1, 0.9), function(p) qblend(p, 0.3, leg(150, ${rVector(LOG_ERRORS)}), 140, (155 - 125) / (2 * qnorm(0.9)))))`);
     expect(o.blend!.figure).toBeCloseTo(143, 12);
+    expectClose([o.blend!.intervals[0].lower, o.blend!.intervals[0].upper], q, 1e-9, "blend 80% range");
     expect(o.weights!.applied).toBe("organiser");
   });
 
@@ -218,7 +232,7 @@ describe("bias correction from track records derived from stored resolutions", (
     expect(t.blend!.figure).toBeCloseTo(0.5 * corrMed + 0.5 * 140, 9);
   });
 
-  it("sum of parts sums the corrected parts; single-value parts give the panel no range (a caution says so)", () => {
+  it("sum of parts sums the corrected parts; single-value parts still get a range, from the prior (R qt)", () => {
     const parts = [
       { invitationId: "c-opt", pseudonym: "Panelist O", value: 400, low: null, high: null },
       { invitationId: "c-pes", pseudonym: "Panelist P", value: 300, low: null, high: null },
@@ -233,10 +247,25 @@ describe("bias correction from track records derived from stored resolutions", (
     });
     expect(t.panel!.raw.figure).toBe(700);
     expect(t.panel!.corrected.figure).toBeCloseTo(400 * factor("opt").factor + 300 * factor("pes").factor, 12);
-    expect(t.panel!.rule).toBe("sum of single-value parts (no spread)");
-    expect(t.panel!.raw.intervals[0].lower).toBe(700);
-    expect(t.cautions.join(" ")).toMatch(/no range of its own/);
+    expect(t.panel!.rule).toBe("track record");
+    const [[lo, hi]] = runR("out(700 * exp(c(-1, 1) * qt(0.9, 3) * 0.25))");
+    expectClose([t.panel!.raw.intervals[0].lower, t.panel!.raw.intervals[0].upper], [lo, hi], 1e-12, "prior-only range of the total");
+    expect(t.cautions.join(" ")).toMatch(/rests mostly on a default prior/);
     expect(t.departures!.answers).toEqual([]);
+  });
+
+  it("issue 12: single-value parts no longer give '11,621; 80% range 11,570 to 11,570' — the figure is inside both ranges (R qnorm)", () => {
+    const parts = [
+      { invitationId: "a", pseudonym: "A", value: 5000, low: null, high: null },
+      { invitationId: "b", pseudonym: "B", value: 6570, low: null, high: null },
+    ];
+    const b = { mean: 12452, lower80: 12100, upper80: 12804 };
+    const t = computeTriangulation({ aggregation: "sum-of-parts", answerFormat: "single", rounds: [{ round: 1, answers: parts }], factors: {}, baseline: b, weight: { rule: "equal" } });
+    const [q] = runR(`${R_LEGS} l <- leg(11570, numeric(0)); sdb <- (12804 - 12100) / (2 * qnorm(0.9))
+      out(sapply(c(0.5, 0.1, 0.9, 0.025, 0.975), function(p) qblend(p, 0.5, l, 12452, sdb)))`);
+    expectClose([t.blend!.figure, ...t.blend!.intervals.flatMap((i) => [i.lower, i.upper])], q, 1e-9, "blend median and range");
+    expect(t.blend!.intervals[0].upper - t.blend!.intervals[0].lower).toBeGreaterThan(0);
+    for (const iv of t.blend!.intervals) expect(iv.lower < t.blend!.figure && t.blend!.figure < iv.upper).toBe(true);
   });
 
   it("a part not answered in the final round is carried forward from the panelist's latest round (hand: 110 + 200 = 310)", () => {
@@ -298,8 +327,37 @@ describe("three-point answers: the panel range is the linear pool of two-piece n
   });
 });
 
+describe("three-point ranges rescaled by each panelist's interval hit rate", () => {
+  it("a panelist whose ranges held 1 of 5 outcomes gets ranges × qnorm(0.9)/qnorm(0.75); the pool then matches R's uniroot", () => {
+    const tp = [
+      { low: 80, value: 100, high: 140 },
+      { low: 90, value: 120, high: 150 },
+    ];
+    const t = computeTriangulation({
+      aggregation: "shared",
+      answerFormat: "three-point",
+      rounds: [{ round: 1, answers: tp.map((a, k) => ({ invitationId: `t${k}`, pseudonym: `P${k}`, ...a })) }],
+      factors: {},
+      intervalHits: { t0: { hits: 1, count: 5 } },
+      baseline: null,
+      weight: { rule: "equal" },
+    });
+    // Hand: ĥ = (1 + 0.8·5)/(5 + 5) = 0.5, so t0's stated 80% range is read as a 50% range.
+    const [q] = runR(`
+      f <- qnorm(0.9) / qnorm(0.75); z <- qnorm(0.9)
+      lo <- c(100 - f * 20, 90); mi <- c(100, 120); hi <- c(100 + f * 40, 150)
+      F1 <- function(x, l, m, h) if (x < m) pnorm((x - m) / ((m - l) / z)) else pnorm((x - m) / ((h - m) / z))
+      F <- function(x) mean(sapply(1:2, function(i) F1(x, lo[i], mi[i], hi[i])))
+      out(c(f, sapply(c(0.1, 0.9, 0.025, 0.975), function(p) uniroot(function(x) F(x) - p, c(-200, 500), tol = 1e-12)$root)))
+    `);
+    expectClose([t.panel!.answers[0].rangeFactor], [q[0]], 1e-12, "range factor");
+    expect(t.panel!.answers[1].rangeFactor).toBe(1);
+    expectClose(t.panel!.raw.intervals.flatMap((i) => [i.lower, i.upper]), q.slice(1), 1e-9, "pooled range");
+  });
+});
+
 describe("inverse-MSE weights from the organiser's resolved history (relative errors)", () => {
-  it("w_panel = MSE_b / (MSE_p + MSE_b) = 0.0425/0.0575 = 17/23 (Bates & Granger 1969 with ρ = 0)", () => {
+  it("raw w_panel = MSE_b / (MSE_p + MSE_b) = 17/23 (Bates & Granger 1969, ρ = 0), shrunk toward 0.5 with Z = 3/8", () => {
     const h = historyOf([
       resolved(100, [], { correctedPanel: 110, rawPanel: 112, baseline: 90, blend: 100 }),
       resolved(200, [], { correctedPanel: 190, rawPanel: 185, baseline: 230, blend: 210 }),
@@ -311,8 +369,11 @@ describe("inverse-MSE weights from the organiser's resolved history (relative er
     // baseline 0.1, −0.15, 0.1 → MSE 0.0425/3; weight 0.0425/(0.015 + 0.0425) = 17/23.
     const t = computeTriangulation(sharedInput({ weight: { rule: "inverse-mse", history: h.pairs } }));
     expect(t.weights!.applied).toBe("inverse-mse");
-    expect(t.weights!.panel).toBeCloseTo(17 / 23, 12);
-    expect(t.blend!.figure).toBeCloseTo((17 / 23) * 150 + (6 / 23) * 140, 9);
+    expect(t.weights!.rawPanel).toBeCloseTo(17 / 23, 12);
+    // Hand: Z = n/(n + 5) = 3/8 (Bühlmann-style credibility, as the bias factor); w = Z·17/23 + (1 − Z)·0.5.
+    const w = (3 / 8) * (17 / 23) + (5 / 8) * 0.5;
+    expect(t.weights!.panel).toBeCloseTo(w, 12);
+    expect(t.blend!.figure).toBeCloseTo(w * 150 + (1 - w) * 140, 9);
     expect(h.entries.map((e) => e.blend)).toEqual([100, 210, 390]);
   });
 
@@ -333,6 +394,35 @@ describe("resolution scores", () => {
     const noBaseline = scoreFigures(1000, resolved(1000, [], { rawPanel: 900, correctedPanel: 950 }).figures);
     expect(noBaseline.baseline).toBeNull();
     expect(noBaseline.blend).toBeNull();
+  });
+
+  it("a sum-of-parts answer is scored only against its own part's actual, never the total (hand: 450 − 500 = −50)", () => {
+    const f = resolved(1000, [{ inv: "s1", member: "m1", value: 500 }, { inv: "s2", member: "m2", value: 300 }], { aggregation: "sum-of-parts", rawPanel: 800, correctedPanel: 800, baseline: 900, blend: 850 }).figures;
+    const s = scoreFigures(1000, f, [{ invitationId: "s1", actual: 450 }]);
+    expect(s.rawPanel.error).toBe(200); // the total against the total
+    expect(s.panelists).toHaveLength(1); // s2 has no part actual: not scored
+    expect(s.panelists[0]).toMatchObject({ label: "s1", error: -50 });
+    expect(s.panelists[0].absolutePercentError).toBeCloseTo((100 * 50) / 450, 12);
+    expect(scoreFigures(1000, f).panelists).toEqual([]);
+  });
+
+  it("an actual outside the question's bounds is refused, naming the number (−100 for a 0–100,000 question)", () => {
+    const q = { lowerBound: 0, upperBound: 100000 };
+    expect(() => checkWithinBounds(q, -100)).toThrow(InvalidInputError);
+    let caught: unknown = null;
+    try {
+      checkWithinBounds(q, -100, [{ pseudonym: "A", actual: 200000 }]);
+    } catch (err) {
+      caught = err;
+    }
+    {
+      expect((caught as InvalidInputError).errors).toEqual([
+        { field: "actual", message: "-100 is outside the question's bounds 0 to 100000" },
+        { field: "parts.0.actual", message: "200000 is outside the question's bounds 0 to 100000" },
+      ]);
+    }
+    expect(() => checkWithinBounds(q, 0)).not.toThrow();
+    expect(() => checkWithinBounds(q, 100000)).not.toThrow();
   });
 });
 
