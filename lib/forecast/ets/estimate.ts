@@ -13,7 +13,7 @@
  * σ² = Σ ε_t² / (n − k), k the number of estimated parameters and states (R's ets).
  */
 import { minimise } from "../optimise";
-import { ALPHA_LOWER, ALPHA_UPPER, BETA_LOWER, GAMMA_LOWER, PHI_LOWER, PHI_UPPER } from "../ets";
+import { etsKeys, ALPHA_LOWER, ALPHA_UPPER, BETA_LOWER, GAMMA_LOWER, PHI_LOWER, PHI_UPPER } from "../ets";
 import { ForecastInputError } from "../types";
 import { aicc, filterSeries, makeState, type EtsSpec, type EtsState, type Filtered, type Smoothing } from "./state-space";
 
@@ -34,22 +34,6 @@ export interface StateSpaceFit {
   readonly aicc: number;
   /** R's reported log-likelihood, −lik/2 (constants dropped, as R's ets). */
   readonly loglik: number;
-}
-
-/** Names of the values a member takes in `fixed` or `start`: alpha…phi, l0, b0, s1…sm. */
-function keysOf(spec: EtsSpec): { params: string[]; states: string[] } {
-  const params = ["alpha"];
-  const states = ["l0"];
-  if (spec.trend !== "N") {
-    params.push("beta");
-    states.push("b0");
-  }
-  if (spec.season !== "N") {
-    params.push("gamma");
-    for (let i = 1; i <= spec.m; i++) states.push(`s${i}`);
-  }
-  if (spec.trend === "Ad") params.push("phi");
-  return { params, states };
 }
 
 /** Runs a member with every parameter and initial state given; σ² and AICc with `estimated` free values. */
@@ -76,7 +60,7 @@ export function evaluate(
 
 /**
  * Fits a member by maximum likelihood from `start` (every parameter and initial state, keys as
- * in {@link keysOf}); values in `fixed` are held. Needs y > 0 for an M error or M season.
+ * in etsKeys, lib/forecast/ets.ts); values in `fixed` are held. Needs y > 0 for an M error or M season.
  * @throws ForecastInputError for non-positive data with a multiplicative part, or too few observations.
  */
 export function fitStateSpace(
@@ -89,7 +73,7 @@ export function fitStateSpace(
   if ((spec.error === "M" || spec.season === "M") && y.some((v) => !(v > 0))) {
     throw new ForecastInputError(`ETS(${spec.error},${spec.trend},${spec.season}) needs every observation above zero`);
   }
-  const { params, states } = keysOf(spec);
+  const { params, states } = etsKeys(spec, spec.m);
   const seasonal = spec.season !== "N";
   const m = seasonal ? spec.m : 1;
   // Free values: parameters, l0, b0, s1…s(m−1); s_m follows from the sum constraint unless all are fixed.
