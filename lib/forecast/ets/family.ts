@@ -16,7 +16,7 @@
  * A fit records its member in state.model (a code, see modelCode) so that the member and its
  * values can be given back in `fixed` (model plus the parameters and initial states).
  */
-import { etsMinLength, fitEts, type EtsFitResult, type SeasonKind, type TrendKind } from "../ets";
+import { etsKeys, etsMinLength, fitEts, type EtsFitResult, type SeasonKind, type TrendKind } from "../ets";
 import { ForecastInputError, type Fit } from "../types";
 import { evaluate, fitStateSpace, type StateSpaceFit } from "./estimate";
 import { specName, type ErrorKind, type EtsSpec, type EtsState, type Smoothing } from "./state-space";
@@ -96,7 +96,9 @@ export function fitMember(
     return out;
   };
   const given = only(fixed);
-  const start0 = only(warm);
+  const { params, states } = etsKeys(model, season);
+  const complete = given && [...params, ...states].every((k) => k in given);
+  const start0 = only(warm) ?? (complete ? given : undefined); // every value given: no start search
   if (spec.error === "A") return fromLeastSquares(spec, y, fitEts(`ETS(${specName(spec)})`, model, y, season, given, start0));
   const start = start0 && Object.values(start0).every(Number.isFinite) && Object.keys(start0).length > 0
     ? { beta: 0, gamma: 0, phi: 1, b0: 0, ...start0 }
