@@ -15,6 +15,8 @@ export const USER_ROLES = ["organiser", "reviewer"] as const;
 
 const text = (max: number) => z.string().trim().min(1, "must not be empty").max(max, `at most ${max} characters`);
 const id = z.string().min(1).max(64).describe("identifier");
+/** The e-mail a panel is shared with (kept whether or not an account has it, lib/panels/panels.ts). */
+const shareEmail = z.email("must be an e-mail address").max(200);
 const finite = z.number().refine(Number.isFinite, "must be a finite number");
 
 const questionFields = {
@@ -64,8 +66,8 @@ export type PanelCreate = z.infer<typeof panelCreate>;
 export const panelUpdate = z.object({ title: text(200), description: z.string().trim().max(4000), ...ruleFields }).partial();
 export type PanelUpdate = z.infer<typeof panelUpdate>;
 
-/** Share a panel with another user: co-organiser or reviewer. */
-export const shareInput = z.object({ email: z.email("must be an e-mail address"), role: z.enum(USER_ROLES) });
+/** Share a panel with an e-mail, as co-organiser or reviewer; the account with that e-mail (now or later) gets the access. */
+export const shareInput = z.object({ email: shareEmail, role: z.enum(USER_ROLES) });
 export type ShareInput = z.infer<typeof shareInput>;
 
 /** A person on the organiser's expert roster. */
@@ -144,7 +146,7 @@ export const params = {
   question: z.object({ panelId: id, questionId: id }),
   round: z.object({ panelId: id, roundNumber: z.coerce.number().int().positive() }),
   invitation: z.object({ panelId: id, invitationId: id }),
-  share: z.object({ panelId: id, userId: id }),
+  share: z.object({ panelId: id, email: shareEmail }),
   member: z.object({ memberId: id }),
   token: z.object({ tokenId: id }),
 };

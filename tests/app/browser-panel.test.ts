@@ -380,7 +380,7 @@ describe("Delphi panel in the browser", () => {
     await org.locator("section[aria-labelledby=sharing-h] summary").click();
     await org.getByLabel("Their account e-mail").fill(REVIEWER.email);
     await org.getByRole("button", { name: "Share", exact: true }).click();
-    await expect.poll(() => org.locator("section[aria-labelledby=sharing-h]").textContent()).toContain(`${REVIEWER.name} (${REVIEWER.email})`);
+    await expect.poll(() => org.locator("section[aria-labelledby=sharing-h]").textContent()).toContain(`${REVIEWER.email} — reviewer, read only`);
 
     const ctx = await browser.newContext();
     const page = await ctx.newPage();
