@@ -378,7 +378,7 @@ describe("Delphi panel in the browser", () => {
     );
     await org.goto(panelUrl);
     await org.locator("section[aria-labelledby=sharing-h] summary").click();
-    await org.getByLabel("Their account e-mail").fill(REVIEWER.email);
+    await org.getByLabel("Their e-mail").fill(REVIEWER.email);
     await org.getByRole("button", { name: "Share", exact: true }).click();
     await expect.poll(() => org.locator("section[aria-labelledby=sharing-h]").textContent()).toContain(`${REVIEWER.email} — reviewer, read only`);
 
