@@ -4,6 +4,8 @@
  * - An organiser reaches the panels they own, and panels shared with them as organiser
  *   (co-organiser: full control); a panel shared with an organiser as reviewer is read-only.
  * - A reviewer reaches only panels shared with them, read-only.
+ * - A share names an e-mail (lib/panels/panels.ts): it applies to the account with that e-mail,
+ *   matched here on every request, so a share made before the account existed works once it does.
  * - A panelist reaches only their own invitation's panel, and only through the panelist
  *   services (lib/panels/answers.ts, lib/panels/feedback.ts): the organiser-side services
  *   refuse panelists with 403 whatever the panel.
@@ -36,7 +38,7 @@ export type PanelNeed = "read" | "manage";
  */
 export async function authorisePanel(actor: Actor, panelId: string, need: PanelNeed): Promise<PanelAccess> {
   if (actor.kind !== "user") throw new ForbiddenError("Panelists can only use the panelist pages and /api/v1/panelist.");
-  const panel = await db.panel.findUnique({ where: { id: panelId }, include: { shares: { where: { userId: actor.userId } } } });
+  const panel = await db.panel.findUnique({ where: { id: panelId }, include: { shares: { where: { email: actor.email } } } });
   if (!panel) throw new NotFoundError("The panel");
   const share = panel.shares[0];
   let role: PanelRole | null = null;

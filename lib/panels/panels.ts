@@ -9,7 +9,7 @@
 import { db } from "@/lib/db";
 import { ConflictError, ForbiddenError, InvalidInputError, NotFoundError } from "@/lib/errors";
 import type { Actor } from "@/lib/accounts/actor";
-import { requireOrganiser } from "@/lib/accounts/users";
+import { normaliseEmail, requireOrganiser } from "@/lib/accounts/users";
 import type { Panel, Question, Round } from "@/lib/generated/prisma/client";
 import type { PanelCreate, PanelUpdate, QuestionInput, QuestionUpdate, ShareInput } from "@/lib/validation/inputs";
 import {
@@ -133,12 +133,12 @@ export async function listPanels(actor: Actor): Promise<PanelSummary[]> {
   if (actor.kind !== "user") throw new ForbiddenError("Panelists can only use the panelist pages and /api/v1/panelist.");
   const where =
     actor.role === "organiser"
-      ? { OR: [{ ownerId: actor.userId }, { shares: { some: { userId: actor.userId } } }] }
-      : { shares: { some: { userId: actor.userId } } };
+      ? { OR: [{ ownerId: actor.userId }, { shares: { some: { email: actor.email } } }] }
+      : { shares: { some: { email: actor.email } } };
   const panels = await db.panel.findMany({
     where,
     orderBy: { createdAt: "desc" },
-    include: { rounds: true, shares: { where: { userId: actor.userId } }, _count: { select: { questions: true } } },
+    include: { rounds: true, shares: { where: { email: actor.email } }, _count: { select: { questions: true } } },
   });
   for (const p of panels) await settleDeadlines(p.id);
   return panels.map((p) => {
@@ -268,52 +268,53 @@ export async function deleteQuestion(actor: Actor, panelId: string, questionId: 
   return { id: questionId, deleted: true };
 }
 
+/**
+ * A share, as the owner typed it. Shares are kept against the e-mail whether or not an account
+ * has it, and sharing answers the same either way (same status, same body, the same work), so
+ * it does not tell the owner which e-mails have accounts (THREATS.md). The account with that
+ * e-mail gets the access whenever it exists (lib/panels/access.ts); a reviewer account reads
+ * only, whatever `role` says.
+ */
 export interface ShareView {
-  readonly userId: string;
-  readonly name: string;
   readonly email: string;
   readonly role: "organiser" | "reviewer";
 }
 
-/** Who else can reach the panel (organisers of the panel). */
+/** Who else can reach the panel, by e-mail (organisers of the panel). */
 export async function listShares(actor: Actor, panelId: string): Promise<ShareView[]> {
   await authorisePanel(actor, panelId, "manage");
-  const rows = await db.panelShare.findMany({ where: { panelId }, include: { user: true } });
-  return rows.map((s) => ({ userId: s.userId, name: s.user.name, email: s.user.email, role: s.role === "organiser" ? "organiser" : "reviewer" }));
+  const rows = await db.panelShare.findMany({ where: { panelId }, orderBy: { email: "asc" } });
+  return rows.map((s) => ({ email: s.email, role: s.role === "organiser" ? "organiser" : "reviewer" }));
 }
 
 /**
- * Shares the panel with an existing user as co-organiser or reviewer (owner only). A reviewer
- * account always gets read-only access whatever `role` says.
- * @throws NotFoundError when no user has that e-mail.
+ * Shares the panel with an e-mail as co-organiser or reviewer (owner only); sharing again
+ * changes the role. Looks up no account.
+ * @throws ConflictError when the e-mail is the owner's own.
  */
 export async function sharePanel(actor: Actor, panelId: string, input: ShareInput): Promise<ShareView> {
   const access = await authorisePanel(actor, panelId, "manage");
   if (access.role !== "owner") throw new ForbiddenError("Only the panel's owner can share it.");
-  const user = await db.user.findUnique({ where: { email: input.email.trim().toLowerCase() } });
-  if (!user) throw new NotFoundError(`A user with e-mail ${input.email}`);
-  if (user.id === access.panel.ownerId) throw new ConflictError("The owner already has full access.");
-  const role = user.role === "reviewer" ? "reviewer" : input.role;
+  const email = normaliseEmail(input.email);
+  if (email === access.actor.email) throw new ConflictError("The owner already has full access.");
+  const { role } = input;
   await db.$transaction(async (tx) => {
-    await tx.panelShare.upsert({
-      where: { panelId_userId: { panelId, userId: user.id } },
-      create: { panelId, userId: user.id, role },
-      update: { role },
-    });
-    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "panel.shared", detail: { userId: user.id, role } });
+    await tx.panelShare.upsert({ where: { panelId_email: { panelId, email } }, create: { panelId, email, role }, update: { role } });
+    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "panel.shared", detail: { email, role } });
   });
-  return { userId: user.id, name: user.name, email: user.email, role };
+  return { email, role };
 }
 
-/** Withdraws a share (owner only). */
-export async function unsharePanel(actor: Actor, panelId: string, userId: string): Promise<{ userId: string; deleted: true }> {
+/** Withdraws the share with an e-mail (owner only). */
+export async function unsharePanel(actor: Actor, panelId: string, rawEmail: string): Promise<{ email: string; deleted: true }> {
   const access = await authorisePanel(actor, panelId, "manage");
   if (access.role !== "owner") throw new ForbiddenError("Only the panel's owner can change who it is shared with.");
-  const share = await db.panelShare.findUnique({ where: { panelId_userId: { panelId, userId } } });
+  const email = normaliseEmail(rawEmail);
+  const share = await db.panelShare.findUnique({ where: { panelId_email: { panelId, email } } });
   if (!share) throw new NotFoundError("The share");
   await db.$transaction(async (tx) => {
-    await tx.panelShare.delete({ where: { panelId_userId: { panelId, userId } } });
-    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "panel.unshared", detail: { userId } });
+    await tx.panelShare.delete({ where: { panelId_email: { panelId, email } } });
+    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "panel.unshared", detail: { email } });
   });
-  return { userId, deleted: true };
+  return { email, deleted: true };
 }

@@ -22,6 +22,8 @@ export const usableNumber = z.number().superRefine((v, ctx) => {
   if (problem) ctx.addIssue({ code: "custom", message: problem });
 });
 const finite = usableNumber;
+/** The e-mail a panel is shared with (kept whether or not an account has it, lib/panels/panels.ts). */
+const shareEmail = z.email("must be an e-mail address").max(200);
 
 const questionFields = {
   text: text(500).describe("The question as panelists read it."),
@@ -70,8 +72,8 @@ export type PanelCreate = z.infer<typeof panelCreate>;
 export const panelUpdate = z.object({ title: text(200), description: z.string().trim().max(4000), ...ruleFields }).partial();
 export type PanelUpdate = z.infer<typeof panelUpdate>;
 
-/** Share a panel with another user: co-organiser or reviewer. */
-export const shareInput = z.object({ email: z.email("must be an e-mail address"), role: z.enum(USER_ROLES) });
+/** Share a panel with an e-mail, as co-organiser or reviewer; the account with that e-mail (now or later) gets the access. */
+export const shareInput = z.object({ email: shareEmail, role: z.enum(USER_ROLES) });
 export type ShareInput = z.infer<typeof shareInput>;
 
 /** A person on the organiser's expert roster. */
@@ -150,7 +152,7 @@ export const params = {
   question: z.object({ panelId: id, questionId: id }),
   round: z.object({ panelId: id, roundNumber: z.coerce.number().int().positive() }),
   invitation: z.object({ panelId: id, invitationId: id }),
-  share: z.object({ panelId: id, userId: id }),
+  share: z.object({ panelId: id, email: shareEmail }),
   member: z.object({ memberId: id }),
   token: z.object({ tokenId: id }),
 };

@@ -91,7 +91,7 @@ export const panel = z.object({
 
 export const deleted = z.object({ id: z.string(), deleted: z.literal(true) });
 
-export const share = z.object({ userId: z.string(), name: z.string(), email: z.string(), role: z.enum(USER_ROLES) });
+export const share = z.object({ email: z.string(), role: z.enum(USER_ROLES) });
 
 export const rosterMember = z.object({ id: z.string(), name: z.string(), email: z.string(), group: z.string(), createdAt: dateTime });
 

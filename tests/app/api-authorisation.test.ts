@@ -23,7 +23,6 @@ let ownerCookie = "";
 let other = "";
 let reviewerCookie = "";
 let reviewer: TestUser;
-let reviewerId = "";
 let panelistHere = "";
 let panelistElsewhere = "";
 /** The main panel: round 1 closed (one answer), round 2 open, shared with the reviewer. */
@@ -142,7 +141,7 @@ const ROWS: readonly Row[] = [
   },
   { route: "listShares", path: () => `/api/v1/panels/${P}/shares`, expect: ownerOnly(200) },
   { route: "sharePanel", path: () => `/api/v1/panels/${P}/shares`, body: () => ({ email: reviewer.email, role: "reviewer" }), expect: ownerOnly(201) },
-  { route: "unsharePanel", path: async () => `/api/v1/panels/${(await freshPanel()).id}/shares/${reviewerId}`, expect: ownerOnly(200) },
+  { route: "unsharePanel", path: async () => `/api/v1/panels/${(await freshPanel()).id}/shares/${encodeURIComponent(reviewer.email)}`, expect: ownerOnly(200) },
   { route: "listInvitations", path: () => `/api/v1/panels/${P}/invitations`, expect: ownerOnly(200) },
   { route: "createInvitations", path: () => `/api/v1/panels/${P}/invitations`, body: () => ({ rosterMemberIds: ["placeholder"] }), expect: ownerOnly(201) },
   { route: "revokeInvitation", path: async () => `/api/v1/panels/${P}/invitations/${await freshInvitation()}`, expect: ownerOnly(200) },
@@ -214,7 +213,6 @@ beforeAll(async () => {
   other = await apiTokenFor(createAccount("Bram Oakes"));
   reviewer = createAccount("Cleo Marr", "reviewer");
   reviewerCookie = await signIn(reviewer);
-  reviewerId = (await api("GET", "/api/v1/account", { cookie: reviewerCookie })).body.id;
 
   const main = await freshPanel("open");
   P = main.id;

@@ -378,9 +378,9 @@ describe("Delphi panel in the browser", () => {
     );
     await org.goto(panelUrl);
     await org.locator("section[aria-labelledby=sharing-h] summary").click();
-    await org.getByLabel("Their account e-mail").fill(REVIEWER.email);
+    await org.getByLabel("Their e-mail").fill(REVIEWER.email);
     await org.getByRole("button", { name: "Share", exact: true }).click();
-    await expect.poll(() => org.locator("section[aria-labelledby=sharing-h]").textContent()).toContain(`${REVIEWER.name} (${REVIEWER.email})`);
+    await expect.poll(() => org.locator("section[aria-labelledby=sharing-h]").textContent()).toContain(`${REVIEWER.email} — reviewer, read only`);
 
     const ctx = await browser.newContext();
     const page = await ctx.newPage();
@@ -407,6 +407,11 @@ describe("Delphi panel in the browser", () => {
     await expect.poll(() => page.locator(".site-header").textContent(), { timeout: 15_000 }).toContain("Sign in");
     expect(await page.locator(".site-header").textContent()).not.toContain(REVIEWER.name);
     await ctx.close();
+    // The page withdraws the share by its e-mail, as the API does.
+    await org.goto(panelUrl);
+    const sharing = org.locator("section[aria-labelledby=sharing-h]");
+    await sharing.getByRole("button", { name: "Stop sharing" }).click();
+    await expect.poll(() => sharing.textContent(), { timeout: 15_000 }).toContain("Not shared with anyone.");
   });
 
   it("revokes a private link and re-issues a new one, shown once; the old link stops working", async () => {

@@ -80,7 +80,7 @@ let Q = "";
 let INV = "";
 let MEMBER = "";
 let TOKEN_ID = "";
-let OTHER_USER = "";
+let OTHER_EMAIL = "";
 let P2 = "";
 let Q2 = "";
 let MEMBER2 = "";
@@ -158,7 +158,7 @@ function invalidBody(r: RouteDef): unknown {
 
 /** Path parameters of the owner's resources. */
 function ownPath(r: RouteDef, overrides: Record<string, string> = {}): string {
-  const ids: Record<string, string> = { panelId: P, questionId: Q, roundNumber: "1", invitationId: INV, userId: OTHER_USER, memberId: MEMBER, tokenId: TOKEN_ID, ...overrides };
+  const ids: Record<string, string> = { panelId: P, questionId: Q, roundNumber: "1", invitationId: INV, email: OTHER_EMAIL, memberId: MEMBER, tokenId: TOKEN_ID, ...overrides };
   return r.path.replace(/\{(\w+)\}/g, (_, name: string) => encodeURIComponent(ids[name]));
 }
 
@@ -253,7 +253,7 @@ beforeAll(async () => {
   const ownerUser = createAccount("Ines Quillmoor");
   owner = await apiTokenFor(ownerUser);
   other = await apiTokenFor(createAccount("Otto Farrow"));
-  OTHER_USER = (await ok("GET", "/api/v1/account", other)).id;
+  OTHER_EMAIL = (await ok("GET", "/api/v1/account", other)).email;
   const tokens = await ok("GET", "/api/v1/tokens", owner);
   TOKEN_ID = tokens[0].id;
   TOKEN_ID2 = (await ok("GET", "/api/v1/tokens", other))[0].id;

@@ -6,7 +6,7 @@
 import { revalidatePath } from "next/cache";
 import { headers } from "next/headers";
 import { createInvitations, reissueInvitation, revokeInvitation } from "@/lib/panels/invitations";
-import { addQuestion, deleteQuestion, sharePanel, updatePanel, updateQuestion } from "@/lib/panels/panels";
+import { addQuestion, deleteQuestion, sharePanel, unsharePanel, updatePanel, updateQuestion } from "@/lib/panels/panels";
 import { closeRound, finishPanel, openRound, revealIdentities, startNextRound } from "@/lib/panels/rounds";
 import { getCurrentUser } from "@/lib/session";
 import { setPanelBlendRule } from "@/lib/panels/triangulation";
@@ -146,8 +146,15 @@ export async function shareAction(_p: FormState, formData: FormData): Promise<Fo
   const values = formObject(formData);
   return signedInAction(values, params.panelId, async (user, id, input) => {
     const share = await sharePanel(user, id.panelId, input);
-    return done(id.panelId, `Shared with ${share.name} as ${share.role}.`);
+    return done(id.panelId, `Shared with ${share.email} as ${share.role}.`);
   }, [shareInput, values]);
+}
+
+export async function unshareAction(_p: FormState, formData: FormData): Promise<FormState> {
+  return signedInAction(formObject(formData), params.share, async (user, id) => {
+    const share = await unsharePanel(user, id.panelId, id.email);
+    return done(id.panelId, `No longer shared with ${share.email}.`);
+  });
 }
 
 /**

@@ -31,6 +31,7 @@ import {
   revealNamesAction,
   revokeInvitationAction,
   shareAction,
+  unshareAction,
   updateQuestionAction,
   updateRulesAction,
 } from "./actions";
@@ -445,8 +446,12 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
           ) : (
             <ul>
               {shares.map((s) => (
-                <li key={s.userId}>
-                  {s.name} ({s.email}) — {s.role === "reviewer" ? "reviewer, read only" : "co-organiser"}
+                <li key={s.email}>
+                  {s.email} — {s.role === "reviewer" ? "reviewer, read only" : "co-organiser (read only for a reviewer account)"}
+                  <ActionForm action={unshareAction} submitLabel="Stop sharing" submitClassName="secondary" confirm={`Stop sharing with ${s.email}?`}>
+                    <input type="hidden" name="panelId" value={id} />
+                    <input type="hidden" name="email" value={s.email} />
+                  </ActionForm>
                 </li>
               ))}
             </ul>
@@ -456,7 +461,7 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
             <ActionForm action={shareAction} submitLabel="Share" resetOnSuccess>
               <input type="hidden" name="panelId" value={id} />
               <label>
-                Their account e-mail
+                Their e-mail (the account with it gets access, now or when it is created)
                 <input name="email" type="email" />
                 <FieldError name="email" />
               </label>
