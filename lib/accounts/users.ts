@@ -38,7 +38,7 @@ export function normaliseEmail(email: string): string {
  */
 export async function createUser(input: NewUser): Promise<UserView> {
   const email = normaliseEmail(input.email);
-  if (await db.user.findUnique({ where: { email } })) throw new ConflictError(`A user with e-mail ${email} already exists.`);
+  if (await db.user.findUnique({ where: { email } })) throw new ConflictError("account-exists", `A user with e-mail ${email} already exists.`);
   const passwordHash = await hashPassword(input.password);
   const user = await db.user.create({ data: { email, name: input.name.trim(), role: input.role ?? "organiser", passwordHash } });
   return view(user);
@@ -65,14 +65,14 @@ export async function createFirstOrganiser(input: Omit<NewUser, "role">): Promis
   const user = await db
     .$transaction(
       async (tx) => {
-        if ((await tx.user.count({ where: { role: "organiser" } })) > 0) throw new ConflictError(ORGANISER_EXISTS);
-        if (await tx.user.findUnique({ where: { email } })) throw new ConflictError(`A user with e-mail ${email} already exists.`);
+        if ((await tx.user.count({ where: { role: "organiser" } })) > 0) throw new ConflictError("account-exists", ORGANISER_EXISTS);
+        if (await tx.user.findUnique({ where: { email } })) throw new ConflictError("account-exists", `A user with e-mail ${email} already exists.`);
         return tx.user.create({ data: { email, name: input.name.trim(), role: "organiser", passwordHash } });
       },
       { isolationLevel: "Serializable" },
     )
     .catch((err: unknown) => {
-      if (isSerializationFailure(err)) throw new ConflictError(ORGANISER_EXISTS);
+      if (isSerializationFailure(err)) throw new ConflictError("account-exists", ORGANISER_EXISTS);
       throw err;
     });
   return view(user);

@@ -199,7 +199,7 @@ export async function createPanel(actor: Actor, input: PanelCreate): Promise<Pan
 /** Changes the title, description or stopping rules (not once the panel is finished). */
 export async function updatePanel(actor: Actor, panelId: string, input: PanelUpdate): Promise<PanelView> {
   const access = await authorisePanel(actor, panelId, "manage");
-  if (access.panel.status === "finished") throw new ConflictError("The panel is finished; it can no longer be changed.");
+  if (access.panel.status === "finished") throw new ConflictError("panel-finished", "The panel is finished; it can no longer be changed.");
   await db.$transaction(async (tx) => {
     await tx.panel.update({ where: { id: panelId }, data: input });
     await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "panel.updated", detail: { ...input } });
@@ -220,7 +220,7 @@ export async function deletePanel(actor: Actor, panelId: string): Promise<{ id: 
 
 function requireDraft(panel: Panel): void {
   if (panel.status !== "draft") {
-    throw new ConflictError("Questions are fixed once round 1 has opened; create a new panel to ask something else.");
+    throw new ConflictError("questions-fixed", "Questions are fixed once round 1 has opened; create a new panel to ask something else.");
   }
 }
 
@@ -292,7 +292,7 @@ export async function sharePanel(actor: Actor, panelId: string, input: ShareInpu
   if (access.role !== "owner") throw new ForbiddenError("Only the panel's owner can share it.");
   const user = await db.user.findUnique({ where: { email: input.email.trim().toLowerCase() } });
   if (!user) throw new NotFoundError(`A user with e-mail ${input.email}`);
-  if (user.id === access.panel.ownerId) throw new ConflictError("The owner already has full access.");
+  if (user.id === access.panel.ownerId) throw new ConflictError("already-has-access", "The owner already has full access.");
   const role = user.role === "reviewer" ? "reviewer" : input.role;
   await db.$transaction(async (tx) => {
     await tx.panelShare.upsert({
