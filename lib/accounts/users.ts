@@ -150,11 +150,27 @@ function tokenView(t: { id: string; name: string; createdAt: Date; lastUsedAt: D
  */
 export async function createApiToken(actor: Actor, input: { name: string; expiresInDays?: number }): Promise<ApiTokenView & { token: string }> {
   const user = requireSessionOrganiser(actor);
+  return storeApiToken(user.userId, input);
+}
+
+async function storeApiToken(userId: string, input: { name: string; expiresInDays?: number }): Promise<ApiTokenView & { token: string }> {
   const { token, tokenHash } = newApiToken();
   const createdAt = new Date();
   const expiresAt = apiTokenExpiresAt(createdAt, input.expiresInDays);
-  const row = await db.apiToken.create({ data: { userId: user.userId, name: input.name.trim(), tokenHash, createdAt, expiresAt } });
+  const row = await db.apiToken.create({ data: { userId, name: input.name.trim(), tokenHash, createdAt, expiresAt } });
   return { ...tokenView(row), token };
+}
+
+/**
+ * Creates a personal API token for the organiser with this e-mail, for `triangulate create-token`
+ * on the server: whoever can run the CLI there can already change the database, so no password
+ * is asked. Over the API only a session may create tokens (createApiToken).
+ * @throws NotFoundError when no organiser has this e-mail (reviewers have no API tokens).
+ */
+export async function createApiTokenFor(email: string, input: { name: string; expiresInDays?: number }): Promise<ApiTokenView & { token: string }> {
+  const user = await db.user.findUnique({ where: { email: normaliseEmail(email) } });
+  if (!user || user.role !== "organiser") throw new NotFoundError(`An organiser with e-mail ${normaliseEmail(email)}`);
+  return storeApiToken(user.id, input);
 }
 
 /** The organiser's API tokens (never the tokens themselves), newest first. */
