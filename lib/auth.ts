@@ -95,22 +95,23 @@ function emailOfBody(body: string, contentType: string): string | null {
  * next-auth acts on: the action from the route's decoded path segments (so
  * `/api/auth/%63allback/credentials` counts like `/api/auth/callback/credentials`) and the e-mail
  * from the body in either encoding. Over the limit, 429 problem+json with Retry-After, before
- * the password is checked.
+ * the password is checked. A JSON sign-in (API clients; the browser form posts a form) whose
+ * credentials are refused gets 401 problem+json (`/problems/sign-in-failed`) instead of
+ * next-auth's 200 with an error-page URL.
  */
 export async function handler(req: NextRequest, ctx: AuthRouteContext): Promise<Response> {
   if (req.method !== "POST") return nextAuthHandler(req, ctx);
   const instance = new URL(req.url).pathname;
-  const problem = (status: number, title: string, detail: string) => problemResponse({ type: "about:blank", title, status, detail, instance });
   let body: string;
   try {
     if (Number(req.headers.get("content-length") ?? 0) > MAX_AUTH_BODY_BYTES) throw new BodyTooLargeError();
     body = await readText(req, MAX_AUTH_BODY_BYTES);
   } catch (err) {
-    if (err instanceof BodyTooLargeError) return problem(413, "Payload Too Large", `The request body is larger than ${MAX_AUTH_BODY_BYTES} bytes.`);
-    return problem(400, "Bad Request", "The request body is not UTF-8 text.");
+    if (err instanceof BodyTooLargeError) return problemResponse("too-large", `The request body is larger than ${MAX_AUTH_BODY_BYTES} bytes.`, { instance });
+    return problemResponse("bad-request", "The request body is not UTF-8 text.", { instance });
   }
   const email = emailOfBody(body, req.headers.get("content-type") ?? "");
-  if (email === null) return problem(400, "Bad Request", "The request body is not valid JSON.");
+  if (email === null) return problemResponse("bad-request", "The request body is not valid JSON.", { instance });
   const [action] = (await ctx.params).nextauth ?? [];
   if (action === "callback") {
     try {
@@ -119,5 +120,19 @@ export async function handler(req: NextRequest, ctx: AuthRouteContext): Promise<
       return toProblem(err, instance);
     }
   }
-  return nextAuthHandler(new NextRequest(req.url, { method: req.method, headers: req.headers, body }), ctx);
+  const res = await nextAuthHandler(new NextRequest(req.url, { method: req.method, headers: req.headers, body }), ctx);
+  if (action === "callback" && (req.headers.get("content-type") ?? "").includes("application/json") && (await credentialsRefused(res))) {
+    return problemResponse("sign-in-failed", "The e-mail and password do not match an account.", { instance });
+  }
+  return res;
+}
+
+/**
+ * True when next-auth refused the credentials: it answers `{ url: "…?error=CredentialsSignin" }`
+ * (to send a browser to the error page) and sets no session cookie.
+ */
+async function credentialsRefused(res: Response): Promise<boolean> {
+  if (res.headers.getSetCookie().some((c) => c.startsWith("next-auth.session-token="))) return false;
+  const text = await res.clone().text();
+  return /[?&]error=CredentialsSignin\b/.test(text);
 }

@@ -38,7 +38,7 @@ export function normaliseEmail(email: string): string {
  */
 export async function createUser(input: NewUser): Promise<UserView> {
   const email = normaliseEmail(input.email);
-  if (await db.user.findUnique({ where: { email } })) throw new ConflictError(`A user with e-mail ${email} already exists.`);
+  if (await db.user.findUnique({ where: { email } })) throw new ConflictError("account-exists", `A user with e-mail ${email} already exists.`);
   const passwordHash = await hashPassword(input.password);
   const user = await db.user.create({ data: { email, name: input.name.trim(), role: input.role ?? "organiser", passwordHash } });
   return view(user);
@@ -65,14 +65,14 @@ export async function createFirstOrganiser(input: Omit<NewUser, "role">): Promis
   const user = await db
     .$transaction(
       async (tx) => {
-        if ((await tx.user.count({ where: { role: "organiser" } })) > 0) throw new ConflictError(ORGANISER_EXISTS);
-        if (await tx.user.findUnique({ where: { email } })) throw new ConflictError(`A user with e-mail ${email} already exists.`);
+        if ((await tx.user.count({ where: { role: "organiser" } })) > 0) throw new ConflictError("account-exists", ORGANISER_EXISTS);
+        if (await tx.user.findUnique({ where: { email } })) throw new ConflictError("account-exists", `A user with e-mail ${email} already exists.`);
         return tx.user.create({ data: { email, name: input.name.trim(), role: "organiser", passwordHash } });
       },
       { isolationLevel: "Serializable" },
     )
     .catch((err: unknown) => {
-      if (isSerializationFailure(err)) throw new ConflictError(ORGANISER_EXISTS);
+      if (isSerializationFailure(err)) throw new ConflictError("account-exists", ORGANISER_EXISTS);
       throw err;
     });
   return view(user);
@@ -150,11 +150,27 @@ function tokenView(t: { id: string; name: string; createdAt: Date; lastUsedAt: D
  */
 export async function createApiToken(actor: Actor, input: { name: string; expiresInDays?: number }): Promise<ApiTokenView & { token: string }> {
   const user = requireSessionOrganiser(actor);
+  return storeApiToken(user.userId, input);
+}
+
+async function storeApiToken(userId: string, input: { name: string; expiresInDays?: number }): Promise<ApiTokenView & { token: string }> {
   const { token, tokenHash } = newApiToken();
   const createdAt = new Date();
   const expiresAt = apiTokenExpiresAt(createdAt, input.expiresInDays);
-  const row = await db.apiToken.create({ data: { userId: user.userId, name: input.name.trim(), tokenHash, createdAt, expiresAt } });
+  const row = await db.apiToken.create({ data: { userId, name: input.name.trim(), tokenHash, createdAt, expiresAt } });
   return { ...tokenView(row), token };
+}
+
+/**
+ * Creates a personal API token for the organiser with this e-mail, for `triangulate create-token`
+ * on the server: whoever can run the CLI there can already change the database, so no password
+ * is asked. Over the API only a session may create tokens (createApiToken).
+ * @throws NotFoundError when no organiser has this e-mail (reviewers have no API tokens).
+ */
+export async function createApiTokenFor(email: string, input: { name: string; expiresInDays?: number }): Promise<ApiTokenView & { token: string }> {
+  const user = await db.user.findUnique({ where: { email: normaliseEmail(email) } });
+  if (!user || user.role !== "organiser") throw new NotFoundError(`An organiser with e-mail ${normaliseEmail(email)}`);
+  return storeApiToken(user.id, input);
 }
 
 /** The organiser's API tokens (never the tokens themselves), newest first. */

@@ -2,6 +2,7 @@
  * Admin commands of `triangulate` (registered in lib/cli/main.ts):
  *
  *   triangulate create-organiser --email E --name N --password P [--role organiser|reviewer]
+ *   triangulate create-token --email E [--name N] [--days D]
  *   triangulate backup FILE
  *   triangulate demo [--if-empty]
  *
@@ -16,6 +17,10 @@ import type { CommandIo } from "./main";
 const CREATE_USAGE =
   "usage: triangulate create-organiser --email E --name N --password P [--role organiser|reviewer]\n" +
   "       (--password - reads the password from the first line of standard input, keeping it out of the process list)\n";
+const TOKEN_USAGE =
+  "usage: triangulate create-token --email E [--name N] [--days D]\n" +
+  "       prints a new personal API token of the organiser E once (default name 'created on the server', 90 days);\n" +
+  "       asks no password: it runs on the server, with the database's own access\n";
 const BACKUP_USAGE = "usage: triangulate backup FILE\n";
 const DEMO_USAGE = "usage: triangulate demo [--if-empty]\n";
 
@@ -65,6 +70,52 @@ export async function createOrganiser(args: string[], io: CommandIo): Promise<nu
   try {
     const user = await createUser({ ...parsed.data, role });
     io.out(`created ${user.role} ${user.email} (${user.name})\n`);
+    return 0;
+  } catch (err) {
+    if (err instanceof DomainError) {
+      io.err(`triangulate: ${err.message}\n`);
+      return 1;
+    }
+    throw err;
+  } finally {
+    await disconnect();
+  }
+}
+
+/**
+ * `create-token`: a personal API token for an organiser, printed once, for API clients that
+ * cannot replay the browser sign-in. Same checks as POST /api/v1/tokens (apiTokenCreate).
+ */
+export async function createToken(args: string[], io: CommandIo): Promise<number> {
+  let values: { email?: string; name?: string; days?: string; help?: boolean };
+  try {
+    ({ values } = parseArgs({
+      args,
+      options: { email: { type: "string" }, name: { type: "string", default: "created on the server" }, days: { type: "string" }, help: { type: "boolean", short: "h" } },
+      strict: true,
+      allowPositionals: false,
+    }));
+  } catch (err) {
+    return usageError(io, TOKEN_USAGE, (err as Error).message);
+  }
+  if (values.help) {
+    io.out(TOKEN_USAGE);
+    return 0;
+  }
+  if (!values.email) return usageError(io, TOKEN_USAGE, "--email is required");
+  const { apiTokenCreate } = await import("../validation/inputs");
+  const days = values.days === undefined ? undefined : /^\d+$/.test(values.days) ? Number(values.days) : NaN;
+  const parsed = apiTokenCreate.safeParse({ name: values.name, ...(days === undefined ? {} : { expiresInDays: days }) });
+  if (!parsed.success) {
+    const option = (field: PropertyKey | undefined) => (field === "expiresInDays" ? "days" : String(field));
+    return usageError(io, TOKEN_USAGE, parsed.error.issues.map((i) => `--${option(i.path[0])}: ${i.message}`).join("; "));
+  }
+  const { createApiTokenFor } = await import("../accounts/users");
+  const { DomainError } = await import("../errors");
+  try {
+    const made = await createApiTokenFor(values.email, parsed.data);
+    io.out(`${made.token}\n`);
+    io.err(`created API token "${made.name}" for ${values.email}, expires ${made.expiresAt}; it is shown only now\n`);
     return 0;
   } catch (err) {
     if (err instanceof DomainError) {

@@ -39,6 +39,10 @@ const COMMANDS: Record<string, CommandEntry> = {
     summary: "create an organiser account (--email E --name N --password P [--role reviewer])",
     load: async () => (await import("./admin")).createOrganiser,
   },
+  "create-token": {
+    summary: "print a new API token of an organiser (--email E [--name N] [--days D]; no password: runs on the server)",
+    load: async () => (await import("./admin")).createToken,
+  },
   migrate: { summary: "apply the pending migrations to the database (SQLite or PostgreSQL)", load: async () => (await import("./migrate")).run },
   backup: { summary: "copy the live database to FILE (SQLite online backup)", load: async () => (await import("./admin")).backup },
   serve: { summary: "serve the production build ([--port P] [--hostname H]; npm start builds and serves)", load: async () => (await import("./serve")).run },

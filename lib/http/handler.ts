@@ -122,7 +122,7 @@ export function handle<const R extends RouteDef>(
   return async (req, ctx) => {
     const instance = new URL(req.url).pathname;
     const tooLarge = () =>
-      problemResponse({ type: "about:blank", title: "Payload Too Large", status: 413, detail: `The request body is larger than ${MAX_BODY_BYTES} bytes.`, instance });
+      problemResponse("too-large", `The request body is larger than ${MAX_BODY_BYTES} bytes.`, { instance });
     try {
       const declared = Number(req.headers.get("content-length") ?? 0);
       if (declared > MAX_BODY_BYTES) return tooLarge();
@@ -161,7 +161,7 @@ export function handle<const R extends RouteDef>(
         } catch (err) {
           if (err instanceof BodyTooLargeError) return tooLarge();
           const detail = (err as Error).message === "body is not UTF-8" ? "The request body is not UTF-8 text." : "The request body is not valid JSON.";
-          return problemResponse({ type: "about:blank", title: "Bad Request", status: 400, detail, instance });
+          return problemResponse("bad-request", detail, { instance });
         }
         const nul = textFieldErrors(raw);
         if (nul.length > 0) throw new InvalidInputError(nul);
@@ -211,10 +211,7 @@ type Method = (typeof METHODS)[number];
 export function otherMethods(allow: string): Record<Method, (req: Request) => Response> {
   const refuse = (req: Request) => {
     const instance = new URL(req.url).pathname;
-    return problemResponse(
-      { type: "about:blank", title: "Method Not Allowed", status: 405, detail: `${req.method} is not an operation of ${instance}; allowed: ${allow}.`, instance },
-      { allow },
-    );
+    return problemResponse("method-not-allowed", `${req.method} is not an operation of ${instance}; allowed: ${allow}.`, { instance, headers: { allow } });
   };
   return Object.fromEntries(METHODS.map((m) => [m, refuse])) as Record<Method, (req: Request) => Response>;
 }

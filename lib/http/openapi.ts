@@ -5,6 +5,7 @@
  * (defaults make fields optional), responses as output.
  */
 import { z } from "zod";
+import { PROBLEM_TYPES, problemTypeUri, type ProblemKind } from "@/lib/problem-types";
 import { problem } from "@/lib/validation/outputs";
 import { routes, type RouteDef } from "./routes";
 
@@ -22,7 +23,7 @@ const STATUS_TEXT: Record<number, string> = {
   401: "Not authenticated: no, unknown, revoked or expired credentials",
   403: "Authenticated but not allowed",
   404: "Not found, or not visible to you",
-  409: "Conflicts with the current state (round not open, panel finished, …)",
+  409: "Conflicts with the current state; `type` says which (round not open, panel finished, …)",
   422: "Invalid input; `errors` names each field",
   413: "The request body is over the size limit (2 MiB)",
   429: "Too many requests (rate limit); Retry-After says when to try again",
@@ -45,9 +46,10 @@ function operation(r: RouteDef): Json {
     });
   }
   const problemRef = { $ref: "#/components/schemas/Problem" };
-  const responses: Json = {
-    [String(r.status)]: { description: STATUS_TEXT[r.status], content: { [r.produces ?? "application/json"]: { schema: schemaOf(r.response, "output") } } },
-  };
+  const success = (description: string) => ({ description, content: { [r.produces ?? "application/json"]: { schema: schemaOf(r.response, "output") } } });
+  const responses: Json = { [String(r.status)]: success(STATUS_TEXT[r.status]) };
+  // A retry with a used Idempotency-Key and the same body returns what was stored the first time.
+  if (r.idempotent) responses["200"] = success("Replay: this Idempotency-Key was used before with the same body; the result stored then");
   const errs = new Set<number>(r.errors);
   if (r.body) {
     errs.add(400);
@@ -69,6 +71,23 @@ function operation(r: RouteDef): Json {
     ...(r.body ? { requestBody: { required: !r.body.safeParse({}).success, content: { "application/json": { schema: schemaOf(r.body, "input") } } } } : {}),
     responses,
   };
+}
+
+/**
+ * The Problem schema, its `type` listing every problem type (lib/problem-types.ts) with its title,
+ * status and meaning; each type is also a page at its URI.
+ */
+function problemSchema(): Json {
+  const base = schemaOf(problem, "output");
+  const kinds = Object.keys(PROBLEM_TYPES) as ProblemKind[];
+  const type = {
+    type: "string",
+    format: "uri-reference",
+    description:
+      "The problem type: a stable URI relative to this site (RFC 9457 §3.1.1), `/problems/<kind>`; GET it for a page explaining it. Match on `type`, not on `detail`.",
+    anyOf: kinds.map((k) => ({ const: problemTypeUri(k), title: PROBLEM_TYPES[k].title, description: `${PROBLEM_TYPES[k].status}: ${PROBLEM_TYPES[k].description}` })),
+  };
+  return { ...base, properties: { ...(base.properties as Json), type } };
 }
 
 /** The OpenAPI 3.1 document (a plain object, ready for JSON.stringify). */
@@ -93,12 +112,12 @@ export function openApiDocument(): Json {
       title: "Triangulate API",
       version: "1",
       description:
-        "Delphi-method expert panels: organisers run panels, panelists answer with their invitation token. Errors are application/problem+json (RFC 9457).",
+        "Delphi-method expert panels: organisers run panels, panelists answer with their invitation token. Errors are application/problem+json (RFC 9457) whose `type` is one of the problem types listed in the Problem schema.",
     },
     servers: [{ url: "/" }],
     paths,
     components: {
-      schemas: { Problem: schemaOf(problem, "output") },
+      schemas: { Problem: problemSchema() },
       securitySchemes: {
         apiToken: { type: "http", scheme: "bearer", description: "An organiser's personal API token (trg_pat_…)." },
         invitationToken: { type: "http", scheme: "bearer", description: "A panelist's invitation token (the secret in /p/<token>)." },

@@ -1,11 +1,13 @@
 /**
  * The one mapping from errors to `application/problem+json` responses (RFC 9457):
  * - a zod error → 422 with `errors: [{ field: "questions.0.lowerBound", message }]`;
- * - a DomainError → its own status, title and detail (401, 403, 404, 409, 422, …);
+ * - a DomainError → its kind's type, status and title (lib/problem-types.ts) and its detail;
  * - anything else → 500 with a generic text (the error is logged on the server, not sent).
+ * `type` is the kind's stable URI, `/problems/<kind>` (RFC 9457 §3.1.1).
  */
 import { z } from "zod";
 import { DomainError, TooManyRequestsError, type FieldError } from "@/lib/errors";
+import { PROBLEM_TYPES, problemTypeUri, type ProblemKind } from "@/lib/problem-types";
 
 export const PROBLEM_CONTENT_TYPE = "application/problem+json";
 
@@ -28,40 +30,40 @@ export function zodFieldErrors(err: z.ZodError, prefix = ""): FieldError[] {
   return err.issues.map((i) => ({ field: prefix + fieldOf(i.path), message: i.message }));
 }
 
-export function problemResponse(body: ProblemBody, headers: Record<string, string> = {}): Response {
+/**
+ * A problem+json response of `kind` (lib/problem-types.ts gives its type URI, title and status).
+ * 401 carries a Bearer challenge and 429 its Retry-After (through `headers`).
+ */
+export function problemResponse(
+  kind: ProblemKind,
+  detail: string,
+  options: { instance?: string; errors?: readonly FieldError[]; headers?: Record<string, string> } = {},
+): Response {
+  const { status, title } = PROBLEM_TYPES[kind];
+  const body: ProblemBody = {
+    type: problemTypeUri(kind),
+    title,
+    status,
+    detail,
+    ...(options.instance ? { instance: options.instance } : {}),
+    ...(options.errors && options.errors.length > 0 ? { errors: options.errors } : {}),
+  };
+  const challenge: Record<string, string> = status === 401 ? { "www-authenticate": 'Bearer realm="triangulate"' } : {};
   return new Response(JSON.stringify(body), {
-    status: body.status,
-    headers: { "content-type": PROBLEM_CONTENT_TYPE, "cache-control": "no-store", ...headers },
+    status,
+    headers: { "content-type": PROBLEM_CONTENT_TYPE, "cache-control": "no-store", ...challenge, ...options.headers },
   });
 }
 
 /** Maps any thrown value to a problem+json response (see the module comment). */
 export function toProblem(err: unknown, instance?: string): Response {
   if (err instanceof z.ZodError) {
-    return problemResponse({
-      type: "about:blank",
-      title: "Invalid input",
-      status: 422,
-      detail: "The request has invalid fields; see errors.",
-      instance,
-      errors: zodFieldErrors(err),
-    });
+    return problemResponse("validation-failed", "The request has invalid fields; see errors.", { instance, errors: zodFieldErrors(err) });
   }
   if (err instanceof DomainError) {
-    const headers: Record<string, string> =
-      err.status === 401 ? { "www-authenticate": 'Bearer realm="triangulate"' } : err instanceof TooManyRequestsError ? { "retry-after": String(err.retryAfterSeconds) } : {};
-    return problemResponse(
-      {
-        type: "about:blank",
-        title: err.title,
-        status: err.status,
-        detail: err.message,
-        instance,
-        ...(err.errors.length > 0 ? { errors: err.errors } : {}),
-      },
-      headers,
-    );
+    const headers: Record<string, string> = err instanceof TooManyRequestsError ? { "retry-after": String(err.retryAfterSeconds) } : {};
+    return problemResponse(err.kind, err.message, { instance, errors: err.errors, headers });
   }
   console.error("triangulate: unexpected error", err);
-  return problemResponse({ type: "about:blank", title: "Internal Server Error", status: 500, detail: "Something went wrong on the server.", instance });
+  return problemResponse("server-error", "Something went wrong on the server.", { instance });
 }

@@ -105,8 +105,5 @@ export function clientAddress(req: { readonly headers: Headers }): string {
 
 /** 429 problem+json with Retry-After. */
 export function tooManyRequests(retryAfterSeconds: number, instance?: string, detail = "Too many requests; try again later."): Response {
-  return problemResponse(
-    { type: "about:blank", title: "Too Many Requests", status: 429, detail: `${detail} Retry after ${retryAfterSeconds} s.`, instance },
-    { "retry-after": String(retryAfterSeconds) },
-  );
+  return problemResponse("rate-limited", `${detail} Retry after ${retryAfterSeconds} s.`, { instance, headers: { "retry-after": String(retryAfterSeconds) } });
 }

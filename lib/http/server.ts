@@ -153,7 +153,7 @@ export async function serve(o: ServeOptions): Promise<Serving> {
       } catch (err) {
         // Route functions answer every error themselves (lib/http/handler.ts); this is a last resort.
         console.error(err);
-        response = problemResponse({ type: "about:blank", title: "Internal Server Error", status: 500, detail: "The server failed to handle the request." });
+        response = problemResponse("server-error", "The server failed to handle the request.");
       }
       await send(res, response, route.headers);
     })().catch((err) => {

@@ -169,7 +169,7 @@ async function replay(invitationId: string, key: string, input: AnswerInput): Pr
   });
   if (!prior) return null;
   if (!sameAnswer(prior, input)) {
-    throw new ConflictError("This Idempotency-Key was already used for a different answer; use a new key for a new answer.");
+    throw new ConflictError("idempotency-key-reused", "This Idempotency-Key was already used for a different answer; use a new key for a new answer.");
   }
   return { answer: answerView(prior, prior.round.number), replayed: true };
 }
@@ -244,8 +244,8 @@ async function storeAnswer(me: PanelistActor, input: AnswerInput, key: string | 
      LIMIT 1`,
     [input.questionId, me.panelId],
   );
-  if (!found) throw new ConflictError("The panel no longer exists.");
-  if (found.panelStatus === "finished") throw new ConflictError("The panel is finished; answers are no longer accepted.");
+  if (!found) throw new ConflictError("panel-deleted", "The panel no longer exists.");
+  if (found.panelStatus === "finished") throw new ConflictError("panel-finished", "The panel is finished; answers are no longer accepted.");
   if (!found.questionId) throw new InvalidInputError([{ field: "questionId", message: "no such question in your panel" }]);
   const question = { id: found.questionId, answerFormat: found.answerFormat, lowerBound: Number(found.lowerBound), upperBound: Number(found.upperBound), unit: found.unit };
   let round =
@@ -256,7 +256,7 @@ async function storeAnswer(me: PanelistActor, input: AnswerInput, key: string | 
   }
   if (!round) {
     const last = await db.round.findFirst({ where: { panelId: me.panelId, status: "closed" }, orderBy: { number: "desc" } });
-    throw new ConflictError(
+    throw new ConflictError(last ? "round-closed" : "round-not-open",
       last
         ? `Round ${last.number} closed at ${last.closedAt?.toISOString()}; answers are no longer accepted. Wait for the next round to open.`
         : "Round 1 has not opened yet; answers are accepted once the organiser opens it.",
@@ -301,12 +301,12 @@ async function storeAnswer(me: PanelistActor, input: AnswerInput, key: string | 
     // Nothing written: the key was used already (submitAnswer replays it), the round closed, or
     // (PostgreSQL) a concurrent version of the same answer took this version number.
     if (key && (await db.answer.count({ where: { invitationId: me.invitationId, idempotencyKey: key } })) > 0) {
-      throw new ConflictError("This Idempotency-Key was already used; use a new key for a new answer.");
+      throw new ConflictError("idempotency-key-reused", "This Idempotency-Key was already used; use a new key for a new answer.");
     }
     const fresh = await db.round.findUnique({ where: { id: round.id } });
     if (!fresh || fresh.status !== "open" || (fresh.deadline && fresh.deadline.getTime() <= Date.now())) {
-      throw new ConflictError(`Round ${round.number} has closed; answers are no longer accepted.`);
+      throw new ConflictError("round-closed", `Round ${round.number} has closed; answers are no longer accepted.`);
     }
   }
-  throw new ConflictError("The answer could not be stored; please send it again.");
+  throw new ConflictError("answer-not-stored", "The answer could not be stored; please send it again.");
 }

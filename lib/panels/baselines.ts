@@ -237,7 +237,7 @@ async function findQuestion(panelId: string, questionId: string): Promise<Questi
 
 async function refuseIfResolved(questionId: string): Promise<void> {
   if (await db.resolution.findUnique({ where: { questionId } })) {
-    throw new ConflictError("The question is resolved; its baseline is part of the scored record and can no longer change.");
+    throw new ConflictError("question-resolved", "The question is resolved; its baseline is part of the scored record and can no longer change.");
   }
 }
 

@@ -93,7 +93,7 @@ export async function listInvitations(actor: Actor, panelId: string): Promise<In
  */
 export async function createInvitations(actor: Actor, panelId: string, input: InvitationCreate): Promise<IssuedInvitation[]> {
   const access = await authorisePanel(actor, panelId, "manage");
-  if (access.panel.status === "finished") throw new ConflictError("The panel is finished.");
+  if (access.panel.status === "finished") throw new ConflictError("panel-finished", "The panel is finished.");
   const ids = [...new Set(input.rosterMemberIds)];
   const members = await db.rosterMember.findMany({ where: { id: { in: ids }, ownerId: access.actor.userId } });
   if (members.length !== ids.length) throw new NotFoundError("A roster member");
@@ -101,7 +101,7 @@ export async function createInvitations(actor: Actor, panelId: string, input: In
   return db.$transaction(async (tx) => {
     const already = await tx.invitation.findMany({ where: { panelId, rosterMemberId: { in: ids } }, include: { rosterMember: true } });
     if (already.length > 0) {
-      throw new ConflictError(`Already invited: ${already.map((a) => a.rosterMember.name).join(", ")}. Re-issue their link instead.`);
+      throw new ConflictError("already-invited", `Already invited: ${already.map((a) => a.rosterMember.name).join(", ")}. Re-issue their link instead.`);
     }
     const taken = new Set((await tx.invitation.findMany({ where: { panelId }, select: { pseudonym: true } })).map((i) => i.pseudonym));
     requireWithinLimit({ current: taken.size, adding: ids.length, max: MAX_PANELISTS_PER_PANEL }, "rosterMemberIds", "panelists (invitations, revoked ones included)", "A panel");
@@ -151,7 +151,7 @@ export async function reissueInvitation(
   input: InvitationReissue,
 ): Promise<IssuedInvitation> {
   const access = await authorisePanel(actor, panelId, "manage");
-  if (access.panel.status === "finished") throw new ConflictError("The panel is finished.");
+  if (access.panel.status === "finished") throw new ConflictError("panel-finished", "The panel is finished.");
   const row = await ownInvitation(panelId, invitationId);
   const { token, tokenHash } = newInvitationToken();
   const updated = await db.$transaction(async (tx) => {

@@ -199,7 +199,7 @@ export async function createPanel(actor: Actor, input: PanelCreate): Promise<Pan
 /** Changes the title, description or stopping rules (not once the panel is finished). */
 export async function updatePanel(actor: Actor, panelId: string, input: PanelUpdate): Promise<PanelView> {
   const access = await authorisePanel(actor, panelId, "manage");
-  if (access.panel.status === "finished") throw new ConflictError("The panel is finished; it can no longer be changed.");
+  if (access.panel.status === "finished") throw new ConflictError("panel-finished", "The panel is finished; it can no longer be changed.");
   await db.$transaction(async (tx) => {
     await tx.panel.update({ where: { id: panelId }, data: input });
     await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "panel.updated", detail: { ...input } });
@@ -220,7 +220,7 @@ export async function deletePanel(actor: Actor, panelId: string): Promise<{ id: 
 
 function requireDraft(panel: Panel): void {
   if (panel.status !== "draft") {
-    throw new ConflictError("Questions are fixed once round 1 has opened; create a new panel to ask something else.");
+    throw new ConflictError("questions-fixed", "Questions are fixed once round 1 has opened; create a new panel to ask something else.");
   }
 }
 
@@ -296,7 +296,7 @@ export async function sharePanel(actor: Actor, panelId: string, input: ShareInpu
   const access = await authorisePanel(actor, panelId, "manage");
   if (access.role !== "owner") throw new ForbiddenError("Only the panel's owner can share it.");
   const email = normaliseEmail(input.email);
-  if (email === access.actor.email) throw new ConflictError("The owner already has full access.");
+  if (email === access.actor.email) throw new ConflictError("already-has-access", "The owner already has full access.");
   const { role } = input;
   await db.$transaction(async (tx) => {
     await tx.panelShare.upsert({ where: { panelId_email: { panelId, email } }, create: { panelId, email, role }, update: { role } });

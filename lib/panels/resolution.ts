@@ -140,7 +140,7 @@ function view(r: { questionId: string; actual: number; note: string; partActuals
 export async function currentFigures(panelId: string, questionId: string): Promise<ResolutionFigures> {
   const loaded = await loadTriangulation(panelId, questionId);
   const t = computeTriangulation(loaded.input);
-  if (!t.panel) throw new ConflictError("No closed round has answers to this question, so there is no panel figure to score yet.");
+  if (!t.panel) throw new ConflictError("no-panel-figure", "No closed round has answers to this question, so there is no panel figure to score yet.");
   const b = await db.baseline.findUnique({ where: { questionId } });
   const preview = b ? (JSON.parse(b.preview) as BaselinePreview) : null;
   return {
@@ -179,10 +179,10 @@ export async function resolveQuestion(actor: Actor, panelId: string, questionId:
   const question = await db.question.findFirst({ where: { id: questionId, panelId } });
   if (!question) throw new NotFoundError("The question");
   if (await db.resolution.findUnique({ where: { questionId } })) {
-    throw new ConflictError("The question is already resolved; correct the recorded value instead (PATCH, with a reason).");
+    throw new ConflictError("question-resolved", "The question is already resolved; correct the recorded value instead (PATCH, with a reason).");
   }
   if (await db.round.findFirst({ where: { panelId, status: "open" } })) {
-    throw new ConflictError("A round is open: close it before resolving, so the panel figure that is scored is final.");
+    throw new ConflictError("round-still-open", "A round is open: close it before resolving, so the panel figure that is scored is final.");
   }
   checkWithinBounds(question, input.actual, input.parts);
   const figures = await currentFigures(panelId, questionId);
@@ -190,7 +190,7 @@ export async function resolveQuestion(actor: Actor, panelId: string, questionId:
   const scores = jsonSafe(scoreFigures(input.actual, figures, parts));
   const stored = await db.$transaction(async (tx) => {
     if (await tx.resolution.findUnique({ where: { questionId } })) {
-      throw new ConflictError("The question was resolved a moment ago by someone else; correct the recorded value instead.");
+      throw new ConflictError("question-resolved", "The question was resolved a moment ago by someone else; correct the recorded value instead.");
     }
     const r = await tx.resolution.create({
       data: {
@@ -209,7 +209,7 @@ export async function resolveQuestion(actor: Actor, panelId: string, questionId:
   }).catch((err: unknown) => {
     // Two resolutions racing: the unique questionId lets one win; the other is told so.
     if (isUniqueViolation(err)) {
-      throw new ConflictError("The question was resolved a moment ago by someone else; correct the recorded value instead.");
+      throw new ConflictError("question-resolved", "The question was resolved a moment ago by someone else; correct the recorded value instead.");
     }
     throw err;
   });

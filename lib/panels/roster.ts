@@ -30,7 +30,7 @@ async function ownMember(ownerId: string, memberId: string): Promise<RosterMembe
 
 async function assertEmailFree(ownerId: string, email: string, exceptId?: string): Promise<void> {
   const clash = await db.rosterMember.findUnique({ where: { ownerId_email: { ownerId, email } } });
-  if (clash && clash.id !== exceptId) throw new ConflictError(`${email} is already on your roster (${clash.name}).`);
+  if (clash && clash.id !== exceptId) throw new ConflictError("duplicate-roster-member", `${email} is already on your roster (${clash.name}).`);
 }
 
 /** The organiser's roster, by group then name. */
@@ -67,7 +67,7 @@ export async function deleteRosterMember(actor: Actor, memberId: string): Promis
   const user = requireOrganiser(actor);
   await ownMember(user.userId, memberId);
   if ((await db.invitation.count({ where: { rosterMemberId: memberId } })) > 0) {
-    throw new ConflictError("This person has been invited to a panel; their answers refer to them, so they stay on the roster.");
+    throw new ConflictError("roster-member-invited", "This person has been invited to a panel; their answers refer to them, so they stay on the roster.");
   }
   await db.rosterMember.delete({ where: { id: memberId } });
   return { id: memberId, deleted: true };

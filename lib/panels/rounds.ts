@@ -52,14 +52,14 @@ export async function openRound(actor: Actor, panelId: string, roundNumber: numb
   const now = new Date();
   const deadline = parseDeadline(input.deadline, now);
   const round = await findRound(panelId, roundNumber);
-  if (access.panel.status === "finished") throw new ConflictError("The panel is finished.");
-  if (round.status !== "draft") throw new ConflictError(`Round ${roundNumber} is already ${round.status}; only a draft round can be opened.`);
+  if (access.panel.status === "finished") throw new ConflictError("panel-finished", "The panel is finished.");
+  if (round.status !== "draft") throw new ConflictError("round-not-draft", `Round ${roundNumber} is already ${round.status}; only a draft round can be opened.`);
   const updated = await db.$transaction(async (tx) => {
-    if ((await tx.question.count({ where: { panelId } })) === 0) throw new ConflictError("Add at least one question before opening a round.");
+    if ((await tx.question.count({ where: { panelId } })) === 0) throw new ConflictError("panel-has-no-questions", "Add at least one question before opening a round.");
     const earlierOpen = await tx.round.count({ where: { panelId, number: { lt: roundNumber }, status: { not: "closed" } } });
-    if (earlierOpen > 0) throw new ConflictError("Close the earlier rounds first.");
+    if (earlierOpen > 0) throw new ConflictError("round-still-open", "Close the earlier rounds first.");
     const { count } = await tx.round.updateMany({ where: { id: round.id, status: "draft" }, data: { status: "open", openedAt: now, deadline } });
-    if (count !== 1) throw new ConflictError(`Round ${roundNumber} is no longer a draft.`);
+    if (count !== 1) throw new ConflictError("round-not-draft", `Round ${roundNumber} is no longer a draft.`);
     if (access.panel.status === "draft") await tx.panel.update({ where: { id: panelId }, data: { status: "running" } });
     await recordAudit(tx, {
       actorId: access.actor.userId,
@@ -80,11 +80,11 @@ export async function closeRound(actor: Actor, panelId: string, roundNumber: num
   const access = await authorisePanel(actor, panelId, "manage");
   await settleDeadlines(panelId);
   const round = await findRound(panelId, roundNumber);
-  if (round.status !== "open") throw new ConflictError(`Round ${roundNumber} is ${round.status}, not open.`);
+  if (round.status !== "open") throw new ConflictError("round-not-open", `Round ${roundNumber} is ${round.status}, not open.`);
   const closed = await db.$transaction((tx) =>
     closeRoundInTx(tx, round, { actorId: access.actor.userId, reason: "organiser", closedAt: new Date() }),
   );
-  if (!closed) throw new ConflictError(`Round ${roundNumber} was closed meanwhile.`);
+  if (!closed) throw new ConflictError("round-not-open", `Round ${roundNumber} was closed meanwhile.`);
   return roundView(await db.round.findUniqueOrThrow({ where: { id: round.id } }));
 }
 
@@ -96,12 +96,12 @@ export async function closeRound(actor: Actor, panelId: string, roundNumber: num
 export async function startNextRound(actor: Actor, panelId: string, input: NextRoundInput): Promise<RoundView> {
   const access = await authorisePanel(actor, panelId, "manage");
   await settleDeadlines(panelId);
-  if (access.panel.status === "finished") throw new ConflictError("The panel is finished.");
+  if (access.panel.status === "finished") throw new ConflictError("panel-finished", "The panel is finished.");
   const last = await db.round.findFirst({ where: { panelId }, orderBy: { number: "desc" } });
-  if (last && last.status !== "closed") throw new ConflictError(`Round ${last.number} is ${last.status}; close it before starting the next round.`);
+  if (last && last.status !== "closed") throw new ConflictError("round-still-open", `Round ${last.number} is ${last.status}; close it before starting the next round.`);
   const number = (last?.number ?? 0) + 1;
   if (number > access.panel.roundLimit) {
-    throw new ConflictError(`The round limit of ${access.panel.roundLimit} is reached; finish the panel or raise the limit.`);
+    throw new ConflictError("round-limit-reached", `The round limit of ${access.panel.roundLimit} is reached; finish the panel or raise the limit.`);
   }
   const now = new Date();
   const deadline = parseDeadline(input.deadline, now);
@@ -119,9 +119,9 @@ export async function startNextRound(actor: Actor, panelId: string, input: NextR
 export async function finishPanel(actor: Actor, panelId: string): Promise<{ id: string; status: "finished" }> {
   const access = await authorisePanel(actor, panelId, "manage");
   await settleDeadlines(panelId);
-  if (access.panel.status === "finished") throw new ConflictError("The panel is already finished.");
+  if (access.panel.status === "finished") throw new ConflictError("panel-finished", "The panel is already finished.");
   const open = await db.round.findFirst({ where: { panelId, status: "open" } });
-  if (open) throw new ConflictError(`Round ${open.number} is open; close it first.`);
+  if (open) throw new ConflictError("round-still-open", `Round ${open.number} is open; close it first.`);
   await db.$transaction(async (tx) => {
     await tx.round.deleteMany({ where: { panelId, status: "draft", answers: { none: {} } } });
     await tx.panel.update({ where: { id: panelId }, data: { status: "finished" } });
@@ -211,7 +211,7 @@ export async function getRoundStatistics(
   await authorisePanel(actor, panelId, "read");
   await settleDeadlines(panelId);
   const round = await findRound(panelId, roundNumber);
-  if (round.status !== "closed") throw new ConflictError(`Round ${roundNumber} is ${round.status}; statistics are computed when it closes.`);
+  if (round.status !== "closed") throw new ConflictError("round-not-closed", `Round ${roundNumber} is ${round.status}; statistics are computed when it closes.`);
   const rows = await db.roundStatistic.findMany({ where: { roundId: round.id }, include: { question: true }, orderBy: { question: { position: "asc" } } });
   return {
     round: roundView(round),

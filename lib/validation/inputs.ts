@@ -15,7 +15,7 @@ export const CONSENSUS_MEASURES = ["relative-iqr", "cv"] as const;
 export const USER_ROLES = ["organiser", "reviewer"] as const;
 
 const text = (max: number) => z.string().trim().min(1, "must not be empty").max(max, `at most ${max} characters`);
-const id = z.string().min(1).max(64).describe("identifier");
+const id = z.string().min(1, "must not be empty").max(64, "must be an identifier of at most 64 characters").describe("identifier");
 /** A value a client gives (an answer, a bound, an actual, a history value): the rule in ./numbers.ts. */
 export const usableNumber = z.number().superRefine((v, ctx) => {
   const problem = numberProblem(v);
@@ -147,10 +147,19 @@ export type PasswordChange = z.infer<typeof passwordChange>;
 /** The Idempotency-Key request header. */
 export const idempotencyKey = z.string().min(1).max(200).regex(/^[\x21-\x7e]+$/, "printable ASCII without spaces");
 
+/** The message for a path's round part that is not a round number ("abc", "0", "1.5"). */
+const ROUND_NUMBER = "round must be a round number such as 2";
+
 export const params = {
   panelId: z.object({ panelId: id }),
   question: z.object({ panelId: id, questionId: id }),
-  round: z.object({ panelId: id, roundNumber: z.coerce.number().int().positive() }),
+  round: z.object({
+    panelId: id,
+    roundNumber: z.coerce
+      .number({ error: ROUND_NUMBER })
+      .int(ROUND_NUMBER)
+      .positive(ROUND_NUMBER),
+  }),
   invitation: z.object({ panelId: id, invitationId: id }),
   share: z.object({ panelId: id, email: shareEmail }),
   member: z.object({ memberId: id }),

@@ -275,6 +275,7 @@ describe("credentials", () => {
     const revoked = await api("GET", "/api/v1/panels", { token: t.token });
     expect(revoked.status).toBe(401);
     expect(revoked.body.detail).toMatch(/revoked/);
+    expect(revoked.body.type).toBe("/problems/unauthenticated");
   });
 
   it("a change made with the session cookie must come from this site (Origin check)", async () => {
@@ -282,6 +283,7 @@ describe("credentials", () => {
     const foreign = await api("POST", "/api/v1/tokens", { cookie, body: { name: "x" }, headers: { origin: "https://elsewhere.example" } });
     expect(foreign.status).toBe(403);
     expect(foreign.body.detail).toMatch(/Cross-site/);
+    expect(foreign.body.type).toBe("/problems/forbidden");
     const { baseURL } = await import("./api-client");
     const same = await api("POST", "/api/v1/tokens", { cookie, body: { name: "x" }, headers: { origin: baseURL } });
     expect(same.status).toBe(201);
@@ -321,9 +323,18 @@ describe("bad input names the field (422, problem+json)", () => {
       const res = await api(method, path(), { token: owner, body });
       expect(res.status).toBe(422);
       expect(res.contentType).toContain("application/problem+json");
+      expect(res.body.type).toBe("/problems/validation-failed");
       expect(res.body.errors.map((e: { field: string }) => e.field)).toContain(field);
     });
   }
+
+  it("a round number in the path that is not one says so in plain words, not the validator's text", async () => {
+    for (const part of ["abc", "0", "1.5"]) {
+      const res = await api("GET", `/api/v1/panels/${P}/rounds/${part}/statistics`, { token: owner });
+      expect(res.status, part).toBe(422);
+      expect(res.body.errors, part).toEqual([{ field: "roundNumber", message: "round must be a round number such as 2" }]);
+    }
+  });
 
   it("the first-run endpoint checks the password before anything else", async () => {
     const res = await api("POST", "/api/v1/setup", { body: { email: "x@example.com", name: "X", password: "short" } });

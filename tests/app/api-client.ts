@@ -3,11 +3,16 @@
  * tests/app/server-setup.ts started, account creation through the admin CLI on the same
  * database, sign-in through next-auth's credentials endpoint, and clearing the database after
  * a file so that other app tests (the browser test's first-run page) find it empty.
+ * Every JSON response `api()` receives is parsed with the schema the route table declares for it
+ * (checkResponse), so the OpenAPI document generated from that table cannot drift from the API.
  */
 import { execFileSync } from "node:child_process";
 import { randomBytes } from "node:crypto";
 import path from "node:path";
 import { expect, inject } from "vitest";
+import { isProblemKind, PROBLEM_TYPES, problemTypeUri } from "../../lib/problem-types";
+import { routes, type RouteDef } from "../../lib/http/routes";
+import { problem } from "../../lib/validation/outputs";
 import { signInAttempt as attemptSignIn } from "../../bench/harness";
 import { clearAllTables, dialectOf, openSql, type SqlConnection } from "../../bench/sql";
 
@@ -57,7 +62,42 @@ export async function api<T = any>(
   } catch {
     parsed = undefined;
   }
-  return { status: res.status, contentType: res.headers.get("content-type") ?? "", body: parsed as T, text };
+  const contentType = res.headers.get("content-type") ?? "";
+  checkResponse(method, urlPath, res.status, contentType, parsed);
+  return { status: res.status, contentType, body: parsed as T, text };
+}
+
+/** The route-table entry (lib/http/routes.ts) serving `method` on `urlPath`, if any. */
+export function routeOf(method: string, urlPath: string): RouteDef | undefined {
+  const pathname = urlPath.split("?")[0];
+  return (Object.values(routes) as RouteDef[]).find(
+    (r) => r.method === method.toUpperCase() && new RegExp(`^${r.path.replace(/\./g, "\\.").replace(/\{[^}]+\}/g, "[^/]+")}$`).test(pathname),
+  );
+}
+
+/**
+ * Fails the test when a response does not match what the route table declares: a success body
+ * (the route's status, or 200 for the replay of an idempotent request) against the route's
+ * response schema; a problem+json body against the Problem schema, with a known problem type whose
+ * status is the response's.
+ */
+export function checkResponse(method: string, urlPath: string, status: number, contentType: string, body: unknown): void {
+  const where = `${method} ${urlPath} → ${status}`;
+  if (contentType.startsWith("application/problem+json")) {
+    const parsed = problem.safeParse(body);
+    if (!parsed.success) throw new Error(`${where}: the problem body does not match the Problem schema: ${parsed.error.message}`);
+    const kind = parsed.data.type.replace(/^\/problems\//, "");
+    if (!isProblemKind(kind) || problemTypeUri(kind) !== parsed.data.type) throw new Error(`${where}: unknown problem type ${parsed.data.type}`);
+    if (PROBLEM_TYPES[kind].status !== status) throw new Error(`${where}: problem type ${parsed.data.type} is documented with status ${PROBLEM_TYPES[kind].status}`);
+    return;
+  }
+  const route = routeOf(method, urlPath);
+  if (!route || !contentType.startsWith("application/json") || route.produces) return;
+  if (status !== route.status && !(route.idempotent && status === 200)) {
+    throw new Error(`${where}: the route table documents ${route.status}${route.idempotent ? " (or 200 on replay)" : ""} as the success status`);
+  }
+  const parsed = route.response.safeParse(body);
+  if (!parsed.success) throw new Error(`${where}: the body does not match the ${route.operationId} response schema: ${parsed.error.message}`);
 }
 
 /** Runs `node bin/triangulate.mjs …` on the test database; returns stdout. */

@@ -102,6 +102,8 @@ describe("a panel run by script with an API token", () => {
     }
     const dup = await api("POST", "/api/v1/roster", { token: org, body: { name: "Again", email: emails[0] } });
     expect(dup.status).toBe(409);
+    // Problem types: lib/problem-types.ts (RFC 9457 §3.1.1), one per conflict kind.
+    expect(dup.body.type).toBe("/problems/duplicate-roster-member");
     const inv = await api("POST", `/api/v1/panels/${panelId}/invitations`, { token: org, body: { rosterMemberIds: memberIds } });
     expect(inv.status).toBe(201);
     expect(inv.body).toHaveLength(5);
@@ -123,6 +125,7 @@ describe("a panel run by script with an API token", () => {
     expect(res.status).toBe(409);
     expect(res.contentType).toContain("application/problem+json");
     expect(res.body.detail).toMatch(/Round 1 has not opened yet/);
+    expect(res.body.type).toBe("/problems/round-not-open");
   });
 
   it("opens round 1 and the panel starts running", async () => {
@@ -165,6 +168,7 @@ describe("a panel run by script with an API token", () => {
     expect(retry.body).toEqual({ replayed: true, answer: first.body.answer });
     const misuse = await answer(0, { questionId: qIds[0], value: 1950 }, { "idempotency-key": "retry-1" });
     expect(misuse.status).toBe(409);
+    expect(misuse.body.type).toBe("/problems/idempotency-key-reused");
     const second = await answer(0, { questionId: qIds[0], value: 2000 });
     expect(second.body.answer.version).toBe(2);
     const view = await api("GET", "/api/v1/panelist/panel", { token: tokens[0] });
@@ -191,6 +195,7 @@ describe("a panel run by script with an API token", () => {
     expect(close.body.status).toBe("closed");
     const again = await api("POST", `/api/v1/panels/${panelId}/rounds/1/close`, { token: org });
     expect(again.status).toBe(409);
+    expect(again.body.type).toBe("/problems/round-not-open");
     const res = await api("GET", `/api/v1/panels/${panelId}/rounds/1/statistics`, { token: org });
     expect(res.status).toBe(200);
     const [s1, s2, s3] = res.body.questions;
@@ -209,6 +214,7 @@ describe("a panel run by script with an API token", () => {
     const res = await answer(2, { questionId: qIds[0], value: 3000 });
     expect(res.status).toBe(409);
     expect(res.body.detail).toMatch(/Round 1 closed at .*answers are no longer accepted/);
+    expect(res.body.type).toBe("/problems/round-closed");
   });
 
   it("gives each panelist feedback matching R, with their own answer and nobody else's identity", async () => {
@@ -324,6 +330,7 @@ describe("a panel run by script with an API token", () => {
       api("GET", `/api/v1/panels/${panelId}/rounds`, { token: org }),
     ]);
     expect(late.status).toBe(409);
+    expect(late.body.type).toBe("/problems/round-closed");
     expect(p1.body.acceptingAnswers).toBe(false);
     expect(p2.status).toBe(200);
     expect(rounds.body[2]).toMatchObject({ number: 3, status: "closed", closedAt: past.toISOString() });
@@ -339,8 +346,11 @@ describe("a panel run by script with an API token", () => {
     const fourth = await api("POST", `/api/v1/panels/${panelId}/rounds`, { token: org, body: {} });
     expect(fourth.status).toBe(409);
     expect(fourth.body.detail).toMatch(/round limit of 3/);
+    expect(fourth.body.type).toBe("/problems/round-limit-reached");
     const fin = await api("POST", `/api/v1/panels/${panelId}/finish`, { token: org });
     expect(fin.body).toEqual({ id: panelId, status: "finished" });
-    expect((await answer(0, { questionId: qIds[0], value: 3000 })).status).toBe(409);
+    const after = await answer(0, { questionId: qIds[0], value: 3000 });
+    expect(after.status).toBe(409);
+    expect(after.body.type).toBe("/problems/panel-finished");
   });
 });

@@ -27,6 +27,7 @@ describe("POST /api/v1/setup", () => {
     expect(second.status).toBe(409);
     expect(second.contentType).toContain("application/problem+json");
     expect(second.body.detail).toMatch(/organiser already exists/);
+    expect(second.body.type).toBe("/problems/account-exists");
   });
 
   it("a wrong password does not sign in", async () => {
@@ -79,6 +80,28 @@ describe("GET /api/v1/openapi.json", () => {
     expect(answer.parameters.map((p: { name: string }) => p.name)).toContain("Idempotency-Key");
     expect(answer.responses["422"].content["application/problem+json"].schema.$ref).toBe("#/components/schemas/Problem");
     expect(doc.components.schemas.Problem.properties.errors.items.properties.field.type).toBe("string");
+    // The idempotent replay of an answer (lib/panels/answers.ts) answers 200 with the stored answer.
+    expect(Object.keys(answer.responses)).toEqual(expect.arrayContaining(["200", "201"]));
+    expect(answer.responses["200"].content["application/json"].schema).toEqual(answer.responses["201"].content["application/json"].schema);
+  });
+
+  it("lists every problem type with a title and a description, and serves each as a page", async () => {
+    const doc = (await api("GET", "/api/v1/openapi.json")).body;
+    const types: { const: string; title: string; description: string }[] = doc.components.schemas.Problem.properties.type.anyOf;
+    // The kinds the API documents for clients (lib/problem-types.ts); RFC 9457 §3.1.1 wants each type stable.
+    for (const kind of ["round-not-open", "round-closed", "panel-finished", "idempotency-key-reused", "duplicate-roster-member", "rate-limited", "validation-failed", "not-found", "forbidden", "unauthenticated", "too-large", "sign-in-failed"]) {
+      const t = types.find((x) => x.const === `/problems/${kind}`);
+      expect(t, kind).toBeDefined();
+      expect(t!.title.length, kind).toBeGreaterThan(3);
+      expect(t!.description.length, kind).toBeGreaterThan(20);
+    }
+    const page = await fetch(`${baseURL}/problems/round-closed`);
+    expect(page.status).toBe(200);
+    expect(page.headers.get("content-type")).toContain("text/html");
+    const html = await page.text();
+    expect(html).toContain("Round closed");
+    expect(html).toContain("409");
+    expect((await fetch(`${baseURL}/problems/no-such-kind`)).status).toBe(404);
   });
 });
 
@@ -88,6 +111,7 @@ describe("unknown API paths", () => {
     expect(res.status).toBe(404);
     expect(res.contentType).toContain("application/problem+json");
     expect(res.body.detail).toMatch(/openapi\.json/);
+    expect(res.body.type).toBe("/problems/not-found");
   });
 
   it("answer a method a path does not serve with 405 problem+json and an Allow header listing the ones it does (RFC 9110 §15.5.6)", async () => {

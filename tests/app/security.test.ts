@@ -140,7 +140,7 @@ describe("request bodies", () => {
     for (const chunked of [false, true]) {
       const res = await postBig(chunked);
       expect(res.status, chunked ? "chunked" : "content-length").toBe(413);
-      expect(JSON.parse(res.body)).toMatchObject({ status: 413, title: "Payload Too Large" });
+      expect(JSON.parse(res.body)).toMatchObject({ type: "/problems/too-large", status: 413, title: "Payload Too Large" });
     }
   });
 
@@ -149,7 +149,7 @@ describe("request bodies", () => {
     for (const chunked of [false, true]) {
       const res = await postBig(chunked, "/api/auth/callback/credentials", form, "email=a%40example.com&password=", "");
       expect(res.status, chunked ? "chunked" : "content-length").toBe(413);
-      expect(JSON.parse(res.body)).toMatchObject({ status: 413, title: "Payload Too Large" });
+      expect(JSON.parse(res.body)).toMatchObject({ type: "/problems/too-large", status: 413, title: "Payload Too Large" });
     }
     // A sign-in of ordinary size still works.
     expect(await signIn(createAccount("Odile Brand"))).toMatch(/^next-auth.session-token=/);
@@ -178,6 +178,7 @@ describe("rate limits", () => {
     expect(limited.headers.get("content-type")).toBe("application/problem+json");
     expect(Number(limited.headers.get("retry-after"))).toBeGreaterThan(0);
     expect(limited.headers.getSetCookie().some((c) => c.startsWith("next-auth.session-token="))).toBe(false);
+    expect((await limited.clone().json()).type).toBe("/problems/rate-limited");
     // Another account is not affected.
     expect(await signIn(createAccount("Vera Holm"))).toMatch(/^next-auth.session-token=/);
   });
@@ -200,9 +201,18 @@ describe("rate limits", () => {
     // 10 wrong passwords, as JSON and on encoded paths: each counts against the account.
     const paths = ["/api/auth/callback/credentials", "/api/auth/callback/credential%73", "/api/auth/%63allback/credentials"];
     for (let i = 0; i < 10; i++) {
-      const res = await attempt(paths[i % 3], `wrong-${i}`, i % 2 === 0);
-      expect(res.status).not.toBe(429);
+      const json = i % 2 === 0;
+      const res = await attempt(paths[i % 3], `wrong-${i}`, json);
       expect(hasSession(res)).toBe(false);
+      if (json) {
+        // An API client (JSON body) gets 401 problem+json; the browser's form keeps next-auth's answer.
+        expect(res.status).toBe(401);
+        expect(res.headers.get("content-type")).toBe("application/problem+json");
+        expect(await res.json()).toMatchObject({ type: "/problems/sign-in-failed", status: 401 });
+      } else {
+        expect(res.headers.get("content-type")).toContain("application/json");
+        expect((await res.json()).url).toMatch(/error=CredentialsSignin/);
+      }
     }
     for (const path of paths) {
       for (const json of [false, true]) {

@@ -5,6 +5,7 @@
  * the database.
  */
 import { spawn, spawnSync } from "node:child_process";
+import { createHash } from "node:crypto";
 import { existsSync, mkdtempSync, rmSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
@@ -83,6 +84,43 @@ describe("create-organiser", () => {
     expect(run(["create-organiser", "--email", "x@example.com"]).code).toBe(2);
     expect(run(["create-organiser", "--bogus"]).code).toBe(2);
     expect(run(["create-organiser", "--email", "y@example.com", "--name", "Y", "--password", "long enough pass", "--role", "admin"]).code).toBe(2);
+  });
+});
+
+describe("create-token", () => {
+  it("prints a new API token of an organiser once; only its SHA-256 digest is stored, with the expiry asked for", () => {
+    const before = Date.now();
+    const r = run(["create-token", "--email", "IDA.PENROSE@example.com", "--name", "nightly export", "--days", "30"]);
+    expect(r.code, r.err).toBe(0);
+    expect(r.out).toMatch(/^trg_pat_[A-Za-z0-9_-]{43}\n$/);
+    const token = r.out.trim();
+    // SHA-256 (FIPS 180-4) of the printed token, computed here with node:crypto.
+    const digest = createHash("sha256").update(token).digest("hex");
+    const rows = query<{ name: string; tokenHash: string; createdAt: number | string; expiresAt: number | string }>(
+      dbFile,
+      `SELECT t.name, t.tokenHash, t.createdAt, t.expiresAt FROM ApiToken t JOIN User u ON u.id = t.userId WHERE u.email = 'ida.penrose@example.com'`,
+    );
+    expect(rows).toHaveLength(1);
+    expect(rows[0].name).toBe("nightly export");
+    expect(rows[0].tokenHash).toBe(digest);
+    expect(JSON.stringify(rows)).not.toContain(token);
+    // 30 days = 30 × 86 400 000 ms.
+    const ms = (v: number | string) => (typeof v === "number" ? v : Date.parse(v));
+    expect(ms(rows[0].expiresAt) - ms(rows[0].createdAt)).toBe(30 * 86_400_000);
+    expect(ms(rows[0].createdAt)).toBeGreaterThanOrEqual(before - 1000);
+    expect(r.err).toMatch(/shown only now/);
+  });
+
+  it("exits 1 for an unknown e-mail or a reviewer, 2 for bad usage", () => {
+    const unknown = run(["create-token", "--email", "nobody@example.com"]);
+    expect(unknown.code).toBe(1);
+    expect(unknown.err).toMatch(/organiser with e-mail nobody@example.com was not found/);
+    expect(unknown.out).toBe("");
+    expect(run(["create-token", "--email", "rev@example.com"]).code).toBe(1);
+    const zero = run(["create-token", "--email", "ida.penrose@example.com", "--days", "0"]);
+    expect(zero.code).toBe(2);
+    expect(zero.err).toMatch(/--days: at least 1/);
+    expect(run(["create-token", "--days", "30"]).code).toBe(2);
   });
 });
 

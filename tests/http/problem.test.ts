@@ -18,7 +18,7 @@ describe("toProblem", () => {
     expect(res.status).toBe(422);
     expect(res.headers.get("content-type")).toBe("application/problem+json");
     const body = await res.json();
-    expect(body).toMatchObject({ type: "about:blank", title: "Invalid input", status: 422, instance: "/api/v1/panels" });
+    expect(body).toMatchObject({ type: "/problems/validation-failed", title: "Invalid input", status: 422, instance: "/api/v1/panels" });
     expect(body.errors).toEqual([
       { field: "title", message: "must not be empty" },
       { field: "questions.0.lowerBound", message: "lower bound must be below the upper bound" },
@@ -26,17 +26,21 @@ describe("toProblem", () => {
   });
 
   it("maps domain errors to their statuses; 401 carries a Bearer challenge, 403 does not", async () => {
-    const cases: [Error, number][] = [
-      [new NotAuthenticatedError(), 401],
-      [new ForbiddenError(), 403],
-      [new NotFoundError("The panel"), 404],
-      [new ConflictError("Round 2 is closed, not open."), 409],
-      [new InvalidInputError([{ field: "rationale", message: "required" }]), 422],
+    // Statuses: RFC 9110 §15.5 (401, 403, 404, 409, 422); types: the kinds of lib/problem-types.ts.
+    const cases: [Error, number, string][] = [
+      [new NotAuthenticatedError(), 401, "/problems/unauthenticated"],
+      [new ForbiddenError(), 403, "/problems/forbidden"],
+      [new NotFoundError("The panel"), 404, "/problems/not-found"],
+      [new ConflictError("round-not-open", "Round 2 is closed, not open."), 409, "/problems/round-not-open"],
+      [new ConflictError("panel-finished", "The panel is finished."), 409, "/problems/panel-finished"],
+      [new InvalidInputError([{ field: "rationale", message: "required" }]), 422, "/problems/validation-failed"],
     ];
-    for (const [err, status] of cases) {
+    for (const [err, status, type] of cases) {
       const res = toProblem(err);
       expect(res.status).toBe(status);
-      expect((await res.json()).detail).toBe(err.message);
+      const body = await res.json();
+      expect(body.detail).toBe(err.message);
+      expect(body.type).toBe(type);
       expect(res.headers.has("www-authenticate")).toBe(status === 401);
     }
   });
@@ -49,7 +53,7 @@ describe("toProblem", () => {
       expect(res.status).toBe(500);
       const text = await res.text();
       expect(text).not.toMatch(/SQLITE|secret|path\.db/);
-      expect(JSON.parse(text)).toEqual({ type: "about:blank", title: "Internal Server Error", status: 500, detail: "Something went wrong on the server." });
+      expect(JSON.parse(text)).toEqual({ type: "/problems/server-error", title: "Internal Server Error", status: 500, detail: "Something went wrong on the server." });
     } finally {
       console.error = original;
     }
