@@ -62,8 +62,12 @@ export function panelReads(options: { wholeRounds?: boolean } = {}): PanelReads 
     async resolutions(ownerId, filter) {
       return filterResolutions(await allResolutions(ownerId, () => loadResolutions(ownerId)), filter);
     },
-    trackRecords(ownerId, filter) {
-      return records(filterKey(ownerId, filter), async () => trackRecordsOf(await reads.resolutions(ownerId, filter)));
+    async trackRecords(ownerId, filter) {
+      const all = await allResolutions(ownerId, () => loadResolutions(ownerId));
+      const counted = filterResolutions(all, filter);
+      // The filter only leaves resolutions out: one that leaves none out (an unresolved question's)
+      // gives the records of all of them, computed once for every such question.
+      return records(counted.length === all.length ? `${ownerId}\u0000all` : filterKey(ownerId, filter), async () => trackRecordsOf(counted));
     },
     invitations(panelId) {
       return invitations(panelId, async () =>
