@@ -70,12 +70,14 @@ function answerView(a: Answer, roundNumber: number): AnswerView {
 
 /**
  * For round `roundNumber` (≥ 2): the questions on which the panelist's final answer in the
- * previous round lay outside that round's IQR, with the reason to show.
+ * previous round lay outside that round's IQR, with the reason to show. With `questionId`, only
+ * that question is checked (the answer path asks about the one question it stores).
  */
 export async function explanationsRequired(
   tx: Tx,
   panelist: PanelistActor,
   roundNumber: number,
+  questionId?: string,
 ): Promise<Map<string, string>> {
   const required = new Map<string, string>();
   if (roundNumber < 2) return required;
@@ -83,7 +85,10 @@ export async function explanationsRequired(
   if (!prev || prev.status !== "closed") return required;
   // The panelist's final (highest-version) answer per question, as finalAnswers() defines it,
   // read for this panelist only: the check runs on every answer, so it must not load the round.
-  const own = await tx.answer.findMany({ where: { roundId: prev.id, invitationId: panelist.invitationId }, orderBy: { version: "desc" } });
+  const own = await tx.answer.findMany({
+    where: { roundId: prev.id, invitationId: panelist.invitationId, ...(questionId === undefined ? {} : { questionId }) },
+    orderBy: { version: "desc" },
+  });
   const finals = new Map<string, Answer>();
   for (const a of own) if (!finals.has(a.questionId)) finals.set(a.questionId, a);
   for (const [questionId, { q1, q3 }] of await closedRoundQuartiles(tx, prev)) {
@@ -264,10 +269,13 @@ async function storeAnswer(me: PanelistActor, input: AnswerInput, key: string | 
   }
   const errors = answerFieldErrors(question, input);
   if (errors.length > 0) throw new InvalidInputError(errors, "The answer was not stored: correct the fields named below.");
-  // Depends only on the previous round, which is closed and no longer changes.
-  const required = await explanationsRequired(db, me, round.number);
-  if (required.has(question.id) && input.rationale.length === 0) {
-    throw new InvalidInputError([{ field: "rationale", message: required.get(question.id)! }], "A rationale is required for this answer.");
+  // Depends only on the previous round, which is closed and no longer changes; an answer with a
+  // rationale meets the rule whatever it says, so only an empty one is checked.
+  if (input.rationale.length === 0) {
+    const required = await explanationsRequired(db, me, round.number, question.id);
+    if (required.has(question.id)) {
+      throw new InvalidInputError([{ field: "rationale", message: required.get(question.id)! }], "A rationale is required for this answer.");
+    }
   }
   const low = input.low ?? null;
   const high = input.high ?? null;

@@ -22,10 +22,10 @@ import { trackRecord, type TrackRecord } from "@/lib/blend";
 import type { BaselineResult } from "@/lib/forecast/baseline";
 import { authorisePanel, type PanelRole } from "./access";
 import type { BaselinePreview } from "./baselines";
-import { getConvergence, type ConvergencePoint } from "./rounds";
+import type { ConvergencePoint } from "./rounds";
 import { resolutionView, type ResolutionView } from "./resolution";
 import { computeTriangulation, loadTriangulation, type CorrectedAnswer, type DepartureReport } from "./triangulation";
-import { trackRecordsFor } from "./track-records";
+import { panelReads, type PanelReads } from "./panel-reads";
 import { jsonSafe, type JsonSafe } from "./json";
 import { correctionSummary, namesRevealed } from "./report-views";
 import type { BlendInterval, Distribution } from "@/lib/blend";
@@ -128,21 +128,22 @@ const safeIntervals = (iv: readonly BlendInterval[]): Intervals => jsonSafe(iv) 
 
 /**
  * The report of one question (organisers and reviewers of the panel). Computed on read from the
- * stored answers, baseline, resolutions and rules (see lib/panels/triangulation.ts).
+ * stored answers, baseline, resolutions and rules (see lib/panels/triangulation.ts). A page that
+ * shows several questions passes one `reads` (lib/panels/panel-reads.ts) to them all.
  */
-export async function getQuestionReport(actor: Actor, panelId: string, questionId: string): Promise<QuestionReport> {
+export async function getQuestionReport(actor: Actor, panelId: string, questionId: string, reads: PanelReads = panelReads()): Promise<QuestionReport> {
   const access = await authorisePanel(actor, panelId, "read");
-  const loaded = await loadTriangulation(panelId, questionId);
+  const loaded = await loadTriangulation(panelId, questionId, reads);
   const t = computeTriangulation(loaded.input);
   const namesShown = await namesRevealed(actor, panelId, access.canManage);
-  const invitations = await db.invitation.findMany({ where: { panelId }, include: { rosterMember: { select: { name: true } } } });
-  const nameOf = (invitationId: string) => (namesShown ? (invitations.find((i) => i.id === invitationId)?.rosterMember.name ?? null) : null);
+  const names = new Map((await reads.invitations(panelId)).map((i) => [i.id, i.name]));
+  const nameOf = (invitationId: string) => (namesShown ? (names.get(invitationId) ?? null) : null);
   const stored = await db.baseline.findUnique({ where: { questionId } });
   const resolution = await db.resolution.findUnique({ where: { questionId } });
-  const convergence = await getConvergence(actor, panelId);
+  const convergence = await reads.convergence(actor, panelId);
   const cq = convergence.questions.find((q) => q.questionId === questionId);
   const verdict = convergence.evaluation?.questions.find((v) => v.questionId === questionId) ?? null;
-  const records = await trackRecordsFor(loaded.ownerId, { excludeQuestionId: questionId, ...(loaded.resolvedAt ? { before: loaded.resolvedAt } : {}) });
+  const records = await reads.trackRecords(loaded.ownerId, { excludeQuestionId: questionId, ...(loaded.resolvedAt ? { before: loaded.resolvedAt } : {}) });
 
   const panelists = t.panel?.answers ?? [];
   const trackPanelists = panelists.map((a) => {

@@ -15,13 +15,15 @@ type Tx = Prisma.TransactionClient;
 /**
  * The final answer of each panelist to each question in a round: their highest version.
  * Answers of revoked invitations still count (revoking ends access, it does not unsay answers).
+ * With `questionId`, only that question's answers are read (the map has at most that key).
  */
 export async function finalAnswers(
   tx: Tx,
   roundId: string,
+  questionId?: string,
 ): Promise<Map<string, (FinalAnswer & { invitationId: string; rationale: string; version: number; createdAt: Date })[]>> {
   const rows = await tx.answer.findMany({
-    where: { roundId },
+    where: questionId === undefined ? { roundId } : { roundId, questionId },
     orderBy: [{ version: "desc" }],
     include: { invitation: { select: { pseudonym: true } } },
   });

@@ -312,7 +312,10 @@ export async function getConvergence(actor: Actor, panelId: string): Promise<Con
     orderBy: { number: "asc" },
     include: { statistics: true },
   });
-  const statsOf = (r: (typeof rounds)[number]) => r.statistics.map((s) => JSON.parse(s.data) as QuestionStatistics);
+  // Each round's statistics parsed once, by question (not once per question: issue 13).
+  const parsed = new Map(rounds.map((r) => [r.id, r.statistics.map((s) => JSON.parse(s.data) as QuestionStatistics)]));
+  const byQuestion = new Map(rounds.map((r) => [r.id, new Map(parsed.get(r.id)!.map((s) => [s.questionId, s]))]));
+  const statsOf = (r: (typeof rounds)[number]) => parsed.get(r.id)!;
   const rules = panelRules(panel);
   const last = rounds.at(-1);
   const previous = rounds.at(-2);
@@ -336,7 +339,7 @@ export async function getConvergence(actor: Actor, panelId: string): Promise<Con
       unit: q.unit,
       aggregation: q.aggregation === "sum-of-parts" ? "sum-of-parts" : "shared",
       rounds: rounds.flatMap((r) => {
-        const s = statsOf(r).find((x) => x.questionId === q.id);
+        const s = byQuestion.get(r.id)!.get(q.id);
         if (!s) return [];
         const f = figuresOf(s);
         return [{ round: r.number, n: s.n, median: f.median, q1: s.values?.q1 ?? null, q3: s.values?.q3 ?? null, iqr: f.iqr, relativeIqr: f.relativeIqr, cv: f.cv, total: f.total }];

@@ -91,6 +91,13 @@ export interface HistoryFilter {
   readonly before?: Date;
 }
 
+/** The resolutions that count under `filter`, in their order (the in-memory form of {@link loadResolutions}' filter). */
+export function filterResolutions(resolutions: readonly ResolvedQuestion[], filter: HistoryFilter): ResolvedQuestion[] {
+  return resolutions.filter(
+    (r) => (filter.excludeQuestionId === undefined || r.questionId !== filter.excludeQuestionId) && (!filter.before || r.resolvedAt.getTime() < filter.before.getTime()),
+  );
+}
+
 /** The organiser's resolutions, oldest first. */
 export async function loadResolutions(ownerId: string, filter: HistoryFilter = {}): Promise<ResolvedQuestion[]> {
   const rows = await db.resolution.findMany({
@@ -135,15 +142,19 @@ export function recordsByMember(resolutions: readonly ResolvedQuestion[]): Map<s
   return out;
 }
 
-/** Track records (lib/blend `trackRecord`) of the organiser's roster members. */
-export async function trackRecordsFor(ownerId: string, filter: HistoryFilter = {}): Promise<Map<string, { record: TrackRecord; skipped: number }>> {
-  const byMember = recordsByMember(await loadResolutions(ownerId, filter));
+/** Track records (lib/blend `trackRecord`) per roster member from the given resolutions. */
+export function trackRecordsOf(resolutions: readonly ResolvedQuestion[]): Map<string, { record: TrackRecord; skipped: number }> {
   const out = new Map<string, { record: TrackRecord; skipped: number }>();
-  for (const [id, { records, skipped }] of byMember) {
+  for (const [id, { records, skipped }] of recordsByMember(resolutions)) {
     const record = trackRecord(records);
     out.set(id, { record, skipped: skipped + record.skipped });
   }
   return out;
+}
+
+/** Track records (lib/blend `trackRecord`) of the organiser's roster members. */
+export async function trackRecordsFor(ownerId: string, filter: HistoryFilter = {}): Promise<Map<string, { record: TrackRecord; skipped: number }>> {
+  return trackRecordsOf(await loadResolutions(ownerId, filter));
 }
 
 /** The resolved questions with a baseline, as blend-weight history and accuracy-history entries. */

@@ -71,8 +71,9 @@ import type { PanelWeightRule, PanelBlendRuleInput, QuestionBlendRuleInput } fro
 import { authorisePanel } from "./access";
 import { recordAudit } from "./audit";
 import { targetOf, type BaselineTarget } from "./baselines";
-import { finalAnswers, settleDeadlines } from "./round-closing";
-import { historyOf, loadResolutions, trackRecordsFor, type HistoryFilter } from "./track-records";
+import { settleDeadlines } from "./round-closing";
+import { historyOf, type HistoryFilter } from "./track-records";
+import { panelReads, type PanelReads } from "./panel-reads";
 import { jsonSafe, type JsonSafe } from "./json";
 import { correctionSummary, namesRevealed, withoutHistory, type AnswerWithoutHistory, type CorrectionSummary } from "./report-views";
 
@@ -396,8 +397,11 @@ export interface LoadedTriangulation {
   readonly resolvedAt: Date | null;
 }
 
-/** Loads a question's inputs (no access check: callers authorise). */
-export async function loadTriangulation(panelId: string, questionId: string): Promise<LoadedTriangulation> {
+/**
+ * Loads a question's inputs (no access check: callers authorise). `reads` shares the reads of
+ * one request across its questions (lib/panels/panel-reads.ts).
+ */
+export async function loadTriangulation(panelId: string, questionId: string, reads: PanelReads = panelReads()): Promise<LoadedTriangulation> {
   await settleDeadlines(panelId);
   const q = await db.question.findFirst({
     where: { id: questionId, panelId },
@@ -405,17 +409,17 @@ export async function loadTriangulation(panelId: string, questionId: string): Pr
   });
   if (!q) throw new NotFoundError("The question");
   const rounds = await db.round.findMany({ where: { panelId, status: "closed" }, orderBy: { number: "asc" } });
-  const invitations = await db.invitation.findMany({ where: { panelId }, select: { id: true, rosterMemberId: true } });
+  const invitations = await reads.invitations(panelId);
   const members = new Map(invitations.map((i) => [i.id, i.rosterMemberId]));
   const roundInputs: TriangulationRound[] = [];
   for (const r of rounds) {
-    const answers = (await finalAnswers(db, r.id)).get(questionId) ?? [];
+    const answers = await reads.finalAnswers(r.id, questionId);
     roundInputs.push({ round: r.number, answers: answers.map((a) => ({ invitationId: a.invitationId, pseudonym: a.pseudonym, value: a.value, low: a.low, high: a.high })) });
   }
   while (roundInputs.length > 0 && roundInputs.at(-1)!.answers.length === 0) roundInputs.pop();
   const resolvedAt = q.resolution?.resolvedAt ?? null;
   const filter: HistoryFilter = { excludeQuestionId: questionId, ...(resolvedAt ? { before: resolvedAt } : {}) };
-  const records = await trackRecordsFor(q.panel.ownerId, filter);
+  const records = await reads.trackRecords(q.panel.ownerId, filter);
   const factors: Record<string, BiasFactor> = {};
   const intervalHits: Record<string, { hits: number; count: number }> = {};
   for (const [invitationId, memberId] of members) {
@@ -426,7 +430,7 @@ export async function loadTriangulation(panelId: string, questionId: string): Pr
     }
   }
   const rule = effectiveRule(q.panel, q);
-  const resolutions = await loadResolutions(q.panel.ownerId, filter);
+  const resolutions = await reads.resolutions(q.panel.ownerId, filter);
   const pairs = historyOf(resolutions).pairs;
   const history = rule.rule === "inverse-mse" ? pairs : [];
   const blendStandardisedErrors = resolutions
@@ -486,9 +490,9 @@ export type TriangulationView = Omit<JsonSafe<Triangulation>, "panel"> & {
 };
 
 /** The triangulation of a question (organisers and reviewers of the panel). */
-export async function getTriangulation(actor: Actor, panelId: string, questionId: string): Promise<TriangulationView> {
+export async function getTriangulation(actor: Actor, panelId: string, questionId: string, reads?: PanelReads): Promise<TriangulationView> {
   const access = await authorisePanel(actor, panelId, "read");
-  const loaded = await loadTriangulation(panelId, questionId);
+  const loaded = await loadTriangulation(panelId, questionId, reads);
   const computed = computeTriangulation(loaded.input);
   const t = jsonSafe(computed);
   const namesShown = await namesRevealed(actor, panelId, access.canManage);

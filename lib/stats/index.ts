@@ -26,3 +26,4 @@ export {
 export { normalCdf, normalSurvival, normalDensity, normalQuantile } from "./normal";
 export { studentTCdf, studentTQuantile } from "./student-t";
 export { summarise, median, type Summary, type SummaryOptions } from "./summary";
+export { histogram, type HistogramBin } from "./histogram";

@@ -5,7 +5,9 @@
  * interquartile range — a request to explain their reasoning in the next round.
  *
  * Everything here comes from getFeedback (lib/panels/feedback.ts), which carries no name,
- * e-mail, id or pseudonym of anyone else; the chart receives bare numbers.
+ * e-mail, id or pseudonym of anyone else; the chart receives the group's histogram bins.
+ * Rationales: a bounded list (those nearest the panelist's answer) with a link to more
+ * (`moreHref` with `n=` the next count), or only a link to them (`rationales="link"`).
  */
 import type { QuestionFeedback as Feedback } from "@/lib/panels/feedback";
 import Figure from "./figure";
@@ -18,8 +20,12 @@ const POSITION = {
   "within-iqr": "within the interquartile range",
 } as const;
 
-export default function QuestionFeedback({ f, round, collapseRationales = false }: { f: Feedback; round: number; collapseRationales?: boolean }) {
+/** How many more rationales a "show more" link adds. */
+const MORE_STEP = 20;
+
+export default function QuestionFeedback({ f, round, rationales: mode = "list", moreHref }: { f: Feedback; round: number; rationales?: "list" | "link"; moreHref: string }) {
   const sum = f.aggregation === "sum-of-parts";
+  const rest = f.rationaleCount - f.rationales.length;
   const rationales = (
     <ul className="rationales">
       {f.rationales.map((r, i) => (
@@ -34,7 +40,7 @@ export default function QuestionFeedback({ f, round, collapseRationales = false 
     </ul>
   );
   return (
-    <div className="feedback" data-feedback-question={f.questionId}>
+    <div className="feedback" id={`f-${f.questionId}`} data-feedback-question={f.questionId}>
       <h4>
         Round {round} feedback <span className="muted small">({f.n} answer{f.n === 1 ? "" : "s"})</span>
       </h4>
@@ -102,9 +108,9 @@ export default function QuestionFeedback({ f, round, collapseRationales = false 
               )}
             </dd>
           </dl>
-          {f.values.length > 0 ? (
+          {f.histogram.length > 0 ? (
             <SpreadChart
-              values={f.values}
+              bins={f.histogram}
               own={f.myAnswer?.value ?? null}
               q1={sum ? null : f.q1}
               median={sum ? null : f.median}
@@ -114,8 +120,8 @@ export default function QuestionFeedback({ f, round, collapseRationales = false 
           ) : null}
           <p className="hint">
             {sum
-              ? "Each dot is one panelist's part, without names, and the diamond is yours. Each panelist estimates their own part, so the spread shows different parts, not disagreement."
-              : "Each dot is one anonymous answer; the shaded box runs from Q1 to Q3, the line marks the median, and the diamond is your answer. Quartiles by Hyndman & Fan (1996) definition 7."}
+              ? "Each bar counts the panelists' parts in its range, without names, and the diamond is yours. Each panelist estimates their own part, so the spread shows different parts, not disagreement."
+              : "Each bar counts the anonymous answers in its range; the shaded box runs from Q1 to Q3, the line marks the median, and the diamond is your answer. Quartiles by Hyndman & Fan (1996) definition 7."}
           </p>
           {f.explanationRequested ? (
             <p className="caution" role="note" data-explanation-requested="true">
@@ -124,16 +130,29 @@ export default function QuestionFeedback({ f, round, collapseRationales = false 
               think it is right; your reasons help the others.
             </p>
           ) : null}
-          {f.rationales.length > 0 ? (
-            collapseRationales ? (
-              <details>
-                <summary>Anonymous rationales ({f.rationales.length})</summary>
-                {rationales}
-              </details>
+          {f.rationaleCount > 0 ? (
+            mode === "link" ? (
+              <p className="small">
+                <a href={moreHref} data-rationales-link={f.rationaleCount}>
+                  Read the anonymous rationales ({f.rationaleCount})
+                </a>
+              </p>
             ) : (
               <>
-                <h5>Anonymous rationales</h5>
+                <h5>
+                  Anonymous rationales{" "}
+                  <span className="muted small">
+                    ({rest > 0 ? `the ${f.rationales.length} nearest ${f.myAnswer ? "your answer" : "the median"} of ${f.rationaleCount}` : f.rationaleCount})
+                  </span>
+                </h5>
                 {rationales}
+                {rest > 0 ? (
+                  <p className="small">
+                    <a href={`${moreHref}&n=${f.rationales.length + MORE_STEP}#f-${f.questionId}`} data-more-rationales={rest}>
+                      Show {Math.min(rest, MORE_STEP)} more
+                    </a>
+                  </p>
+                ) : null}
               </>
             )
           ) : (

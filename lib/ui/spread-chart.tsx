@@ -1,18 +1,19 @@
 "use client";
 /**
- * Spread of one closed round's answers on a number line: each anonymous answer is a dot
- * (equal answers are stacked), the interquartile range is a shaded box, the median a line,
- * and the viewer's own answer a larger diamond. The chart receives bare numbers only: no
- * names, ids or pseudonyms ever reach it.
+ * Spread of one closed round's answers on a number line: a histogram of the answers (the
+ * group's bins, lib/stats `histogram`), the interquartile range as a shaded box, the median as a
+ * line, and the viewer's own answer as a diamond. The chart receives the bins and figures only:
+ * no single answer, name, id or pseudonym reaches it.
  */
 import { useEffect, useRef } from "react";
 import { Chart, ScatterController, PointElement, LinearScale, Tooltip, Legend, type Plugin } from "chart.js";
+import type { HistogramBin } from "@/lib/stats/histogram";
 
 Chart.register(ScatterController, PointElement, LinearScale, Tooltip, Legend);
 
 export interface SpreadChartProps {
-  /** Every answer of the round, own included, in any order. */
-  readonly values: readonly number[];
+  /** The round's answers as histogram bins (own answer included). */
+  readonly bins: readonly HistogramBin[];
   /** The viewer's own answer, if they answered that round. */
   readonly own: number | null;
   /** Quartiles and median; null draws no box (sum-of-parts: the parts differ by design). */
@@ -22,35 +23,29 @@ export interface SpreadChartProps {
   readonly unit: string;
 }
 
-/** Stacks equal values: the k-th occurrence of a value is drawn at height k. */
-function stack(values: readonly number[]): { x: number; y: number }[] {
-  const seen = new Map<number, number>();
-  return [...values]
-    .sort((a, b) => a - b)
-    .map((x) => {
-      const k = (seen.get(x) ?? 0) + 1;
-      seen.set(x, k);
-      return { x, y: k };
-    });
-}
-
-export default function SpreadChart({ values, own, q1, median, q3, unit }: SpreadChartProps) {
+export default function SpreadChart({ bins, own, q1, median, q3, unit }: SpreadChartProps) {
   const canvas = useRef<HTMLCanvasElement>(null);
+  const answers = bins.reduce((n, b) => n + b.count, 0);
   useEffect(() => {
     if (!canvas.current) return;
-    const others = [...values];
-    if (own !== null) {
-      const i = others.indexOf(own);
-      if (i >= 0) others.splice(i, 1);
-    }
-    const dots = stack(others);
-    const ownHeight = own === null ? 0 : dots.filter((d) => d.x === own).length + 1;
-    const maxY = Math.max(2, ...dots.map((d) => d.y), ownHeight) + 1;
+    const maxY = Math.max(1, ...bins.map((b) => b.count)) * 1.2;
+    const ownBin = own === null ? undefined : bins.find((b) => own >= b.lower && own <= b.upper);
+    const ownHeight = ownBin ? ownBin.count + maxY * 0.08 : maxY * 0.5;
     const box: Plugin<"scatter"> = {
       id: "iqr-box",
       beforeDatasetsDraw(chart) {
-        if (q1 === null || q3 === null || median === null) return;
         const { ctx, chartArea, scales } = chart;
+        ctx.save();
+        ctx.fillStyle = "rgba(29, 35, 43, 0.45)";
+        for (const b of bins) {
+          const x0 = scales.x.getPixelForValue(b.lower);
+          const x1 = scales.x.getPixelForValue(b.upper);
+          const top = scales.y.getPixelForValue(b.count);
+          const w = Math.max(4, x1 - x0 - 1);
+          ctx.fillRect(x1 - x0 < 4 ? x0 - 2 : x0, top, w, scales.y.getPixelForValue(0) - top);
+        }
+        ctx.restore();
+        if (q1 === null || q3 === null || median === null) return;
         const x1 = scales.x.getPixelForValue(q1);
         const x3 = scales.x.getPixelForValue(q3);
         const xm = scales.x.getPixelForValue(median);
@@ -66,7 +61,7 @@ export default function SpreadChart({ values, own, q1, median, q3, unit }: Sprea
         ctx.restore();
       },
     };
-    const all = [...values, ...(q1 === null || q3 === null ? [] : [q1, q3])];
+    const all = [...bins.flatMap((b) => [b.lower, b.upper]), ...(q1 === null || q3 === null ? [] : [q1, q3])];
     const lo = Math.min(...all);
     const hi = Math.max(...all);
     const pad = hi > lo ? (hi - lo) * 0.08 : Math.max(1, Math.abs(hi) * 0.1);
@@ -74,14 +69,8 @@ export default function SpreadChart({ values, own, q1, median, q3, unit }: Sprea
       type: "scatter",
       data: {
         datasets: [
-          {
-            label: "Panel answers",
-            data: dots,
-            backgroundColor: "rgba(29, 35, 43, 0.55)",
-            pointRadius: 5,
-          },
           ...(own === null
-            ? []
+            ? [{ label: "Panel answers", data: [] as { x: number; y: number }[] }]
             : [
                 {
                   label: "Your answer",
@@ -109,13 +98,13 @@ export default function SpreadChart({ values, own, q1, median, q3, unit }: Sprea
       plugins: [box],
     });
     return () => chart.destroy();
-  }, [values, own, q1, median, q3, unit]);
+  }, [bins, own, q1, median, q3, unit]);
   return (
-    <div className="chart-box chart-box-short" data-chart="spread" data-answers={values.length} data-own={own ?? ""}>
+    <div className="chart-box chart-box-short" data-chart="spread" data-answers={answers} data-own={own ?? ""}>
       <canvas
         ref={canvas}
         role="img"
-        aria-label={`Spread of the panel's answers in ${unit}${q1 === null ? "" : ": shaded box from Q1 to Q3, line at the median"}${own === null ? "" : ", diamond at your answer"}`}
+        aria-label={`Histogram of the panel's ${answers} answers in ${unit}${q1 === null ? "" : ": shaded box from Q1 to Q3, line at the median"}${own === null ? "" : ", diamond at your answer"}`}
       />
     </div>
   );

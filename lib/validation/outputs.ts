@@ -262,11 +262,12 @@ export const feedback = z.object({
       max: numOrNull,
       pooled: z.object({ p10: num, p50: num, p90: num }).nullable(),
       total: numOrNull,
-      values: z.array(num),
+      histogram: z.array(z.object({ lower: num, upper: num, count: z.number().int() })),
       myAnswer: z.object({ value: num, low: numOrNull, high: numOrNull }).nullable(),
       myPosition: z.enum(["below-iqr", "within-iqr", "above-iqr"]).nullable(),
       explanationRequested: z.boolean(),
       rationales: z.array(z.object({ value: num, rationale: z.string() })),
+      rationaleCount: z.number().int(),
     }),
   ),
 });

@@ -224,11 +224,15 @@ describe("a panel run by script with an API token", () => {
     expect(b.body.round).toBe(1);
     const f = b.body.questions[0];
     expect([f.q1, f.median, f.q3]).toEqual([q1, med, q3]);
-    expect(f.values).toEqual([...R1.q1].sort((x, y) => x - y));
+    // The spread goes as histogram bins, not every value: counts and breaks from R's hist() with Sturges' bin count.
+    const [counts, breaks] = runR(`x <- ${rVector(R1.q1)}; r <- hist(x, breaks = seq(min(x), max(x), length.out = nclass.Sturges(x) + 1), plot = FALSE); out(r$counts); out(r$breaks)`);
+    expect(f.histogram.map((h: { count: number }) => h.count)).toEqual(counts);
+    expectClose([f.histogram[0].lower, ...f.histogram.map((h: { upper: number }) => h.upper)], breaks, 1e-14, "feedback histogram breaks vs R");
     expect(f.myAnswer).toEqual({ value: 2600, low: null, high: null });
     expect(f.myPosition).toBe("within-iqr"); // 2600 equals Q1: not below it
     expect(f.explanationRequested).toBe(false);
     expect(f.rationales).toHaveLength(5);
+    expect(f.rationaleCount).toBe(5);
     expect(f.rationales.map((r: { value: number }) => r.value)).toEqual([...R1.q1].sort((x, y) => x - y));
     const reveal = await api("POST", `/api/v1/panels/${panelId}/reveal`, { token: org, body: { reason: "test of feedback anonymity" } });
     const pseudonyms = reveal.body.map((r: { pseudonym: string }) => r.pseudonym);

@@ -64,7 +64,7 @@ export default async function PanelistPage({ params }: { params: Promise<{ token
               In {q.unit}, for {q.targetPeriod}. Plausible range {formatNumber(q.lowerBound, 8)} to {formatNumber(q.upperBound, 8)}.
               {q.aggregation === "sum-of-parts" ? " Estimate your own part (e.g. your territory); the panel adds the parts." : ""}
             </p>
-            {showInlineFeedback && f && feedback.round !== null ? <QuestionFeedback f={f} round={feedback.round} collapseRationales /> : null}
+            {showInlineFeedback && f && feedback.round !== null ? <QuestionFeedback f={f} round={feedback.round} rationales="link" moreHref={`/p/${token}/feedback?q=${encodeURIComponent(q.id)}#f-${q.id}`} /> : null}
             {q.answer ? (
               <p className="current-answer" data-current-answer={q.answer.value}>
                 Your answer in round {q.answer.roundNumber}:{" "}
@@ -133,7 +133,7 @@ export default async function PanelistPage({ params }: { params: Promise<{ token
                 <FieldError name="questionId" />
               </ActionForm>
             ) : !showInlineFeedback && f && feedback.round !== null ? (
-              <QuestionFeedback f={f} round={feedback.round} collapseRationales />
+              <QuestionFeedback f={f} round={feedback.round} rationales="link" moreHref={`/p/${token}/feedback?q=${encodeURIComponent(q.id)}#f-${q.id}`} />
             ) : null}
           </section>
         );

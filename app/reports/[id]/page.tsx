@@ -4,6 +4,7 @@ import { NotFoundError } from "@/lib/errors";
 import { getPanel } from "@/lib/panels/panels";
 import { getConvergencePage } from "@/lib/panels/views";
 import { getQuestionReport } from "@/lib/panels/report";
+import { panelReads } from "@/lib/panels/panel-reads";
 import ConvergenceView from "@/lib/ui/convergence-view";
 import Figure from "@/lib/ui/figure";
 import { formatDateTime } from "@/lib/ui/format";
@@ -22,7 +23,8 @@ export default async function ReportPage({ params }: { params: Promise<{ id: str
     throw error;
   }
   const convergence = await getConvergencePage(user, id);
-  const reports = await Promise.all(panel.questions.map((q) => getQuestionReport(user, id, q.id)));
+  const reads = panelReads({ wholeRounds: true });
+  const reports = await Promise.all(panel.questions.map((q) => getQuestionReport(user, id, q.id, reads)));
   return (
     <article>
       <p className="muted small">

@@ -1,5 +1,6 @@
 import type { Metadata } from "next";
-import { getFeedback } from "@/lib/panels/feedback";
+import { getFeedback, RATIONALES_SHOWN } from "@/lib/panels/feedback";
+import { MAX_PANELISTS_PER_PANEL } from "@/lib/validation/limits";
 import LinkProblem from "@/lib/ui/link-problem";
 import { panelistFromLink } from "@/lib/ui/panelist-access";
 import QuestionFeedback from "@/lib/ui/question-feedback";
@@ -7,11 +8,14 @@ import QuestionFeedback from "@/lib/ui/question-feedback";
 export const metadata: Metadata = { title: "Feedback", referrer: "no-referrer", robots: { index: false, follow: false } };
 export const dynamic = "force-dynamic";
 
-export default async function FeedbackPage({ params }: { params: Promise<{ token: string }> }) {
+export default async function FeedbackPage({ params, searchParams }: { params: Promise<{ token: string }>; searchParams: Promise<{ q?: string | string[]; n?: string | string[] }> }) {
   const { token } = await params;
+  const { q, n } = await searchParams;
   const who = await panelistFromLink(token);
   if ("problem" in who) return <LinkProblem problem={who.problem} />;
-  const feedback = await getFeedback(who.actor);
+  // ?q=<question id>&n=<count>: more of that question's rationales (the "show more" links).
+  const count = Math.min(MAX_PANELISTS_PER_PANEL, Math.max(RATIONALES_SHOWN, Math.trunc(Number(typeof n === "string" ? n : RATIONALES_SHOWN)) || RATIONALES_SHOWN));
+  const feedback = await getFeedback(who.actor, typeof q === "string" ? { questionId: q, count } : undefined);
   return (
     <article className="panelist-page">
       <p>
@@ -34,7 +38,7 @@ export default async function FeedbackPage({ params }: { params: Promise<{ token
               <h2>
                 {i + 1}. {f.text}
               </h2>
-              <QuestionFeedback f={f} round={feedback.round!} />
+              <QuestionFeedback f={f} round={feedback.round!} moreHref={`/p/${token}/feedback?q=${encodeURIComponent(f.questionId)}`} />
             </section>
           ))}
         </>

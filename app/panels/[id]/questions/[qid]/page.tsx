@@ -5,6 +5,7 @@ import { listAuditEvents } from "@/lib/panels/audit";
 import { getBaseline, type BaselineView } from "@/lib/panels/baselines";
 import { getPanel } from "@/lib/panels/panels";
 import { getQuestionReport } from "@/lib/panels/report";
+import { panelReads } from "@/lib/panels/panel-reads";
 import { getTriangulation } from "@/lib/panels/triangulation";
 import { BASELINE_METHODS } from "@/lib/validation/triangulation-inputs";
 import ActionForm, { FieldError } from "@/lib/ui/action-form";
@@ -50,9 +51,10 @@ export default async function QuestionPage({ params }: { params: Promise<{ id: s
   if (panel.role === "reviewer") redirect(`/reports/${id}/questions/${qid}`);
   const question = panel.questions.find((q) => q.id === qid);
   if (!question) notFound();
+  const reads = panelReads();
   const [report, triangulation, baseline, audit] = await Promise.all([
-    getQuestionReport(user, id, qid),
-    getTriangulation(user, id, qid),
+    getQuestionReport(user, id, qid, reads),
+    getTriangulation(user, id, qid, reads),
     baselineOrNull(() => getBaseline(user, id, qid)),
     listAuditEvents(user, id),
   ]);

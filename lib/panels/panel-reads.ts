@@ -1,0 +1,86 @@
+/**
+ * The reads that the question reports and triangulations of one request share, each done once
+ * per request and then filtered per question in memory (issue 13: the panel report built each
+ * question's report from its own reads of every closed round, the organiser's resolutions and
+ * the convergence view, so its cost grew with questions × answers).
+ *
+ * A PanelReads belongs to one request of one actor (callers authorise before they read) and is
+ * dropped with it: nothing is kept between requests, so no figure can outlive a changed input.
+ * `wholeRounds` reads each closed round's final answers once for all questions (a page that
+ * shows every question); without it only the asked question's answers are read.
+ */
+import { db } from "@/lib/db";
+import type { Actor } from "@/lib/accounts/actor";
+import type { TrackRecord } from "@/lib/blend";
+import { finalAnswers } from "./round-closing";
+import { getConvergence, type ConvergenceView } from "./rounds";
+import { filterResolutions, loadResolutions, trackRecordsOf, type HistoryFilter, type ResolvedQuestion } from "./track-records";
+
+type FinalAnswerRow = NonNullable<ReturnType<Awaited<ReturnType<typeof finalAnswers>>["get"]>>[number];
+
+export interface PanelReads {
+  /** The final answers to one question in one round (finalAnswers' rows). */
+  finalAnswers(roundId: string, questionId: string): Promise<readonly FinalAnswerRow[]>;
+  /** The organiser's resolutions that count under `filter` (as loadResolutions with it). */
+  resolutions(ownerId: string, filter: HistoryFilter): Promise<readonly ResolvedQuestion[]>;
+  /** Track records under `filter` (as trackRecordsFor with it). */
+  trackRecords(ownerId: string, filter: HistoryFilter): Promise<ReadonlyMap<string, { record: TrackRecord; skipped: number }>>;
+  /** The panel's invitations with their roster member and its name. */
+  invitations(panelId: string): Promise<readonly { id: string; rosterMemberId: string; name: string }[]>;
+  /** The panel's convergence view (getConvergence). */
+  convergence(actor: Actor, panelId: string): Promise<ConvergenceView>;
+}
+
+function memo<T>(): (key: string, load: () => Promise<T>) => Promise<T> {
+  const kept = new Map<string, Promise<T>>();
+  return (key, load) => {
+    let p = kept.get(key);
+    if (!p) {
+      p = load();
+      kept.set(key, p);
+    }
+    return p;
+  };
+}
+
+const filterKey = (ownerId: string, f: HistoryFilter) => `${ownerId}\u0000${f.excludeQuestionId ?? ""}\u0000${f.before?.getTime() ?? ""}`;
+
+/** A fresh set of shared reads for one request (see the module comment). */
+export function panelReads(options: { wholeRounds?: boolean } = {}): PanelReads {
+  const rounds = memo<Awaited<ReturnType<typeof finalAnswers>>>();
+  const allResolutions = memo<ResolvedQuestion[]>();
+  const records = memo<ReadonlyMap<string, { record: TrackRecord; skipped: number }>>();
+  const invitations = memo<{ id: string; rosterMemberId: string; name: string }[]>();
+  const convergence = memo<ConvergenceView>();
+  const reads: PanelReads = {
+    async finalAnswers(roundId, questionId) {
+      const byQuestion = options.wholeRounds
+        ? await rounds(roundId, () => finalAnswers(db, roundId))
+        : await rounds(`${roundId}\u0000${questionId}`, () => finalAnswers(db, roundId, questionId));
+      return byQuestion.get(questionId) ?? [];
+    },
+    async resolutions(ownerId, filter) {
+      return filterResolutions(await allResolutions(ownerId, () => loadResolutions(ownerId)), filter);
+    },
+    async trackRecords(ownerId, filter) {
+      const all = await allResolutions(ownerId, () => loadResolutions(ownerId));
+      const counted = filterResolutions(all, filter);
+      // The filter only leaves resolutions out: one that leaves none out (an unresolved question's)
+      // gives the records of all of them, computed once for every such question.
+      return records(counted.length === all.length ? `${ownerId}\u0000all` : filterKey(ownerId, filter), async () => trackRecordsOf(counted));
+    },
+    invitations(panelId) {
+      return invitations(panelId, async () =>
+        (await db.invitation.findMany({ where: { panelId }, select: { id: true, rosterMemberId: true, rosterMember: { select: { name: true } } } })).map((i) => ({
+          id: i.id,
+          rosterMemberId: i.rosterMemberId,
+          name: i.rosterMember.name,
+        })),
+      );
+    },
+    convergence(actor, panelId) {
+      return convergence(panelId, () => getConvergence(actor, panelId));
+    },
+  };
+  return reads;
+}
