@@ -25,6 +25,8 @@ interface Task {
   readonly arg: unknown;
   readonly resolve: (value: unknown) => void;
   readonly reject: (err: Error) => void;
+  /** The caller's own error classes: the pool on globalThis may be shared by two copies of this module. */
+  readonly rebuild: (name: string, message: string) => Error;
 }
 
 interface Pool {
@@ -38,7 +40,11 @@ type Reply = { id: number; ok: true; value: unknown } | { id: number; ok: false;
 
 const pool: Pool = ((globalThis as { __triangulateWorkPool?: Pool }).__triangulateWorkPool ??= { worker: null, running: null, queue: [], nextId: 1 });
 
-/** Errors the services tell apart, rebuilt with their class on this side. */
+/**
+ * Errors the services tell apart, rebuilt with their class on this side. Each task carries the
+ * function of the module copy that queued it: Next.js route bundles and the production server's
+ * direct route each load their own copy, and `instanceof` only matches a copy's own classes.
+ */
 function rebuild(name: string, message: string): Error {
   if (name === "ForecastInputError") return new ForecastInputError(message);
   if (name === "RangeError") return new RangeError(message);
@@ -66,7 +72,7 @@ function spawn(): Worker {
     if (!task || task.id !== reply.id) return;
     pool.running = null;
     if (reply.ok) task.resolve(reply.value);
-    else task.reject(rebuild(reply.name, reply.message));
+    else task.reject(task.rebuild(reply.name, reply.message));
     dispatch();
   });
   worker.on("error", (err) => fail(err));
@@ -92,7 +98,7 @@ function dispatch(): void {
 /** Runs a job of lib/work/jobs.ts on the pool's worker thread; the job's errors are rethrown here. */
 export function runJob<J extends JobName>(job: J, arg: Parameters<Jobs[J]>[0]): Promise<ReturnType<Jobs[J]>> {
   return new Promise((resolve, reject) => {
-    pool.queue.push({ id: pool.nextId++, job, arg, resolve: resolve as (value: unknown) => void, reject });
+    pool.queue.push({ id: pool.nextId++, job, arg, resolve: resolve as (value: unknown) => void, reject, rebuild });
     dispatch();
   });
 }
