@@ -22,6 +22,8 @@
  * --cache DIR (keep R's export and timings in DIR and reuse them on the next run; for tuning),
  * --compare (also run
  * a grid of selection settings and print their summaries).
+ * `npm run bench -- coverage`: accuracy and interval coverage on the M3 competition instead
+ * (bench/m3-coverage.ts).
  */
 import { execFileSync } from "node:child_process";
 import { existsSync, mkdirSync, mkdtempSync, readFileSync, writeFileSync, rmSync } from "node:fs";
@@ -310,4 +312,7 @@ function main() {
   }
 }
 
-main();
+if (process.argv[2] === "coverage") {
+  const { runCoverage } = await import("./m3-coverage");
+  runCoverage(process.argv.slice(3));
+} else main();

@@ -45,13 +45,16 @@ options:
                       every method but arima is compared) or one of:
 ${wrap(METHOD_IDS.join(", "), 68, 22)}
   --levels L1,L2      prediction interval levels in percent (default: ${DEFAULT_LEVELS.join(",")})
+  --total             also forecast the sum of the next H periods ("total": mean, lower
+                      and upper by level), from the distribution of the sum
   --format F          json (default) or table
   -h, --help          show this text
 
 JSON output: one object for one file, an array in the same order for several. Each has
 file, method, parameters, season, horizon, levels, forecast (step, mean, lower and upper by
 level), fitted (one-step in-sample values for the observations used, null where none),
-accuracy.insample (mae, rmse, mape, smape, mase), candidates (auto only) and notes.
+accuracy.insample (mae, rmse, mape, smape, mase), candidates (auto only), total (with
+--total) and notes.
 Missing values: leading and trailing ones are dropped, interior ones filled by linear
 interpolation (listed in notes).
 Exit codes: 0 success, 1 bad input data, 2 bad usage.
@@ -87,6 +90,7 @@ interface Options {
   readonly method: "auto" | MethodId;
   readonly levels?: number[];
   readonly format: "json" | "table";
+  readonly total: boolean;
   readonly help: boolean;
 }
 
@@ -104,6 +108,7 @@ function parseOptions(args: string[]): Options {
         method: { type: "string" },
         levels: { type: "string" },
         format: { type: "string" },
+        total: { type: "boolean" },
         help: { type: "boolean", short: "h" },
       },
     });
@@ -132,6 +137,7 @@ function parseOptions(args: string[]): Options {
     method: method as "auto" | MethodId,
     levels: parseLevels(v.levels),
     format,
+    total: v.total ?? false,
     help: v.help ?? false,
   };
 }
@@ -146,7 +152,7 @@ export function forecastText(file: string, text: string, opts: Omit<Options, "fi
   const table = readSeriesCsv(text, { value: opts.value });
   const result = baseline(
     { y: table.y, rows: table.rows, x: table.x, xNames: table.xNames, futureX: table.futureX },
-    { season: opts.season, horizon: opts.horizon, method: opts.method, levels: opts.levels },
+    { season: opts.season, horizon: opts.horizon, method: opts.method, levels: opts.levels, total: opts.total },
   );
   return { file, ...result };
 }
@@ -191,6 +197,13 @@ export function formatTable(r: FileResult): string {
       }),
     ),
   );
+  if (r.total) {
+    const t = r.total;
+    out.push("");
+    out.push(
+      `total of steps 1-${r.horizon}: ${formatNumber(t.mean)}${r.levels.map((l) => `, ${l}% ${formatNumber(t.lower[String(l)])} to ${formatNumber(t.upper[String(l)])}`).join("")} (${t.how})`,
+    );
+  }
   const a = r.accuracy.insample;
   out.push("");
   out.push(`in-sample accuracy: MAE ${formatNumber(a.mae)}, RMSE ${formatNumber(a.rmse)}, MAPE ${formatNumber(a.mape)}, sMAPE ${formatNumber(a.smape)}, MASE ${formatNumber(a.mase)}`);

@@ -12,6 +12,7 @@ import { accuracy } from "./accuracy";
 import { METHODS } from "./registry";
 import { prepareSeries, methodProblem, type RawSeries, type PreparedSeries } from "./series";
 import { selectMethod, DEFAULT_ORIGINS, DEFAULT_STEP, DEFAULT_COMBINE, DEFAULT_REFIT, type Selection } from "./select";
+import { forecastTotal, type TotalForecast } from "./total";
 import { ForecastInputError, METHOD_IDS, type Fit, type Forecast, type Method, type MethodId } from "./types";
 
 /**
@@ -48,6 +49,17 @@ export interface BaselineOptions {
   readonly refit?: "full" | "update";
   /** Candidate methods (default: every registered method). */
   readonly methods?: readonly Method[];
+  /** Also give the forecast of the total over the horizon (lib/forecast/total.ts). */
+  readonly total?: boolean;
+}
+
+/** The forecast of the sum of the next `horizon` values (JSON-ready; see lib/forecast/total.ts). */
+export interface TotalResult {
+  readonly mean: number | null;
+  readonly lower: Record<string, number | null>;
+  readonly upper: Record<string, number | null>;
+  /** How the distribution of the total was made. */
+  readonly how: string;
 }
 
 /** One forecast step. Bounds are keyed by level as a string ("80", "95"). */
@@ -92,6 +104,8 @@ export interface BaselineResult {
   readonly candidates?: readonly CandidateResult[];
   /** Members of a combination with their own parameters (only when method is "combination"). */
   readonly combination?: readonly { readonly method: MethodId; readonly parameters: Record<string, number | null> }[];
+  /** The total over the horizon, when asked for (`total: true`). */
+  readonly total?: TotalResult;
   readonly notes: readonly string[];
 }
 
@@ -134,6 +148,22 @@ function params(fit: Fit): Record<string, number | null> {
   const out: Record<string, number | null> = {};
   for (const [k, v] of Object.entries(fit.parameters)) out[k] = finite(v);
   return out;
+}
+
+/**
+ * The total of the next h values; for a combination, the members' totals averaged quantile by
+ * quantile, as its step bounds (Lichtendahl et al. 2013).
+ */
+function totalOf(members: readonly { method: Method; fit: Fit }[], s: PreparedSeries, levels: readonly number[]): TotalResult {
+  const t = members.map(({ method, fit }) => forecastTotal(fit, method, s.horizon, levels, s.futureX));
+  const avg = (get: (x: TotalForecast) => number) => finite(t.reduce((a, x) => a + get(x), 0) / t.length);
+  const lower: Record<string, number | null> = {};
+  const upper: Record<string, number | null> = {};
+  for (const l of levels) {
+    lower[String(l)] = avg((x) => x.lower[String(l)]);
+    upper[String(l)] = avg((x) => x.upper[String(l)]);
+  }
+  return { mean: avg((x) => x.mean), lower, upper, how: t.map((x) => x.how).join("; ") };
 }
 
 function steps(fc: Forecast, levels: readonly number[]): ForecastStep[] {
@@ -185,6 +215,7 @@ export function baseline(input: RawSeries | readonly (number | null)[], options:
       forecast: steps(fc, levels),
       fitted: fit.fitted.map(finite),
       accuracy: { insample: insample(s, fit.fitted) },
+      ...(options.total ? { total: totalOf([{ method, fit }], s, levels) } : {}),
       notes: [...notes, ...fit.notes],
     };
   }
@@ -296,6 +327,7 @@ export function baseline(input: RawSeries | readonly (number | null)[], options:
       fitted: fit.fitted.map(finite),
       accuracy: { insample: insample(s, fit.fitted) },
       candidates,
+      ...(options.total ? { total: totalOf([{ method, fit }], s, levels) } : {}),
       notes: [...notes, ...fit.notes],
     };
   }
@@ -328,6 +360,7 @@ export function baseline(input: RawSeries | readonly (number | null)[], options:
     accuracy: { insample: insample(s, fitted) },
     candidates,
     combination: fits.map((f) => ({ method: f.method.id, parameters: params(f.fit) })),
+    ...(options.total ? { total: totalOf(fits, s, levels) } : {}),
     notes: [...notes, ...fits.flatMap((f) => f.fit.notes.map((t) => `${f.method.id}: ${t}`))],
   };
 }

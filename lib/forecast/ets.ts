@@ -33,6 +33,7 @@ import { ForecastInputError, type Fit, type Forecast, type MethodId } from "./ty
 import { normalQuantile } from "../stats/normal";
 import { quantileOfSorted } from "../stats/quantile";
 import { classicalDecomposition } from "./decompose";
+import { normalStream, PATHS, PATH_RNG_START } from "./ets/state-space";
 
 /** Trend component: none, additive, additive damped. */
 export type TrendKind = "N" | "A" | "Ad";
@@ -62,9 +63,9 @@ export const PHI_LOWER = 0.8;
 /** Upper bound of phi when estimated (R forecast::ets default). */
 export const PHI_UPPER = 0.98;
 /** Number of simulated paths for the intervals of the multiplicative-season model. */
-export const SIMULATION_PATHS = 5000;
+export const SIMULATION_PATHS = PATHS;
 /** Fixed rng start of the simulation, so that the same fit always gives the same intervals. */
-export const SIMULATION_RNG_START = 0x2545f491;
+export const SIMULATION_RNG_START = PATH_RNG_START;
 /** Number of best start candidates from which the local search is run. */
 const SEARCH_RUNS = 3;
 /** Levenberg–Marquardt iterations from each start before the leader is chosen. */
@@ -1783,29 +1784,7 @@ export function simulateAam(
 ): Float64Array {
   const out = new Float64Array(h * paths);
   const ring = new Float64Array(m);
-  let rng = SIMULATION_RNG_START >>> 0;
-  const uniform = (): number => {
-    // mulberry32 (T. Ettinger, public domain).
-    rng = (rng + 0x6d2b79f5) >>> 0;
-    let t = rng;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  let spare = NaN;
-  const gauss = (): number => {
-    if (!Number.isNaN(spare)) {
-      const v = spare;
-      spare = NaN;
-      return v;
-    }
-    let u = uniform();
-    while (u === 0) u = uniform();
-    const v = uniform();
-    const r = Math.sqrt(-2 * Math.log(u));
-    spare = r * Math.sin(2 * Math.PI * v);
-    return r * Math.cos(2 * Math.PI * v);
-  };
+  const gauss = normalStream(SIMULATION_RNG_START);
   for (let p = 0; p < paths; p++) {
     for (let j = 0; j < m; j++) ring[j] = seasonNext[j];
     let l = level;

@@ -13,6 +13,7 @@ import holt from "./methods/holt";
 import dampedHolt from "./methods/damped-holt";
 import holtWintersAdditive from "./methods/holt-winters-additive";
 import holtWintersMultiplicative from "./methods/holt-winters-multiplicative";
+import ets from "./methods/ets";
 import theta from "./methods/theta";
 import linearTrend from "./methods/linear-trend";
 import regression from "./methods/regression";
@@ -30,6 +31,7 @@ export const METHODS: readonly Method[] = ([
   dampedHolt,
   holtWintersAdditive,
   holtWintersMultiplicative,
+  ets,
   theta,
   linearTrend,
   regression,

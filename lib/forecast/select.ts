@@ -158,6 +158,7 @@ export function frozenParameters(fit: Fit): Record<string, number> {
   const st = fit.state;
   if (typeof st.l0 === "number") fixed.l0 = st.l0;
   if (typeof st.b0 === "number") fixed.b0 = st.b0;
+  if (typeof st.model === "number") fixed.model = st.model; // the ETS family's member (lib/forecast/ets/family.ts)
   const s0 = st.initialSeason;
   if (Array.isArray(s0)) s0.forEach((v: number, i: number) => (fixed[`s${i + 1}`] = v));
   return fixed;

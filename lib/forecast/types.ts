@@ -17,6 +17,7 @@ export const METHOD_IDS = [
   "damped-holt",
   "holt-winters-additive",
   "holt-winters-multiplicative",
+  "ets",
   "theta",
   "linear-trend",
   "regression",

@@ -63,6 +63,27 @@ describe("triangulate baseline", () => {
     expect(out.fitted[1]).toBe(71);
   });
 
+  it("--total adds the 3-step total of a random walk: mean 3·y_n, variance σ²(1 + 4 + 9), not the sum of step bounds", () => {
+    const res = cli(["baseline", NIST12, "--value", "y", "--method", "naive", "--horizon", "3", "--total"]);
+    expect(res.err).toBe("");
+    expect(res.code).toBe(0);
+    const out = JSON.parse(res.out);
+    // Expected: σ from R's forecast::naive one-step 80% bound, then the total of a random walk,
+    // var = σ² Σ_{j=1}^{3} j² (Hyndman et al. 2008 ch. 6 aggregated variance with every c_j = 1).
+    const rv = r(
+      `y <- read.csv("${NIST12}")$y; f <- forecast::naive(y, h = 3, level = 80);
+       s <- (f$mean[1] - f$lower[1, 1]) / qnorm(0.9); z <- qnorm(c(0.9, 0.975));
+       cat(format(c(sum(f$mean), sum(f$mean) - z * s * sqrt(14), sum(f$mean) + z * s * sqrt(14), sum(f$upper)), digits = 17))`,
+    );
+    expect(out.total.mean).toBeCloseTo(rv[0], 9);
+    expect(out.total.lower["80"]).toBeCloseTo(rv[1], 9);
+    expect(out.total.lower["95"]).toBeCloseTo(rv[2], 9);
+    expect(out.total.upper["80"]).toBeCloseTo(rv[3], 9);
+    expect(out.total.upper["95"]).toBeCloseTo(rv[4], 9);
+    expect(out.total.upper["80"]).toBeLessThan(rv[5]); // below the sum of the step bounds (R)
+    expect(cli(["baseline", NIST12, "--value", "y", "--method", "naive", "--horizon", "3"]).out).not.toContain('"total"');
+  });
+
   it("automatic selection reports every candidate's MASE and the field names of issue 2", () => {
     const res = cli(["baseline", "airpassengers.csv", "--season", "12", "--horizon", "12"]);
     expect(res.err).toBe("");

@@ -10,6 +10,7 @@ import { execFileSync } from "node:child_process";
 import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
+import { normalDensity, normalQuantile } from "../../lib/stats/normal";
 
 /**
  * Runs an R script with `Rscript --vanilla` and returns what it printed. The script goes through
@@ -94,4 +95,15 @@ export function maxRelDiff(a: readonly number[], b: readonly number[], floor = 1
   let worst = 0;
   for (let i = 0; i < a.length; i++) worst = Math.max(worst, relDiff(a[i], b[i], floor));
   return worst;
+}
+
+/**
+ * Tolerance for the difference of two sample quantiles at probability p from n1 and n2
+ * independent simulated paths: 4 standard errors, the s.e. of a sample quantile being
+ * √(p(1 − p)/n)/f(q) (asymptotic normality of sample quantiles; Serfling 1980 §2.3.3), the
+ * density f(q) taken as that of a normal with standard deviation sd at its p-quantile.
+ */
+export function mcQuantileTolerance(p: number, sd: number, n1: number, n2: number): number {
+  const density = normalDensity(normalQuantile(p)) / sd;
+  return (4 * Math.sqrt(p * (1 - p) * (1 / n1 + 1 / n2))) / density;
 }

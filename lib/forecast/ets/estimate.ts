@@ -1,0 +1,161 @@
+/**
+ * Maximum-likelihood estimation of one ETS member in state-space form (any error type), for
+ * the multiplicative-error members: the additive-error ones are fitted by lib/forecast/ets.ts,
+ * whose least squares is their likelihood.
+ *
+ * The parameters and the initial states ℓ0, b0, s1…s(m−1) (s_m makes the seasonal states sum to
+ * 0 or m) minimise the −2 log-likelihood n·log Σ ε_t² + 2 Σ log|f_t| of Hyndman et al. (2008)
+ * §5.1 (σ² concentrated out), by Nelder–Mead (lib/forecast/optimise.ts) as in R's
+ * forecast::ets, in R's "usual" region: alpha ∈ [1e-4, 0.9999], beta ∈ [1e-4, alpha],
+ * gamma ∈ [1e-4, 1 − alpha], phi ∈ [0.8, 0.98]; multiplicative seasonal states stay above 0.
+ * The search starts from `start` (the caller passes the least-squares fit of the same
+ * structure with additive errors, which has the same point recursions).
+ * σ² = Σ ε_t² / (n − k), k the number of estimated parameters and states (R's ets).
+ */
+import { minimise } from "../optimise";
+import { etsKeys, ALPHA_LOWER, ALPHA_UPPER, BETA_LOWER, GAMMA_LOWER, PHI_LOWER, PHI_UPPER } from "../ets";
+import { ForecastInputError } from "../types";
+import { aicc, filterSeries, makeState, type EtsSpec, type EtsState, type Filtered, type Smoothing } from "./state-space";
+
+/** Objective evaluations allowed to the search over every free value (R's ets allows 2,000 Nelder–Mead iterations). */
+const FULL_SEARCH_BUDGET = 2000;
+
+/** Everything a fitted member carries (plain data). */
+export interface StateSpaceFit {
+  readonly spec: EtsSpec;
+  readonly par: Smoothing;
+  /** Initial states: level, trend and the m seasonal states in the order used (s1 for y1). */
+  readonly initial: { readonly l0: number; readonly b0: number; readonly s: readonly number[] };
+  readonly filtered: Filtered;
+  readonly sigma2: number;
+  /** Estimated parameters and initial states (the k of σ² and of AICc, σ² excluded). */
+  readonly estimated: number;
+  /** AICc (Infinity when the series is too short for it). */
+  readonly aicc: number;
+  /** R's reported log-likelihood, −lik/2 (constants dropped, as R's ets). */
+  readonly loglik: number;
+}
+
+/** Runs a member with every parameter and initial state given; σ² and AICc with `estimated` free values. */
+export function evaluate(
+  spec: EtsSpec,
+  y: readonly number[],
+  par: Smoothing,
+  initial: StateSpaceFit["initial"],
+  estimated: number,
+): StateSpaceFit {
+  const filtered = filterSeries(spec, par, makeState(initial.l0, initial.b0, initial.s), y);
+  const n = y.length;
+  return {
+    spec,
+    par,
+    initial,
+    filtered,
+    sigma2: filtered.sumSq / Math.max(n - estimated, 1),
+    estimated,
+    aicc: aicc(filtered.lik, estimated, n),
+    loglik: -filtered.lik / 2,
+  };
+}
+
+/**
+ * Fits a member by maximum likelihood from `start` (every parameter and initial state, keys as
+ * in etsKeys, lib/forecast/ets.ts); values in `fixed` are held. Needs y > 0 for an M error or M season.
+ * @throws ForecastInputError for non-positive data with a multiplicative part, or too few observations.
+ */
+export function fitStateSpace(
+  spec: EtsSpec,
+  y: readonly number[],
+  start: Readonly<Record<string, number>>,
+  fixed: Readonly<Record<string, number>> = {},
+): StateSpaceFit {
+  const n = y.length;
+  if ((spec.error === "M" || spec.season === "M") && y.some((v) => !(v > 0))) {
+    throw new ForecastInputError(`ETS(${spec.error},${spec.trend},${spec.season}) needs every observation above zero`);
+  }
+  const { params, states } = etsKeys(spec, spec.m);
+  const seasonal = spec.season !== "N";
+  const m = seasonal ? spec.m : 1;
+  // Free values: parameters, l0, b0, s1…s(m−1); s_m follows from the sum constraint unless all are fixed.
+  const seasonKeys = seasonal ? states.filter((k) => k.startsWith("s")) : [];
+  const seasonFixed = seasonKeys.length > 0 && seasonKeys.every((k) => k in fixed);
+  const free = [...params, ...states].filter((k) => !(k in fixed) && !(seasonal && k === `s${m}` && !seasonFixed));
+  if (seasonal && !seasonFixed && seasonKeys.some((k) => k in fixed)) {
+    throw new ForecastInputError(`give all ${m} initial seasonal states s1…s${m} or none`);
+  }
+  const estimated = free.length;
+  if (n < estimated + 1) throw new ForecastInputError(`needs at least ${estimated + 1} observations to estimate ${estimated} values (got ${n})`);
+  const seasonTotal = spec.season === "M" ? m : 0;
+  const get = (x: ArrayLike<number>, key: string): number => {
+    const i = free.indexOf(key);
+    return i >= 0 ? x[i] : (fixed[key] ?? start[key]);
+  };
+  // beta and gamma are searched as fractions of their ranges [1e-4, alpha] and [1e-4, 1 − alpha].
+  const decode = (x: ArrayLike<number>): { par: Smoothing; initial: StateSpaceFit["initial"] } => {
+    const alpha = get(x, "alpha");
+    const frac = (key: string, hi: number, lo: number) =>
+      free.includes(key) ? lo + x[free.indexOf(key)] * Math.max(hi - lo, 0) : fixed[key];
+    const beta = spec.trend === "N" ? 0 : frac("beta", Math.min(alpha, 0.9999), BETA_LOWER);
+    const gamma = seasonal ? frac("gamma", Math.min(1 - alpha, 0.9999), GAMMA_LOWER) : 0;
+    const phi = spec.trend === "Ad" ? get(x, "phi") : 1;
+    const s: number[] = [];
+    if (seasonal) {
+      for (let i = 1; i < m; i++) s.push(get(x, `s${i}`));
+      s.push(seasonFixed ? fixed[`s${m}`] : seasonTotal - s.reduce((a, b) => a + b, 0));
+    }
+    return { par: { alpha, beta, gamma, phi }, initial: { l0: get(x, "l0"), b0: spec.trend === "N" ? 0 : get(x, "b0"), s } };
+  };
+  const toSearch = (key: string): number => {
+    const alpha = fixed.alpha ?? start.alpha;
+    const clamp = (v: number) => Math.min(1, Math.max(0, v));
+    if (key === "beta") return clamp((start.beta - BETA_LOWER) / Math.max(Math.min(alpha, 0.9999) - BETA_LOWER, 1e-12));
+    if (key === "gamma") return clamp((start.gamma - GAMMA_LOWER) / Math.max(Math.min(1 - alpha, 0.9999) - GAMMA_LOWER, 1e-12));
+    if (key === "alpha") return Math.min(ALPHA_UPPER, Math.max(ALPHA_LOWER, start.alpha));
+    if (key === "phi") return Math.min(PHI_UPPER, Math.max(PHI_LOWER, start.phi));
+    return start[key];
+  };
+  const x0 = free.map(toSearch);
+  const lower = free.map((k) => (k === "alpha" ? ALPHA_LOWER : k === "phi" ? PHI_LOWER : k === "beta" || k === "gamma" ? 0 : -Infinity));
+  const upper = free.map((k) => (k === "alpha" ? ALPHA_UPPER : k === "phi" ? PHI_UPPER : k === "beta" || k === "gamma" ? 1 : Infinity));
+  const work = makeState(0, 0, new Float64Array(m));
+  const init = makeState(0, 0, new Float64Array(m));
+  const objective = (x: ArrayLike<number>): number => {
+    const { par, initial } = decode(x);
+    if (spec.season === "M" && initial.s.some((v) => !(v > 0))) return Infinity;
+    init.level = initial.l0;
+    init.trend = initial.b0;
+    if (seasonal) init.ring.set(initial.s);
+    return filterSeries(spec, par, init, y, work, null).lik;
+  };
+  if (!Number.isFinite(objective(x0)) && x0.some((v) => !Number.isFinite(v))) {
+    throw new ForecastInputError(`ETS(${spec.error},${spec.trend},${spec.season}): no finite start`);
+  }
+  let best = x0;
+  if (free.length > 0 && x0.every(Number.isFinite)) {
+    // Initial simplex: a tenth of each parameter's box, and of each state's size.
+    const step = free.map((k, i) => (Number.isFinite(upper[i]) ? 0.1 * (upper[i] - lower[i]) : Math.max(0.1 * Math.abs(x0[i]), 1e-3)));
+    // Stage 1 (seasonal members): the smoothing parameters, l0 and b0 with the seasonal states
+    // held at their start; stage 2: everything, from there, with a budget (Nelder–Mead is slow
+    // in many dimensions; the start is already close in the seasonal states).
+    const inner = free.map((k, i) => (/^s\d+$/.test(k) ? -1 : i)).filter((i) => i >= 0);
+    if (inner.length < free.length && inner.length > 0) {
+      const full = Float64Array.from(x0);
+      const sub = (v: Float64Array): number => {
+        inner.forEach((i, j) => (full[i] = v[j]));
+        return objective(full);
+      };
+      const r = minimise(sub, inner.map((i) => x0[i]), { lower: inner.map((i) => lower[i]), upper: inner.map((i) => upper[i]), step: inner.map((i) => step[i]), restarts: 1, tol: 1e-10 });
+      best = [...x0];
+      inner.forEach((i, j) => (best[i] = r.x[j]));
+    }
+    best = minimise(objective, best, { lower, upper, step, maxIter: FULL_SEARCH_BUDGET, restarts: 1, tol: 1e-10 }).x;
+  }
+  const { par, initial } = decode(best);
+  return evaluate(spec, y, par, initial, estimated);
+}
+
+/** The state object at the forecast origin of a fit (a copy, safe to change). */
+export function originState(fit: StateSpaceFit): EtsState {
+  const f = fit.filtered.final;
+  return { level: f.level, trend: f.trend, ring: Float64Array.from(f.ring), k: f.k };
+}
