@@ -15,6 +15,7 @@ import {
   BaselineDetails,
   BiasCorrectionTable,
   BlendHeadline,
+  LegWarnings,
   DepartureSection,
   LegsSideBySide,
   NotesInputsCautions,
@@ -75,6 +76,7 @@ export default async function QuestionPage({ params }: { params: Promise<{ id: s
         <a href={`/reports/${id}/questions/${qid}`}>Reviewer report</a>
       </p>
 
+      <LegWarnings report={report} />
       <BlendHeadline report={report} />
 
       <section aria-labelledby="attach-h" className="card">
@@ -103,6 +105,8 @@ export default async function QuestionPage({ params }: { params: Promise<{ id: s
                   season: baseline?.season ?? 1,
                   method: baseline?.requestedMethod ?? "auto",
                   horizon: baseline?.horizon ?? null,
+                  quantity: baseline?.target.quantity ?? "value",
+                  period: baseline?.target.period ?? "other",
                   analogue: baseline?.analogue ?? null,
                 }}
               />
