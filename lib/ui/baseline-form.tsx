@@ -237,7 +237,7 @@ export default function BaselineForm({
             <FieldErr state={state} name="quantity" />
           </label>
           <label>
-            k or n <span className="hint">periods after the last history row; a total or average always starts at the first of them</span>
+            Horizon: k or n <span className="hint">periods after the last history row; a total or average always starts at the first of them</span>
             <input name="horizon" inputMode="numeric" defaultValue={defaults.horizon ?? ""} placeholder="1" />
             <FieldErr state={state} name="horizon" />
           </label>
