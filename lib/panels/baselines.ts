@@ -172,7 +172,9 @@ export async function analyseBaseline(input: BaselineInput): Promise<Analysed> {
       options: { season: input.season, horizon, method: input.method, levels: [80, 95], total: input.quantity !== "value" },
     });
   } catch (err) {
-    if (err instanceof ForecastInputError || err instanceof RangeError) {
+    // By name too: the worker pool lives on globalThis, so its rebuilt error may come from
+    // another bundle layer's copy of the class (a route handler vs a server action).
+    if (err instanceof ForecastInputError || err instanceof RangeError || (err instanceof Error && err.name === "ForecastInputError")) {
       throw new InvalidInputError([{ field: engineField(err.message, source), message: err.message }], "The baseline could not be computed.");
     }
     throw err;
