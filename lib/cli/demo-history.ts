@@ -158,6 +158,8 @@ export async function loadPastPanels(actor: Actor, members: readonly RosterMembe
         season: 1,
         method: "naive",
         horizon: 1,
+        quantity: "value",
+        period: "other",
         analogue: { scaleFactor: 1, note: q.baselineNote },
       });
       await resolveQuestion(actor, panel.id, panel.questions[j].id, { actual: q.actual, note: "Quillmoor sales ledger (invented)", parts: [] });
@@ -177,6 +179,8 @@ export async function attachWren2Baseline(actor: Actor, panelId: string, questio
     season: 1,
     method: "auto",
     horizon: 4,
+    quantity: "value",
+    period: "quarter",
     analogue: { scaleFactor: WREN2_SCALE, note: WREN2_SCALE_NOTE },
   });
 }

@@ -22,10 +22,13 @@ import type { Baseline, Question } from "@/lib/generated/prisma/client";
 import { CsvError, readSeriesCsv, type SeriesTable } from "@/lib/csv/parse";
 import type { BaselineResult } from "@/lib/forecast/baseline";
 import { ForecastInputError, type MethodId } from "@/lib/forecast/types";
-import type { BaselineInput } from "@/lib/validation/triangulation-inputs";
+import type { BASELINE_QUANTITIES, BaselineInput, HISTORY_PERIODS } from "@/lib/validation/triangulation-inputs";
 import { runJob } from "@/lib/work/pool";
 import { authorisePanel } from "./access";
 import { recordAudit } from "./audit";
+
+export type BaselineQuantity = (typeof BASELINE_QUANTITIES)[number];
+export type HistoryPeriod = (typeof HISTORY_PERIODS)[number];
 
 /** One row of the history as read. */
 export interface PreviewRow {
@@ -54,10 +57,18 @@ export interface BaselinePreview {
   readonly scaleFactor: number;
 }
 
-/** The baseline's forecast for the question's target period. */
+/** The baseline's forecast of the quantity the question asks for. */
 export interface BaselineTarget {
-  /** Steps after the last observation (the horizon). */
+  /** Steps after the last observation (the horizon); for a total or average, the number of periods. */
   readonly step: number;
+  /** value: the value in period `step`; total or average: over periods 1..step. */
+  readonly quantity: BaselineQuantity;
+  /** What one history row is. */
+  readonly period: HistoryPeriod;
+  /** Plain words, e.g. "total of the next 12 months". */
+  readonly label: string;
+  /** How the total's distribution was made (total and average; lib/forecast/total.ts). */
+  readonly how: string | null;
   readonly mean: number | null;
   readonly lower80: number | null;
   readonly upper80: number | null;
@@ -158,10 +169,12 @@ export async function analyseBaseline(input: BaselineInput): Promise<Analysed> {
   try {
     result = await runJob("baseline", {
       series: { y, rows: table.rows, x: table.x, xNames: table.xNames, futureX },
-      options: { season: input.season, horizon, method: input.method, levels: [80, 95] },
+      options: { season: input.season, horizon, method: input.method, levels: [80, 95], total: input.quantity !== "value" },
     });
   } catch (err) {
-    if (err instanceof ForecastInputError || err instanceof RangeError) {
+    // By name too: the worker pool lives on globalThis, so its rebuilt error may come from
+    // another bundle layer's copy of the class (a route handler vs a server action).
+    if (err instanceof ForecastInputError || err instanceof RangeError || (err instanceof Error && err.name === "ForecastInputError")) {
       throw new InvalidInputError([{ field: engineField(err.message, source), message: err.message }], "The baseline could not be computed.");
     }
     throw err;
@@ -169,15 +182,7 @@ export async function analyseBaseline(input: BaselineInput): Promise<Analysed> {
   if (factor !== 1) {
     result = { ...result, notes: [...result.notes, `the history is an analogous product's, multiplied by ${factor} before fitting: ${input.analogue!.note}`] };
   }
-  const step = result.forecast[horizon - 1];
-  const target: BaselineTarget = {
-    step: horizon,
-    mean: step?.mean ?? null,
-    lower80: step?.lower["80"] ?? null,
-    upper80: step?.upper["80"] ?? null,
-    lower95: step?.lower["95"] ?? null,
-    upper95: step?.upper["95"] ?? null,
-  };
+  const target = targetOf({ result, horizon, quantity: input.quantity, period: input.period });
   const preview: BaselinePreview = {
     source,
     valueColumn,
@@ -206,7 +211,7 @@ function toView(b: Baseline): BaselineView {
     season: b.season,
     requestedMethod: b.method as BaselineView["requestedMethod"],
     horizon: b.horizon,
-    target: targetOf(b),
+    target: storedTarget(b),
     result: JSON.parse(b.result) as BaselineResult,
     preview: JSON.parse(b.preview) as BaselinePreview,
     stored: true,
@@ -215,18 +220,54 @@ function toView(b: Baseline): BaselineView {
   };
 }
 
-/** The stored baseline's target-period forecast. */
-export function targetOf(b: Pick<Baseline, "result" | "horizon">): BaselineTarget {
-  const r = JSON.parse(b.result) as BaselineResult;
-  const s = r.forecast[b.horizon - 1];
+const PERIOD_WORDS: Record<HistoryPeriod, readonly [string, string]> = {
+  month: ["month", "months"],
+  quarter: ["quarter", "quarters"],
+  year: ["year", "years"],
+  week: ["week", "weeks"],
+  day: ["day", "days"],
+  other: ["period", "periods"],
+};
+
+/** Plain words for what a baseline answers, e.g. "total of the next 12 months", "value in month 3". */
+export function quantityLabel(quantity: string, period: string, n: number): string {
+  const [one, many] = PERIOD_WORDS[period as HistoryPeriod] ?? PERIOD_WORDS.other;
+  if (quantity === "total" || quantity === "average") return n === 1 ? `${quantity} of the next ${one}` : `${quantity} of the next ${n} ${many}`;
+  return `value in ${one} ${n} after the history`;
+}
+
+/**
+ * The forecast of the quantity the question asks for: the value in period `horizon` (the
+ * step forecast), or the total over periods 1..horizon (lib/forecast/total.ts: the sum with the
+ * errors' correlation across steps, never the sum of step bounds), or the average (the total's
+ * mean and bounds divided by the number of periods). A total of periods a..b with a > 1 is not
+ * offered: the core gives the distribution of totals from the first period only.
+ */
+export function targetOf(b: { result: BaselineResult; horizon: number; quantity: string; period: string }): BaselineTarget {
+  const quantity: BaselineQuantity = b.quantity === "total" || b.quantity === "average" ? b.quantity : "value";
+  const period = (b.period in PERIOD_WORDS ? b.period : "other") as HistoryPeriod;
+  const head = { step: b.horizon, quantity, period, label: quantityLabel(quantity, period, b.horizon) };
+  if (quantity === "value") {
+    const s = b.result.forecast[b.horizon - 1];
+    return { ...head, how: null, mean: s?.mean ?? null, lower80: s?.lower["80"] ?? null, upper80: s?.upper["80"] ?? null, lower95: s?.lower["95"] ?? null, upper95: s?.upper["95"] ?? null };
+  }
+  const t = b.result.total;
+  const k = quantity === "average" ? b.horizon : 1;
+  const per = (v: number | null | undefined) => (v === null || v === undefined ? null : v / k);
   return {
-    step: b.horizon,
-    mean: s?.mean ?? null,
-    lower80: s?.lower["80"] ?? null,
-    upper80: s?.upper["80"] ?? null,
-    lower95: s?.lower["95"] ?? null,
-    upper95: s?.upper["95"] ?? null,
+    ...head,
+    how: t?.how ?? null,
+    mean: per(t?.mean),
+    lower80: per(t?.lower["80"]),
+    upper80: per(t?.upper["80"]),
+    lower95: per(t?.lower["95"]),
+    upper95: per(t?.upper["95"]),
   };
+}
+
+/** The stored baseline's target forecast. */
+export function storedTarget(b: Pick<Baseline, "result" | "horizon" | "quantity" | "period">): BaselineTarget {
+  return targetOf({ result: JSON.parse(b.result) as BaselineResult, horizon: b.horizon, quantity: b.quantity, period: b.period });
 }
 
 async function findQuestion(panelId: string, questionId: string): Promise<Question> {
@@ -285,6 +326,8 @@ export async function storeBaseline(
     season: input.season,
     method: input.method,
     horizon: a.horizon,
+    quantity: input.quantity,
+    period: input.period,
     result: JSON.stringify(a.result),
     preview: JSON.stringify(a.preview),
     createdById,
@@ -310,7 +353,7 @@ export async function attachBaseline(actor: Actor, panelId: string, questionId: 
       actorId: access.actor.userId,
       panelId,
       action: existed ? "baseline.replaced" : "baseline.attached",
-      detail: { questionId, method: a.result.method, horizon: a.horizon, observations: a.preview.observations, scaleFactor: input.analogue?.scaleFactor ?? 1 },
+      detail: { questionId, method: a.result.method, horizon: a.horizon, quantity: input.quantity, period: input.period, observations: a.preview.observations, scaleFactor: input.analogue?.scaleFactor ?? 1 },
     });
     return b;
   });

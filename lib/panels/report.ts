@@ -31,6 +31,7 @@ import { correctionSummary, namesRevealed } from "./report-views";
 import type { BlendInterval, Distribution } from "@/lib/blend";
 import type { QuestionVerdict } from "@/lib/stats/stopping-rules";
 import { csvCell } from "@/lib/csv/cell";
+import { legWarnings } from "./warnings";
 
 type Intervals = readonly { readonly level: number; readonly lower: number | null; readonly upper: number | null }[];
 
@@ -82,7 +83,7 @@ export interface QuestionReport {
       readonly parameters: Readonly<Record<string, number | null>>;
       readonly season: number;
       readonly horizon: number;
-      readonly target: { readonly mean: number | null; readonly lower80: number | null; readonly upper80: number | null; readonly lower95: number | null; readonly upper95: number | null };
+      readonly target: { readonly mean: number | null; readonly lower80: number | null; readonly upper80: number | null; readonly lower95: number | null; readonly upper95: number | null; readonly label: string };
       readonly sd: number | null;
       readonly sdSource: string | null;
       readonly holdout: { readonly chosenMase: number | null; readonly candidates: readonly { readonly method: string; readonly mase: number | null; readonly error?: string }[] };
@@ -121,6 +122,8 @@ export interface QuestionReport {
   readonly distributions: { readonly panelRaw: Distribution | null; readonly panelCorrected: Distribution | null; readonly baseline: Distribution | null; readonly blend: Distribution | null };
   readonly methodNotes: readonly string[];
   readonly inputs: readonly string[];
+  /** Also at the head of `cautions` (lib/panels/warnings.ts). */
+  readonly warnings: readonly string[];
   readonly cautions: readonly string[];
 }
 
@@ -180,6 +183,7 @@ export async function getQuestionReport(actor: Actor, panelId: string, questionI
         upper80: loaded.baselineTarget?.upper80 ?? null,
         lower95: loaded.baselineTarget?.lower95 ?? null,
         upper95: loaded.baselineTarget?.upper95 ?? null,
+        label: loaded.baselineTarget?.label ?? "",
       },
       sd: t.baseline ? jsonSafe(t.baseline.sd) : null,
       sdSource: t.baseline?.sdSource ?? null,
@@ -193,7 +197,7 @@ export async function getQuestionReport(actor: Actor, panelId: string, questionI
     const first = preview.rows[0]?.row;
     const last = preview.rows.at(-1)?.row;
     inputs.push(
-      `Baseline: ${stored.source === "csv" ? `CSV column '${stored.valueColumn}'` : "pasted values"}, ${preview.observations} observations${first !== undefined ? ` (rows ${first}–${last})` : ""}${preview.explanatoryColumns.length > 0 ? `, explanatory columns ${preview.explanatoryColumns.join(", ")}` : ""}; season ${stored.season}; method ${stored.method === "auto" ? `chosen automatically: ${result.method}` : result.method}; target period ${stored.horizon} step${stored.horizon === 1 ? "" : "s"} after the last observation.`,
+      `Baseline: ${stored.source === "csv" ? `CSV column '${stored.valueColumn}'` : "pasted values"}, ${preview.observations} observations${first !== undefined ? ` (rows ${first}–${last})` : ""}${preview.explanatoryColumns.length > 0 ? `, explanatory columns ${preview.explanatoryColumns.join(", ")}` : ""}; season ${stored.season}; method ${stored.method === "auto" ? `chosen automatically: ${result.method}` : result.method}; the baseline answers the ${loaded.baselineTarget?.label ?? ""}${loaded.baselineTarget?.how ? ` (${loaded.baselineTarget.how})` : ""}; the question's target period: ${loaded.question.targetPeriod}.`,
     );
     if (stored.analogue) inputs.push(`The baseline history is an analogous product's, multiplied by ${stored.scaleFactor}: ${stored.scaleNote}`);
   } else {
@@ -208,7 +212,8 @@ export async function getQuestionReport(actor: Actor, panelId: string, questionI
   );
   inputs.push(`Weight rule: ${loaded.rule.rule}${loaded.rule.rule === "organiser" ? ` (${loaded.rule.panelWeight} on the panel)` : ""}, set on the ${loaded.rule.from}.`);
 
-  const cautions = [...t.cautions];
+  const warnings = legWarnings(loaded.question, loaded.baselineTarget, t.panel?.corrected.figure ?? null);
+  const cautions = [...warnings, ...t.cautions];
   if (t.weights && t.weights.applied !== t.weights.requested) cautions.push(t.weights.reason);
   if (t.panel && t.panel.n < 5) cautions.push(`Only ${t.panel.n} panelists answered: the panel's median and range rest on very few people.`);
   if (resolution) cautions.push("This question is resolved: the figures above are recomputed from the stored inputs; the scores use the figures as they stood at resolution.");
@@ -267,6 +272,7 @@ export async function getQuestionReport(actor: Actor, panelId: string, questionI
     },
     methodNotes: t.notes,
     inputs,
+    warnings,
     cautions,
   };
 }

@@ -70,8 +70,9 @@ import {
 import type { PanelWeightRule, PanelBlendRuleInput, QuestionBlendRuleInput } from "@/lib/validation/triangulation-inputs";
 import { authorisePanel } from "./access";
 import { recordAudit } from "./audit";
-import { targetOf, type BaselineTarget } from "./baselines";
+import { storedTarget, type BaselineTarget } from "./baselines";
 import { settleDeadlines } from "./round-closing";
+import { legWarnings } from "./warnings";
 import { historyOf, type HistoryFilter } from "./track-records";
 import { panelReads, type PanelReads } from "./panel-reads";
 import { jsonSafe, type JsonSafe } from "./json";
@@ -387,7 +388,7 @@ function weightSpec(rule: PanelWeightRule, panelWeight: number | null, history: 
 /** A question's stored inputs, loaded for {@link computeTriangulation}, with what else the report shows. */
 export interface LoadedTriangulation {
   readonly input: TriangulationInput;
-  readonly question: { id: string; text: string; unit: string; targetPeriod: string; aggregation: "shared" | "sum-of-parts"; answerFormat: "single" | "three-point" };
+  readonly question: { id: string; text: string; unit: string; targetPeriod: string; lowerBound: number; upperBound: number; aggregation: "shared" | "sum-of-parts"; answerFormat: "single" | "three-point" };
   readonly ownerId: string;
   readonly rule: ReturnType<typeof effectiveRule>;
   readonly baselineTarget: BaselineTarget | null;
@@ -437,7 +438,7 @@ export async function loadTriangulation(panelId: string, questionId: string, rea
     .filter((r) => r.figures.blend !== null && (r.figures.blendSd ?? 0) > 0)
     .map((r) => (r.actual - r.figures.blend!) / r.figures.blendSd!);
   const panelLogErrors = resolutions.filter((r) => r.actual > 0 && r.figures.correctedPanel > 0).map((r) => Math.log(r.actual / r.figures.correctedPanel));
-  const target = q.baseline ? targetOf(q.baseline) : null;
+  const target = q.baseline ? storedTarget(q.baseline) : null;
   let baseline: BaselineForecast | null = null;
   if (target && target.mean !== null) {
     const b: { mean: number; lower80?: number; upper80?: number; lower95?: number; upper95?: number } = { mean: target.mean };
@@ -461,7 +462,7 @@ export async function loadTriangulation(panelId: string, questionId: string, rea
   const answerFormat = q.answerFormat === "three-point" ? "three-point" : "single";
   return {
     input: { aggregation, answerFormat, rounds: roundInputs, factors, intervalHits, panelLogErrors, blendHistory: pairs, blendStandardisedErrors, baseline, weight: weightSpec(rule.rule, rule.panelWeight, history), ...(baselineUnusable ? { baselineUnusable } : {}) },
-    question: { id: q.id, text: q.text, unit: q.unit, targetPeriod: q.targetPeriod, aggregation, answerFormat },
+    question: { id: q.id, text: q.text, unit: q.unit, targetPeriod: q.targetPeriod, lowerBound: q.lowerBound, upperBound: q.upperBound, aggregation, answerFormat },
     ownerId: q.panel.ownerId,
     rule,
     baselineTarget: target,
@@ -487,6 +488,8 @@ export type TriangulationView = Omit<JsonSafe<Triangulation>, "panel"> & {
   readonly questionId: string;
   readonly weightRule: { readonly rule: PanelWeightRule; readonly panelWeight: number | null; readonly from: "question" | "panel" };
   readonly namesShown: boolean;
+  /** Plain messages: a leg outside the question's plausible range, legs an order of magnitude apart (lib/panels/warnings.ts). */
+  readonly warnings: readonly string[];
 };
 
 /** The triangulation of a question (organisers and reviewers of the panel). */
@@ -503,7 +506,8 @@ export async function getTriangulation(actor: Actor, panelId: string, questionId
         correction: jsonSafe(correctionSummary(computed.panel!.answers)),
       }
     : null;
-  return { ...t, panel, questionId, weightRule: loaded.rule, namesShown };
+  const warnings = legWarnings(loaded.question, loaded.baselineTarget, computed.panel?.corrected.figure ?? null);
+  return { ...t, panel, questionId, weightRule: loaded.rule, namesShown, warnings };
 }
 
 /** Sets the panel's blend weight rule (organisers; audited). */

@@ -2,8 +2,8 @@
  * Turns the baseline form's fields (strings) into the object that lib/validation's
  * `baselineInput` parses: the CSV or the pasted values (each token must be a number; a token
  * that is not is reported with its position), the explanatory columns' target-period values
- * (`future.<column>`, comma-separated), the analogue's factor and note, season, method and
- * horizon. Empty optional fields are left out so the schema's defaults apply.
+ * (`future.<column>`, comma-separated), the analogue's factor and note, season, method,
+ * horizon, what the question asks for (quantity) and what one history row is (period). Empty optional fields are left out so the schema's defaults apply.
  */
 import { withNumbers } from "./form-result";
 
@@ -29,6 +29,8 @@ export function baselineFormValues(values: Record<string, string>): BaselineForm
     ["season", "horizon"],
   );
   if (values.method) input.method = values.method;
+  if (values.quantity) input.quantity = values.quantity;
+  if (values.period) input.period = values.period;
   if ((values.source ?? "csv") === "values") {
     const list = numbers(values.values ?? "", "values", errors);
     input.values = list;

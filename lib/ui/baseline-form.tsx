@@ -3,7 +3,9 @@
  * The organiser's form for a question's baseline: the history as a CSV file (read in the
  * browser into the text box), pasted CSV, or pasted values; the value column and the
  * explanatory columns' values for the target period; optionally an analogous product's
- * history with its scale factor and a note; season, method and horizon. "Preview" reads and
+ * history with its scale factor and a note; season, method; what the question asks for (the
+ * value in period k, or the total or average over the next n periods) and what one history
+ * row is (month, quarter, …). "Preview" reads and
  * fits without storing and shows what was read (chart and rows) and the forecast it would
  * give; "Attach" stores it. Errors name the row and column (lib/csv messages).
  */
@@ -24,7 +26,14 @@ export interface BaselinePreviewPayload {
   readonly scaleFactor: number;
   readonly method: string;
   readonly horizon: number;
-  readonly target: { readonly mean: number | null; readonly lower80: number | null; readonly upper80: number | null; readonly lower95: number | null; readonly upper95: number | null };
+  readonly target: {
+    readonly label: string;
+    readonly mean: number | null;
+    readonly lower80: number | null;
+    readonly upper80: number | null;
+    readonly lower95: number | null;
+    readonly upper95: number | null;
+  };
 }
 
 export interface BaselineFormState extends FormState {
@@ -41,10 +50,13 @@ export interface BaselineFormDefaults {
   readonly season: number;
   readonly method: string;
   readonly horizon: number | null;
+  readonly quantity: string;
+  readonly period: string;
   readonly analogue: { readonly scaleFactor: number; readonly note: string } | null;
 }
 
 const EMPTY: BaselineFormState = {};
+const PERIODS = ["month", "quarter", "year", "week", "day", "other"] as const;
 
 function FieldErr({ state, name }: { state: BaselineFormState; name: string }) {
   const errors = state.fieldErrors?.[name] ?? [];
@@ -213,10 +225,32 @@ export default function BaselineForm({
             </select>
             <FieldErr state={state} name="method" />
           </label>
+        </div>
+        <div className="row">
           <label>
-            Horizon <span className="hint">steps from the last observation to the target period</span>
+            What the question asks for
+            <select name="quantity" defaultValue={defaults.quantity}>
+              <option value="value">the value in period k</option>
+              <option value="total">the total over the next n periods</option>
+              <option value="average">the average over the next n periods</option>
+            </select>
+            <FieldErr state={state} name="quantity" />
+          </label>
+          <label>
+            Horizon: k or n <span className="hint">periods after the last history row; a total or average always starts at the first of them</span>
             <input name="horizon" inputMode="numeric" defaultValue={defaults.horizon ?? ""} placeholder="1" />
             <FieldErr state={state} name="horizon" />
+          </label>
+          <label>
+            Each history row is one
+            <select name="period" defaultValue={defaults.period}>
+              {PERIODS.map((p) => (
+                <option key={p} value={p}>
+                  {p === "other" ? "other period" : p}
+                </option>
+              ))}
+            </select>
+            <FieldErr state={state} name="period" />
           </label>
         </div>
       </fieldset>
@@ -228,9 +262,10 @@ export default function BaselineForm({
             {p.missing > 0 ? `, ${p.missing} missing` : ""}
             {p.explanatoryColumns.length > 0 ? `; explanatory columns ${p.explanatoryColumns.join(", ")}` : ""}
             {p.ignoredColumns.length > 0 ? `; left out (not numeric): ${p.ignoredColumns.join(", ")}` : ""}
-            {p.scaleFactor !== 1 ? `; values multiplied by ${p.scaleFactor}` : ""}. With method {p.method}, the target period ({p.horizon} step
-            {p.horizon === 1 ? "" : "s"} ahead) would be {formatNumber(p.target.mean)} {unit}, 80% {formatNumber(p.target.lower80)} to{" "}
-            {formatNumber(p.target.upper80)}, 95% {formatNumber(p.target.lower95)} to {formatNumber(p.target.upper95)}.
+            {p.scaleFactor !== 1 ? `; values multiplied by ${p.scaleFactor}` : ""}. With method {p.method}, the baseline answers the{" "}
+            <strong data-preview-target>{p.target.label}</strong>: <Figure value={p.target.mean} name="preview-target-mean" /> {unit}, 80%{" "}
+            <Figure value={p.target.lower80} name="preview-target-lower80" /> to <Figure value={p.target.upper80} name="preview-target-upper80" />, 95%{" "}
+            {formatNumber(p.target.lower95)} to {formatNumber(p.target.upper95)}.
           </p>
           <BaselineChart labels={p.labels} history={p.history} unit={unit} caption={`The history as read from column ${p.valueColumn}`} />
           <details>

@@ -54,6 +54,22 @@ function Percentile({ value }: { value: number | null }) {
 }
 
 /** The blended figure and its 80% and 95% ranges, with the weight behind it: shown first. */
+/** Warnings about the legs (lib/panels/warnings.ts): outside the plausible range, an order of magnitude apart. */
+export function LegWarnings({ report }: { report: QuestionReport }) {
+  if (report.warnings.length === 0) return null;
+  return (
+    <section className="card warnings" aria-label="Warnings" data-warnings={report.warnings.length}>
+      <ul>
+        {report.warnings.map((w) => (
+          <li key={w} className="form-error" data-warning>
+            {w}
+          </li>
+        ))}
+      </ul>
+    </section>
+  );
+}
+
 export function BlendHeadline({ report }: { report: QuestionReport }) {
   const b = report.blend;
   const unit = report.question.unit;
@@ -222,7 +238,9 @@ export function BaselineDetails({ report, baseline }: { report: QuestionReport; 
       <div className="card">
         <p className="headline-figure small-headline">
           <Figure value={b.target.mean} name="baseline-mean" /> <span className="unit">{unit}</span>{" "}
-          <span className="muted small">for {report.question.targetPeriod}</span>
+          <span className="muted small">
+            the baseline answers: <span data-baseline-answers>{b.target.label}</span>; the question&apos;s target period: {report.question.targetPeriod}
+          </span>
         </p>
         <dl className="facts">
           <dt>80% interval</dt>
@@ -249,9 +267,9 @@ export function BaselineDetails({ report, baseline }: { report: QuestionReport; 
                   </span>
                 ))}
           </dd>
-          <dt>Season, horizon</dt>
+          <dt>Season, what it answers</dt>
           <dd>
-            season {b.season}; target period {b.horizon} step{b.horizon === 1 ? "" : "s"} after the last observation
+            season {b.season}; the {b.target.label}
           </dd>
           <dt>History</dt>
           <dd>

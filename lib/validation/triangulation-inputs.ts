@@ -14,6 +14,10 @@ const text = (max: number) => z.string().trim().min(1, "must not be empty").max(
 export const MAX_CSV_CHARS = 1_000_000;
 
 export const BASELINE_METHODS = ["auto", ...METHOD_IDS] as const;
+/** What a baseline answers, in the history's periods (lib/panels/baselines.ts). */
+export const BASELINE_QUANTITIES = ["value", "total", "average"] as const;
+/** What one history row is. */
+export const HISTORY_PERIODS = ["month", "quarter", "year", "week", "day", "other"] as const;
 export const WEIGHT_RULES = ["equal", "inverse-mse", "organiser"] as const;
 export type PanelWeightRule = (typeof WEIGHT_RULES)[number];
 
@@ -58,7 +62,12 @@ export const baselineInput = z
       .describe("The history is an analogous product's, scaled by scaleFactor"),
     season: z.number().int("must be a whole number").min(1, "at least 1").max(52, "at most 52").default(1).describe("Season length (4 quarterly, 12 monthly)"),
     method: z.enum(BASELINE_METHODS).default("auto").describe("auto (lowest rolling-origin MASE) or a method id"),
-    horizon: z.number().int("must be a whole number").min(1, "at least 1").max(1000, "at most 1000").optional().describe("Steps to the target period"),
+    horizon: z.number().int("must be a whole number").min(1, "at least 1").max(1000, "at most 1000").optional().describe("Steps to the target period (value), or the number of periods n (total, average)"),
+    quantity: z
+      .enum(BASELINE_QUANTITIES)
+      .default("value")
+      .describe("What the question asks for: value (in period `horizon`), total or average (over the next `horizon` periods, always from the first: the forecast core gives totals of periods 1..n only)"),
+    period: z.enum(HISTORY_PERIODS).default("other").describe("What one history row is: month, quarter, year, week, day or other"),
   })
   .superRefine((b, ctx) => {
     if ((b.csv === undefined) === (b.values === undefined)) {

@@ -15,7 +15,20 @@ const loose = z.record(z.string(), z.unknown());
 const interval = z.object({ level: num, lower: n0, upper: n0 });
 const weightRule = z.enum(["equal", "inverse-mse", "organiser"]);
 
-export const baselineTarget = z.object({ step: z.number().int(), mean: n0, lower80: n0, upper80: n0, lower95: n0, upper95: n0 }).describe("Forecast for the target period");
+export const baselineTarget = z
+  .object({
+    step: z.number().int().describe("value: steps to the target period; total, average: the number of periods"),
+    quantity: z.enum(["value", "total", "average"]),
+    period: z.enum(["month", "quarter", "year", "week", "day", "other"]).describe("what one history row is"),
+    label: z.string().describe("plain words, e.g. total of the next 12 months"),
+    how: z.string().nullable().describe("how the total's distribution was made"),
+    mean: n0,
+    lower80: n0,
+    upper80: n0,
+    lower95: n0,
+    upper95: n0,
+  })
+  .describe("Forecast of the quantity the question asks for");
 
 export const baselineResult = z
   .object({
@@ -145,6 +158,7 @@ export const triangulation = z.object({
   departures: departures.nullable(),
   notes: z.array(z.string()),
   cautions: z.array(z.string()),
+  warnings: z.array(z.string()).describe("plain messages: a leg outside the question's plausible range, or the legs an order of magnitude apart"),
 });
 
 const figureScore = z.object({
@@ -244,7 +258,7 @@ const panelist = { pseudonym: z.string(), name: z.string().nullable().describe("
 export const questionReport = z.object({
   generatedAt: dateTime,
   panel: z.object({ id: z.string(), title: z.string(), status: z.string() }),
-  question: z.object({ id: z.string(), text: z.string(), unit: z.string(), targetPeriod: z.string(), aggregation: z.enum(AGGREGATIONS), answerFormat: z.enum(ANSWER_FORMATS) }),
+  question: z.object({ id: z.string(), text: z.string(), unit: z.string(), targetPeriod: z.string(), lowerBound: num, upperBound: num, aggregation: z.enum(AGGREGATIONS), answerFormat: z.enum(ANSWER_FORMATS) }),
   viewer: z.object({ role: z.enum(["owner", "organiser", "reviewer"]), namesShown: z.boolean() }),
   blend: z
     .object({
@@ -280,7 +294,7 @@ export const questionReport = z.object({
         parameters: z.record(z.string(), n0),
         season: z.number().int(),
         horizon: z.number().int(),
-        target: z.object({ mean: n0, lower80: n0, upper80: n0, lower95: n0, upper95: n0 }),
+        target: z.object({ mean: n0, lower80: n0, upper80: n0, lower95: n0, upper95: n0, label: z.string().describe("what the baseline answers, e.g. total of the next 12 months") }),
         sd: n0,
         sdSource: z.string().nullable(),
         holdout: z.object({ chosenMase: n0, candidates: z.array(z.object({ method: z.string(), mase: n0, error: z.string().optional() })) }),
@@ -320,6 +334,7 @@ export const questionReport = z.object({
   distributions: z.object({ panelRaw: loose.nullable(), panelCorrected: loose.nullable(), baseline: loose.nullable(), blend: loose.nullable() }).describe("lib/blend distributions behind the ranges, for charts"),
   methodNotes: z.array(z.string()),
   inputs: z.array(z.string()),
+  warnings: z.array(z.string()).describe("plain messages, also at the head of cautions: a leg outside the question's plausible range, or the legs an order of magnitude apart"),
   cautions: z.array(z.string()),
 });
 

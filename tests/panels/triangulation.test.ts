@@ -457,6 +457,7 @@ describe("CSV export cells (formula injection)", () => {
       distributions: { panelRaw: null, panelCorrected: null, baseline: null, blend: null },
       methodNotes: ["-note"],
       inputs: [],
+      warnings: [],
       cautions: t.cautions,
     });
     const cells = csv.trim().split("\r\n").flatMap((line) => line.split(","));

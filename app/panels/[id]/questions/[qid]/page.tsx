@@ -16,6 +16,7 @@ import {
   BaselineDetails,
   BiasCorrectionTable,
   BlendHeadline,
+  LegWarnings,
   DepartureSection,
   LegsSideBySide,
   NotesInputsCautions,
@@ -77,6 +78,7 @@ export default async function QuestionPage({ params }: { params: Promise<{ id: s
         <a href={`/reports/${id}/questions/${qid}`}>Reviewer report</a>
       </p>
 
+      <LegWarnings report={report} />
       <BlendHeadline report={report} />
 
       <section aria-labelledby="attach-h" className="card">
@@ -105,6 +107,8 @@ export default async function QuestionPage({ params }: { params: Promise<{ id: s
                   season: baseline?.season ?? 1,
                   method: baseline?.requestedMethod ?? "auto",
                   horizon: baseline?.horizon ?? null,
+                  quantity: baseline?.target.quantity ?? "value",
+                  period: baseline?.target.period ?? "other",
                   analogue: baseline?.analogue ?? null,
                 }}
               />
