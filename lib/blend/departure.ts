@@ -32,7 +32,7 @@ export interface Departure {
 }
 
 /**
- * The departure of `value` from the baseline (DESIGN.md "Departure"):
+ * The departure of `value` from the baseline (docs/methods.md §16):
  * difference d = value − m; percent = 100·d/|m|; z = d/sd; percentile = 100·Φ(z); and the flags
  * read from the same distribution: outside the 80% interval when |z| > Φ⁻¹(0.90), outside the
  * 95% interval when |z| > Φ⁻¹(0.975). m is the baseline mean and sd its forecast standard

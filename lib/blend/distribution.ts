@@ -54,7 +54,7 @@ export interface Mixture {
 /** Any distribution lib/blend works with. */
 export type Distribution = Component | Mixture;
 
-/** A three-point answer read as the 10th / 50th / 90th percentiles (DESIGN.md, workflow step 1). */
+/** A three-point answer read as the 10th / 50th / 90th percentiles (docs/methods.md §14.1). */
 export interface ThreePointAnswer {
   /** 10th percentile ("low"). */
   readonly low: number;

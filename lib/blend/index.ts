@@ -23,7 +23,7 @@
  *   its function (percent departure when the baseline is 0; MAPE with an actual of 0; Theil's
  *   proportions when the MSE is 0; Bates–Granger weights when every weight is equally good).
  *
- * ## Sources outside REFERENCES.md, and how far they were checked
+ * ## Sources (docs/methods.md §15a, §15c, §17), and how far they were checked
  * - M. Stone (1961), "The opinion pool", Ann. Math. Statist. 32(4), 1339–1342,
  *   doi:10.1214/aoms/1177704873 — read on Project Euclid (abstract: the pooled density
  *   Σ λ_i p_i with λ_i ≥ 0, Σ λ_i = 1).

@@ -70,7 +70,7 @@ export function linearPool(parts: readonly PoolPart[]): Mixture {
 
 /**
  * The blended distribution w·F_panel + (1 − w)·F_baseline, w the panel's weight
- * (DESIGN.md "Blend"; a two-part {@link linearPool}).
+ * (docs/methods.md §15d; a two-part {@link linearPool}).
  *
  * Input: two distributions and w in [0, 1].
  * @throws RangeError when w is not a finite number in [0, 1].
@@ -197,7 +197,7 @@ function legSd(d: Distribution): number {
  * The blend: one predictive distribution, and everything shown is read from it. The figure is
  * the combination f_c = w·panel + (1 − w)·baseline; its error is (w·e_p + (1 − w)·e_b), whose
  * variance is σ_c² = w²σ_p² + (1 − w)²σ_b² + 2w(1 − w)ρσ_pσ_b (Bates & Granger 1969; the
- * formula of REFERENCES.md §5a with λ = 1 − w). The blend's distribution is N(f_c, σ_c²): its
+ * formula of docs/methods.md §5a with λ = 1 − w). The blend's distribution is N(f_c, σ_c²): its
  * median is the figure, so the figure always lies inside its ranges. σ_p and σ_b are each leg's
  * sd implied by its own 80% range ({@link legSd}), so the panel's track-record range and the
  * baseline's interval carry through. `rangeScale` multiplies σ_c when the blend's own track

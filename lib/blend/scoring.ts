@@ -19,7 +19,7 @@ import { assertFinite, assertFiniteArray } from "./validate";
 
 /**
  * Tracking-signal alarm limit, in MAD units: |TS| above 4 flags a biased series. ±4 is the
- * usual textbook and practice limit; no authoritative source was found (REFERENCES.md §8:
+ * usual textbook and practice limit; no authoritative source was found (docs/methods.md §8:
  * common practice, unverified), and some use ±3.
  */
 export const TRACKING_SIGNAL_LIMIT = 4;
@@ -99,7 +99,7 @@ export interface ResolutionScores {
 }
 
 /**
- * Scores every figure of a resolved question (DESIGN.md workflow step 9) with
+ * Scores every figure of a resolved question (docs/methods.md §14.9) with
  * {@link scoreFigure}.
  * @throws RangeError for a non-finite actual or figure (the message names the figure).
  */
@@ -126,7 +126,7 @@ export interface TrackingAlarm {
 
 /**
  * The first period at which |TS_t| exceeds `limit` (strictly), with TS_t from
- * lib/forecast/accuracy `trackingSignalSeries` (REFERENCES.md §8). NaN entries never breach.
+ * lib/forecast/accuracy `trackingSignalSeries` (docs/methods.md §8). NaN entries never breach.
  *
  * Input: a non-empty TS series (NaN allowed, as the series gives NaN while MAD is 0); limit > 0.
  * @throws RangeError for an empty series, an infinite entry, or a limit that is not finite and > 0.

@@ -64,7 +64,7 @@ export interface TheilDecomposition {
 
 /**
  * Theil's decomposition of the MSE (H. Theil 1966, *Applied Economic Forecasting*,
- * North-Holland; formulas as REFERENCES.md §5b, confirmed there against gretl's output):
+ * North-Holland; formulas as docs/methods.md §5b, confirmed there against gretl's output):
  * with population SDs S_A, S_P (divisor n) and r = corr(A, P),
  * MSE = (P̄ − Ā)² + (S_P − r·S_A)² + (1 − r²)·S_A², so U^M + U^R + U^D = 1, and the
  * alternative split U^M + U^S + U^C = 1 with U^S = (S_P − S_A)²/MSE, U^C = 2(1 − r)S_P·S_A/MSE.
@@ -301,7 +301,7 @@ export function trackRecord(all: readonly ResolvedAnswer[], options: TrackRecord
 }
 
 /**
- * The corrected answer, answer × factor (DESIGN.md "Track record and bias").
+ * The corrected answer, answer × factor (docs/methods.md §17).
  * @throws RangeError for a non-finite answer or a factor that is not finite and > 0.
  */
 export function correctAnswer(answer: number, factor: number): number {
@@ -324,7 +324,7 @@ export function correctThreePoint(answer: ThreePointAnswer, factor: number): Thr
   return { low: answer.low * factor, mid: answer.mid * factor, high: answer.high * factor };
 }
 
-/** The aggregation mode of a question (DESIGN.md workflow step 1). */
+/** The aggregation mode of a question (docs/methods.md §14.1). */
 export type AggregationMode = "shared-quantity" | "sum-of-parts";
 
 /** One panelist's answer with their bias factor. */

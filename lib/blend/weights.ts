@@ -100,7 +100,7 @@ export interface BatesGrangerOptimum {
 /**
  * The MSE-minimising combination of two unbiased forecasts with error standard deviations
  * σ1, σ2 and error correlation ρ (J. M. Bates and C. W. J. Granger 1969, "The combination of
- * forecasts", Operational Research Quarterly 20(4), 451–468; formula as REFERENCES.md §5a):
+ * forecasts", Operational Research Quarterly 20(4), 451–468; formula as docs/methods.md §5a):
  * λ_opt = (σ1² − ρσ1σ2) / (σ1² + σ2² − 2ρσ1σ2) on forecast 2, 1 − λ_opt on forecast 1, and
  * minimum MSE σ1²σ2²(1 − ρ²) / (σ1² + σ2² − 2ρσ1σ2). With ρ = 0 this is inverse-variance
  * weighting. The weights are not constrained: when ρ > σ2/σ1 the weight on forecast 1 is
@@ -131,7 +131,7 @@ function fmt(x: number): string {
   return String(Number(x.toPrecision(4)));
 }
 
-/** E[ε_c²] at baseline weight λ (REFERENCES.md §5a). */
+/** E[ε_c²] at baseline weight λ (docs/methods.md §5a). */
 function combinationMse(lambda: number, v1: number, v2: number, cov: number): number {
   return (1 - lambda) * (1 - lambda) * v1 + lambda * lambda * v2 + 2 * lambda * (1 - lambda) * cov;
 }
@@ -225,7 +225,7 @@ function thin(rule: WeightRule, n: number, min: number): BlendWeights {
 
 /**
  * Inverse-MSE weights from resolved history (Bates & Granger 1969 with the error correlation
- * set to 0; as the diagonal-only `comb_BG` of R package GeomComb, REFERENCES.md §5a):
+ * set to 0; as the diagonal-only `comb_BG` of R package GeomComb, docs/methods.md §5a):
  * w_raw = (1/MSE_p) / (1/MSE_p + 1/MSE_b) = MSE_b / (MSE_p + MSE_b), MSE by
  * lib/forecast/accuracy `meanSquaredError` (errors actual − figure), then shrunk toward equal
  * weights by the number of resolved questions n, as the bias factor is:

@@ -14,7 +14,7 @@
  * Sources: R. J. Hyndman and A. B. Koehler (2006), "Another look at measures of forecast
  * accuracy", International Journal of Forecasting 22(4), 679–688; R. J. Hyndman and
  * G. Athanasopoulos, Forecasting: Principles and Practice, §2.5 / §5.8 (sMAPE, MASE);
- * tracking signal as defined in REFERENCES.md §8 (cumulative error over the running MAD).
+ * tracking signal as defined in docs/methods.md §8 (cumulative error over the running MAD).
  */
 import { neumaierSum } from "../stats/sum";
 
@@ -162,7 +162,7 @@ export function maseDenominator(training: readonly number[], season = 1): number
  *
  * NaN when the scale is 0 or undefined (constant or too short training series).
  * @throws RangeError for empty, unequal-length or non-finite input, or a bad season.
- * @example meanAbsoluteScaledError([73, 74, 69], [70, 70, 70], nist12) // 88/87 (REFERENCES.md §4)
+ * @example meanAbsoluteScaledError([73, 74, 69], [70, 70, 70], nist12) // 88/87 (docs/methods.md §4)
  */
 export function meanAbsoluteScaledError(
   actual: readonly number[],
@@ -179,7 +179,7 @@ export function meanAbsoluteScaledError(
 /**
  * Tracking signal after each period: TS_t = (Σ_{i≤t} e_i) / MAD_t, with e_i = actual −
  * forecast and MAD_t = (1/t)·Σ_{i≤t} |e_i| the running mean absolute deviation
- * (REFERENCES.md §8; the cumulative-MAD form, not Brown's or Trigg's smoothed one).
+ * (docs/methods.md §8; the cumulative-MAD form, not Brown's or Trigg's smoothed one).
  * A value beyond about ±4 is the usual alarm limit (common practice, no authoritative source).
  *
  * TS_t is NaN while all errors so far are 0 (MAD_t = 0).

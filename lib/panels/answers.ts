@@ -8,7 +8,7 @@
  *
  * From round 2 on, a panelist whose final answer to a shared-quantity question in the previous
  * round lay outside that round's interquartile range (below Q1 or above Q3, type 7) must give a
- * rationale: Delphi feedback asks those outside the IQR to explain (DESIGN.md workflow step 4).
+ * rationale: Delphi feedback asks those outside the IQR to explain (docs/methods.md §14.4).
  * Sum-of-parts answers estimate different parts, so the rule does not apply to them.
  */
 import { db, dialect, sqlRows, sqlTime } from "@/lib/db";

@@ -1,5 +1,5 @@
 /**
- * Baselines on questions (DESIGN.md workflow step 6): the organiser attaches a history — CSV
+ * Baselines on questions (docs/methods.md §14.6): the organiser attaches a history — CSV
  * text or pasted values, optionally with explanatory columns and their values for the target
  * period, or an analogous product's history scaled by a stated factor — and the engine
  * (lib/forecast/baseline.ts) fits it, automatically or with a chosen method, and forecasts

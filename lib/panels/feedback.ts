@@ -1,5 +1,5 @@
 /**
- * Feedback for a panelist after a round closes (DESIGN.md workflow step 4): the group median
+ * Feedback for a panelist after a round closes (docs/methods.md §14.4): the group median
  * and quartiles, the spread of answers for a chart with their own answer marked, and the
  * anonymous rationales, ordered by the value they came with.
  *

@@ -1,5 +1,5 @@
 /**
- * The report of one question (DESIGN.md workflow step 8), a read model for the reviewer report
+ * The report of one question (docs/methods.md §14.8), a read model for the reviewer report
  * page and the JSON/CSV exports: the blended figure and range first; the three legs side by
  * side (panel raw and corrected with ranges, baseline with method and interval, track-record
  * summary); convergence across rounds; departures; the bias correction applied per panelist;

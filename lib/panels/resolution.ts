@@ -1,5 +1,5 @@
 /**
- * Resolution (DESIGN.md workflow step 9): the organiser records a question's actual value,
+ * Resolution (docs/methods.md §14.9): the organiser records a question's actual value,
  * once. The figures as they stand at that moment (raw panel, corrected panel, baseline, blend
  * and each panelist's final answer, with the bias factor applied to it) are stored with it and
  * scored by lib/blend `scoreResolution` / `scoreFigure` (errors actual − figure, percent

@@ -1,5 +1,5 @@
 /**
- * Round statistics of one question (DESIGN.md "Round statistics"), computed from the final
+ * Round statistics of one question (docs/methods.md §13), computed from the final
  * answers of a round by lib/stats. Pure: no database; lib/panels/rounds.ts stores the result
  * as JSON in RoundStatistic.data when a round closes.
  *

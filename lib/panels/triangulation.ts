@@ -1,5 +1,5 @@
 /**
- * Triangulation of one question (DESIGN.md workflow step 7): the panel figure and its
+ * Triangulation of one question (docs/methods.md §14.7): the panel figure and its
  * distribution, the bias-corrected panel figure, the blend with the baseline and its range,
  * and the departure report. Every figure comes from lib/blend; this file only gathers the
  * inputs and composes the calls.

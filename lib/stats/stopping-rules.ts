@@ -62,7 +62,7 @@ export const STOPPING_RULE_DEFAULTS = {
       value: 0.5,
       source: "English & Kernan (1976): CV ≤ 0.5 good consensus, 0.5–0.8 less than satisfactory, > 0.8 poor.",
       verified: false,
-      note: "Convention: quoted from memory, not verified in the source (REFERENCES.md §6).",
+      note: "Convention: quoted from memory, not verified in the source (docs/methods.md §6).",
     },
     "relative-iqr": {
       value: 0.25,
@@ -82,7 +82,7 @@ export const STOPPING_RULE_DEFAULTS = {
     value: 3,
     source: "Linstone, H. A. and Turoff, M. (1975), The Delphi Method, ch. IV.A: early forecasting Delphis found three rounds were usually enough for stability.",
     verified: true,
-    note: "Reported in the source (REFERENCES.md §6).",
+    note: "Reported in the source (docs/methods.md §6).",
   },
 } as const;
 

@@ -3,7 +3,7 @@ import { neumaierSum } from "./sum";
 import { welford } from "./moments";
 import { quantileOfSorted, sortAscending, type QuantileType, DEFAULT_QUANTILE_TYPE } from "./quantile";
 
-/** Round statistics of one sample (DESIGN.md, "Round statistics"). */
+/** Round statistics of one sample (docs/methods.md §13). */
 export interface Summary {
   readonly n: number;
   readonly mean: number;
@@ -30,7 +30,7 @@ export interface SummaryOptions {
 }
 
 /**
- * Round statistics of a sample, as DESIGN.md "Round statistics" specifies.
+ * Round statistics of a sample, as docs/methods.md §13 specifies.
  *
  * Definitions:
  * - mean = Σx/n (Neumaier compensated sum); sd = √(Σ(x − x̄)²/(n − 1)) by Welford (1962),

@@ -1,6 +1,6 @@
 /**
  * Three-point answers (low / most likely / high, read as the 10th / 50th / 90th percentiles,
- * DESIGN.md) and their pooling into one panel distribution.
+ * docs/methods.md §14.1) and their pooling into one panel distribution.
  *
  * ## Per-answer distribution
  * Each answer (L, M, H) with L ≤ M ≤ H is turned into the continuous distribution whose

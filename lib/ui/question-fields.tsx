@@ -1,5 +1,5 @@
 /**
- * The fields of a question (DESIGN.md workflow step 1), for adding and for editing. Errors
+ * The fields of a question (docs/methods.md §14.1), for adding and for editing. Errors
  * from the server appear beside each field (FieldError reads the enclosing ActionForm).
  */
 import type { QuestionView } from "@/lib/panels/panels";

@@ -163,7 +163,7 @@ describe("blended mixture w·F_panel + (1 − w)·F_baseline: quantiles by bisec
       errorCorrelation: 0.3,
     };
     const b = blend(input);
-    // Hand: σ_p = (P90 − P10)/(2·qnorm(0.9)); σ_c² = w²σ_p² + (1 − w)²σ_b² + 2w(1 − w)ρσ_pσ_b (REFERENCES.md §5a, λ = 1 − w).
+    // Hand: σ_p = (P90 − P10)/(2·qnorm(0.9)); σ_c² = w²σ_p² + (1 − w)²σ_b² + 2w(1 − w)ρσ_pσ_b (docs/methods.md §5a, λ = 1 − w).
     const z90 = 1.2815515655446004; // qnorm(0.9) printed by R 4.2.2
     const sp = (p90 - p10) / (2 * z90);
     const sc = Math.sqrt(W * W * sp * sp + (1 - W) ** 2 * 144 + 2 * W * (1 - W) * 0.3 * sp * 12);

@@ -3,7 +3,7 @@ import { TRACKING_SIGNAL_LIMIT, accuracyHistory, scoreFigure, scoreResolution, t
 import { referenceCsv } from "../stats/reference-data";
 import { runR, rVector } from "../stats/rscript";
 
-describe("accuracyHistory and the tracking signal, REFERENCES.md §8 check values [COMPUTED-ONLY]", () => {
+describe("accuracyHistory and the tracking signal, docs/methods.md §8 check values [COMPUTED-ONLY]", () => {
   // §8: actual 100, 105, 98, 110, 112, 115, 120; forecast 102, 100, 100, 104, 106, 108, 110.
   const actual = [100, 105, 98, 110, 112, 115, 120];
   const baseline = [102, 100, 100, 104, 106, 108, 110];
@@ -50,7 +50,7 @@ out(cumsum(e) / (cumsum(abs(e)) / seq_along(e)))`);
     }
   });
 
-  it("REFERENCES.md §4 small example as a history: MAE 10, RMSE 10, MAPE 11.6666667, sMAPE 10.9446109 [COMPUTED-ONLY]", () => {
+  it("docs/methods.md §4 small example as a history: MAE 10, RMSE 10, MAPE 11.6666667, sMAPE 10.9446109 [COMPUTED-ONLY]", () => {
     const y = [100, 200, 50];
     const f = [110, 190, 60];
     const h = accuracyHistory(y.map((a, i) => ({ actual: a, rawPanel: f[i], correctedPanel: f[i], baseline: f[i], blend: f[i] })));
@@ -78,7 +78,7 @@ describe("trackingAlarm", () => {
 });
 
 describe("scoreResolution: every figure of one question", () => {
-  it("errors, percent errors and sMAPE by hand from the definitions (REFERENCES.md §4)", () => {
+  it("errors, percent errors and sMAPE by hand from the definitions (docs/methods.md §4)", () => {
     const s = scoreResolution(120, {
       rawPanel: 100,
       correctedPanel: 110,
@@ -102,7 +102,7 @@ describe("scoreResolution: every figure of one question", () => {
     expect(s.blend.scaledError).toBeNaN(); // no training series given
   });
 
-  it("scaled error uses the MASE scale of REFERENCES.md §4: NIST 12-point series, scale 29/11 [COMPUTED-ONLY]", () => {
+  it("scaled error uses the MASE scale of docs/methods.md §4: NIST 12-point series, scale 29/11 [COMPUTED-ONLY]", () => {
     const { y } = referenceCsv("nist_handbook_6431_ses12.csv");
     const s = scoreFigure("baseline", 73, 70, { training: y });
     expect(s.scaledError).toBeCloseTo(3 / (29 / 11), 12);

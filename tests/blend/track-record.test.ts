@@ -15,7 +15,7 @@ import {
 import { referenceCsv } from "../stats/reference-data";
 import { runR, rVector } from "../stats/rscript";
 
-describe("theilDecomposition (Theil 1966) on the gretl 5-observation example, REFERENCES.md §5b", () => {
+describe("theilDecomposition (Theil 1966) on the gretl 5-observation example, docs/methods.md §5b", () => {
   const { actual, forecast } = referenceCsv("gretl_forecast_eval_5obs.csv");
 
   it("reproduces gretl's printed UM 0.06394, UR 0.13557, UD 0.80049 and MSE 218.61 [SOURCE: gretl output]", () => {

@@ -23,8 +23,8 @@ function historyFromErrors(ePanel: readonly number[], eBaseline: readonly number
   );
 }
 
-describe("batesGrangerWeights: REFERENCES.md §5a check table [COMPUTED-ONLY from the formula]", () => {
-  // Rows σ1, σ2, ρ → w1, w2, combined MSE, as printed in REFERENCES.md §5a (10 decimals).
+describe("batesGrangerWeights: docs/methods.md §5a check table [COMPUTED-ONLY from the formula]", () => {
+  // Rows σ1, σ2, ρ → w1, w2, combined MSE, as printed in docs/methods.md §5a (10 decimals).
   const rows = [
     [2, 1, 0, 0.2, 0.8, 0.8],
     [2, 1, 0.5, 0, 1, 1],
@@ -72,7 +72,7 @@ o <- optimize(f, c(-5, 5), tol = 1e-12); out(c(o$minimum, o$objective))`,
 });
 
 describe("inverseMseWeights (Bates & Granger 1969, ρ = 0)", () => {
-  // REFERENCES.md §5a [COMPUTED-ONLY from the formula]: e1 = (2, −1, 3, −2, 1), e2 = (1, 1, −1, 0.5, −0.5)
+  // docs/methods.md §5a [COMPUTED-ONLY from the formula]: e1 = (2, −1, 3, −2, 1), e2 = (1, 1, −1, 0.5, −0.5)
   // give MSE1 = 3.8, MSE2 = 0.7, w1 = 0.1555555556, w2 = 0.8444444444.
   const history = historyFromErrors([2, -1, 3, -2, 1], [1, 1, -1, 0.5, -0.5]);
 

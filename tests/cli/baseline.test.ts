@@ -56,7 +56,7 @@ describe("triangulate baseline", () => {
       expect(s.lower["95"]).toBeCloseTo(rv[9 + i], 9);
       expect(s.upper["95"]).toBeCloseTo(rv[12 + i], 9);
     });
-    // In-sample naive MASE is 1 by construction and MAE = 29/11 (REFERENCES.md §4, R accuracy()).
+    // In-sample naive MASE is 1 by construction and MAE = 29/11 (docs/methods.md §4, R accuracy()).
     expect(out.accuracy.insample.mase).toBeCloseTo(1, 12);
     expect(out.accuracy.insample.mae).toBeCloseTo(29 / 11, 12);
     expect(out.fitted[0]).toBeNull();

@@ -21,7 +21,7 @@ const SES12: readonly number[] = NIST12.y;
 const QS = referenceCsv("quarterly_sales24.csv");
 const QUARTERLY: readonly number[] = QS.y;
 
-describe("accuracy: REFERENCES.md §4 check values [COMPUTED-ONLY, R forecast 8.20 accuracy() agrees with a hand calculation]", () => {
+describe("accuracy: docs/methods.md §4 check values [COMPUTED-ONLY, R forecast 8.20 accuracy() agrees with a hand calculation]", () => {
   it("data files read as expected", () => {
     expect(SES12).toEqual([71, 70, 69, 68, 64, 65, 72, 78, 75, 75, 75, 70]);
     expect(QUARTERLY.length).toBe(24);
@@ -76,7 +76,7 @@ describe("accuracy: REFERENCES.md §4 check values [COMPUTED-ONLY, R forecast 8.
   });
 });
 
-describe("tracking signal: REFERENCES.md §8 check values [COMPUTED-ONLY; definition SOURCE via Wikipedia copy]", () => {
+describe("tracking signal: docs/methods.md §8 check values [COMPUTED-ONLY; definition SOURCE via Wikipedia copy]", () => {
   const actual = [100, 105, 98, 110, 112, 115, 120];
   const fc = [102, 100, 100, 104, 106, 108, 110];
   it("TS series −1, 0.8571429, 0.3333333, 1.8666667, 3.0952381, 4.2857143, 5.5263158", () => {

@@ -7,7 +7,7 @@ import { expectClose, runR, rVector } from "../stats/rscript";
 /** NIST e-Handbook §6.4.3.1 12-point series (tests/reference-data/nist_handbook_6431_ses12.csv). */
 const SES12 = referenceCsv("nist_handbook_6431_ses12.csv").y;
 
-describe("moving-average: REFERENCES.md §4 trailing 3-point check values [COMPUTED-ONLY]", () => {
+describe("moving-average: docs/methods.md §4 trailing 3-point check values [COMPUTED-ONLY]", () => {
   it("forecasts for t = 4..13: 70, 69, 67, 65.666667, 67, 71.666667, 75, 76, 75, 73.333333; MSE 25.691358, MAE 3.962963", () => {
     const fit = movingAverage.fit({ y: SES12, season: 1, fixed: { window: 3 } });
     const f = movingAverage.forecast(fit, 1, [80]);

@@ -3,7 +3,7 @@ import { leverage, ols, olsPredict, OlsInputError } from "../../lib/forecast/ols
 import { referenceCsv, referenceText } from "../stats/reference-data";
 import { expectClose, runR } from "../stats/rscript";
 
-/** NIST StRD Norris data and certified values (tests/reference-data, REFERENCES.md §1a). */
+/** NIST StRD Norris data and certified values (tests/reference-data, docs/methods.md §1a). */
 const NORRIS = referenceCsv("nist_strd_norris.csv");
 const CERT = JSON.parse(referenceText("nist_strd_norris_certified.json")) as {
   B0: { estimate: string; sd: string };
@@ -13,7 +13,7 @@ const CERT = JSON.parse(referenceText("nist_strd_norris_certified.json")) as {
   anova: { regression: { ss: string; F: string }; residual: { ss: string; ms: string; df: number } };
 };
 
-describe("ols: NIST StRD Norris certified values [SOURCE via copies] (REFERENCES.md §1a)", () => {
+describe("ols: NIST StRD Norris certified values [SOURCE via copies] (docs/methods.md §1a)", () => {
   const fit = ols(NORRIS.y, [NORRIS.x]);
   const rel = (a: number, b: string) => Math.abs(a - Number(b)) / Math.abs(Number(b));
   it("n = 36, coefficients B0, B1 to 1e-11 relative (NIST certifies 15 digits)", () => {

@@ -1,6 +1,6 @@
 /**
  * The Theta method (Hyndman & Billah 2003 form, arithmetic of R forecast::thetaf).
- * Expected values: REFERENCES.md §9 check values, and R 4.x forecast::thetaf computed in the test.
+ * Expected values: docs/methods.md §9 check values, and R 4.x forecast::thetaf computed in the test.
  */
 import { describe, expect, it } from "vitest";
 import theta from "../../lib/forecast/methods/theta";
@@ -12,7 +12,7 @@ const TREND10 = Object.freeze([6.4, 5.6, 7.8, 8.8, 11.0, 11.6, 16.7, 15.3, 21.6,
 
 preloadSeries(["Nile", "AirPassengers", "UKgas", "WWWusage"]);
 
-describe("Theta with fixed α = 0.5 and ℓ = y1 (REFERENCES.md §9 check values [COMPUTED-ONLY])", () => {
+describe("Theta with fixed α = 0.5 and ℓ = y1 (docs/methods.md §9 check values [COMPUTED-ONLY])", () => {
   // "SES with ℓ = y1 then updated with y2..yn": with l0 = y1 the level after y1 is y1.
   it("NIST 12-point series", () => {
     const fit = theta.fit({ y: SES12, season: 1, fixed: { alpha: 0.5, l0: SES12[0] } });

@@ -47,7 +47,7 @@ const LOG_ERRORS = [0.1, -0.2, 0.15, -0.05];
  * R prelude: the panel leg from the track record (Gelman et al. 2013 §2.6: s² = (3·0.25² + Σe²)/(3 + n),
  * P10/P90 = figure·exp(∓qt(0.9, 3 + n)·s)) as the two-piece normal through them; and the blend
  * N(w·p + (1 − w)·b, σ_c²) with σ_c² = w²σp² + (1 − w)²σb² + 2w(1 − w)ρσpσb (Bates & Granger 1969,
- * REFERENCES.md §5a), σp = (P90 − P10)/(2·qnorm(0.9)), ρ the prior 0.5 without history.
+ * docs/methods.md §5a), σp = (P90 − P10)/(2·qnorm(0.9)), ρ the prior 0.5 without history.
  */
 const R_LEGS = `
 leg <- function(fig, e) { s <- sqrt((3 * 0.25^2 + sum(e^2)) / (3 + length(e))); t <- qt(0.9, 3 + length(e)); c(fig * exp(-t * s), fig, fig * exp(t * s)) }
@@ -90,7 +90,7 @@ describe("computeTriangulation: shared quantity, single values, equal weights", 
     expect(tight.panel!.raw.intervals).toEqual(t.panel!.raw.intervals);
   });
 
-  it("blend figure 0.5·150 + 0.5·140 = 145 (DESIGN.md, equal weights) is the median of its distribution, inside its ranges (R qnorm)", () => {
+  it("blend figure 0.5·150 + 0.5·140 = 145 (docs/methods.md §15c, equal weights) is the median of its distribution, inside its ranges (R qnorm)", () => {
     expect(t.weights!.panel).toBe(0.5);
     expect(t.blend!.figure).toBe(145);
     expectClose([b50], [145], 1e-12, "R's median of the blend");

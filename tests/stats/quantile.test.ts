@@ -11,13 +11,13 @@ const RATINGS = Object.freeze([3, 4, 4, 5, 5, 5, 6, 7]);
 
 describe("quantile: published worked examples", () => {
   it("Wikipedia 'Percentile' list 15,20,35,40,50 at 40%: type 7 → 29, type 6 → 26", () => {
-    // REFERENCES.md §3 (b) [SOURCE via liquisearch copy of Wikipedia] [RECOMPUTED in R]
+    // docs/methods.md §3 (b) [SOURCE via liquisearch copy of Wikipedia] [RECOMPUTED in R]
     expect(quantile(FIVE, 0.4)).toBeCloseTo(29, 12);
     expect(quantile(FIVE, 0.4, { type: 6 })).toBeCloseTo(26, 12);
   });
 
   it("NIST e-Handbook §7.2.5.2 resistivity: 90th percentile by p(N+1) (type 6) = 95.1981", () => {
-    // REFERENCES.md §3 (a) [SOURCE via a Java unit test quoting the handbook]; printed to 4 dp
+    // docs/methods.md §3 (a) [SOURCE via a Java unit test quoting the handbook]; printed to 4 dp
     expect(Math.abs(quantile(RESISTIVITY, 0.9, { type: 6 }) - 95.1981)).toBeLessThan(0.00005);
     // same source: 0% → 95.0610, 50% → 95.1579, 100% → 95.1990
     expect(quantile(RESISTIVITY, 0, { type: 6 })).toBeCloseTo(95.061, 10);
@@ -26,7 +26,7 @@ describe("quantile: published worked examples", () => {
   });
 });
 
-describe("quantile: REFERENCES.md §3 tables (R 4.2.2 quantile(type = 1..9), [COMPUTED-ONLY, reference library])", () => {
+describe("quantile: docs/methods.md §3 tables (R 4.2.2 quantile(type = 1..9), [COMPUTED-ONLY, reference library])", () => {
   const cases: ReadonlyArray<{ x: readonly number[]; p: readonly number[]; rows: readonly (readonly number[])[] }> = [
     {
       x: FIVE,
@@ -85,7 +85,7 @@ describe("quantile: REFERENCES.md §3 tables (R 4.2.2 quantile(type = 1..9), [CO
   }
 
   it("ratings 3,4,4,5,5,5,6,7: Q3 by type 1..9 and the type-7 / type-6 IQRs 1.25 / 1.75", () => {
-    // REFERENCES.md §3, Delphi-style ratings [COMPUTED-ONLY, R 4.2.2]
+    // docs/methods.md §3, Delphi-style ratings [COMPUTED-ONLY, R 4.2.2]
     const q3 = [5, 5.5, 5, 5, 5.5, 5.75, 5.25, 5.583333333, 5.5625];
     for (let t = 1; t <= 9; t++) {
       expect(Math.abs(quantile(RATINGS, 0.75, { type: t as QuantileType }) - q3[t - 1])).toBeLessThan(5e-10);
@@ -96,7 +96,7 @@ describe("quantile: REFERENCES.md §3 tables (R 4.2.2 quantile(type = 1..9), [CO
   });
 
   it("odd n = 7, x = 2,4,4,5,7,9,10: (Q1, median, Q3) for types 7, 6, 4, 8", () => {
-    // REFERENCES.md §3 [COMPUTED-ONLY, R 4.2.2]
+    // docs/methods.md §3 [COMPUTED-ONLY, R 4.2.2]
     const x = [2, 4, 4, 5, 7, 9, 10];
     const q = (type: QuantileType) => [0.25, 0.5, 0.75].map((p) => quantile(x, p, { type }));
     expectClose(q(7), [4, 5, 8], 1e-15, "type 7");

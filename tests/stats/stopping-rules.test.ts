@@ -1,5 +1,5 @@
 /**
- * Stopping rules (lib/stats/stopping-rules.ts). Expected values: REFERENCES.md §6 check values
+ * Stopping rules (lib/stats/stopping-rules.ts). Expected values: docs/methods.md §6 check values
  * for ratings 3,4,4,5,5,5,6,7 (CV 0.255676, type-7 IQR 1.25, median 5 — computed in R), R
  * via Rscript, and hand computations from Δ = |T_r − T_{r−1}| / |T_{r−1}| and from the
  * distribution change ½·Σ|p_k − p'_k| over the previous round's quartile classes (after Scheibe,
@@ -50,7 +50,7 @@ describe("relativeChange", () => {
 
 describe("consensus", () => {
   const ratings = [3, 4, 4, 5, 5, 5, 6, 7];
-  it("CV of 3,4,4,5,5,5,6,7 is 0.255676 (REFERENCES.md §6) and meets CV ≤ 0.5, yet consensus alone does not stop (von der Gracht 2012)", () => {
+  it("CV of 3,4,4,5,5,5,6,7 is 0.255676 (docs/methods.md §6) and meets CV ≤ 0.5, yet consensus alone does not stop (von der Gracht 2012)", () => {
     const e = evaluateStoppingRules({ roundNumber: 1, current: [figures("q", ratings)], previous: null, config });
     expect(Math.abs(e.questions[0].consensus.value! - 0.255676)).toBeLessThan(1e-6); // printed to 6 decimals
     expect(e.questions[0].consensus.met).toBe(true);
@@ -59,7 +59,7 @@ describe("consensus", () => {
     expect(e.recommendation).toBe("another-round");
     expect(e.reasons.join(" ")).toMatch(/consensus alone does not stop/);
   });
-  it("relative IQR of the same ratings is 1.25 / 5 = 0.25 (REFERENCES.md §6 type-7 IQR); not met at 0.2", () => {
+  it("relative IQR of the same ratings is 1.25 / 5 = 0.25 (docs/methods.md §6 type-7 IQR); not met at 0.2", () => {
     const e = evaluateStoppingRules({
       roundNumber: 1,
       current: [figures("q", ratings)],
@@ -186,7 +186,7 @@ describe("round limit and recommendation", () => {
 });
 
 describe("defaults", () => {
-  it("are relative IQR ≤ 0.25 (project convention), 15% stability and 3 rounds, with sources and verified flags as REFERENCES.md §6", () => {
+  it("are relative IQR ≤ 0.25 (project convention), 15% stability and 3 rounds, with sources and verified flags as docs/methods.md §6", () => {
     expect(STOPPING_RULE_DEFAULTS.consensusMeasure.value).toBe("relative-iqr");
     expect(STOPPING_RULE_DEFAULTS.consensusThreshold["relative-iqr"].value).toBe(0.25);
     expect(STOPPING_RULE_DEFAULTS.consensusThreshold.cv.value).toBe(0.5);

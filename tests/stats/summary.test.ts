@@ -12,7 +12,7 @@ const R_SUMMARY = `s <- function(x) { q <- quantile(x, c(.25, .5, .75), type = 7
 describe("summarise against R (mean, sd, quantile type 7, median, IQR) via Rscript", () => {
   const INPUTS: readonly (readonly number[])[] = [
     RESISTIVITY, // NIST e-Handbook §7.2.5.2 data
-    [3, 4, 4, 5, 5, 5, 6, 7], // REFERENCES.md §3 ratings
+    [3, 4, 4, 5, 5, 5, 6, 7], // docs/methods.md §3 ratings
     [2, 4, 4, 5, 7, 9, 10],
     [15, 20, 35, 40, 50],
     [120, 95, 150, 110, 400, 130, 125, 90, 105], // an outlier
@@ -27,7 +27,7 @@ describe("summarise against R (mean, sd, quantile type 7, median, IQR) via Rscri
     });
   });
 
-  it("REFERENCES.md §3/§6 ratings check values: mean 4.875, sd 1.246423, cv 0.255676, IQR 1.25 [COMPUTED-ONLY]", () => {
+  it("docs/methods.md §3/§6b ratings check values: mean 4.875, sd 1.246423, cv 0.255676, IQR 1.25 [COMPUTED-ONLY]", () => {
     const s = summarise([3, 4, 4, 5, 5, 5, 6, 7]);
     expect(s.mean).toBe(4.875);
     expect(s.sd).toBeCloseTo(1.246423, 6);

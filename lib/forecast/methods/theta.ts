@@ -15,7 +15,7 @@ const MIN_LENGTH = 3;
  * The standard Theta method (Assimakopoulos & Nikolopoulos 2000), in the form shown by
  * Hyndman & Billah (2003), "Unmasking the Theta method", IJF 19(2): simple exponential
  * smoothing plus half the OLS trend slope; the arithmetic follows R forecast::thetaf
- * (REFERENCES.md §9).
+ * (docs/methods.md §9).
  *
  * Steps:
  * 1. Seasonality test (only when m > 1, the series is not constant and n > 2m): with r_k
