@@ -23,9 +23,9 @@
  *   (lib/blend `shrunkBiasFactor`); the corrected figure is the median of the corrected answers
  *   or the sum of the corrected parts; the corrected distribution is built the same way from the
  *   corrected answers. Raw and corrected are always both reported.
- * - Blend: the mixture of the corrected panel distribution and the baseline's normal predictive
- *   distribution, weight by the question's rule, else the panel's (equal, inverse-MSE from the
- *   organiser's resolved history shrunk toward equal, or organiser-set); the blend figure
+ * - Blend: one normal predictive distribution (docs/methods.md §15d), weight by the question's
+ *   rule, else the panel's (equal, inverse-MSE from the organiser's resolved history shrunk
+ *   toward equal, or organiser-set); the blend figure
  *   w·panel + (1 − w)·baseline is the median of its normal predictive distribution (Bates &
  *   Granger's combined error variance), so it lies inside the blend's ranges.
  * - Departures: every answer of every closed round (shared quantity only: a part is not
