@@ -32,6 +32,7 @@ import { baseline } from "../lib/forecast/baseline";
 import { blendErrorCorrelation, trackRecord, type BiasFactor, type ResolvedAnswer, type ResolvedPair } from "../lib/blend";
 import { computeTriangulation, type TriangulationAnswer } from "../lib/panels/triangulation";
 import { normalQuantile } from "../lib/stats/normal";
+import { mulberry32 } from "../tests/helpers/prng";
 
 const { values: args } = parseArgs({
   options: {
@@ -44,18 +45,7 @@ const { values: args } = parseArgs({
   },
 });
 
-/** mulberry32: a small 32-bit PRNG (public domain, T. Ettinger), fixed start value for repeatable runs. */
-function prng(start: number): () => number {
-  let a = start >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-const rand = prng(20260412);
+const rand = mulberry32(20260412);
 const gauss = () => normalQuantile(Math.min(1 - 1e-12, Math.max(1e-12, rand())));
 
 interface Series {

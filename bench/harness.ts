@@ -17,6 +17,9 @@ import { createServer } from "node:net";
 import path from "node:path";
 import { performance } from "node:perf_hooks";
 import { openSql } from "./sql";
+import { mulberry32 } from "../tests/helpers/prng";
+
+export { mulberry32 };
 
 export const root = path.resolve(path.dirname(new URL(import.meta.url).pathname), "..");
 const bin = (name: string) => path.join(root, "node_modules", ".bin", name);
@@ -240,16 +243,6 @@ export interface PanelSetup {
   readonly panelists: readonly Panelist[];
 }
 
-/** A deterministic value generator (mulberry32, fixed start) so runs are comparable. */
-export function mulberry32(a: number): () => number {
-  return () => {
-    a |= 0;
-    a = (a + 0x6d2b79f5) | 0;
-    let t = Math.imul(a ^ (a >>> 15), 1 | a);
-    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t;
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 /** Runs `fn` over `items` with at most `limit` calls in flight. */
 export async function pool<T, R>(items: readonly T[], limit: number, fn: (item: T, index: number) => Promise<R>): Promise<R[]> {
