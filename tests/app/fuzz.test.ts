@@ -14,6 +14,7 @@
  * failure list names the request's index and shape. People are invented (Quillmoor Instruments).
  */
 import { createHash, randomBytes } from "node:crypto";
+import http from "node:http";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { mulberry32 } from "../helpers/prng";
 import { routes, type RouteDef } from "../../lib/http/routes";
@@ -205,6 +206,27 @@ interface Sent {
   readonly text: string;
 }
 
+/**
+ * One request over node:http that reads the server's answer even when the server answers before
+ * the whole body is sent (a 413 on an oversized body) and closes the connection: fetch would
+ * fail with EPIPE there, although an HTTP client may read such an early response (RFC 9112 §9.6).
+ */
+function request(url: string, method: string, headers: Record<string, string>, payload?: string | Uint8Array): Promise<{ status: number; contentType: string; text: string }> {
+  return new Promise((resolve, reject) => {
+    let answered = false;
+    const req = http.request(url, { method, headers: { ...headers, ...(payload !== undefined ? { "content-length": String(Buffer.byteLength(payload)) } : {}) }, agent: false }, (res) => {
+      answered = true;
+      const chunks: Buffer[] = [];
+      res.on("data", (c: Buffer) => chunks.push(c));
+      res.on("end", () => resolve({ status: res.statusCode ?? 0, contentType: String(res.headers["content-type"] ?? ""), text: Buffer.concat(chunks).toString("utf8") }));
+      res.on("error", reject);
+    });
+    // A write error after the answer has begun (the server closed early) is not a failure.
+    req.on("error", (err) => (answered ? undefined : reject(err)));
+    req.end(payload);
+  });
+}
+
 async function send(i: number, kind: string, method: string, path: string, creds: Creds, body?: unknown, raw?: string | Uint8Array): Promise<Sent> {
   const headers: Record<string, string> = { ...creds.headers };
   if (creds.token) headers.authorization = `Bearer ${creds.token}`;
@@ -213,15 +235,15 @@ async function send(i: number, kind: string, method: string, path: string, creds
   if (raw !== undefined) payload = raw;
   else if (body !== undefined) payload = JSON.stringify(body);
   if (payload !== undefined) headers["content-type"] = "application/json";
-  const res = await fetch(`${baseURL}${path}`, { method, headers, body: payload as BodyInit | undefined, redirect: "manual" });
-  const text = await res.text();
+  const res = await request(`${baseURL}${path}`, method, headers, payload);
+  const text = res.text;
   let problemStatus: unknown;
   try {
     problemStatus = JSON.parse(text).status;
   } catch {
     problemStatus = undefined;
   }
-  return { i, kind, method, path: path.length > 120 ? `${path.slice(0, 120)}…` : path, status: res.status, contentType: res.headers.get("content-type") ?? "", problemStatus, text: text.slice(0, 200) };
+  return { i, kind, method, path: path.length > 120 ? `${path.slice(0, 120)}…` : path, status: res.status, contentType: res.contentType, problemStatus, text: text.slice(0, 200) };
 }
 
 /**

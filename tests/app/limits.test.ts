@@ -23,7 +23,7 @@ const question = (i: number) => ({ text: `Wren-2 units sold in region ${i}?`, un
 async function fillRoster(userId: string, from: number, count: number): Promise<void> {
   await sql(
     `INSERT INTO "RosterMember" ("id", "ownerId", "name", "email", "group", "createdAt")
-     WITH RECURSIVE n(i) AS (SELECT ? UNION ALL SELECT i + 1 FROM n WHERE i < ?)
+     WITH RECURSIVE n(i) AS (SELECT CAST(? AS INTEGER) UNION ALL SELECT i + 1 FROM n WHERE i < CAST(? AS INTEGER))
      SELECT 'filler-' || i, ?, 'Filler ' || i, 'filler' || i || '@example.com', '', ? FROM n`,
     [from, from + count - 1, userId, new Date()],
   );

@@ -90,12 +90,12 @@ describe("csvCell: cells are quoted where any common list separator would split 
 
 describe("CSV columns named like Object's own properties are columns like any other", () => {
   const parse = (body: unknown) => baselineInput.parse(body);
-  it.each(["constructor", "__proto__", "toString", "hasOwnProperty"])("a column named %s", (name) => {
+  it.each(["constructor", "__proto__", "toString", "hasOwnProperty"])("a column named %s", async (name) => {
     const csv = `month,${name},value\n1,3,10\n2,4,12\n3,5,13\n4,6,15\n5,7,16\n`;
     // Another column's target-period values given, this one's missing: a field error, not a crash.
     let error: unknown;
     try {
-      analyseBaseline(parse({ csv, futureValues: { month: [6] } }));
+      await analyseBaseline(parse({ csv, futureValues: { month: [6] } }));
     } catch (err) {
       error = err;
     }
