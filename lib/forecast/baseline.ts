@@ -24,6 +24,7 @@ import { ForecastInputError, METHOD_IDS, type Fit, type Forecast, type Method, t
  */
 export const NOT_AUTOMATIC: Readonly<Partial<Record<MethodId, string>>> = {
   arima: "not compared automatically (slow order search); ask for it by name",
+  bass: "not compared automatically (a diffusion curve for adoptions since launch); ask for it by name",
 };
 
 /** Interval levels used when none are given. */

@@ -18,6 +18,7 @@ import theta from "./methods/theta";
 import linearTrend from "./methods/linear-trend";
 import regression from "./methods/regression";
 import arima from "./methods/arima";
+import bass from "./methods/bass";
 
 /** All registered methods, in METHOD_IDS order. */
 export const METHODS: readonly Method[] = ([
@@ -36,6 +37,7 @@ export const METHODS: readonly Method[] = ([
   linearTrend,
   regression,
   arima,
+  bass,
 ] as Method[]).sort(
   (a, b) => METHOD_IDS.indexOf(a.id) - METHOD_IDS.indexOf(b.id),
 );

@@ -14,6 +14,7 @@
  *   var = σ² Σ_i (⌊(h − i)/lag⌋ + 1)² + se_b² (Σ_j ⌈j/lag⌉)².
  * Non-linear ETS members (M errors, M season): sums of the simulated sample paths (fixed PRNG
  * start value), bounds their type-7 quantiles.
+ * Bass diffusion: h·s² plus the parameters' part gᵀCg of the summed curve (lib/forecast/bass.ts).
  * Other methods: their step variances v_j read as a linear innovations model with
  * non-negative weights, c_k = √((v_{k+1} − v_k)/v_1) (exact for the models above, e.g. ARIMA
  * with positive ψ-weights; an approximation otherwise, said in `how`).
@@ -23,6 +24,8 @@ import { memberOf } from "./ets/family";
 import { errorWeights, hasClosedForm, normalBounds, pointForecasts, sampleBounds } from "./ets/distribution";
 import { samplePaths, PATHS, type EtsSpec, type Smoothing } from "./ets/state-space";
 import { ForecastInputError, type Fit, type FutureX, type Method } from "./types";
+import { bassForecastSum } from "./bass";
+import { asBassFit } from "./methods/bass";
 
 /** The total's mean and bounds by level ("80", "95"), and how its distribution was made. */
 export interface TotalForecast {
@@ -109,6 +112,11 @@ export function forecastTotal(fit: Fit, method: Method, h: number, levels: reado
       return fromNormal(mean, linearTotalVariance(fit.sigma2, errorWeights(spec, par, h), h), levels, `closed form for ETS(A,${spec.trend},${spec.season}) (Hyndman et al. 2008 ch. 6)`);
     }
     return fromPaths(spec, par, fit, h, levels, origin);
+  }
+  if (fit.method === "bass") {
+    checkHorizon(method.id, h, levels);
+    const periods = Array.from({ length: h }, (_, i) => fit.n + i + 1);
+    return { ...bassForecastSum(asBassFit(fit), periods, levels), how: "Bass curve summed over the periods; period errors independent, parameter uncertainty by the delta method" };
   }
   const fc = method.forecast(fit, h, levels, futureX);
   const mean = fc.mean.reduce((a, v) => a + v, 0);

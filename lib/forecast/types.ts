@@ -22,6 +22,7 @@ export const METHOD_IDS = [
   "linear-trend",
   "regression",
   "arima",
+  "bass",
 ] as const;
 export type MethodId = (typeof METHOD_IDS)[number];
 
