@@ -13,6 +13,7 @@ import { METHODS } from "./registry";
 import { prepareSeries, methodProblem, type RawSeries, type PreparedSeries } from "./series";
 import { selectMethod, DEFAULT_ORIGINS, DEFAULT_STEP, DEFAULT_COMBINE, DEFAULT_REFIT, type Selection } from "./select";
 import { forecastTotal, type TotalForecast } from "./total";
+import type { AnalogueFit, MarketPotential, SimulatedQuantity } from "./launch";
 import { ForecastInputError, METHOD_IDS, type Fit, type Forecast, type Method, type MethodId } from "./types";
 
 /**
@@ -107,6 +108,14 @@ export interface BaselineResult {
   readonly combination?: readonly { readonly method: MethodId; readonly parameters: Record<string, number | null> }[];
   /** The total over the horizon, when asked for (`total: true`). */
   readonly total?: TotalResult;
+  /** A launch baseline's analogues, carried p and q, and market potential (lib/forecast/launch.ts). */
+  readonly launch?: {
+    readonly analogues: readonly AnalogueFit[];
+    readonly p: SimulatedQuantity;
+    readonly q: SimulatedQuantity;
+    readonly market: MarketPotential;
+    readonly draws: number;
+  };
   readonly notes: readonly string[];
 }
 

@@ -30,6 +30,9 @@ export const LAUNCH_RNG_START = 0x1969b455;
 export interface MarketPotential {
   readonly median: number;
   readonly sigmaLog: number;
+  /** The P10 and P90 it was made from. */
+  readonly low: number;
+  readonly high: number;
   /** Where it comes from, for people. */
   readonly how: string;
 }
@@ -43,7 +46,7 @@ export function marketPotentialFromRange(low: number, median: number, high: numb
   if (!(Number.isFinite(low) && Number.isFinite(median) && Number.isFinite(high) && low > 0 && low < median && median < high)) {
     throw new RangeError(`market potential: needs 0 < low < median < high (got ${low}, ${median}, ${high})`);
   }
-  return { median, sigmaLog: Math.log(high / low) / (2 * normalQuantile(0.9)), how };
+  return { median, sigmaLog: Math.log(high / low) / (2 * normalQuantile(0.9)), low, high, how };
 }
 
 /** One analogue's fit as shown to people. */

@@ -21,14 +21,22 @@ import type { Actor } from "@/lib/accounts/actor";
 import type { Baseline, Question } from "@/lib/generated/prisma/client";
 import { CsvError, readSeriesCsv, type SeriesTable } from "@/lib/csv/parse";
 import type { BaselineResult } from "@/lib/forecast/baseline";
+import { marketPotentialFromRange, type MarketPotential } from "@/lib/forecast/launch";
 import { ForecastInputError, type MethodId } from "@/lib/forecast/types";
-import type { BASELINE_QUANTITIES, BaselineInput, HISTORY_PERIODS } from "@/lib/validation/triangulation-inputs";
+import type { BASELINE_QUANTITIES, BaselineInput, HISTORY_PERIODS, LaunchInput } from "@/lib/validation/triangulation-inputs";
 import { runJob } from "@/lib/work/pool";
 import { authorisePanel } from "./access";
 import { recordAudit } from "./audit";
 
 export type BaselineQuantity = (typeof BASELINE_QUANTITIES)[number];
 export type HistoryPeriod = (typeof HISTORY_PERIODS)[number];
+/** Where a baseline's history comes from: CSV text, pasted values, or analogous launches (§19). */
+export type BaselineSource = "csv" | "values" | "launch";
+
+/** A launch baseline's market potential as used: the lognormal, its P10–P90, and its question (if any). */
+export interface ResolvedMarket extends MarketPotential {
+  readonly questionId: string | null;
+}
 
 /** One row of the history as read. */
 export interface PreviewRow {
@@ -44,7 +52,7 @@ export interface PreviewRow {
 
 /** What was read, for the preview before and after attaching. */
 export interface BaselinePreview {
-  readonly source: "csv" | "values";
+  readonly source: BaselineSource;
   readonly valueColumn: string;
   readonly explanatoryColumns: readonly string[];
   /** Columns left out because they are not numeric (dates, labels). */
@@ -78,7 +86,7 @@ export interface BaselineTarget {
 
 export interface BaselineView {
   readonly questionId: string;
-  readonly source: "csv" | "values";
+  readonly source: BaselineSource;
   readonly valueColumn: string;
   readonly analogue: { readonly scaleFactor: number; readonly note: string } | null;
   readonly season: number;
@@ -96,7 +104,7 @@ export interface BaselineView {
 
 /** Everything computed from a baseline input (no I/O). */
 interface Analysed {
-  readonly source: "csv" | "values";
+  readonly source: BaselineSource;
   readonly data: string;
   readonly futureX: Record<string, number[]>;
   readonly horizon: number;
@@ -127,7 +135,11 @@ function valuesCsv(values: readonly number[]): string {
  * worker pool (lib/work/pool.ts), so the request thread goes on serving panelists meanwhile.
  * @throws InvalidInputError naming the field (and the CSV row and column).
  */
-export async function analyseBaseline(input: BaselineInput): Promise<Analysed> {
+export async function analyseBaseline(input: BaselineInput, market?: ResolvedMarket): Promise<Analysed> {
+  if (input.launch) {
+    if (!market) throw new Error("analyseBaseline: a launch baseline needs its resolved market potential");
+    return analyseLaunch(input, input.launch, market);
+  }
   const source = input.csv !== undefined ? "csv" : "values";
   const data = input.csv !== undefined ? input.csv : valuesCsv(input.values ?? []);
   const valueColumn = source === "csv" ? input.valueColumn : "value";
@@ -202,10 +214,91 @@ export async function analyseBaseline(input: BaselineInput): Promise<Analysed> {
   return { source, data, futureX: givenFuture, horizon, result, preview, target };
 }
 
+/**
+ * A launch baseline (docs/methods.md §19): the Bass model fitted to each analogue and simulated
+ * for the new product (lib/forecast/launch.ts, on the worker pool), periods counted from launch.
+ * @throws InvalidInputError naming the analogue the fit refuses.
+ */
+async function analyseLaunch(input: BaselineInput, launch: LaunchInput, market: ResolvedMarket): Promise<Analysed> {
+  const horizon = input.horizon ?? 1;
+  let fc;
+  try {
+    fc = await runJob("launch", { analogues: launch.analogues, market: { median: market.median, sigmaLog: market.sigmaLog, low: market.low, high: market.high, how: market.how }, horizon });
+  } catch (err) {
+    if (err instanceof RangeError || (err instanceof Error && err.name === "RangeError")) {
+      throw new InvalidInputError([{ field: "launch.analogues", message: err.message }], "The launch baseline could not be computed.");
+    }
+    throw err;
+  }
+  const result: BaselineResult = {
+    method: "bass",
+    parameters: { p: fc.p.mean, q: fc.q.mean, m: market.median },
+    season: 1,
+    horizon,
+    levels: [80, 95],
+    forecast: fc.steps.map((st, i) => ({ step: i + 1, mean: st.mean, lower: st.lower, upper: st.upper })),
+    fitted: [],
+    accuracy: { insample: { mae: null, rmse: null, mape: null, smape: null, mase: null } },
+    total: { ...fc.total, how: `the totals of ${fc.draws} simulated launches (docs/methods.md §19)` },
+    launch: { analogues: fc.analogues, p: fc.p, q: fc.q, market, draws: fc.draws },
+    notes: [...fc.notes, `Analogues chosen because: ${launch.note}`],
+  };
+  const preview: BaselinePreview = {
+    source: "launch",
+    valueColumn: "value",
+    explanatoryColumns: [],
+    ignoredColumns: [],
+    rows: [],
+    futureRows: [],
+    observations: launch.analogues.reduce((n, a) => n + a.values.length, 0),
+    missing: 0,
+    scaleFactor: 1,
+  };
+  const data = JSON.stringify({ analogues: launch.analogues, market, note: launch.note });
+  return { source: "launch", data, futureX: {}, horizon, result, preview, target: targetOf({ result, horizon, quantity: input.quantity, period: input.period }) };
+}
+
+const plain = (v: number) => Number(v.toPrecision(4)).toLocaleString("en-GB");
+
+/**
+ * The market potential of a launch baseline: as given (P10 / median / P90), or from another
+ * question of the same panel, whose corrected panel figure and 80% range (docs/methods.md §15)
+ * become the median and P10–P90 of a lognormal. Taken when the baseline is attached; attach
+ * again after a later round to use that round. Undefined for other baselines.
+ * @throws InvalidInputError when the question is this one, not in the panel, has no closed
+ *   round, or its range cannot carry a lognormal (needs 0 < low < figure < high).
+ */
+async function launchMarket(actor: Actor, panelId: string, questionId: string, input: BaselineInput): Promise<ResolvedMarket | undefined> {
+  const m = input.launch?.market;
+  if (!m) return undefined;
+  const field = "launch.market.questionId";
+  if ("low" in m) {
+    return { ...marketPotentialFromRange(m.low, m.median, m.high, `given: median ${plain(m.median)}, P10–P90 ${plain(m.low)} to ${plain(m.high)}`), questionId: null };
+  }
+  if (m.questionId === questionId) throw new InvalidInputError([{ field, message: "a question cannot take its market potential from itself; ask for it in another question" }]);
+  const source = await db.question.findFirst({ where: { id: m.questionId, panelId } });
+  if (!source) throw new InvalidInputError([{ field, message: "no question with this id in this panel" }]);
+  // Loaded on use: the triangulation reads baselines, so a static import would be circular.
+  const { getTriangulation } = await import("./triangulation");
+  const t = await getTriangulation(actor, panelId, m.questionId);
+  if (!t.panel) throw new InvalidInputError([{ field, message: "that question has no closed round yet; close a round or give low, median and high" }]);
+  const figure = t.panel.corrected.figure as number;
+  const i80 = t.panel.corrected.intervals.find((i) => i.level === 80);
+  const low = i80?.lower as number | undefined;
+  const high = i80?.upper as number | undefined;
+  if (low === undefined || high === undefined || !(low > 0 && low < figure && figure < high)) {
+    throw new InvalidInputError([{ field, message: "that question's panel range cannot serve as a market potential (it needs 0 < low < figure < high); give low, median and high" }]);
+  }
+  return {
+    ...marketPotentialFromRange(low, figure, high, `from the panel's answers to "${source.text}" (round ${t.panel.round}): corrected figure ${plain(figure)}, 80% range ${plain(low)} to ${plain(high)}`),
+    questionId: m.questionId,
+  };
+}
+
 function toView(b: Baseline): BaselineView {
   return {
     questionId: b.questionId,
-    source: b.source === "values" ? "values" : "csv",
+    source: b.source === "values" || b.source === "launch" ? b.source : "csv",
     valueColumn: b.valueColumn,
     analogue: b.analogue ? { scaleFactor: b.scaleFactor, note: b.scaleNote } : null,
     season: b.season,
@@ -229,11 +322,18 @@ const PERIOD_WORDS: Record<HistoryPeriod, readonly [string, string]> = {
   other: ["period", "periods"],
 };
 
-/** Plain words for what a baseline answers, e.g. "total of the next 12 months", "value in month 3". */
-export function quantityLabel(quantity: string, period: string, n: number): string {
+/**
+ * Plain words for what a baseline answers, e.g. "total of the next 12 months", "value in month 3
+ * after the history"; for a launch baseline (periods counted from launch) "total of the first 12
+ * months after launch", "value in month 3 after launch".
+ */
+export function quantityLabel(quantity: string, period: string, n: number, launch = false): string {
   const [one, many] = PERIOD_WORDS[period as HistoryPeriod] ?? PERIOD_WORDS.other;
-  if (quantity === "total" || quantity === "average") return n === 1 ? `${quantity} of the next ${one}` : `${quantity} of the next ${n} ${many}`;
-  return `value in ${one} ${n} after the history`;
+  if (quantity === "total" || quantity === "average") {
+    if (launch) return n === 1 ? `${quantity} of the first ${one} after launch` : `${quantity} of the first ${n} ${many} after launch`;
+    return n === 1 ? `${quantity} of the next ${one}` : `${quantity} of the next ${n} ${many}`;
+  }
+  return `value in ${one} ${n} after ${launch ? "launch" : "the history"}`;
 }
 
 /**
@@ -246,7 +346,7 @@ export function quantityLabel(quantity: string, period: string, n: number): stri
 export function targetOf(b: { result: BaselineResult; horizon: number; quantity: string; period: string }): BaselineTarget {
   const quantity: BaselineQuantity = b.quantity === "total" || b.quantity === "average" ? b.quantity : "value";
   const period = (b.period in PERIOD_WORDS ? b.period : "other") as HistoryPeriod;
-  const head = { step: b.horizon, quantity, period, label: quantityLabel(quantity, period, b.horizon) };
+  const head = { step: b.horizon, quantity, period, label: quantityLabel(quantity, period, b.horizon, b.result.launch !== undefined) };
   if (quantity === "value") {
     const s = b.result.forecast[b.horizon - 1];
     return { ...head, how: null, mean: s?.mean ?? null, lower80: s?.lower["80"] ?? null, upper80: s?.upper["80"] ?? null, lower95: s?.lower["95"] ?? null, upper95: s?.upper["95"] ?? null };
@@ -289,14 +389,14 @@ async function refuseIfResolved(questionId: string): Promise<void> {
 export async function previewBaseline(actor: Actor, panelId: string, questionId: string, input: BaselineInput): Promise<BaselineView> {
   await authorisePanel(actor, panelId, "manage");
   await findQuestion(panelId, questionId);
-  const a = await analyseBaseline(input);
+  const a = await analyseBaseline(input, await launchMarket(actor, panelId, questionId, input));
   return {
     questionId,
     source: a.source,
     valueColumn: a.preview.valueColumn,
     analogue: input.analogue ? { scaleFactor: input.analogue.scaleFactor, note: input.analogue.note } : null,
     season: input.season,
-    requestedMethod: input.method,
+    requestedMethod: input.launch ? "bass" : input.method,
     horizon: a.horizon,
     target: a.target,
     result: a.result,
@@ -324,7 +424,7 @@ export async function storeBaseline(
     scaleFactor: input.analogue?.scaleFactor ?? 1,
     scaleNote: input.analogue?.note ?? "",
     season: input.season,
-    method: input.method,
+    method: input.launch ? "bass" : input.method,
     horizon: a.horizon,
     quantity: input.quantity,
     period: input.period,
@@ -345,7 +445,7 @@ export async function attachBaseline(actor: Actor, panelId: string, questionId: 
   const access = await authorisePanel(actor, panelId, "manage");
   await findQuestion(panelId, questionId);
   await refuseIfResolved(questionId);
-  const a = await analyseBaseline(input);
+  const a = await analyseBaseline(input, await launchMarket(actor, panelId, questionId, input));
   const stored = await db.$transaction(async (tx) => {
     const existed = (await tx.baseline.count({ where: { questionId } })) > 0;
     const b = await storeBaseline(tx, questionId, input, a, access.actor.userId);

@@ -4,6 +4,9 @@
  * that is not is reported with its position), the explanatory columns' target-period values
  * (`future.<column>`, comma-separated), the analogue's factor and note, season, method,
  * horizon, what the question asks for (quantity) and what one history row is (period). Empty optional fields are left out so the schema's defaults apply.
+ * A launch baseline (`source` = launch) reads one analogue per line of `analogues`
+ * ("Name: 120, 340, 610, …"), the market potential from a question (`marketSource` = question,
+ * `marketQuestionId`) or as `marketLow` / `marketMedian` / `marketHigh`, and `launchNote`.
  */
 import { withNumbers } from "./form-result";
 
@@ -22,6 +25,24 @@ function numbers(text: string, field: string, errors: Record<string, string[]>):
   return out;
 }
 
+/** One analogue per non-empty line, "Name: numbers" (a line without a name is "analogue N"). */
+function launchValues(values: Record<string, string>, errors: Record<string, string[]>): Record<string, unknown> {
+  const lines = (values.analogues ?? "").split(/\r\n|\n|\r/).filter((l) => l.trim() !== "");
+  const analogues = lines.map((line, i) => {
+    const colon = line.indexOf(":");
+    const name = colon > 0 ? line.slice(0, colon).trim() : `analogue ${i + 1}`;
+    return { name, values: numbers(colon > 0 ? line.slice(colon + 1) : line, "launch.analogues", errors) };
+  });
+  const market =
+    values.marketSource === "question"
+      ? { questionId: values.marketQuestionId ?? "" }
+      : (() => {
+          const m = withNumbers({ low: values.marketLow ?? "", median: values.marketMedian ?? "", high: values.marketHigh ?? "" }, ["low", "median", "high"]);
+          return { low: m.low, median: m.median, high: m.high };
+        })();
+  return { analogues, market, note: values.launchNote ?? "" };
+}
+
 export function baselineFormValues(values: Record<string, string>): BaselineFormRead {
   const errors: Record<string, string[]> = {};
   const input: Record<string, unknown> = withNumbers(
@@ -31,7 +52,10 @@ export function baselineFormValues(values: Record<string, string>): BaselineForm
   if (values.method) input.method = values.method;
   if (values.quantity) input.quantity = values.quantity;
   if (values.period) input.period = values.period;
-  if ((values.source ?? "csv") === "values") {
+  if (values.source === "launch") {
+    input.launch = launchValues(values, errors);
+    input.method = "bass";
+  } else if ((values.source ?? "csv") === "values") {
     const list = numbers(values.values ?? "", "values", errors);
     input.values = list;
   } else {

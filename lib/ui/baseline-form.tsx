@@ -8,12 +8,17 @@
  * row is (month, quarter, …). "Preview" reads and
  * fits without storing and shows what was read (chart and rows) and the forecast it would
  * give; "Attach" stores it. Errors name the row and column (lib/csv messages).
+ * For a product with no history, "Analogous launches" takes the adoptions of 1–5 analogous
+ * products and the market potential (from another question's panel answers, or a low / median /
+ * high), fits the Bass model to each analogue and previews the fits and the launch forecast
+ * (docs/methods.md §19).
  */
 import { startTransition, useActionState, useMemo, useState } from "react";
 import type { FormState } from "./form-state";
 import BaselineChart from "./baseline-chart";
 import Figure from "./figure";
 import { formatNumber } from "./format";
+import LaunchTable, { type LaunchPreview } from "./launch-table";
 
 export interface BaselinePreviewPayload {
   readonly labels: readonly string[];
@@ -26,6 +31,8 @@ export interface BaselinePreviewPayload {
   readonly scaleFactor: number;
   readonly method: string;
   readonly horizon: number;
+  /** A launch baseline's analogues, carried p and q, market potential and periods. */
+  readonly launch?: LaunchPreview;
   readonly target: {
     readonly label: string;
     readonly mean: number | null;
@@ -44,7 +51,7 @@ export interface BaselineFormState extends FormState {
 export type BaselineFormAction = (previous: BaselineFormState, formData: FormData) => Promise<BaselineFormState>;
 
 export interface BaselineFormDefaults {
-  readonly source: "csv" | "values";
+  readonly source: "csv" | "values" | "launch";
   readonly csv: string;
   readonly valueColumn: string;
   readonly season: number;
@@ -68,6 +75,17 @@ function FieldErr({ state, name }: { state: BaselineFormState; name: string }) {
   );
 }
 
+/** Every field error whose key starts with `prefix` (a launch baseline's nested fields). */
+function PrefixErr({ state, prefix }: { state: BaselineFormState; prefix: string }) {
+  const errors = Object.entries(state.fieldErrors ?? {}).filter(([k]) => k === prefix || k.startsWith(`${prefix}.`));
+  if (errors.length === 0) return null;
+  return (
+    <span className="field-error" role="alert" data-field={prefix}>
+      {errors.map(([k, msgs]) => `${k === prefix ? "" : `${k.slice(prefix.length + 1)}: `}${(msgs ?? []).join(" ")}`).join(" ")}
+    </span>
+  );
+}
+
 /** The header row's column names (quotes removed); enough to offer a choice. */
 function headerColumns(csv: string): string[] {
   const first = csv.replace(/^\uFEFF/, "").split(/\r\n|\n|\r/).find((l) => l.trim() !== "");
@@ -82,6 +100,7 @@ export default function BaselineForm({
   methods,
   unit,
   defaults,
+  marketQuestions,
 }: {
   action: BaselineFormAction;
   panelId: string;
@@ -89,9 +108,12 @@ export default function BaselineForm({
   methods: readonly string[];
   unit: string;
   defaults: BaselineFormDefaults;
+  /** Other questions of the panel that can give a launch baseline its market potential. */
+  marketQuestions: readonly { readonly id: string; readonly text: string }[];
 }) {
   const [state, formAction, pending] = useActionState(action, EMPTY);
-  const [source, setSource] = useState<"csv" | "values">(defaults.source);
+  const [source, setSource] = useState<"csv" | "values" | "launch">(defaults.source);
+  const [marketSource, setMarketSource] = useState<"question" | "range">(marketQuestions.length > 0 ? "question" : "range");
   const [csv, setCsv] = useState(defaults.csv);
   const [analogue, setAnalogue] = useState(defaults.analogue !== null);
   const columns = useMemo(() => headerColumns(csv), [csv]);
@@ -126,7 +148,65 @@ export default function BaselineForm({
         <label className="inline">
           <input type="radio" name="source" value="values" checked={source === "values"} onChange={() => setSource("values")} /> Pasted values, oldest first
         </label>
-        {source === "csv" ? (
+        <label className="inline">
+          <input type="radio" name="source" value="launch" checked={source === "launch"} onChange={() => setSource("launch")} /> Analogous launches (no history
+          yet: Bass diffusion)
+        </label>
+        {source === "launch" ? (
+          <>
+            <label>
+              Analogous products&apos; adoptions{" "}
+              <span className="hint">one product per line, its name, a colon, then adoptions per period from its launch, e.g. &ldquo;Wren-1: 120, 340, 610&rdquo;; at least 5 periods each, at most 5 products</span>
+              <textarea name="analogues" rows={4} defaultValue="" spellCheck={false} className="mono" />
+              <PrefixErr state={state} prefix="launch.analogues" />
+            </label>
+            <fieldset>
+              <legend>Market potential of the new product</legend>
+              <label className="inline">
+                <input type="radio" name="marketSource" value="question" checked={marketSource === "question"} disabled={marketQuestions.length === 0} onChange={() => setMarketSource("question")} /> From
+                the panel&apos;s answers to another question
+              </label>
+              <label className="inline">
+                <input type="radio" name="marketSource" value="range" checked={marketSource === "range"} onChange={() => setMarketSource("range")} /> Low, median and high
+                (P10, P50, P90)
+              </label>
+              {marketSource === "question" ? (
+                <label>
+                  Question <span className="hint">its corrected panel figure and 80% range become the market potential&apos;s median and P10–P90</span>
+                  <select name="marketQuestionId" defaultValue={marketQuestions[0]?.id}>
+                    {marketQuestions.map((q) => (
+                      <option key={q.id} value={q.id}>
+                        {q.text}
+                      </option>
+                    ))}
+                  </select>
+                </label>
+              ) : (
+                <div className="row">
+                  <label>
+                    Low (P10)
+                    <input name="marketLow" inputMode="decimal" />
+                  </label>
+                  <label>
+                    Median
+                    <input name="marketMedian" inputMode="decimal" />
+                  </label>
+                  <label>
+                    High (P90)
+                    <input name="marketHigh" inputMode="decimal" />
+                  </label>
+                </div>
+              )}
+              <PrefixErr state={state} prefix="launch.market" />
+            </fieldset>
+            <label>
+              Why these analogues <span className="hint">similar adoption drivers: price, channel, who adopts and why</span>
+              <input name="launchNote" maxLength={500} />
+              <PrefixErr state={state} prefix="launch.note" />
+            </label>
+            <PrefixErr state={state} prefix="launch" />
+          </>
+        ) : source === "csv" ? (
           <>
             <label>
               CSV file <span className="hint">read in your browser into the box below; nothing is sent until you preview or attach</span>
@@ -184,6 +264,7 @@ export default function BaselineForm({
           </label>
         )}
       </fieldset>
+      {source === "launch" ? null : (
       <fieldset>
         <legend>Analogous product</legend>
         <label className="inline">
@@ -206,8 +287,10 @@ export default function BaselineForm({
         ) : null}
         <FieldErr state={state} name="analogue" />
       </fieldset>
+      )}
       <fieldset>
-        <legend>Method</legend>
+        <legend>{source === "launch" ? "What the question asks for" : "Method"}</legend>
+        {source === "launch" ? null : (
         <div className="row">
           <label>
             Season length <span className="hint">1 none, 4 quarterly, 12 monthly</span>
@@ -226,6 +309,7 @@ export default function BaselineForm({
             <FieldErr state={state} name="method" />
           </label>
         </div>
+        )}
         <div className="row">
           <label>
             What the question asks for
@@ -237,7 +321,10 @@ export default function BaselineForm({
             <FieldErr state={state} name="quantity" />
           </label>
           <label>
-            Horizon: k or n <span className="hint">periods after the last history row; a total or average always starts at the first of them</span>
+            Horizon: k or n{" "}
+            <span className="hint">
+              {source === "launch" ? "periods after launch; a total or average always starts at the first" : "periods after the last history row; a total or average always starts at the first of them"}
+            </span>
             <input name="horizon" inputMode="numeric" defaultValue={defaults.horizon ?? ""} placeholder="1" />
             <FieldErr state={state} name="horizon" />
           </label>
@@ -267,7 +354,9 @@ export default function BaselineForm({
             <Figure value={p.target.lower80} name="preview-target-lower80" /> to <Figure value={p.target.upper80} name="preview-target-upper80" />, 95%{" "}
             {formatNumber(p.target.lower95)} to {formatNumber(p.target.upper95)}.
           </p>
-          <BaselineChart labels={p.labels} history={p.history} unit={unit} caption={`The history as read from column ${p.valueColumn}`} />
+          {p.launch ? <LaunchTable launch={p.launch} unit={unit} /> : null}
+          {p.launch ? null : <BaselineChart labels={p.labels} history={p.history} unit={unit} caption={`The history as read from column ${p.valueColumn}`} />}
+          {p.launch ? null : (
           <details>
             <summary>Rows as read</summary>
             <table className="small">
@@ -287,6 +376,7 @@ export default function BaselineForm({
               </tbody>
             </table>
           </details>
+          )}
         </div>
       ) : null}
       {state.ok && state.message ? (

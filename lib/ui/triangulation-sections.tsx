@@ -15,6 +15,7 @@ import DepartureChart from "./departure-chart";
 import Figure from "./figure";
 import { formatNumber } from "./format";
 import RangeChart, { type RangeRow } from "./range-chart";
+import LaunchTable, { launchPreview } from "./launch-table";
 
 type Intervals = readonly { readonly level: number; readonly lower: number | null; readonly upper: number | null }[];
 
@@ -273,7 +274,9 @@ export function BaselineDetails({ report, baseline }: { report: QuestionReport; 
           </dd>
           <dt>History</dt>
           <dd>
-            {b.observations} observations ({b.source === "csv" ? `CSV column '${baseline.valueColumn}'` : "pasted values"})
+            {baseline.result.launch
+              ? `none of its own: ${b.observations} periods of ${baseline.result.launch.analogues.length} analogous launch${baseline.result.launch.analogues.length === 1 ? "" : "es"} (${baseline.result.launch.analogues.map((a) => a.name).join(", ")}); market potential ${baseline.result.launch.market.how}`
+              : `${b.observations} observations (${b.source === "csv" ? `CSV column '${baseline.valueColumn}'` : "pasted values"})`}
             {b.analogue ? `; an analogous product's history × ${b.analogue.scaleFactor}: ${b.analogue.note}` : ""}
           </dd>
           <dt>Standard error at the horizon</dt>
@@ -307,8 +310,13 @@ export function BaselineDetails({ report, baseline }: { report: QuestionReport; 
           }))}
           targetStep={b.horizon}
           unit={unit}
-          caption={`History, one-step fitted values (${chosen}) and the forecast with its 80% and 95% bands up to the target period`}
+          caption={
+            baseline.result.launch
+              ? "The launch forecast by period after launch, with its 80% and 95% bands up to the target period"
+              : `History, one-step fitted values (${chosen}) and the forecast with its 80% and 95% bands up to the target period`
+          }
         />
+        {baseline.result.launch ? <LaunchTable launch={launchPreview(baseline.result)!} unit={unit} /> : null}
         {b.holdout.candidates.length > 0 ? (
           <details open>
             <summary>Every candidate&apos;s holdout MASE (lower is better; below 1 beats the naive method in-sample)</summary>

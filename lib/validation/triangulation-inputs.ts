@@ -21,6 +21,45 @@ export const HISTORY_PERIODS = ["month", "quarter", "year", "week", "day", "othe
 export const WEIGHT_RULES = ["equal", "inverse-mse", "organiser"] as const;
 export type PanelWeightRule = (typeof WEIGHT_RULES)[number];
 
+/** Most analogous products one launch baseline takes. */
+export const MAX_ANALOGUES = 5;
+
+/**
+ * A launch baseline (docs/methods.md §19): adoptions per period since launch of 1–5 analogous
+ * products, and the new product's market potential either from a question of the same panel
+ * (its corrected panel figure and 80% range) or as a low / median / high (P10 / P50 / P90).
+ */
+export const launchInput = z.object({
+  analogues: z
+    .array(
+      z.object({
+        name: text(100).describe("The analogous product"),
+        values: z
+          .array(finite.min(0, "adoptions cannot be negative"))
+          .min(5, "give at least 5 periods of adoptions (the Bass fit has three parameters)")
+          .max(MAX_HISTORY_ROWS, `at most ${MAX_HISTORY_ROWS} periods`)
+          .describe("Adoptions per period since its launch, first period first"),
+      }),
+    )
+    .min(1, "give at least one analogous product")
+    .max(MAX_ANALOGUES, `at most ${MAX_ANALOGUES} analogous products`),
+  market: z
+    .union([
+      z.object({ questionId: z.string().trim().min(1).max(100).describe("A question of the same panel that asks for the market potential") }).strict(),
+      z
+        .object({
+          low: finite.positive("must be above 0").describe("P10 of the market potential"),
+          median: finite.positive("must be above 0"),
+          high: finite.positive("must be above 0").describe("P90"),
+        })
+        .strict()
+        .refine((m) => m.low < m.median && m.median < m.high, { message: "needs low < median < high", path: ["median"] }),
+    ])
+    .describe("The new product's market potential m: from a panel question, or low / median / high"),
+  note: text(500).describe("Why these analogues: similar adoption drivers (price, channel, who adopts and why)"),
+});
+export type LaunchInput = z.infer<typeof launchInput>;
+
 /**
  * A baseline for a question: the history as CSV text (`csv`, with `valueColumn` naming the
  * series and other numeric columns as explanatory columns) or as pasted values (`values`),
@@ -68,10 +107,17 @@ export const baselineInput = z
       .default("value")
       .describe("What the question asks for: value (in period `horizon`), total or average (over the next `horizon` periods, always from the first: the forecast core gives totals of periods 1..n only)"),
     period: z.enum(HISTORY_PERIODS).default("other").describe("What one history row is: month, quarter, year, week, day or other"),
+    launch: launchInput.optional().describe("A launch baseline instead of a history: Bass diffusion fitted to analogous products, market potential from the panel"),
   })
   .superRefine((b, ctx) => {
-    if ((b.csv === undefined) === (b.values === undefined)) {
-      ctx.addIssue({ code: "custom", path: ["csv"], message: "give either csv or values (exactly one)" });
+    const given = [b.csv, b.values, b.launch].filter((v) => v !== undefined).length;
+    if (given !== 1) {
+      ctx.addIssue({ code: "custom", path: ["csv"], message: "give exactly one of csv, values or launch" });
+    }
+    if (b.launch !== undefined) {
+      if (b.method !== "auto" && b.method !== "bass") ctx.addIssue({ code: "custom", path: ["method"], message: "a launch baseline uses the Bass method (give auto or bass)" });
+      if (b.analogue !== undefined) ctx.addIssue({ code: "custom", path: ["analogue"], message: "a launch baseline names its analogues under launch.analogues; leave out analogue" });
+      if (b.futureValues !== undefined) ctx.addIssue({ code: "custom", path: ["futureValues"], message: "a launch baseline has no explanatory columns" });
     }
     if (b.values !== undefined && b.futureValues !== undefined) {
       ctx.addIssue({ code: "custom", path: ["futureValues"], message: "pasted values have no explanatory columns; use csv" });

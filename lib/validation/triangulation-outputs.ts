@@ -30,6 +30,27 @@ export const baselineTarget = z
   })
   .describe("Forecast of the quantity the question asks for");
 
+const simulated = z.object({ mean: num, lower: z.record(z.string(), num), upper: z.record(z.string(), num) });
+const launchResult = z.object({
+  analogues: z.array(
+    z.object({
+      name: z.string(),
+      periods: z.number().int(),
+      p: num,
+      q: num,
+      m: num,
+      se: z.object({ p: n0, q: n0, m: n0 }).describe("standard errors (null when the fit cannot separate the parameters)"),
+      peak: num.describe("the fitted peak period, ln(q/p)/(p + q)"),
+      fitted: z.array(num),
+      notes: z.array(z.string()),
+    }),
+  ),
+  p: simulated,
+  q: simulated,
+  market: z.object({ median: num, sigmaLog: num, low: num, high: num, how: z.string(), questionId: z.string().nullable().optional() }),
+  draws: z.number().int(),
+});
+
 export const baselineResult = z
   .object({
     method: z.string(),
@@ -42,12 +63,13 @@ export const baselineResult = z
     accuracy: z.object({ insample: z.object({ mae: n0, rmse: n0, mape: n0, smape: n0, mase: n0 }) }),
     candidates: z.array(z.object({ method: z.string(), mase: n0, error: z.string().optional() })).optional().describe("rolling-origin holdout MASE per method (automatic selection)"),
     combination: z.array(z.object({ method: z.string(), parameters: z.record(z.string(), n0) })).optional(),
+    launch: launchResult.optional().describe("a launch baseline: the analogues' Bass fits, p and q carried over, the market potential (docs/methods.md §19)"),
     notes: z.array(z.string()),
   })
   .describe("lib/forecast/baseline.ts result");
 
 export const baselinePreview = z.object({
-  source: z.enum(["csv", "values"]),
+  source: z.enum(["csv", "values", "launch"]),
   valueColumn: z.string(),
   explanatoryColumns: z.array(z.string()),
   ignoredColumns: z.array(z.string()),
@@ -60,7 +82,7 @@ export const baselinePreview = z.object({
 
 export const baseline = z.object({
   questionId: z.string(),
-  source: z.enum(["csv", "values"]),
+  source: z.enum(["csv", "values", "launch"]),
   valueColumn: z.string(),
   analogue: z.object({ scaleFactor: num, note: z.string() }).nullable(),
   season: z.number().int(),

@@ -6,9 +6,11 @@ import { parentPort } from "node:worker_threads";
 import { jobs, type JobName } from "./jobs";
 
 const port = parentPort!;
-port.on("message", (m: { id: number; job: JobName; arg: Parameters<(typeof jobs)[JobName]>[0] }) => {
+port.on("message", (m: { id: number; job: JobName; arg: unknown }) => {
   try {
-    port.postMessage({ id: m.id, ok: true, value: jobs[m.job](m.arg) });
+    // The pool's runJob typed the argument for this job's name.
+    const run = jobs[m.job] as (arg: unknown) => unknown;
+    port.postMessage({ id: m.id, ok: true, value: run(m.arg) });
   } catch (err) {
     const e = err instanceof Error ? err : new Error(String(err));
     port.postMessage({ id: m.id, ok: false, name: e.name, message: e.message });

@@ -15,6 +15,7 @@ import type { FormState } from "@/lib/ui/form-state";
 import type { BaselineFormState, BaselinePreviewPayload } from "@/lib/ui/baseline-form";
 import { formObject, fromThrown, fromZodError, withNumbers } from "@/lib/ui/form-result";
 import { baselineFormValues } from "@/lib/ui/baseline-form-values";
+import { launchPreview } from "@/lib/ui/launch-table";
 import { NOT_SIGNED_IN, signedInAction } from "@/lib/ui/signed-in-action";
 import { textProblems } from "@/lib/ui/action-guard";
 
@@ -46,6 +47,7 @@ function payload(v: BaselineView): BaselinePreviewPayload {
     method: v.result.method,
     horizon: v.horizon,
     target: v.target,
+    ...(v.result.launch ? { launch: launchPreview(v.result) } : {}),
   };
 }
 

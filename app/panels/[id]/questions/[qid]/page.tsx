@@ -90,7 +90,8 @@ export default async function QuestionPage({ params }: { params: Promise<{ id: s
             <p className="hint">
               The history the statistical baseline is fitted to: the series of past periods up to the last one known. The forecast for the target period
               comes with 80% and 95% prediction intervals; &ldquo;automatic&rdquo; compares every method on a rolling-origin holdout by MASE (Hyndman &amp;
-              Koehler 2006).
+              Koehler 2006). A product with no history yet can borrow the course of analogous launches (Bass diffusion, with the market potential from the
+              panel).
             </p>
             <details open={!baseline}>
               <summary>{baseline ? "Change the history or the method" : "History and method"}</summary>
@@ -100,6 +101,7 @@ export default async function QuestionPage({ params }: { params: Promise<{ id: s
                 questionId={qid}
                 methods={BASELINE_METHODS}
                 unit={question.unit}
+                marketQuestions={panel.questions.filter((q) => q.id !== qid).map((q) => ({ id: q.id, text: `${q.position}. ${q.text}` }))}
                 defaults={{
                   source: baseline?.source ?? "csv",
                   csv: "",
