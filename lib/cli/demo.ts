@@ -22,6 +22,7 @@ import { submitAnswer } from "../panels/answers";
 import { setPanelBlendRule } from "../panels/triangulation";
 import type { CommandIo } from "./main";
 import { attachWren2Baseline, loadPastPanels, PAST_PANELS } from "./demo-history";
+import { loadLaunchPanel } from "./demo-launch";
 
 const ROSTER = [
   { name: "Priya Lindqvist", group: "sales" },
@@ -207,9 +208,11 @@ async function load(options: { ifEmpty: boolean }, io: CommandIo): Promise<numbe
   await answerRound(tokens, 3, questionIds, 2);
   await attachWren2Baseline(actor, panel.id, questionIds[0]);
   await setPanelBlendRule(actor, panel.id, { rule: "inverse-mse" });
+  await loadLaunchPanel(actor, members.map((m) => m.id));
 
   const lines = [
     "demo: loaded Quillmoor Instruments — panel \"Year-one unit sales of the Wren-2\" (rounds 1–2 closed, round 3 open)",
+    "  and panel \"The Wren-2's course by quarter\" (a launch baseline: Bass diffusion from two earlier launches, market potential from the panel)",
     `  history: ${PAST_PANELS.length} earlier panels with ${PAST_PANELS.reduce((n, p) => n + p.questions.length, 0)} resolved questions (track records, bias factors, inverse-MSE weights)`,
     `  organiser  organiser@quillmoor.example  password: ${organiserPassword}`,
     `  reviewer   reviewer@quillmoor.example   password: ${reviewerPassword}`,

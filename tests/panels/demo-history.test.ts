@@ -74,6 +74,37 @@ function expectedRecords(): Map<number, [number, number, number | null, number |
 
 const ROSTER_ORDER = ["Priya Lindqvist", "Owen Castellan", "Beatriz Nakamura", "Tobias Renwick", "Hana Moravec", "Felix Achterberg", "Greta Solheim", "Rafael Underhill"];
 
+// First: a later test records an outcome, which moves track records and so the corrected
+// figures; the launch baseline keeps the market potential as it was when attached.
+describe("the demo's launch baseline (docs/methods.md §19)", () => {
+  it("answers the first four quarters from the two analogues, with the market potential from the panel", async () => {
+    const { db } = await import("../../lib/db");
+    const { FENWICK1_QUARTERS } = await import("../../lib/cli/demo-launch");
+    const { getBaseline } = await import("../../lib/panels/baselines");
+    const panel = await db.panel.findFirstOrThrow({ where: { title: "The Wren-2's course by quarter" }, include: { questions: { orderBy: { position: "asc" } } } });
+    const b = await getBaseline(organiser, panel.id, panel.questions[1].id);
+    expect(b.source).toBe("launch");
+    expect(b.target.label).toBe("total of the first 4 quarters after launch");
+    expect(b.target.lower80!).toBeLessThan(b.target.mean!);
+    expect(b.target.mean!).toBeLessThan(b.target.upper80!);
+    // the market potential is the market question's corrected panel figure; the raw one is the
+    // median of 30,000, 38,000, 42,000, 45,000, 55,000 = 42,000 (hand)
+    const { getTriangulation } = await import("../../lib/panels/triangulation");
+    const t = await getTriangulation(organiser, panel.id, panel.questions[0].id);
+    expect(t.panel!.raw.figure).toBe(42000);
+    expect(b.result.launch!.market.median).toBe(t.panel!.corrected.figure);
+    expect(b.result.launch!.market.how).toMatch(/lifetime market/);
+    // the Fenwick-1 fit against R's nls (stats, algorithm "port") run here
+    const [[p, q, m]] = runR(`Fb <- function(t, p, q) (1 - exp(-(p + q) * t)) / (1 + (q / p) * exp(-(p + q) * t))
+      y <- ${rVector(FENWICK1_QUARTERS)}; t <- seq_along(y)
+      f <- nls(y ~ m * (Fb(t, p, q) - Fb(t - 1, p, q)), start = list(p = 0.03, q = 0.38, m = 1.1 * sum(y)),
+        algorithm = "port", lower = c(1e-9, 0, 1), control = list(maxiter = 1000, eval.max = 5000))
+      cat(coef(f), "\\n")`);
+    const fit = b.result.launch!.analogues[0];
+    expectClose([fit.p, fit.q, fit.m], [p, q, m], 1e-4, "Fenwick-1 p, q, m");
+  });
+});
+
 describe("demo history", () => {
   it("track records equal a loop over the invented answers; bias factors equal R's exp(n/(n+5)·mean log ratio)", async () => {
     const records = await services.listTrackRecords(organiser);
@@ -182,3 +213,4 @@ describe("resolving the demo's sum-of-parts question (services on the demo datab
     expect(JSON.parse(audit.detail)).toEqual({ questionId: partsQ, from: 5200, to: 5300, reason: "one return booked late" });
   });
 });
+
