@@ -15,6 +15,9 @@ function app(name: string, groupOrder: number) {
       fileParallelism: false,
       testTimeout: 120_000,
       hookTimeout: 300_000,
+      // expect.poll waits on the page's or the API's state; on a loaded two-core machine a server
+      // action can take seconds, so the wait is bounded generously (the default is 1 s).
+      expect: { poll: { timeout: 30_000, interval: 100 } },
       // After the SQLite run, not beside it: the machine has two cores.
       sequence: { groupOrder },
     },

@@ -34,15 +34,18 @@ export interface BaselineChartProps {
   /** Marks the target period's step. */
   readonly targetStep?: number;
   readonly caption: string;
+  /** A launch baseline: no history of its own, steps are periods after launch. */
+  readonly launch?: boolean;
 }
 
-export default function BaselineChart({ labels, history, fitted = [], forecast = [], unit, targetStep, caption }: BaselineChartProps) {
+export default function BaselineChart({ labels, history, fitted = [], forecast = [], unit, targetStep, caption, launch = false }: BaselineChartProps) {
   const canvas = useRef<HTMLCanvasElement>(null);
   useEffect(() => {
     if (!canvas.current) return;
     const n = history.length;
     const h = forecast.length;
-    const allLabels = [...labels, ...forecast.map((s) => (s.step === targetStep ? `+${s.step} (target)` : `+${s.step}`))];
+    const stepLabel = (step: number) => (launch ? `${step}` : `+${step}`);
+    const allLabels = [...labels, ...forecast.map((s) => (s.step === targetStep ? `${stepLabel(s.step)} (target)` : stepLabel(s.step)))];
     const pad = (values: readonly (number | null)[], before: number, after: number) => [
       ...Array<number | null>(before).fill(null),
       ...values,
@@ -50,9 +53,10 @@ export default function BaselineChart({ labels, history, fitted = [], forecast =
     ];
     // Fitted values are aligned with the end of the history (the prepared series may drop leading gaps).
     const fit = fitted.length > 0 ? pad(fitted.slice(-n), Math.max(0, n - fitted.length), h) : [];
-    // The fan starts at the last observation so that it joins the history.
+    // The fan starts at the last observation so that it joins the history (a launch has none).
     const last = history[n - 1] ?? null;
-    const fan = (pick: (s: BaselineChartStep) => number | null) => (h === 0 ? [] : [...Array<number | null>(n - 1).fill(null), last, ...forecast.map(pick)]);
+    const fan = (pick: (s: BaselineChartStep) => number | null) =>
+      h === 0 ? [] : n === 0 ? forecast.map(pick) : [...Array<number | null>(n - 1).fill(null), last, ...forecast.map(pick)];
     const chart = new Chart(canvas.current, {
       type: "line",
       data: {
@@ -86,7 +90,7 @@ export default function BaselineChart({ labels, history, fitted = [], forecast =
           ...(fit.length > 0
             ? [{ label: "Fitted (one step ahead)", data: fit, borderColor: "#5b6673", borderDash: [5, 4], borderWidth: 1.5, pointRadius: 0, fill: false }]
             : []),
-          { label: "History", data: pad(history, 0, h), borderColor: "#1d232b", backgroundColor: "#1d232b", borderWidth: 2, pointRadius: 2.5, fill: false },
+          ...(n > 0 ? [{ label: "History", data: pad(history, 0, h), borderColor: "#1d232b", backgroundColor: "#1d232b", borderWidth: 2, pointRadius: 2.5, fill: false }] : []),
         ],
       },
       options: {
@@ -94,7 +98,7 @@ export default function BaselineChart({ labels, history, fitted = [], forecast =
         maintainAspectRatio: false,
         animation: false,
         spanGaps: false,
-        scales: { y: { title: { display: true, text: unit } }, x: { title: { display: true, text: "row / steps after the last observation" } } },
+        scales: { y: { title: { display: true, text: unit } }, x: { title: { display: true, text: launch ? "period after launch" : "row / steps after the last observation" } } },
         plugins: {
           legend: { labels: { filter: (item) => !item.text.endsWith("lower") } },
           tooltip: { mode: "index", intersect: false },

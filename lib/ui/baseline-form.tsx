@@ -354,7 +354,12 @@ export default function BaselineForm({
             <Figure value={p.target.lower80} name="preview-target-lower80" /> to <Figure value={p.target.upper80} name="preview-target-upper80" />, 95%{" "}
             {formatNumber(p.target.lower95)} to {formatNumber(p.target.upper95)}.
           </p>
-          {p.launch ? <LaunchTable launch={p.launch} unit={unit} /> : null}
+          {p.launch ? (
+            <>
+              <BaselineChart labels={[]} history={[]} forecast={p.launch.steps} targetStep={p.horizon} unit={unit} launch caption="The launch forecast by period after launch, with its 80% and 95% bands" />
+              <LaunchTable launch={p.launch} unit={unit} />
+            </>
+          ) : null}
           {p.launch ? null : <BaselineChart labels={p.labels} history={p.history} unit={unit} caption={`The history as read from column ${p.valueColumn}`} />}
           {p.launch ? null : (
           <details>

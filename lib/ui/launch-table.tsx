@@ -21,7 +21,14 @@ export interface LaunchPreview {
   readonly q: { readonly mean: number; readonly lower80: number; readonly upper80: number };
   readonly market: { readonly median: number; readonly low: number; readonly high: number; readonly how: string };
   readonly draws: number;
-  readonly steps: readonly { readonly step: number; readonly mean: number | null; readonly lower80: number | null; readonly upper80: number | null }[];
+  readonly steps: readonly {
+    readonly step: number;
+    readonly mean: number | null;
+    readonly lower80: number | null;
+    readonly upper80: number | null;
+    readonly lower95: number | null;
+    readonly upper95: number | null;
+  }[];
 }
 
 /** The analogues' Bass fits and the launch forecast by period, as a table a reader can check. */
@@ -100,6 +107,13 @@ export function launchPreview(result: BaselineResult): LaunchPreview | undefined
     q: { mean: l.q.mean, lower80: l.q.lower["80"], upper80: l.q.upper["80"] },
     market: { median: l.market.median, low: l.market.low, high: l.market.high, how: l.market.how },
     draws: l.draws,
-    steps: result.forecast.map((st) => ({ step: st.step, mean: st.mean, lower80: st.lower["80"] ?? null, upper80: st.upper["80"] ?? null })),
+    steps: result.forecast.map((st) => ({
+      step: st.step,
+      mean: st.mean,
+      lower80: st.lower["80"] ?? null,
+      upper80: st.upper["80"] ?? null,
+      lower95: st.lower["95"] ?? null,
+      upper95: st.upper["95"] ?? null,
+    })),
   };
 }

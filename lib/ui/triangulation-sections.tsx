@@ -310,6 +310,7 @@ export function BaselineDetails({ report, baseline }: { report: QuestionReport; 
           }))}
           targetStep={b.horizon}
           unit={unit}
+          launch={baseline.result.launch !== undefined}
           caption={
             baseline.result.launch
               ? "The launch forecast by period after launch, with its 80% and 95% bands up to the target period"
