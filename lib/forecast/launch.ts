@@ -58,6 +58,8 @@ export interface AnalogueFit {
   readonly m: number;
   readonly se: { readonly p: number; readonly q: number; readonly m: number };
   readonly peak: number;
+  /** Its adoptions as given, and the fitted curve m·(F(t) − F(t−1)). */
+  readonly values: readonly number[];
   readonly fitted: readonly number[];
   readonly notes: readonly string[];
 }
@@ -179,6 +181,7 @@ export function launchForecast(
       m: f.m,
       se: f.se,
       peak: f.peak,
+      values: [...analogues[i].values],
       fitted: f.fitted,
       notes: f.notes,
     })),

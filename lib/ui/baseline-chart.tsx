@@ -36,9 +36,11 @@ export interface BaselineChartProps {
   readonly caption: string;
   /** A launch baseline: no history of its own, steps are periods after launch. */
   readonly launch?: boolean;
+  /** Legend of the fitted values (default: one-step fitted values). */
+  readonly fittedLabel?: string;
 }
 
-export default function BaselineChart({ labels, history, fitted = [], forecast = [], unit, targetStep, caption, launch = false }: BaselineChartProps) {
+export default function BaselineChart({ labels, history, fitted = [], forecast = [], unit, targetStep, caption, launch = false, fittedLabel = "Fitted (one step ahead)" }: BaselineChartProps) {
   const canvas = useRef<HTMLCanvasElement>(null);
   useEffect(() => {
     if (!canvas.current) return;
@@ -88,7 +90,7 @@ export default function BaselineChart({ labels, history, fitted = [], forecast =
               ]
             : []),
           ...(fit.length > 0
-            ? [{ label: "Fitted (one step ahead)", data: fit, borderColor: "#5b6673", borderDash: [5, 4], borderWidth: 1.5, pointRadius: 0, fill: false }]
+            ? [{ label: fittedLabel, data: fit, borderColor: "#5b6673", borderDash: [5, 4], borderWidth: 1.5, pointRadius: 0, fill: false }]
             : []),
           ...(n > 0 ? [{ label: "History", data: pad(history, 0, h), borderColor: "#1d232b", backgroundColor: "#1d232b", borderWidth: 2, pointRadius: 2.5, fill: false }] : []),
         ],
@@ -110,7 +112,7 @@ export default function BaselineChart({ labels, history, fitted = [], forecast =
       unprint();
       chart.destroy();
     };
-  }, [labels, history, fitted, forecast, unit, targetStep]);
+  }, [labels, history, fitted, forecast, unit, targetStep, launch, fittedLabel]);
   return (
     <figure className="chart-figure">
       <div className="chart-box" data-chart="baseline" data-points={history.length} data-steps={forecast.length}>

@@ -4,6 +4,7 @@
  * potential and where it came from, and the forecast adoptions per period with their 80% range.
  */
 import { formatNumber } from "./format";
+import BaselineChart from "./baseline-chart";
 import type { BaselineResult } from "@/lib/forecast/baseline";
 
 export interface LaunchPreview {
@@ -15,6 +16,8 @@ export interface LaunchPreview {
     readonly m: number;
     readonly se: { readonly p: number; readonly q: number; readonly m: number };
     readonly peak: number;
+    readonly values: readonly number[];
+    readonly fitted: readonly number[];
     readonly notes: readonly string[];
   }[];
   readonly p: { readonly mean: number; readonly lower80: number; readonly upper80: number };
@@ -61,6 +64,17 @@ export default function LaunchTable({ launch, unit }: { launch: LaunchPreview; u
           ))}
         </tbody>
       </table>
+      {launch.analogues.map((a) => (
+        <BaselineChart
+          key={a.name}
+          labels={a.values.map((_, i) => String(i + 1))}
+          history={a.values}
+          fitted={a.fitted}
+          fittedLabel="Fitted Bass curve"
+          unit={unit}
+          caption={`${a.name}: adoptions per period after its launch, and the fitted Bass curve`}
+        />
+      ))}
       {launch.analogues.flatMap((a) => a.notes.map((n) => (
         <p key={a.name + n} className="caution small">
           {a.name}: {n}
@@ -102,7 +116,7 @@ export function launchPreview(result: BaselineResult): LaunchPreview | undefined
   const l = result.launch;
   if (!l) return undefined;
   return {
-    analogues: l.analogues.map(({ fitted: _fitted, ...a }) => a),
+    analogues: l.analogues,
     p: { mean: l.p.mean, lower80: l.p.lower["80"], upper80: l.p.upper["80"] },
     q: { mean: l.q.mean, lower80: l.q.lower["80"], upper80: l.q.upper["80"] },
     market: { median: l.market.median, low: l.market.low, high: l.market.high, how: l.market.how },
