@@ -29,7 +29,7 @@ import { panelReads, type PanelReads } from "./panel-reads";
 import { jsonSafe, type JsonSafe } from "./json";
 import { correctionSummary, namesRevealed } from "./report-views";
 import type { BlendInterval, Distribution } from "@/lib/blend";
-import type { QuestionVerdict } from "@/lib/stats/stopping-rules";
+import { consensusApplies, type QuestionVerdict } from "@/lib/stats/stopping-rules";
 import { csvCell } from "@/lib/csv/cell";
 import { legWarnings } from "./warnings";
 
@@ -339,10 +339,17 @@ export function reportCsv(r: QuestionReport): string {
     add("bias correction", who, "factor", p.factor);
     add("bias correction", who, "corrected answer", p.correctedValue, unit);
   }
+  // As the pages (lib/ui/convergence-view.tsx): the spread between panelists only where consensus applies.
+  const spread = consensusApplies(r.question.aggregation);
   for (const c of r.convergence.rounds) {
-    add("convergence", `round ${c.round}`, "median", c.median, unit);
-    add("convergence", `round ${c.round}`, "IQR", c.iqr, unit);
-    add("convergence", `round ${c.round}`, "relative IQR", c.relativeIqr);
+    if (spread) {
+      add("convergence", `round ${c.round}`, "median", c.median, unit);
+      add("convergence", `round ${c.round}`, "IQR", c.iqr, unit);
+      add("convergence", `round ${c.round}`, "relative IQR", c.relativeIqr);
+      add("convergence", `round ${c.round}`, "CV", c.cv);
+    } else {
+      add("convergence", `round ${c.round}`, "spread (IQR, relative IQR, CV)", "not applicable: sum of parts");
+    }
     if (c.total !== null) add("convergence", `round ${c.round}`, "total", c.total, unit);
   }
   if (r.departures) {
