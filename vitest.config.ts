@@ -15,6 +15,9 @@ function app(name: string, groupOrder: number) {
       fileParallelism: false,
       testTimeout: 120_000,
       hookTimeout: 300_000,
+      // expect.poll waits on the app's state; its 1 s default cap failed under load (two cores
+      // shared) while a server action was still running. The cap is a bound, not a synchronisation.
+      expect: { poll: { timeout: 30_000 } },
       // After the SQLite run, not beside it: the machine has two cores.
       sequence: { groupOrder },
     },
