@@ -18,11 +18,14 @@
  * Blend: lib/panels/triangulation `computeTriangulation`, exactly as the app computes a
  * question, with the track records of the questions resolved before it (bias factors,
  * interval hit rates, the panel's log errors, inverse-MSE history on relative errors), in order.
+ * The inverse-MSE weight's raw value and the weight applied are summarised at the end.
  *
  * Printed: coverage of the 80% and 95% ranges of the baseline, the corrected panel leg and
  * the blend (goal for the blend: within ±3 points of nominal), and each figure's mean absolute
  * log error |ln(actual/figure)| and MAPE. Options: --every N (default 5), --panelists K
- * (default 7), --three-point, --weights equal|inverse-mse (default inverse-mse), --shared s.
+ * (default 7), --three-point, --weights equal|inverse-mse (default equal, the app's default rule:
+ * prisma Panel.blendRule; inverse-mse is the organiser's opt-in rule, shrunk toward equal weights
+ * as docs/methods.md §15c states), --shared s.
  * A fixed PRNG start value makes runs repeatable.
  */
 import { readFileSync } from "node:fs";
@@ -40,7 +43,7 @@ const { values: args } = parseArgs({
     every: { type: "string", default: "5" },
     panelists: { type: "string", default: "7" },
     "three-point": { type: "boolean", default: false },
-    weights: { type: "string", default: "inverse-mse" },
+    weights: { type: "string", default: "equal" },
     shared: { type: "string", default: "0.15" },
   },
 });
@@ -82,6 +85,8 @@ const tally = Object.fromEntries(
 ) as Record<Leg, { in80: number; in95: number; absLog: number; ape: number }>;
 let n = 0;
 let skipped = 0;
+const applied: number[] = [];
+let lastRaw = NaN;
 const t0 = performance.now();
 
 for (const s of series) {
@@ -137,6 +142,8 @@ for (const s of series) {
     x.absLog += v.figure > 0 ? Math.abs(Math.log(actual / v.figure)) : Infinity;
     x.ape += Math.abs((actual - v.figure) / actual);
   }
+  applied.push(t.weights!.panel);
+  if (Number.isFinite(t.weights!.rawPanel)) lastRaw = t.weights!.rawPanel;
   n++;
   // Resolve the question: it joins the track records of the questions that follow.
   for (const a of answers) {
@@ -160,4 +167,5 @@ console.log(`blend coverage within ±3 points of nominal: 80% ${Math.abs(c80 - 8
 console.log(`blend error below both legs': mean |log error| ${tally.blend.absLog < tally.panel.absLog && tally.blend.absLog < tally.baseline.absLog ? "yes" : "no"}, MAPE ${tally.blend.ape < tally.panel.ape && tally.blend.ape < tally.baseline.ape ? "yes" : "no"}`);
 const last = logErrors.length ? Math.sqrt(logErrors.reduce((a, e) => a + e * e, 0) / logErrors.length) : NaN;
 console.log(`panel log-error scale over the run: ${last.toFixed(4)}; mean log error ${(logErrors.reduce((a, e) => a + e, 0) / logErrors.length).toFixed(4)}`);
+console.log(`panel weight applied: mean ${(applied.reduce((a, w) => a + w, 0) / applied.length).toFixed(4)}, last ${applied[applied.length - 1]?.toFixed(4)}; last raw inverse-MSE weight ${Number.isFinite(lastRaw) ? lastRaw.toFixed(4) : "—"}`);
 console.log(`legs' error correlation at the end: ${JSON.stringify(blendErrorCorrelation(pairs))}`);

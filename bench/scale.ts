@@ -78,7 +78,7 @@ function questionBody(i: number, product: string) {
     text:
       k.aggregation === "sum-of-parts"
         ? `Units of the Quillmoor ${product}-${i + 1} sold in your own sales region in its first year?`
-        : `Units of the Quillmoor ${product}-${i + 1} ${k.answerFormat === "three-point" ? "(low / most likely / high)" : ""} sold in its first year?`,
+        : `Units of the Quillmoor ${product}-${i + 1} ${k.answerFormat === "three-point" ? "(low / median / high)" : ""} sold in its first year?`,
     unit: "units",
     targetPeriod: "first 12 months after launch",
     lowerBound: 0,

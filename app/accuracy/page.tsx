@@ -97,7 +97,8 @@ export default async function AccuracyPage() {
               limit={TRACKING_SIGNAL_LIMIT}
             />
             <p className="small muted">
-              Tracking signal = cumulative error / mean absolute deviation, after each resolved question. A figure that stays beyond ±{TRACKING_SIGNAL_LIMIT}{" "}
+              Tracking signal = cumulative relative error / mean absolute relative error, after each resolved question, with relative error = (actual −
+              figure) / |actual|: questions of different sizes count alike. A figure that stays beyond ±{TRACKING_SIGNAL_LIMIT}{" "}
               is biased in one direction; ±{TRACKING_SIGNAL_LIMIT} is common practice, not an authoritative limit.
             </p>
           </section>

@@ -48,6 +48,8 @@ export {
   MIN_RESOLVED_FOR_WEIGHTS,
   MIN_RESOLVED_FOR_CORRELATION,
   PRIOR_ERROR_CORRELATION,
+  WEIGHT_PRIOR_SD,
+  weightCredibility,
   blendErrorCorrelation,
   batesGrangerWeights,
   equalWeights,

@@ -11,7 +11,7 @@ import {
   meanError,
   meanPercentageError,
   symmetricMape,
-  trackingSignalSeries,
+  relativeTrackingSignalSeries,
   type AccuracyResult,
 } from "../forecast/accuracy";
 import { withinMagnitude } from "./magnitude";
@@ -126,7 +126,8 @@ export interface TrackingAlarm {
 
 /**
  * The first period at which |TS_t| exceeds `limit` (strictly), with TS_t from
- * lib/forecast/accuracy `trackingSignalSeries` (docs/methods.md §8). NaN entries never breach.
+ * lib/forecast/accuracy `relativeTrackingSignalSeries` or `trackingSignalSeries`
+ * (docs/methods.md §8). NaN entries never breach.
  *
  * Input: a non-empty TS series (NaN allowed, as the series gives NaN while MAD is 0); limit > 0.
  * @throws RangeError for an empty series, an infinite entry, or a limit that is not finite and > 0.
@@ -155,9 +156,9 @@ export interface HistoryEntry {
 
 /** Accuracy of one figure over the history. */
 export interface FigureHistory {
-  /** ME, MAE, MSE, RMSE, MPE, MAPE, sMAPE, MASE (NaN: no training series) and the last TS. */
+  /** ME, MAE, MSE, RMSE, MPE, MAPE, sMAPE, MASE (NaN: no training series) and the last TS (on relative errors, as below). */
   readonly accuracy: AccuracyResult;
-  /** Tracking signal after each resolved question, in order. */
+  /** Tracking signal on relative errors after each resolved question, in order (NaN for an actual of 0). */
   readonly trackingSignal: readonly number[];
   readonly alarm: TrackingAlarm;
 }
@@ -193,8 +194,10 @@ export function usableHistoryEntry(e: HistoryEntry): boolean {
 /**
  * Accuracy over resolved questions in resolution order, for the raw panel, corrected panel,
  * baseline and blend: lib/forecast/accuracy `accuracy` (Hyndman & Koehler 2006) and the
- * running tracking signal with its first breach of ±limit ({@link trackingAlarm}). MASE needs
- * a common scale and is NaN here (questions differ in scale); use MAPE/sMAPE across questions.
+ * running tracking signal with its first breach of ±limit ({@link trackingAlarm}). The questions
+ * differ in size and unit, so the tracking signal is on relative errors (actual − figure)/|actual|
+ * (`relativeTrackingSignalSeries`, docs/methods.md §8): raw errors would let the largest question
+ * decide its sign. MASE needs a common scale and is NaN here; use MAPE/sMAPE across questions.
  *
  * Input: a non-empty array of entries with finite values.
  * @throws RangeError for an empty history or a non-finite value (named by entry and field).
@@ -210,8 +213,8 @@ export function accuracyHistory(entries: readonly HistoryEntry[], limit: number 
   const one = (k: (typeof FIGURES)[number]): FigureHistory => {
     const forecast = entries.map((e) => e[k]);
     assertFiniteArray(forecast, fn, k);
-    const ts = trackingSignalSeries(actual, forecast);
-    return { accuracy: accuracy(actual, forecast), trackingSignal: ts, alarm: trackingAlarm(ts, limit) };
+    const ts = relativeTrackingSignalSeries(actual, forecast);
+    return { accuracy: { ...accuracy(actual, forecast), trackingSignal: ts[ts.length - 1] }, trackingSignal: ts, alarm: trackingAlarm(ts, limit) };
   };
   return {
     n: entries.length,

@@ -25,6 +25,18 @@ export const EQUAL_PANEL_WEIGHT = 0.5;
 export const MIN_RESOLVED_FOR_WEIGHTS = 3;
 
 /**
+ * Prior standard deviation τ of the best panel weight around equal weights, 0.1 (the best weight
+ * believed within about 0.3–0.7). The forecast-combination literature finds weights estimated
+ * from short records losing to equal weights, and the simple average hard to beat (R. T. Clemen
+ * 1989, "Combining forecasts: a review and annotated bibliography", IJF 5(4), 559–583; J. Smith and
+ * K. F. Wallis 2009, Oxford Bull. Econ. Stat. 71(3), 331–355; V. Genre, G. Kenny, A. Meyler and
+ * A. Timmermann 2013, "Combining expert forecasts: can anything beat the simple average?", IJF 29(1),
+ * 108–121; volumes and pages from memory), i.e. best weights near equal. The value 0.1 is the
+ * project's judgement from that finding, not a published figure (docs/methods.md §15c).
+ */
+export const WEIGHT_PRIOR_SD = 0.1;
+
+/**
  * Fewest resolved questions for the optimum with error correlation, which estimates one more
  * quantity (the correlation) than inverse-MSE weights. Common practice, not a published threshold.
  */
@@ -73,7 +85,7 @@ export interface BlendWeights {
    * toward equal; NaN for the other rules.
    */
   readonly rawPanel: number;
-  /** Inverse-MSE rule: the credibility Z = n/(n + k) given to the history; NaN for the other rules. */
+  /** Inverse-MSE rule: the credibility Z = τ²/(τ² + 1/(4(n + 1))) given to the history ({@link weightCredibility}); NaN for the other rules. */
   readonly credibility: number;
   /** The optimal rule's panel weight before clipping to [0, 1]; NaN for the other rules. */
   readonly unconstrainedPanel: number;
@@ -186,10 +198,10 @@ export interface HistoryWeightOptions {
   /** Fewest resolved questions before the rule is used (default: the rule's named constant). */
   readonly minResolved?: number;
   /**
-   * Inverse-MSE rule: prior strength k of the shrinkage toward equal weights, Z = n/(n + k)
-   * (default {@link BIAS_PRIOR_STRENGTH}, the bias factor's).
+   * Inverse-MSE rule: prior standard deviation τ of the best panel weight around 0.5
+   * (default {@link WEIGHT_PRIOR_SD}); see {@link weightCredibility}.
    */
-  readonly priorStrength?: number;
+  readonly priorSd?: number;
 }
 
 function checkHistory(history: readonly ResolvedPair[], fn: string, minResolved: number): void {
@@ -224,32 +236,53 @@ function thin(rule: WeightRule, n: number, min: number): BlendWeights {
 }
 
 /**
+ * The weight given to the history's inverse-MSE weight against equal weights:
+ * Z = τ²/(τ² + v_n), v_n = 1/(4(n + 1)), i.e. Z = (n + 1)/(n + 1 + 1/(4τ²)) — with τ = 0.1,
+ * (n + 1)/(n + 26). This is the normal approximation to the posterior mean of the best weight
+ * (precision weighting of prior and estimate: A. Gelman et al. 2013, Bayesian Data Analysis,
+ * 3rd ed., §2.5, section from memory): prior N(0.5, τ²) ({@link WEIGHT_PRIOR_SD}); the raw weight
+ * MSE_b/(MSE_p + MSE_b) of two equally good legs with independent normal errors is
+ * Beta(n/2, n/2)-distributed (a ratio of χ²_n variables), with variance v_n = 1/(4(n + 1)).
+ * With 3 resolved questions Z = 4/29 ≈ 0.14; the history gets half the say at n = 24.
+ *
+ * Input: n ≥ 0 a whole number, τ > 0 finite.
+ * @throws RangeError for a bad n or τ.
+ * @example weightCredibility(3) // 4/29 = 0.1379310345
+ */
+export function weightCredibility(n: number, priorSd: number = WEIGHT_PRIOR_SD): number {
+  const fn = "weightCredibility";
+  assertFinite(n, fn, "n");
+  if (!Number.isInteger(n) || n < 0) throw new RangeError(`${fn}: n is ${n}; it must be a whole number of at least 0`);
+  assertPositive(priorSd, fn, "priorSd");
+  const t2 = priorSd * priorSd;
+  return t2 / (t2 + 1 / (4 * (n + 1)));
+}
+
+/**
  * Inverse-MSE weights from resolved history (Bates & Granger 1969 with the error correlation
  * set to 0; as the diagonal-only `comb_BG` of R package GeomComb, docs/methods.md §5a):
  * w_raw = (1/MSE_p) / (1/MSE_p + 1/MSE_b) = MSE_b / (MSE_p + MSE_b), MSE by
- * lib/forecast/accuracy `meanSquaredError` (errors actual − figure), then shrunk toward equal
- * weights by the number of resolved questions n, as the bias factor is:
- * w = Z·w_raw + (1 − Z)·0.5 with Z = n/(n + k), k = {@link BIAS_PRIOR_STRENGTH} (Bühlmann-style
- * credibility, Bühlmann 1967). Without the shrinkage, with 3 questions and two equally good
- * legs the raw weight is Beta(n/2, n/2)-distributed (MSE_b/(MSE_p + MSE_b) of two independent
- * χ²_n/n) and lands anywhere from 0.10 to 0.90; equal weights are hard to beat in practice
- * (the "forecast combination puzzle", Smith & Wallis 2009, Oxford Bull. Econ. Stat. 71(3),
- * 331–355; citation from memory).
+ * lib/forecast/accuracy `meanSquaredError` (errors actual − figure), then shrunk hard toward
+ * equal weights: w = Z·w_raw + (1 − Z)·0.5 with Z from {@link weightCredibility} (prior sd
+ * τ = {@link WEIGHT_PRIOR_SD}). Without the shrinkage, with 3 questions and two equally good
+ * legs the raw weight lands anywhere from 0.10 to 0.90; weights estimated from few observations
+ * lose to equal weights in practice (the "forecast combination puzzle": Clemen 1989; Smith &
+ * Wallis 2009; Genre et al. 2013), so the history only takes over when it is long.
  *
  * Fallbacks (to equal weights, with the reason): fewer than `minResolved` questions (default
  * {@link MIN_RESOLVED_FOR_WEIGHTS}), or both MSEs 0. One MSE of 0 gives that figure w_raw = 1.
  *
  * Input: resolved questions (possibly empty: thin history is an expected state).
- * @throws RangeError for a non-finite value in history (named by index) or a bad minResolved.
+ * @throws RangeError for a non-finite value in history (named by index), a bad minResolved or priorSd.
  * @example inverseMseWeights(history) // raw 0.1555555556 when MSE_p = 3.8 and MSE_b = 0.7, n = 5
- *   // → Z = 0.5, panel 0.5·0.1555555556 + 0.5·0.5 = 0.3277777778
+ *   // → Z = 6/31, panel 0.5 + (6/31)·(0.1555555556 − 0.5) = 0.4333333333
  */
 export function inverseMseWeights(history: readonly ResolvedPair[], options: HistoryWeightOptions = {}): BlendWeights {
   const fn = "inverseMseWeights";
   const min = options.minResolved ?? MIN_RESOLVED_FOR_WEIGHTS;
-  const k = options.priorStrength ?? BIAS_PRIOR_STRENGTH;
+  const tau = options.priorSd ?? WEIGHT_PRIOR_SD;
   checkHistory(history, fn, min);
-  assertPositive(k, fn, "priorStrength", true);
+  assertPositive(tau, fn, "priorSd");
   const n = history.length;
   if (n < min) return thin("inverse-mse", n, min);
   const { mseP, mseB } = historyMses(history);
@@ -258,14 +291,15 @@ export function inverseMseWeights(history: readonly ResolvedPair[], options: His
     return result("inverse-mse", "equal", EQUAL_PANEL_WEIGHT, "Equal weights: both the panel and the baseline were exact on every resolved question.", base);
   }
   const raw = mseB / (mseP + mseB);
-  const z = n / (n + k);
+  const z = weightCredibility(n, tau);
   const w = z * raw + (1 - z) * EQUAL_PANEL_WEIGHT;
   return result(
     "inverse-mse",
     "inverse-mse",
     w,
     `Inverse-MSE weights (Bates & Granger 1969) from ${n} resolved questions: panel MSE ${fmt(mseP)}, baseline MSE ${fmt(mseB)}, ` +
-      `raw panel weight ${fmt(raw)} shrunk toward 0.5 with credibility ${fmt(z)} = ${n}/(${n} + ${k}).`,
+      `raw panel weight ${fmt(raw)} shrunk toward 0.5 with credibility ${fmt(z)} ` +
+      `(prior: the best weight within 0.5 ± ${fmt(2 * tau)}; estimated weights from short records lose to equal weights, Smith & Wallis 2009).`,
     { ...base, rawPanel: raw, credibility: z, expectedMse: combinationMse(1 - w, mseP, mseB, 0) },
   );
 }
@@ -360,7 +394,7 @@ export function blendErrorCorrelation(history: readonly ResolvedPair[], priorStr
 export type WeightSpec =
   | { readonly rule: "equal" }
   | { readonly rule: "organiser"; readonly panelWeight: number }
-  | { readonly rule: "inverse-mse"; readonly history: readonly ResolvedPair[]; readonly minResolved?: number; readonly priorStrength?: number }
+  | { readonly rule: "inverse-mse"; readonly history: readonly ResolvedPair[]; readonly minResolved?: number; readonly priorSd?: number }
   | { readonly rule: "optimal"; readonly history: readonly ResolvedPair[]; readonly minResolved?: number };
 
 /**
@@ -375,7 +409,7 @@ export function blendWeights(spec: WeightSpec): BlendWeights {
     case "organiser":
       return organiserWeights(spec.panelWeight);
     case "inverse-mse":
-      return inverseMseWeights(spec.history, { minResolved: spec.minResolved, priorStrength: spec.priorStrength });
+      return inverseMseWeights(spec.history, { minResolved: spec.minResolved, priorSd: spec.priorSd });
     case "optimal":
       return optimalWeights(spec.history, { minResolved: spec.minResolved });
     default: {

@@ -96,7 +96,7 @@ export function wobble(i: number, k: number): number {
 
 const round10 = (v: number) => Math.round(v / 10) * 10;
 
-/** Person i's answer to past question k (single value, or low / most likely / high). */
+/** Person i's answer to past question k (single value, or low / median / high). */
 export function pastAnswer(i: number, k: number, q: PastQuestion): { value: number; low?: number; high?: number } {
   const value = round10(q.actual * HABITS[i] * wobble(i, k));
   return q.answerFormat === "three-point" ? { value, low: round10(value * 0.78), high: round10(value * 1.3) } : { value };

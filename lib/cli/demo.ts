@@ -37,7 +37,7 @@ const ROSTER = [
 
 const email = (name: string) => `${name.toLowerCase().replace(/[^a-z]+/g, ".")}@quillmoor.example`;
 
-/** Per invited person (first seven of the roster): [low, most likely, high] and own part, per round. */
+/** Per invited person (first seven of the roster): [low, median, high] and own part, per round. */
 const ANSWERS: readonly {
   total: readonly [number, number, number][];
   part: readonly number[];
@@ -104,9 +104,9 @@ const ANSWERS: readonly {
 async function answerRound(tokens: readonly string[], round: number, questionIds: readonly [string, string], count = tokens.length) {
   for (let i = 0; i < count; i++) {
     const panelist: Actor = await actorFromInvitationToken(tokens[i]);
-    const [low, mostLikely, high] = ANSWERS[i].total[round - 1];
+    const [low, median, high] = ANSWERS[i].total[round - 1];
     const rationale = ANSWERS[i].why[round - 1] ?? "Holding close to my round 2 figure: the reasons I gave then still apply.";
-    await submitAnswer(panelist, { questionId: questionIds[0], value: mostLikely, low, high, rationale });
+    await submitAnswer(panelist, { questionId: questionIds[0], value: median, low, high, rationale });
     await submitAnswer(panelist, { questionId: questionIds[1], value: ANSWERS[i].part[round - 1], rationale: "" });
   }
 }

@@ -14,7 +14,8 @@
  * Sources: R. J. Hyndman and A. B. Koehler (2006), "Another look at measures of forecast
  * accuracy", International Journal of Forecasting 22(4), 679–688; R. J. Hyndman and
  * G. Athanasopoulos, Forecasting: Principles and Practice, §2.5 / §5.8 (sMAPE, MASE);
- * tracking signal as defined in docs/methods.md §8 (cumulative error over the running MAD).
+ * tracking signal as defined in docs/methods.md §8 (cumulative error over the running MAD, on raw
+ * or relative errors).
  */
 import { neumaierSum } from "../stats/sum";
 
@@ -181,6 +182,7 @@ export function meanAbsoluteScaledError(
  * forecast and MAD_t = (1/t)·Σ_{i≤t} |e_i| the running mean absolute deviation
  * (docs/methods.md §8; the cumulative-MAD form, not Brown's or Trigg's smoothed one).
  * A value beyond about ±4 is the usual alarm limit (common practice, no authoritative source).
+ * For forecasts of quantities of different sizes use {@link relativeTrackingSignalSeries}.
  *
  * TS_t is NaN while all errors so far are 0 (MAD_t = 0).
  * @throws RangeError for empty, unequal-length or non-finite input.
@@ -188,14 +190,41 @@ export function meanAbsoluteScaledError(
  */
 export function trackingSignalSeries(actual: readonly number[], forecast: readonly number[]): number[] {
   check(actual, forecast, "trackingSignalSeries");
+  return signalOf(errors(actual, forecast));
+}
+
+/**
+ * Tracking signal on relative errors r_i = (actual_i − forecast_i)/|actual_i|:
+ * TS_t = (Σ_{i≤t} r_i) / ((1/t')·Σ_{i≤t} |r_i|), t' the periods so far with a defined r_i
+ * (docs/methods.md §8). The same cumulative-error-over-MAD signal as
+ * {@link trackingSignalSeries}, but unit-free, so that a forecast of thousands does not outweigh
+ * one of hundreds when the periods are different questions (the project's choice, §8).
+ *
+ * A period with actual 0 has no relative error: it is left out of both sums and its TS is NaN;
+ * TS_t is also NaN while every relative error so far is 0.
+ * @throws RangeError for empty, unequal-length or non-finite input.
+ * @example relativeTrackingSignalSeries([100, 1000], [90, 1050]) // [1, 0.666666...] (raw errors: [1, -1.333333...])
+ */
+export function relativeTrackingSignalSeries(actual: readonly number[], forecast: readonly number[]): number[] {
+  check(actual, forecast, "relativeTrackingSignalSeries");
+  return signalOf(actual.map((a, i) => (a === 0 ? NaN : (a - forecast[i]) / Math.abs(a))));
+}
+
+/** Cumulative error over running MAD after each error; a NaN error is skipped (its TS is NaN). */
+function signalOf(e: readonly number[]): number[] {
   const out: number[] = [];
   const cum = new RunningSum();
   const abs = new RunningSum();
-  for (let i = 0; i < actual.length; i++) {
-    const e = actual[i] - forecast[i];
-    cum.add(e);
-    abs.add(Math.abs(e));
-    const mad = abs.value() / (i + 1);
+  let t = 0;
+  for (const v of e) {
+    if (Number.isNaN(v)) {
+      out.push(NaN);
+      continue;
+    }
+    cum.add(v);
+    abs.add(Math.abs(v));
+    t++;
+    const mad = abs.value() / t;
     out.push(mad === 0 ? NaN : cum.value() / mad);
   }
   return out;

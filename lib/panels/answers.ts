@@ -145,8 +145,8 @@ export function answerFieldErrors(q: Pick<Question, "answerFormat" | "lowerBound
   if (q.answerFormat === "three-point") {
     if (input.low === undefined) errors.push({ field: "low", message: "a three-point answer needs a low value (10th percentile)" });
     if (input.high === undefined) errors.push({ field: "high", message: "a three-point answer needs a high value (90th percentile)" });
-    if (input.low !== undefined && input.low > input.value) errors.push({ field: "low", message: "low must not be above the most likely value" });
-    if (input.high !== undefined && input.high < input.value) errors.push({ field: "high", message: "high must not be below the most likely value" });
+    if (input.low !== undefined && input.low > input.value) errors.push({ field: "low", message: "low must not be above the median estimate (P50)" });
+    if (input.high !== undefined && input.high < input.value) errors.push({ field: "high", message: "high must not be below the median estimate (P50)" });
     inBounds("low", input.low);
     inBounds("high", input.high);
   } else {

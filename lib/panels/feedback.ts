@@ -36,7 +36,7 @@ export interface QuestionFeedback {
   readonly pooled: { readonly p10: number; readonly p50: number; readonly p90: number } | null;
   /** Sum-of-parts questions: the total of the parts. */
   readonly total: number | null;
-  /** The final answers' values (most likely values for three-point) as histogram bins: chart data. */
+  /** The final answers' values (median estimates, P50, for three-point) as histogram bins: chart data. */
   readonly histogram: readonly HistogramBin[];
   /** The panelist's own final answer in that round (null if they did not answer). */
   readonly myAnswer: { readonly value: number; readonly low: number | null; readonly high: number | null } | null;

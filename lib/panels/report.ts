@@ -29,7 +29,7 @@ import { panelReads, type PanelReads } from "./panel-reads";
 import { jsonSafe, type JsonSafe } from "./json";
 import { correctionSummary, namesRevealed } from "./report-views";
 import type { BlendInterval, Distribution } from "@/lib/blend";
-import type { QuestionVerdict } from "@/lib/stats/stopping-rules";
+import { consensusApplies, type QuestionVerdict } from "@/lib/stats/stopping-rules";
 import { csvCell } from "@/lib/csv/cell";
 import { legWarnings } from "./warnings";
 
@@ -68,6 +68,8 @@ export interface QuestionReport {
     readonly resolvedQuestionsBehindWeight: number | null;
     readonly msePanel: number | null;
     readonly mseBaseline: number | null;
+    /** How the blend's range was made (lib/panels/triangulation.ts). */
+    readonly rangeHow: string;
   } | null;
   readonly legs: {
     readonly panel: {
@@ -76,6 +78,8 @@ export interface QuestionReport {
       readonly rule: string;
       readonly raw: { readonly figure: number | null; readonly intervals: Intervals };
       readonly corrected: { readonly figure: number | null; readonly intervals: Intervals };
+      /** How the panel's range was made: track record with its prior, or the three-point pool. */
+      readonly rangeHow: string;
     } | null;
     readonly baseline: {
       readonly method: string;
@@ -92,6 +96,8 @@ export interface QuestionReport {
       readonly observations: number;
       readonly analogue: { readonly scaleFactor: number; readonly note: string } | null;
       readonly notes: readonly string[];
+      /** How the baseline's range was made: the fitted model's own prediction interval. */
+      readonly rangeHow: string;
     } | null;
     readonly trackRecord: {
       readonly panelistsWithRecord: number;
@@ -193,6 +199,10 @@ export async function getQuestionReport(actor: Actor, panelId: string, questionI
       observations: preview.observations,
       analogue: stored.analogue ? { scaleFactor: stored.scaleFactor, note: stored.scaleNote } : null,
       notes: result.notes,
+      rangeHow:
+        `Baseline range: the fitted ${result.method} model's own prediction interval for the ${loaded.baselineTarget?.label || "target"}` +
+        `${loaded.baselineTarget?.how ? ` (${loaded.baselineTarget.how})` : ""}, from the model's error variance on this history; the uncertainty of choosing the model is not in it.` +
+        (t.baseline ? ` The blend reads it as a normal with sd ${t.baseline.sd.toPrecision(4)} implied by its ${t.baseline.sdSource}.` : ""),
     };
     const first = preview.rows[0]?.row;
     const last = preview.rows.at(-1)?.row;
@@ -240,6 +250,7 @@ export async function getQuestionReport(actor: Actor, panelId: string, questionI
             resolvedQuestionsBehindWeight: w.nResolved,
             msePanel: jsonSafe(w.msePanel),
             mseBaseline: jsonSafe(w.mseBaseline),
+            rangeHow: t.blendRangeHow ?? "",
           }
         : null,
     legs: {
@@ -250,6 +261,7 @@ export async function getQuestionReport(actor: Actor, panelId: string, questionI
             rule: t.panel.rule,
             raw: { figure: jsonSafe(t.panel.raw.figure), intervals: safeIntervals(t.panel.raw.intervals) },
             corrected: { figure: jsonSafe(t.panel.corrected.figure), intervals: safeIntervals(t.panel.corrected.intervals) },
+            rangeHow: t.panel.rangeHow,
           }
         : null,
       baseline: baselineLeg,
@@ -300,6 +312,7 @@ export function reportCsv(r: QuestionReport): string {
     add("blend", "weights", "baseline weight", r.blend.baselineWeight);
     add("blend", "weights", "rule", r.blend.ruleApplied);
     add("blend", "weights", "reason", r.blend.reason);
+    add("blend", "blended figure", "how the range was made", r.blend.rangeHow);
   }
   if (r.legs.panel) {
     for (const [label, leg] of [["raw panel", r.legs.panel.raw], ["corrected panel", r.legs.panel.corrected]] as const) {
@@ -309,6 +322,7 @@ export function reportCsv(r: QuestionReport): string {
         add("panel", label, `${iv.level}% upper`, iv.upper, unit);
       }
     }
+    add("panel", "corrected panel", "how the range was made", r.legs.panel.rangeHow);
     add("panel", "final round", "round", r.legs.panel.round);
     add("panel", "final round", "answers", r.legs.panel.n);
   }
@@ -319,6 +333,7 @@ export function reportCsv(r: QuestionReport): string {
     add("baseline", b.method, "80% upper", b.target.upper80, unit);
     add("baseline", b.method, "95% lower", b.target.lower95, unit);
     add("baseline", b.method, "95% upper", b.target.upper95, unit);
+    add("baseline", b.method, "how the range was made", b.rangeHow);
     add("baseline", b.method, "holdout MASE", b.holdout.chosenMase);
     for (const [k, v] of Object.entries(b.parameters)) add("baseline", b.method, `parameter ${k}`, v);
     if (b.analogue) add("baseline", b.method, "analogue scale factor", b.analogue.scaleFactor);
@@ -339,10 +354,17 @@ export function reportCsv(r: QuestionReport): string {
     add("bias correction", who, "factor", p.factor);
     add("bias correction", who, "corrected answer", p.correctedValue, unit);
   }
+  // As the pages (lib/ui/convergence-view.tsx): the spread between panelists only where consensus applies.
+  const spread = consensusApplies(r.question.aggregation);
   for (const c of r.convergence.rounds) {
-    add("convergence", `round ${c.round}`, "median", c.median, unit);
-    add("convergence", `round ${c.round}`, "IQR", c.iqr, unit);
-    add("convergence", `round ${c.round}`, "relative IQR", c.relativeIqr);
+    if (spread) {
+      add("convergence", `round ${c.round}`, "median", c.median, unit);
+      add("convergence", `round ${c.round}`, "IQR", c.iqr, unit);
+      add("convergence", `round ${c.round}`, "relative IQR", c.relativeIqr);
+      add("convergence", `round ${c.round}`, "CV", c.cv);
+    } else {
+      add("convergence", `round ${c.round}`, "spread (IQR, relative IQR, CV)", "not applicable: sum of parts");
+    }
     if (c.total !== null) add("convergence", `round ${c.round}`, "total", c.total, unit);
   }
   if (r.departures) {

@@ -168,13 +168,20 @@ export async function currentFigures(panelId: string, questionId: string): Promi
   };
 }
 
-/**
- * Records a question's actual value and scores every figure (organisers of the panel; audited).
- * @throws ConflictError (409) when already resolved, a round is open, or there is no panel figure.
- * @throws InvalidInputError (422) for part actuals on a shared question, an unknown pseudonym, or a
- *   value outside the question's bounds.
- */
-export async function resolveQuestion(actor: Actor, panelId: string, questionId: string, input: ResolutionInput): Promise<ResolutionView> {
+/** What is about to be recorded, for the confirmation the organiser sees before saving. */
+export interface ResolutionPreview {
+  readonly questionId: string;
+  readonly text: string;
+  readonly unit: string;
+  /** The actual value as it will be stored. */
+  readonly actual: number;
+  /** The value recorded now (a correction); null before the question is resolved. */
+  readonly recorded: number | null;
+  readonly parts: readonly { readonly pseudonym: string; readonly actual: number }[];
+}
+
+/** The checks before a first resolution; the question row on success. */
+async function readyToResolve(actor: Actor, panelId: string, questionId: string, input: ResolutionInput) {
   const access = await authorisePanel(actor, panelId, "manage");
   const question = await db.question.findFirst({ where: { id: questionId, panelId } });
   if (!question) throw new NotFoundError("The question");
@@ -185,6 +192,49 @@ export async function resolveQuestion(actor: Actor, panelId: string, questionId:
     throw new ConflictError("round-still-open", "A round is open: close it before resolving, so the panel figure that is scored is final.");
   }
   checkWithinBounds(question, input.actual, input.parts);
+  return { access, question };
+}
+
+/** The checks before a correction; the question and its resolution on success. */
+async function readyToCorrect(actor: Actor, panelId: string, questionId: string, input: ResolutionCorrection) {
+  const access = await authorisePanel(actor, panelId, "manage");
+  const question = await db.question.findFirst({ where: { id: questionId, panelId } });
+  if (!question) throw new NotFoundError("The question");
+  const existing = await db.resolution.findUnique({ where: { questionId } });
+  if (!existing) throw new NotFoundError("The question's resolution");
+  checkWithinBounds(question, input.actual, input.parts ?? []);
+  return { access, question, existing };
+}
+
+/**
+ * Everything {@link resolveQuestion} (or, for a resolved question, {@link correctResolution})
+ * checks, without writing: the value that would be recorded with the question's unit, so the
+ * organiser confirms the number itself before it is saved (the form's two steps).
+ * @throws as resolveQuestion / correctResolution do.
+ */
+export async function previewResolution(
+  actor: Actor,
+  panelId: string,
+  questionId: string,
+  input: ResolutionInput | ResolutionCorrection,
+  kind: "resolve" | "correct",
+): Promise<ResolutionPreview> {
+  const ready =
+    kind === "resolve"
+      ? { ...(await readyToResolve(actor, panelId, questionId, input as ResolutionInput)), existing: null }
+      : await readyToCorrect(actor, panelId, questionId, input as ResolutionCorrection);
+  const q = ready.question;
+  return { questionId, text: q.text, unit: q.unit, actual: input.actual, recorded: ready.existing?.actual ?? null, parts: input.parts ?? [] };
+}
+
+/**
+ * Records a question's actual value and scores every figure (organisers of the panel; audited).
+ * @throws ConflictError (409) when already resolved, a round is open, or there is no panel figure.
+ * @throws InvalidInputError (422) for part actuals on a shared question, an unknown pseudonym, or a
+ *   value outside the question's bounds.
+ */
+export async function resolveQuestion(actor: Actor, panelId: string, questionId: string, input: ResolutionInput): Promise<ResolutionView> {
+  const { access } = await readyToResolve(actor, panelId, questionId, input);
   const figures = await currentFigures(panelId, questionId);
   const parts = partsFor(input.parts, figures);
   const scores = jsonSafe(scoreFigures(input.actual, figures, parts));
@@ -222,12 +272,7 @@ export async function resolveQuestion(actor: Actor, panelId: string, questionId:
  * @throws NotFoundError when the question is not resolved.
  */
 export async function correctResolution(actor: Actor, panelId: string, questionId: string, input: ResolutionCorrection): Promise<ResolutionView> {
-  const access = await authorisePanel(actor, panelId, "manage");
-  const question = await db.question.findFirst({ where: { id: questionId, panelId } });
-  if (!question) throw new NotFoundError("The question");
-  const existing = await db.resolution.findUnique({ where: { questionId } });
-  if (!existing) throw new NotFoundError("The question's resolution");
-  checkWithinBounds(question, input.actual, input.parts ?? []);
+  const { access, existing } = await readyToCorrect(actor, panelId, questionId, input);
   const figures = JSON.parse(existing.figures) as ResolutionFigures;
   const parts = input.parts !== undefined ? partsFor(input.parts, figures) : (JSON.parse(existing.partActuals) as { invitationId: string; actual: number }[]);
   const scores = jsonSafe(scoreFigures(input.actual, figures, parts));

@@ -3,13 +3,13 @@
  * answers of a round by lib/stats. Pure: no database; lib/panels/rounds.ts stores the result
  * as JSON in RoundStatistic.data when a round closes.
  *
- * - `values`: summarise() of the single values, or of the most-likely values of three-point
+ * - `values`: summarise() of the single values, or of the median estimates (P50) of three-point
  *   answers: n, mean, sd (n − 1), CV, min, max, Q1/median/Q3 (Hyndman & Fan type 7), IQR,
  *   relative IQR.
  * - three-point answers also: `lows` and `highs` (the same summary of the 10th and 90th
  *   percentiles) and `pooled` (linear opinion pool, lib/stats/three-point.ts).
  * - sum-of-parts questions also: `sumOfParts`: each part (by pseudonym) with its share of the
- *   total, and the total = Σ parts (of the most-likely values for three-point answers; the sum
+ *   total, and the total = Σ parts (of the median estimates for three-point answers; the sum
  *   of 10th percentiles is not the 10th percentile of the sum, so no range is summed).
  * Undefined statistics (sd of one answer, CV with mean 0, …) are stored as null.
  */
@@ -83,7 +83,7 @@ export function computeQuestionStatistics(
     values: figures(values),
     lows: threePoint ? figures(tp.map((a) => a.low as number)) : null,
     highs: threePoint ? figures(tp.map((a) => a.high as number)) : null,
-    pooled: threePoint && tp.length > 0 ? poolThreePoint(tp.map((a) => ({ low: a.low as number, mostLikely: a.value, high: a.high as number }))) : null,
+    pooled: threePoint && tp.length > 0 ? poolThreePoint(tp.map((a) => ({ low: a.low as number, median: a.value, high: a.high as number }))) : null,
     sumOfParts: parts,
   };
 }

@@ -14,7 +14,7 @@
  *   and so are answers outside the input range (lib/blend/track-record.ts `usableRecord`, stored before that rule).
  * - Accuracy history per organiser (lib/blend `accuracyHistory`): raw panel, corrected panel,
  *   baseline and blend over the resolved questions that had a baseline, in resolution order,
- *   with the tracking signal. The inverse-MSE blend weights (Bates & Granger 1969) use the
+ *   with the tracking signal on relative errors (actual − figure)/|actual| (docs/methods.md §8). The inverse-MSE blend weights (Bates & Granger 1969) use the
  *   same history: the corrected panel figure (the one that is blended) against the baseline,
  *   with each error taken relative to the actual value ((actual − figure)/actual), so that a
  *   question counted in thousands of units does not outweigh one counted in hundreds
@@ -262,7 +262,7 @@ export async function getAccuracyHistory(actor: Actor): Promise<AccuracyHistoryV
     history: h.entries.length > 0 ? jsonSafe(accuracyHistory(h.entries)) : null,
     notes: [
       "Errors are actual − figure (positive: the figure was too low). MAE, RMSE and ME mix the questions' units; MAPE and sMAPE compare across questions. MASE is not given across questions (their scales differ).",
-      "Tracking signal = cumulative error / running MAD after each question; |TS| > 4 flags a biased figure (±4 is common practice, no authoritative source).",
+      "Tracking signal = cumulative relative error / running mean absolute relative error after each question, with relative error (actual − figure)/|actual|, so that a large question does not outweigh small ones (a question with an actual of 0 is left out of it); |TS| > 4 flags a biased figure (±4 is common practice, no authoritative source).",
     ],
   };
 }

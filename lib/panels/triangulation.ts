@@ -151,6 +151,8 @@ export interface PanelLeg {
   readonly rule: PanelRule;
   /** The log-error scale behind a "track record" range (null for three-point answers). */
   readonly errorScale: PanelErrorScale | null;
+  /** How the panel's range was made, in one sentence for the report (also among the notes). */
+  readonly rangeHow: string;
   readonly raw: PanelFigureWithRange;
   readonly corrected: PanelFigureWithRange;
   readonly answers: readonly CorrectedAnswer[];
@@ -175,6 +177,8 @@ export interface Triangulation {
   readonly baseline: (BaselineForecast & { readonly sd: number; readonly sdSource: string }) | null;
   readonly weights: BlendWeights | null;
   readonly blend: BlendResult | null;
+  /** How the blend's range was made, in one sentence for the report (null without a blend). */
+  readonly blendRangeHow: string | null;
   readonly departures: DepartureReport | null;
   readonly notes: readonly string[];
   readonly cautions: readonly string[];
@@ -258,11 +262,20 @@ export function computeTriangulation(input: TriangulationInput): Triangulation {
       fig.corrected,
       errorScale,
     );
+    const rescaled = answers.filter((a) => a.rangeFactor !== 1).length;
+    const fromHits = `each answer's P10–P90 range rescaled by Φ⁻¹(0.9)/Φ⁻¹((1 + ĥ)/2), ĥ its panelist's interval hit rate shrunk toward 80% with weight 5 (${rescaled} of ${answers.length} panelists have one)`;
+    const e = errorScale;
+    const rangeHow = {
+      "three-point pool": `Panel range: the equal-weight linear pool (Stone 1961) of the three-point answers, each read as P10/P50/P90 of a two-piece normal, ${fromHits}.`,
+      "sum of parts": `Panel range: the total of the parts as a normal with the summed means and variances of the three-point parts (parts taken as independent), ${fromHits}.`,
+      "track record": `Panel range: from the track record, not from the spread of the answers. Log errors ln(actual / corrected panel figure) of ${e.n} resolved question${e.n === 1 ? "" : "s"} pooled with a prior scale of ${e.priorScale} worth ${e.priorStrength} questions give a scale of ${e.scale.toPrecision(3)}; the range is figure × exp(±t·scale) with t the Student t quantile on ${e.df} degrees of freedom (Gelman et al. 2013, §2.6).`,
+    }[rawD.rule];
     panel = {
       round: final.round,
       n: answers.length,
       rule: rawD.rule,
       errorScale: rawD.rule === "track record" ? errorScale : null,
+      rangeHow,
       raw: { figure: fig.raw, intervals: intervalsOf(rawD.distribution), distribution: rawD.distribution },
       corrected: { figure: fig.corrected, intervals: intervalsOf(corrD.distribution), distribution: corrD.distribution },
       answers,
@@ -277,16 +290,7 @@ export function computeTriangulation(input: TriangulationInput): Triangulation {
       notes.push(msg);
       cautions.push(msg);
     }
-    const rescaled = answers.filter((a) => a.rangeFactor !== 1).length;
-    const fromHits = `each answer's P10–P90 range rescaled by Φ⁻¹(0.9)/Φ⁻¹((1 + ĥ)/2), ĥ its panelist's interval hit rate shrunk toward 80% with weight 5 (${rescaled} of ${answers.length} panelists have one)`;
-    const e = errorScale;
-    notes.push(
-      {
-        "three-point pool": `Panel range: the equal-weight linear pool (Stone 1961) of the three-point answers, each read as P10/P50/P90 of a two-piece normal, ${fromHits}.`,
-        "sum of parts": `Panel range: the total of the parts as a normal with the summed means and variances of the three-point parts (parts taken as independent), ${fromHits}.`,
-        "track record": `Panel range: from the track record, not from the spread of the answers. Log errors ln(actual / corrected panel figure) of ${e.n} resolved question${e.n === 1 ? "" : "s"} pooled with a prior scale of ${e.priorScale} worth ${e.priorStrength} questions give a scale of ${e.scale.toPrecision(3)}; the range is figure × exp(±t·scale) with t the Student t quantile on ${e.df} degrees of freedom (Gelman et al. 2013, §2.6).`,
-      }[rawD.rule],
-    );
+    notes.push(rangeHow);
     if (rawD.rule === "track record" && e.n < e.priorStrength) {
       cautions.push(`The panel's range rests mostly on a default prior (typical error ${Math.round(100 * e.priorScale)}%): only ${e.n} resolved question${e.n === 1 ? "" : "s"} show how far the panel figure has been from outcomes.`);
     }
@@ -305,6 +309,7 @@ export function computeTriangulation(input: TriangulationInput): Triangulation {
   let baselineOut: Triangulation["baseline"] = null;
   let weights: BlendWeights | null = null;
   let blended: BlendResult | null = null;
+  let blendRangeHow: string | null = null;
   let departures: DepartureReport | null = null;
   if (input.baseline) {
     const bd = baselineDistribution(input.baseline);
@@ -323,6 +328,12 @@ export function computeTriangulation(input: TriangulationInput): Triangulation {
         baselineDistribution: bd.distribution,
         panelWeight: weights.panel,
       });
+      blendRangeHow =
+        `Blend range: one normal centred on the blended figure, sd √(w²σp² + (1−w)²σb² + 2w(1−w)ρσpσb) = ${blended.distribution.sd.toPrecision(4)} ` +
+        `(Bates & Granger 1969), from the panel's range (σp = ${blended.panelSd.toPrecision(4)}) and the baseline's (σb = ${blended.baselineSd.toPrecision(4)}) ` +
+        `with the legs' error correlation ρ = ${rho.rho.toPrecision(3)} (${rho.credibility > 0 ? `${rho.n} resolved questions, shrunk toward the prior 0.5` : "the stated prior 0.5"})` +
+        (scale.n > 0 ? ` and × ${scale.scale.toPrecision(3)} from how often ${scale.n} past blends' ranges held` : "") +
+        "; not the mixture of the two legs, which would be too wide (docs/methods.md §15d).";
       if (weights.applied === "inverse-mse") {
         notes.push("Inverse-MSE weights use relative errors, (actual − figure)/actual, over the organiser's resolved questions with a baseline, so that questions of different sizes count alike; the MSEs quoted are of those relative errors.");
       }
@@ -367,7 +378,7 @@ export function computeTriangulation(input: TriangulationInput): Triangulation {
   } else {
     notes.push("No baseline is attached, so there is no blend and no departure report.");
   }
-  return { panel, baseline: baselineOut, weights, blend: blended, departures, notes, cautions };
+  return { panel, baseline: baselineOut, weights, blend: blended, blendRangeHow, departures, notes, cautions };
 }
 
 /** The weight rule that applies to a question, with the organiser's weight for that rule. */

@@ -1,5 +1,5 @@
 /**
- * Three-point answers (low / most likely / high, read as the 10th / 50th / 90th percentiles,
+ * Three-point answers (low / median / high, read as the 10th / 50th / 90th percentiles,
  * docs/methods.md §14.1) and their pooling into one panel distribution.
  *
  * ## Per-answer distribution
@@ -31,7 +31,8 @@ import { normalCdf, normalQuantile } from "./normal";
 /** A three-point answer: 10th, 50th and 90th percentiles. */
 export interface ThreePoint {
   readonly low: number;
-  readonly mostLikely: number;
+  /** The middle value, the 50th percentile (a median, not a mode). */
+  readonly median: number;
   readonly high: number;
 }
 
@@ -54,25 +55,25 @@ function check(a: ThreePoint, i: number): void {
   for (const [k, v] of Object.entries(a)) {
     if (!Number.isFinite(v)) throw new RangeError(`poolThreePoint: answer ${i} has a non-finite ${k}`);
   }
-  if (!(a.low <= a.mostLikely && a.mostLikely <= a.high)) {
-    throw new RangeError(`poolThreePoint: answer ${i} needs low ≤ most likely ≤ high`);
+  if (!(a.low <= a.median && a.median <= a.high)) {
+    throw new RangeError(`poolThreePoint: answer ${i} needs low ≤ median ≤ high`);
   }
 }
 
 /** CDF of the per-answer distribution at x (see the module comment). */
 export function threePointCdf(a: ThreePoint, x: number): number {
-  const sL = (a.mostLikely - a.low) / Z90;
-  const sR = (a.high - a.mostLikely) / Z90;
-  if (x < a.mostLikely) return sL === 0 ? 0 : normalCdf((x - a.mostLikely) / sL);
-  if (x === a.mostLikely) return sL === 0 ? (sR === 0 ? 1 : 0.5) : 0.5;
-  return sR === 0 ? 1 : normalCdf((x - a.mostLikely) / sR);
+  const sL = (a.median - a.low) / Z90;
+  const sR = (a.high - a.median) / Z90;
+  if (x < a.median) return sL === 0 ? 0 : normalCdf((x - a.median) / sL);
+  if (x === a.median) return sL === 0 ? (sR === 0 ? 1 : 0.5) : 0.5;
+  return sR === 0 ? 1 : normalCdf((x - a.median) / sR);
 }
 
 /** Mean and E[X²] of the per-answer distribution. */
 export function threePointMoments(a: ThreePoint): { mean: number; secondMoment: number } {
-  const sL = (a.mostLikely - a.low) / Z90;
-  const sR = (a.high - a.mostLikely) / Z90;
-  const m = a.mostLikely;
+  const sL = (a.median - a.low) / Z90;
+  const sR = (a.high - a.median) / Z90;
+  const m = a.median;
   return {
     mean: m + (sR - sL) / Math.sqrt(2 * Math.PI),
     secondMoment: m * m + Math.sqrt(2 / Math.PI) * m * (sR - sL) + (sL * sL + sR * sR) / 2,
@@ -81,17 +82,17 @@ export function threePointMoments(a: ThreePoint): { mean: number; secondMoment: 
 
 /**
  * Linear opinion pool (equal weights) of three-point answers; see the module comment.
- * @throws RangeError for no answers, a non-finite value, or low > most likely > high order broken.
+ * @throws RangeError for no answers, a non-finite value, or low ≤ median ≤ high order broken.
  * Complexity O(n · 200) (bisection per quantile).
- * @example poolThreePoint([{ low: 8, mostLikely: 10, high: 12 }]).p90 // 12
+ * @example poolThreePoint([{ low: 8, median: 10, high: 12 }]).p90 // 12
  */
 export function poolThreePoint(answers: readonly ThreePoint[]): PooledDistribution {
   if (answers.length === 0) throw new RangeError("poolThreePoint: no answers to pool");
   answers.forEach(check);
   const n = answers.length;
   const cdf = (x: number) => answers.reduce((s, a) => s + threePointCdf(a, x), 0) / n;
-  const lo0 = Math.min(...answers.map((a) => a.mostLikely - 10 * Math.max(a.mostLikely - a.low, 0) - 1));
-  const hi0 = Math.max(...answers.map((a) => a.mostLikely + 10 * Math.max(a.high - a.mostLikely, 0) + 1));
+  const lo0 = Math.min(...answers.map((a) => a.median - 10 * Math.max(a.median - a.low, 0) - 1));
+  const hi0 = Math.max(...answers.map((a) => a.median + 10 * Math.max(a.high - a.median, 0) + 1));
   const tol = 1e-12 * Math.max(1, hi0 - lo0);
   /** Smallest x with F(x) ≥ p (the usual generalised inverse), by bisection. */
   const q = (p: number): number => {

@@ -57,7 +57,8 @@ export default function ActionForm({
           onSubmit={(event) => {
             event.preventDefault();
             if (confirm && !window.confirm(confirm)) return;
-            const data = new FormData(event.currentTarget);
+            // The button that submitted counts (a server-side confirmation's button carries its value).
+            const data = new FormData(event.currentTarget, (event.nativeEvent as SubmitEvent).submitter);
             startTransition(() => formAction(data));
           }}
         >
@@ -71,6 +72,15 @@ export default function ActionForm({
             <p className="notice" role="status">
               {state.message ?? successMessage}
             </p>
+          ) : null}
+          {state.confirm ? (
+            <div className="card confirm-step" role="alertdialog" aria-label="Confirm before saving" data-confirm={state.confirm.value}>
+              <p>{state.confirm.text}</p>
+              <p className="hint">Nothing is saved until you confirm. Change the value above and submit again to record a different one.</p>
+              <button type="submit" name={state.confirm.field} value={state.confirm.value} disabled={pending}>
+                {state.confirm.submitLabel}
+              </button>
+            </div>
           ) : null}
           {state.secret ? <SecretOnce label={state.secret.label} value={state.secret.value} /> : null}
           {state.secrets?.map((s) => <SecretOnce key={s.value} label={s.label} value={s.value} />)}

@@ -7,7 +7,7 @@
  */
 import type { ConvergencePoint } from "@/lib/panels/rounds";
 import type { ConvergencePageView } from "@/lib/panels/views";
-import { STOPPING_RULE_DEFAULTS as D, type QuestionVerdict } from "@/lib/stats/stopping-rules";
+import { STOPPING_RULE_DEFAULTS as D, consensusApplies, type QuestionVerdict } from "@/lib/stats/stopping-rules";
 import ConvergenceChart from "./convergence-chart";
 import Figure from "./figure";
 import { formatNumber, formatPercent } from "./format";
@@ -82,16 +82,23 @@ export function RoundsChart({ rounds, unit, sum }: { rounds: readonly Convergenc
   );
 }
 
-/** The statistics of each closed round: n, the median (the total for sum-of-parts), Q1, Q3, IQR, relative IQR and CV. */
-export function RoundStatsTable({ rounds, sum }: { rounds: readonly ConvergencePoint[]; sum: boolean }) {
+/**
+ * The statistics of each closed round: n, the median, Q1, Q3, IQR, relative IQR and CV; for a
+ * sum-of-parts question n and the total, with the spread figures "not applicable" — the same
+ * `consensusApplies` that makes the panel page's consensus verdict "not applicable" (panelists
+ * estimate different parts, so their spread is not disagreement).
+ */
+export function RoundStatsTable({ rounds, aggregation }: { rounds: readonly ConvergencePoint[]; aggregation: "shared" | "sum-of-parts" }) {
+  const spread = consensusApplies(aggregation);
+  const na = <span className="muted" data-not-applicable="">not applicable</span>;
   return (
     <div className="table-scroll">
-      <table className="convergence-table">
+      <table className="convergence-table" data-aggregation={aggregation}>
         <thead>
           <tr>
             <th>Round</th>
             <th className="num">n</th>
-            <th className="num">{sum ? "Total" : "Median"}</th>
+            <th className="num">{spread ? "Median" : "Total"}</th>
             <th className="num">Q1</th>
             <th className="num">Q3</th>
             <th className="num">IQR</th>
@@ -106,32 +113,28 @@ export function RoundStatsTable({ rounds, sum }: { rounds: readonly ConvergenceP
               <td className="num">
                 <Figure value={r.n} name="n" />
               </td>
-              <td className="num">
-                <Figure value={sum ? r.total : r.median} name="median" />
-              </td>
-              <td className="num">
-                <Figure value={r.q1} name="q1" />
-              </td>
-              <td className="num">
-                <Figure value={r.q3} name="q3" />
-              </td>
-              <td className="num">
-                <Figure value={r.iqr} name="iqr" />
-              </td>
-              <td className="num">
-                <Figure value={r.relativeIqr} name="relativeIqr" digits={3} />
-              </td>
-              <td className="num">
-                <Figure value={r.cv} name="cv" digits={3} />
-              </td>
+              <td className="num">{spread ? <Figure value={r.median} name="median" /> : <Figure value={r.total} name="total" />}</td>
+              <td className="num">{spread ? <Figure value={r.q1} name="q1" /> : na}</td>
+              <td className="num">{spread ? <Figure value={r.q3} name="q3" /> : na}</td>
+              <td className="num">{spread ? <Figure value={r.iqr} name="iqr" /> : na}</td>
+              <td className="num">{spread ? <Figure value={r.relativeIqr} name="relativeIqr" digits={3} /> : na}</td>
+              <td className="num">{spread ? <Figure value={r.cv} name="cv" digits={3} /> : na}</td>
             </tr>
           ))}
         </tbody>
       </table>
-      <p className="hint">
-        Quartiles by Hyndman &amp; Fan (1996) definition 7 (R&apos;s default). Relative IQR = IQR / |median|; CV =
-        sample standard deviation / mean. A dash means the figure is not defined (e.g. CV of a single answer).
-      </p>
+      {spread ? (
+        <p className="hint">
+          Quartiles by Hyndman &amp; Fan (1996) definition 7 (R&apos;s default). Relative IQR = IQR / |median|; CV =
+          sample standard deviation / mean. A dash means the figure is not defined (e.g. CV of a single answer).
+        </p>
+      ) : (
+        <p className="hint">
+          Sum of parts: the panel figure is the total of the parts. Panelists estimate different parts, so the spread between
+          them is not disagreement: quartiles, relative IQR and CV do not apply, nor does the consensus rule; stability is judged
+          on the total.
+        </p>
+      )}
     </div>
   );
 }
@@ -204,20 +207,20 @@ export default function ConvergenceView({ view, reader = "organiser" }: { view: 
                 </table>
               </div>
             ) : (
-              <RoundStatsTable rounds={q.rounds} sum={false} />
+              <RoundStatsTable rounds={q.rounds} aggregation="shared" />
             )}
             {view.threePoint[q.questionId]?.length ? (
               <div className="table-scroll">
                 <table className="three-point-table">
                   <caption className="muted small">
-                    Three-point answers: medians of the lows (P10), most likely values and highs (P90), and the pooled panel
+                    Three-point answers: medians of the lows (P10), of the median estimates (P50) and of the highs (P90), and the pooled panel
                     distribution
                   </caption>
                   <thead>
                     <tr>
                       <th>Round</th>
                       <th className="num">Median low</th>
-                      <th className="num">Median most likely</th>
+                      <th className="num">Median of P50s</th>
                       <th className="num">Median high</th>
                       <th className="num">Pooled P10</th>
                       <th className="num">Pooled P50</th>
@@ -255,7 +258,7 @@ export default function ConvergenceView({ view, reader = "organiser" }: { view: 
                 </table>
                 <p className="hint">
                   The pooled distribution is the equal-weight linear opinion pool of the answers, each read as two half-normal
-                  sides meeting its low, most likely and high values; that reading is Triangulate&apos;s own convention, not a
+                  sides meeting at its median (P50), with its low and high as P10 and P90; that reading is Triangulate&apos;s own convention, not a
                   published named distribution.
                 </p>
               </div>

@@ -13,6 +13,19 @@ export function formatNumber(value: number | null | undefined, digits = 4): stri
   return value.toLocaleString("en-GB", { maximumFractionDigits: Math.min(decimals, 10), minimumFractionDigits: 0 });
 }
 
+/**
+ * A number in full, as it is stored: the shortest decimal that reads back as the same double
+ * (ECMAScript Number::toString), thousands grouped with commas, e.g. 12500.75 → "12,500.75",
+ * 1.5e-12 → "1.5e-12"; for confirming a value before it is saved, never rounded.
+ */
+export function formatExact(value: number): string {
+  const s = String(value);
+  if (!Number.isFinite(value) || /e/i.test(s)) return s;
+  const [int, frac] = s.split(".");
+  const grouped = int.replace(/\B(?=(\d{3})+(?!\d))/g, ",");
+  return frac === undefined ? grouped : `${grouped}.${frac}`;
+}
+
 /** A ratio as a percentage, e.g. 0.153 → "15.3%". */
 export function formatPercent(value: number | null | undefined, digits = 1): string {
   if (value === null || value === undefined || Number.isNaN(value) || !Number.isFinite(value)) return "—";

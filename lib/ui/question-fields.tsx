@@ -47,7 +47,7 @@ export default function QuestionFields({ question }: { question?: QuestionView }
         </label>
         <label className="inline">
           <input type="radio" name="answerFormat" value="three-point" defaultChecked={q?.answerFormat === "three-point"} />
-          Three-point: low / most likely / high (read as the 10th / 50th / 90th percentiles)
+          Three-point: low / median / high (read as the 10th / 50th / 90th percentiles)
         </label>
         <FieldError name="answerFormat" />
       </fieldset>

@@ -2,8 +2,8 @@
 /**
  * Tracking signal of each figure (raw panel, corrected panel, baseline, blend) after each
  * resolved question, with the ±4 limits that common practice uses to flag a biased forecast
- * (no authoritative source; stated on the page). The values come from lib/blend
- * `accuracyHistory`; the chart only draws them.
+ * (no authoritative source; stated on the page). The signal is on relative errors
+ * (docs/methods.md §8). The values come from lib/blend `accuracyHistory`; the chart only draws them.
  */
 import { useEffect, useRef } from "react";
 import { guidedLineChart } from "./chart-guides";
@@ -40,7 +40,7 @@ export default function TrackingSignalChart({ labels, series, limit }: { labels:
         pointRadius: 3,
         fill: false,
       })),
-      yTitle: "tracking signal (cumulative error / MAD)",
+      yTitle: "tracking signal (cumulative relative error / mean absolute relative error)",
       guides,
     });
   }, [labels, series, limit]);

@@ -111,10 +111,10 @@ export function BlendHeadline({ report }: { report: QuestionReport }) {
           {b.ruleApplied !== b.ruleRequested ? ` (asked: ${RULE_NAME[b.ruleRequested] ?? b.ruleRequested})` : ""}, set on the {b.ruleFrom}.
         </dd>
       </dl>
-      <p className="small muted">
-        Blended figure = w × corrected panel figure + (1 − w) × baseline. The range comes from the mixture of the panel&apos;s and the baseline&apos;s
-        distributions with the same weights. {b.reason}
+      <p className="small" data-range-how="blend">
+        {b.rangeHow}
       </p>
+      <p className="small muted">Blended figure = w × corrected panel figure + (1 − w) × baseline. {b.reason}</p>
     </section>
   );
 }
@@ -180,9 +180,14 @@ export function LegsSideBySide({ report }: { report: QuestionReport }) {
             <p className="muted">No closed round with answers yet.</p>
           )}
           {p ? (
-            <p className="hint">
-              Round {p.round}, {p.n} answers; range rule: {p.rule}. Unit: {unit}.
-            </p>
+            <>
+              <p className="small" data-range-how="panel">
+                {p.rangeHow}
+              </p>
+              <p className="hint">
+                Round {p.round}, {p.n} answers. Unit: {unit}.
+              </p>
+            </>
           ) : null}
         </div>
         <div className="card leg" data-leg="statistics">
@@ -196,6 +201,9 @@ export function LegsSideBySide({ report }: { report: QuestionReport }) {
                 80%: <Range lower={b.target.lower80} upper={b.target.upper80} name="leg-baseline-80" />
                 <br />
                 95%: <Range lower={b.target.lower95} upper={b.target.upper95} name="leg-baseline-95" />
+              </p>
+              <p className="small" data-range-how="baseline">
+                {b.rangeHow}
               </p>
               <p className="hint">
                 Method {b.method}
@@ -371,7 +379,11 @@ export function WeightInputs({ report }: { report: QuestionReport }) {
         <Figure value={b.panelWeight} name="weight-panel" digits={4} />
       </dd>
       <dt>Resolved questions behind it</dt>
-      <dd>{b.resolvedQuestionsBehindWeight ?? 0} (inverse-MSE needs at least {MIN_RESOLVED_FOR_WEIGHTS}; with fewer, equal weights apply)</dd>
+      <dd>
+        {b.resolvedQuestionsBehindWeight ?? 0} (inverse-MSE needs at least {MIN_RESOLVED_FOR_WEIGHTS}; with fewer, equal weights apply. Even then the
+        weight is shrunk toward 50/50 — the history has half the say only after 24 resolved questions — because weights estimated from short
+        records lose to equal weights in practice: Smith &amp; Wallis 2009)
+      </dd>
       <dt>MSE of the panel / baseline</dt>
       <dd>
         <Figure value={b.msePanel} digits={4} /> / <Figure value={b.mseBaseline} digits={4} />{" "}

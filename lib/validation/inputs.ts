@@ -31,7 +31,7 @@ const questionFields = {
   targetPeriod: text(60).describe("The period the estimate is for, e.g. 'first 12 months after launch'."),
   lowerBound: finite.describe("Lowest plausible answer; answers below it are refused."),
   upperBound: finite.describe("Highest plausible answer; answers above it are refused."),
-  answerFormat: z.enum(ANSWER_FORMATS).describe("single value, or low / most likely / high read as P10 / P50 / P90"),
+  answerFormat: z.enum(ANSWER_FORMATS).describe("single value, or low / median / high read as P10 / P50 / P90"),
   aggregation: z.enum(AGGREGATIONS).describe("shared quantity (panel figure: median) or sum of parts (panel figure: total)"),
 };
 
@@ -110,7 +110,7 @@ export type NextRoundInput = z.infer<typeof nextRoundInput>;
 /** A panelist's answer to one question in the open round. */
 export const answerInput = z.object({
   questionId: id,
-  value: finite.describe("The single value, or the most likely value (P50) of a three-point answer."),
+  value: finite.describe("The single value, or the median estimate (P50) of a three-point answer."),
   low: finite.optional().describe("Three-point answers: the low value (P10)."),
   high: finite.optional().describe("Three-point answers: the high value (P90)."),
   rationale: z.string().trim().max(2000, "at most 2000 characters").default(""),

@@ -145,7 +145,7 @@ export const questionStatistics = z.object({
   answerFormat: z.enum(ANSWER_FORMATS),
   aggregation: z.enum(AGGREGATIONS),
   n: z.number().int(),
-  values: summaryFigures.nullable().describe("single values, or most-likely values of three-point answers"),
+  values: summaryFigures.nullable().describe("single values, or median estimates (P50) of three-point answers"),
   lows: summaryFigures.nullable(),
   highs: summaryFigures.nullable(),
   pooled: z

@@ -298,6 +298,7 @@ export const questionReport = z.object({
       resolvedQuestionsBehindWeight: n0,
       msePanel: n0,
       mseBaseline: n0,
+      rangeHow: z.string().describe("how the blend's range was made"),
     })
     .nullable(),
   legs: z.object({
@@ -308,6 +309,7 @@ export const questionReport = z.object({
         rule: z.string(),
         raw: z.object({ figure: n0, intervals: z.array(interval) }),
         corrected: z.object({ figure: n0, intervals: z.array(interval) }),
+        rangeHow: z.string().describe("how the panel's range was made: the track record with its stated prior, or the three-point pool"),
       })
       .nullable(),
     baseline: z
@@ -326,6 +328,7 @@ export const questionReport = z.object({
         observations: z.number().int(),
         analogue: z.object({ scaleFactor: num, note: z.string() }).nullable(),
         notes: z.array(z.string()),
+        rangeHow: z.string().describe("how the baseline's range was made: the fitted model's own prediction interval"),
       })
       .nullable(),
     trackRecord: z.object({

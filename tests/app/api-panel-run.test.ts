@@ -140,7 +140,7 @@ describe("a panel run by script with an API token", () => {
       [{ questionId: qIds[0], value: "many" }, "value", /number/i],
       [{ questionId: qIds[0], value: 50 }, "value", /between 100 and 100000 units/],
       [{ questionId: qIds[0], value: 2000, low: 1000 }, "low", /single value/],
-      [{ questionId: qIds[1], value: 3000, low: 3500, high: 4000 }, "low", /not be above the most likely/],
+      [{ questionId: qIds[1], value: 3000, low: 3500, high: 4000 }, "low", /not be above the median estimate/],
       [{ questionId: qIds[1], value: 3000, low: 2000 }, "high", /needs a high value/],
       [{ questionId: qIds[1], value: 3000, low: 2000, high: 60000 }, "high", /between 0 and 50000/],
       [{ questionId: "no-such-question", value: 3000 }, "questionId", /no such question/],
@@ -200,7 +200,7 @@ describe("a panel run by script with an API token", () => {
     expect(res.status).toBe(200);
     const [s1, s2, s3] = res.body.questions;
     expectClose(figures(s1.values), rSummary(R1.q1), 1e-12, "round 1 Q1 vs R");
-    expectClose(figures(s2.values), rSummary(R1.q2.map((a) => a[1])), 1e-12, "round 1 Q2 most likely vs R");
+    expectClose(figures(s2.values), rSummary(R1.q2.map((a) => a[1])), 1e-12, "round 1 Q2 median estimates (P50) vs R");
     expectClose(figures(s2.lows), rSummary(R1.q2.map((a) => a[0])), 1e-12, "round 1 Q2 lows vs R");
     expectClose(figures(s2.highs), rSummary(R1.q2.map((a) => a[2])), 1e-12, "round 1 Q2 highs vs R");
     expect(s2.pooled.p10).toBeLessThan(s2.pooled.p50);

@@ -16,6 +16,10 @@
  *   (Blattberg & Hoch 1990 default; hand computation below), the panel median from R;
  * - the departure table's z of one answer equals R's (x − mean) / sd with the sd implied by
  *   R's own 80% interval, sd = (upper80 − lower80) / (2·qnorm(0.9));
+ * - records the outcome in two steps: an actual of −100 (outside the question's 0–1000 bounds) is
+ *   refused before any confirmation; 73 shows "Record 73 hundred units …" and nothing is stored
+ *   (the API's GET answers 404) until that is confirmed; the correction shows the old and new
+ *   numbers with the unit the same way;
  * - resolves the question: the scores follow actual − forecast (hand computation); the
  *   expert roster shows each person's track record (mean log ratio ln(actual/answer) and the
  *   shrunk bias factor exp(n/(n+5) · ln ratio) computed here), and the accuracy page lists the
@@ -252,11 +256,35 @@ describe("triangulation in the browser", () => {
     near(await stat(row, "z"), expected.z90, 1e-9, "z of 90 = R (x − mean)/sd");
   });
 
-  it("resolves the question; every figure is scored and the track records and accuracy history follow", async () => {
+  it("an actual value outside the question's bounds is refused before any confirmation, naming the number and the bounds", async () => {
+    await org.getByLabel(/^Actual value/).fill("-100");
+    await org.getByRole("button", { name: "Resolve", exact: true }).click();
+    const error = org.locator('[data-field="actual"]');
+    await error.waitFor({ state: "visible" });
+    expect(await error.textContent()).toContain("-100 is outside the question's bounds 0 to 1000");
+    expect(await org.locator("[data-confirm]").count()).toBe(0);
+    expect((await api("GET", `/api/v1/panels/${panelId}/questions/${questionId}/resolution`, { token })).status).toBe(404);
+  });
+
+  it("shows the number being recorded, with its unit, and saves only after it is confirmed", async () => {
     await org.getByLabel(/^Actual value/).fill(String(ACTUAL));
     await org.getByLabel("Where the value comes from").fill("Quillmoor shipping ledger");
     await org.getByRole("button", { name: "Resolve", exact: true }).click();
+    const confirm = org.locator(`[data-confirm="${ACTUAL}"]`);
+    await confirm.waitFor({ state: "visible" });
+    // The server read the field and states the value it will store, in the question's unit.
+    expect(await confirm.textContent()).toContain(`Record ${ACTUAL} hundred units as the actual value`);
+    // Nothing is saved before the confirmation.
+    expect((await api("GET", `/api/v1/panels/${panelId}/questions/${questionId}/resolution`, { token })).status).toBe(404);
+    expect(await org.locator('[data-resolved="yes"]').count()).toBe(0);
+    await confirm.getByRole("button", { name: `Yes, record ${ACTUAL} hundred units` }).click();
     await org.locator('[data-resolved="yes"]').waitFor({ state: "visible" });
+    const stored = await api("GET", `/api/v1/panels/${panelId}/questions/${questionId}/resolution`, { token });
+    expect(stored.status).toBe(200);
+    expect(stored.body.actual).toBe(ACTUAL);
+  });
+
+  it("resolves the question; every figure is scored and the track records and accuracy history follow", async () => {
     expect(await stat(org, "actual")).toBe(ACTUAL);
     // Error = actual − forecast (Hyndman & Koehler 2006 sign convention), by hand.
     const blend = 0.5 * expected.median + 0.5 * expected.mean;
@@ -289,6 +317,12 @@ describe("triangulation in the browser", () => {
     await org.getByLabel(/^Corrected actual value/).fill(String(CORRECTED));
     await org.getByLabel("Reason").fill("The ledger missed two late pallets");
     await org.getByRole("button", { name: "Correct the actual value" }).click();
+    // The correction, too, shows the old and the new number with the unit before it is saved.
+    const confirm = org.locator(`[data-confirm="${CORRECTED}"]`);
+    await confirm.waitFor({ state: "visible" });
+    expect(await confirm.textContent()).toContain(`from ${ACTUAL} hundred units to ${CORRECTED} hundred units`);
+    expect((await api("GET", `/api/v1/panels/${panelId}/questions/${questionId}/resolution`, { token })).body.actual).toBe(ACTUAL);
+    await confirm.getByRole("button", { name: `Yes, correct it to ${CORRECTED} hundred units` }).click();
     await expect.poll(() => org.locator('[data-stat="actual"]').first().getAttribute("data-value")).toBe(String(CORRECTED));
     const blend = 0.5 * expected.median + 0.5 * expected.mean;
     // The reported figures stay; only the scores move: error = corrected actual − blend.

@@ -27,6 +27,7 @@ const NAN_CALLS: Record<string, () => unknown> = {
   widenThreePoint: () => blendLib.widenThreePoint({ low: 1, mid: 2, high: 3 }, NaN),
   blendRangeScale: () => blendLib.blendRangeScale([1, NaN]),
   blendErrorCorrelation: () => blendLib.blendErrorCorrelation([{ actual: 1, panel: NaN, baseline: 1 }]),
+  weightCredibility: () => blendLib.weightCredibility(NaN),
   baselineDistribution: () => blendLib.baselineDistribution({ mean: 1, sd: NaN }),
   distributionCdf: () => blendLib.distributionCdf(N, NaN),
   distributionDensity: () => blendLib.distributionDensity(N, NaN),

@@ -1,9 +1,10 @@
 import { describe, expect, it } from "vitest";
 import { TRACKING_SIGNAL_LIMIT, accuracyHistory, scoreFigure, scoreResolution, trackingAlarm } from "../../lib/blend";
+import { trackingSignalSeries } from "../../lib/forecast/accuracy";
 import { referenceCsv } from "../stats/reference-data";
 import { runR, rVector } from "../stats/rscript";
 
-describe("accuracyHistory and the tracking signal, docs/methods.md §8 check values [COMPUTED-ONLY]", () => {
+describe("accuracyHistory and the tracking signal on relative errors, docs/methods.md §8 [COMPUTED-ONLY]", () => {
   // §8: actual 100, 105, 98, 110, 112, 115, 120; forecast 102, 100, 100, 104, 106, 108, 110.
   const actual = [100, 105, 98, 110, 112, 115, 120];
   const baseline = [102, 100, 100, 104, 106, 108, 110];
@@ -18,19 +19,59 @@ describe("accuracyHistory and the tracking signal, docs/methods.md §8 check val
     blend: blend[i],
   }));
 
-  it("baseline: TS −1, 0.8571429, 0.3333333, 1.8666667, 3.0952381, 4.2857143, 5.5263158; first beyond ±4 at period 6", () => {
+  it("baseline: TS on relative errors by hand from the §8 series; first beyond ±4 at period 6", () => {
     const h = accuracyHistory(entries);
-    const expected = [-1, 0.8571429, 0.3333333, 1.8666667, 3.0952381, 4.2857143, 5.5263158]; // §8, 7 decimals
-    h.baseline.trackingSignal.forEach((v, i) => expect(Math.abs(v - expected[i])).toBeLessThan(5e-8));
+    // §8 relative errors r = e/|a|, e = −2, 5, −2, 6, 6, 7, 10 (hand): TS_t = Σr / (Σ|r|/t).
+    const r = [-2 / 100, 5 / 105, -2 / 98, 6 / 110, 6 / 112, 7 / 115, 10 / 120];
+    const expected = r.map((_, t) => {
+      const w = r.slice(0, t + 1);
+      return w.reduce((a, b) => a + b, 0) / (w.reduce((a, b) => a + Math.abs(b), 0) / (t + 1));
+    });
+    h.baseline.trackingSignal.forEach((v, i) => expect(v).toBeCloseTo(expected[i], 12));
+    // TS_1 = −1 and TS_6 = 6·(Σr)/(Σ|r|) > 4, as with raw errors (same signs throughout).
+    expect(h.baseline.trackingSignal[0]).toBe(-1);
     expect(TRACKING_SIGNAL_LIMIT).toBe(4); // common practice (§8: no authoritative source)
     expect(h.baseline.alarm).toEqual({ firstBreach: 6, value: h.baseline.trackingSignal[5], limit: 4 });
+    expect(h.baseline.accuracy.trackingSignal).toBe(h.baseline.trackingSignal[6]);
     // §8 running MAD at period 7 is 5.4285714 = the MAE over the seven errors; ME = 30/7 (CFE 30).
     expect(h.baseline.accuracy.mae).toBeCloseTo(5.4285714, 7);
     expect(h.baseline.accuracy.me).toBeCloseTo(30 / 7, 12);
     expect(h.n).toBe(7);
   });
 
-  it("the other figures' ME, MAE, RMSE, MAPE, sMAPE and running TS agree with R", () => {
+  it("questions of different sizes: raw and relative signals of opposite sign (docs/methods.md §8, by hand)", () => {
+    // Actuals 100, 100, 10 000; figures 90, 90, 10 500: two of three figures too low by 10%, one
+    // too high by 5%. Raw errors 10, 10, −500 → TS_3 = −480/(520/3) = −2.7692308 (the large
+    // question decides the sign); relative 0.1, 0.1, −0.05 → TS_3 = 0.15/(0.25/3) = 1.8.
+    const rows = [
+      [100, 90],
+      [100, 90],
+      [10000, 10500],
+    ];
+    const h = accuracyHistory(rows.map(([a, f]) => ({ actual: a, rawPanel: f, correctedPanel: f, baseline: f, blend: f })));
+    expect(trackingSignalSeries([100, 100, 10000], [90, 90, 10500])[2]).toBeCloseTo(-480 / (520 / 3), 12);
+    expect(h.blend.trackingSignal[0]).toBeCloseTo(1, 12);
+    expect(h.blend.trackingSignal[1]).toBeCloseTo(2, 12);
+    expect(h.blend.trackingSignal[2]).toBeCloseTo(1.8, 12);
+    expect(h.blend.accuracy.trackingSignal).toBeCloseTo(1.8, 12);
+  });
+
+  it("an actual of 0 has no relative error: left out of the signal, NaN at that question (§8 policy)", () => {
+    // Errors r = 0.1, (none), −0.05 → TS = 1, NaN, 0.05/(0.15/2) = 0.6666667 (hand).
+    const h = accuracyHistory(
+      [
+        [100, 90],
+        [0, 5],
+        [1000, 1050],
+      ].map(([a, f]) => ({ actual: a, rawPanel: f, correctedPanel: f, baseline: f, blend: f })),
+    );
+    expect(h.blend.trackingSignal[0]).toBeCloseTo(1, 12);
+    expect(h.blend.trackingSignal[1]).toBeNaN();
+    expect(h.blend.trackingSignal[2]).toBeCloseTo(0.05 / 0.075, 12);
+    expect(h.blend.alarm.firstBreach).toBeNull();
+  });
+
+  it("the other figures' ME, MAE, RMSE, MAPE, sMAPE and running TS on relative errors agree with R", () => {
     const h = accuracyHistory(entries);
     for (const [name, f] of [
       ["rawPanel", rawPanel],
@@ -39,7 +80,8 @@ describe("accuracyHistory and the tracking signal, docs/methods.md §8 check val
     ] as const) {
       const [[me, mae, rmse, mape, smape], ts] = runR(`a <- ${rVector(actual)}; f <- ${rVector(f)}; e <- a - f
 out(c(mean(e), mean(abs(e)), sqrt(mean(e^2)), mean(abs(100 * e / a)), mean(200 * abs(e) / (abs(a) + abs(f)))))
-out(cumsum(e) / (cumsum(abs(e)) / seq_along(e)))`);
+r <- e / abs(a)
+out(cumsum(r) / (cumsum(abs(r)) / seq_along(r)))`);
       const acc = h[name].accuracy;
       [acc.me, acc.mae, acc.rmse, acc.mape, acc.smape].forEach((v, i) =>
         expect(Math.abs(v - [me, mae, rmse, mape, smape][i]), `${name} measure ${i}`).toBeLessThan(1e-12 * Math.max(1, Math.abs(v))),

@@ -3,12 +3,14 @@ import {
   EQUAL_PANEL_WEIGHT,
   MIN_RESOLVED_FOR_CORRELATION,
   MIN_RESOLVED_FOR_WEIGHTS,
+  WEIGHT_PRIOR_SD,
   batesGrangerWeights,
   blendWeights,
   equalWeights,
   inverseMseWeights,
   optimalWeights,
   organiserWeights,
+  weightCredibility,
   type ResolvedPair,
 } from "../../lib/blend";
 import { runR, rVector } from "../stats/rscript";
@@ -83,15 +85,15 @@ describe("inverseMseWeights (Bates & Granger 1969, ρ = 0)", () => {
     expect(w.msePanel).toBeCloseTo(3.8, 12);
     expect(w.mseBaseline).toBeCloseTo(0.7, 12);
     expect(w.rawPanel).toBeCloseTo(0.1555555556, 9);
-    // Shrunk toward equal by credibility Z = n/(n + 5) = 5/10 (Bühlmann 1967, as the bias factor):
-    // hand: 0.5·0.1555555556 + 0.5·0.5 = 0.3277777778.
-    expect(w.credibility).toBe(0.5);
-    expect(w.panel).toBeCloseTo(0.3277777778, 9);
-    expect(w.baseline).toBeCloseTo(0.6722222222, 9);
-    // Hand computation from §5a with ρ = 0 at λ = 0.6722222222: E[ε_c²] = w1²·MSE1 + w2²·MSE2.
-    expect(w.expectedMse).toBeCloseTo(0.3277777778 ** 2 * 3.8 + 0.6722222222 ** 2 * 0.7, 9);
-    // Without shrinkage (k = 0) the §5a check values themselves.
-    expect(inverseMseWeights(history, { priorStrength: 0 }).panel).toBeCloseTo(0.1555555556, 9);
+    // Shrunk toward equal (docs/methods.md §15c): Z = τ²/(τ² + 1/(4(n + 1))) with τ = 0.1, n = 5:
+    // hand: 0.01/(0.01 + 1/24) = 6/31; w = (6/31)·(7/45) + (25/31)·(1/2) = 28/930 + 375/930 = 403/930 = 13/30.
+    expect(w.credibility).toBeCloseTo(6 / 31, 14);
+    expect(w.panel).toBeCloseTo(13 / 30, 14);
+    expect(w.baseline).toBeCloseTo(17 / 30, 14);
+    // Hand computation from §5a with ρ = 0 at λ = 17/30: E[ε_c²] = w1²·MSE1 + w2²·MSE2.
+    expect(w.expectedMse).toBeCloseTo((13 / 30) ** 2 * 3.8 + (17 / 30) ** 2 * 0.7, 12);
+    // A wider prior (τ = 0.5: 1/(4τ²) = 1): Z = 6/7, w = (6/7)·(7/45) + (1/7)·(1/2) = 2/15 + 1/14 = 43/210 (hand).
+    expect(inverseMseWeights(history, { priorSd: 0.5 }).panel).toBeCloseTo(43 / 210, 14);
     expect(w.reason).toMatch(/Bates & Granger 1969/);
   });
 
@@ -108,15 +110,45 @@ describe("inverseMseWeights (Bates & Granger 1969, ρ = 0)", () => {
     expect(inverseMseWeights(history.slice(0, 3), { minResolved: 4 }).applied).toBe("equal");
   });
 
-  it("gives raw weight 1 to a figure that was exact, shrunk by Z = 3/8 (hand), and equal weights when both were", () => {
+  it("gives raw weight 1 to a figure that was exact, shrunk by Z = 4/29 (hand), and equal weights when both were", () => {
+    // n = 3: Z = 0.01/(0.01 + 1/16) = 4/29 (τ = 0.1, docs/methods.md §15c).
     const exact = inverseMseWeights(historyFromErrors([0, 0, 0], [1, -2, 1]));
     expect(exact.rawPanel).toBe(1);
-    expect(exact.panel).toBeCloseTo((3 / 8) * 1 + (5 / 8) * 0.5, 14); // hand: 0.6875
-    expect(inverseMseWeights(historyFromErrors([1, 2, 3], [0, 0, 0])).panel).toBeCloseTo((5 / 8) * 0.5, 14); // hand: 0.3125
-    expect(inverseMseWeights(historyFromErrors([0, 0, 0], [1, -2, 1]), { priorStrength: 0 }).panel).toBe(1);
+    expect(exact.panel).toBeCloseTo((4 / 29) * 1 + (25 / 29) * 0.5, 14); // hand: 33/58 = 0.5689655
+    expect(inverseMseWeights(historyFromErrors([1, 2, 3], [0, 0, 0])).panel).toBeCloseTo((25 / 29) * 0.5, 14); // hand: 25/58
+    // τ = 0.5: Z = 0.25/(0.25 + 1/16) = 4/5, w = 4/5 + 1/10 = 9/10 (hand).
+    expect(inverseMseWeights(historyFromErrors([0, 0, 0], [1, -2, 1]), { priorSd: 0.5 }).panel).toBeCloseTo(0.9, 14);
     const both = inverseMseWeights(historyFromErrors([0, 0, 0], [0, 0, 0]));
     expect(both.applied).toBe("equal");
     expect(both.panel).toBe(0.5);
+  });
+});
+
+describe("weightCredibility: precision weighting of the prior N(0.5, τ²) and the raw weight (docs/methods.md §15c)", () => {
+  it("Z = τ²/(τ² + 1/(4(n + 1))) by hand: n = 0 → 1/26, 3 → 4/29, 24 → 1/2, 99 → 100/125; τ = 0.2 and n = 3 → 16/41", () => {
+    expect(WEIGHT_PRIOR_SD).toBe(0.1); // the project's judgement (§15c), not a published value
+    expect(weightCredibility(0)).toBeCloseTo(1 / 26, 14);
+    expect(weightCredibility(3)).toBeCloseTo(4 / 29, 14);
+    expect(weightCredibility(24)).toBeCloseTo(0.5, 14);
+    expect(weightCredibility(99)).toBeCloseTo(0.8, 14);
+    expect(weightCredibility(3, 0.2)).toBeCloseTo(0.04 / (0.04 + 1 / 16), 14); // = 16/41
+  });
+
+  it("v_n = 1/(4(n + 1)) is the variance of R's Beta(n/2, n/2), the raw weight of two equally good legs", () => {
+    // Variance of Beta(a, b) = ab/((a + b)²(a + b + 1)), evaluated by R for a = b = n/2.
+    const ns = [1, 3, 10];
+    const [v] = runR(`n <- ${rVector(ns)}; a <- n/2; out(a*a/((2*a)^2*(2*a + 1)))`);
+    ns.forEach((n, i) => expect(v[i]).toBeCloseTo(1 / (4 * (n + 1)), 14));
+    // and by simulation in R: the variance of S_b/(S_p + S_b), S ~ χ²_3, within Monte Carlo error of 1/16.
+    const [[sim]] = runR(`set.seed(1); sp <- rchisq(2e5, 3); sb <- rchisq(2e5, 3); out(var(sb/(sp + sb)))`);
+    expect(Math.abs(sim - 1 / 16)).toBeLessThan(0.002);
+  });
+
+  it("policy: a negative or fractional n, or τ ≤ 0 / non-finite, throws", () => {
+    expect(() => weightCredibility(-1)).toThrow(RangeError);
+    expect(() => weightCredibility(2.5)).toThrow(RangeError);
+    expect(() => weightCredibility(3, 0)).toThrow(/priorSd/);
+    expect(() => weightCredibility(3, NaN)).toThrow(/priorSd/);
   });
 });
 
@@ -197,8 +229,8 @@ describe("equal, organiser and dispatch", () => {
     const h = historyFromErrors([2, -1, 3, -2, 1], [1, 1, -1, 0.5, -0.5]);
     expect(blendWeights({ rule: "equal" }).panel).toBe(0.5);
     expect(blendWeights({ rule: "organiser", panelWeight: 0.25 }).panel).toBe(0.25);
-    expect(blendWeights({ rule: "inverse-mse", history: h }).panel).toBeCloseTo(0.3277777778, 9); // §5a, shrunk with Z = 1/2
-    expect(blendWeights({ rule: "inverse-mse", history: h, priorStrength: 0 }).panel).toBeCloseTo(0.1555555556, 9); // §5a
+    expect(blendWeights({ rule: "inverse-mse", history: h }).panel).toBeCloseTo(13 / 30, 14); // §5a, shrunk with Z = 6/31 (hand, above)
+    expect(blendWeights({ rule: "inverse-mse", history: h, priorSd: 0.5 }).panel).toBeCloseTo(43 / 210, 14); // Z = 6/7 (hand, above)
     expect(blendWeights({ rule: "inverse-mse", history: h, minResolved: 6 }).applied).toBe("equal");
     expect(blendWeights({ rule: "optimal", history: h }).applied).toBe("optimal");
     expect(() => blendWeights({ rule: "median" } as never)).toThrow(/unknown rule/);

@@ -10,6 +10,7 @@ import {
   symmetricMape,
   trackingSignal,
   trackingSignalSeries,
+  relativeTrackingSignalSeries,
 } from "../../lib/forecast/accuracy";
 import { referenceCsv } from "../stats/reference-data";
 import { expectClose, runR, rVector } from "../stats/rscript";
@@ -90,6 +91,22 @@ describe("tracking signal: docs/methods.md §8 check values [COMPUTED-ONLY; defi
   });
   it("is NaN while every error so far is zero (errors 0, 0, 1: CFE 1 / MAD 1/3 = 3)", () => {
     expect(trackingSignalSeries([1, 2, 3], [1, 2, 2])).toEqual([NaN, NaN, 3]);
+  });
+  it("on relative errors it can differ in sign from raw errors (docs/methods.md §8, hand computation)", () => {
+    // Actuals 100, 100, 10 000; forecasts 90, 90, 10 500. Raw errors 10, 10, −500:
+    // TS_3 = −480 / (520/3) = −2.7692308. Relative errors 0.1, 0.1, −0.05: TS_3 = 0.15 / (0.25/3) = 1.8.
+    const a = [100, 100, 10000];
+    const f = [90, 90, 10500];
+    expect(trackingSignalSeries(a, f)[2]).toBeCloseTo(-480 / (520 / 3), 12);
+    const rel = relativeTrackingSignalSeries(a, f);
+    expect(rel[0]).toBeCloseTo(1, 12);
+    expect(rel[1]).toBeCloseTo(2, 12);
+    expect(rel[2]).toBeCloseTo(1.8, 12);
+    // An actual of 0 has no relative error: NaN there, left out of the sums (0.1, —, −0.05 → 0.05/0.075).
+    const z = relativeTrackingSignalSeries([100, 0, 1000], [90, 5, 1050]);
+    expect(z[1]).toBeNaN();
+    expect(z[2]).toBeCloseTo(0.05 / 0.075, 12);
+    expect(() => relativeTrackingSignalSeries([1], [NaN])).toThrow(RangeError);
   });
 });
 

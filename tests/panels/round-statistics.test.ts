@@ -32,7 +32,7 @@ describe("computeQuestionStatistics", () => {
     expect(s.sumOfParts).toBeNull();
   });
 
-  it("three-point: most likely, lows and highs each equal R's; pooled is the opinion pool", () => {
+  it("three-point: median estimates (P50), lows and highs each equal R's; pooled is the opinion pool", () => {
     const ans: FinalAnswer[] = [
       { pseudonym: "A", value: 12000, low: 9000, high: 18000 },
       { pseudonym: "B", value: 14000, low: 10000, high: 16000 },
@@ -41,10 +41,10 @@ describe("computeQuestionStatistics", () => {
       { pseudonym: "E", value: 10500, low: 8000, high: 14000 },
     ];
     const s = computeQuestionStatistics({ id: "q", answerFormat: "three-point", aggregation: "shared" }, 2, ans);
-    expectClose(asArray(s.values), rSummary(ans.map((a) => a.value)), 1e-12, "most likely vs R");
+    expectClose(asArray(s.values), rSummary(ans.map((a) => a.value)), 1e-12, "median estimates vs R");
     expectClose(asArray(s.lows), rSummary(ans.map((a) => a.low!)), 1e-12, "lows vs R");
     expectClose(asArray(s.highs), rSummary(ans.map((a) => a.high!)), 1e-12, "highs vs R");
-    expect(s.pooled).toEqual(poolThreePoint(ans.map((a) => ({ low: a.low!, mostLikely: a.value, high: a.high! }))));
+    expect(s.pooled).toEqual(poolThreePoint(ans.map((a) => ({ low: a.low!, median: a.value, high: a.high! }))));
   });
 
   it("sum of parts: the total is R's sum() and each share its value over the total", () => {

@@ -99,6 +99,17 @@ describe("computeTriangulation: shared quantity, single values, equal weights", 
     for (const iv of t.blend!.intervals) expect(iv.lower <= t.blend!.figure && t.blend!.figure <= iv.upper).toBe(true);
   });
 
+  it("says how each range was made: the panel's from the track record with the stated prior (docs/methods.md §15a: 0.25 worth 3), the blend's from one normal", () => {
+    // §15a's prior: scale s0 = 0.25 worth ν0 = 3 questions; 4 resolved questions → 3 + 4 = 7 degrees of freedom.
+    expect(t.panel!.rangeHow).toMatch(/from the track record, not from the spread of the answers/);
+    expect(t.panel!.rangeHow).toContain("4 resolved questions pooled with a prior scale of 0.25 worth 3 questions");
+    expect(t.panel!.rangeHow).toContain("on 7 degrees of freedom");
+    // The blend: one normal with the Bates–Granger sd, the number the range is read from, and the prior ρ = 0.5 (§15e).
+    expect(t.blendRangeHow).toContain(`= ${t.blend!.distribution.sd.toPrecision(4)} `);
+    expect(t.blendRangeHow).toContain("the stated prior 0.5");
+    expect(t.blendRangeHow).toMatch(/not the mixture/);
+  });
+
   it("departures of every answer in every round: z, percentile and flags from one normal (R pnorm/qnorm)", () => {
     const d = t.departures!;
     expect(d.answers.map((a) => [a.round, a.value])).toEqual([...ROUND1.map((v) => [1, v]), ...ROUND2.map((v) => [2, v])]);
@@ -322,6 +333,8 @@ describe("three-point answers: the panel range is the linear pool of two-piece n
       out(sapply(c(0.1, 0.9, 0.025, 0.975), function(p) uniroot(function(x) F(x) - p, c(0, 300), tol = 1e-12)$root))
     `);
     expect(t.panel!.rule).toBe("three-point pool");
+    expect(t.panel!.rangeHow).toMatch(/linear pool \(Stone 1961\) of the three-point answers/);
+    expect(t.blendRangeHow).toBeNull(); // no baseline, no blend
     expect(t.panel!.raw.figure).toBe(100); // median of 100, 120, 95
     expectClose(t.panel!.raw.intervals.flatMap((i) => [i.lower, i.upper]), q, 1e-9, "pooled range");
   });
@@ -357,7 +370,7 @@ describe("three-point ranges rescaled by each panelist's interval hit rate", () 
 });
 
 describe("inverse-MSE weights from the organiser's resolved history (relative errors)", () => {
-  it("raw w_panel = MSE_b / (MSE_p + MSE_b) = 17/23 (Bates & Granger 1969, ρ = 0), shrunk toward 0.5 with Z = 3/8", () => {
+  it("raw w_panel = MSE_b / (MSE_p + MSE_b) = 17/23 (Bates & Granger 1969, ρ = 0), shrunk toward 0.5 with Z = 4/29", () => {
     const h = historyOf([
       resolved(100, [], { correctedPanel: 110, rawPanel: 112, baseline: 90, blend: 100 }),
       resolved(200, [], { correctedPanel: 190, rawPanel: 185, baseline: 230, blend: 210 }),
@@ -370,8 +383,8 @@ describe("inverse-MSE weights from the organiser's resolved history (relative er
     const t = computeTriangulation(sharedInput({ weight: { rule: "inverse-mse", history: h.pairs } }));
     expect(t.weights!.applied).toBe("inverse-mse");
     expect(t.weights!.rawPanel).toBeCloseTo(17 / 23, 12);
-    // Hand: Z = n/(n + 5) = 3/8 (Bühlmann-style credibility, as the bias factor); w = Z·17/23 + (1 − Z)·0.5.
-    const w = (3 / 8) * (17 / 23) + (5 / 8) * 0.5;
+    // Hand (docs/methods.md §15c): Z = τ²/(τ² + 1/(4(n + 1))) = 0.01/(0.01 + 1/16) = 4/29; w = Z·17/23 + (1 − Z)·0.5.
+    const w = (4 / 29) * (17 / 23) + (25 / 29) * 0.5;
     expect(t.weights!.panel).toBeCloseTo(w, 12);
     expect(t.blend!.figure).toBeCloseTo(w * 150 + (1 - w) * 140, 9);
     expect(h.entries.map((e) => e.blend)).toEqual([100, 210, 390]);

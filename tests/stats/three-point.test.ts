@@ -9,11 +9,11 @@ import { poolThreePoint, threePointCdf, Z90, type ThreePoint } from "../../lib/s
 import { expectClose, runR, rVector } from "./rscript";
 
 const answers: readonly ThreePoint[] = Object.freeze([
-  { low: 9000, mostLikely: 12000, high: 18000 },
-  { low: 10000, mostLikely: 14000, high: 16000 },
-  { low: 6000, mostLikely: 11000, high: 20000 },
-  { low: 12000, mostLikely: 15000, high: 19000 },
-  { low: 8000, mostLikely: 10500, high: 14000 },
+  { low: 9000, median: 12000, high: 18000 },
+  { low: 10000, median: 14000, high: 16000 },
+  { low: 6000, median: 11000, high: 20000 },
+  { low: 12000, median: 15000, high: 19000 },
+  { low: 8000, median: 10500, high: 14000 },
 ]);
 
 describe("Z90", () => {
@@ -26,21 +26,21 @@ describe("threePointCdf", () => {
   it("passes through the three stated percentiles (by construction: Φ(−z₀.₉) = 0.1, Φ(0) = 0.5, Φ(z₀.₉) = 0.9)", () => {
     const a = answers[0];
     expect(threePointCdf(a, a.low)).toBeCloseTo(0.1, 12);
-    expect(threePointCdf(a, a.mostLikely)).toBe(0.5);
+    expect(threePointCdf(a, a.median)).toBe(0.5);
     expect(threePointCdf(a, a.high)).toBeCloseTo(0.9, 12);
   });
 });
 
 describe("poolThreePoint", () => {
   it("of one answer returns its own P10 / P50 / P90 (hand: the pool of one distribution is that distribution)", () => {
-    const p = poolThreePoint([{ low: 80, mostLikely: 100, high: 150 }]);
+    const p = poolThreePoint([{ low: 80, median: 100, high: 150 }]);
     expect(p.p10).toBeCloseTo(80, 6);
     expect(p.p50).toBeCloseTo(100, 6);
     expect(p.p90).toBeCloseTo(150, 6);
   });
 
   it("of one symmetric answer is the normal with sd = (high − mid) / z₀.₉ (hand derivation)", () => {
-    const p = poolThreePoint([{ low: 80, mostLikely: 100, high: 120 }]);
+    const p = poolThreePoint([{ low: 80, median: 100, high: 120 }]);
     expect(p.mean).toBeCloseTo(100, 10);
     expect(p.sd).toBeCloseTo(20 / 1.2815515655446004, 9);
     // quartiles of N(100, sd): 100 ± qnorm(0.75)·sd = 100 ± 0.6744897501960817·15.60608 (R qnorm)
@@ -49,7 +49,7 @@ describe("poolThreePoint", () => {
 
   it("matches R's mixture quantiles (uniroot) and moments (integrate) for five answers", () => {
     const L = answers.map((a) => a.low);
-    const M = answers.map((a) => a.mostLikely);
+    const M = answers.map((a) => a.median);
     const H = answers.map((a) => a.high);
     const [quantiles, moments] = runR(`
       L <- ${rVector(L)}; M <- ${rVector(M)}; H <- ${rVector(H)}
@@ -73,9 +73,9 @@ describe("poolThreePoint", () => {
     expectClose([p.mean, p.sd], moments, 1e-7, "pooled mean and sd vs R integrate");
   });
 
-  it("handles a degenerate side (low = most likely): half the mass sits on the most likely value", () => {
+  it("handles a degenerate side (low = median): half the mass sits on the median", () => {
     // Hand: F(x) = 0 below 50, 0.5 at 50, so the pool of this answer alone has P10 = P50 = 50.
-    const p = poolThreePoint([{ low: 50, mostLikely: 50, high: 70 }]);
+    const p = poolThreePoint([{ low: 50, median: 50, high: 70 }]);
     expect(p.p10).toBeCloseTo(50, 8);
     expect(p.p50).toBeCloseTo(50, 8);
     expect(p.p90).toBeCloseTo(70, 6);
@@ -83,7 +83,7 @@ describe("poolThreePoint", () => {
 
   it("rejects empty input and answers out of order (RangeError)", () => {
     expect(() => poolThreePoint([])).toThrow(RangeError);
-    expect(() => poolThreePoint([{ low: 5, mostLikely: 4, high: 6 }])).toThrow(/low ≤ most likely ≤ high/);
-    expect(() => poolThreePoint([{ low: 1, mostLikely: Number.NaN, high: 6 }])).toThrow(RangeError);
+    expect(() => poolThreePoint([{ low: 5, median: 4, high: 6 }])).toThrow(/low ≤ median ≤ high/);
+    expect(() => poolThreePoint([{ low: 1, median: Number.NaN, high: 6 }])).toThrow(RangeError);
   });
 });

@@ -71,7 +71,7 @@ export default async function PanelistPage({ params }: { params: Promise<{ token
                 <strong>
                   {three && q.answer.low !== null && q.answer.high !== null ? (
                     <>
-                      low <Figure value={q.answer.low} />, most likely <Figure value={q.answer.value} />, high{" "}
+                      low <Figure value={q.answer.low} />, median <Figure value={q.answer.value} />, high{" "}
                       <Figure value={q.answer.high} />
                     </>
                   ) : (
@@ -103,7 +103,7 @@ export default async function PanelistPage({ params }: { params: Promise<{ token
                       <FieldError name="low" />
                     </label>
                     <label>
-                      Most likely (50th percentile)
+                      Median estimate (50th percentile) <span className="hint">As likely to be lower as higher.</span>
                       <input name="value" inputMode="decimal" defaultValue={q.answer?.value ?? ""} />
                       <FieldError name="value" />
                     </label>

@@ -201,7 +201,7 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
                 {formatNumber(q.lowerBound, 8)} to {formatNumber(q.upperBound, 8)} {q.unit}
               </dd>
               <dt>Answer format</dt>
-              <dd>{q.answerFormat === "single" ? "single value" : "low / most likely / high (P10 / P50 / P90)"}</dd>
+              <dd>{q.answerFormat === "single" ? "single value" : "low / median / high (P10 / P50 / P90)"}</dd>
               <dt>Aggregation</dt>
               <dd>{q.aggregation === "shared" ? "shared quantity (median)" : "sum of parts (total)"}</dd>
             </dl>

@@ -6,7 +6,7 @@
  */
 import { revalidatePath } from "next/cache";
 import { attachBaseline, previewBaseline, type BaselineView } from "@/lib/panels/baselines";
-import { correctResolution, resolveQuestion } from "@/lib/panels/resolution";
+import { correctResolution, previewResolution, resolveQuestion, type ResolutionPreview } from "@/lib/panels/resolution";
 import { setQuestionBlendRule } from "@/lib/panels/triangulation";
 import { getCurrentUser } from "@/lib/session";
 import { params } from "@/lib/validation/inputs";
@@ -18,6 +18,7 @@ import { baselineFormValues } from "@/lib/ui/baseline-form-values";
 import { launchPreview } from "@/lib/ui/launch-table";
 import { NOT_SIGNED_IN, signedInAction } from "@/lib/ui/signed-in-action";
 import { textProblems } from "@/lib/ui/action-guard";
+import { formatExact } from "@/lib/ui/format";
 
 
 function revalidate(panelId: string, questionId: string): void {
@@ -87,20 +88,47 @@ export async function blendRuleAction(_p: FormState, formData: FormData): Promis
   }, [questionBlendRuleInput, input]);
 }
 
+/**
+ * The first submission of an actual value only checks it (as saving would) and shows the number
+ * as it will be stored, with its unit; the form's confirm button sends it back as
+ * `confirmActual`, and only a submission whose actual equals it is saved.
+ */
+function confirmStep(p: ResolutionPreview): FormState {
+  const v = `${formatExact(p.actual)} ${p.unit}`;
+  const correcting = p.recorded !== null;
+  return {
+    confirm: {
+      field: "confirmActual",
+      value: String(p.actual),
+      text: correcting
+        ? `Correct the recorded actual value from ${formatExact(p.recorded!)} ${p.unit} to ${v}? The correction and your reason are logged.`
+        : `Record ${v} as the actual value of “${p.text}”? Every figure is scored against it; a later correction is logged.`,
+      submitLabel: correcting ? `Yes, correct it to ${v}` : `Yes, record ${v}`,
+    },
+  };
+}
+
+/** True when the form carries the confirmation of exactly this value. */
+function confirmed(values: Record<string, string>, actual: number): boolean {
+  return values.confirmActual !== undefined && values.confirmActual !== "" && Number(values.confirmActual) === actual;
+}
+
 export async function resolveAction(_p: FormState, formData: FormData): Promise<FormState> {
   const values = formObject(formData);
   return signedInAction(values, params.question, async (user, id, input) => {
+    if (!confirmed(values, input.actual)) return confirmStep(await previewResolution(user, id.panelId, id.questionId, input, "resolve"));
     const r = await resolveQuestion(user, id.panelId, id.questionId, input);
     revalidateScored(id.panelId, id.questionId);
-    return { ok: true, message: `Resolved with the actual value ${r.actual}; every figure is scored below.` };
+    return { ok: true, message: `Resolved with the actual value ${formatExact(r.actual)}; every figure is scored below.` };
   }, [resolutionInput, withNumbers({ actual: values.actual ?? "", note: values.note ?? "" }, ["actual"])]);
 }
 
 export async function correctResolutionAction(_p: FormState, formData: FormData): Promise<FormState> {
   const values = formObject(formData);
   return signedInAction(values, params.question, async (user, id, input) => {
+    if (!confirmed(values, input.actual)) return confirmStep(await previewResolution(user, id.panelId, id.questionId, input, "correct"));
     const r = await correctResolution(user, id.panelId, id.questionId, input);
     revalidateScored(id.panelId, id.questionId);
-    return { ok: true, message: `Actual value corrected to ${r.actual}; the correction and its reason are in the audit log.` };
+    return { ok: true, message: `Actual value corrected to ${formatExact(r.actual)}; the correction and its reason are in the audit log.` };
   }, [resolutionCorrection, withNumbers({ actual: values.actual ?? "", reason: values.reason ?? "" }, ["actual"])]);
 }

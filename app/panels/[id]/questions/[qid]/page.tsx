@@ -170,7 +170,7 @@ export default async function QuestionPage({ params }: { params: Promise<{ id: s
             <p className="hint">
               A correction rescores the figures as they were reported; the old value, the new one and your reason are kept in the audit log.
             </p>
-            <ActionForm action={correctResolutionAction} submitLabel="Correct the actual value" ariaLabel="Correct the actual value" confirm="Correct the recorded actual value? The correction is logged.">
+            <ActionForm action={correctResolutionAction} submitLabel="Correct the actual value" ariaLabel="Correct the actual value">
               <input type="hidden" name="panelId" value={id} />
               <input type="hidden" name="questionId" value={qid} />
               <div className="row">
@@ -204,9 +204,10 @@ export default async function QuestionPage({ params }: { params: Promise<{ id: s
           <>
             <p className="hint">
               When the outcome is known, record it. Every figure (raw panel, corrected panel, baseline, blend and each panelist&apos;s final answer) is scored,
-              and the track records behind bias factors and inverse-MSE weights include it from then on.
+              and the track records behind bias factors and inverse-MSE weights include it from then on. You will see the number as it will be recorded, with
+              its unit, and confirm it before anything is saved.
             </p>
-            <ActionForm action={resolveAction} submitLabel="Resolve" ariaLabel="Resolve the question" confirm="Record this actual value? Corrections later are logged.">
+            <ActionForm action={resolveAction} submitLabel="Resolve" ariaLabel="Resolve the question">
               <input type="hidden" name="panelId" value={id} />
               <input type="hidden" name="questionId" value={qid} />
               <div className="row">

@@ -85,7 +85,7 @@ export default async function QuestionReportPage({ params }: { params: Promise<{
         ) : (
           <>
             <RoundsChart rounds={c.rounds} unit={q.unit} sum={q.aggregation === "sum-of-parts"} />
-            <RoundStatsTable rounds={c.rounds} sum={q.aggregation === "sum-of-parts"} />
+            <RoundStatsTable rounds={c.rounds} aggregation={q.aggregation} />
             {c.recommendation ? (
               <p className="small">
                 After the latest round the stopping rules {c.recommendation === "stop" ? "suggested the panel could stop" : "suggested another round"}.{" "}
