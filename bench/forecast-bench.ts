@@ -314,5 +314,5 @@ function main() {
 
 if (process.argv[2] === "coverage") {
   const { runCoverage } = await import("./m3-coverage");
-  runCoverage(process.argv.slice(3));
+  await runCoverage(process.argv.slice(3));
 } else main();
