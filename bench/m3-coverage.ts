@@ -14,7 +14,8 @@
  *
  * The series are spread over worker threads (node:worker_threads; default: one per core, at
  * most 2 — this machine's cores), each taking the next series when it is done with one; the
- * time printed is the wall time of the whole run after the workers have loaded the code.
+ * time printed is the wall time of the whole run after the workers have loaded the code, with
+ * the CPU time of all threads beside it.
  *
  * `--every K` keeps every K-th series (a quick look while working; report full runs).
  * The data file defaults to $TRIANGULATE_M3 or ../shared/benchmark-data/m3.jsonl.
@@ -53,7 +54,7 @@ function startWorker(): Promise<Worker> {
 }
 
 /** Scores every series on `threads` workers, each taking the next series when free. */
-async function scoreAll(series: readonly M3Series[], method: string, threads: number): Promise<{ scores: SeriesScore[]; seconds: number }> {
+async function scoreAll(series: readonly M3Series[], method: string, threads: number): Promise<{ scores: SeriesScore[]; seconds: number; cpuSeconds: number }> {
   const workers = await Promise.all(Array.from({ length: Math.min(threads, series.length) }, startWorker));
   // Warm-up: one small series per worker, so that module loading is not counted in the time.
   await Promise.all(workers.map((w) => new Promise((resolve) => {
@@ -63,6 +64,7 @@ async function scoreAll(series: readonly M3Series[], method: string, threads: nu
   const scores: SeriesScore[] = new Array(series.length);
   let next = 0;
   const t0 = performance.now();
+  const c0 = process.cpuUsage();
   await Promise.all(
     workers.map(
       (w) =>
@@ -82,8 +84,9 @@ async function scoreAll(series: readonly M3Series[], method: string, threads: nu
     ),
   );
   const seconds = (performance.now() - t0) / 1000;
+  const cpu = process.cpuUsage(c0);
   await Promise.all(workers.map((w) => w.terminate()));
-  return { scores, seconds };
+  return { scores, seconds, cpuSeconds: (cpu.user + cpu.system) / 1e6 };
 }
 
 export async function runCoverage(args: string[]): Promise<void> {
@@ -106,7 +109,7 @@ export async function runCoverage(args: string[]): Promise<void> {
     .filter((l) => l.trim() !== "")
     .map((l) => JSON.parse(l));
   const series = all.filter((s, i) => i % every === 0 && (!values.period || s.period === values.period));
-  const { scores, seconds } = await scoreAll(series, method, threads);
+  const { scores, seconds, cpuSeconds } = await scoreAll(series, method, threads);
 
   const tallies = new Map<string, Tally>();
   const chosen = new Map<string, number>();
@@ -160,5 +163,5 @@ export async function runCoverage(args: string[]): Promise<void> {
   console.log(`goal: 80% interval covers 77–83%, 95% covers 92–97% of held-out points; Theta = the competition's submitted forecasts`);
   console.log(`points whose forecast lies outside its own 80% or 95% interval: ${total.incoherent}`);
   console.log(`methods: ${[...chosen.entries()].sort((a, b) => b[1] - a[1]).map(([k, v]) => `${k} ${v}`).join(", ")}`);
-  console.log(`time: ${seconds.toFixed(1)} s wall on ${threads} worker thread${threads === 1 ? "" : "s"} (code loaded before timing); load average ${loadavg().map((v) => v.toFixed(2)).join(", ")}`);
+  console.log(`time: ${seconds.toFixed(1)} s wall on ${threads} worker thread${threads === 1 ? "" : "s"} (code loaded before timing); CPU ${cpuSeconds.toFixed(1)} s over all threads (process.cpuUsage; less disturbed by other processes than the wall time); load average ${loadavg().map((v) => v.toFixed(2)).join(", ")}`);
 }

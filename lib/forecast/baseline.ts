@@ -29,9 +29,9 @@ export const NOT_AUTOMATIC: Readonly<Partial<Record<MethodId, string>>> = {
 };
 
 /**
- * Members of the automatic combination (docs/methods.md §10): ETS chosen by AICc and the Theta
+ * Members of the automatic combination (docs/methods.md §19): ETS chosen by AICc and the Theta
  * method, equal weights. On all of M3 (bench/m3-coverage.ts) their combination beat each of them
- * and every other pair or triple tried with the damped trend.
+ * and the triple with the damped trend on seasonally adjusted data.
  */
 export const COMBINATION_MEMBERS: readonly MethodId[] = ["ets", "theta"];
 
@@ -114,7 +114,10 @@ export interface BaselineResult {
   /** One-step in-sample fitted values, aligned with the prepared series (null where none). */
   readonly fitted: readonly (number | null)[];
   readonly accuracy: { readonly insample: InsampleAccuracy };
-  /** Every candidate's rolling-origin MASE (automatic selection only), best first. */
+  /**
+   * Every candidate's rolling-origin MASE (rolling-origin selection only), best first; empty for
+   * the default combination, which scores no candidates.
+   */
   readonly candidates?: readonly CandidateResult[];
   /** Members of a combination with their own parameters (only when method is "combination"). */
   readonly combination?: readonly { readonly method: MethodId; readonly parameters: Record<string, number | null> }[];
@@ -424,6 +427,7 @@ function combination(s: PreparedSeries, levels: readonly number[], total: boolea
       forecast: steps(fc, levels),
       fitted: fit.fitted.map(finite),
       accuracy: { insample: insample(s, fit.fitted) },
+      candidates: [],
       ...(total ? { total: totalOf([{ method, fit }], s, levels) } : {}),
       notes: [...notes, ...fit.notes],
     };
@@ -464,6 +468,8 @@ function combination(s: PreparedSeries, levels: readonly number[], total: boolea
     forecast: steps({ method: fits[0].method.id, mean: c.mean, levels, lower: c.lower, upper: c.upper, sd: c.mean.map(() => NaN) }, levels),
     fitted: fitted.map(finite),
     accuracy: { insample: insample(s, fitted) },
+    // No rolling-origin scores: the key stays (the CLI's JSON shape), empty.
+    candidates: [],
     combination: fits.map((f) => ({ method: f.method.id, parameters: params(f.fit) })),
     ...(totalResult ? { total: totalResult } : {}),
     notes: [...notes, ...fits.flatMap((f) => f.fit.notes.map((t) => `${f.method.id}: ${t}`))],

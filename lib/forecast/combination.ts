@@ -1,5 +1,5 @@
 /**
- * The automatic baseline's combination (docs/methods.md §10): the equal-weight mean of ETS
+ * The automatic baseline's combination (docs/methods.md §19): the equal-weight mean of ETS
  * chosen by AICc and the Theta method, with intervals that are the wider of (a) the members'
  * bounds averaged quantile by quantile and (b) empirical bounds from the combination's own
  * multi-step errors on the history. Pure TypeScript.

@@ -1,5 +1,5 @@
 /**
- * The automatic baseline's combination (lib/forecast/combination.ts, docs/methods.md §10).
+ * The automatic baseline's combination (lib/forecast/combination.ts, docs/methods.md §19).
  * Outside references: R's forecast package run live (ets(), thetaf(), ses()), and an
  * independent R implementation of the documented interval rule.
  */
@@ -45,7 +45,7 @@ describe("auto: the equal-weight combination of ETS (AICc) and Theta", () => {
   }
 
   it("keeps the point forecast inside its own 80% and 95% intervals and gives a total (UKgas, h = 8)", () => {
-    // Coherence rule (docs/methods.md §10): mean inside both ranges, 95% containing 80%; the
+    // Coherence rule (docs/methods.md §19): mean inside both ranges, 95% containing 80%; the
     // total's mean is the sum of the step means (both are linear in the members' means).
     const y = rEval("out('y', UKgas)").y;
     const res = baseline(y, { season: 4, horizon: 8, total: true });
@@ -67,7 +67,7 @@ describe("auto: the equal-weight combination of ETS (AICc) and Theta", () => {
 /**
  * Two members whose in-sample forecasts from every origin R gives directly: SES with α fixed
  * and ℓ0 = y1 (R's ses(initial = "simple")), so that the forecast from origin t is
- * ses(y[1:t])'s. The expected bounds are computed in R from the rule in docs/methods.md §10,
+ * ses(y[1:t])'s. The expected bounds are computed in R from the rule in docs/methods.md §19,
  * written independently of lib/forecast/combination.ts.
  */
 function sesPairInR(values: string, h: number) {
