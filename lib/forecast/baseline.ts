@@ -53,7 +53,8 @@ export interface BaselineOptions {
   /**
    * What "auto" does: "combination" (default) = the equal-weight combination of
    * {@link COMBINATION_MEMBERS}; "best" / "combine" = rolling-origin selection among `methods`
-   * (lib/forecast/select.ts), also used when `methods` is given without a strategy.
+   * (lib/forecast/select.ts), also used when `methods` is given without a strategy (with
+   * "combination" and `methods`, the members are taken from `methods`).
    */
   readonly strategy?: "combination" | "best" | "combine";
   /** Selection settings for the rolling-origin strategies (number of origins, their spacing, combination). */
@@ -243,7 +244,7 @@ export function baseline(input: RawSeries | readonly (number | null)[], options:
 
   const strategy = options.strategy ?? (options.methods ? "best" : "combination");
   if (strategy === "combination" && !s.constant) {
-    const combined = combination(s, levels, options.total === true);
+    const combined = combination(s, levels, options.total === true, options.methods ?? METHODS);
     if (combined) return { ...combined, notes: [...notes, ...combined.notes] };
     notes.push("no member of the combination could be fitted: rolling-origin selection used instead");
   }
@@ -395,11 +396,20 @@ export function baseline(input: RawSeries | readonly (number | null)[], options:
  * the quantile average and the empirical bounds from the history). One member alone is returned
  * as itself; none gives null (the caller falls back to selection).
  */
-function combination(s: PreparedSeries, levels: readonly number[], total: boolean): Omit<BaselineResult, "notes"> & { notes: string[] } | null {
+function combination(
+  s: PreparedSeries,
+  levels: readonly number[],
+  total: boolean,
+  available: readonly Method[],
+): (Omit<BaselineResult, "notes"> & { notes: string[] }) | null {
   const notes: string[] = [];
   const fits: { method: Method; fit: Fit; fc: Forecast }[] = [];
   for (const id of COMBINATION_MEMBERS) {
-    const method = METHODS.find((m) => m.id === id)!;
+    const method = available.find((m) => m.id === id);
+    if (!method?.originForecasts) {
+      notes.push(`${id} left out of the combination: not among the methods given`);
+      continue;
+    }
     const problem = methodProblem(method, s);
     if (problem) {
       notes.push(`${id} left out of the combination: ${problem}`);

@@ -67,8 +67,9 @@ describe("auto: the equal-weight combination of ETS (AICc) and Theta", () => {
 /**
  * Two members whose in-sample forecasts from every origin R gives directly: SES with α fixed
  * and ℓ0 = y1 (R's ses(initial = "simple")), so that the forecast from origin t is
- * ses(y[1:t])'s. The expected bounds are computed in R from the rule in docs/methods.md §19,
- * written independently of lib/forecast/combination.ts.
+ * ses(y[1:t])'s. The expected bounds are computed in R from the rule in docs/methods.md §19
+ * (Student t quantiles from R's qt() with as many degrees of freedom as errors), written
+ * independently of lib/forecast/combination.ts.
  */
 function sesPairInR(values: string, h: number) {
   return rEval(`y <- ${values}; n <- length(y); h <- ${h}; al <- c(0.3, 0.8)
@@ -78,11 +79,11 @@ function sesPairInR(values: string, h: number) {
     orig <- lapply(org, function(o) rbind(rep(y[1], h), o[1:(n - 1), , drop = FALSE]))
     mu <- (fc[[1]]$mean + fc[[2]]$mean) / 2
     sd <- ((fc[[1]]$upper[, 2] - fc[[1]]$mean) + (fc[[2]]$upper[, 2] - fc[[2]]$mean)) / 2 / qnorm(0.975)
-    t0 <- max(2, ceiling(n / 3)); s <- rep(NA, h)
+    t0 <- max(2, ceiling(n / 3)); s <- rep(NA, h); cnt <- rep(0, h)
     for (j in 1:h) { e <- c(); for (t in t0:(n - 1)) if (t + j <= n) { f <- (orig[[1]][t + 1, j] + orig[[2]][t + 1, j]) / 2; e <- c(e, (y[t + j] - f) / f) }
-      if (length(e) >= 3) s[j] <- sqrt(mean(e^2)) }
-    last <- max(which(!is.na(s))); for (j in 1:h) if (j > last) s[j] <- s[last] * sd[j] / sd[last]
-    for (k in 1:2) { z <- qnorm(c(0.9, 0.975)[k])
+      cnt[j] <- length(e); if (length(e) >= 3) s[j] <- sqrt(mean(e^2)) }
+    last <- max(which(!is.na(s))); for (j in 1:h) if (j > last) { s[j] <- s[last] * sd[j] / sd[last]; cnt[j] <- cnt[last] }
+    for (k in 1:2) { z <- qt(c(0.9, 0.975)[k], df = cnt)
       lo <- pmin((fc[[1]]$lower[, k] + fc[[2]]$lower[, k]) / 2, mu - z * s * abs(mu))
       hi <- pmax((fc[[1]]$upper[, k] + fc[[2]]$upper[, k]) / 2, mu + z * s * abs(mu))
       out(paste0("lo", k), lo); out(paste0("hi", k), hi) }
