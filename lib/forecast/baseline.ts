@@ -421,8 +421,8 @@ function combination(
       if (fc.mean.some((v) => !Number.isFinite(v))) throw new Error("non-finite forecast");
       fits.push({ method, fit, fc });
     } catch (e) {
-      if (!(e instanceof ForecastInputError) && !(e instanceof RangeError) && !(e instanceof Error && e.message === "non-finite forecast")) throw e;
-      notes.push(`${id} left out of the combination (${e.message})`);
+      // As in selection: a member that fails never stops the baseline (no input may cause a 5xx).
+      notes.push(`${id} left out of the combination (${e instanceof Error ? e.message : String(e)})`);
     }
   }
   if (fits.length === 0) return null;
