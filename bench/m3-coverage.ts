@@ -1,5 +1,5 @@
 /**
- * `npm run bench -- coverage [--data FILE] [--every K] [--method M] [--period P] [--threads N]`:
+ * `npm run bench -- coverage [--data FILE] [--every K] [--method M] [--period P] [--threads N] [--total]`:
  * accuracy and calibration of the automatic baseline on the M3 competition (Makridakis & Hibon
  * 2000, 3,003 series, as distributed by the R package Mcomp; one JSON object per line with id,
  * period, frequency, h, train and test).
@@ -17,6 +17,8 @@
  * time printed is the wall time of the whole run after the workers have loaded the code, with
  * the CPU time of all threads beside it.
  *
+ * `--total` also asks for the total over the horizon (docs/methods.md §10, §19) and reports how
+ * often the held-out sum lies inside its 80% and 95% intervals.
  * `--every K` keeps every K-th series (a quick look while working; report full runs).
  * The data file defaults to $TRIANGULATE_M3 or ../shared/benchmark-data/m3.jsonl.
  */
@@ -40,9 +42,12 @@ interface Tally {
   thetaSmape: number;
   thetaMase: number;
   thetaCount: number;
+  totals: number;
+  total80: number;
+  total95: number;
 }
 
-const empty = (): Tally => ({ series: 0, smape: 0, mase: 0, maseCount: 0, points: 0, in80: 0, in95: 0, failures: 0, incoherent: 0, thetaSmape: 0, thetaMase: 0, thetaCount: 0 });
+const empty = (): Tally => ({ series: 0, smape: 0, mase: 0, maseCount: 0, points: 0, in80: 0, in95: 0, failures: 0, incoherent: 0, thetaSmape: 0, thetaMase: 0, thetaCount: 0, totals: 0, total80: 0, total95: 0 });
 
 /** Starts a worker and resolves when it is ready (its module graph loaded). */
 function startWorker(): Promise<Worker> {
@@ -54,12 +59,12 @@ function startWorker(): Promise<Worker> {
 }
 
 /** Scores every series on `threads` workers, each taking the next series when free. */
-async function scoreAll(series: readonly M3Series[], method: string, threads: number): Promise<{ scores: SeriesScore[]; seconds: number; cpuSeconds: number }> {
+async function scoreAll(series: readonly M3Series[], method: string, threads: number, total: boolean): Promise<{ scores: SeriesScore[]; seconds: number; cpuSeconds: number }> {
   const workers = await Promise.all(Array.from({ length: Math.min(threads, series.length) }, startWorker));
   // Warm-up: one small series per worker, so that module loading is not counted in the time.
   await Promise.all(workers.map((w) => new Promise((resolve) => {
     w.once("message", resolve);
-    w.postMessage({ index: -1, series: series[0], method });
+    w.postMessage({ index: -1, series: series[0], method, total });
   })));
   const scores: SeriesScore[] = new Array(series.length);
   let next = 0;
@@ -72,7 +77,7 @@ async function scoreAll(series: readonly M3Series[], method: string, threads: nu
           const send = () => {
             if (next >= series.length) return resolve();
             const index = next++;
-            w.postMessage({ index, series: series[index], method });
+            w.postMessage({ index, series: series[index], method, total });
           };
           w.on("message", (m: { index: number; score: SeriesScore }) => {
             scores[m.index] = m.score;
@@ -98,6 +103,7 @@ export async function runCoverage(args: string[]): Promise<void> {
       method: { type: "string" },
       period: { type: "string" },
       threads: { type: "string" },
+      total: { type: "boolean" },
     },
   });
   const file = values.data ?? process.env.TRIANGULATE_M3 ?? "../shared/benchmark-data/m3.jsonl";
@@ -109,7 +115,7 @@ export async function runCoverage(args: string[]): Promise<void> {
     .filter((l) => l.trim() !== "")
     .map((l) => JSON.parse(l));
   const series = all.filter((s, i) => i % every === 0 && (!values.period || s.period === values.period));
-  const { scores, seconds, cpuSeconds } = await scoreAll(series, method, threads);
+  const { scores, seconds, cpuSeconds } = await scoreAll(series, method, threads, values.total === true);
 
   const tallies = new Map<string, Tally>();
   const chosen = new Map<string, number>();
@@ -138,6 +144,11 @@ export async function runCoverage(args: string[]): Promise<void> {
     t.in80 += r.in80!;
     t.in95 += r.in95!;
     t.incoherent += r.incoherent!;
+    if (r.total80 !== undefined) {
+      t.totals++;
+      if (r.total80) t.total80++;
+      if (r.total95) t.total95++;
+    }
   });
   const total = empty();
   for (const t of tallies.values()) for (const k of Object.keys(total) as (keyof Tally)[]) total[k] += t[k];
@@ -161,6 +172,10 @@ export async function runCoverage(args: string[]): Promise<void> {
   }
   console.log(row("all", total));
   console.log(`goal: 80% interval covers 77–83%, 95% covers 92–97% of held-out points; Theta = the competition's submitted forecasts`);
+  if (total.totals > 0) {
+    const share = (t: Tally) => `${((100 * t.total80) / t.totals).toFixed(1)}% / ${((100 * t.total95) / t.totals).toFixed(1)}%`;
+    console.log(`total over the horizon (--total): held-out sums inside the 80% / 95% intervals: ${["yearly", "quarterly", "monthly", "other"].filter((p) => tallies.get(p)?.totals).map((p) => `${p} ${share(tallies.get(p)!)}`).join(", ")}, all ${share(total)}`);
+  }
   console.log(`points whose forecast lies outside its own 80% or 95% interval: ${total.incoherent}`);
   console.log(`methods: ${[...chosen.entries()].sort((a, b) => b[1] - a[1]).map(([k, v]) => `${k} ${v}`).join(", ")}`);
   console.log(`time: ${seconds.toFixed(1)} s wall on ${threads} worker thread${threads === 1 ? "" : "s"} (code loaded before timing); CPU ${cpuSeconds.toFixed(1)} s over all threads (process.cpuUsage; less disturbed by other processes than the wall time); load average ${loadavg().map((v) => v.toFixed(2)).join(", ")}`);

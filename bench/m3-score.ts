@@ -26,17 +26,21 @@ export interface SeriesScore {
   readonly in95?: number;
   /** Points whose forecast lies outside its own 80% or 95% interval (must be 0). */
   readonly incoherent?: number;
+  /** With totals asked for: whether the sum of the held-out values lies inside the total's 80% / 95% interval. */
+  readonly total80?: boolean;
+  readonly total95?: boolean;
   readonly error?: string;
 }
 
 /**
  * `baseline(train, { season: frequency, horizon: h, method })`, then sMAPE (Makridakis & Hibon
  * 2000), MASE with the seasonal-naive in-sample scale (Hyndman & Koehler 2006) and interval hits
- * on the held-out points. Never throws: a failure is returned as `error`.
+ * on the held-out points; with `total`, also whether the held-out sum lies inside the total's
+ * intervals. Never throws: a failure is returned as `error`.
  */
-export function scoreSeries(s: M3Series, method: string): SeriesScore {
+export function scoreSeries(s: M3Series, method: string, total = false): SeriesScore {
   try {
-    const r = baseline(s.train, { season: s.frequency, horizon: s.h, method: method as "auto" | MethodId, levels: [80, 95] });
+    const r = baseline(s.train, { season: s.frequency, horizon: s.h, method: method as "auto" | MethodId, levels: [80, 95], total });
     const mean = r.forecast.map((f) => f.mean ?? NaN);
     let in80 = 0;
     let in95 = 0;
@@ -49,7 +53,10 @@ export function scoreSeries(s: M3Series, method: string): SeriesScore {
       const m = f.mean ?? NaN;
       if (!(l95 <= l80 && l80 <= m && m <= u80 && u80 <= u95)) incoherent++;
     });
+    const sum = s.test.reduce((a, v) => a + v, 0);
+    const inside = (level: string) => (r.total?.lower[level] ?? Infinity) <= sum && sum <= (r.total?.upper[level] ?? -Infinity);
     return {
+      ...(total ? { total80: inside("80"), total95: inside("95") } : {}),
       method: r.method,
       smape: symmetricMape(s.test, mean),
       mase: meanAbsoluteScaledError(s.test, mean, s.train, s.frequency),
