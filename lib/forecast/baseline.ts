@@ -1,6 +1,7 @@
 /**
  * `baseline()`: the one call that turns a raw series into a baseline forecast — input policy
- * (lib/forecast/series.ts), method choice (a named method, or automatic selection by
+ * (lib/forecast/series.ts), method choice (a named method; by default for "auto" the
+ * combination of ETS and Theta, lib/forecast/combination.ts; on request, selection by
  * rolling-origin MASE, lib/forecast/select.ts), fit, forecast with prediction intervals, and
  * in-sample accuracy. The command line and the web app both call it. Pure: no I/O.
  *
@@ -9,6 +10,7 @@
  * composes them and returns one plain, JSON-ready object (NaN and infinities become null).
  */
 import { accuracy } from "./accuracy";
+import { combineForecasts, combineTotals, type CombinationMember } from "./combination";
 import { METHODS } from "./registry";
 import { prepareSeries, methodProblem, type RawSeries, type PreparedSeries } from "./series";
 import { selectMethod, DEFAULT_ORIGINS, DEFAULT_STEP, DEFAULT_COMBINE, DEFAULT_REFIT, type Selection } from "./select";
@@ -28,6 +30,13 @@ export const NOT_AUTOMATIC: Readonly<Partial<Record<MethodId, string>>> = {
   bass: "not compared automatically (a diffusion curve for adoptions since launch); ask for it by name",
 };
 
+/**
+ * Members of the automatic combination (docs/methods.md §20): ETS chosen by AICc and the Theta
+ * method, equal weights. On all of M3 (bench/m3-coverage.ts) their combination beat each of them
+ * and the triple with the damped trend on seasonally adjusted data.
+ */
+export const COMBINATION_MEMBERS: readonly MethodId[] = ["ets", "theta"];
+
 /** Interval levels used when none are given. */
 export const DEFAULT_LEVELS: readonly number[] = [80, 95];
 
@@ -43,10 +52,16 @@ export interface BaselineOptions {
   readonly levels?: readonly number[];
   /** Fixed parameters for a named method (alpha, beta, gamma, phi, window, …). */
   readonly fixed?: Readonly<Record<string, number>>;
-  /** Selection settings for "auto" (number of origins, their spacing, combination). */
+  /**
+   * What "auto" does: "combination" (default) = the equal-weight combination of
+   * {@link COMBINATION_MEMBERS}; "best" / "combine" = rolling-origin selection among `methods`
+   * (lib/forecast/select.ts), also used when `methods` is given without a strategy (with
+   * "combination" and `methods`, the members are taken from `methods`).
+   */
+  readonly strategy?: "combination" | "best" | "combine";
+  /** Selection settings for the rolling-origin strategies (number of origins, their spacing, combination). */
   readonly origins?: number;
   readonly step?: number;
-  readonly strategy?: "best" | "combine";
   readonly combine?: number;
   readonly refit?: "full" | "update";
   /** Candidate methods (default: every registered method). */
@@ -102,7 +117,10 @@ export interface BaselineResult {
   /** One-step in-sample fitted values, aligned with the prepared series (null where none). */
   readonly fitted: readonly (number | null)[];
   readonly accuracy: { readonly insample: InsampleAccuracy };
-  /** Every candidate's rolling-origin MASE (automatic selection only), best first. */
+  /**
+   * Every candidate's rolling-origin MASE (rolling-origin selection only), best first; empty for
+   * the default combination, which scores no candidates.
+   */
   readonly candidates?: readonly CandidateResult[];
   /** Members of a combination with their own parameters (only when method is "combination"). */
   readonly combination?: readonly { readonly method: MethodId; readonly parameters: Record<string, number | null> }[];
@@ -234,6 +252,13 @@ export function baseline(input: RawSeries | readonly (number | null)[], options:
     throw new ForecastInputError("fixed parameters need a named method, not auto");
   }
 
+  const strategy = options.strategy ?? (options.methods ? "best" : "combination");
+  if (strategy === "combination" && !s.constant) {
+    const combined = combination(s, levels, options.total === true, options.methods ?? METHODS);
+    if (combined) return { ...combined, notes: [...notes, ...combined.notes] };
+    notes.push("no member of the combination could be fitted: rolling-origin selection used instead");
+  }
+
   // Which candidates apply at all.
   const usable: Method[] = [];
   const refused: CandidateResult[] = [];
@@ -260,7 +285,7 @@ export function baseline(input: RawSeries | readonly (number | null)[], options:
       {
         origins: options.origins ?? DEFAULT_ORIGINS,
         step: options.step ?? DEFAULT_STEP,
-        strategy: options.strategy ?? "best",
+        strategy: strategy === "combine" ? "combine" : "best",
         combine: options.combine ?? DEFAULT_COMBINE,
         refit: options.refit ?? DEFAULT_REFIT,
       },
@@ -371,6 +396,102 @@ export function baseline(input: RawSeries | readonly (number | null)[], options:
     candidates,
     combination: fits.map((f) => ({ method: f.method.id, parameters: params(f.fit) })),
     ...(options.total ? { total: totalOf(fits, s, levels) } : {}),
+    notes: [...notes, ...fits.flatMap((f) => f.fit.notes.map((t) => `${f.method.id}: ${t}`))],
+  };
+}
+
+/**
+ * The default "auto": the members of {@link COMBINATION_MEMBERS} that apply and fit, each on the
+ * whole series, combined by lib/forecast/combination.ts (means averaged; intervals the wider of
+ * the quantile average and the empirical bounds from the history). One member alone is returned
+ * as itself; none gives null (the caller falls back to selection).
+ */
+function combination(
+  s: PreparedSeries,
+  levels: readonly number[],
+  total: boolean,
+  available: readonly Method[],
+): (Omit<BaselineResult, "notes"> & { notes: string[] }) | null {
+  const notes: string[] = [];
+  const fits: { method: Method; fit: Fit; fc: Forecast }[] = [];
+  for (const id of COMBINATION_MEMBERS) {
+    const method = available.find((m) => m.id === id);
+    if (!method?.originForecasts) {
+      notes.push(`${id} left out of the combination: not among the methods given`);
+      continue;
+    }
+    const problem = methodProblem(method, s);
+    if (problem) {
+      notes.push(`${id} left out of the combination: ${problem}`);
+      continue;
+    }
+    try {
+      const fit = fitOne(method, s);
+      const fc = method.forecast(fit, s.horizon, levels, s.futureX);
+      if (fc.mean.some((v) => !Number.isFinite(v))) throw new Error("non-finite forecast");
+      fits.push({ method, fit, fc });
+    } catch (e) {
+      // As in selection: a member that fails never stops the baseline (no input may cause a 5xx).
+      notes.push(`${id} left out of the combination (${e instanceof Error ? e.message : String(e)})`);
+    }
+  }
+  if (fits.length === 0) return null;
+  if (fits.length === 1) {
+    const { method, fit, fc } = fits[0];
+    return {
+      method: method.id,
+      parameters: params(fit),
+      season: s.season,
+      horizon: s.horizon,
+      levels,
+      forecast: steps(fc, levels),
+      fitted: fit.fitted.map(finite),
+      accuracy: { insample: insample(s, fit.fitted) },
+      candidates: [],
+      ...(total ? { total: totalOf([{ method, fit }], s, levels) } : {}),
+      notes: [...notes, ...fit.notes],
+    };
+  }
+  const members: CombinationMember[] = fits.map((f) => ({ forecast: f.fc, origins: f.method.originForecasts!(f.fit, s.y, s.horizon) }));
+  const c = combineForecasts(members, s.y, s.season, levels);
+  const k = fits.length;
+  const fitted = s.y.map((_, t) => fits.reduce((a, f) => a + f.fit.fitted[t], 0) / k);
+  const weights: Record<string, number> = {};
+  for (const f of fits) weights[f.method.id] = 1 / k;
+  notes.push(
+    `equal-weight combination of ${fits.map((f) => f.method.id).join(" and ")}; intervals: the members' bounds averaged quantile by quantile, widened to the combination's own ${c.relative ? "relative " : ""}multi-step errors on the history where those are wider`,
+    ...c.notes,
+  );
+  let totalResult: TotalResult | undefined;
+  if (total) {
+    const t = fits.map(({ method, fit }) => forecastTotal(fit, method, s.horizon, levels, s.futureX));
+    const ct = combineTotals(t, members, s.y, s.season, s.horizon, levels);
+    const lower: Record<string, number | null> = {};
+    const upper: Record<string, number | null> = {};
+    for (const l of levels) {
+      lower[String(l)] = finite(ct.lower[String(l)]);
+      upper[String(l)] = finite(ct.upper[String(l)]);
+    }
+    totalResult = {
+      mean: finite(ct.mean),
+      lower,
+      upper,
+      how: `members' totals averaged quantile by quantile (${t.map((x) => x.how).join("; ")})${ct.empirical ? ", widened to the combination's own errors of h-step sums on the history where those are wider" : ""}`,
+    };
+  }
+  return {
+    method: "combination",
+    parameters: weights,
+    season: s.season,
+    horizon: s.horizon,
+    levels,
+    forecast: steps({ method: fits[0].method.id, mean: c.mean, levels, lower: c.lower, upper: c.upper, sd: c.mean.map(() => NaN) }, levels),
+    fitted: fitted.map(finite),
+    accuracy: { insample: insample(s, fitted) },
+    // No rolling-origin scores: the key stays (the CLI's JSON shape), empty.
+    candidates: [],
+    combination: fits.map((f) => ({ method: f.method.id, parameters: params(f.fit) })),
+    ...(totalResult ? { total: totalResult } : {}),
     notes: [...notes, ...fits.flatMap((f) => f.fit.notes.map((t) => `${f.method.id}: ${t}`))],
   };
 }

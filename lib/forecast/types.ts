@@ -107,6 +107,13 @@ export interface Method {
   applicable(y: readonly number[], season: number, hasX: boolean): boolean;
   fit(input: FitInput): Fit;
   forecast(fit: Fit, h: number, levels: readonly number[], futureX?: FutureX): Forecast;
+  /**
+   * Optional: the point forecasts for steps 1..h that the fit, with its parameters held, makes
+   * from every origin t = 0..n−1 of the series it was fitted to (row t uses y_1..y_t only
+   * through the recursions): the in-sample multi-step forecasts behind the combination's
+   * empirical intervals (lib/forecast/combination.ts). `y` is the fitted series.
+   */
+  originForecasts?(fit: Fit, y: readonly number[], h: number): number[][];
 }
 
 /** Thrown for input a method cannot use; the message says what to fix. */

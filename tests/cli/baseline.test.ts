@@ -84,7 +84,7 @@ describe("triangulate baseline", () => {
     expect(cli(["baseline", NIST12, "--value", "y", "--method", "naive", "--horizon", "3"]).out).not.toContain('"total"');
   });
 
-  it("automatic selection reports every candidate's MASE and the field names of issue 2", () => {
+  it("the automatic baseline combines ets and theta and keeps the field names of issue 2", () => {
     const res = cli(["baseline", "airpassengers.csv", "--season", "12", "--horizon", "12"]);
     expect(res.err).toBe("");
     expect(res.code).toBe(0);
@@ -96,14 +96,11 @@ describe("triangulate baseline", () => {
     expect(out.season).toBe(12);
     expect(out.forecast).toHaveLength(12);
     expect(out.fitted).toHaveLength(144);
-    const scored = out.candidates.filter((c: { mase: number | null }) => c.mase !== null);
-    expect(scored.length).toBeGreaterThanOrEqual(5);
-    // Candidates are listed best first; the chosen method is the best scored one (or their combination).
-    const masess = scored.map((c: { mase: number }) => c.mase);
-    expect([...masess].sort((a, b) => a - b)).toEqual(masess);
-    if (out.method !== "combination") expect(out.method).toBe(scored[0].method);
-    // Methods that cannot run are listed with the reason (regression has no explanatory column here).
-    expect(out.candidates.find((c: { method: string }) => c.method === "regression")?.error).toBe("regression needs explanatory columns");
+    // docs/methods.md §20: equal weights on ETS (AICc) and Theta; no candidates are scored.
+    expect(out.method).toBe("combination");
+    expect(out.combination.map((c: { method: string }) => c.method)).toEqual(["ets", "theta"]);
+    expect(out.parameters).toEqual({ ets: 0.5, theta: 0.5 });
+    expect(out.candidates).toEqual([]);
   });
 
   it("regression uses the explanatory columns and their future rows like R's lm() and predict()", () => {

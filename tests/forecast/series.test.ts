@@ -157,7 +157,8 @@ describe("baseline() applies the policy", () => {
   it("leaves holt-winters-multiplicative out on data with negative values (R's diff(UKgas))", async () => {
     const { baseline } = await load();
     const y = r('cat(diff(as.numeric(UKgas)), sep = " ")') as number[];
-    const res = baseline(y, { season: 4, horizon: 4 });
+    // Rolling-origin selection (strategy "best") lists every candidate with the reason it was left out.
+    const res = baseline(y, { season: 4, horizon: 4, strategy: "best" });
     const hwm = res.candidates!.find((c) => c.method === "holt-winters-multiplicative");
     expect(hwm).toEqual({ method: "holt-winters-multiplicative", mase: null, error: "holt-winters-multiplicative needs every value above zero" });
     expect(res.method).not.toBe("holt-winters-multiplicative");
@@ -167,8 +168,9 @@ describe("baseline() applies the policy", () => {
   it("falls back to non-seasonal methods for 20 months of R's AirPassengers with season 12", async () => {
     const { baseline } = await load();
     const y = r('cat(as.numeric(AirPassengers)[1:20], sep = " ")') as number[];
-    const res = baseline(y, { season: 12, horizon: 6 });
+    const res = baseline(y, { season: 12, horizon: 6, strategy: "best" });
     expect(res.season).toBe(1);
+    expect(baseline(y, { season: 12, horizon: 6 }).season).toBe(1); // the default combination too
     expect(res.notes).toContain("season length 12 needs at least 24 observations for seasonal methods (have 20); non-seasonal methods only");
     const scored = res.candidates!.filter((c) => c.mase !== null).map((c) => c.method);
     expect(scored).not.toContain("seasonal-naive");

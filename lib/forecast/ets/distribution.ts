@@ -116,9 +116,10 @@ export function memberForecast(spec: EtsSpec, p: Smoothing, origin: EtsState, si
   const paths = samplePaths(spec, p, origin, sigma2, h);
   const sd: number[] = [];
   for (let i = 0; i < h; i++) {
-    const col = Array.from(paths.subarray(i * PATHS, (i + 1) * PATHS)).sort((a, b) => a - b);
+    // A typed copy sorts numerically without a comparator: the same order, several times faster.
+    const col = paths.slice(i * PATHS, (i + 1) * PATHS).sort();
     sd.push(sampleSd(col));
-    const b = sampleBounds(col, levels);
+    const b = sampleBounds(col as unknown as readonly number[], levels);
     levels.forEach((_, l) => {
       lower[l].push(b.lower[l]);
       upper[l].push(b.upper[l]);
@@ -128,7 +129,11 @@ export function memberForecast(spec: EtsSpec, p: Smoothing, origin: EtsState, si
 }
 
 /** Sample standard deviation (n − 1 divisor). */
-export function sampleSd(x: readonly number[]): number {
-  const avg = x.reduce((a, b) => a + b, 0) / x.length;
-  return Math.sqrt(x.reduce((a, b) => a + (b - avg) ** 2, 0) / (x.length - 1));
+export function sampleSd(x: ArrayLike<number>): number {
+  let sum = 0;
+  for (let i = 0; i < x.length; i++) sum += x[i];
+  const avg = sum / x.length;
+  let ss = 0;
+  for (let i = 0; i < x.length; i++) ss += (x[i] - avg) ** 2;
+  return Math.sqrt(ss / (x.length - 1));
 }

@@ -119,13 +119,35 @@ export function fitStateSpace(
   const upper = free.map((k) => (k === "alpha" ? ALPHA_UPPER : k === "phi" ? PHI_UPPER : k === "beta" || k === "gamma" ? 1 : Infinity));
   const work = makeState(0, 0, new Float64Array(m));
   const init = makeState(0, 0, new Float64Array(m));
+  // The objective: decode's arithmetic with the positions of the free values looked up once and
+  // nothing allocated per call (the same operations in the same order as decode).
+  const at = (key: string) => free.indexOf(key);
+  const held = (key: string) => fixed[key] ?? start[key];
+  const [iAlpha, iBeta, iGamma, iPhi, iL0, iB0] = ["alpha", "beta", "gamma", "phi", "l0", "b0"].map(at);
+  const [cAlpha, cPhi, cL0, cB0] = ["alpha", "phi", "l0", "b0"].map(held);
+  const iSeason = Int32Array.from({ length: Math.max(m - 1, 0) }, (_, i) => at(`s${i + 1}`));
+  const cSeason = Float64Array.from({ length: Math.max(m - 1, 0) }, (_, i) => held(`s${i + 1}`));
+  const trended = spec.trend !== "N";
+  const trial = { alpha: 0, beta: 0, gamma: 0, phi: 1 };
   const objective = (x: ArrayLike<number>): number => {
-    const { par, initial } = decode(x);
-    if (spec.season === "M" && initial.s.some((v) => !(v > 0))) return Infinity;
-    init.level = initial.l0;
-    init.trend = initial.b0;
-    if (seasonal) init.ring.set(initial.s);
-    return filterSeries(spec, par, init, y, work, null).lik;
+    const alpha = iAlpha >= 0 ? x[iAlpha] : cAlpha;
+    trial.alpha = alpha;
+    trial.beta = !trended ? 0 : iBeta >= 0 ? BETA_LOWER + x[iBeta] * Math.max(Math.min(alpha, 0.9999) - BETA_LOWER, 0) : fixed.beta;
+    trial.gamma = !seasonal ? 0 : iGamma >= 0 ? GAMMA_LOWER + x[iGamma] * Math.max(Math.min(1 - alpha, 0.9999) - GAMMA_LOWER, 0) : fixed.gamma;
+    trial.phi = spec.trend === "Ad" ? (iPhi >= 0 ? x[iPhi] : cPhi) : 1;
+    if (seasonal) {
+      let sum = 0;
+      for (let i = 0; i < m - 1; i++) {
+        const v = iSeason[i] >= 0 ? x[iSeason[i]] : cSeason[i];
+        init.ring[i] = v;
+        sum += v;
+      }
+      init.ring[m - 1] = seasonFixed ? fixed[`s${m}`] : seasonTotal - sum;
+      if (spec.season === "M") for (let i = 0; i < m; i++) if (!(init.ring[i] > 0)) return Infinity;
+    }
+    init.level = iL0 >= 0 ? x[iL0] : cL0;
+    init.trend = !trended ? 0 : iB0 >= 0 ? x[iB0] : cB0;
+    return filterSeries(spec, trial, init, y, work, null).lik;
   };
   if (!Number.isFinite(objective(x0)) && x0.some((v) => !Number.isFinite(v))) {
     throw new ForecastInputError(`ETS(${spec.error},${spec.trend},${spec.season}): no finite start`);

@@ -112,21 +112,42 @@ export function filterSeries(
   fitted: Float64Array | null = new Float64Array(y.length),
 ): Filtered {
   const st: EtsState = work ?? { level: 0, trend: 0, ring: new Float64Array(init.ring.length), k: 0 };
-  st.level = init.level;
-  st.trend = init.trend;
   st.ring.set(init.ring);
-  st.k = init.k;
+  // The recursions of oneStep and update, written out with the member's switches hoisted out of
+  // the loop (the same operations in the same order: results are identical).
+  const trended = spec.trend !== "N";
+  const seasonal = spec.season !== "N";
+  const multSeason = spec.season === "M";
+  const multError = spec.error === "M";
+  const { alpha, beta, gamma, phi } = p;
+  const ring = st.ring;
+  const m = spec.m;
+  let level = init.level;
+  let trend = init.trend;
+  let k = init.k;
   const n = y.length;
   let sumSq = 0;
   let sumLog = 0;
   for (let t = 0; t < n; t++) {
-    const f = oneStep(spec, p, st);
+    const q = trended ? level + phi * trend : level;
+    const s = ring[k];
+    const f = !seasonal ? q : multSeason ? q * s : q + s;
     if (fitted) fitted[t] = f;
-    const e = spec.error === "A" ? y[t] - f : (y[t] - f) / f;
+    const yt = y[t];
+    const e = multError ? (yt - f) / f : yt - f;
     sumSq += e * e;
-    if (spec.error === "M") sumLog += Math.log(Math.abs(f));
-    update(spec, p, st, y[t]);
+    if (multError) sumLog += Math.log(Math.abs(f));
+    const adj = !seasonal ? yt : multSeason ? yt / s : yt - s;
+    level = q + alpha * (adj - q);
+    if (trended) trend = phi * trend + beta * (adj - q);
+    if (seasonal) {
+      ring[k] = s + gamma * ((multSeason ? yt / q : yt - q) - s);
+      if (++k === m) k = 0;
+    }
   }
+  st.level = level;
+  st.trend = trend;
+  st.k = k;
   const lik = n * Math.log(sumSq) + 2 * sumLog;
   return { fitted, sumSq, lik: Number.isFinite(lik) ? lik : Infinity, final: st };
 }

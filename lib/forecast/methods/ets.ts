@@ -1,7 +1,8 @@
 import { etsMinLength } from "../ets";
 import { chooseMember, decodeModel, fitMember, memberOf, memberToFit } from "../ets/family";
 import { memberForecast } from "../ets/distribution";
-import { specName } from "../ets/state-space";
+import { makeState, specName, update } from "../ets/state-space";
+import { pointForecasts } from "../ets/distribution";
 import { checkHorizon } from "../ets";
 import { ForecastInputError, type Fit, type FitInput, type Forecast, type Method } from "../types";
 
@@ -63,6 +64,20 @@ const ets: Method = {
       upper[String(lv)] = f.upper[l];
     });
     return { method: "ets", mean: f.mean, levels: [...levels], lower, upper, sd: f.sd };
+  },
+  /**
+   * Row t: the member's point forecasts from the states after y_1..y_t, the recursions run
+   * from the fit's initial states with its parameters (Hyndman et al. 2008 table 2.1).
+   */
+  originForecasts(fit: Fit, y: readonly number[], h: number): number[][] {
+    const { spec, par } = memberOf(fit);
+    const st = makeState(fit.state.l0 as number, (fit.state.b0 as number | undefined) ?? 0, (fit.state.initialSeason as readonly number[] | undefined) ?? []);
+    const rows: number[][] = [];
+    for (let t = 0; t < y.length; t++) {
+      rows.push(pointForecasts(spec, par, st, h));
+      update(spec, par, st, y[t]);
+    }
+    return rows;
   },
 };
 

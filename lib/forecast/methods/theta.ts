@@ -148,6 +148,28 @@ const theta: Method = {
     }
     return { method: "theta", mean, levels: [...levels], lower, upper, sd };
   },
+  /**
+   * Row t: the forecasts of step 3 above from origin t with α and the drift of the fit held:
+   * the SES level after t observations (the fitted value of y_{t+1} on the adjusted scale),
+   * the drift term with t in place of n, and the seasonal indices (periodic) of those times.
+   */
+  originForecasts(fit: Fit, y: readonly number[], h: number): number[][] {
+    const alpha = Math.max(ALPHA_FLOOR, fit.parameters.alpha);
+    const drift = fit.parameters.drift;
+    const n = fit.state.n as number;
+    const next = fit.state.season as readonly number[];
+    const m = next.length;
+    const index = (t: number) => (m > 0 ? next[(((t - n) % m) + m) % m] : 1);
+    const rows: number[][] = [];
+    for (let t = 0; t < y.length; t++) {
+      const level = fit.fitted[t] / index(t);
+      const tail = (1 - (1 - alpha) ** Math.max(t, 1)) / alpha;
+      const row: number[] = [];
+      for (let i = 0; i < h; i++) row.push((level + drift * (i + tail)) * index(t + i));
+      rows.push(row);
+    }
+    return rows;
+  },
 };
 
 export default theta;

@@ -1,0 +1,191 @@
+/**
+ * The automatic baseline's combination (docs/methods.md §20): the equal-weight mean of ETS
+ * chosen by AICc and the Theta method, with intervals that are the wider of (a) the members'
+ * bounds averaged quantile by quantile and (b) empirical bounds from the combination's own
+ * multi-step errors on the history. Pure TypeScript.
+ *
+ * Sources: combining ETS, ARIMA and Theta-type forecasts beat the single chosen method in the M3
+ * and M4 competitions (Makridakis & Hibon 2000, IJF 16(4); Makridakis, Spiliotis &
+ * Assimakopoulos 2020, IJF 36(1)); equal weights (Clemen 1989, IJF 5(4)). Quantile averaging:
+ * Lichtendahl, Grushka-Cockayne & Winkler (2013), "Is it better to average probabilities or
+ * quantiles?", Management Science 59(7), 1594–1611. Empirical intervals from a method's own
+ * h-step errors on the history: Williams & Goodman (1971), "A simple method for the
+ * construction of empirical confidence limits for economic forecasts", JASA 66(336), 752–754;
+ * Lee & Scholtes (2014), "Empirical prediction intervals revisited", IJF 30(2), 217–234.
+ */
+import { normalQuantile } from "../stats/normal";
+import { studentTQuantile } from "../stats/student-t";
+import type { Forecast } from "./types";
+
+/** Fewest history errors at a horizon for its empirical spread to be used. */
+export const MIN_HISTORY_ERRORS = 3;
+
+/** What {@link combineForecasts} needs of one member. */
+export interface CombinationMember {
+  readonly forecast: Forecast;
+  /** Its in-sample forecasts from every origin t = 0..n−1 (Method.originForecasts), steps 1..h. */
+  readonly origins: readonly (readonly number[])[];
+}
+
+/** The combination's forecast and, per step, the empirical spread used (NaN where none). */
+export interface CombinedForecast {
+  readonly mean: number[];
+  readonly lower: Record<string, number[]>;
+  readonly upper: Record<string, number[]>;
+  /** Root mean square of the history errors per step (relative when `relative`). */
+  readonly spread: number[];
+  /** Number of history errors behind each step's spread (the t quantile's degrees of freedom). */
+  readonly errors: number[];
+  readonly relative: boolean;
+  readonly notes: string[];
+}
+
+/** First origin whose errors count: max(2m, ⌈n/3⌉), so that the states have settled. */
+export function firstOrigin(n: number, season: number): number {
+  return Math.max(2 * season, Math.ceil(n / 3), 1);
+}
+
+/** Element-wise mean of equal-length arrays. */
+function meanOf(rows: readonly (readonly number[])[]): number[] {
+  return rows[0].map((_, i) => rows.reduce((a, r) => a + r[i], 0) / rows.length);
+}
+
+/**
+ * Root mean square of the combination's errors on the history, per step 1..h, and how many
+ * errors each rests on:
+ * e_{t,j} = y_{t+j} − f_{t,j} from every origin t ≥ {@link firstOrigin} with y_{t+j} observed;
+ * relative errors e/|f| when `relative` (a forecast ≤ 0 is then skipped). Steps with fewer than
+ * {@link MIN_HISTORY_ERRORS} errors give NaN.
+ */
+export function historySpread(
+  y: readonly number[],
+  combined: (t: number) => readonly number[],
+  h: number,
+  season: number,
+  relative: boolean,
+): { spread: number[]; count: number[] } {
+  const sum = new Array<number>(h).fill(0);
+  const count = new Array<number>(h).fill(0);
+  for (let t = firstOrigin(y.length, season); t < y.length; t++) {
+    const f = combined(t);
+    for (let j = 0; j < h && t + j < y.length; j++) {
+      if (relative && !(f[j] > 0)) continue;
+      const e = relative ? (y[t + j] - f[j]) / f[j] : y[t + j] - f[j];
+      if (!Number.isFinite(e)) continue;
+      sum[j] += e * e;
+      count[j]++;
+    }
+  }
+  return { spread: sum.map((s, j) => (count[j] >= MIN_HISTORY_ERRORS ? Math.sqrt(s / count[j]) : NaN)), count };
+}
+
+/**
+ * Quantile of a new error in units of a spread estimated as the root mean square of k errors
+ * centred on zero: Student's t with k degrees of freedom (a new normal error over s is t_k; e.g.
+ * Hahn & Meeker (1991), *Statistical Intervals*, ch. 4 — from memory). Wider than the normal
+ * quantile where the history is short.
+ */
+function errorQuantile(level: number, k: number): number {
+  const p = 0.5 + level / 200;
+  return k >= 1 ? studentTQuantile(p, k) : normalQuantile(p);
+}
+
+/**
+ * Equal-weight combination of the members (see the file comment).
+ *
+ * mean_j = average of the members' means. For each level L: the quantile-averaged bounds
+ * (average of the members' L-bounds), widened where the empirical bound mean_j ∓ q_j·s_j·scale_j is
+ * wider (q_j the Student t quantile of L with k_j degrees of freedom, k_j the number of errors behind
+ * s_j; s_j from {@link historySpread}; scale_j = |mean_j| for
+ * relative errors, used when every observation is above zero, else 1). Past the last step with
+ * enough history errors, s_j grows like the members' average forecast sd (k_j stays that step's).
+ * So the mean always lies
+ * inside its intervals and each interval is at least as wide as the quantile average.
+ *
+ * Input: at least one member, all with the same horizon and levels; y the fitted series.
+ * Non-finite member values propagate (the caller drops failed members first).
+ */
+export function combineForecasts(members: readonly CombinationMember[], y: readonly number[], season: number, levels: readonly number[]): CombinedForecast {
+  const h = members[0].forecast.mean.length;
+  const mean = meanOf(members.map((m) => m.forecast.mean));
+  const relative = y.every((v) => v > 0);
+  const history = historySpread(y, (t) => meanOf(members.map((m) => m.origins[t])), h, season, relative);
+  const raw = history.spread;
+  const sd = meanOf(members.map((m) => m.forecast.sd));
+  let last = -1;
+  raw.forEach((s, j) => {
+    if (Number.isFinite(s)) last = j;
+  });
+  const spread = raw.map((s, j) => {
+    if (last < 0) return NaN;
+    if (j <= last) return s;
+    const growth = sd[j] / sd[last];
+    return raw[last] * (Number.isFinite(growth) && growth > 0 ? growth : 1);
+  });
+  const errors = raw.map((_, j) => history.count[last < 0 ? j : Math.min(j, last)]);
+  const notes: string[] = [];
+  if (last < 0) notes.push("too short a history for empirical intervals: the members' bounds averaged quantile by quantile");
+  const lower: Record<string, number[]> = {};
+  const upper: Record<string, number[]> = {};
+  for (const level of levels) {
+    const key = String(level);
+    const lo = meanOf(members.map((m) => m.forecast.lower[key]));
+    const hi = meanOf(members.map((m) => m.forecast.upper[key]));
+    const z = errors.map((k) => errorQuantile(level, k));
+    lower[key] = mean.map((mu, j) => {
+      const half = z[j] * spread[j] * (relative ? Math.abs(mu) : 1);
+      return Math.min(lo[j], mu, Number.isFinite(half) ? mu - half : Infinity);
+    });
+    upper[key] = mean.map((mu, j) => {
+      const half = z[j] * spread[j] * (relative ? Math.abs(mu) : 1);
+      return Math.max(hi[j], mu, Number.isFinite(half) ? mu + half : -Infinity);
+    });
+  }
+  return { mean, lower, upper, spread, errors, relative, notes };
+}
+
+/**
+ * The total over the horizon for the combination: the members' totals averaged quantile by
+ * quantile, widened like the steps by the empirical spread of the combination's h-step sums on
+ * the history (origins t ≥ {@link firstOrigin} with all h values observed; relative to the
+ * forecast sum when every observation is above zero; t quantile with as many degrees of freedom
+ * as sums). Fewer than {@link MIN_HISTORY_ERRORS} such sums: the quantile average alone.
+ */
+export function combineTotals(
+  totals: readonly { readonly mean: number; readonly lower: Record<string, number>; readonly upper: Record<string, number> }[],
+  members: readonly CombinationMember[],
+  y: readonly number[],
+  season: number,
+  h: number,
+  levels: readonly number[],
+): { mean: number; lower: Record<string, number>; upper: Record<string, number>; empirical: boolean } {
+  const avg = (get: (t: (typeof totals)[number]) => number) => totals.reduce((a, t) => a + get(t), 0) / totals.length;
+  const mean = avg((t) => t.mean);
+  const relative = y.every((v) => v > 0);
+  let sum = 0;
+  let count = 0;
+  for (let t = firstOrigin(y.length, season); t + h <= y.length; t++) {
+    const f = meanOf(members.map((m) => m.origins[t]));
+    let fs = 0;
+    let ys = 0;
+    for (let j = 0; j < h; j++) {
+      fs += f[j];
+      ys += y[t + j];
+    }
+    if (relative && !(fs > 0)) continue;
+    const e = relative ? (ys - fs) / fs : ys - fs;
+    if (!Number.isFinite(e)) continue;
+    sum += e * e;
+    count++;
+  }
+  const spread = count >= MIN_HISTORY_ERRORS ? Math.sqrt(sum / count) : NaN;
+  const lower: Record<string, number> = {};
+  const upper: Record<string, number> = {};
+  for (const level of levels) {
+    const key = String(level);
+    const half = errorQuantile(level, count) * spread * (relative ? Math.abs(mean) : 1);
+    lower[key] = Math.min(avg((t) => t.lower[key]), mean, Number.isFinite(half) ? mean - half : Infinity);
+    upper[key] = Math.max(avg((t) => t.upper[key]), mean, Number.isFinite(half) ? mean + half : -Infinity);
+  }
+  return { mean, lower, upper, empirical: Number.isFinite(spread) };
+}
