@@ -15,8 +15,8 @@ export default function Home() {
           anchoring the others.
         </li>
         <li>
-          <strong>Statistics</strong> — a baseline chosen among smoothing, trend, regression and
-          other methods by out-of-sample accuracy, with 80% and 95% intervals.
+          <strong>Statistics</strong> — a baseline forecast that averages exponential smoothing (chosen by
+          AICc) and the Theta method, with 80% and 95% intervals checked against held-out data; or a named method.
         </li>
         <li>
           <strong>Track record</strong> — each panelist&apos;s past errors, turned into a bias

@@ -302,7 +302,7 @@ export default function BaselineForm({
             <select name="method" defaultValue={defaults.method}>
               {methods.map((m) => (
                 <option key={m} value={m}>
-                  {m === "auto" ? "automatic (lowest holdout MASE)" : m}
+                  {m === "auto" ? "automatic (ETS and Theta combined)" : m}
                 </option>
               ))}
             </select>
