@@ -193,7 +193,7 @@ async function load(options: { ifEmpty: boolean }, io: CommandIo): Promise<numbe
   await sharePanel(actor, panel.id, { email: reviewer.email, role: "reviewer" });
   const questionIds = [panel.questions[0].id, panel.questions[1].id] as const;
 
-  const issued = await createInvitations(actor, panel.id, { rosterMemberIds: members.slice(0, 7).map((m) => m.id), expiresInDays: 60 });
+  const issued = await createInvitations(actor, panel.id, { rosterMemberIds: members.slice(0, 7).map((m) => m.id), expiresInDays: 60, send: false });
   const tokens = members.slice(0, 7).map((m) => issued.find((i) => i.rosterMemberId === m.id)!.token);
 
   await openRound(actor, panel.id, 1, {});
