@@ -7,6 +7,7 @@
  * rejects it; it is cleared only after a success, when `resetOnSuccess` is set.
  */
 import { createContext, startTransition, useActionState, useContext, useEffect, useRef, type ReactNode } from "react";
+import { CopyButton } from "./copy-button";
 import { EMPTY_FORM_STATE, type FormAction, type FormState } from "./form-state";
 
 const StateContext = createContext<FormState>(EMPTY_FORM_STATE);
@@ -107,6 +108,7 @@ export function SecretOnce({ label, value }: { label: string; value: string }) {
       <strong>{label}</strong>
       <span className="hint">Copy it now: it is shown only this once and cannot be displayed again.</span>
       <code className="secret">{value}</code>
+      <CopyButton text={value} />
     </div>
   );
 }
