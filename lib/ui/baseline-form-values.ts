@@ -5,7 +5,7 @@
  * (`future.<column>`, comma-separated), the analogue's factor and note, season, method,
  * horizon, what the question asks for (quantity) and what one history row is (period). Empty optional fields are left out so the schema's defaults apply.
  */
-import { withNumbers } from "./form-result";
+import { typedNumberErrors, withNumbers } from "./form-result";
 
 export type BaselineFormRead =
   | { readonly ok: true; readonly input: Record<string, unknown> }
@@ -47,8 +47,10 @@ export function baselineFormValues(values: Record<string, string>): BaselineForm
     if (future.size > 0) input.futureValues = Object.fromEntries(future);
   }
   if (values.analogue === "yes") {
-    const factor = withNumbers({ scaleFactor: values.scaleFactor ?? "" }, ["scaleFactor"]).scaleFactor;
-    input.analogue = { scaleFactor: factor, note: values.scaleNote ?? "" };
+    const scale = withNumbers({ scaleFactor: values.scaleFactor ?? "" }, ["scaleFactor"]);
+    for (const [, messages] of Object.entries(typedNumberErrors(scale)?.fieldErrors ?? {})) (errors["analogue.scaleFactor"] ??= []).push(...(messages ?? []));
+    input.analogue = { scaleFactor: scale.scaleFactor, note: values.scaleNote ?? "" };
   }
+  for (const [field, messages] of Object.entries(typedNumberErrors(input)?.fieldErrors ?? {})) (errors[field] ??= []).push(...(messages ?? []));
   return Object.keys(errors).length > 0 ? { ok: false, fieldErrors: errors } : { ok: true, input };
 }

@@ -267,6 +267,7 @@ export const panelistPanel = z.object({
 
 export const feedback = z.object({
   round: z.number().int().nullable(),
+  finished: z.boolean().describe("The panel is finished: no further round."),
   questions: z.array(
     z.object({
       questionId: z.string(),

@@ -103,7 +103,7 @@ export async function inviteAction(_p: FormState, formData: FormData): Promise<F
       message: `${issued.length} invitation${issued.length === 1 ? "" : "s"} created. ${mailSummary(issued)}`,
       secrets: issued.map((i) => ({ label: `Private link for ${i.name} <${i.email}>`, value: `${site}${i.link}` })),
     };
-  }, [invitationCreate, { ...withNumbers(values, ["expiresInDays"]), rosterMemberIds, send: values.send === "yes" }], limits.invitations);
+  }, [invitationCreate, withNumbers({ ...values, rosterMemberIds, send: values.send === "yes" }, ["expiresInDays"])], limits.invitations);
 }
 
 export async function revokeInvitationAction(_p: FormState, formData: FormData): Promise<FormState> {
@@ -120,7 +120,7 @@ export async function reissueInvitationAction(_p: FormState, formData: FormData)
     const inv = await reissueInvitation(user, id.panelId, id.invitationId, input, site);
     revalidatePath(`/panels/${id.panelId}`);
     return { ok: true, message: `The old link no longer works. ${mailSummary([inv])}`, secret: { label: `New private link for ${inv.name} <${inv.email}>`, value: `${site}${inv.link}` } };
-  }, [invitationReissue, { ...withNumbers(values, ["expiresInDays"]), send: values.send === "yes" }], limits.invitations);
+  }, [invitationReissue, withNumbers({ ...values, send: values.send === "yes" }, ["expiresInDays"])], limits.invitations);
 }
 
 /** E-mails the open round's notice to everyone, or a reminder to those who have not answered (counted like the API's sendNotices). */
