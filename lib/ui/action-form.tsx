@@ -27,6 +27,11 @@ export interface ActionFormProps {
   readonly ariaLabel?: string;
   /** Keeps the form (and what it last returned, e.g. secrets shown once) but disables submitting. */
   readonly submitDisabled?: boolean;
+  /**
+   * The children hold other submit buttons (with a name and value): Enter in a field then still
+   * submits as the main button would (a hidden first button is the form's default button).
+   */
+  readonly otherSubmits?: boolean;
 }
 
 export default function ActionForm({
@@ -41,6 +46,7 @@ export default function ActionForm({
   successMessage,
   ariaLabel,
   submitDisabled = false,
+  otherSubmits = false,
 }: ActionFormProps) {
   const [state, formAction, pending] = useActionState(action, EMPTY_FORM_STATE);
   const form = useRef<HTMLFormElement>(null);
@@ -58,10 +64,12 @@ export default function ActionForm({
           onSubmit={(event) => {
             event.preventDefault();
             if (confirm && !window.confirm(confirm)) return;
-            const data = new FormData(event.currentTarget);
+            // With the button that submitted it (e.g. "keep my answer" carries its name and value).
+            const data = new FormData(event.currentTarget, (event.nativeEvent as SubmitEvent).submitter);
             startTransition(() => formAction(data));
           }}
         >
+          {otherSubmits ? <button type="submit" hidden tabIndex={-1} aria-hidden="true" disabled={pending || submitDisabled} /> : null}
           {state.message && !state.ok ? (
             <p className="form-error" role="alert">
               {state.message}

@@ -261,6 +261,7 @@ export const panelistPanel = z.object({
       rationaleReason: z.string().nullable(),
       answer: answer.nullable(),
       versions: z.array(answer),
+      previousAnswer: answer.nullable().describe("The panelist's final answer in the previous round (to keep or revise); null in round 1."),
     }),
   ),
 });
