@@ -213,7 +213,7 @@ async function load(options: { ifEmpty: boolean }, io: CommandIo): Promise<numbe
     `  history: ${PAST_PANELS.length} earlier panels with ${PAST_PANELS.reduce((n, p) => n + p.questions.length, 0)} resolved questions (track records, bias factors, inverse-MSE weights)`,
     `  organiser  organiser@quillmoor.example  password: ${organiserPassword}`,
     `  reviewer   reviewer@quillmoor.example   password: ${reviewerPassword}`,
-    "  panelist links (secret; shown only now):",
+    "  panelist links (each is one person's secret; re-issue one on the panel page if it leaks):",
     ...issued.map((i) => `    ${i.name.padEnd(18)} ${process.env.NEXTAUTH_URL ?? ""}${i.link}`),
   ];
   io.out(lines.join("\n") + "\n");
