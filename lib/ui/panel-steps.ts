@@ -1,6 +1,6 @@
 /**
- * The organiser's steps through a panel, in the order of the Delphi method as docs/methods.md
- * describes it: write the questions, invite the panel, run rounds until the stopping rules say
+ * The organiser's steps through a panel (docs/methods.md §14.2), in the order of the Delphi
+ * method as docs/methods.md §14 describes it: write the questions, invite the panel, run rounds until the stopping rules say
  * stop (§ stopping rules), set the statistical baseline and the blend against it, record the
  * outcome once it is known, read the report. Each step is done, the next one, or to do; the
  * next is the first step not done. The report is never "done": it is the last step and is
