@@ -227,7 +227,7 @@ describe("Delphi panel in the browser", () => {
     await expect.poll(() => org.locator("[data-outbox-count]").getAttribute("data-outbox-count")).toBe("5");
     await org.goto(`${panelUrl}/outbox`);
     const messages = org.locator("[data-outbox-message]");
-    expect(await messages.count()).toBe(5);
+    await expect.poll(() => messages.count()).toBe(5);
     for (const m of await messages.all()) {
       const to = (await m.locator("[data-outbox-to]").textContent()) ?? "";
       const body = (await m.locator("[data-outbox-body]").textContent()) ?? "";
