@@ -47,6 +47,8 @@ export interface ServerOptions {
   readonly distDir?: string;
   /** NEXTAUTH_SECRET; instances that share sessions need the same one. */
   readonly secret?: string;
+  /** More settings for the server (e.g. SMTP_URL and MAIL_FROM for the e-mail test). */
+  readonly env?: Readonly<Record<string, string>>;
 }
 
 export function serverEnv(o: ServerOptions): NodeJS.ProcessEnv {
@@ -60,6 +62,7 @@ export function serverEnv(o: ServerOptions): NodeJS.ProcessEnv {
     NEXTAUTH_SECRET: o.secret ?? "load-and-fault-secret-0123456789abcdef",
     NEXTAUTH_URL: baseURL,
     PORT: String(o.port),
+    ...o.env,
   };
 }
 

@@ -44,6 +44,12 @@ export const PROBLEM_TYPES = {
   "question-resolved": { status: 409, title: "Question resolved", description: "The question is resolved; its baseline and outcome can no longer change except by a correction with a reason." },
   "no-panel-figure": { status: 409, title: "No panel figure", description: "No closed round has answers to this question, so there is nothing to score yet." },
   "account-exists": { status: 409, title: "Account exists", description: "An account with this e-mail exists, or the first organiser was already created." },
+  "smtp-required": {
+    status: 409,
+    title: "SMTP server required",
+    description:
+      "Reminders go only to those who have not answered; without an SMTP server (SMTP_URL) they would wait in the outbox, where the organiser would see who they are for. Send the round-opened notice to everyone instead.",
+  },
   "too-large": { status: 413, title: "Payload Too Large", description: "The request body is over the size limit (2 MiB on the API, 16 KiB at sign-in)." },
   "validation-failed": { status: 422, title: "Invalid input", description: "The request has invalid fields or path parts; `errors` names each field and what is wrong." },
   "rate-limited": { status: 429, title: "Too Many Requests", description: "Over a rate limit (sign-in, invalid credentials, panelist requests, invitations); Retry-After gives the seconds to wait." },

@@ -33,7 +33,18 @@ if (!env.NEXTAUTH_SECRET) {
 }
 
 run(process.execPath, [path.join(root, "bin", "triangulate.mjs"), "migrate"], env);
-run(process.execPath, [path.join(root, "bin", "triangulate.mjs"), "demo", "--if-empty"], env);
+// The demo's sign-ins are kept (data/demo-sign-ins.txt, readable by this user only) and printed
+// again at the very end, after the build's output, where they do not scroll away.
+const signInsFile = path.join(dataDir, "demo-sign-ins.txt");
+const demo = spawnSync(process.execPath, [path.join(root, "bin", "triangulate.mjs"), "demo", "--if-empty"], { stdio: ["ignore", "pipe", "inherit"], env, encoding: "utf8" });
+if (demo.status !== 0) {
+  process.stdout.write(demo.stdout ?? "");
+  console.error(`triangulate: "triangulate demo --if-empty" failed (exit ${demo.status})`);
+  process.exit(demo.status ?? 1);
+}
+if (demo.stdout.includes("password:")) writeFileSync(signInsFile, demo.stdout, { mode: 0o600 });
+else process.stdout.write(demo.stdout);
+const signIns = existsSync(signInsFile) ? readFileSync(signInsFile, "utf8") : null;
 
 function newestMtime(p) {
   if (!existsSync(p)) return 0;
@@ -53,6 +64,20 @@ if (!existsSync(buildId) || Math.max(...sources) > statSync(buildId).mtimeMs) {
 }
 
 // The production server: Next.js, with the answer route served directly (lib/http/server.ts).
-const server = spawn(process.execPath, [path.join(root, "bin", "triangulate.mjs"), "serve", "--port", env.PORT], { stdio: "inherit", env });
+const server = spawn(process.execPath, [path.join(root, "bin", "triangulate.mjs"), "serve", "--port", env.PORT], { stdio: ["inherit", "pipe", "inherit"], env });
+let announced = false;
+server.stdout.on("data", (chunk) => {
+  process.stdout.write(chunk);
+  if (announced || !String(chunk).includes("serving on")) return;
+  announced = true;
+  if (signIns) {
+    process.stdout.write(
+      `\n${"=".repeat(72)}\nSign in at ${env.NEXTAUTH_URL}/sign-in with the demo accounts (kept in ${path.relative(root, signInsFile)}):\n${signIns}` +
+        `More accounts: npx triangulate create-organiser --email E --name N --password P [--role reviewer]\n${"=".repeat(72)}\n`,
+    );
+  } else {
+    process.stdout.write(`Sign in at ${env.NEXTAUTH_URL}/sign-in. Make an account with: npx triangulate create-organiser --email E --name N --password P [--role reviewer]\n`);
+  }
+});
 for (const sig of ["SIGINT", "SIGTERM"]) process.on(sig, () => server.kill(sig));
 server.on("exit", (code) => process.exit(code ?? 0));

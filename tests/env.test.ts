@@ -44,3 +44,18 @@ describe("parseEnv", () => {
     expect(message).toMatch(/TRIANGULATE_SQLITE_SYNCHRONOUS: must be NORMAL or FULL/);
   });
 });
+
+describe("SMTP settings", () => {
+  it("accepts an smtp:// or smtps:// URL with a sender, and neither (the outbox)", () => {
+    const e = parseEnv({ NODE_ENV: "development", SMTP_URL: "smtp://mailer:pw@mail.quillmoor.example:587", MAIL_FROM: "Quillmoor panels <panels@quillmoor.example>" });
+    expect(e.SMTP_URL).toBe("smtp://mailer:pw@mail.quillmoor.example:587");
+    expect(parseEnv({ NODE_ENV: "development", SMTP_URL: "smtps://mail.quillmoor.example", MAIL_FROM: "panels@quillmoor.example" }).MAIL_FROM).toBe("panels@quillmoor.example");
+    expect(parseEnv({ NODE_ENV: "development" }).SMTP_URL).toBeUndefined();
+  });
+
+  it("refuses another scheme, a URL without a sender, and a sender that is not an address", () => {
+    expect(() => parseEnv({ NODE_ENV: "development", SMTP_URL: "http://mail.quillmoor.example", MAIL_FROM: "p@quillmoor.example" })).toThrow(/SMTP_URL: must be an smtp:\/\/ or smtps:\/\/ URL/);
+    expect(() => parseEnv({ NODE_ENV: "development", SMTP_URL: "smtp://mail.quillmoor.example" })).toThrow(/MAIL_FROM: must be set with SMTP_URL/);
+    expect(() => parseEnv({ NODE_ENV: "development", SMTP_URL: "smtp://mail.quillmoor.example", MAIL_FROM: "panels" })).toThrow(/MAIL_FROM: must be an e-mail address/);
+  });
+});

@@ -137,7 +137,7 @@ export async function loadPastPanels(actor: Actor, members: readonly RosterMembe
     });
     await setPanelBlendRule(actor, panel.id, { rule: "inverse-mse" });
     const invited = past.invited.map((i) => members[i]);
-    const issued = await createInvitations(actor, panel.id, { rosterMemberIds: invited.map((m) => m.id), expiresInDays: 1 });
+    const issued = await createInvitations(actor, panel.id, { rosterMemberIds: invited.map((m) => m.id), expiresInDays: 1, send: false });
     await openRound(actor, panel.id, 1, {});
     const firstK = k;
     for (const i of past.invited) {

@@ -194,7 +194,7 @@ async function load(options: { ifEmpty: boolean }, io: CommandIo): Promise<numbe
   await sharePanel(actor, panel.id, { email: reviewer.email, role: "reviewer" });
   const questionIds = [panel.questions[0].id, panel.questions[1].id] as const;
 
-  const issued = await createInvitations(actor, panel.id, { rosterMemberIds: members.slice(0, 7).map((m) => m.id), expiresInDays: 60 });
+  const issued = await createInvitations(actor, panel.id, { rosterMemberIds: members.slice(0, 7).map((m) => m.id), expiresInDays: 60, send: false });
   const tokens = members.slice(0, 7).map((m) => issued.find((i) => i.rosterMemberId === m.id)!.token);
 
   await openRound(actor, panel.id, 1, {});
@@ -216,7 +216,7 @@ async function load(options: { ifEmpty: boolean }, io: CommandIo): Promise<numbe
     `  history: ${PAST_PANELS.length} earlier panels with ${PAST_PANELS.reduce((n, p) => n + p.questions.length, 0)} resolved questions (track records, bias factors, inverse-MSE weights)`,
     `  organiser  organiser@quillmoor.example  password: ${organiserPassword}`,
     `  reviewer   reviewer@quillmoor.example   password: ${reviewerPassword}`,
-    "  panelist links (secret; shown only now):",
+    "  panelist links (each is one person's secret; re-issue one on the panel page if it leaks):",
     ...issued.map((i) => `    ${i.name.padEnd(18)} ${process.env.NEXTAUTH_URL ?? ""}${i.link}`),
   ];
   io.out(lines.join("\n") + "\n");

@@ -70,7 +70,7 @@ const MINUTE = 60_000;
 /**
  * The limits. Sign-in: 10 attempts per address and account, and 30 per account from anywhere,
  * per 15 minutes (scrypt already costs tens of milliseconds per guess). Invitations: an organiser
- * may create or re-issue invitations 60 times a minute (each call up to 200 people). Panelist
+ * may create or re-issue invitations or send notices 60 times a minute (each call up to 200 people). Panelist
  * requests: 120 a minute per invitation. Bearer tokens that do not resolve (unknown, revoked,
  * expired): 300 a minute per address, then every request from it is refused until the window ends.
  */
@@ -83,7 +83,7 @@ export const limits = {
 };
 
 /** Operations counted against `limits.invitations` (by organiser). */
-export const INVITATION_OPERATIONS: ReadonlySet<string> = new Set(["createInvitations", "reissueInvitation"]);
+export const INVITATION_OPERATIONS: ReadonlySet<string> = new Set(["createInvitations", "reissueInvitation", "sendNotices"]);
 
 /**
  * Counts one password check against the sign-in limits: per address and account, and per account

@@ -44,6 +44,8 @@ export interface PanelistQuestionView extends QuestionView {
   readonly answer: AnswerView | null;
   /** All versions in the current round, oldest first. */
   readonly versions: readonly AnswerView[];
+  /** The panelist's final answer in the round before the current one (null in round 1 or without one). */
+  readonly previousAnswer: AnswerView | null;
 }
 
 export interface PanelistPanelView {
@@ -115,6 +117,9 @@ export async function getPanelistPanel(actor: Actor): Promise<PanelistPanelView>
   const versions = round
     ? await db.answer.findMany({ where: { roundId: round.id, invitationId: me.invitationId }, orderBy: { version: "asc" } })
     : [];
+  const previous = round ? panel.rounds.find((r) => r.number === round.number - 1) : undefined;
+  // Oldest first, so the last one per question is the final (highest-version) answer.
+  const earlier = previous ? await db.answer.findMany({ where: { roundId: previous.id, invitationId: me.invitationId }, orderBy: { version: "asc" } }) : [];
   const accepting = round?.status === "open" && panel.status !== "finished";
   const required = accepting && round ? await explanationsRequired(db, me, round.number) : new Map<string, string>();
   return {
@@ -130,6 +135,7 @@ export async function getPanelistPanel(actor: Actor): Promise<PanelistPanelView>
         rationaleReason: required.get(q.id) ?? null,
         answer: mine.at(-1) ?? null,
         versions: mine,
+        previousAnswer: ((a) => (a ? answerView(a, previous!.number) : null))(earlier.filter((v) => v.questionId === q.id).at(-1)),
       };
     }),
   };

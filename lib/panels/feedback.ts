@@ -53,6 +53,8 @@ export interface QuestionFeedback {
 export interface FeedbackView {
   /** The round the feedback is about (the latest closed round); null before round 1 closes. */
   readonly round: number | null;
+  /** True when the panel is finished: there is no next round to keep or revise an answer in. */
+  readonly finished: boolean;
   readonly questions: readonly QuestionFeedback[];
 }
 
@@ -78,11 +80,14 @@ export async function getFeedback(actor: Actor, more?: { readonly questionId: st
     orderBy: { number: "desc" },
     include: { statistics: { include: { question: true }, orderBy: { question: { position: "asc" } } } },
   });
-  if (!round) return { round: null, questions: [] };
+  const finished = (await db.panel.findUniqueOrThrow({ where: { id: me.panelId }, select: { status: true } })).status === "finished";
+  if (!round) return { round: null, finished, questions: [] };
   const finals = await finalAnswers(db, round.id);
-  const required = await explanationsRequired(db, me, round.number + 1);
+  // A finished panel has no next round, so nobody is asked to explain in it.
+  const required = finished ? new Map<string, string>() : await explanationsRequired(db, me, round.number + 1);
   return {
     round: round.number,
+    finished,
     questions: round.statistics.map((row): QuestionFeedback => {
       const s = JSON.parse(row.data) as QuestionStatistics;
       const answers = finals.get(row.questionId) ?? [];

@@ -16,6 +16,7 @@ import type { InvitationCreate, InvitationReissue } from "@/lib/validation/input
 import { MAX_PANELISTS_PER_PANEL, requireWithinLimit } from "@/lib/validation/limits";
 import { authorisePanel } from "./access";
 import { recordAudit } from "./audit";
+import { mailInvitations, type Delivery } from "./messages";
 
 export type InvitationStatus = "active" | "revoked" | "expired";
 
@@ -35,6 +36,15 @@ export interface IssuedInvitation extends InvitationView {
   readonly token: string;
   /** Path of the panelist's link (prefix the site's address). */
   readonly link: string;
+  /** How the link was e-mailed, when it was asked for (input `send`). */
+  readonly delivery?: Delivery;
+}
+
+/** `issued` with each one's delivery, after e-mailing them when `send` (lib/panels/messages.ts). */
+async function mailed<T extends IssuedInvitation>(panelId: string, title: string, send: boolean, site: string, issued: T[]): Promise<T[]> {
+  if (!send || issued.length === 0) return issued;
+  const deliveries = await mailInvitations(panelId, title, site, issued);
+  return issued.map((i, k) => ({ ...i, delivery: deliveries[k] }));
 }
 
 const DAY_MS = 24 * 60 * 60 * 1000;
@@ -88,17 +98,17 @@ export async function listInvitations(actor: Actor, panelId: string): Promise<In
 
 /**
  * Invites members of the organiser's roster. Returns each new invitation with its token and
- * link (shown once). @throws NotFoundError for an id not on the organiser's roster,
+ * link (shown once), e-mailed to each person when `input.send` (links on `site`). @throws NotFoundError for an id not on the organiser's roster,
  * ConflictError when someone is already invited or the panel is finished.
  */
-export async function createInvitations(actor: Actor, panelId: string, input: InvitationCreate): Promise<IssuedInvitation[]> {
+export async function createInvitations(actor: Actor, panelId: string, input: InvitationCreate, site = ""): Promise<IssuedInvitation[]> {
   const access = await authorisePanel(actor, panelId, "manage");
   if (access.panel.status === "finished") throw new ConflictError("panel-finished", "The panel is finished.");
   const ids = [...new Set(input.rosterMemberIds)];
   const members = await db.rosterMember.findMany({ where: { id: { in: ids }, ownerId: access.actor.userId } });
   if (members.length !== ids.length) throw new NotFoundError("A roster member");
   const expiresAt = new Date(Date.now() + input.expiresInDays * DAY_MS);
-  return db.$transaction(async (tx) => {
+  const issued = await db.$transaction(async (tx) => {
     const already = await tx.invitation.findMany({ where: { panelId, rosterMemberId: { in: ids } }, include: { rosterMember: true } });
     if (already.length > 0) {
       throw new ConflictError("already-invited", `Already invited: ${already.map((a) => a.rosterMember.name).join(", ")}. Re-issue their link instead.`);
@@ -119,6 +129,7 @@ export async function createInvitations(actor: Actor, panelId: string, input: In
     await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "invitation.created", detail: { count: issued.length } });
     return issued;
   });
+  return mailed(panelId, access.panel.title, input.send, site, issued);
 }
 
 async function ownInvitation(panelId: string, invitationId: string) {
@@ -142,13 +153,14 @@ export async function revokeInvitation(actor: Actor, panelId: string, invitation
 
 /**
  * Gives the invitation a new token (and a new expiry), which also lifts a revocation; the old
- * link stops working at once. Returns the new token once.
+ * link stops working at once. Returns the new token once, e-mailed when `input.send` (link on `site`).
  */
 export async function reissueInvitation(
   actor: Actor,
   panelId: string,
   invitationId: string,
   input: InvitationReissue,
+  site = "",
 ): Promise<IssuedInvitation> {
   const access = await authorisePanel(actor, panelId, "manage");
   if (access.panel.status === "finished") throw new ConflictError("panel-finished", "The panel is finished.");
@@ -163,5 +175,6 @@ export async function reissueInvitation(
     await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "invitation.reissued", detail: { invitationId } });
     return u;
   });
-  return { ...view(updated), token, link: `/p/${token}` };
+  const [issued] = await mailed(panelId, access.panel.title, input.send, site, [{ ...view(updated), token, link: `/p/${token}` }]);
+  return issued;
 }

@@ -170,6 +170,28 @@ export async function getPanel(actor: Actor, panelId: string): Promise<PanelView
 }
 
 /**
+ * How far the panel's questions are past the rounds: the first question without a baseline and
+ * the first without an outcome (null when none is missing), and how many have each.
+ */
+export async function getPanelMilestones(
+  actor: Actor,
+  panelId: string,
+): Promise<{ baselines: number; resolved: number; firstWithoutBaseline: string | null; firstUnresolved: string | null }> {
+  await authorisePanel(actor, panelId, "read");
+  const questions = await db.question.findMany({
+    where: { panelId },
+    orderBy: { position: "asc" },
+    select: { id: true, baseline: { select: { id: true } }, resolution: { select: { id: true } } },
+  });
+  return {
+    baselines: questions.filter((q) => q.baseline).length,
+    resolved: questions.filter((q) => q.resolution).length,
+    firstWithoutBaseline: questions.find((q) => !q.baseline)?.id ?? null,
+    firstUnresolved: questions.find((q) => !q.resolution)?.id ?? null,
+  };
+}
+
+/**
  * Creates a panel owned by the organiser, with its questions (in the given order) and round 1
  * as a draft. Omitted rules take STOPPING_RULE_DEFAULTS.
  */

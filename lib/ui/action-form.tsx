@@ -7,6 +7,7 @@
  * rejects it; it is cleared only after a success, when `resetOnSuccess` is set.
  */
 import { createContext, startTransition, useActionState, useContext, useEffect, useRef, type ReactNode } from "react";
+import { CopyButton } from "./copy-button";
 import { EMPTY_FORM_STATE, type FormAction, type FormState } from "./form-state";
 
 const StateContext = createContext<FormState>(EMPTY_FORM_STATE);
@@ -26,6 +27,11 @@ export interface ActionFormProps {
   readonly ariaLabel?: string;
   /** Keeps the form (and what it last returned, e.g. secrets shown once) but disables submitting. */
   readonly submitDisabled?: boolean;
+  /**
+   * The children hold other submit buttons (with a name and value): Enter in a field then still
+   * submits as the main button would (a hidden first button is the form's default button).
+   */
+  readonly otherSubmits?: boolean;
 }
 
 export default function ActionForm({
@@ -40,6 +46,7 @@ export default function ActionForm({
   successMessage,
   ariaLabel,
   submitDisabled = false,
+  otherSubmits = false,
 }: ActionFormProps) {
   const [state, formAction, pending] = useActionState(action, EMPTY_FORM_STATE);
   const form = useRef<HTMLFormElement>(null);
@@ -57,11 +64,12 @@ export default function ActionForm({
           onSubmit={(event) => {
             event.preventDefault();
             if (confirm && !window.confirm(confirm)) return;
-            // The button that submitted counts (a server-side confirmation's button carries its value).
+            // With the button that submitted it ("keep my answer" and a server-side confirmation carry their values).
             const data = new FormData(event.currentTarget, (event.nativeEvent as SubmitEvent).submitter);
             startTransition(() => formAction(data));
           }}
         >
+          {otherSubmits ? <button type="submit" hidden tabIndex={-1} aria-hidden="true" disabled={pending || submitDisabled} /> : null}
           {state.message && !state.ok ? (
             <p className="form-error" role="alert">
               {state.message}
@@ -117,6 +125,7 @@ export function SecretOnce({ label, value }: { label: string; value: string }) {
       <strong>{label}</strong>
       <span className="hint">Copy it now: it is shown only this once and cannot be displayed again.</span>
       <code className="secret">{value}</code>
+      <CopyButton text={value} />
     </div>
   );
 }

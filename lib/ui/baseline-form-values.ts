@@ -8,7 +8,7 @@
  * ("Name: 120, 340, 610, …"), the market potential from a question (`marketSource` = question,
  * `marketQuestionId`) or as `marketLow` / `marketMedian` / `marketHigh`, and `launchNote`.
  */
-import { withNumbers } from "./form-result";
+import { typedNumberErrors, withNumbers } from "./form-result";
 
 export type BaselineFormRead =
   | { readonly ok: true; readonly input: Record<string, unknown> }
@@ -71,8 +71,10 @@ export function baselineFormValues(values: Record<string, string>): BaselineForm
     if (future.size > 0) input.futureValues = Object.fromEntries(future);
   }
   if (values.analogue === "yes") {
-    const factor = withNumbers({ scaleFactor: values.scaleFactor ?? "" }, ["scaleFactor"]).scaleFactor;
-    input.analogue = { scaleFactor: factor, note: values.scaleNote ?? "" };
+    const scale = withNumbers({ scaleFactor: values.scaleFactor ?? "" }, ["scaleFactor"]);
+    for (const [, messages] of Object.entries(typedNumberErrors(scale)?.fieldErrors ?? {})) (errors["analogue.scaleFactor"] ??= []).push(...(messages ?? []));
+    input.analogue = { scaleFactor: scale.scaleFactor, note: values.scaleNote ?? "" };
   }
+  for (const [field, messages] of Object.entries(typedNumberErrors(input)?.fieldErrors ?? {})) (errors[field] ??= []).push(...(messages ?? []));
   return Object.keys(errors).length > 0 ? { ok: false, fieldErrors: errors } : { ok: true, input };
 }

@@ -5,6 +5,7 @@
  */
 import type { ZodError } from "zod";
 import { DomainError } from "../errors";
+import { parseTypedNumber } from "../validation/typed-number";
 import type { FormState } from "./form-state";
 
 /**
@@ -34,24 +35,36 @@ function readable(issue: ZodError["issues"][number]): string {
   return issue.message;
 }
 
+/** Where withNumbers keeps what it could not read, beside the entries (a symbol key, never a form field). */
+const TYPED_NUMBER_ERRORS = Symbol("typed number errors");
+
 /**
- * Form entries converted for a schema that wants numbers: each named field becomes a number
- * when it holds one, is left out when empty (so an optional field takes its default), and is
- * kept as the typed text otherwise (the schema then reports it as "must be a number").
+ * Form entries converted for a schema that wants numbers: each named field is read with
+ * lib/validation/typed-number.ts in the person's `locale` (default "en") and becomes a number,
+ * is left out when empty (so an optional field takes its default), or — when it cannot be read —
+ * is left out and its message kept for `typedNumberErrors` (so it never reads as "required").
  */
-export function withNumbers(values: Record<string, string>, numberFields: readonly string[]): Record<string, unknown> {
+export function withNumbers(values: Readonly<Record<string, unknown>>, numberFields: readonly string[], locale?: string): Record<string, unknown> {
   const out: Record<string, unknown> = { ...values };
+  const errors: { field: string; message: string }[] = [];
   for (const f of numberFields) {
-    const raw = values[f]?.trim() ?? "";
-    if (raw === "") delete out[f];
+    const raw = values[f];
+    const read = parseTypedNumber(typeof raw === "string" ? raw : "", locale);
+    if ("value" in read) out[f] = read.value;
     else {
-      // Spaces and English thousands separators ("12,500") are accepted; "1,5" is not a number.
-      const compact = raw.replace(/[\s_]/g, "");
-      const n = Number(/^-?\d{1,3}(,\d{3})+(\.\d+)?$/.test(compact) ? compact.replace(/,/g, "") : compact);
-      out[f] = Number.isFinite(n) ? n : raw;
+      delete out[f];
+      if ("error" in read) errors.push({ field: f, message: read.error });
     }
   }
+  // Not enumerable: zod, JSON and equality checks see only the entries.
+  Object.defineProperty(out, TYPED_NUMBER_ERRORS, { value: errors, enumerable: false });
   return out;
+}
+
+/** The form state for the number fields withNumbers could not read in `input`, or null when there are none. */
+export function typedNumberErrors(input: unknown): FormState | null {
+  const errors = input !== null && typeof input === "object" ? ((input as Record<symbol, unknown>)[TYPED_NUMBER_ERRORS] as { field: string; message: string }[] | undefined) : undefined;
+  return errors && errors.length > 0 ? { ok: false, message: "Please correct the fields marked below.", fieldErrors: byField(errors) } : null;
 }
 
 /** A thrown error as a FormState; rethrows Next's redirect / not-found signals. */

@@ -11,7 +11,7 @@ import { getCurrentUser } from "../session";
 import type { FixedWindowLimiter } from "../http/rate-limit";
 import { hitLimit, textProblems } from "./action-guard";
 import type { FormState } from "./form-state";
-import { fromThrown, fromZodError } from "./form-result";
+import { fromThrown, fromZodError, typedNumberErrors } from "./form-result";
 
 export const NOT_SIGNED_IN: FormState = { ok: false, message: "Your session has ended; sign in again." };
 
@@ -41,6 +41,8 @@ export async function signedInAction<I, B = undefined>(
   if (!id.success) return fromZodError(id.error);
   let input = undefined as B;
   if (body) {
+    const unreadable = typedNumberErrors(body[1]);
+    if (unreadable) return unreadable;
     const parsed = body[0].safeParse(body[1]);
     if (!parsed.success) return fromZodError(parsed.error);
     input = parsed.data;

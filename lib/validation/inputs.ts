@@ -90,9 +90,18 @@ export type RosterMemberUpdate = z.infer<typeof rosterMemberUpdate>;
 export const invitationCreate = z.object({
   rosterMemberIds: z.array(id).min(1, "choose at least one roster member").max(200),
   expiresInDays: z.number().int().min(1).max(365).default(30).describe("Days until the links expire."),
+  send: z.boolean().default(false).describe("E-mail each person their link (to the panel's outbox when no SMTP server is configured)."),
 });
 export type InvitationCreate = z.infer<typeof invitationCreate>;
-export const invitationReissue = z.object({ expiresInDays: z.number().int().min(1).max(365).default(30) });
+export const invitationReissue = z.object({
+  expiresInDays: z.number().int().min(1).max(365).default(30),
+  send: z.boolean().default(false).describe("E-mail the person their new link (to the outbox without an SMTP server)."),
+});
+
+/** Which e-mail to send for the open round: the notice to everyone, or a reminder to those who have not answered. */
+export const noticeInput = z.object({
+  kind: z.enum(["round-opened", "reminder"], { error: 'must be "round-opened" or "reminder"' }),
+});
 export type InvitationReissue = z.infer<typeof invitationReissue>;
 
 const deadline = z.iso
@@ -161,6 +170,7 @@ export const params = {
       .positive(ROUND_NUMBER),
   }),
   invitation: z.object({ panelId: id, invitationId: id }),
+  outboxMessage: z.object({ panelId: id, messageId: id }),
   share: z.object({ panelId: id, email: shareEmail }),
   member: z.object({ memberId: id }),
   token: z.object({ tokenId: id }),

@@ -108,6 +108,26 @@ export const invitation = z.object({
 export const issuedInvitation = invitation.extend({
   token: z.string().describe("Shown once: the panelist's secret (Bearer token on the API)."),
   link: z.string().describe("Path of the panelist's page: /p/<token>"),
+  delivery: z.enum(["sent", "outbox", "failed"]).optional().describe("With send: true — sent by SMTP, or kept in the panel's outbox."),
+});
+
+export const deliveryReport = z.object({
+  kind: z.enum(["round-opened", "reminder"]),
+  roundNumber: z.number().int(),
+  recipients: z.number().int().describe("People written to (reminders: those who have not answered every question)."),
+  sent: z.number().int(),
+  outbox: z.number().int().describe("Kept in the panel's outbox (no SMTP server, or refused by it)."),
+  failed: z.number().int().describe("Reminders the SMTP server refused (never kept in the outbox)."),
+});
+
+export const outboxMessage = z.object({
+  id: z.string(),
+  kind: z.string(),
+  to: z.string(),
+  subject: z.string(),
+  body: z.string(),
+  reason: z.string().describe("Why it was not sent."),
+  createdAt: dateTime,
 });
 
 export const progress = z.object({
@@ -241,12 +261,14 @@ export const panelistPanel = z.object({
       rationaleReason: z.string().nullable(),
       answer: answer.nullable(),
       versions: z.array(answer),
+      previousAnswer: answer.nullable().describe("The panelist's final answer in the previous round (to keep or revise); null in round 1."),
     }),
   ),
 });
 
 export const feedback = z.object({
   round: z.number().int().nullable(),
+  finished: z.boolean().describe("The panel is finished: no further round."),
   questions: z.array(
     z.object({
       questionId: z.string(),

@@ -146,6 +146,18 @@ const ROWS: readonly Row[] = [
   { route: "createInvitations", path: () => `/api/v1/panels/${P}/invitations`, body: () => ({ rosterMemberIds: ["placeholder"] }), expect: ownerOnly(201) },
   { route: "revokeInvitation", path: async () => `/api/v1/panels/${P}/invitations/${await freshInvitation()}`, expect: ownerOnly(200) },
   { route: "reissueInvitation", path: async () => `/api/v1/panels/${P}/invitations/${await freshInvitation()}/reissue`, body: () => ({}), expect: ownerOnly(201) },
+  // P's round 2 is open; the suite's server has no SMTP server, so notices go to the outbox.
+  { route: "sendNotices", path: () => `/api/v1/panels/${P}/messages`, body: () => ({ kind: "round-opened" }), expect: ownerOnly(200) },
+  { route: "listOutbox", path: () => `/api/v1/panels/${P}/outbox`, expect: ownerOnly(200) },
+  {
+    route: "deleteOutboxMessage",
+    path: async () => {
+      await ok("POST", `/api/v1/panels/${P}/messages`, owner, { kind: "round-opened" });
+      const [message] = await ok("GET", `/api/v1/panels/${P}/outbox`, owner);
+      return `/api/v1/panels/${P}/outbox/${message.id}`;
+    },
+    expect: ownerOnly(200),
+  },
   { route: "listRounds", path: () => `/api/v1/panels/${P}/rounds`, expect: panelRead(200) },
   { route: "startNextRound", path: async () => `/api/v1/panels/${(await freshPanel("closed")).id}/rounds`, body: () => ({}), expect: ownerOnly(201) },
   { route: "openRound", path: async () => `/api/v1/panels/${(await freshPanel()).id}/rounds/1/open`, body: () => ({}), expect: ownerOnly(200) },

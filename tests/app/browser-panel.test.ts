@@ -199,6 +199,17 @@ describe("Delphi panel in the browser", () => {
       rosterIds.push(v);
     }
     expect(rosterIds).toHaveLength(5);
+    // The page leads with its steps: questions and invitations come before the rounds, and with
+    // a question written the next step is to invite (issue 15).
+    expect(await org.locator("[data-step]").evaluateAll((els) => els.map((e) => e.getAttribute("data-step")))).toEqual(["questions", "invite", "rounds", "blend", "outcome", "report"]);
+    expect(await org.locator("[data-next-step]").getAttribute("data-next-step")).toBe("invite");
+    const order = await org.locator("section[id]").evaluateAll((els) => els.map((e) => e.id));
+    expect(order.indexOf("questions")).toBeLessThan(order.indexOf("invitations"));
+    expect(order.indexOf("invitations")).toBeLessThan(order.indexOf("rounds"));
+    // Nobody is pre-checked: one click must not invite the whole roster.
+    const boxes = form.locator('input[name="rosterMemberIds"]');
+    expect(await boxes.evaluateAll((els) => els.filter((e) => (e as HTMLInputElement).checked).length)).toBe(0);
+    for (const box of await boxes.all()) await box.check();
     await form.getByRole("button", { name: "Create invitations" }).click();
     await expect.poll(() => org.locator(".secret-once").count()).toBe(5);
     for (const box of await org.locator(".secret-once").all()) {
@@ -211,6 +222,27 @@ describe("Delphi panel in the browser", () => {
     }
     expect(links.size).toBe(5);
     await org.screenshot({ path: path.join(shots, "organiser-panel-page.png"), fullPage: true });
+    // The suite's server has no SMTP server: each invitation waits in the outbox, one per person,
+    // with that person's link and nobody else's name, e-mail or link.
+    await expect.poll(() => org.locator("[data-outbox-count]").getAttribute("data-outbox-count")).toBe("5");
+    await org.goto(`${panelUrl}/outbox`);
+    const messages = org.locator("[data-outbox-message]");
+    await expect.poll(() => messages.count()).toBe(5);
+    for (const m of await messages.all()) {
+      const to = (await m.locator("[data-outbox-to]").textContent()) ?? "";
+      const body = (await m.locator("[data-outbox-body]").textContent()) ?? "";
+      const self = PANELISTS.find((p) => to.includes(p.email))!;
+      expect(body).toContain(links.get(self.email)!);
+      for (const other of PANELISTS.filter((p) => p !== self)) {
+        expect(body).not.toContain(other.name);
+        expect(body).not.toContain(other.email);
+        expect(body).not.toContain(links.get(other.email)!);
+      }
+      expect(await m.getByRole("button", { name: "Copy message" }).count()).toBe(1);
+      expect(await m.getByRole("button", { name: "Download .eml" }).count()).toBe(1);
+    }
+    await org.screenshot({ path: path.join(shots, "organiser-outbox.png"), fullPage: true });
+    await org.goto(panelUrl);
     // Shown once: after a reload the links are gone.
     await org.reload();
     expect(await org.locator(".secret-once").count()).toBe(0);
@@ -311,6 +343,9 @@ describe("Delphi panel in the browser", () => {
       await expect.poll(() => page.locator("[data-round-open]").getAttribute("data-round-open")).toBe("2");
       const outside = p.r1 < want1.q1 || p.r1 > want1.q3;
       expect(await page.locator('[data-rationale-required="true"]').count()).toBe(outside ? 1 : 0);
+      // Round 2 starts from the panelist's round 1 answer, with a one-tap "keep my answer".
+      expect(await page.getByLabel(/^Your estimate/).inputValue()).toBe(String(p.r1));
+      expect(await page.locator("[data-keep]").count()).toBe(1);
       await page.getByLabel(/^Your estimate/).fill(String(p.r2));
       await page.getByLabel(/^Rationale/).fill("");
       await page.getByRole("button", { name: /Save( revised)? answer/ }).click();
@@ -325,6 +360,12 @@ describe("Delphi panel in the browser", () => {
     await expect.poll(() => org.locator('[data-testid="progress-count"]').textContent(), { timeout: 20_000 }).toBe("5/5");
     await org.getByRole("button", { name: "Close round 2" }).click();
     await expect.poll(() => org.locator('tr[data-round="2"]').count(), { timeout: 15_000 }).toBe(1);
+    // After the round the main (not "secondary") button follows the stopping rules' verdict.
+    const verdict = await org.locator("[data-recommendation]").getAttribute("data-recommendation");
+    const after = org.locator('[data-after-round="2"]');
+    expect(await after.getAttribute("data-rules-say")).toBe(verdict);
+    const primary = await after.locator("button[type=submit]:not(.secondary):not([hidden])").allTextContents();
+    expect(primary).toEqual([verdict === "stop" ? "Finish the panel" : "Start round 3"]);
   });
 
   it("shows the organiser a convergence view whose figures match R for both rounds", async () => {

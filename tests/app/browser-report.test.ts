@@ -204,7 +204,7 @@ describe("triangulation in the browser", () => {
     await expect.poll(() => org.locator('[data-field="analogue.note"]').textContent()).toContain("must not be empty");
     await org.getByLabel(/^Note/).fill("Wren-1 launch months; Wren-2 is sold through 2.5 times as many dealers");
     await org.getByRole("button", { name: "Preview", exact: true }).click();
-    await expect.poll(() => org.locator("[data-baseline-preview]").count()).toBe(1);
+    await expect.poll(() => org.locator("[data-baseline-preview]").count(), { timeout: 30_000 }).toBe(1);
     expect(await stat(org, "preview-observations")).toBe(12);
     // Each value × 2.5 (the stated factor), by hand.
     const shown = await org.locator('[data-preview-row] [data-stat="preview-value"]').evaluateAll((els) => els.map((e) => Number(e.getAttribute("data-value"))));
@@ -221,7 +221,7 @@ describe("triangulation in the browser", () => {
     await org.getByRole("combobox", { name: /^Method/ }).selectOption("naive");
     await org.getByLabel(/^Horizon/).fill("1");
     await org.getByRole("button", { name: "Preview", exact: true }).click();
-    await expect.poll(() => org.locator("[data-baseline-preview]").count()).toBe(1);
+    await expect.poll(() => org.locator("[data-baseline-preview]").count(), { timeout: 30_000 }).toBe(1);
     expect(await stat(org, "preview-observations")).toBe(12);
     expect(await org.locator('[data-chart="baseline"]').first().getAttribute("data-points")).toBe("12");
 

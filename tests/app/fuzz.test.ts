@@ -109,6 +109,7 @@ function validBody(op: string): unknown {
     sharePanel: { email: "nobody@quillmoor.example", role: "reviewer" },
     createInvitations: { rosterMemberIds: [MEMBER] },
     reissueInvitation: {},
+    sendNotices: { kind: "round-opened" },
     startNextRound: { open: true },
     openRound: {},
     revealIdentities: { reason: "fuzz" },
@@ -159,7 +160,7 @@ function invalidBody(r: RouteDef): unknown {
 
 /** Path parameters of the owner's resources. */
 function ownPath(r: RouteDef, overrides: Record<string, string> = {}): string {
-  const ids: Record<string, string> = { panelId: P, questionId: Q, roundNumber: "1", invitationId: INV, email: OTHER_EMAIL, memberId: MEMBER, tokenId: TOKEN_ID, ...overrides };
+  const ids: Record<string, string> = { panelId: P, questionId: Q, roundNumber: "1", invitationId: INV, email: OTHER_EMAIL, memberId: MEMBER, tokenId: TOKEN_ID, messageId: "c0000000000000000000000001", ...overrides };
   return r.path.replace(/\{(\w+)\}/g, (_, name: string) => encodeURIComponent(ids[name]));
 }
 

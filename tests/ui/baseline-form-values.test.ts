@@ -39,10 +39,10 @@ describe("baselineFormValues", () => {
     expect(parsed.error?.issues.map((i) => i.path.join("."))).toEqual(["analogue.note"]);
   });
 
-  it("leaves a typed non-number season as text, so the schema reports it on that field", () => {
+  it("refuses a typed non-number season on that field, saying what was wrong (not \"required\")", () => {
     const r = baselineFormValues({ source: "values", values: "1 2 3", season: "four" });
-    if (!r.ok) throw new Error("expected the form to be read");
-    const parsed = baselineInput.safeParse(r.input);
-    expect(parsed.error?.issues.map((i) => i.path.join("."))).toEqual(["season"]);
+    if (r.ok) throw new Error("expected the season to be refused");
+    expect(Object.keys(r.fieldErrors)).toEqual(["season"]);
+    expect(r.fieldErrors.season?.[0]).toContain("contains letters");
   });
 });

@@ -7,7 +7,9 @@ import { formatDateTime, formatNumber } from "@/lib/ui/format";
 import LinkProblem from "@/lib/ui/link-problem";
 import { panelistFromLink } from "@/lib/ui/panelist-access";
 import QuestionFeedback from "@/lib/ui/question-feedback";
-import { submitAnswerAction } from "./actions";
+import { LocaleField, NumberInput } from "@/lib/ui/typed-number-input";
+import type { PanelistQuestionView } from "@/lib/panels/answers";
+import { submitAllAnswersAction, submitAnswerAction } from "./actions";
 
 // The link is a secret: no referrer leaves the page, and search engines stay out.
 export const metadata: Metadata = { title: "Your answers", referrer: "no-referrer", robots: { index: false, follow: false } };
@@ -20,8 +22,68 @@ export default async function PanelistPage({ params }: { params: Promise<{ token
   const [view, feedback] = await Promise.all([getPanelistPanel(who.actor), getFeedback(who.actor)]);
   const round = view.round;
   const answerAction = submitAnswerAction.bind(null, token);
+  const allAction = submitAllAnswersAction.bind(null, token);
+  // Several questions open at once: one form and one "Save all" button for them all.
+  const together = view.acceptingAnswers && view.questions.length > 1;
   const feedbackFor = (questionId: string) => feedback.questions.find((q) => q.questionId === questionId) ?? null;
   const showInlineFeedback = feedback.round !== null && view.acceptingAnswers;
+
+  const questionList = (
+    <>
+      {view.questions.map((q, i) => {
+          const f = feedbackFor(q.id);
+          const three = q.answerFormat === "three-point";
+          return (
+            <section key={q.id} className="card" data-question={q.id}>
+              <h2>
+                {i + 1}. {q.text}
+              </h2>
+              <p className="muted small">
+                In {q.unit}, for {q.targetPeriod}. Plausible range {formatNumber(q.lowerBound, 8)} to {formatNumber(q.upperBound, 8)}.
+                {q.aggregation === "sum-of-parts" ? " Estimate your own part (e.g. your territory); the panel adds the parts." : ""}
+              </p>
+              {showInlineFeedback && f && feedback.round !== null ? <QuestionFeedback f={f} round={feedback.round} rationales="link" moreHref={`/p/${token}/feedback?q=${encodeURIComponent(q.id)}#f-${q.id}`} /> : null}
+              {q.answer ? (
+                <p className="current-answer" data-current-answer={q.answer.value}>
+                  Your answer in round {q.answer.roundNumber}:{" "}
+                  <strong>
+                    {three && q.answer.low !== null && q.answer.high !== null ? (
+                      <>
+                        low <Figure value={q.answer.low} />, median <Figure value={q.answer.value} />, high{" "}
+                        <Figure value={q.answer.high} />
+                      </>
+                    ) : (
+                      <Figure value={q.answer.value} />
+                    )}{" "}
+                    {q.unit}
+                  </strong>
+                  <span className="muted small">
+                    {" "}
+                    (saved {formatDateTime(q.answer.answeredAt)}
+                    {q.versions.length > 1 ? `; revised ${q.versions.length - 1} time${q.versions.length === 2 ? "" : "s"}` : ""})
+                  </span>
+                  {q.answer.rationale ? (
+                    <>
+                      <br />
+                      <span className="muted small">Your rationale: {q.answer.rationale}</span>
+                    </>
+                  ) : null}
+                </p>
+              ) : null}
+              {together ? (
+                <AnswerFields q={q} prefix={`q${i}.`} />
+              ) : view.acceptingAnswers ? (
+                <ActionForm action={answerAction} submitLabel={q.answer ? "Save revised answer" : "Save answer"} ariaLabel={`Answer to question ${i + 1}`} otherSubmits>
+                  <AnswerFields q={q} prefix="" />
+                </ActionForm>
+              ) : !showInlineFeedback && f && feedback.round !== null ? (
+                <QuestionFeedback f={f} round={feedback.round} rationales="link" moreHref={`/p/${token}/feedback?q=${encodeURIComponent(q.id)}#f-${q.id}`} />
+              ) : null}
+            </section>
+          );
+        })}
+    </>
+  );
 
   return (
     <article className="panelist-page">
@@ -52,92 +114,85 @@ export default async function PanelistPage({ params }: { params: Promise<{ token
         </p>
       ) : null}
 
-      {view.questions.map((q, i) => {
-        const f = feedbackFor(q.id);
-        const three = q.answerFormat === "three-point";
-        return (
-          <section key={q.id} className="card" data-question={q.id}>
-            <h2>
-              {i + 1}. {q.text}
-            </h2>
-            <p className="muted small">
-              In {q.unit}, for {q.targetPeriod}. Plausible range {formatNumber(q.lowerBound, 8)} to {formatNumber(q.upperBound, 8)}.
-              {q.aggregation === "sum-of-parts" ? " Estimate your own part (e.g. your territory); the panel adds the parts." : ""}
-            </p>
-            {showInlineFeedback && f && feedback.round !== null ? <QuestionFeedback f={f} round={feedback.round} rationales="link" moreHref={`/p/${token}/feedback?q=${encodeURIComponent(q.id)}#f-${q.id}`} /> : null}
-            {q.answer ? (
-              <p className="current-answer" data-current-answer={q.answer.value}>
-                Your answer in round {q.answer.roundNumber}:{" "}
-                <strong>
-                  {three && q.answer.low !== null && q.answer.high !== null ? (
-                    <>
-                      low <Figure value={q.answer.low} />, median <Figure value={q.answer.value} />, high{" "}
-                      <Figure value={q.answer.high} />
-                    </>
-                  ) : (
-                    <Figure value={q.answer.value} />
-                  )}{" "}
-                  {q.unit}
-                </strong>
-                <span className="muted small">
-                  {" "}
-                  (saved {formatDateTime(q.answer.answeredAt)}
-                  {q.versions.length > 1 ? `; revised ${q.versions.length - 1} time${q.versions.length === 2 ? "" : "s"}` : ""})
-                </span>
-                {q.answer.rationale ? (
-                  <>
-                    <br />
-                    <span className="muted small">Your rationale: {q.answer.rationale}</span>
-                  </>
-                ) : null}
-              </p>
-            ) : null}
-            {view.acceptingAnswers ? (
-              <ActionForm action={answerAction} submitLabel={q.answer ? "Save revised answer" : "Save answer"} ariaLabel={`Answer to question ${i + 1}`}>
-                <input type="hidden" name="questionId" value={q.id} />
-                {three ? (
-                  <div className="row">
-                    <label>
-                      Low (10th percentile) <span className="hint">Only a 1-in-10 chance it is lower.</span>
-                      <input name="low" inputMode="decimal" defaultValue={q.answer?.low ?? ""} />
-                      <FieldError name="low" />
-                    </label>
-                    <label>
-                      Median estimate (50th percentile) <span className="hint">As likely to be lower as higher.</span>
-                      <input name="value" inputMode="decimal" defaultValue={q.answer?.value ?? ""} />
-                      <FieldError name="value" />
-                    </label>
-                    <label>
-                      High (90th percentile) <span className="hint">Only a 1-in-10 chance it is higher.</span>
-                      <input name="high" inputMode="decimal" defaultValue={q.answer?.high ?? ""} />
-                      <FieldError name="high" />
-                    </label>
-                  </div>
-                ) : (
-                  <label>
-                    Your estimate ({q.unit})
-                    <input name="value" inputMode="decimal" defaultValue={q.answer?.value ?? ""} />
-                    <FieldError name="value" />
-                  </label>
-                )}
-                {q.rationaleRequired ? (
-                  <p className="caution" data-rationale-required="true">
-                    {q.rationaleReason}
-                  </p>
-                ) : null}
-                <label>
-                  Rationale {q.rationaleRequired ? <strong>(required this round)</strong> : <span className="hint">What your estimate rests on; others read it without your name.</span>}
-                  <textarea name="rationale" rows={3} maxLength={2000} defaultValue={q.answer?.rationale ?? ""} />
-                  <FieldError name="rationale" />
-                </label>
-                <FieldError name="questionId" />
-              </ActionForm>
-            ) : !showInlineFeedback && f && feedback.round !== null ? (
-              <QuestionFeedback f={f} round={feedback.round} rationales="link" moreHref={`/p/${token}/feedback?q=${encodeURIComponent(q.id)}#f-${q.id}`} />
-            ) : null}
-          </section>
-        );
-      })}
+      {together ? (
+        <ActionForm action={allAction} submitLabel="Save all answers" ariaLabel="Your answers" otherSubmits>
+          {questionList}
+        </ActionForm>
+      ) : (
+        questionList
+      )}
     </article>
+  );
+}
+
+/** Last round's answer in words, for the "keep my answer" button. */
+function previousText(q: PanelistQuestionView): string {
+  const p = q.previousAnswer!;
+  return q.answerFormat === "three-point" && p.low !== null && p.high !== null
+    ? `low ${formatNumber(p.low, 8)}, median ${formatNumber(p.value, 8)}, high ${formatNumber(p.high, 8)} ${q.unit}`
+    : `${formatNumber(p.value, 8)} ${q.unit}`;
+}
+
+/**
+ * One question's answer fields, named `<prefix><field>` (prefix "q<i>." in the "Save all" form),
+ * prefilled with this round's answer, else last round's; with a one-tap "keep my answer" while
+ * last round's answer is not yet this round's.
+ */
+function AnswerFields({ q, prefix }: { q: PanelistQuestionView; prefix: string }) {
+  const three = q.answerFormat === "three-point";
+  const shown = q.answer ?? q.previousAnswer;
+  return (
+    <>
+      <LocaleField />
+      <input type="hidden" name={`${prefix}questionId`} value={q.id} />
+      {prefix && q.answer ? (
+        <input type="hidden" name={`${prefix}current`} value={JSON.stringify([q.answer.value, q.answer.low, q.answer.high, q.answer.rationale.trim()])} />
+      ) : null}
+      {q.previousAnswer && !q.answer ? (
+        <p className="keep-answer">
+          <button type="submit" name="keep" value={q.id} className="secondary" data-keep={q.id}>
+            Keep my answer ({previousText(q)})
+          </button>{" "}
+          <span className="hint">Your final answer of round {q.previousAnswer.roundNumber}; or change it below.</span>
+        </p>
+      ) : null}
+      {three ? (
+        <div className="row">
+          <label>
+            Low (10th percentile) <span className="hint">Only a 1-in-10 chance it is lower.</span>
+            <NumberInput name={`${prefix}low`} defaultValue={shown?.low} />
+            <FieldError name={`${prefix}low`} />
+          </label>
+          <label>
+            Median estimate (50th percentile)
+            <NumberInput name={`${prefix}value`} defaultValue={shown?.value} />
+            <FieldError name={`${prefix}value`} />
+          </label>
+          <label>
+            High (90th percentile) <span className="hint">Only a 1-in-10 chance it is higher.</span>
+            <NumberInput name={`${prefix}high`} defaultValue={shown?.high} />
+            <FieldError name={`${prefix}high`} />
+          </label>
+        </div>
+      ) : (
+        <label>
+          Your estimate ({q.unit})
+          <NumberInput name={`${prefix}value`} defaultValue={shown?.value} />
+          <FieldError name={`${prefix}value`} />
+        </label>
+      )}
+      {q.rationaleRequired ? (
+        <p className="caution" data-rationale-required="true">
+          {q.rationaleReason}
+        </p>
+      ) : null}
+      <label>
+        Rationale {q.rationaleRequired ? <strong>(required this round)</strong> : <span className="hint">What your estimate rests on; others read it without your name.</span>}
+        <textarea name={`${prefix}rationale`} rows={3} maxLength={2000} defaultValue={shown?.rationale ?? ""} />
+        <FieldError name={`${prefix}rationale`} />
+      </label>
+      <FieldError name={`${prefix}questionId`} />
+      <FieldError name="keep" />
+    </>
   );
 }

@@ -5,7 +5,9 @@
  */
 import { revalidatePath } from "next/cache";
 import { headers } from "next/headers";
-import { createInvitations, reissueInvitation, revokeInvitation } from "@/lib/panels/invitations";
+import { createInvitations, reissueInvitation, revokeInvitation, type IssuedInvitation } from "@/lib/panels/invitations";
+import { deleteOutboxMessage, sendNotices } from "@/lib/panels/messages";
+import { siteOrigin } from "@/lib/http/site";
 import { addQuestion, deleteQuestion, sharePanel, unsharePanel, updatePanel, updateQuestion } from "@/lib/panels/panels";
 import { closeRound, finishPanel, openRound, revealIdentities, startNextRound } from "@/lib/panels/rounds";
 import { getCurrentUser } from "@/lib/session";
@@ -15,6 +17,7 @@ import {
   invitationCreate,
   invitationReissue,
   nextRoundInput,
+  noticeInput,
   panelUpdate,
   params,
   questionInput,
@@ -31,12 +34,20 @@ import { limits } from "@/lib/http/rate-limit";
 
 const QUESTION_NUMBERS = ["lowerBound", "upperBound"] as const;
 
-/** The site's own address, for the full private links shown once. */
+/** The site's own address, for the full private links shown once and e-mailed (lib/http/site.ts). */
 async function origin(): Promise<string> {
   const h = await headers();
   const host = h.get("x-forwarded-host") ?? h.get("host") ?? "localhost";
   const proto = h.get("x-forwarded-proto") ?? (host.startsWith("localhost") || host.startsWith("127.") ? "http" : "https");
-  return `${proto}://${host}`;
+  return siteOrigin(`${proto}://${host}`);
+}
+
+/** What happened to the e-mails of `issued` (when they were e-mailed). */
+function mailSummary(issued: readonly IssuedInvitation[]): string {
+  const count = (d: string) => issued.filter((i) => i.delivery === d).length;
+  if (!issued.some((i) => i.delivery)) return "Send each person their own link.";
+  const parts = [count("sent") ? `${count("sent")} e-mailed` : "", count("outbox") ? `${count("outbox")} waiting in the outbox for you to send` : ""];
+  return `${parts.filter(Boolean).join(", ")}.`;
 }
 
 /** The form without empty optional fields (an empty deadline means none). */
@@ -84,15 +95,15 @@ export async function inviteAction(_p: FormState, formData: FormData): Promise<F
   const values = formObject(formData);
   const rosterMemberIds = formList(formData, "rosterMemberIds");
   return signedInAction(values, params.panelId, async (user, id, input) => {
-    const issued = await createInvitations(user, id.panelId, input);
     const site = await origin();
+    const issued = await createInvitations(user, id.panelId, input, site);
     revalidatePath(`/panels/${id.panelId}`);
     return {
       ok: true,
-      message: `${issued.length} invitation${issued.length === 1 ? "" : "s"} created. Send each person their own link.`,
+      message: `${issued.length} invitation${issued.length === 1 ? "" : "s"} created. ${mailSummary(issued)}`,
       secrets: issued.map((i) => ({ label: `Private link for ${i.name} <${i.email}>`, value: `${site}${i.link}` })),
     };
-  }, [invitationCreate, { ...withNumbers(values, ["expiresInDays"]), rosterMemberIds }], limits.invitations);
+  }, [invitationCreate, withNumbers({ ...values, rosterMemberIds, send: values.send === "yes" }, ["expiresInDays"])], limits.invitations);
 }
 
 export async function revokeInvitationAction(_p: FormState, formData: FormData): Promise<FormState> {
@@ -105,11 +116,31 @@ export async function revokeInvitationAction(_p: FormState, formData: FormData):
 export async function reissueInvitationAction(_p: FormState, formData: FormData): Promise<FormState> {
   const values = formObject(formData);
   return signedInAction(values, params.invitation, async (user, id, input) => {
-    const inv = await reissueInvitation(user, id.panelId, id.invitationId, input);
     const site = await origin();
+    const inv = await reissueInvitation(user, id.panelId, id.invitationId, input, site);
     revalidatePath(`/panels/${id.panelId}`);
-    return { ok: true, message: "The old link no longer works.", secret: { label: `New private link for ${inv.name} <${inv.email}>`, value: `${site}${inv.link}` } };
-  }, [invitationReissue, withNumbers(values, ["expiresInDays"])], limits.invitations);
+    return { ok: true, message: `The old link no longer works. ${mailSummary([inv])}`, secret: { label: `New private link for ${inv.name} <${inv.email}>`, value: `${site}${inv.link}` } };
+  }, [invitationReissue, withNumbers({ ...values, send: values.send === "yes" }, ["expiresInDays"])], limits.invitations);
+}
+
+/** E-mails the open round's notice to everyone, or a reminder to those who have not answered (counted like the API's sendNotices). */
+export async function sendNoticesAction(_p: FormState, formData: FormData): Promise<FormState> {
+  const values = formObject(formData);
+  return signedInAction(values, params.panelId, async (user, id, input) => {
+    const r = await sendNotices(user, id.panelId, input);
+    revalidatePath(`/panels/${id.panelId}/outbox`);
+    const what = r.kind === "reminder" ? "Reminders" : "Notices";
+    const parts = [`${r.sent} sent`, r.outbox ? `${r.outbox} in the outbox for you to send` : "", r.failed ? `${r.failed} refused by the mail server` : ""];
+    return done(id.panelId, `${what} for round ${r.roundNumber}: ${r.recipients} recipient${r.recipients === 1 ? "" : "s"}; ${parts.filter(Boolean).join(", ")}.`);
+  }, [noticeInput, { kind: values.kind }], limits.invitations);
+}
+
+export async function deleteOutboxAction(_p: FormState, formData: FormData): Promise<FormState> {
+  return signedInAction(formObject(formData), params.outboxMessage, async (user, id) => {
+    await deleteOutboxMessage(user, id.panelId, id.messageId);
+    revalidatePath(`/panels/${id.panelId}/outbox`);
+    return { ok: true, message: "Deleted." };
+  });
 }
 
 export async function openRoundAction(_p: FormState, formData: FormData): Promise<FormState> {

@@ -3,7 +3,10 @@ import { notFound, redirect } from "next/navigation";
 import { NotFoundError } from "@/lib/errors";
 import { listAuditEvents } from "@/lib/panels/audit";
 import { listInvitations } from "@/lib/panels/invitations";
-import { getPanel, listShares } from "@/lib/panels/panels";
+import { getPanel, getPanelMilestones, listShares } from "@/lib/panels/panels";
+import { smtpConfigured } from "@/lib/mail/smtp";
+import { listOutbox } from "@/lib/panels/messages";
+import { panelSteps, type StepId } from "@/lib/ui/panel-steps";
 import { MIN_RESOLVED_FOR_WEIGHTS } from "@/lib/blend";
 import { getPanelBlendRule } from "@/lib/panels/report-views";
 import { listRoster } from "@/lib/panels/roster";
@@ -30,6 +33,7 @@ import {
   reissueInvitationAction,
   revealNamesAction,
   revokeInvitationAction,
+  sendNoticesAction,
   shareAction,
   unshareAction,
   updateQuestionAction,
@@ -52,7 +56,7 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
     throw error;
   }
   if (panel.role === "reviewer") redirect(`/reports/${id}`);
-  const [invitations, roster, progress, convergence, shares, audit, blendRule] = await Promise.all([
+  const [invitations, roster, progress, convergence, shares, audit, blendRule, milestones, outbox] = await Promise.all([
     listInvitations(user, id),
     listRoster(user),
     getProgress(user, id),
@@ -60,7 +64,10 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
     listShares(user, id),
     listAuditEvents(user, id),
     getPanelBlendRule(user, id),
+    getPanelMilestones(user, id),
+    listOutbox(user, id),
   ]);
+  const smtp = smtpConfigured();
   const finished = panel.status === "finished";
   const draft = panel.status === "draft";
   const openRound = panel.rounds.find((r) => r.status === "open") ?? null;
@@ -71,6 +78,31 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
   const notInvited = roster.filter((m) => !invitedIds.has(m.id));
   const activeInvitations = invitations.filter((i) => i.status === "active").length;
   const reveal = revealNamesAction.bind(null, id);
+  const limitReached = lastRound !== null && lastRound.number >= panel.roundLimit;
+  // After a closed round: the stopping rules (or the round limit) say whether to stop.
+  const rulesSayStop = canStartNext && (limitReached || convergence.evaluation?.recommendation === "stop");
+  const steps = panelSteps({ questions: panel.questions.length, invitations: invitations.length, finished, ...milestones });
+  const next = steps.find((s) => s.state === "next")!.id;
+  const questionPage = (qid: string | null) => (qid ? `/panels/${id}/questions/${qid}` : `/panels/${id}`);
+  const stepHref: Record<StepId, string> = {
+    questions: "#questions",
+    invite: "#invitations",
+    rounds: "#rounds",
+    blend: questionPage(milestones.firstWithoutBaseline),
+    outcome: questionPage(milestones.firstUnresolved),
+    report: `/reports/${id}`,
+  };
+  const finishForm = (primary: boolean) => (
+    <ActionForm
+      action={finishPanelAction}
+      submitLabel="Finish the panel"
+      submitClassName={primary ? undefined : "secondary"}
+      confirm="Finish the panel? No further rounds can be run."
+      ariaLabel="Finish panel"
+    >
+      <input type="hidden" name="panelId" value={id} />
+    </ActionForm>
+  );
 
   return (
     <article className="panel-page">
@@ -88,102 +120,70 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
       </p>
       {panel.description ? <p className="lead">{panel.description}</p> : null}
 
-      <section aria-labelledby="rounds-h">
-        <h2 id="rounds-h">Rounds</h2>
-        {panel.rounds.length === 0 ? <p className="muted">No rounds yet.</p> : null}
-        <ul>
-          {panel.rounds.map((r) => (
-            <li key={r.number} data-round-status={r.status} data-round-number={r.number}>
-              Round {r.number}: <span className={`status status-${r.status}`}>{r.status}</span>
-              {r.openedAt ? ` · opened ${formatDateTime(r.openedAt)}` : ""}
-              {r.deadline ? ` · deadline ${formatDateTime(r.deadline)}` : ""}
-              {r.closedAt ? ` · closed ${formatDateTime(r.closedAt)}` : ""}
+      <nav aria-label="Steps of this panel">
+        <ol className="steps">
+          {steps.map((s) => (
+            <li key={s.id} data-step={s.id} data-step-state={s.state} aria-current={s.state === "next" ? "step" : undefined}>
+              <a href={stepHref[s.id]}>{s.label}</a>
             </li>
           ))}
-        </ul>
-        {draftRound && !finished ? (
-          <div className="card">
-            <h3>Open round {draftRound.number}</h3>
-            {panel.questions.length === 0 ? (
-              <p className="muted">Add at least one question first.</p>
-            ) : activeInvitations === 0 ? (
-              <p className="muted">Nobody is invited yet; you can open the round now and invite people while it runs.</p>
-            ) : (
-              <p className="muted">
-                {activeInvitations} panelist{activeInvitations === 1 ? "" : "s"} can answer once it is open.
-                {draft ? " Questions can no longer be changed after round 1 opens." : ""}
+        </ol>
+      </nav>
+      <div className="card" data-next-step={next}>
+        <h2 id="next-h">Next: {steps.find((s) => s.id === next)!.label}</h2>
+        {next === "questions" ? (
+          <>
+            <p>Write the questions the panel will answer: each with a unit, a target period and a plausible range.</p>
+            <a className="button" href="#questions">Add a question</a>
+          </>
+        ) : next === "invite" ? (
+          <>
+            <p>Invite people from your expert roster. Each gets a private link, by e-mail or through the outbox.</p>
+            <a className="button" href="#invitations">Invite panelists</a>
+          </>
+        ) : next === "rounds" ? (
+          rulesSayStop ? (
+            <>
+              <p>{limitReached ? `The round limit of ${panel.roundLimit} is reached.` : "The stopping rules say the panel can stop."} Finish it to go on to the baseline and blend.</p>
+              <a className="button" href="#rounds">
+                Finish the panel
+              </a>
+            </>
+          ) : (
+            <>
+              <p>
+                {openRound
+                  ? `Round ${openRound.number} is open: follow the progress, remind those who have not answered, and close it when enough have.`
+                  : draftRound
+                    ? `Open round ${draftRound.number} so the panelists can answer.`
+                    : lastRound
+                      ? `The stopping rules suggest another round after round ${lastRound.number}.`
+                      : "Open round 1 so the panelists can answer."}
               </p>
-            )}
-            <ActionForm action={openRoundAction} submitLabel={`Open round ${draftRound.number}`} ariaLabel="Open round">
-              <input type="hidden" name="panelId" value={id} />
-              <input type="hidden" name="roundNumber" value={draftRound.number} />
-              <DeadlineInput />
-              <FieldError name="deadline" />
-            </ActionForm>
-          </div>
-        ) : null}
-        {openRound ? (
-          <div className="card" id="live-progress">
-            <h3>Round {openRound.number} is open — live progress</h3>
-            <LiveProgress
-              url={`/api/v1/panels/${encodeURIComponent(id)}/progress`}
-              initial={progress}
-              checkedAt={new Date().toISOString()}
-              reveal={reveal}
-            />
-            <ActionForm
-              action={closeRoundAction}
-              submitLabel={`Close round ${openRound.number}`}
-              confirm={`Close round ${openRound.number} now? Panelists can no longer answer it, and its statistics are computed.`}
-              ariaLabel="Close round"
-            >
-              <input type="hidden" name="panelId" value={id} />
-              <input type="hidden" name="roundNumber" value={openRound.number} />
-            </ActionForm>
-          </div>
-        ) : null}
-        {canStartNext ? (
-          <div className="card">
-            <h3>After round {lastRound!.number}</h3>
-            <p className="muted">
-              Read the convergence view below, then either run another round (panelists see the feedback of round{" "}
-              {lastRound!.number} and may revise their answers) or finish the panel.
-            </p>
-            {lastRound!.number >= panel.roundLimit ? (
-              <p className="notice">
-                The round limit of {panel.roundLimit} is reached. To run another round, raise the limit under &ldquo;Stopping
-                rules&rdquo;.
-              </p>
-            ) : (
-              <ActionForm action={nextRoundAction} submitLabel={`Start round ${lastRound!.number + 1}`} ariaLabel="Next round">
-                <input type="hidden" name="panelId" value={id} />
-                <label className="inline">
-                  <input type="checkbox" name="open" value="yes" defaultChecked /> Open it at once
-                </label>
-                <DeadlineInput />
-                <FieldError name="deadline" />
-              </ActionForm>
-            )}
-            <ActionForm
-              action={finishPanelAction}
-              submitLabel="Finish the panel"
-              submitClassName="secondary"
-              confirm="Finish the panel? No further rounds can be run."
-              ariaLabel="Finish panel"
-            >
-              <input type="hidden" name="panelId" value={id} />
-            </ActionForm>
-          </div>
-        ) : null}
-        {finished ? <p className="notice">This panel is finished.</p> : null}
-      </section>
+              <a className="button" href="#rounds">
+                {openRound ? `Round ${openRound.number}` : draftRound ? `Open round ${draftRound.number}` : lastRound ? `Start round ${lastRound.number + 1}` : "Rounds"}
+              </a>
+            </>
+          )
+        ) : next === "blend" ? (
+          <>
+            <p>Attach a statistical baseline (the history of the quantity) to each question and read how it blends with the panel.</p>
+            <a className="button" href={stepHref.blend}>Baseline and blend</a>
+          </>
+        ) : next === "outcome" ? (
+          <>
+            <p>When the real value is known, record it: each figure is then scored against it.</p>
+            <a className="button" href={stepHref.outcome}>Record the outcome</a>
+          </>
+        ) : (
+          <>
+            <p>Everything is in place: read the report and share it with reviewers.</p>
+            <a className="button" href={stepHref.report}>Open the report</a>
+          </>
+        )}
+      </div>
 
-      <section aria-labelledby="convergence-h" id="convergence">
-        <h2 id="convergence-h">Convergence</h2>
-        <ConvergenceView view={convergence} />
-      </section>
-
-      <section aria-labelledby="questions-h">
+      <section aria-labelledby="questions-h" id="questions">
         <h2 id="questions-h">Questions</h2>
         {panel.questions.length === 0 ? <p className="muted">No questions yet.</p> : null}
         {panel.questions.map((q) => (
@@ -245,11 +245,17 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
         )}
       </section>
 
-      <section aria-labelledby="invitations-h">
+      <section aria-labelledby="invitations-h" id="invitations">
         <h2 id="invitations-h">Panelists and invitations</h2>
         <p className="muted">
           Each panelist gets a private link; only a hash of it is stored, so a link is shown once, when it is created or
-          re-issued. Panelists see each other only as anonymous answers.
+          re-issued, and e-mailed if you choose. Panelists see each other only as anonymous answers.
+        </p>
+        <p>
+          <a href={`/panels/${id}/outbox`} data-outbox-count={outbox.length}>
+            Outbox: {outbox.length === 0 ? "empty" : `${outbox.length} e-mail${outbox.length === 1 ? "" : "s"} to send by hand`}
+          </a>
+          {smtp ? null : <span className="muted small"> · no mail server is set up, so e-mails wait there</span>}
         </p>
         {invitations.length > 0 ? (
           <div className="table-scroll">
@@ -301,6 +307,9 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
                               <input name="expiresInDays" inputMode="numeric" defaultValue={30} />
                               <FieldError name="expiresInDays" />
                             </label>
+                            <label className="inline">
+                              <input type="checkbox" name="send" value="yes" defaultChecked /> E-mail the new link
+                            </label>
                           </ActionForm>
                         </details>
                       )}
@@ -332,7 +341,7 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
                     <legend>People to invite</legend>
                     {notInvited.map((m) => (
                       <label key={m.id} className="inline" style={{ display: "flex" }}>
-                        <input type="checkbox" name="rosterMemberIds" value={m.id} defaultChecked />
+                        <input type="checkbox" name="rosterMemberIds" value={m.id} />
                         {m.name} <span className="muted small">&nbsp;{m.group ? `· ${m.group}` : ""}</span>
                       </label>
                     ))}
@@ -343,11 +352,140 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
                     <input name="expiresInDays" inputMode="numeric" defaultValue={30} />
                     <FieldError name="expiresInDays" />
                   </label>
+                  <label className="inline">
+                    <input type="checkbox" name="send" value="yes" defaultChecked /> E-mail each person their own link
+                    {smtp ? "" : " (no mail server is set up: the e-mails wait in the outbox for you to send)"}
+                  </label>
                 </>
               )}
             </ActionForm>
           </div>
         )}
+      </section>
+
+      <section aria-labelledby="rounds-h" id="rounds">
+        <h2 id="rounds-h">Rounds</h2>
+        {panel.rounds.length === 0 ? <p className="muted">No rounds yet.</p> : null}
+        <ul>
+          {panel.rounds.map((r) => (
+            <li key={r.number} data-round-status={r.status} data-round-number={r.number}>
+              Round {r.number}: <span className={`status status-${r.status}`}>{r.status}</span>
+              {r.openedAt ? ` · opened ${formatDateTime(r.openedAt)}` : ""}
+              {r.deadline ? ` · deadline ${formatDateTime(r.deadline)}` : ""}
+              {r.closedAt ? ` · closed ${formatDateTime(r.closedAt)}` : ""}
+            </li>
+          ))}
+        </ul>
+        {draftRound && !finished ? (
+          <div className="card">
+            <h3>Open round {draftRound.number}</h3>
+            {panel.questions.length === 0 ? (
+              <p className="muted">Add at least one question first.</p>
+            ) : activeInvitations === 0 ? (
+              <p className="muted">Nobody is invited yet; you can open the round now and invite people while it runs.</p>
+            ) : (
+              <p className="muted">
+                {activeInvitations} panelist{activeInvitations === 1 ? "" : "s"} can answer once it is open.
+                {draft ? " Questions can no longer be changed after round 1 opens." : ""}
+              </p>
+            )}
+            <ActionForm action={openRoundAction} submitLabel={`Open round ${draftRound.number}`} ariaLabel="Open round">
+              <input type="hidden" name="panelId" value={id} />
+              <input type="hidden" name="roundNumber" value={draftRound.number} />
+              <DeadlineInput />
+              <FieldError name="deadline" />
+            </ActionForm>
+          </div>
+        ) : null}
+        {openRound ? (
+          <div className="card" id="live-progress">
+            <h3>Round {openRound.number} is open — live progress</h3>
+            <LiveProgress
+              url={`/api/v1/panels/${encodeURIComponent(id)}/progress`}
+              initial={progress}
+              checkedAt={new Date().toISOString()}
+              reveal={reveal}
+            />
+            <ActionForm action={sendNoticesAction} submitLabel="Send e-mail" submitClassName="secondary" ariaLabel="E-mail the panelists">
+              <input type="hidden" name="panelId" value={id} />
+              <fieldset>
+                <legend>E-mail the panelists about this round</legend>
+                <label className="inline">
+                  <input type="radio" name="kind" value="round-opened" defaultChecked /> Round {openRound.number} is open — to everyone whose link works
+                </label>
+                <label className="inline">
+                  <input type="radio" name="kind" value="reminder" disabled={!smtp} /> Reminder — only to those who have not answered every question
+                </label>
+                <FieldError name="kind" />
+                <p className="hint">
+                  {smtp
+                    ? "Each message goes to one person and names nobody else. You see how many reminders went, not to whom."
+                    : "No mail server is set up (SMTP_URL), so notices wait in the outbox for you to send. Reminders need a mail server: in the outbox you would see who has not answered."}
+                </p>
+              </fieldset>
+            </ActionForm>
+            <ActionForm
+              action={closeRoundAction}
+              submitLabel={`Close round ${openRound.number}`}
+              confirm={`Close round ${openRound.number} now? Panelists can no longer answer it, and its statistics are computed.`}
+              ariaLabel="Close round"
+            >
+              <input type="hidden" name="panelId" value={id} />
+              <input type="hidden" name="roundNumber" value={openRound.number} />
+            </ActionForm>
+          </div>
+        ) : null}
+        {canStartNext ? (
+          <div className="card" data-after-round={lastRound!.number} data-rules-say={rulesSayStop ? "stop" : "another-round"}>
+            <h3>After round {lastRound!.number}</h3>
+            <p className="muted">
+              {rulesSayStop
+                ? limitReached
+                  ? `The round limit of ${panel.roundLimit} is reached: finish the panel (or raise the limit under "Stopping rules" to run another round).`
+                  : "The stopping rules say the panel can stop (see the convergence view below): finish the panel, or run another round if you have a reason to."
+                : `The stopping rules suggest another round (see the convergence view below): panelists see the feedback of round ${lastRound!.number} and may revise their answers.`}
+            </p>
+            {rulesSayStop ? finishForm(true) : null}
+            {limitReached ? null : (
+              <ActionForm
+                action={nextRoundAction}
+                submitLabel={`Start round ${lastRound!.number + 1}`}
+                submitClassName={rulesSayStop ? "secondary" : undefined}
+                ariaLabel="Next round"
+              >
+                <input type="hidden" name="panelId" value={id} />
+                <label className="inline">
+                  <input type="checkbox" name="open" value="yes" defaultChecked /> Open it at once
+                </label>
+                <DeadlineInput />
+                <FieldError name="deadline" />
+              </ActionForm>
+            )}
+            {rulesSayStop ? null : finishForm(false)}
+          </div>
+        ) : null}
+        {finished ? (
+          <div className="notice" data-finished-next>
+            <p>This panel is finished. What comes next:</p>
+            <ol>
+              <li>
+                <a href={stepHref.blend}>Attach a statistical baseline and read the blend</a> for each question ({milestones.baselines} of{" "}
+                {panel.questions.length} have a baseline);
+              </li>
+              <li>
+                <a href={stepHref.outcome}>Record the outcome</a> of each question once it is known ({milestones.resolved} of {panel.questions.length} recorded);
+              </li>
+              <li>
+                <a href={stepHref.report}>Read and share the report</a>.
+              </li>
+            </ol>
+          </div>
+        ) : null}
+      </section>
+
+      <section aria-labelledby="convergence-h" id="convergence">
+        <h2 id="convergence-h">Convergence</h2>
+        <ConvergenceView view={convergence} />
       </section>
 
       <section aria-labelledby="rules-h">

@@ -30,8 +30,10 @@ export default async function FeedbackPage({ params, searchParams }: { params: P
         <>
           <h1>Feedback of round {feedback.round}</h1>
           <p className="muted">
-            What the panel answered in round {feedback.round}, without names. Compare it with your own answer; in the next
-            round you may keep or revise your answer, and explain why.
+            What the panel answered in round {feedback.round}, without names.{" "}
+            {feedback.finished
+              ? "The panel is finished: these are its final figures. Thank you for taking part."
+              : "Compare it with your own answer; in the next round you may keep or revise your answer, and explain why."}
           </p>
           {feedback.questions.map((f, i) => (
             <section key={f.questionId} className="card">
