@@ -43,7 +43,7 @@ export async function loadLaunchPanel(actor: Actor, memberIds: readonly string[]
   });
   const [market, firstYear] = panel.questions.map((q) => q.id);
   const invited = memberIds.slice(0, LAUNCH_ANSWERS.length);
-  const issued = await createInvitations(actor, panel.id, { rosterMemberIds: [...invited], expiresInDays: 60 });
+  const issued = await createInvitations(actor, panel.id, { rosterMemberIds: [...invited], expiresInDays: 60, send: false });
   await openRound(actor, panel.id, 1, {});
   for (let i = 0; i < invited.length; i++) {
     const panelist = await actorFromInvitationToken(issued.find((x) => x.rosterMemberId === invited[i])!.token);
