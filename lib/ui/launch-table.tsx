@@ -4,34 +4,17 @@
  * potential and where it came from, and the forecast adoptions per period with their 80% range.
  */
 import { formatNumber } from "./format";
-import BaselineChart from "./baseline-chart";
+import BaselineChart, { type BaselineChartStep } from "./baseline-chart";
 import type { BaselineResult } from "@/lib/forecast/baseline";
+import type { AnalogueFit } from "@/lib/forecast/launch";
 
 export interface LaunchPreview {
-  readonly analogues: readonly {
-    readonly name: string;
-    readonly periods: number;
-    readonly p: number;
-    readonly q: number;
-    readonly m: number;
-    readonly se: { readonly p: number; readonly q: number; readonly m: number };
-    readonly peak: number;
-    readonly values: readonly number[];
-    readonly fitted: readonly number[];
-    readonly notes: readonly string[];
-  }[];
+  readonly analogues: readonly AnalogueFit[];
   readonly p: { readonly mean: number; readonly lower80: number; readonly upper80: number };
   readonly q: { readonly mean: number; readonly lower80: number; readonly upper80: number };
   readonly market: { readonly median: number; readonly low: number; readonly high: number; readonly how: string };
   readonly draws: number;
-  readonly steps: readonly {
-    readonly step: number;
-    readonly mean: number | null;
-    readonly lower80: number | null;
-    readonly upper80: number | null;
-    readonly lower95: number | null;
-    readonly upper95: number | null;
-  }[];
+  readonly steps: readonly BaselineChartStep[];
 }
 
 /** The analogues' Bass fits and the launch forecast by period, as a table a reader can check. */

@@ -14,10 +14,10 @@
  * Waits are on page state only.
  */
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { chromium, type Browser, type Page } from "playwright-core";
+import type { Browser, Page } from "playwright-core";
 import { api, apiTokenFor, baseURL, clearDatabase, createAccount, type TestUser } from "./api-client";
+import { launchChromium, signInPage, stat as statOn } from "./browser";
 
-const LAUNCH_ARGS = ["--no-sandbox", "--disable-gpu", "--disable-background-networking", "--disable-component-update", "--no-first-run"];
 const AIR24 = [112, 118, 132, 129, 121, 135, 148, 148, 136, 119, 104, 118, 115, 126, 141, 135, 125, 149, 170, 170, 158, 133, 114, 140];
 const ANSWERS = [1600, 1750, 1800, 1900, 2100];
 
@@ -34,11 +34,7 @@ async function ok(method: string, url: string, body?: unknown, bearer = token): 
   return res.body;
 }
 
-async function stat(name: string): Promise<number> {
-  const raw = await org.locator(`[data-stat="${name}"]`).first().getAttribute("data-value");
-  if (raw === null || raw === "") throw new Error(`no value for ${name}`);
-  return Number(raw);
-}
+const stat = (name: string) => statOn(org, name);
 
 describe("month-to-year baseline in the browser", () => {
   beforeAll(async () => {
@@ -61,14 +57,8 @@ describe("month-to-year baseline in the browser", () => {
     await ok("POST", `/api/v1/panels/${panelId}/rounds/1/close`);
     await ok("PUT", `/api/v1/panels/${panelId}/questions/${questionId}/baseline`, { values: AIR24, season: 12, method: "seasonal-naive", horizon: 12, period: "month" });
 
-    browser = await chromium.launch({ executablePath: "/usr/bin/chromium", args: LAUNCH_ARGS });
-    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
-    org = await ctx.newPage();
-    await org.goto(`${baseURL}/sign-in`);
-    await org.getByLabel("E-mail").fill(organiser.email);
-    await org.getByLabel("Password").fill(organiser.password);
-    await org.getByRole("button", { name: "Sign in" }).click();
-    await org.waitForURL((u) => u.pathname === "/panels");
+    browser = await launchChromium();
+    org = await signInPage(await browser.newContext({ viewport: { width: 1280, height: 900 } }), organiser);
   });
 
   afterAll(async () => {

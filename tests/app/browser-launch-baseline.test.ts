@@ -12,10 +12,10 @@
  * are invented. Waits are on page state only.
  */
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { chromium, type Browser, type Page } from "playwright-core";
+import type { Browser, Page } from "playwright-core";
 import { api, apiTokenFor, baseURL, clearDatabase, createAccount, type TestUser } from "./api-client";
+import { launchChromium, signInPage, stat as statOn } from "./browser";
 
-const LAUNCH_ARGS = ["--no-sandbox", "--disable-gpu", "--disable-background-networking", "--disable-component-update", "--no-first-run"];
 const N0115 = [13.0, 32.06, 89.72, 128.1, 110.7, 154.94, 195.16, 183.56, 181.32, 187.54, 266.64, 199.48, 498.84, 1179.28, 640.4, 421.56, 506.78, 722.78, 543.46];
 const SIM = [112.66, 187.3, 240.45, 346.45, 505.67, 551.9, 636.76, 598.49, 506.26, 380.91, 278.38, 198.67, 107.3, 85.25];
 const MARKET = [30000, 35000, 40000, 48000, 60000];
@@ -34,11 +34,7 @@ async function ok(method: string, url: string, body?: unknown, bearer = token): 
   return res.body;
 }
 
-async function stat(name: string): Promise<number> {
-  const raw = await org.locator(`[data-stat="${name}"]`).first().getAttribute("data-value");
-  if (raw === null || raw === "") throw new Error(`no value for ${name}`);
-  return Number(raw);
-}
+const stat = (name: string) => statOn(org, name);
 
 describe("launch baseline in the browser", () => {
   beforeAll(async () => {
@@ -65,14 +61,8 @@ describe("launch baseline in the browser", () => {
     }
     await ok("POST", `/api/v1/panels/${panelId}/rounds/1/close`);
 
-    browser = await chromium.launch({ executablePath: "/usr/bin/chromium", args: LAUNCH_ARGS });
-    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
-    org = await ctx.newPage();
-    await org.goto(`${baseURL}/sign-in`);
-    await org.getByLabel("E-mail").fill(organiser.email);
-    await org.getByLabel("Password").fill(organiser.password);
-    await org.getByRole("button", { name: "Sign in" }).click();
-    await org.waitForURL((u) => u.pathname === "/panels");
+    browser = await launchChromium();
+    org = await signInPage(await browser.newContext({ viewport: { width: 1280, height: 900 } }), organiser);
   });
 
   afterAll(async () => {

@@ -33,12 +33,12 @@
 import { readFileSync, mkdirSync } from "node:fs";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { chromium, type Browser, type BrowserContext, type Page } from "playwright-core";
+import type { Browser, BrowserContext, Page } from "playwright-core";
 import { expectClose, runR, rVector } from "../stats/rscript";
 import { api, apiTokenFor, baseURL, clearDatabase, createAccount, sql, type TestUser } from "./api-client";
+import { launchChromium, signInPage, stat } from "./browser";
 
 const shots = path.resolve(__dirname, "..", "..", "test-artifacts", "screenshots");
-const LAUNCH_ARGS = ["--no-sandbox", "--disable-gpu", "--disable-background-networking", "--disable-component-update", "--no-first-run"];
 
 /** The NIST/SEMATECH e-Handbook §6.4.3.1 series, read from the reference file (header t,y). */
 const NIST_CSV = readFileSync(path.resolve(__dirname, "..", "reference-data", "nist_handbook_6431_ses12.csv"), "utf8");
@@ -106,27 +106,7 @@ function near(actual: number, expected: number, rel: number, label: string): voi
   expectClose([actual], [expected], rel, label);
 }
 
-async function stat(scope: Page | ReturnType<Page["locator"]>, name: string): Promise<number> {
-  const raw = await scope.locator(`[data-stat="${name}"]`).first().getAttribute("data-value");
-  if (raw === null || raw === "") throw new Error(`no value for ${name}`);
-  return Number(raw);
-}
 
-/**
- * Signs in and waits for the user's home page: /panels for an organiser; /reports for a reviewer,
- * who reaches it through a redirect from /panels. Waiting for the final page keeps that redirect
- * from landing after the test's next navigation (it did once, leaving the test on /reports).
- */
-async function signInPage(ctx: BrowserContext, user: TestUser, home: "/panels" | "/reports"): Promise<Page> {
-  const page = await ctx.newPage();
-  page.on("dialog", (d) => void d.accept());
-  await page.goto(`${baseURL}/sign-in`);
-  await page.getByLabel("E-mail").fill(user.email);
-  await page.getByLabel("Password").fill(user.password);
-  await page.getByRole("button", { name: "Sign in" }).click();
-  await page.waitForURL((u) => u.pathname === home);
-  return page;
-}
 
 async function ok(method: string, url: string, body?: unknown, bearer = token): Promise<any> {
   const res = await api(method, url, { token: bearer, body });
@@ -172,7 +152,7 @@ describe("triangulation in the browser", () => {
     await ok("POST", `/api/v1/panels/${panelId}/rounds/1/close`);
     await ok("POST", `/api/v1/panels/${panelId}/shares`, { email: reviewer.email, role: "reviewer" });
 
-    browser = await chromium.launch({ executablePath: "/usr/bin/chromium", args: LAUNCH_ARGS });
+    browser = await launchChromium();
     orgCtx = await browser.newContext({ viewport: { width: 1280, height: 900 }, acceptDownloads: true });
     org = await signInPage(orgCtx, organiser, "/panels");
   });
