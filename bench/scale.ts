@@ -24,10 +24,11 @@
  * Arguments: `--sizes NxQ,…`, `--reps R` (5), `--concurrency C` (answers in flight, 50).
  * SERVER_NODE_ARGS (e.g. "--cpu-prof --cpu-prof-dir=/tmp/prof") profiles the server (each page's
  * line names its CLOCK_MONOTONIC window, to cut the profile); SCALE_KEEP_DB=1 keeps each size's
- * database file (for profiling the domain services on it directly).
+ * database file (for profiling the domain services on it directly); SCALE_DUMP_DIR=<folder> writes
+ * each page's last response there (to see what a page sends).
  * Traffic goes only to the loopback server this script starts; every loop is bounded.
  */
-import { mkdtempSync, readFileSync, rmSync } from "node:fs";
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { cpus, loadavg, tmpdir } from "node:os";
 import path from "node:path";
 import { performance } from "node:perf_hooks";
@@ -82,7 +83,9 @@ function questionBody(i: number, product: string) {
     unit: "units",
     targetPeriod: "first 12 months after launch",
     lowerBound: 0,
-    upperBound: 100_000,
+    // The outcome of a sum-of-parts question (the total of up to 500 parts) is held to the same
+    // bounds as each part (lib/panels/resolution.ts checkWithinBounds), so its range covers the total.
+    upperBound: k.aggregation === "sum-of-parts" ? 100_000_000 : 100_000,
     ...k,
   };
 }
@@ -256,6 +259,7 @@ async function measureSize(n: number, q: number): Promise<Column> {
         html = typeof res.body === "string" ? res.body : JSON.stringify(res.body);
       }
       const bytes = Buffer.byteLength(html);
+      if (process.env.SCALE_DUMP_DIR) writeFileSync(path.join(process.env.SCALE_DUMP_DIR, `${n}x${q}-${label.replace(/[^a-z0-9]+/gi, "-")}.html`), html);
       const script = /^\s*<(!DOCTYPE|html)/i.test(html) ? `, script data ${fmtBytes(scriptBytes(html))}` : "";
       put(label, `${fmtMs(median(times))}, ${fmtBytes(bytes)}${script}`, median(times));
       console.log(`${label}: ${times.map((x) => x.toFixed(0)).join(" ")} ms (monotonic µs ${from}–${process.hrtime.bigint() / 1000n})`);

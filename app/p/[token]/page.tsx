@@ -7,21 +7,35 @@ import { formatDateTime, formatNumber } from "@/lib/ui/format";
 import LinkProblem from "@/lib/ui/link-problem";
 import { panelistFromLink } from "@/lib/ui/panelist-access";
 import QuestionFeedback from "@/lib/ui/question-feedback";
+import { questionPage, QuestionPager } from "@/lib/ui/question-pages";
 import { submitAnswerAction } from "./actions";
 
 // The link is a secret: no referrer leaves the page, and search engines stay out.
 export const metadata: Metadata = { title: "Your answers", referrer: "no-referrer", robots: { index: false, follow: false } };
 export const dynamic = "force-dynamic";
 
-export default async function PanelistPage({ params }: { params: Promise<{ token: string }> }) {
+export default async function PanelistPage({ params, searchParams }: { params: Promise<{ token: string }>; searchParams: Promise<{ page?: string | string[] }> }) {
   const { token } = await params;
+  const { page } = await searchParams;
   const who = await panelistFromLink(token);
   if ("problem" in who) return <LinkProblem problem={who.problem} />;
-  const [view, feedback] = await Promise.all([getPanelistPanel(who.actor), getFeedback(who.actor)]);
+  const view = await getPanelistPanel(who.actor);
+  // One page of questions at a time (lib/ui/question-pages.tsx), with the feedback of those only.
+  const at = questionPage(view.questions.length, page);
+  const shown = view.questions.slice(at.from, at.to);
+  const feedback = await getFeedback(who.actor, { questionIds: shown.map((q) => q.id) });
   const round = view.round;
   const answerAction = submitAnswerAction.bind(null, token);
   const feedbackFor = (questionId: string) => feedback.questions.find((q) => q.questionId === questionId) ?? null;
   const showInlineFeedback = feedback.round !== null && view.acceptingAnswers;
+  const pager = (
+    <QuestionPager
+      at={at}
+      count={view.questions.length}
+      href={(n) => `/p/${token}?page=${n}`}
+      note={(from, to) => `${view.questions.slice(from, to).filter((q) => q.answer).length} of ${to - from} answered`}
+    />
+  );
 
   return (
     <article className="panelist-page">
@@ -52,7 +66,9 @@ export default async function PanelistPage({ params }: { params: Promise<{ token
         </p>
       ) : null}
 
-      {view.questions.map((q, i) => {
+      {pager}
+      {shown.map((q, k) => {
+        const i = at.from + k;
         const f = feedbackFor(q.id);
         const three = q.answerFormat === "three-point";
         return (
@@ -138,6 +154,7 @@ export default async function PanelistPage({ params }: { params: Promise<{ token
           </section>
         );
       })}
+      {pager}
     </article>
   );
 }
