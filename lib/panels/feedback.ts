@@ -83,7 +83,7 @@ export interface FeedbackOptions {
 export async function getFeedback(actor: Actor, options: FeedbackOptions = {}): Promise<FeedbackView> {
   const me = requirePanelist(actor);
   await settleDeadlines(me.panelId);
-  const round = await db.round.findFirst({ where: { panelId: me.panelId, status: "closed" }, orderBy: { number: "desc" }, select: { id: true, number: true, closedAt: true } });
+  const round = await db.round.findFirst({ where: { panelId: me.panelId, status: "closed" }, orderBy: { number: "desc" }, select: { id: true, panelId: true, number: true, closedAt: true } });
   if (!round) return { round: null, questions: [] };
   const shared = await closedRoundFeedback(round);
   const wanted = options.questionIds ? new Set(options.questionIds) : null;

@@ -1,22 +1,19 @@
 /**
  * What every panelist's feedback on a closed round has in common (docs/methods.md §14.4): per
- * question, the stored round statistics' figures, the histogram of the final answers, the
+ * question (in position order, those with statistics), the stored round statistics' figures, the histogram of the final answers, the
  * non-empty rationales with their values, and each panelist's final answer (by invitation id,
  * to pick out their own). lib/panels/feedback.ts adds what is the reader's own.
  *
  * Built once per closed round and kept (issue 13: each panelist page re-read the round's every
- * answer and re-parsed its statistics' JSON). A closed round never changes — answers are
- * stored only while a round is open, and its statistics are written in the transaction that
- * closes it (lib/panels/round-closing.ts) — so this is a cache of immutable data, as
- * lib/panels/round-quartiles.ts: keyed on the round's id and its closing time, kept on
- * globalThis (route modules load twice in the production server, DEVELOPERS.md), correct with
- * any number of instances. Bounded by the answers it holds (the oldest round goes first).
- * Questions keep their position order; a question nobody answered has n = 0 and no bins.
+ * answer and re-parsed its statistics' JSON), from lib/panels/closed-rounds.ts, for the same
+ * reason and under the same rules (immutable data keyed on the round's id and closing time, on
+ * globalThis, bounded by the answers held). Questions are fixed once round 1 opens
+ * (lib/panels/panels.ts requireDraft), so their text is kept too. A question nobody answered
+ * has n = 0 and no bins.
  */
 import { db } from "@/lib/db";
 import { histogram, type HistogramBin } from "@/lib/stats";
-import { finalAnswers } from "./round-closing";
-import type { QuestionStatistics } from "./round-statistics";
+import { closedRound } from "./closed-rounds";
 
 export interface RoundFeedbackQuestion {
   readonly questionId: string;
@@ -50,43 +47,42 @@ interface Kept {
 }
 const cache: Map<string, Kept> = ((globalThis as { __triangulateRoundFeedback?: Map<string, Kept> }).__triangulateRoundFeedback ??= new Map());
 
-async function build(roundId: string): Promise<{ feedback: RoundFeedback; answers: number }> {
-  const rows = await db.roundStatistic.findMany({
-    where: { roundId },
-    select: { questionId: true, data: true, question: { select: { text: true, unit: true } } },
-    orderBy: { question: { position: "asc" } },
-  });
-  const finals = await finalAnswers(db, roundId);
+async function build(round: { readonly id: string; readonly panelId: string; readonly closedAt: Date | null }): Promise<{ feedback: RoundFeedback; answers: number }> {
+  const { answers: finals, statistics } = await closedRound(round);
+  const questions = await db.question.findMany({ where: { panelId: round.panelId }, orderBy: { position: "asc" }, select: { id: true, text: true, unit: true } });
   let count = 0;
-  const feedback = rows.map((row): RoundFeedbackQuestion => {
-    const s = JSON.parse(row.data) as QuestionStatistics;
-    const answers = finals.get(row.questionId) ?? [];
+  const feedback = questions.flatMap((question): RoundFeedbackQuestion[] => {
+    const s = statistics.get(question.id);
+    if (!s) return [];
+    const answers = finals.get(question.id) ?? [];
     count += answers.length;
     const v = s.values;
-    return {
-      questionId: row.questionId,
-      text: row.question.text,
-      unit: row.question.unit,
-      answerFormat: s.answerFormat,
-      aggregation: s.aggregation,
-      n: s.n,
-      median: v?.median ?? null,
-      q1: v?.q1 ?? null,
-      q3: v?.q3 ?? null,
-      min: v?.min ?? null,
-      max: v?.max ?? null,
-      pooled: s.pooled ? { p10: s.pooled.p10, p50: s.pooled.p50, p90: s.pooled.p90 } : null,
-      total: s.sumOfParts?.total ?? null,
-      histogram: answers.length > 0 ? histogram(answers.map((a) => a.value)) : [],
-      rationales: answers.filter((a) => a.rationale.trim().length > 0).map((a) => ({ value: a.value, rationale: a.rationale })),
-      finals: new Map(answers.map((a) => [a.invitationId, { value: a.value, low: a.low, high: a.high }])),
-    };
+    return [
+      {
+        questionId: question.id,
+        text: question.text,
+        unit: question.unit,
+        answerFormat: s.answerFormat,
+        aggregation: s.aggregation,
+        n: s.n,
+        median: v?.median ?? null,
+        q1: v?.q1 ?? null,
+        q3: v?.q3 ?? null,
+        min: v?.min ?? null,
+        max: v?.max ?? null,
+        pooled: s.pooled ? { p10: s.pooled.p10, p50: s.pooled.p50, p90: s.pooled.p90 } : null,
+        total: s.sumOfParts?.total ?? null,
+        histogram: answers.length > 0 ? histogram(answers.map((a) => a.value)) : [],
+        rationales: answers.filter((a) => a.rationale.trim().length > 0).map((a) => ({ value: a.value, rationale: a.rationale })),
+        finals: new Map(answers.map((a) => [a.invitationId, { value: a.value, low: a.low, high: a.high }])),
+      },
+    ];
   });
   return { feedback, answers: count };
 }
 
 /** The shared feedback of a closed round, from the cache or built once (concurrent callers share one build). */
-export async function closedRoundFeedback(round: { readonly id: string; readonly closedAt: Date | null }): Promise<RoundFeedback> {
+export async function closedRoundFeedback(round: { readonly id: string; readonly panelId: string; readonly closedAt: Date | null }): Promise<RoundFeedback> {
   const key = `${round.id}\u0000${round.closedAt?.getTime() ?? ""}`;
   const hit = cache.get(key);
   if (hit) {
@@ -95,7 +91,7 @@ export async function closedRoundFeedback(round: { readonly id: string; readonly
     cache.set(key, hit);
     return hit.feedback;
   }
-  const building = build(round.id);
+  const building = build(round);
   const entry: { answers: number; feedback: Promise<RoundFeedback> } = { answers: 0, feedback: building.then((b) => b.feedback) };
   cache.set(key, entry);
   try {
