@@ -18,8 +18,8 @@ export interface QuestionPage {
 
 /**
  * The page of `count` questions that a `?page=` value asks for. Anything that is not a whole
- * number from 1 to the last page (absent, text, 0, negative, too large, repeated) gives the
- * nearest valid page: 1 below the range, the last above it, 1 when unreadable.
+ * number from 1 to the last page gives a valid page: 1 below the range (0), the last above it,
+ * and 1 when unreadable (absent, text, a sign, repeated, more than six digits).
  * With `index` (a question's position, 0-based) the page holding that question wins.
  */
 export function questionPage(count: number, requested: unknown, index?: number): QuestionPage {
