@@ -204,7 +204,8 @@ async function measureSize(n: number, q: number): Promise<Column> {
       // answerBody indexes by position; map positions 0,1,2 to kinds 0,3,5.
       const bodies = who.flatMap((p) => qs.map((qq, k) => ({ p, body: answerBody(rnd, qq.id, [0, 3, 5][k], 1) })));
       const out = await pool(bodies, CONCURRENCY, (a) => postAnswer(c, a.p, a.body));
-      if (out.some((o) => o.status !== 201)) throw new Error(`earlier panel ${e + 1}: answers not stored`);
+      const bad = out.filter((o) => o.status !== 201);
+      if (bad.length > 0) throw new Error(`earlier panel ${e + 1}: ${bad.length} answers not stored (statuses ${[...new Set(bad.map((b) => b.status))].join(", ")})`);
       await api("POST", `/api/v1/panels/${panel.id}/rounds/1/close`);
       for (let k = 0; k < qs.length; k++) await resolve(panel.id, qs[k], [0, 3, 5][k], 1);
       await api("POST", `/api/v1/panels/${panel.id}/finish`);
