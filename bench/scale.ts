@@ -134,10 +134,10 @@ function scriptBytes(html: string): number {
   return n;
 }
 
-/** VmHWM (peak resident set) of a process, in bytes, from /proc (Linux); NaN elsewhere. */
-function peakRss(pid: number | undefined): number {
+/** VmHWM (peak resident set) of a process, or with `field` another line of /proc/<pid>/status, in bytes (Linux); NaN elsewhere. */
+function peakRss(pid: number | undefined, field = "VmHWM"): number {
   try {
-    const m = /VmHWM:\s+(\d+) kB/.exec(readFileSync(`/proc/${pid}/status`, "utf8"));
+    const m = new RegExp(`${field}:\\s+(\\d+) kB`).exec(readFileSync(`/proc/${pid}/status`, "utf8"));
     return m ? Number(m[1]) * 1024 : Number.NaN;
   } catch {
     return Number.NaN;
@@ -145,6 +145,9 @@ function peakRss(pid: number | undefined): number {
 }
 
 const load = () => loadavg().map((x) => x.toFixed(2)).join(" ");
+const mib = (bytes: number) => `${(bytes / 2 ** 20).toFixed(0)} MiB`;
+/** The server's resident set now and at its peak so far, for the log (where the memory goes). */
+const memory = (pid: number | undefined) => `server RSS ${mib(peakRss(pid, "VmRSS"))}, peak ${mib(peakRss(pid))}`;
 
 /** One row's cell: its text and the number the growth column compares. */
 type Cell = { text: string; value: number };
@@ -221,13 +224,13 @@ async function measureSize(n: number, q: number): Promise<Column> {
     const panelists = await invite(c, token, panel.id, memberIds);
     await api("POST", `/api/v1/panels/${panel.id}/shares`, { email: reviewer.email, role: "reviewer" });
     await api("POST", `/api/v1/panels/${panel.id}/rounds/1/open`);
-    console.log(`setup (roster, 3 earlier panels with outcomes, panel, invitations): ${((performance.now() - t0) / 1000).toFixed(1)} s`);
+    console.log(`setup (roster, 3 earlier panels with outcomes, panel, invitations): ${((performance.now() - t0) / 1000).toFixed(1)} s; ${memory(server.child.pid)}`);
 
     const throughput = (label: string, r: { out: Timed[]; seconds: number }) => {
       const ms = r.out.map((o) => o.ms);
       const rate = r.out.length / r.seconds;
       put(label, `${rate.toFixed(0)}/s, p50 ${fmtMs(percentile(ms, 50))}, p99 ${fmtMs(percentile(ms, 99))} (${r.out.length})`, percentile(ms, 99));
-      console.log(`${label}: ${r.out.length} in ${r.seconds.toFixed(1)} s, load average ${load()}`);
+      console.log(`${label}: ${r.out.length} in ${r.seconds.toFixed(1)} s, load average ${load()}; ${memory(server.child.pid)}`);
     };
     throughput("round-1 answers", await answerAll(questions, panelists, 1));
     let t = performance.now();
@@ -241,7 +244,7 @@ async function measureSize(n: number, q: number): Promise<Column> {
     const history = Array.from({ length: 16 }, (_, k) => Math.round(1000 + 60 * k + 200 * Math.sin((k * Math.PI) / 2) + 50 * rnd()));
     t = performance.now();
     for (let i = 0; i < q; i++) if (hasBaseline(i)) await api("PUT", `/api/v1/panels/${panel.id}/questions/${questions[i].id}/baseline`, { values: history, season: 4, horizon: 4 });
-    console.log(`baselines on ${questions.filter((_, i) => hasBaseline(i)).length} questions: ${((performance.now() - t) / 1000).toFixed(1)} s`);
+    console.log(`baselines on ${questions.filter((_, i) => hasBaseline(i)).length} questions: ${((performance.now() - t) / 1000).toFixed(1)} s; ${memory(server.child.pid)}`);
     const outcomeMs: number[] = [];
     for (let i = 0; i < q; i++) if (hasOutcome(i)) outcomeMs.push(await resolve(panel.id, questions[i], i, 2));
     put("recording an outcome", `${fmtMs(median(outcomeMs))} (median of ${outcomeMs.length})`, median(outcomeMs));
@@ -263,7 +266,7 @@ async function measureSize(n: number, q: number): Promise<Column> {
       if (process.env.SCALE_DUMP_DIR) writeFileSync(path.join(process.env.SCALE_DUMP_DIR, `${n}x${q}-${label.replace(/[^a-z0-9]+/gi, "-")}.html`), html);
       const script = /^\s*<(!DOCTYPE|html)/i.test(html) ? `, script data ${fmtBytes(scriptBytes(html))}` : "";
       put(label, `${fmtMs(median(times))}, ${fmtBytes(bytes)}${script}`, median(times));
-      console.log(`${label}: ${times.map((x) => x.toFixed(0)).join(" ")} ms (monotonic µs ${from}–${process.hrtime.bigint() / 1000n})`);
+      console.log(`${label}: ${times.map((x) => x.toFixed(0)).join(" ")} ms (monotonic µs ${from}–${process.hrtime.bigint() / 1000n}); ${memory(server.child.pid)}`);
     };
     const reportPath = `/reports/${panel.id}`;
     await page("reviewer report page", reportPath, { cookie: reviewerCookie });

@@ -15,6 +15,7 @@ import type { Actor } from "@/lib/accounts/actor";
 import type { TrackRecord } from "@/lib/blend";
 import { finalAnswers } from "./round-closing";
 import { closedRound } from "./closed-rounds";
+import { nextTurn } from "@/lib/work/turn";
 import { getConvergence, type ConvergenceView } from "./rounds";
 import { filterResolutions, loadResolutions, trackRecordsOf, type HistoryFilter, type ResolvedQuestion } from "./track-records";
 
@@ -73,7 +74,11 @@ export function panelReads(options: { wholeRounds?: boolean } = {}): PanelReads 
       const counted = filterResolutions(all, filter);
       // The filter only leaves resolutions out: one that leaves none out (an unresolved question's)
       // gives the records of all of them, computed once for every such question.
-      return records(counted.length === all.length ? `${ownerId}\u0000all` : filterKey(ownerId, filter), async () => trackRecordsOf(counted));
+      // A turn for other requests first: the records of 300 panelists take tens of milliseconds (lib/work/turn.ts).
+      return records(counted.length === all.length ? `${ownerId}\u0000all` : filterKey(ownerId, filter), async () => {
+        await nextTurn();
+        return trackRecordsOf(counted);
+      });
     },
     invitations(panelId) {
       return invitations(panelId, async () =>
