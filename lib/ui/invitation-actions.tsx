@@ -31,7 +31,7 @@ export default function InvitationActions({
     if (details.current?.open) setOpened(true);
   }, []);
   return (
-    <details ref={details} onToggle={(e) => e.currentTarget.open && setOpened(true)}>
+    <details ref={details} data-invitation-id={invitationId} onToggle={(e) => e.currentTarget.open && setOpened(true)}>
       <summary>Revoke or re-issue</summary>
       {opened ? (
         <>
