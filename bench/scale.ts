@@ -19,7 +19,8 @@
  *   data), triangulation / report.json / report.csv of a question with a baseline;
  * - an answer POST at idle, and answer POSTs sent one after another (100 ms apart) while the
  *   report page renders;
- * - the server's peak resident memory (VmHWM from /proc/<pid>/status).
+ * - the server's peak resident memory (VmHWM from /proc/<pid>/status); the log also gives the
+ *   resident set and its peak after each phase, to see which phase raises it.
  *
  * Arguments: `--sizes NxQ,…`, `--reps R` (5), `--concurrency C` (answers in flight, 50).
  * SERVER_NODE_ARGS (e.g. "--cpu-prof --cpu-prof-dir=/tmp/prof") profiles the server (each page's
