@@ -19,15 +19,17 @@
  *   data), triangulation / report.json / report.csv of a question with a baseline;
  * - an answer POST at idle, and answer POSTs sent one after another (100 ms apart) while the
  *   report page renders;
- * - the server's peak resident memory (VmHWM from /proc/<pid>/status).
+ * - the server's peak resident memory (VmHWM from /proc/<pid>/status); the log also gives the
+ *   resident set and its peak after each phase, to see which phase raises it.
  *
  * Arguments: `--sizes NxQ,…`, `--reps R` (5), `--concurrency C` (answers in flight, 50).
  * SERVER_NODE_ARGS (e.g. "--cpu-prof --cpu-prof-dir=/tmp/prof") profiles the server (each page's
  * line names its CLOCK_MONOTONIC window, to cut the profile); SCALE_KEEP_DB=1 keeps each size's
- * database file (for profiling the domain services on it directly).
+ * database file (for profiling the domain services on it directly); SCALE_DUMP_DIR=<folder> writes
+ * each page's last response there (to see what a page sends).
  * Traffic goes only to the loopback server this script starts; every loop is bounded.
  */
-import { mkdtempSync, readFileSync, rmSync } from "node:fs";
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { cpus, loadavg, tmpdir } from "node:os";
 import path from "node:path";
 import { performance } from "node:perf_hooks";
@@ -82,7 +84,9 @@ function questionBody(i: number, product: string) {
     unit: "units",
     targetPeriod: "first 12 months after launch",
     lowerBound: 0,
-    upperBound: 100_000,
+    // The outcome of a sum-of-parts question (the total of up to 500 parts) is held to the same
+    // bounds as each part (lib/panels/resolution.ts checkWithinBounds), so its range covers the total.
+    upperBound: k.aggregation === "sum-of-parts" ? 100_000_000 : 100_000,
     ...k,
   };
 }
@@ -131,10 +135,10 @@ function scriptBytes(html: string): number {
   return n;
 }
 
-/** VmHWM (peak resident set) of a process, in bytes, from /proc (Linux); NaN elsewhere. */
-function peakRss(pid: number | undefined): number {
+/** VmHWM (peak resident set) of a process, or with `field` another line of /proc/<pid>/status, in bytes (Linux); NaN elsewhere. */
+function peakRss(pid: number | undefined, field = "VmHWM"): number {
   try {
-    const m = /VmHWM:\s+(\d+) kB/.exec(readFileSync(`/proc/${pid}/status`, "utf8"));
+    const m = new RegExp(`${field}:\\s+(\\d+) kB`).exec(readFileSync(`/proc/${pid}/status`, "utf8"));
     return m ? Number(m[1]) * 1024 : Number.NaN;
   } catch {
     return Number.NaN;
@@ -142,6 +146,9 @@ function peakRss(pid: number | undefined): number {
 }
 
 const load = () => loadavg().map((x) => x.toFixed(2)).join(" ");
+const mib = (bytes: number) => `${(bytes / 2 ** 20).toFixed(0)} MiB`;
+/** The server's resident set now and at its peak so far, for the log (where the memory goes). */
+const memory = (pid: number | undefined) => `server RSS ${mib(peakRss(pid, "VmRSS"))}, peak ${mib(peakRss(pid))}`;
 
 /** One row's cell: its text and the number the growth column compares. */
 type Cell = { text: string; value: number };
@@ -201,7 +208,8 @@ async function measureSize(n: number, q: number): Promise<Column> {
       // answerBody indexes by position; map positions 0,1,2 to kinds 0,3,5.
       const bodies = who.flatMap((p) => qs.map((qq, k) => ({ p, body: answerBody(rnd, qq.id, [0, 3, 5][k], 1) })));
       const out = await pool(bodies, CONCURRENCY, (a) => postAnswer(c, a.p, a.body));
-      if (out.some((o) => o.status !== 201)) throw new Error(`earlier panel ${e + 1}: answers not stored`);
+      const bad = out.filter((o) => o.status !== 201);
+      if (bad.length > 0) throw new Error(`earlier panel ${e + 1}: ${bad.length} answers not stored (statuses ${[...new Set(bad.map((b) => b.status))].join(", ")})`);
       await api("POST", `/api/v1/panels/${panel.id}/rounds/1/close`);
       for (let k = 0; k < qs.length; k++) await resolve(panel.id, qs[k], [0, 3, 5][k], 1);
       await api("POST", `/api/v1/panels/${panel.id}/finish`);
@@ -217,13 +225,13 @@ async function measureSize(n: number, q: number): Promise<Column> {
     const panelists = await invite(c, token, panel.id, memberIds);
     await api("POST", `/api/v1/panels/${panel.id}/shares`, { email: reviewer.email, role: "reviewer" });
     await api("POST", `/api/v1/panels/${panel.id}/rounds/1/open`);
-    console.log(`setup (roster, 3 earlier panels with outcomes, panel, invitations): ${((performance.now() - t0) / 1000).toFixed(1)} s`);
+    console.log(`setup (roster, 3 earlier panels with outcomes, panel, invitations): ${((performance.now() - t0) / 1000).toFixed(1)} s; ${memory(server.child.pid)}`);
 
     const throughput = (label: string, r: { out: Timed[]; seconds: number }) => {
       const ms = r.out.map((o) => o.ms);
       const rate = r.out.length / r.seconds;
       put(label, `${rate.toFixed(0)}/s, p50 ${fmtMs(percentile(ms, 50))}, p99 ${fmtMs(percentile(ms, 99))} (${r.out.length})`, percentile(ms, 99));
-      console.log(`${label}: ${r.out.length} in ${r.seconds.toFixed(1)} s, load average ${load()}`);
+      console.log(`${label}: ${r.out.length} in ${r.seconds.toFixed(1)} s, load average ${load()}; ${memory(server.child.pid)}`);
     };
     throughput("round-1 answers", await answerAll(questions, panelists, 1));
     let t = performance.now();
@@ -237,7 +245,7 @@ async function measureSize(n: number, q: number): Promise<Column> {
     const history = Array.from({ length: 16 }, (_, k) => Math.round(1000 + 60 * k + 200 * Math.sin((k * Math.PI) / 2) + 50 * rnd()));
     t = performance.now();
     for (let i = 0; i < q; i++) if (hasBaseline(i)) await api("PUT", `/api/v1/panels/${panel.id}/questions/${questions[i].id}/baseline`, { values: history, season: 4, horizon: 4 });
-    console.log(`baselines on ${questions.filter((_, i) => hasBaseline(i)).length} questions: ${((performance.now() - t) / 1000).toFixed(1)} s`);
+    console.log(`baselines on ${questions.filter((_, i) => hasBaseline(i)).length} questions: ${((performance.now() - t) / 1000).toFixed(1)} s; ${memory(server.child.pid)}`);
     const outcomeMs: number[] = [];
     for (let i = 0; i < q; i++) if (hasOutcome(i)) outcomeMs.push(await resolve(panel.id, questions[i], i, 2));
     put("recording an outcome", `${fmtMs(median(outcomeMs))} (median of ${outcomeMs.length})`, median(outcomeMs));
@@ -256,9 +264,10 @@ async function measureSize(n: number, q: number): Promise<Column> {
         html = typeof res.body === "string" ? res.body : JSON.stringify(res.body);
       }
       const bytes = Buffer.byteLength(html);
+      if (process.env.SCALE_DUMP_DIR) writeFileSync(path.join(process.env.SCALE_DUMP_DIR, `${n}x${q}-${label.replace(/[^a-z0-9]+/gi, "-")}.html`), html);
       const script = /^\s*<(!DOCTYPE|html)/i.test(html) ? `, script data ${fmtBytes(scriptBytes(html))}` : "";
       put(label, `${fmtMs(median(times))}, ${fmtBytes(bytes)}${script}`, median(times));
-      console.log(`${label}: ${times.map((x) => x.toFixed(0)).join(" ")} ms (monotonic µs ${from}–${process.hrtime.bigint() / 1000n})`);
+      console.log(`${label}: ${times.map((x) => x.toFixed(0)).join(" ")} ms (monotonic µs ${from}–${process.hrtime.bigint() / 1000n}); ${memory(server.child.pid)}`);
     };
     const reportPath = `/reports/${panel.id}`;
     await page("reviewer report page", reportPath, { cookie: reviewerCookie });

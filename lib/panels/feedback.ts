@@ -14,11 +14,11 @@
  */
 import { db } from "@/lib/db";
 import type { Actor } from "@/lib/accounts/actor";
-import { histogram, type HistogramBin } from "@/lib/stats";
+import type { HistogramBin } from "@/lib/stats";
 import { requirePanelist } from "./access";
 import { explanationsRequired } from "./answers";
-import { finalAnswers, settleDeadlines } from "./round-closing";
-import type { QuestionStatistics } from "./round-statistics";
+import { settleDeadlines } from "./round-closing";
+import { closedRoundFeedback } from "./round-feedback";
 
 export interface QuestionFeedback {
   readonly questionId: string;
@@ -68,57 +68,50 @@ function nearestRationales(all: readonly { value: number; rationale: string }[],
   return chosen.slice(0, limit).sort(byValue);
 }
 
+/** Which questions a page shows and how many rationales it asks for (by default every question, {@link RATIONALES_SHOWN} each). */
+export interface FeedbackOptions {
+  /** The questions to return (a page of them); all when absent. */
+  readonly questionIds?: readonly string[];
+  /** More rationales (`count`) for one question. */
+  readonly more?: { readonly questionId: string; readonly count: number };
+}
+
 /**
  * The panelist's feedback on the latest closed round of their panel, with up to
- * {@link RATIONALES_SHOWN} rationales per question, or `more.count` for the question `more.questionId`.
+ * {@link RATIONALES_SHOWN} rationales per question, or `more.count` for the question
+ * `more.questionId`. What all panelists share is built once per closed round
+ * (lib/panels/round-feedback.ts); only the reader's own answer and rationales are chosen here.
  */
-export async function getFeedback(actor: Actor, more?: { readonly questionId: string; readonly count: number }): Promise<FeedbackView> {
+export async function getFeedback(actor: Actor, options: FeedbackOptions = {}): Promise<FeedbackView> {
   const me = requirePanelist(actor);
   await settleDeadlines(me.panelId);
-  const round = await db.round.findFirst({
-    where: { panelId: me.panelId, status: "closed" },
-    orderBy: { number: "desc" },
-    include: { statistics: { include: { question: true }, orderBy: { question: { position: "asc" } } } },
-  });
+  const round = await db.round.findFirst({ where: { panelId: me.panelId, status: "closed" }, orderBy: { number: "desc" }, select: { id: true, panelId: true, number: true, closedAt: true } });
   const finished = (await db.panel.findUniqueOrThrow({ where: { id: me.panelId }, select: { status: true } })).status === "finished";
   if (!round) return { round: null, finished, questions: [] };
-  const finals = await finalAnswers(db, round.id);
+  const shared = await closedRoundFeedback(round);
+  const wanted = options.questionIds ? new Set(options.questionIds) : null;
   // A finished panel has no next round, so nobody is asked to explain in it.
   const required = finished ? new Map<string, string>() : await explanationsRequired(db, me, round.number + 1);
   return {
     round: round.number,
     finished,
-    questions: round.statistics.map((row): QuestionFeedback => {
-      const s = JSON.parse(row.data) as QuestionStatistics;
-      const answers = finals.get(row.questionId) ?? [];
-      const mine = answers.find((a) => a.invitationId === me.invitationId) ?? null;
-      const given = answers.filter((a) => a.rationale.trim().length > 0).map((a) => ({ value: a.value, rationale: a.rationale }));
-      const v = s.values;
-      let myPosition: QuestionFeedback["myPosition"] = null;
-      if (mine && v && v.q1 !== null && v.q3 !== null && s.aggregation === "shared") {
-        myPosition = mine.value < v.q1 ? "below-iqr" : mine.value > v.q3 ? "above-iqr" : "within-iqr";
-      }
-      return {
-        questionId: row.questionId,
-        text: row.question.text,
-        unit: row.question.unit,
-        answerFormat: s.answerFormat,
-        aggregation: s.aggregation,
-        n: s.n,
-        median: v?.median ?? null,
-        q1: v?.q1 ?? null,
-        q3: v?.q3 ?? null,
-        min: v?.min ?? null,
-        max: v?.max ?? null,
-        pooled: s.pooled ? { p10: s.pooled.p10, p50: s.pooled.p50, p90: s.pooled.p90 } : null,
-        total: s.sumOfParts?.total ?? null,
-        histogram: answers.length > 0 ? histogram(answers.map((a) => a.value)) : [],
-        myAnswer: mine ? { value: mine.value, low: mine.low, high: mine.high } : null,
-        myPosition,
-        explanationRequested: required.has(row.questionId),
-        rationales: nearestRationales(given, mine?.value ?? v?.median ?? null, more?.questionId === row.questionId ? more.count : RATIONALES_SHOWN),
-        rationaleCount: given.length,
-      };
-    }),
+    questions: shared
+      .filter((q) => wanted === null || wanted.has(q.questionId))
+      .map(({ finals, rationales, ...q }): QuestionFeedback => {
+        const mine = finals.get(me.invitationId) ?? null;
+        let myPosition: QuestionFeedback["myPosition"] = null;
+        if (mine && q.q1 !== null && q.q3 !== null && q.aggregation === "shared") {
+          myPosition = mine.value < q.q1 ? "below-iqr" : mine.value > q.q3 ? "above-iqr" : "within-iqr";
+        }
+        const more = options.more?.questionId === q.questionId ? options.more.count : RATIONALES_SHOWN;
+        return {
+          ...q,
+          myAnswer: mine,
+          myPosition,
+          explanationRequested: required.has(q.questionId),
+          rationales: nearestRationales(rationales, mine?.value ?? q.median, more),
+          rationaleCount: rationales.length,
+        };
+      }),
   };
 }

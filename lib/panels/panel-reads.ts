@@ -5,7 +5,8 @@
  * the convergence view, so its cost grew with questions × answers).
  *
  * A PanelReads belongs to one request of one actor (callers authorise before they read) and is
- * dropped with it: nothing is kept between requests, so no figure can outlive a changed input.
+ * dropped with it: nothing is kept between requests, so no figure can outlive a changed input —
+ * except a closed round's final answers, which never change (lib/panels/closed-rounds.ts).
  * `wholeRounds` reads each closed round's final answers once for all questions (a page that
  * shows every question); without it only the asked question's answers are read.
  */
@@ -13,6 +14,8 @@ import { db } from "@/lib/db";
 import type { Actor } from "@/lib/accounts/actor";
 import type { TrackRecord } from "@/lib/blend";
 import { finalAnswers } from "./round-closing";
+import { closedRound } from "./closed-rounds";
+import { nextTurn } from "@/lib/work/turn";
 import { getConvergence, type ConvergenceView } from "./rounds";
 import { filterResolutions, loadResolutions, trackRecordsOf, type HistoryFilter, type ResolvedQuestion } from "./track-records";
 
@@ -48,12 +51,16 @@ const filterKey = (ownerId: string, f: HistoryFilter) => `${ownerId}\u0000${f.ex
 /** A fresh set of shared reads for one request (see the module comment). */
 export function panelReads(options: { wholeRounds?: boolean } = {}): PanelReads {
   const rounds = memo<Awaited<ReturnType<typeof finalAnswers>>>();
+  const roundStatus = memo<{ id: string; status: string; closedAt: Date | null } | null>();
   const allResolutions = memo<ResolvedQuestion[]>();
   const records = memo<ReadonlyMap<string, { record: TrackRecord; skipped: number }>>();
   const invitations = memo<{ id: string; rosterMemberId: string; name: string }[]>();
   const convergence = memo<ConvergenceView>();
   const reads: PanelReads = {
     async finalAnswers(roundId, questionId) {
+      // A closed round's answers are read once and kept (lib/panels/closed-rounds.ts).
+      const round = await roundStatus(roundId, () => db.round.findUnique({ where: { id: roundId }, select: { id: true, status: true, closedAt: true } }));
+      if (round?.status === "closed") return (await closedRound(round)).answers.get(questionId) ?? [];
       const byQuestion = options.wholeRounds
         ? await rounds(roundId, () => finalAnswers(db, roundId))
         : await rounds(`${roundId}\u0000${questionId}`, () => finalAnswers(db, roundId, questionId));
@@ -67,7 +74,11 @@ export function panelReads(options: { wholeRounds?: boolean } = {}): PanelReads 
       const counted = filterResolutions(all, filter);
       // The filter only leaves resolutions out: one that leaves none out (an unresolved question's)
       // gives the records of all of them, computed once for every such question.
-      return records(counted.length === all.length ? `${ownerId}\u0000all` : filterKey(ownerId, filter), async () => trackRecordsOf(counted));
+      // A turn for other requests first: the records of 300 panelists take tens of milliseconds (lib/work/turn.ts).
+      return records(counted.length === all.length ? `${ownerId}\u0000all` : filterKey(ownerId, filter), async () => {
+        await nextTurn();
+        return trackRecordsOf(counted);
+      });
     },
     invitations(panelId) {
       return invitations(panelId, async () =>

@@ -17,6 +17,7 @@ import {
 import { authorisePanel } from "./access";
 import { recordAudit } from "./audit";
 import { closeRoundInTx, finalAnswers, settleDeadlines } from "./round-closing";
+import { closedRound, type ClosedRound } from "./closed-rounds";
 import { panelRules, roundView, type PanelRules, type RoundView } from "./panels";
 import type { QuestionStatistics } from "./round-statistics";
 
@@ -159,8 +160,15 @@ export async function getProgress(actor: Actor, panelId: string): Promise<Progre
   const answers = round
     ? await db.answer.groupBy({ by: ["invitationId", "questionId"], where: { roundId: round.id }, _max: { createdAt: true } })
     : [];
+  // Grouped once by invitation (filtering all answers per panelist grew with panelists × answers).
+  const byInvitation = new Map<string, typeof answers>();
+  for (const a of answers) {
+    const list = byInvitation.get(a.invitationId);
+    if (list) list.push(a);
+    else byInvitation.set(a.invitationId, [a]);
+  }
   const panelists = invitations.map((inv) => {
-    const mine = answers.filter((a) => a.invitationId === inv.id);
+    const mine = byInvitation.get(inv.id) ?? [];
     const last = mine.reduce<Date | null>((m, a) => (a._max.createdAt && (!m || a._max.createdAt > m) ? a._max.createdAt : m), null);
     return { pseudonym: inv.pseudonym, questionsAnswered: mine.length, lastAnswerAt: last?.toISOString() ?? null };
   });
@@ -212,10 +220,14 @@ export async function getRoundStatistics(
   await settleDeadlines(panelId);
   const round = await findRound(panelId, roundNumber);
   if (round.status !== "closed") throw new ConflictError("round-not-closed", `Round ${roundNumber} is ${round.status}; statistics are computed when it closes.`);
-  const rows = await db.roundStatistic.findMany({ where: { roundId: round.id }, include: { question: true }, orderBy: { question: { position: "asc" } } });
+  const { statistics } = await closedRound(round);
+  const questions = await db.question.findMany({ where: { panelId }, orderBy: { position: "asc" }, select: { id: true, text: true, unit: true } });
   return {
     round: roundView(round),
-    questions: rows.map((r) => ({ ...(JSON.parse(r.data) as QuestionStatistics), text: r.question.text, unit: r.question.unit })),
+    questions: questions.flatMap((q) => {
+      const s = statistics.get(q.id);
+      return s ? [{ ...s, text: q.text, unit: q.unit }] : [];
+    }),
   };
 }
 
@@ -307,21 +319,18 @@ export async function getConvergence(actor: Actor, panelId: string): Promise<Con
   await settleDeadlines(panelId);
   const panel = await db.panel.findUniqueOrThrow({ where: { id: panelId } });
   const questions = await db.question.findMany({ where: { panelId }, orderBy: { position: "asc" } });
-  const rounds = await db.round.findMany({
-    where: { panelId, status: "closed" },
-    orderBy: { number: "asc" },
-    include: { statistics: true },
-  });
-  // Each round's statistics parsed once, by question (not once per question: issue 13).
-  const parsed = new Map(rounds.map((r) => [r.id, r.statistics.map((s) => JSON.parse(s.data) as QuestionStatistics)]));
-  const byQuestion = new Map(rounds.map((r) => [r.id, new Map(parsed.get(r.id)!.map((s) => [s.questionId, s]))]));
-  const statsOf = (r: (typeof rounds)[number]) => parsed.get(r.id)!;
+  const rounds = await db.round.findMany({ where: { panelId, status: "closed" }, orderBy: { number: "asc" } });
+  // Each closed round's statistics and final answers are read and parsed once and kept (issue 13).
+  const closed = new Map<string, ClosedRound>();
+  for (const r of rounds) closed.set(r.id, await closedRound(r));
+  const byQuestion = new Map(rounds.map((r) => [r.id, closed.get(r.id)!.statistics]));
+  const statsOf = (r: (typeof rounds)[number]) => [...closed.get(r.id)!.statistics.values()];
   const rules = panelRules(panel);
   const last = rounds.at(-1);
   const previous = rounds.at(-2);
   // The stability rule compares the distributions of the answers, so it needs the answers themselves.
-  const lastAnswers = last ? await finalAnswers(db, last.id) : null;
-  const previousAnswers = previous ? await finalAnswers(db, previous.id) : null;
+  const lastAnswers = last ? closed.get(last.id)!.answers : null;
+  const previousAnswers = previous ? closed.get(previous.id)!.answers : null;
   const evaluation = last
     ? evaluateStoppingRules({
         roundNumber: last.number,

@@ -126,10 +126,13 @@ export async function loadResolutions(ownerId: string, filter: HistoryFilter = {
 export function recordsByMember(resolutions: readonly ResolvedQuestion[]): Map<string, { records: ResolvedAnswer[]; skipped: number }> {
   const out = new Map<string, { records: ResolvedAnswer[]; skipped: number }>();
   for (const r of resolutions) {
+    // Each part's actual by invitation (the first, as a search of the list would find it).
+    const parts = new Map<string, number>();
+    for (const x of r.partActuals) if (!parts.has(x.invitationId)) parts.set(x.invitationId, x.actual);
     for (const p of r.figures.panelists) {
       const entry = out.get(p.rosterMemberId) ?? { records: [], skipped: 0 };
       out.set(p.rosterMemberId, entry);
-      const actual = r.figures.aggregation === "shared" ? r.actual : r.partActuals.find((x) => x.invitationId === p.invitationId)?.actual;
+      const actual = r.figures.aggregation === "shared" ? r.actual : parts.get(p.invitationId);
       if (actual === undefined) continue;
       if (!(actual > 0) || !(p.value > 0)) {
         entry.skipped++;

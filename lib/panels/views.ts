@@ -23,6 +23,7 @@ export interface RoundThreePoint {
 }
 
 export interface ConvergencePageView extends ConvergenceView {
+  readonly panelId: string;
   /** For each sum-of-parts question (by id): its parts in every closed round. */
   readonly parts: Readonly<Record<string, readonly RoundParts[]>>;
   /** For each three-point question (by id): lows, highs and the pooled distribution per closed round. */
@@ -50,5 +51,5 @@ export async function getConvergencePage(actor: Actor, panelId: string): Promise
       }
     }
   }
-  return { ...convergence, parts, threePoint };
+  return { ...convergence, panelId, parts, threePoint };
 }

@@ -6,7 +6,7 @@
  * worded as support for the organiser's decision.
  */
 import type { ConvergencePoint } from "@/lib/panels/rounds";
-import type { ConvergencePageView } from "@/lib/panels/views";
+import type { ConvergencePageView, RoundParts } from "@/lib/panels/views";
 import { STOPPING_RULE_DEFAULTS as D, consensusApplies, type QuestionVerdict } from "@/lib/stats/stopping-rules";
 import ConvergenceChart from "./convergence-chart";
 import Figure from "./figure";
@@ -139,7 +139,102 @@ export function RoundStatsTable({ rounds, aggregation }: { rounds: readonly Conv
   );
 }
 
+/** Parts listed one by one in a sum-of-parts question's table; the others are added up in one row. */
+export const PARTS_SHOWN = 10;
+
+/**
+ * Each panelist's part (under pseudonyms) and the total, per closed round. With more than
+ * {@link PARTS_SHOWN} parts, the largest (by their latest part) are listed and the others added
+ * up in one row, with a link to every part in the round's statistics (issue 13: a table of every
+ * part of every sum-of-parts question made most of a 2.5 MB page at 300 panelists).
+ */
+export function PartsTable({ rounds, statisticsHref }: { rounds: readonly RoundParts[]; statisticsHref: (round: number) => string }) {
+  const latest = new Map<string, number>();
+  for (const r of rounds) for (const p of r.parts) latest.set(p.pseudonym, p.value);
+  const all = [...latest.keys()].sort();
+  const cut = all.length > PARTS_SHOWN;
+  const pseudonyms = cut ? [...all].sort((a, b) => latest.get(b)! - latest.get(a)! || a.localeCompare(b)).slice(0, PARTS_SHOWN) : all;
+  const listed = new Set(pseudonyms);
+  return (
+    <div className="table-scroll">
+      <table className="parts-table">
+        <caption className="muted small">
+          {cut
+            ? `The ${PARTS_SHOWN} largest of ${all.length} parts (by each panelist's latest part, under pseudonyms), the others added up, and the total, per round`
+            : "Each panelist's part (under pseudonyms) and the total, per round"}
+        </caption>
+        <thead>
+          <tr>
+            <th>Part</th>
+            {rounds.map((r) => (
+              <th key={r.round} className="num">
+                Round {r.round}
+              </th>
+            ))}
+          </tr>
+        </thead>
+        <tbody>
+          {pseudonyms.map((p) => (
+            <tr key={p}>
+              <td>{p}</td>
+              {rounds.map((r) => {
+                const part = r.parts.find((x) => x.pseudonym === p);
+                return (
+                  <td key={r.round} className="num">
+                    {part ? (
+                      <>
+                        <Figure value={part.value} /> <span className="muted small">({formatPercent(part.share)})</span>
+                      </>
+                    ) : (
+                      "—"
+                    )}
+                  </td>
+                );
+              })}
+            </tr>
+          ))}
+          {cut ? (
+            <tr data-other-parts={all.length - PARTS_SHOWN}>
+              <td>{all.length - PARTS_SHOWN} other parts</td>
+              {rounds.map((r) => {
+                const others = r.parts.filter((x) => !listed.has(x.pseudonym));
+                const sum = others.reduce((s, x) => s + x.value, 0);
+                return (
+                  <td key={r.round} className="num">
+                    <Figure value={sum} /> <span className="muted small">({others.length} parts{r.total !== 0 ? `, ${formatPercent(sum / r.total)}` : ""})</span>
+                  </td>
+                );
+              })}
+            </tr>
+          ) : null}
+          <tr>
+            <th>Total</th>
+            {rounds.map((r) => (
+              <th key={r.round} className="num" data-round={r.round}>
+                <Figure value={r.total} name="total" />
+              </th>
+            ))}
+          </tr>
+        </tbody>
+      </table>
+      {cut ? (
+        <p className="hint">
+          Every part:{" "}
+          {rounds.map((r, i) => (
+            <span key={r.round}>
+              {i > 0 ? ", " : ""}
+              <a href={statisticsHref(r.round)}>round {r.round} statistics (JSON)</a>
+            </span>
+          ))}
+          .
+        </p>
+      ) : null}
+    </div>
+  );
+}
+
 export default function ConvergenceView({ view, reader = "organiser" }: { view: ConvergencePageView; reader?: "organiser" | "reviewer" }) {
+  const statisticsHref = (round: number) => `/api/v1/panels/${encodeURIComponent(view.panelId)}/rounds/${round}/statistics`;
   const closedRounds = Math.max(0, ...view.questions.map((q) => q.rounds.length));
   if (closedRounds === 0) {
     return <p className="muted">The convergence view appears once round 1 has closed.</p>;
@@ -151,7 +246,6 @@ export default function ConvergenceView({ view, reader = "organiser" }: { view: 
         const verdict = ev?.questions.find((v) => v.questionId === q.questionId);
         const sum = q.aggregation === "sum-of-parts";
         const rounds = view.parts[q.questionId] ?? [];
-        const pseudonyms = [...new Set(rounds.flatMap((r) => r.parts.map((p) => p.pseudonym)))].sort();
         return (
           <section key={q.questionId} className="card" data-convergence-question={q.questionId}>
             <h3>
@@ -162,50 +256,7 @@ export default function ConvergenceView({ view, reader = "organiser" }: { view: 
             </p>
             <RoundsChart rounds={q.rounds} unit={q.unit} sum={sum} />
             {sum ? (
-              <div className="table-scroll">
-                <table className="parts-table">
-                  <caption className="muted small">Each panelist&apos;s part (under pseudonyms) and the total, per round</caption>
-                  <thead>
-                    <tr>
-                      <th>Part</th>
-                      {rounds.map((r) => (
-                        <th key={r.round} className="num">
-                          Round {r.round}
-                        </th>
-                      ))}
-                    </tr>
-                  </thead>
-                  <tbody>
-                    {pseudonyms.map((p) => (
-                      <tr key={p}>
-                        <td>{p}</td>
-                        {rounds.map((r) => {
-                          const part = r.parts.find((x) => x.pseudonym === p);
-                          return (
-                            <td key={r.round} className="num">
-                              {part ? (
-                                <>
-                                  <Figure value={part.value} /> <span className="muted small">({formatPercent(part.share)})</span>
-                                </>
-                              ) : (
-                                "—"
-                              )}
-                            </td>
-                          );
-                        })}
-                      </tr>
-                    ))}
-                    <tr>
-                      <th>Total</th>
-                      {rounds.map((r) => (
-                        <th key={r.round} className="num" data-round={r.round}>
-                          <Figure value={r.total} name="total" />
-                        </th>
-                      ))}
-                    </tr>
-                  </tbody>
-                </table>
-              </div>
+              <PartsTable rounds={rounds} statisticsHref={statisticsHref} />
             ) : (
               <RoundStatsTable rounds={q.rounds} aggregation="shared" />
             )}

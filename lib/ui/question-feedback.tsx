@@ -1,3 +1,4 @@
+"use client";
 /**
  * A panelist's feedback on one question of the last closed round: the group median and
  * quartiles (or the total, for sum-of-parts questions), a chart of the spread with their own
@@ -8,6 +9,10 @@
  * e-mail, id or pseudonym of anyone else; the chart receives the group's histogram bins.
  * Rationales: a bounded list (those nearest the panelist's answer) with a link to more
  * (`moreHref` with `n=` the next count), or only a link to them (`rationales="link"`).
+ *
+ * A client component, so that the page's embedded data carries the figures (`f`, a few hundred
+ * bytes) instead of the rendered tree of every question's feedback (issue 13: that tree, sent
+ * once as HTML and again as script data, made most of a panelist's page); the HTML is the same.
  */
 import type { QuestionFeedback as Feedback } from "@/lib/panels/feedback";
 import Figure from "./figure";

@@ -247,7 +247,8 @@ describe("Delphi panel in the browser", () => {
     await org.reload();
     expect(await org.locator(".secret-once").count()).toBe(0);
     expect(await org.locator("tr[data-invitation]").count()).toBe(5);
-    for (const v of await org.locator('input[name="invitationId"]').evaluateAll((els) => els.map((e) => (e as HTMLInputElement).value))) {
+    // Each row's forms are rendered when it is opened; the row names its invitation id.
+    for (const v of await org.locator("[data-invitation-id]").evaluateAll((els) => els.map((e) => e.getAttribute("data-invitation-id") ?? ""))) {
       if (!invitationIds.includes(v)) invitationIds.push(v);
     }
     expect(invitationIds).toHaveLength(5);

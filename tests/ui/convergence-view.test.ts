@@ -42,6 +42,7 @@ describe("sum-of-parts convergence: the panel page and the report agree", () => 
     renderToStaticMarkup(
       createElement(ConvergenceView, {
         view: {
+          panelId: "p1",
           rules: { consensusMeasure: "cv", consensusThreshold: 0.5, stabilityThreshold: 0.15, roundLimit: 4 },
           questions: [{ ...Q, rounds: [POINT] }],
           evaluation,

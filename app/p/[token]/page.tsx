@@ -9,28 +9,43 @@ import { panelistFromLink } from "@/lib/ui/panelist-access";
 import QuestionFeedback from "@/lib/ui/question-feedback";
 import { LocaleField, NumberInput } from "@/lib/ui/typed-number-input";
 import type { PanelistQuestionView } from "@/lib/panels/answers";
+import { questionPage, QuestionPager } from "@/lib/ui/question-pages";
 import { submitAllAnswersAction, submitAnswerAction } from "./actions";
 
 // The link is a secret: no referrer leaves the page, and search engines stay out.
 export const metadata: Metadata = { title: "Your answers", referrer: "no-referrer", robots: { index: false, follow: false } };
 export const dynamic = "force-dynamic";
 
-export default async function PanelistPage({ params }: { params: Promise<{ token: string }> }) {
+export default async function PanelistPage({ params, searchParams }: { params: Promise<{ token: string }>; searchParams: Promise<{ page?: string | string[] }> }) {
   const { token } = await params;
+  const { page } = await searchParams;
   const who = await panelistFromLink(token);
   if ("problem" in who) return <LinkProblem problem={who.problem} />;
-  const [view, feedback] = await Promise.all([getPanelistPanel(who.actor), getFeedback(who.actor)]);
+  const view = await getPanelistPanel(who.actor);
+  // One page of questions at a time (lib/ui/question-pages.tsx), with the feedback of those only.
+  const at = questionPage(view.questions.length, page);
+  const shown = view.questions.slice(at.from, at.to);
+  const feedback = await getFeedback(who.actor, { questionIds: shown.map((q) => q.id) });
   const round = view.round;
   const answerAction = submitAnswerAction.bind(null, token);
   const allAction = submitAllAnswersAction.bind(null, token);
-  // Several questions open at once: one form and one "Save all" button for them all.
-  const together = view.acceptingAnswers && view.questions.length > 1;
+  // Several questions open at once: one form and one "Save all" button for the page's questions.
+  const together = view.acceptingAnswers && shown.length > 1;
   const feedbackFor = (questionId: string) => feedback.questions.find((q) => q.questionId === questionId) ?? null;
   const showInlineFeedback = feedback.round !== null && view.acceptingAnswers;
+  const pager = (
+    <QuestionPager
+      at={at}
+      count={view.questions.length}
+      href={(n) => `/p/${token}?page=${n}`}
+      note={(from, to) => `${view.questions.slice(from, to).filter((q) => q.answer).length} of ${to - from} answered`}
+    />
+  );
 
   const questionList = (
     <>
-      {view.questions.map((q, i) => {
+      {shown.map((q, k) => {
+          const i = at.from + k;
           const f = feedbackFor(q.id);
           const three = q.answerFormat === "three-point";
           return (
@@ -114,6 +129,7 @@ export default async function PanelistPage({ params }: { params: Promise<{ token
         </p>
       ) : null}
 
+      {pager}
       {together ? (
         <ActionForm action={allAction} submitLabel="Save all answers" ariaLabel="Your answers" otherSubmits>
           {questionList}
@@ -121,6 +137,7 @@ export default async function PanelistPage({ params }: { params: Promise<{ token
       ) : (
         questionList
       )}
+      {pager}
     </article>
   );
 }

@@ -17,6 +17,7 @@ import ActionForm, { FieldError } from "@/lib/ui/action-form";
 import ConvergenceView from "@/lib/ui/convergence-view";
 import DeadlineInput from "@/lib/ui/deadline-input";
 import { formatDateTime, formatNumber, formatPercent } from "@/lib/ui/format";
+import InvitationActions from "@/lib/ui/invitation-actions";
 import LiveProgress from "@/lib/ui/live-progress";
 import QuestionFields from "@/lib/ui/question-fields";
 import { requireSignedIn } from "@/lib/ui/require-user";
@@ -282,36 +283,14 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
                     <td>{formatDateTime(i.expiresAt)}</td>
                     <td>
                       {finished ? null : (
-                        <details>
-                          <summary>Revoke or re-issue</summary>
-                          {i.status === "active" ? (
-                            <ActionForm
-                              action={revokeInvitationAction}
-                              submitLabel="Revoke link"
-                              submitClassName="secondary"
-                              confirm={`Revoke ${i.name}'s link? It stops working at once; answers already given stay.`}
-                            >
-                              <input type="hidden" name="panelId" value={id} />
-                              <input type="hidden" name="invitationId" value={i.id} />
-                            </ActionForm>
-                          ) : null}
-                          <ActionForm
-                            action={reissueInvitationAction}
-                            submitLabel="Re-issue link"
-                            confirm={`Give ${i.name} a new link? The old one stops working.`}
-                          >
-                            <input type="hidden" name="panelId" value={id} />
-                            <input type="hidden" name="invitationId" value={i.id} />
-                            <label>
-                              Days until it expires
-                              <input name="expiresInDays" inputMode="numeric" defaultValue={30} />
-                              <FieldError name="expiresInDays" />
-                            </label>
-                            <label className="inline">
-                              <input type="checkbox" name="send" value="yes" defaultChecked /> E-mail the new link
-                            </label>
-                          </ActionForm>
-                        </details>
+                        <InvitationActions
+                          panelId={id}
+                          invitationId={i.id}
+                          name={i.name}
+                          active={i.status === "active"}
+                          revoke={revokeInvitationAction}
+                          reissue={reissueInvitationAction}
+                        />
                       )}
                     </td>
                   </tr>

@@ -3,8 +3,7 @@ import { notFound } from "next/navigation";
 import { NotFoundError } from "@/lib/errors";
 import { getPanel } from "@/lib/panels/panels";
 import { getConvergencePage } from "@/lib/panels/views";
-import { getQuestionReport } from "@/lib/panels/report";
-import { panelReads } from "@/lib/panels/panel-reads";
+import { getPanelReports } from "@/lib/panels/panel-reports";
 import ConvergenceView from "@/lib/ui/convergence-view";
 import Figure from "@/lib/ui/figure";
 import { formatDateTime } from "@/lib/ui/format";
@@ -23,8 +22,7 @@ export default async function ReportPage({ params }: { params: Promise<{ id: str
     throw error;
   }
   const convergence = await getConvergencePage(user, id);
-  const reads = panelReads({ wholeRounds: true });
-  const reports = await Promise.all(panel.questions.map((q) => getQuestionReport(user, id, q.id, reads)));
+  const reports = await getPanelReports(user, id, panel.questions.map((q) => q.id));
   return (
     <article>
       <p className="muted small">

@@ -4,18 +4,27 @@ import { MAX_PANELISTS_PER_PANEL } from "@/lib/validation/limits";
 import LinkProblem from "@/lib/ui/link-problem";
 import { panelistFromLink } from "@/lib/ui/panelist-access";
 import QuestionFeedback from "@/lib/ui/question-feedback";
+import { questionPage, QuestionPager } from "@/lib/ui/question-pages";
+import { getPanelistPanel } from "@/lib/panels/answers";
 
 export const metadata: Metadata = { title: "Feedback", referrer: "no-referrer", robots: { index: false, follow: false } };
 export const dynamic = "force-dynamic";
 
-export default async function FeedbackPage({ params, searchParams }: { params: Promise<{ token: string }>; searchParams: Promise<{ q?: string | string[]; n?: string | string[] }> }) {
+export default async function FeedbackPage({ params, searchParams }: { params: Promise<{ token: string }>; searchParams: Promise<{ q?: string | string[]; n?: string | string[]; page?: string | string[] }> }) {
   const { token } = await params;
-  const { q, n } = await searchParams;
+  const { q, n, page } = await searchParams;
   const who = await panelistFromLink(token);
   if ("problem" in who) return <LinkProblem problem={who.problem} />;
   // ?q=<question id>&n=<count>: more of that question's rationales (the "show more" links).
   const count = Math.min(MAX_PANELISTS_PER_PANEL, Math.max(RATIONALES_SHOWN, Math.trunc(Number(typeof n === "string" ? n : RATIONALES_SHOWN)) || RATIONALES_SHOWN));
-  const feedback = await getFeedback(who.actor, typeof q === "string" ? { questionId: q, count } : undefined);
+  // One page of questions at a time (lib/ui/question-pages.tsx): the one holding ?q= if given.
+  const { questions } = await getPanelistPanel(who.actor);
+  const at = questionPage(questions.length, page, typeof q === "string" ? questions.findIndex((x) => x.id === q) : undefined);
+  const feedback = await getFeedback(who.actor, {
+    questionIds: questions.slice(at.from, at.to).map((x) => x.id),
+    ...(typeof q === "string" ? { more: { questionId: q, count } } : {}),
+  });
+  const pager = <QuestionPager at={at} count={questions.length} href={(p) => `/p/${token}/feedback?page=${p}`} />;
   return (
     <article className="panelist-page">
       <p>
@@ -35,14 +44,16 @@ export default async function FeedbackPage({ params, searchParams }: { params: P
               ? "The panel is finished: these are its final figures. Thank you for taking part."
               : "Compare it with your own answer; in the next round you may keep or revise your answer, and explain why."}
           </p>
+          {pager}
           {feedback.questions.map((f, i) => (
             <section key={f.questionId} className="card">
               <h2>
-                {i + 1}. {f.text}
+                {at.from + i + 1}. {f.text}
               </h2>
               <QuestionFeedback f={f} round={feedback.round!} moreHref={`/p/${token}/feedback?q=${encodeURIComponent(f.questionId)}`} />
             </section>
           ))}
+          {pager}
         </>
       )}
     </article>
