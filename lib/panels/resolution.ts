@@ -84,10 +84,12 @@ export function scoreFigures(actual: number, f: ResolutionFigures, parts: readon
 /**
  * Holds an actual value, and each part's, to the question's plausible bounds, naming the number
  * and the bounds in the message (an actual of −100 for a 0–100,000 question is refused, 422).
+ * On a sum-of-parts question the bounds are one part's (each panelist answers for their own part),
+ * so the total is held to the lower bound only: it may exceed a part's upper bound.
  * @throws InvalidInputError for a value outside [lowerBound, upperBound].
  */
 export function checkWithinBounds(
-  question: { lowerBound: number; upperBound: number },
+  question: { lowerBound: number; upperBound: number; aggregation?: string },
   actual: number,
   parts: readonly { pseudonym: string; actual: number }[] = [],
 ): void {
@@ -97,7 +99,9 @@ export function checkWithinBounds(
       errors.push({ field, message: `${v} is outside the question's bounds ${question.lowerBound} to ${question.upperBound}` });
     }
   };
-  check("actual", actual);
+  if (question.aggregation === "sum-of-parts") {
+    if (actual < question.lowerBound) errors.push({ field: "actual", message: `${actual} is below the question's lower bound ${question.lowerBound}` });
+  } else check("actual", actual);
   parts.forEach((p, i) => check(`parts.${i}.actual`, p.actual));
   if (errors.length > 0) throw new InvalidInputError(errors);
 }

@@ -437,6 +437,19 @@ describe("resolution scores", () => {
     expect(() => checkWithinBounds(q, 0)).not.toThrow();
     expect(() => checkWithinBounds(q, 100000)).not.toThrow();
   });
+
+  it("on a sum-of-parts question the bounds are a part's: a total above them is accepted, each part is still held to them", () => {
+    const q = { lowerBound: 0, upperBound: 50000, aggregation: "sum-of-parts" };
+    expect(() => checkWithinBounds(q, 120000)).not.toThrow(); // seven parts of up to 50,000 each (hand)
+    let caught: unknown = null;
+    try {
+      checkWithinBounds(q, -1);
+    } catch (err) {
+      caught = err;
+    }
+    expect((caught as InvalidInputError).errors).toEqual([{ field: "actual", message: "-1 is below the question's lower bound 0" }]);
+    expect(() => checkWithinBounds(q, 120000, [{ pseudonym: "A", actual: 60000 }])).toThrow(InvalidInputError);
+  });
 });
 
 describe("CSV export cells (formula injection)", () => {
