@@ -115,10 +115,10 @@ describe("the panelist's form", () => {
     await ok("POST", `/api/v1/panels/${panelId}/rounds/2/close`);
     await ok("POST", `/api/v1/panels/${panelId}/finish`);
     await page.goto(`${link}/feedback`);
-    // The page streams in after its loading state.
+    // The page streams in after its loading state: wait until its content is there, not only its heading.
     await expect.poll(() => page.locator("h1").textContent()).toContain("Feedback of round 2");
+    await expect.poll(() => page.locator("main").textContent()).toContain("The panel is finished");
     const text = (await page.locator("main").textContent()) ?? "";
-    expect(text).toContain("The panel is finished");
     expect(text).not.toMatch(/next round/i);
   });
 });
