@@ -238,8 +238,9 @@ describe("Delphi panel in the browser", () => {
         expect(body).not.toContain(other.email);
         expect(body).not.toContain(links.get(other.email)!);
       }
-      expect(await m.getByRole("button", { name: "Copy message" }).count()).toBe(1);
-      expect(await m.getByRole("button", { name: "Download .eml" }).count()).toBe(1);
+      // The copy and download buttons are drawn once the page is interactive: wait on them.
+      await expect.poll(() => m.getByRole("button", { name: "Copy message" }).count()).toBe(1);
+      await expect.poll(() => m.getByRole("button", { name: "Download .eml" }).count()).toBe(1);
     }
     await org.screenshot({ path: path.join(shots, "organiser-outbox.png"), fullPage: true });
     await org.goto(panelUrl);
