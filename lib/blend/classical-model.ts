@@ -4,7 +4,7 @@
  * panelist's calibration and information scores weigh their answers to the questions that matter.
  *
  * Sources: R. M. Cooke (1991), *Experts in Uncertainty*, Oxford University Press (chapters on
- * calibration, information and the classical model — from a secondary source, lecture notes,
+ * calibration, information and the classical model — from a secondary source, teaching notes,
  * not the book); R. M. Cooke and L. H. J. Goossens (2008), "TU Delft expert judgment data base",
  * *Reliability Engineering & System Safety* 93(5), 657–674; A. R. Colson and R. M. Cooke (2017),
  * "Cross validation for the classical model of structured expert judgment", *RESS* 163, 109–120

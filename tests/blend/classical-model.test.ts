@@ -3,8 +3,8 @@
  *
  * References:
  * - Calibration = 1 − F_χ²(3)(2N·I(s, p)), p = (0.05, 0.45, 0.45, 0.05) (Cooke 1991, via the TU Delft
- *   lecture notes on structured expert judgment): R's `pchisq(…, 3, lower.tail = FALSE)` run in the
- *   test on the same I, and I itself by R from the counts. The lecture notes' worked example
+ *   teaching notes on structured expert judgment): R's `pchisq(…, 3, lower.tail = FALSE)` run in the
+ *   test on the same I, and I itself by R from the counts. The teaching notes' worked example
  *   (N = 8, counts 4, 3, 0, 1 and 1, 3, 3, 1) prints rounded values (I ≈ 1.19, Cal ≈ 0.00027;
  *   I ≈ 0.082, Cal ≈ 0.73) from shares rounded to 2 decimals; the exact values are checked here
  *   against R, and the printed ones only to their rounding where they agree.
@@ -59,7 +59,7 @@ describe("calibration", () => {
     [0.001, 0.5, 3, 7.81, 20, 60].forEach((x, i) => expect(Math.abs(chiSquare3Survival(x) - r.chi[i]) / r.chi[i]).toBeLessThan(1e-12));
   });
 
-  it("the lecture notes' worked example, to the notes' rounding", () => {
+  it("the teaching notes' worked example, to the notes' rounding", () => {
     // counts (4, 3, 0, 1): notes print I ≈ 1.19 and Cal ≈ 0.00027 (from rounded shares)
     expect(calibrationScore([4, 3, 0, 1])).toBeCloseTo(0.00025, 4);
     expect(relativeInformation([4 / 8, 3 / 8, 0, 1 / 8])).toBeCloseTo(1.19, 1);
