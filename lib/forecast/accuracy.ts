@@ -17,7 +17,7 @@
  * tracking signal as defined in docs/methods.md §8 (cumulative error over the running MAD, on raw
  * or relative errors).
  */
-import { neumaierSum } from "../stats/sum";
+import { neumaierSum, RunningSum } from "../stats/sum";
 
 function check(actual: readonly number[], forecast: readonly number[], fn: string): void {
   if (actual.length === 0) throw new RangeError(`${fn}: actual is empty; at least one pair is needed`);
@@ -27,20 +27,6 @@ function check(actual: readonly number[], forecast: readonly number[], fn: strin
   for (let i = 0; i < actual.length; i++) {
     if (!Number.isFinite(actual[i])) throw new RangeError(`${fn}: actual[${i}] is ${actual[i]}; values must be finite`);
     if (!Number.isFinite(forecast[i])) throw new RangeError(`${fn}: forecast[${i}] is ${forecast[i]}; values must be finite`);
-  }
-}
-
-/** Neumaier compensated running sum (same algorithm as lib/stats/sum.ts). */
-class RunningSum {
-  private s = 0;
-  private c = 0;
-  add(v: number): void {
-    const t = this.s + v;
-    this.c += Math.abs(this.s) >= Math.abs(v) ? this.s - t + v : v - t + this.s;
-    this.s = t;
-  }
-  value(): number {
-    return this.s + this.c;
   }
 }
 

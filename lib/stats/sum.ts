@@ -19,23 +19,30 @@ export function sum(values: readonly number[]): number {
 }
 
 /**
+ * Neumaier's compensated running sum (the algorithm of {@link sum}), for a sum read as it grows.
+ * Without input checks (callers inside lib have validated); empty, it is 0.
+ */
+export class RunningSum {
+  private s = 0;
+  private c = 0;
+  add(v: number): void {
+    const t = this.s + v;
+    this.c += Math.abs(this.s) >= Math.abs(v) ? this.s - t + v : v - t + this.s;
+    this.s = t;
+  }
+  value(): number {
+    return this.s + this.c;
+  }
+}
+
+/**
  * Neumaier sum without input checks, for callers inside lib that have already validated.
  * Returns 0 for an empty array (the empty sum). Not re-exported from `index.ts`.
  */
 export function neumaierSum(values: readonly number[]): number {
-  let s = 0;
-  let c = 0;
-  for (let i = 0; i < values.length; i++) {
-    const v = values[i];
-    const t = s + v;
-    if (Math.abs(s) >= Math.abs(v)) {
-      c += s - t + v;
-    } else {
-      c += v - t + s;
-    }
-    s = t;
-  }
-  return s + c;
+  const total = new RunningSum();
+  for (let i = 0; i < values.length; i++) total.add(values[i]);
+  return total.value();
 }
 
 export default sum;
