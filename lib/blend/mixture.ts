@@ -15,7 +15,7 @@ import {
   type NormalComponent,
 } from "./distribution";
 import { PRIOR_ERROR_CORRELATION } from "./weights";
-import { assertFinite, assertNonEmpty, assertUnitInterval } from "./validate";
+import { assertFinite, assertNonEmpty, assertProbability, assertUnitInterval } from "../stats/validate";
 
 /** One part of a linear pool: a distribution and its (non-negative) weight. */
 export interface PoolPart {
@@ -105,9 +105,7 @@ function componentsOf(d: Distribution): readonly Component[] {
  * @example distributionQuantile(blendDistribution(panel, baseline, 0.5), 0.9)
  */
 export function distributionQuantile(d: Distribution, p: number): number {
-  if (typeof p !== "number" || Number.isNaN(p) || p < 0 || p > 1) {
-    throw new RangeError(`distributionQuantile: p is ${String(p)}; it must be a probability in [0, 1]`);
-  }
+  assertProbability(p, "distributionQuantile");
   const comps = componentsOf(d);
   if (comps.length === 1) return componentQuantile(comps[0], p);
   let lo = Infinity;

@@ -18,16 +18,10 @@
  * or relative errors).
  */
 import { neumaierSum, RunningSum } from "../stats/sum";
+import { assertFinitePairs } from "../stats/validate";
 
 function check(actual: readonly number[], forecast: readonly number[], fn: string): void {
-  if (actual.length === 0) throw new RangeError(`${fn}: actual is empty; at least one pair is needed`);
-  if (actual.length !== forecast.length) {
-    throw new RangeError(`${fn}: actual has ${actual.length} values but forecast has ${forecast.length}; they must pair up`);
-  }
-  for (let i = 0; i < actual.length; i++) {
-    if (!Number.isFinite(actual[i])) throw new RangeError(`${fn}: actual[${i}] is ${actual[i]}; values must be finite`);
-    if (!Number.isFinite(forecast[i])) throw new RangeError(`${fn}: forecast[${i}] is ${forecast[i]}; values must be finite`);
-  }
+  assertFinitePairs(actual, forecast, fn, "actual", "forecast");
 }
 
 function meanOf(values: readonly number[]): number {

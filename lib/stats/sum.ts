@@ -1,4 +1,4 @@
-import { assertFiniteSample } from "./validate";
+import { assertFiniteArray } from "./validate";
 
 /**
  * Sum of `values` with Neumaier's compensated summation.
@@ -14,7 +14,7 @@ import { assertFiniteSample } from "./validate";
  * @example sum([1e100, 1, -1e100]) // 1 (naive left-to-right summation gives 0)
  */
 export function sum(values: readonly number[]): number {
-  assertFiniteSample(values, "sum");
+  assertFiniteArray(values, "sum");
   return neumaierSum(values);
 }
 
