@@ -6,7 +6,7 @@
  */
 import { normalCdf, normalQuantile } from "../stats/normal";
 import { baselineDistribution, type BaselineForecast, type BaselineSdSource } from "./distribution";
-import { assertFinite, assertFiniteArray } from "./validate";
+import { assertFinite, assertFiniteArray } from "../stats/validate";
 
 /** The departure of one value from the baseline. */
 export interface Departure {

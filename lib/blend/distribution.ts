@@ -10,7 +10,7 @@
  */
 import { normalCdf, normalQuantile } from "../stats/normal";
 import { summarise } from "../stats/summary";
-import { assertFinite, assertFiniteArray, assertNonEmpty, assertPositive } from "./validate";
+import { assertFinite, assertFiniteArray, assertNonEmpty, assertPositive, assertProbability } from "../stats/validate";
 
 /** 1/√(2π), the standard normal density at 0. */
 const INV_SQRT_2PI = 0.398942280401432677939946059934;
@@ -391,9 +391,7 @@ export function distributionVariance(d: Distribution): number {
  * @throws RangeError when p is NaN or outside [0, 1].
  */
 export function componentQuantile(c: Component, p: number): number {
-  if (typeof p !== "number" || Number.isNaN(p) || p < 0 || p > 1) {
-    throw new RangeError(`componentQuantile: p is ${String(p)}; it must be a probability in [0, 1]`);
-  }
+  assertProbability(p, "componentQuantile");
   const center = c.kind === "normal" ? c.mean : c.median;
   const sd = c.kind === "normal" ? c.sd : p < 0.5 ? c.sdLow : c.sdHigh;
   if (sd === 0 || p === 0.5) return center;

@@ -1,20 +1,21 @@
 /**
  * The blend: the combined figure w·panel + (1 − w)·baseline with the predictive distribution of
  * its error (Bates & Granger 1969), and the linear opinion pool (Stone 1961) with quantiles by
- * bisection, used for the panel's three-point pool. Input policy: see `index.ts`.
+ * bisection, used for the panel's three-point pool (triangulation and round statistics). Input policy: see `index.ts`.
  */
 import { normalQuantile } from "../stats/normal";
 import {
   componentQuantile,
   distributionCdf,
   distributionMean,
+  distributionVariance,
   type Component,
   type Distribution,
   type Mixture,
   type NormalComponent,
 } from "./distribution";
 import { PRIOR_ERROR_CORRELATION } from "./weights";
-import { assertFinite, assertNonEmpty, assertUnitInterval } from "./validate";
+import { assertFinite, assertNonEmpty, assertProbability, assertUnitInterval } from "../stats/validate";
 
 /** One part of a linear pool: a distribution and its (non-negative) weight. */
 export interface PoolPart {
@@ -104,9 +105,7 @@ function componentsOf(d: Distribution): readonly Component[] {
  * @example distributionQuantile(blendDistribution(panel, baseline, 0.5), 0.9)
  */
 export function distributionQuantile(d: Distribution, p: number): number {
-  if (typeof p !== "number" || Number.isNaN(p) || p < 0 || p > 1) {
-    throw new RangeError(`distributionQuantile: p is ${String(p)}; it must be a probability in [0, 1]`);
-  }
+  assertProbability(p, "distributionQuantile");
   const comps = componentsOf(d);
   if (comps.length === 1) return componentQuantile(comps[0], p);
   let lo = Infinity;
@@ -126,6 +125,39 @@ export function distributionQuantile(d: Distribution, p: number): number {
     else lo = mid;
   }
   return hi;
+}
+
+/** The figures a table of a distribution shows: five quantiles, the mean and the sd. */
+export interface DistributionSummary {
+  readonly p10: number;
+  readonly p25: number;
+  readonly p50: number;
+  readonly p75: number;
+  readonly p90: number;
+  readonly mean: number;
+  readonly sd: number;
+}
+
+/**
+ * The 10th, 25th, 50th, 75th and 90th percentiles ({@link distributionQuantile}), the mean
+ * ({@link distributionMean}) and the standard deviation (√{@link distributionVariance}) of any
+ * {@link Distribution}; for the panel's three-point pool (`panelFromThreePoint`) these are the
+ * round statistics' pooled figures (docs/methods.md §13, §15a).
+ *
+ * Input: a distribution built by `distribution.ts` or this module (already checked there).
+ * Never throws for such input; a point mass gives five equal quantiles and sd 0.
+ * @example distributionSummary(normalDistribution(100, 15)).p90 // 119.22
+ */
+export function distributionSummary(d: Distribution): DistributionSummary {
+  return {
+    p10: distributionQuantile(d, 0.1),
+    p25: distributionQuantile(d, 0.25),
+    p50: distributionQuantile(d, 0.5),
+    p75: distributionQuantile(d, 0.75),
+    p90: distributionQuantile(d, 0.9),
+    mean: distributionMean(d),
+    sd: Math.sqrt(Math.max(0, distributionVariance(d))),
+  };
 }
 
 /** A central prediction interval of the blend. */

@@ -18,7 +18,7 @@ import { quantile } from "../stats/quantile";
 import { studentTQuantile } from "../stats/student-t";
 import { threePointDistribution, type PanelDistribution, type ThreePointAnswer } from "./distribution";
 import { BIAS_PRIOR_STRENGTH, NOMINAL_INTERVAL_COVERAGE } from "./track-record";
-import { assertFinite, assertPositive } from "./validate";
+import { assertFinite, assertPositive } from "../stats/validate";
 
 /**
  * The prior for the scale of the panel figure's log errors when the resolved history is short:

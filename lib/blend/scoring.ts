@@ -15,7 +15,7 @@ import {
   type AccuracyResult,
 } from "../forecast/accuracy";
 import { withinMagnitude } from "./magnitude";
-import { assertFinite, assertFiniteArray } from "./validate";
+import { assertFinite, assertFiniteArray } from "../stats/validate";
 
 /**
  * Tracking-signal alarm limit, in MAD units: |TS| above 4 flags a biased series. ±4 is the

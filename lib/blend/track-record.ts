@@ -9,7 +9,7 @@ import { median } from "../stats/summary";
 import { neumaierSum } from "../stats/sum";
 import type { ThreePointAnswer } from "./distribution";
 import { withinMagnitude } from "./magnitude";
-import { assertFinite, assertFiniteArray, assertNonEmpty, assertPositive } from "./validate";
+import { assertFinite, assertFinitePairs, assertNonEmpty, assertPositive } from "../stats/validate";
 
 /**
  * Prior strength n0 of the bias-factor shrinkage: with n resolved questions the mean log ratio
@@ -76,11 +76,7 @@ export interface TheilDecomposition {
  */
 export function theilDecomposition(actual: readonly number[], forecast: readonly number[]): TheilDecomposition {
   const fn = "theilDecomposition";
-  assertFiniteArray(actual, fn, "actual");
-  assertFiniteArray(forecast, fn, "forecast");
-  if (actual.length !== forecast.length) {
-    throw new RangeError(`${fn}: actual has ${actual.length} values but forecast has ${forecast.length}; they must pair up`);
-  }
+  assertFinitePairs(actual, forecast, fn, "actual", "forecast");
   const n = actual.length;
   const mse = meanSquaredError(actual, forecast);
   const ma = neumaierSum(actual) / n;
@@ -115,11 +111,7 @@ export function theilDecomposition(actual: readonly number[], forecast: readonly
  */
 export function meanLogRatio(actual: readonly number[], answer: readonly number[]): number {
   const fn = "meanLogRatio";
-  assertFiniteArray(actual, fn, "actual");
-  assertFiniteArray(answer, fn, "answer");
-  if (actual.length !== answer.length) {
-    throw new RangeError(`${fn}: actual has ${actual.length} values but answer has ${answer.length}; they must pair up`);
-  }
+  assertFinitePairs(actual, answer, fn, "actual", "answer");
   actual.forEach((a, i) => assertPositive(a, fn, `actual[${i}]`));
   answer.forEach((a, i) => assertPositive(a, fn, `answer[${i}]`));
   return neumaierSum(actual.map((a, i) => Math.log(a / answer[i]))) / actual.length;

@@ -7,7 +7,7 @@
 import { meanSquaredError } from "../forecast/accuracy";
 import { neumaierSum } from "../stats/sum";
 import { BIAS_PRIOR_STRENGTH } from "./track-record";
-import { assertFinite, assertPositive, assertUnitInterval } from "./validate";
+import { assertFinite, assertPositive, assertUnitInterval } from "../stats/validate";
 
 /**
  * The panel's weight under equal weighting, 1/2: a robust default when there is no history to

@@ -17,31 +17,11 @@
  * tracking signal as defined in docs/methods.md §8 (cumulative error over the running MAD, on raw
  * or relative errors).
  */
-import { neumaierSum } from "../stats/sum";
+import { neumaierSum, RunningSum } from "../stats/sum";
+import { assertFinitePairs } from "../stats/validate";
 
 function check(actual: readonly number[], forecast: readonly number[], fn: string): void {
-  if (actual.length === 0) throw new RangeError(`${fn}: actual is empty; at least one pair is needed`);
-  if (actual.length !== forecast.length) {
-    throw new RangeError(`${fn}: actual has ${actual.length} values but forecast has ${forecast.length}; they must pair up`);
-  }
-  for (let i = 0; i < actual.length; i++) {
-    if (!Number.isFinite(actual[i])) throw new RangeError(`${fn}: actual[${i}] is ${actual[i]}; values must be finite`);
-    if (!Number.isFinite(forecast[i])) throw new RangeError(`${fn}: forecast[${i}] is ${forecast[i]}; values must be finite`);
-  }
-}
-
-/** Neumaier compensated running sum (same algorithm as lib/stats/sum.ts). */
-class RunningSum {
-  private s = 0;
-  private c = 0;
-  add(v: number): void {
-    const t = this.s + v;
-    this.c += Math.abs(this.s) >= Math.abs(v) ? this.s - t + v : v - t + this.s;
-    this.s = t;
-  }
-  value(): number {
-    return this.s + this.c;
-  }
+  assertFinitePairs(actual, forecast, fn, "actual", "forecast");
 }
 
 function meanOf(values: readonly number[]): number {

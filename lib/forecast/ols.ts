@@ -1,5 +1,7 @@
 /**
- * Ordinary least squares by Householder QR (pure TypeScript; imports only lib/stats).
+ * Ordinary least squares by Householder QR (pure TypeScript; imports only lib/stats and the
+ * engine's error type). A design that is rank-deficient or otherwise unusable throws
+ * `ForecastInputError` naming the column.
  *
  * The design matrix X (n × p, with a leading column of ones when `intercept` is on) is
  * reduced to Q'X = [R; 0] by p Householder reflections applied in place, and Q'y is formed
@@ -16,6 +18,7 @@
  */
 import { neumaierSum } from "../stats/sum";
 import { studentTQuantile } from "../stats/student-t";
+import { ForecastInputError } from "./types";
 
 /**
  * Relative size below which a column's remaining norm after the earlier reflections marks it
@@ -63,21 +66,13 @@ export interface OlsResult {
   readonly r: readonly number[];
 }
 
-/** Thrown when the design is rank-deficient or otherwise unusable; names the column. */
-export class OlsInputError extends Error {
-  constructor(message: string) {
-    super(message);
-    this.name = "OlsInputError";
-  }
-}
-
 /**
  * Fits y = Xβ + ε by least squares via Householder QR (see the module comment for the
  * method and its sources).
  *
  * Input: y of length n (finite), `columns` an array of p' explanatory columns each of length
  * n (finite); n must exceed the number of coefficients p = p' (+1 with an intercept).
- * @throws OlsInputError naming the column when a value is not finite, a column has the wrong
+ * @throws ForecastInputError naming the column when a value is not finite, a column has the wrong
  *   length, there are not more observations than coefficients, or a column is (numerically)
  *   a linear combination of the intercept and earlier columns (relative tolerance
  *   {@link RANK_TOLERANCE}).
@@ -89,20 +84,20 @@ export function ols(y: readonly number[], columns: readonly (readonly number[])[
   const xNames = columns.map((_, j) => options.names?.[j] ?? `x${j + 1}`);
   const names = intercept ? ["(Intercept)", ...xNames] : xNames;
   const p = names.length;
-  if (p === 0) throw new OlsInputError("ols: the model has no intercept and no columns");
+  if (p === 0) throw new ForecastInputError("ols: the model has no intercept and no columns");
   y.forEach((v, i) => {
-    if (!Number.isFinite(v)) throw new OlsInputError(`ols: the response at row ${i + 1} is ${v}; values must be finite`);
+    if (!Number.isFinite(v)) throw new ForecastInputError(`ols: the response at row ${i + 1} is ${v}; values must be finite`);
   });
   columns.forEach((c, j) => {
     if (c.length !== n) {
-      throw new OlsInputError(`ols: column '${xNames[j]}' has ${c.length} values but the response has ${n}`);
+      throw new ForecastInputError(`ols: column '${xNames[j]}' has ${c.length} values but the response has ${n}`);
     }
     c.forEach((v, i) => {
-      if (!Number.isFinite(v)) throw new OlsInputError(`ols: column '${xNames[j]}' at row ${i + 1} is ${v}; values must be finite`);
+      if (!Number.isFinite(v)) throw new ForecastInputError(`ols: column '${xNames[j]}' at row ${i + 1} is ${v}; values must be finite`);
     });
   });
   if (n <= p) {
-    throw new OlsInputError(`ols: ${p} coefficients need more than ${p} observations, got ${n}`);
+    throw new ForecastInputError(`ols: ${p} coefficients need more than ${p} observations, got ${n}`);
   }
   // Column-major working copy of X and of y.
   const a: Float64Array[] = [];
@@ -118,7 +113,7 @@ export function ols(y: readonly number[], columns: readonly (readonly number[])[
       const what = intercept && j === 0 ? "the intercept" : `column '${names[j]}'`;
       const others = names.slice(0, j).filter((nm) => nm !== "(Intercept)");
       const against = intercept ? (others.length ? `the intercept and ${others.map((o) => `'${o}'`).join(", ")}` : "the intercept") : others.map((o) => `'${o}'`).join(", ");
-      throw new OlsInputError(
+      throw new ForecastInputError(
         origNorm === 0
           ? `ols: ${what} is all zeros; remove it`
           : `ols: ${what} is a linear combination of ${against || "the earlier columns"} (rank-deficient design); remove it or one of those`,
@@ -219,11 +214,11 @@ function upperInverse(r: readonly number[], p: number): number[] {
 /**
  * Leverage term x₀'(X'X)⁻¹x₀ = ‖R⁻ᵀx₀‖² for a new design row x₀ (intercept entry included),
  * by forward substitution Rᵀz = x₀.
- * @throws OlsInputError when x₀ has the wrong length.
+ * @throws ForecastInputError when x₀ has the wrong length.
  */
 export function leverage(fit: Pick<OlsResult, "r" | "p">, x0: readonly number[]): number {
   const { r, p } = fit;
-  if (x0.length !== p) throw new OlsInputError(`leverage: the new row has ${x0.length} entries, the model ${p}`);
+  if (x0.length !== p) throw new ForecastInputError(`leverage: the new row has ${x0.length} entries, the model ${p}`);
   const z = new Array<number>(p).fill(0);
   for (let i = 0; i < p; i++) {
     let s = x0[i];
@@ -251,7 +246,7 @@ export interface OlsPrediction {
  * @param newColumns one array per explanatory column (same order as in {@link ols}), each of
  *   the same length (the number of new rows); the intercept is added when the fit has one.
  * @param levels interval levels in percent, each in (0, 100).
- * @throws OlsInputError for a wrong number or length of columns, a non-finite value (naming
+ * @throws ForecastInputError for a wrong number or length of columns, a non-finite value (naming
  *   the column and row), or a level outside (0, 100).
  */
 export function olsPredict(
@@ -262,17 +257,17 @@ export function olsPredict(
   const k = fit.intercept ? fit.p - 1 : fit.p;
   const colNames = fit.intercept ? fit.names.slice(1) : fit.names;
   if (newColumns.length !== k) {
-    throw new OlsInputError(`olsPredict: the model has ${k} explanatory column(s), got ${newColumns.length}`);
+    throw new ForecastInputError(`olsPredict: the model has ${k} explanatory column(s), got ${newColumns.length}`);
   }
   const h = k > 0 ? newColumns[0].length : 0;
   newColumns.forEach((c, j) => {
-    if (c.length !== h) throw new OlsInputError(`olsPredict: column '${colNames[j]}' has ${c.length} new values, expected ${h}`);
+    if (c.length !== h) throw new ForecastInputError(`olsPredict: column '${colNames[j]}' has ${c.length} new values, expected ${h}`);
     c.forEach((v, i) => {
-      if (!Number.isFinite(v)) throw new OlsInputError(`olsPredict: column '${colNames[j]}' at new row ${i + 1} is ${v}; values must be finite`);
+      if (!Number.isFinite(v)) throw new ForecastInputError(`olsPredict: column '${colNames[j]}' at new row ${i + 1} is ${v}; values must be finite`);
     });
   });
   for (const lv of levels) {
-    if (!(lv > 0 && lv < 100)) throw new OlsInputError(`olsPredict: interval levels must be percentages between 0 and 100, got ${lv}`);
+    if (!(lv > 0 && lv < 100)) throw new ForecastInputError(`olsPredict: interval levels must be percentages between 0 and 100, got ${lv}`);
   }
   const mean: number[] = [];
   const sd: number[] = [];

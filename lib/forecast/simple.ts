@@ -7,7 +7,7 @@ import { neumaierSum } from "../stats/sum";
 import { normalQuantile } from "../stats/normal";
 import { studentTQuantile } from "../stats/student-t";
 import { ForecastInputError, type Fit, type Forecast, type MethodId } from "./types";
-import { leverage, ols, OlsInputError, type OlsResult } from "./ols";
+import { leverage, ols, type OlsResult } from "./ols";
 
 /** Largest horizon a simple method will forecast (an absurd horizon is refused). */
 export const SIMPLE_MAX_HORIZON = 10000;
@@ -314,7 +314,7 @@ export function fitLinearModel(
     try {
       fit = ols(target, freeCols, { intercept: free[0], names: freeNames });
     } catch (e) {
-      if (e instanceof OlsInputError) throw new ForecastInputError(`${method}: ${e.message.replace(/^ols: /, "")}`);
+      if (e instanceof ForecastInputError) throw new ForecastInputError(`${method}: ${e.message.replace(/^ols: /, "")}`);
       throw e;
     }
     let k = 0;

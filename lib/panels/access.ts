@@ -11,11 +11,17 @@
  *   refuse panelists with 403 whatever the panel.
  * A panel the user cannot reach is reported as not found (404), so its existence is not
  * revealed; a panel the user can read but not change gives 403 on changes.
+ *
+ * Every way into a panel's state passes here, so this is also where rounds whose deadline has
+ * passed are closed ({@link settleDeadlines}), before the caller reads anything: once access
+ * is granted for {@link authorisePanel} and {@link authorisePanelist}, for every reachable panel
+ * in {@link authoriseUser}.
  */
 import { db } from "@/lib/db";
 import { ForbiddenError, NotFoundError } from "@/lib/errors";
 import type { Actor, PanelistActor, UserActor } from "@/lib/accounts/actor";
-import type { Panel } from "@/lib/generated/prisma/client";
+import type { Panel, Prisma } from "@/lib/generated/prisma/client";
+import { settleDeadlines } from "./round-closing";
 
 /** What the actor is to the panel. */
 export type PanelRole = "owner" | "organiser" | "reviewer";
@@ -47,11 +53,42 @@ export async function authorisePanel(actor: Actor, panelId: string, need: PanelN
   if (!role) throw new NotFoundError("The panel");
   const canManage = role === "owner" || role === "organiser";
   if (need === "manage" && !canManage) throw new ForbiddenError("You have read-only access to this panel.");
+  await settleDeadlines(panelId);
   const { shares: _shares, ...plain } = panel;
   return { actor, panel: plain, role, canManage };
 }
 
-/** The actor as a panelist. @throws ForbiddenError for a user (organisers do not answer). */
+/**
+ * The actor as a user, with the panels they can reach (owned, or shared with them) as a filter,
+ * for lists of panels; the overdue rounds of all of them are closed first.
+ * @throws ForbiddenError for a panelist.
+ */
+export async function authoriseUser(actor: Actor): Promise<{ actor: UserActor; reachable: Prisma.PanelWhereInput }> {
+  if (actor.kind !== "user") throw new ForbiddenError("Panelists can only use the panelist pages and /api/v1/panelist.");
+  const reachable: Prisma.PanelWhereInput =
+    actor.role === "organiser"
+      ? { OR: [{ ownerId: actor.userId }, { shares: { some: { email: actor.email } } }] }
+      : { shares: { some: { email: actor.email } } };
+  await settleDeadlines(reachable);
+  return { actor, reachable };
+}
+
+/**
+ * The actor as a panelist, with the overdue rounds of their panel closed.
+ * @throws ForbiddenError for a user (organisers do not answer).
+ */
+export async function authorisePanelist(actor: Actor): Promise<PanelistActor> {
+  const me = requirePanelist(actor);
+  await settleDeadlines(me.panelId);
+  return me;
+}
+
+/**
+ * The actor as a panelist, without closing overdue rounds: only for the answer path, whose one
+ * statement reads the open round's deadline and calls {@link authorisePanelist} when it has
+ * passed. Everything else uses authorisePanelist.
+ * @throws ForbiddenError for a user (organisers do not answer).
+ */
 export function requirePanelist(actor: Actor): PanelistActor {
   if (actor.kind !== "panelist") {
     throw new ForbiddenError("Only panelists (with an invitation token) can use this; organisers and reviewers do not answer.");

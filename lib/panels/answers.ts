@@ -17,8 +17,7 @@ import { ConflictError, DomainError, InvalidInputError, type FieldError } from "
 import type { Actor, PanelistActor } from "@/lib/accounts/actor";
 import type { Answer, Prisma, Question } from "@/lib/generated/prisma/client";
 import type { AnswerInput } from "@/lib/validation/inputs";
-import { requirePanelist } from "./access";
-import { settleDeadlines } from "./round-closing";
+import { authorisePanelist, requirePanelist } from "./access";
 import { currentRound, questionView, roundView, type QuestionView, type RoundView } from "./panels";
 import { closedRoundQuartiles } from "./round-quartiles";
 
@@ -107,8 +106,7 @@ export async function explanationsRequired(
 
 /** The panelist's panel: questions, the current round and their own answers in it. */
 export async function getPanelistPanel(actor: Actor): Promise<PanelistPanelView> {
-  const me = requirePanelist(actor);
-  await settleDeadlines(me.panelId);
+  const me = await authorisePanelist(actor);
   const panel = await db.panel.findUniqueOrThrow({
     where: { id: me.panelId },
     include: { questions: { orderBy: { position: "asc" } }, rounds: true },
@@ -262,7 +260,8 @@ async function storeAnswer(me: PanelistActor, input: AnswerInput, key: string | 
   let round =
     found.roundId === null ? null : { id: found.roundId, number: Number(found.roundNumber), deadline: found.deadline === null ? null : new Date(found.deadline) };
   if (round?.deadline && round.deadline.getTime() <= Date.now()) {
-    await settleDeadlines(me.panelId);
+    // The deadline has passed: entering the panel closes the round, so the message below names it.
+    await authorisePanelist(me);
     round = null;
   }
   if (!round) {

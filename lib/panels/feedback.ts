@@ -15,9 +15,8 @@
 import { db } from "@/lib/db";
 import type { Actor } from "@/lib/accounts/actor";
 import type { HistogramBin } from "@/lib/stats";
-import { requirePanelist } from "./access";
+import { authorisePanelist } from "./access";
 import { explanationsRequired } from "./answers";
-import { settleDeadlines } from "./round-closing";
 import { closedRoundFeedback } from "./round-feedback";
 
 export interface QuestionFeedback {
@@ -83,8 +82,7 @@ export interface FeedbackOptions {
  * (lib/panels/round-feedback.ts); only the reader's own answer and rationales are chosen here.
  */
 export async function getFeedback(actor: Actor, options: FeedbackOptions = {}): Promise<FeedbackView> {
-  const me = requirePanelist(actor);
-  await settleDeadlines(me.panelId);
+  const me = await authorisePanelist(actor);
   const round = await db.round.findFirst({ where: { panelId: me.panelId, status: "closed" }, orderBy: { number: "desc" }, select: { id: true, panelId: true, number: true, closedAt: true } });
   const finished = (await db.panel.findUniqueOrThrow({ where: { id: me.panelId }, select: { status: true } })).status === "finished";
   if (!round) return { round: null, finished, questions: [] };

@@ -18,9 +18,8 @@ import {
   type ConsensusMeasure,
 } from "@/lib/stats/stopping-rules";
 import { MAX_QUESTIONS_PER_PANEL, requireWithinLimit } from "@/lib/validation/limits";
-import { authorisePanel, type PanelRole } from "./access";
+import { authorisePanel, authoriseUser, type PanelRole } from "./access";
 import { recordAudit } from "./audit";
-import { settleDeadlines } from "./round-closing";
 
 export interface QuestionView {
   readonly id: string;
@@ -130,23 +129,18 @@ async function loadPanelView(panelId: string, role: PanelRole): Promise<PanelVie
 
 /** Panels the user can reach (owned, or shared with them), newest first. */
 export async function listPanels(actor: Actor): Promise<PanelSummary[]> {
-  if (actor.kind !== "user") throw new ForbiddenError("Panelists can only use the panelist pages and /api/v1/panelist.");
-  const where =
-    actor.role === "organiser"
-      ? { OR: [{ ownerId: actor.userId }, { shares: { some: { email: actor.email } } }] }
-      : { shares: { some: { email: actor.email } } };
+  const { actor: user, reachable } = await authoriseUser(actor);
   const panels = await db.panel.findMany({
-    where,
+    where: reachable,
     orderBy: { createdAt: "desc" },
-    include: { rounds: true, shares: { where: { email: actor.email } }, _count: { select: { questions: true } } },
+    include: { rounds: true, shares: { where: { email: user.email } }, _count: { select: { questions: true } } },
   });
-  for (const p of panels) await settleDeadlines(p.id);
   return panels.map((p) => {
     const share = p.shares[0];
     const role: PanelRole =
-      actor.role === "organiser" && p.ownerId === actor.userId
+      user.role === "organiser" && p.ownerId === user.userId
         ? "owner"
-        : actor.role === "organiser" && share?.role === "organiser"
+        : user.role === "organiser" && share?.role === "organiser"
           ? "organiser"
           : "reviewer";
     const round = currentRound(p.rounds);
@@ -165,7 +159,6 @@ export async function listPanels(actor: Actor): Promise<PanelSummary[]> {
 /** One panel with its questions, rules and rounds (organisers and reviewers of the panel). */
 export async function getPanel(actor: Actor, panelId: string): Promise<PanelView> {
   const access = await authorisePanel(actor, panelId, "read");
-  await settleDeadlines(panelId);
   return loadPanelView(panelId, access.role);
 }
 

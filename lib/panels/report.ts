@@ -24,7 +24,7 @@ import { authorisePanel, type PanelRole } from "./access";
 import type { BaselinePreview } from "./baselines";
 import type { ConvergencePoint } from "./rounds";
 import { resolutionView, type ResolutionView } from "./resolution";
-import { computeTriangulation, loadTriangulation, type CorrectedAnswer, type DepartureReport } from "./triangulation";
+import { computeTriangulation, loadTriangulation, type CorrectedAnswer, type DepartureReport, type LoadedTriangulation } from "./triangulation";
 import { panelReads, type PanelReads } from "./panel-reads";
 import { jsonSafe, type JsonSafe } from "./json";
 import { correctionSummary, namesRevealed } from "./report-views";
@@ -141,6 +141,20 @@ const safeIntervals = (iv: readonly BlendInterval[]): Intervals => jsonSafe(iv) 
  * shows several questions passes one `reads` (lib/panels/panel-reads.ts) to them all.
  */
 export async function getQuestionReport(actor: Actor, panelId: string, questionId: string, reads: PanelReads = panelReads()): Promise<QuestionReport> {
+  return (await getQuestionReportWithRule(actor, panelId, questionId, reads)).report;
+}
+
+/**
+ * {@link getQuestionReport} with the blend weight rule the question follows now, as stored (the
+ * organiser's question page shows the report and sets the rule: the triangulation is loaded and
+ * computed once for both).
+ */
+export async function getQuestionReportWithRule(
+  actor: Actor,
+  panelId: string,
+  questionId: string,
+  reads: PanelReads = panelReads(),
+): Promise<{ report: QuestionReport; weightRule: LoadedTriangulation["rule"] }> {
   const access = await authorisePanel(actor, panelId, "read");
   const loaded = await loadTriangulation(panelId, questionId, reads);
   const t = computeTriangulation(loaded.input);
@@ -229,7 +243,7 @@ export async function getQuestionReport(actor: Actor, panelId: string, questionI
   if (resolution) cautions.push("This question is resolved: the figures above are recomputed from the stored inputs; the scores use the figures as they stood at resolution.");
 
   const w = t.weights;
-  return {
+  const report: QuestionReport = {
     generatedAt: new Date().toISOString(),
     panel: { id: access.panel.id, title: access.panel.title, status: access.panel.status },
     question: loaded.question,
@@ -287,6 +301,7 @@ export async function getQuestionReport(actor: Actor, panelId: string, questionI
     warnings,
     cautions,
   };
+  return { report, weightRule: loaded.rule };
 }
 
 export { csvCell };

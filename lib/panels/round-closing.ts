@@ -1,7 +1,7 @@
 /**
  * Closing a round: the conditional status change open → closed, the round statistics of every
  * question, and the audit event, all in one transaction. Used by the organiser's "close" and
- * by {@link settleDeadlines}, which every read and write of a panel calls first, so that a
+ * by {@link settleDeadlines}, which lib/panels/access.ts calls on every way into a panel, so that a
  * round whose deadline has passed is closed lazily and exactly once (the conditional update
  * `status = 'open'` lets only one caller win).
  */
@@ -84,11 +84,13 @@ export async function closeRoundInTx(
 }
 
 /**
- * Closes every open round of the panel whose deadline has passed (closedAt = the deadline).
- * Cheap when there is nothing to do (one indexed query).
+ * Closes every open round whose deadline has passed (closedAt = the deadline) of one panel (its
+ * id) or of the panels `panels` matches. Cheap when there is nothing to do (one indexed query). Called only by
+ * lib/panels/access.ts, the way into every panel's state.
  */
-export async function settleDeadlines(panelId: string, now: Date = new Date()): Promise<void> {
-  const due = await db.round.findMany({ where: { panelId, status: "open", deadline: { lte: now } } });
+export async function settleDeadlines(panels: string | Prisma.PanelWhereInput, now: Date = new Date()): Promise<void> {
+  const which = typeof panels === "string" ? { panelId: panels } : { panel: panels };
+  const due = await db.round.findMany({ where: { ...which, status: "open", deadline: { lte: now } } });
   for (const round of due) {
     await db.$transaction((tx) => closeRoundInTx(tx, round, { actorId: null, reason: "deadline", closedAt: round.deadline ?? now }));
   }

@@ -7,14 +7,16 @@
  *   answers: n, mean, sd (n − 1), CV, min, max, Q1/median/Q3 (Hyndman & Fan type 7), IQR,
  *   relative IQR.
  * - three-point answers also: `lows` and `highs` (the same summary of the 10th and 90th
- *   percentiles) and `pooled` (linear opinion pool, lib/stats/three-point.ts).
+ *   percentiles) and `pooled`: the equal-weight linear opinion pool of the answers, each a
+ *   two-piece normal through its P10 / P50 / P90 (lib/blend `panelFromThreePoint`, the same pool
+ *   the triangulation uses), summarised by `distributionSummary`.
  * - sum-of-parts questions also: `sumOfParts`: each part (by pseudonym) with its share of the
  *   total, and the total = Σ parts (of the median estimates for three-point answers; the sum
  *   of 10th percentiles is not the 10th percentile of the sum, so no range is summed).
  * Undefined statistics (sd of one answer, CV with mean 0, …) are stored as null.
  */
 import { summarise, type Summary } from "../stats/summary";
-import { poolThreePoint, type PooledDistribution } from "../stats/three-point";
+import { distributionSummary, panelFromThreePoint, type DistributionSummary } from "../blend";
 
 /** A summary with undefined values as null (JSON has no NaN). */
 export type SummaryFigures = { readonly [K in keyof Summary]: number | null };
@@ -24,6 +26,15 @@ export interface FinalAnswer {
   readonly value: number;
   readonly low: number | null;
   readonly high: number | null;
+}
+
+/** The pooled distribution of a round's three-point answers: how many, and its summary figures. */
+export type PooledDistribution = { readonly n: number } & DistributionSummary;
+
+/** The pool of three-point answers (each with low and high) as stored in the round statistics. */
+function pooledFigures(answers: readonly FinalAnswer[]): PooledDistribution {
+  const panel = panelFromThreePoint(answers.map((a) => ({ low: a.low as number, mid: a.value, high: a.high as number })));
+  return { n: panel.n, ...distributionSummary(panel.distribution) };
 }
 
 export interface PartContribution {
@@ -83,7 +94,7 @@ export function computeQuestionStatistics(
     values: figures(values),
     lows: threePoint ? figures(tp.map((a) => a.low as number)) : null,
     highs: threePoint ? figures(tp.map((a) => a.high as number)) : null,
-    pooled: threePoint && tp.length > 0 ? poolThreePoint(tp.map((a) => ({ low: a.low as number, median: a.value, high: a.high as number }))) : null,
+    pooled: threePoint && tp.length > 0 ? pooledFigures(tp) : null,
     sumOfParts: parts,
   };
 }

@@ -16,7 +16,7 @@ import {
 } from "@/lib/stats/stopping-rules";
 import { authorisePanel } from "./access";
 import { recordAudit } from "./audit";
-import { closeRoundInTx, finalAnswers, settleDeadlines } from "./round-closing";
+import { closeRoundInTx, finalAnswers } from "./round-closing";
 import { closedRound, type ClosedRound } from "./closed-rounds";
 import { panelRules, roundView, type PanelRules, type RoundView } from "./panels";
 import type { QuestionStatistics } from "./round-statistics";
@@ -37,7 +37,6 @@ function parseDeadline(deadline: string | undefined, now: Date): Date | null {
 /** The panel's rounds in order (organisers and reviewers). */
 export async function listRounds(actor: Actor, panelId: string): Promise<RoundView[]> {
   await authorisePanel(actor, panelId, "read");
-  await settleDeadlines(panelId);
   const rounds = await db.round.findMany({ where: { panelId }, orderBy: { number: "asc" } });
   return rounds.map(roundView);
 }
@@ -49,7 +48,6 @@ export async function listRounds(actor: Actor, panelId: string): Promise<RoundVi
  */
 export async function openRound(actor: Actor, panelId: string, roundNumber: number, input: RoundOpen): Promise<RoundView> {
   const access = await authorisePanel(actor, panelId, "manage");
-  await settleDeadlines(panelId);
   const now = new Date();
   const deadline = parseDeadline(input.deadline, now);
   const round = await findRound(panelId, roundNumber);
@@ -79,7 +77,6 @@ export async function openRound(actor: Actor, panelId: string, roundNumber: numb
  */
 export async function closeRound(actor: Actor, panelId: string, roundNumber: number): Promise<RoundView> {
   const access = await authorisePanel(actor, panelId, "manage");
-  await settleDeadlines(panelId);
   const round = await findRound(panelId, roundNumber);
   if (round.status !== "open") throw new ConflictError("round-not-open", `Round ${roundNumber} is ${round.status}, not open.`);
   const closed = await db.$transaction((tx) =>
@@ -96,7 +93,6 @@ export async function closeRound(actor: Actor, panelId: string, roundNumber: num
  */
 export async function startNextRound(actor: Actor, panelId: string, input: NextRoundInput): Promise<RoundView> {
   const access = await authorisePanel(actor, panelId, "manage");
-  await settleDeadlines(panelId);
   if (access.panel.status === "finished") throw new ConflictError("panel-finished", "The panel is finished.");
   const last = await db.round.findFirst({ where: { panelId }, orderBy: { number: "desc" } });
   if (last && last.status !== "closed") throw new ConflictError("round-still-open", `Round ${last.number} is ${last.status}; close it before starting the next round.`);
@@ -119,7 +115,6 @@ export async function startNextRound(actor: Actor, panelId: string, input: NextR
 /** Finishes the panel (no round may be open; an unopened draft round is dropped). */
 export async function finishPanel(actor: Actor, panelId: string): Promise<{ id: string; status: "finished" }> {
   const access = await authorisePanel(actor, panelId, "manage");
-  await settleDeadlines(panelId);
   if (access.panel.status === "finished") throw new ConflictError("panel-finished", "The panel is already finished.");
   const open = await db.round.findFirst({ where: { panelId, status: "open" } });
   if (open) throw new ConflictError("round-still-open", `Round ${open.number} is open; close it first.`);
@@ -150,7 +145,6 @@ export interface ProgressView {
  */
 export async function getProgress(actor: Actor, panelId: string): Promise<ProgressView> {
   await authorisePanel(actor, panelId, "manage");
-  await settleDeadlines(panelId);
   const [rounds, questionCount, invitations] = await Promise.all([
     db.round.findMany({ where: { panelId }, orderBy: { number: "desc" } }),
     db.question.count({ where: { panelId } }),
@@ -217,7 +211,6 @@ export async function getRoundStatistics(
   roundNumber: number,
 ): Promise<{ round: RoundView; questions: QuestionStatisticsView[] }> {
   await authorisePanel(actor, panelId, "read");
-  await settleDeadlines(panelId);
   const round = await findRound(panelId, roundNumber);
   if (round.status !== "closed") throw new ConflictError("round-not-closed", `Round ${roundNumber} is ${round.status}; statistics are computed when it closes.`);
   const { statistics } = await closedRound(round);
@@ -248,7 +241,6 @@ export async function getRoundAnswers(
   roundNumber: number,
 ): Promise<{ round: RoundView; questions: { questionId: string; answers: RoundAnswerView[] }[] }> {
   await authorisePanel(actor, panelId, "manage");
-  await settleDeadlines(panelId);
   const round = await findRound(panelId, roundNumber);
   const questions = await db.question.findMany({ where: { panelId }, orderBy: { position: "asc" } });
   const answers = await finalAnswers(db, round.id);
@@ -316,7 +308,6 @@ function figuresOf(s: QuestionStatistics, answers?: ReadonlyMap<string, readonly
  */
 export async function getConvergence(actor: Actor, panelId: string): Promise<ConvergenceView> {
   const access = await authorisePanel(actor, panelId, "read");
-  await settleDeadlines(panelId);
   const panel = await db.panel.findUniqueOrThrow({ where: { id: panelId } });
   const questions = await db.question.findMany({ where: { panelId }, orderBy: { position: "asc" } });
   const rounds = await db.round.findMany({ where: { panelId, status: "closed" }, orderBy: { number: "asc" } });

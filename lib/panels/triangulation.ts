@@ -71,7 +71,6 @@ import type { PanelWeightRule, PanelBlendRuleInput, QuestionBlendRuleInput } fro
 import { authorisePanel } from "./access";
 import { recordAudit } from "./audit";
 import { storedTarget, type BaselineTarget } from "./baselines";
-import { settleDeadlines } from "./round-closing";
 import { legWarnings } from "./warnings";
 import { historyOf, type HistoryFilter } from "./track-records";
 import { panelReads, type PanelReads } from "./panel-reads";
@@ -410,11 +409,11 @@ export interface LoadedTriangulation {
 }
 
 /**
- * Loads a question's inputs (no access check: callers authorise). `reads` shares the reads of
- * one request across its questions (lib/panels/panel-reads.ts).
+ * Loads a question's inputs (no access check: callers authorise, which also closes overdue
+ * rounds, lib/panels/access.ts). `reads` shares the reads of one request across its questions
+ * (lib/panels/panel-reads.ts).
  */
 export async function loadTriangulation(panelId: string, questionId: string, reads: PanelReads = panelReads()): Promise<LoadedTriangulation> {
-  await settleDeadlines(panelId);
   const q = await db.question.findFirst({
     where: { id: questionId, panelId },
     include: { panel: true, baseline: true, resolution: { select: { resolvedAt: true } } },

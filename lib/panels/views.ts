@@ -4,8 +4,7 @@
  */
 import type { Actor } from "@/lib/accounts/actor";
 import { getConvergence, getRoundStatistics, type ConvergenceView } from "./rounds";
-import type { PartContribution, SummaryFigures } from "./round-statistics";
-import type { PooledDistribution } from "@/lib/stats/three-point";
+import type { PartContribution, PooledDistribution, SummaryFigures } from "./round-statistics";
 
 /** A sum-of-parts question's parts in one closed round, by pseudonym. */
 export interface RoundParts {

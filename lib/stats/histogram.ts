@@ -1,4 +1,4 @@
-import { assertFiniteSample } from "./validate";
+import { assertFiniteArray } from "./validate";
 
 /** One bin of a {@link histogram}: the values in (lower, upper] (the first bin also holds `lower`). */
 export interface HistogramBin {
@@ -16,7 +16,7 @@ export interface HistogramBin {
  * @throws RangeError for an empty sample, a non-finite value or a bin count below 1.
  */
 export function histogram(values: readonly number[], bins?: number): HistogramBin[] {
-  assertFiniteSample(values, "histogram");
+  assertFiniteArray(values, "histogram");
   let lo = values[0];
   let hi = values[0];
   for (const v of values) {

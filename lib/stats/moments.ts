@@ -1,4 +1,4 @@
-import { assertFiniteSample } from "./validate";
+import { assertFiniteArray } from "./validate";
 import { neumaierSum } from "./sum";
 
 /**
@@ -9,7 +9,7 @@ import { neumaierSum } from "./sum";
  * @example mean([1, 2, 3, 4]) // 2.5
  */
 export function mean(values: readonly number[]): number {
-  assertFiniteSample(values, "mean");
+  assertFiniteArray(values, "mean");
   return neumaierSum(values) / values.length;
 }
 
@@ -29,7 +29,7 @@ export function mean(values: readonly number[]): number {
  * @example variance([2, 4, 4, 4, 5, 5, 7, 9]) // 4.571428571428571
  */
 export function variance(values: readonly number[]): number {
-  assertFiniteSample(values, "variance");
+  assertFiniteArray(values, "variance");
   return welford(values).m2 / (values.length - 1);
 }
 
@@ -39,7 +39,7 @@ export function variance(values: readonly number[]): number {
  * @throws RangeError for an empty array or a non-finite value.
  */
 export function standardDeviation(values: readonly number[]): number {
-  assertFiniteSample(values, "standardDeviation");
+  assertFiniteArray(values, "standardDeviation");
   return Math.sqrt(welford(values).m2 / (values.length - 1));
 }
 

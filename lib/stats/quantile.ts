@@ -1,4 +1,4 @@
-import { assertFiniteSample, assertProbability } from "./validate";
+import { assertFiniteArray, assertProbability } from "./validate";
 
 /** Hyndman & Fan (1996) sample-quantile definitions 1–9. */
 export type QuantileType = 1 | 2 | 3 | 4 | 5 | 6 | 7 | 8 | 9;
@@ -48,7 +48,7 @@ export function quantileSorted(
   p: number,
   options: QuantileOptions = {},
 ): number {
-  assertFiniteSample(sorted, "quantileSorted");
+  assertFiniteArray(sorted, "quantileSorted", "sorted");
   for (let i = 1; i < sorted.length; i++) {
     if (sorted[i] < sorted[i - 1]) {
       throw new RangeError(
@@ -70,7 +70,7 @@ export function quantileSorted(
  * @example quantile([40, 15, 50, 20, 35], 0.4) // 29
  */
 export function quantile(values: readonly number[], p: number, options: QuantileOptions = {}): number {
-  assertFiniteSample(values, "quantile");
+  assertFiniteArray(values, "quantile");
   assertProbability(p, "quantile");
   return quantileOfSorted(sortAscending(values), p, options.type ?? DEFAULT_QUANTILE_TYPE);
 }

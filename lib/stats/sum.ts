@@ -1,4 +1,4 @@
-import { assertFiniteSample } from "./validate";
+import { assertFiniteArray } from "./validate";
 
 /**
  * Sum of `values` with Neumaier's compensated summation.
@@ -14,8 +14,25 @@ import { assertFiniteSample } from "./validate";
  * @example sum([1e100, 1, -1e100]) // 1 (naive left-to-right summation gives 0)
  */
 export function sum(values: readonly number[]): number {
-  assertFiniteSample(values, "sum");
+  assertFiniteArray(values, "sum");
   return neumaierSum(values);
+}
+
+/**
+ * Neumaier's compensated running sum (the algorithm of {@link sum}), for a sum read as it grows.
+ * Without input checks (callers inside lib have validated); empty, it is 0.
+ */
+export class RunningSum {
+  private s = 0;
+  private c = 0;
+  add(v: number): void {
+    const t = this.s + v;
+    this.c += Math.abs(this.s) >= Math.abs(v) ? this.s - t + v : v - t + this.s;
+    this.s = t;
+  }
+  value(): number {
+    return this.s + this.c;
+  }
 }
 
 /**
@@ -23,19 +40,9 @@ export function sum(values: readonly number[]): number {
  * Returns 0 for an empty array (the empty sum). Not re-exported from `index.ts`.
  */
 export function neumaierSum(values: readonly number[]): number {
-  let s = 0;
-  let c = 0;
-  for (let i = 0; i < values.length; i++) {
-    const v = values[i];
-    const t = s + v;
-    if (Math.abs(s) >= Math.abs(v)) {
-      c += s - t + v;
-    } else {
-      c += v - t + s;
-    }
-    s = t;
-  }
-  return s + c;
+  const total = new RunningSum();
+  for (let i = 0; i < values.length; i++) total.add(values[i]);
+  return total.value();
 }
 
 export default sum;

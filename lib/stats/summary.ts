@@ -1,4 +1,4 @@
-import { assertFiniteSample } from "./validate";
+import { assertFiniteArray } from "./validate";
 import { neumaierSum } from "./sum";
 import { welford } from "./moments";
 import { quantileOfSorted, sortAscending, type QuantileType, DEFAULT_QUANTILE_TYPE } from "./quantile";
@@ -50,7 +50,7 @@ export interface SummaryOptions {
  * @example summarise([3, 4, 4, 5, 5, 5, 6, 7]).iqr // 1.25
  */
 export function summarise(values: readonly number[], options: SummaryOptions = {}): Summary {
-  assertFiniteSample(values, "summarise");
+  assertFiniteArray(values, "summarise");
   const type = options.type ?? DEFAULT_QUANTILE_TYPE;
   const n = values.length;
   const sorted = sortAscending(values);
@@ -82,7 +82,7 @@ export function summarise(values: readonly number[], options: SummaryOptions = {
  * @example median([2, 4, 4, 5, 7, 9, 10]) // 5
  */
 export function median(values: readonly number[]): number {
-  assertFiniteSample(values, "median");
+  assertFiniteArray(values, "median");
   return quantileOfSorted(sortAscending(values), 0.5, 7);
 }
 

@@ -171,7 +171,7 @@ export const questionStatistics = z.object({
   pooled: z
     .object({ n: num, p10: num, p25: num, p50: num, p75: num, p90: num, mean: num, sd: num })
     .nullable()
-    .describe("linear opinion pool of the three-point answers (lib/stats/three-point.ts)"),
+    .describe("linear opinion pool of the three-point answers (lib/blend panelFromThreePoint)"),
   sumOfParts: z
     .object({ total: num, parts: z.array(z.object({ pseudonym: z.string(), value: num, share: numOrNull })) })
     .nullable(),

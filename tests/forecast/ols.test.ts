@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { leverage, ols, olsPredict, OlsInputError } from "../../lib/forecast/ols";
+import { leverage, ols, olsPredict } from "../../lib/forecast/ols";
+import { ForecastInputError } from "../../lib/forecast/types";
 import { referenceCsv, referenceText } from "../stats/reference-data";
 import { expectClose, runR } from "../stats/rscript";
 
@@ -104,7 +105,7 @@ describe("ols: errors name the column", () => {
     expect(() => ols([1, 3, 2, 5], [[0, 0, 0, 0]], { names: ["z"] })).toThrow(/'z' is all zeros/);
   });
   it("too few rows, NaN cells, wrong lengths", () => {
-    expect(() => ols([1, 2], [[1, 2]])).toThrow(OlsInputError);
+    expect(() => ols([1, 2], [[1, 2]])).toThrow(ForecastInputError);
     expect(() => ols([1, 2, 3, 4], [[1, NaN, 3, 4]], { names: ["a"] })).toThrow(/'a' at row 2/);
     expect(() => ols([1, 2, 3, 4], [[1, 2, 3]], { names: ["a"] })).toThrow(/'a' has 3 values/);
   });

@@ -1,5 +1,6 @@
 import { autocorrelations, classicalDecomposition } from "../decompose";
 import { checkHorizon, checkSeries, fitEts } from "../ets";
+import { ols } from "../ols";
 import { ForecastInputError, type Fit, type FitInput, type Forecast, type Method } from "../types";
 import { normalQuantile } from "../../stats/normal";
 
@@ -26,7 +27,7 @@ const MIN_LENGTH = 3;
  *    not above zero).
  * 2. SES (ETS(A,N,N)) is fitted to the (adjusted) series x by least squares: alpha and l0
  *    are estimated unless given in `fixed` (keys alpha, l0).
- * 3. b = OLS slope of x on t = 0..n−1; forecast
+ * 3. b = OLS slope of x on t = 0..n−1 (lib/forecast/ols.ts, as thetaf's lsfit); forecast
  *    ŷ_{n+h} = [ℓ_n + (b/2)·((h − 1) + (1 − (1 − α)^n)/α)] × (seasonal index of that position).
  * 4. Intervals as thetaf: ŷ ± z·σ·√(1 + (h − 1)α²), σ² the SES residual variance
  *    (SSE/(n − k), k estimated parameters) on the adjusted scale.
@@ -91,18 +92,8 @@ const theta: Method = {
     }
     const ses = fitEts("theta", { trend: "N", season: "N" }, x, 1, fixed);
     notes.push(...ses.notes);
-    // OLS slope of x on 0..n−1.
-    const tbar = (n - 1) / 2;
-    let xbar = 0;
-    for (let t = 0; t < n; t++) xbar += x[t];
-    xbar /= n;
-    let sxy = 0;
-    let sxx = 0;
-    for (let t = 0; t < n; t++) {
-      sxy += (t - tbar) * (x[t] - xbar);
-      sxx += (t - tbar) * (t - tbar);
-    }
-    const slope = sxy / sxx;
+    // OLS slope of x on 0..n−1 (a constant series has slope 0 exactly).
+    const slope = constant ? 0 : ols(x, [x.map((_, t) => t)]).coefficients[1];
     const fitted = ses.fitted.map((f, t) => (indices ? f * indices[t] : f));
     const residuals = fitted.map((f, t) => y[t] - f);
     let sse = 0;

@@ -4,9 +4,7 @@ import { NotFoundError } from "@/lib/errors";
 import { listAuditEvents } from "@/lib/panels/audit";
 import { getBaseline, type BaselineView } from "@/lib/panels/baselines";
 import { getPanel } from "@/lib/panels/panels";
-import { getQuestionReport } from "@/lib/panels/report";
-import { panelReads } from "@/lib/panels/panel-reads";
-import { getTriangulation } from "@/lib/panels/triangulation";
+import { getQuestionReportWithRule } from "@/lib/panels/report";
 import { BASELINE_METHODS } from "@/lib/validation/triangulation-inputs";
 import ActionForm, { FieldError } from "@/lib/ui/action-form";
 import BaselineForm from "@/lib/ui/baseline-form";
@@ -52,17 +50,14 @@ export default async function QuestionPage({ params }: { params: Promise<{ id: s
   if (panel.role === "reviewer") redirect(`/reports/${id}/questions/${qid}`);
   const question = panel.questions.find((q) => q.id === qid);
   if (!question) notFound();
-  const reads = panelReads();
-  const [report, triangulation, baseline, audit] = await Promise.all([
-    getQuestionReport(user, id, qid, reads),
-    getTriangulation(user, id, qid, reads),
+  const [{ report, weightRule: current }, baseline, audit] = await Promise.all([
+    getQuestionReportWithRule(user, id, qid),
     baselineOrNull(() => getBaseline(user, id, qid)),
     listAuditEvents(user, id),
   ]);
   const resolved = report.resolution !== null;
   const openRound = panel.rounds.some((r) => r.status === "open");
   const corrections = audit.filter((e) => e.action === "resolution.corrected" && e.detail.questionId === qid);
-  const current = triangulation.weightRule;
   const rule = current.from === "question" ? current.rule : "panel";
   return (
     <article className="question-page">
