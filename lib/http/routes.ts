@@ -736,6 +736,29 @@ export const routes = {
     response: tout.accuracyHistory,
     errors: [...AUTH_ERRORS],
   }),
+  getPortfolio: route({
+    operationId: "getPortfolio",
+    method: "GET",
+    path: "/api/v1/portfolio",
+    summary: "Every question of the panels the user may read: blended figure, 80% range, convergence, outcome, change since the previous closed round",
+    tag: "triangulation",
+    auth: "user",
+    status: 200,
+    response: tout.portfolio,
+    errors: [...AUTH_ERRORS],
+  }),
+  getPortfolioCsv: route({
+    operationId: "getPortfolioCsv",
+    method: "GET",
+    path: "/api/v1/portfolio.csv",
+    summary: "The portfolio's rows as CSV (one line per question; formula-like cells neutralised)",
+    tag: "triangulation",
+    auth: "user",
+    status: 200,
+    produces: "text/csv",
+    response: tout.csvText,
+    errors: [...AUTH_ERRORS],
+  }),
 } as const satisfies Record<string, RouteDef>;
 
 export type RouteName = keyof typeof routes;

@@ -24,7 +24,7 @@ import { authorisePanel, type PanelRole } from "./access";
 import type { BaselinePreview } from "./baselines";
 import type { ConvergencePoint } from "./rounds";
 import { resolutionView, type ResolutionView } from "./resolution";
-import { computeTriangulation, loadTriangulation, type CorrectedAnswer, type DepartureReport } from "./triangulation";
+import { computeTriangulation, loadTriangulation, type CorrectedAnswer, type DepartureReport, type TriangulationInput } from "./triangulation";
 import { panelReads, type PanelReads } from "./panel-reads";
 import { jsonSafe, type JsonSafe } from "./json";
 import { correctionSummary, namesRevealed } from "./report-views";
@@ -124,6 +124,13 @@ export interface QuestionReport {
   /** Per person: only when names are shown (`viewer.namesShown`); otherwise empty. */
   readonly biasCorrection: readonly (ReportPanelist & JsonSafe<Omit<CorrectedAnswer, "invitationId" | "pseudonym">>)[];
   readonly resolution: ResolutionView | null;
+  /**
+   * How the blended figure moved since the previous closed round: the blend computed from the
+   * same stored inputs (baseline, weight rule, track records) with the panel's answers up to the
+   * closed round before the latest one, and the change to today's figure. Null without a blend
+   * now, or with fewer than two closed rounds with answers.
+   */
+  readonly movement: { readonly fromRound: number; readonly toRound: number; readonly previousFigure: number; readonly change: number } | null;
   /** The distributions behind the ranges, for charts. */
   readonly distributions: { readonly panelRaw: Distribution | null; readonly panelCorrected: Distribution | null; readonly baseline: Distribution | null; readonly blend: Distribution | null };
   readonly methodNotes: readonly string[];
@@ -134,6 +141,18 @@ export interface QuestionReport {
 }
 
 const safeIntervals = (iv: readonly BlendInterval[]): Intervals => jsonSafe(iv) as Intervals;
+
+/** The blend's move since the previous closed round (see `QuestionReport.movement`). */
+function blendMovement(input: TriangulationInput, now: number | null): QuestionReport["movement"] {
+  const rounds = [...input.rounds];
+  const latest = rounds.pop();
+  while (rounds.length > 0 && rounds.at(-1)!.answers.length === 0) rounds.pop();
+  const previous = rounds.at(-1);
+  if (now === null || !Number.isFinite(now) || !latest || !previous) return null;
+  const before = computeTriangulation({ ...input, rounds }).blend?.figure ?? null;
+  if (before === null || !Number.isFinite(before)) return null;
+  return { fromRound: previous.round, toRound: latest.round, previousFigure: before, change: now - before };
+}
 
 /**
  * The report of one question (organisers and reviewers of the panel). Computed on read from the
@@ -276,6 +295,7 @@ export async function getQuestionReport(actor: Actor, panelId: string, questionI
     departures: t.departures ? jsonSafe(t.departures) : null,
     biasCorrection: namesShown ? panelists.map(({ invitationId, pseudonym, ...rest }) => ({ pseudonym, name: nameOf(invitationId), ...jsonSafe(rest) })) : [],
     resolution: resolution ? resolutionView(resolution) : null,
+    movement: blendMovement(loaded.input, t.blend?.figure ?? null),
     distributions: {
       panelRaw: t.panel?.raw.distribution ?? null,
       panelCorrected: t.panel?.corrected.distribution ?? null,

@@ -480,6 +480,7 @@ describe("CSV export cells (formula injection)", () => {
       departures: null,
       biasCorrection: [],
       resolution: null,
+      movement: null,
       distributions: { panelRaw: null, panelCorrected: null, baseline: null, blend: null },
       methodNotes: ["-note"],
       inputs: [],

@@ -84,6 +84,7 @@ describe("sum-of-parts convergence: the panel page and the report agree", () => 
       departures: null,
       biasCorrection: [],
       resolution: null,
+      movement: null,
       distributions: { panelRaw: null, panelCorrected: null, baseline: null, blend: null },
       methodNotes: [],
       inputs: [],
