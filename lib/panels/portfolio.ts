@@ -14,6 +14,7 @@
 import type { Actor } from "@/lib/accounts/actor";
 import { db } from "@/lib/db";
 import { csvCell } from "@/lib/csv/cell";
+import { roundAsShown } from "@/lib/ui/format";
 import { listPanels } from "./panels";
 import type { PanelRole } from "./access";
 import { getPanelReports } from "./panel-reports";
@@ -105,14 +106,23 @@ export async function getPortfolio(actor: Actor): Promise<Portfolio> {
   return { generatedAt: new Date().toISOString(), movementRule: MOVEMENT_RULE, rows };
 }
 
-/** The portfolio's rows as CSV, one line per question, in the JSON's order. */
+const shown = (v: number | null | undefined) => (v === null || v === undefined ? null : roundAsShown(v));
+
+/**
+ * The portfolio's rows as CSV, one line per question, in the JSON's order. Figures are rounded as
+ * the page shows them (4 significant digits, `roundAsShown`); the outcome as recorded.
+ */
 export function portfolioCsv(p: Portfolio): string {
   const header = ["panel", "question", "unit", "target period", "blended figure", "80% lower", "80% upper", "convergence", "latest closed round", "outcome", "change since previous round", "previous round", "previous figure"];
-  const lines = [header, ...p.rows.map((r) => [r.panelTitle, r.questionText, r.unit, r.targetPeriod, r.figure, r.lower80, r.upper80, CONVERGENCE_LABEL[r.convergence], r.latestRound, r.outcome, r.movement?.change ?? null, r.movement?.fromRound ?? null, r.movement?.previousFigure ?? null])];
+  const lines = [
+    header,
+    ...p.rows.map((r) => [r.panelTitle, r.questionText, r.unit, r.targetPeriod, shown(r.figure), shown(r.lower80), shown(r.upper80), CONVERGENCE_LABEL[r.convergence], r.latestRound, r.outcome, shown(r.movement?.change), r.movement?.fromRound ?? null, shown(r.movement?.previousFigure)]),
+  ];
   return lines.map((row) => row.map(csvCell).join(",")).join("\r\n") + "\r\n";
 }
 
 /** The portfolio as CSV with its file name. */
 export async function getPortfolioCsv(actor: Actor): Promise<{ filename: string; csv: string }> {
-  return { filename: "portfolio.csv", csv: portfolioCsv(await getPortfolio(actor)) };
+  const p = await getPortfolio(actor);
+  return { filename: `portfolio-${p.generatedAt.slice(0, 10)}.csv`, csv: portfolioCsv(p) };
 }

@@ -289,6 +289,7 @@ const panelist = { pseudonym: z.string(), name: z.string().nullable().describe("
 
 export const questionReport = z.object({
   generatedAt: dateTime,
+  summary: z.string().describe("the sentence the report leads with: the figure, its 80% range, the outcome if recorded, and the main disagreement"),
   panel: z.object({ id: z.string(), title: z.string(), status: z.string() }),
   question: z.object({ id: z.string(), text: z.string(), unit: z.string(), targetPeriod: z.string(), lowerBound: num, upperBound: num, aggregation: z.enum(AGGREGATIONS), answerFormat: z.enum(ANSWER_FORMATS) }),
   viewer: z.object({ role: z.enum(["owner", "organiser", "reviewer"]), namesShown: z.boolean() }),
