@@ -85,7 +85,17 @@ export default async function ReportPage({ params }: { params: Promise<{ id: str
                       "—"
                     )}
                   </td>
-                  <td>{r.resolution ? `resolved: ${r.resolution.actual}` : r.legs.baseline ? "baseline attached" : "no baseline"}</td>
+                  <td>
+                    {r.resolution ? (
+                      <>
+                        outcome: <Figure value={r.resolution.actual} name="outcome" />
+                      </>
+                    ) : r.legs.baseline ? (
+                      "baseline attached"
+                    ) : (
+                      "no baseline"
+                    )}
+                  </td>
                 </tr>
               );
             })}
