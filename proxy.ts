@@ -10,6 +10,7 @@
  * The other security headers, and the API's own CSP, are set in next.config.mjs.
  */
 import { NextResponse, type NextRequest } from "next/server";
+import { cleanLinkToken, linkShapeProblem } from "@/lib/ui/link-token";
 
 export function contentSecurityPolicy(nonce: string, dev = process.env.NODE_ENV === "development"): string {
   return [
@@ -30,6 +31,17 @@ export function proxy(request: NextRequest): NextResponse {
   // A NUL in the address would reach the database as part of an id (lib/validation/nul.ts).
   if (/%00|\u0000/i.test(request.nextUrl.pathname)) {
     return new NextResponse("Bad request: the address contains a NUL character.", { status: 400, headers: { "content-type": "text/plain; charset=utf-8" } });
+  }
+  // A private link with the punctuation an e-mail program glued to it (lib/ui/link-token.ts):
+  // straight to the clean link, so the page, its forms and its links use that.
+  const link = /^\/p\/([^/]+)(\/feedback)?$/.exec(request.nextUrl.pathname);
+  if (link) {
+    const clean = cleanLinkToken(link[1]);
+    if (clean !== link[1] && linkShapeProblem(clean) === null) {
+      const url = request.nextUrl.clone();
+      url.pathname = `/p/${clean}${link[2] ?? ""}`;
+      return NextResponse.redirect(url, 308);
+    }
   }
   const nonce = Buffer.from(crypto.getRandomValues(new Uint8Array(16))).toString("base64");
   const csp = contentSecurityPolicy(nonce);

@@ -11,6 +11,7 @@
  * rationale: Delphi feedback asks those outside the IQR to explain (docs/methods.md §14.4).
  * Sum-of-parts answers estimate different parts, so the rule does not apply to them.
  */
+import { formatDateTime } from "@/lib/ui/format";
 import { db, dialect, sqlRows, sqlTime } from "@/lib/db";
 import { randomBytes } from "node:crypto";
 import { ConflictError, DomainError, InvalidInputError, type FieldError } from "@/lib/errors";
@@ -268,7 +269,7 @@ async function storeAnswer(me: PanelistActor, input: AnswerInput, key: string | 
     const last = await db.round.findFirst({ where: { panelId: me.panelId, status: "closed" }, orderBy: { number: "desc" } });
     throw new ConflictError(last ? "round-closed" : "round-not-open",
       last
-        ? `Round ${last.number} closed at ${last.closedAt?.toISOString()}; answers are no longer accepted. Wait for the next round to open.`
+        ? `Round ${last.number} closed${last.closedAt ? ` on ${formatDateTime(last.closedAt)}` : ""}; answers are no longer accepted. Wait for the next round to open.`
         : "Round 1 has not opened yet; answers are accepted once the organiser opens it.",
     );
   }

@@ -9,7 +9,10 @@
 import type { Actor } from "@/lib/accounts/actor";
 import { nextTurn } from "@/lib/work/turn";
 import { panelReads } from "./panel-reads";
-import { getQuestionReport, type QuestionReport } from "./report";
+import { db } from "@/lib/db";
+import { fileSlug } from "@/lib/csv/file-name";
+import { authorisePanel } from "./access";
+import { getQuestionReport, panelReportCsv, type QuestionReport } from "./report";
 
 export async function getPanelReports(actor: Actor, panelId: string, questionIds: readonly string[]): Promise<QuestionReport[]> {
   const reads = panelReads({ wholeRounds: true });
@@ -19,4 +22,16 @@ export async function getPanelReports(actor: Actor, panelId: string, questionIds
     reports.push(await getQuestionReport(actor, panelId, questionId, reads));
   }
   return reports;
+}
+
+/** Every question's report of a panel as one CSV, named after the panel's title (organisers and reviewers of the panel). */
+export async function getPanelReportCsv(actor: Actor, panelId: string): Promise<{ filename: string; csv: string }> {
+  const access = await authorisePanel(actor, panelId, "read");
+  const questions = await db.question.findMany({ where: { panelId }, orderBy: { position: "asc" }, select: { id: true } });
+  const reports = await getPanelReports(
+    actor,
+    panelId,
+    questions.map((q) => q.id),
+  );
+  return { filename: `${fileSlug(access.panel.title, 60, "panel")}-report.csv`, csv: panelReportCsv(reports) };
 }

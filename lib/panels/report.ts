@@ -24,14 +24,17 @@ import { authorisePanel, type PanelRole } from "./access";
 import type { BaselinePreview } from "./baselines";
 import type { ConvergencePoint } from "./rounds";
 import { resolutionView, type ResolutionView } from "./resolution";
-import { computeTriangulation, loadTriangulation, type CorrectedAnswer, type DepartureReport, type LoadedTriangulation } from "./triangulation";
+import { computeTriangulation, loadTriangulation, type CorrectedAnswer, type DepartureReport, type LoadedTriangulation, type TriangulationInput } from "./triangulation";
 import { panelReads, type PanelReads } from "./panel-reads";
 import { jsonSafe, type JsonSafe } from "./json";
 import { correctionSummary, namesRevealed } from "./report-views";
 import type { BlendInterval, Distribution } from "@/lib/blend";
 import { consensusApplies, type QuestionVerdict } from "@/lib/stats/stopping-rules";
 import { csvCell } from "@/lib/csv/cell";
+import { fileSlug } from "@/lib/csv/file-name";
+import { roundAsShown } from "@/lib/ui/format";
 import { legWarnings } from "./warnings";
+import { reportSummary } from "./report-summary";
 
 type Intervals = readonly { readonly level: number; readonly lower: number | null; readonly upper: number | null }[];
 
@@ -43,6 +46,8 @@ export interface ReportPanelist {
 
 export interface QuestionReport {
   readonly generatedAt: string;
+  /** The sentence the report leads with: figure, 80% range, outcome, main disagreement (lib/panels/report-summary.ts). */
+  readonly summary: string;
   readonly panel: { readonly id: string; readonly title: string; readonly status: string };
   readonly question: {
     readonly id: string;
@@ -124,6 +129,13 @@ export interface QuestionReport {
   /** Per person: only when names are shown (`viewer.namesShown`); otherwise empty. */
   readonly biasCorrection: readonly (ReportPanelist & JsonSafe<Omit<CorrectedAnswer, "invitationId" | "pseudonym">>)[];
   readonly resolution: ResolutionView | null;
+  /**
+   * How the blended figure moved since the previous closed round: the blend computed from the
+   * same stored inputs (baseline, weight rule, track records) with the panel's answers up to the
+   * closed round before the latest one, and the change to today's figure. Null without a blend
+   * now, or with fewer than two closed rounds with answers.
+   */
+  readonly movement: { readonly fromRound: number; readonly toRound: number; readonly previousFigure: number; readonly change: number } | null;
   /** The distributions behind the ranges, for charts. */
   readonly distributions: { readonly panelRaw: Distribution | null; readonly panelCorrected: Distribution | null; readonly baseline: Distribution | null; readonly blend: Distribution | null };
   readonly methodNotes: readonly string[];
@@ -134,6 +146,18 @@ export interface QuestionReport {
 }
 
 const safeIntervals = (iv: readonly BlendInterval[]): Intervals => jsonSafe(iv) as Intervals;
+
+/** The blend's move since the previous closed round (see `QuestionReport.movement`). */
+function blendMovement(input: TriangulationInput, now: number | null): QuestionReport["movement"] {
+  const rounds = [...input.rounds];
+  const latest = rounds.pop();
+  while (rounds.length > 0 && rounds.at(-1)!.answers.length === 0) rounds.pop();
+  const previous = rounds.at(-1);
+  if (now === null || !Number.isFinite(now) || !latest || !previous) return null;
+  const before = computeTriangulation({ ...input, rounds }).blend?.figure ?? null;
+  if (before === null || !Number.isFinite(before)) return null;
+  return { fromRound: previous.round, toRound: latest.round, previousFigure: before, change: now - before };
+}
 
 /**
  * The report of one question (organisers and reviewers of the panel). Computed on read from the
@@ -243,7 +267,7 @@ export async function getQuestionReportWithRule(
   if (resolution) cautions.push("This question is resolved: the figures above are recomputed from the stored inputs; the scores use the figures as they stood at resolution.");
 
   const w = t.weights;
-  const report: QuestionReport = {
+  const report: Omit<QuestionReport, "summary"> = {
     generatedAt: new Date().toISOString(),
     panel: { id: access.panel.id, title: access.panel.title, status: access.panel.status },
     question: loaded.question,
@@ -290,6 +314,7 @@ export async function getQuestionReportWithRule(
     departures: t.departures ? jsonSafe(t.departures) : null,
     biasCorrection: namesShown ? panelists.map(({ invitationId, pseudonym, ...rest }) => ({ pseudonym, name: nameOf(invitationId), ...jsonSafe(rest) })) : [],
     resolution: resolution ? resolutionView(resolution) : null,
+    movement: blendMovement(loaded.input, t.blend?.figure ?? null),
     distributions: {
       panelRaw: t.panel?.raw.distribution ?? null,
       panelCorrected: t.panel?.corrected.distribution ?? null,
@@ -301,18 +326,29 @@ export async function getQuestionReportWithRule(
     warnings,
     cautions,
   };
-  return { report, weightRule: loaded.rule };
+  const { generatedAt, ...rest } = report;
+  return { report: { generatedAt, summary: reportSummary(report), ...rest }, weightRule: loaded.rule };
 }
 
 export { csvCell };
 
-/** The report as CSV: a header and one row per figure (section, item, measure, value, unit). */
-export function reportCsv(r: QuestionReport): string {
-  const rows: (string | number | boolean | null)[][] = [["section", "item", "measure", "value", "unit"]];
+type Cell = string | number | boolean | null;
+
+/**
+ * The report's CSV rows (section, item, measure, value, unit), without the header. Numbers are
+ * rounded as the report page shows them (`roundAsShown`): figures in the question's unit to 4
+ * significant digits, ratios, percentages, z and weights to 3, bias factors to 4; counts and
+ * round numbers as they are; the outcome value exactly as recorded.
+ */
+export function reportRows(r: QuestionReport): Cell[][] {
+  const rows: Cell[][] = [];
   const unit = r.question.unit;
-  const add = (section: string, item: string, measure: string, value: string | number | boolean | null | undefined, u = "") => rows.push([section, item, measure, value ?? null, u]);
+  const add = (section: string, item: string, measure: string, value: string | number | boolean | null | undefined, u = "", digits = u ? 4 : 3) =>
+    rows.push([section, item, measure, typeof value === "number" ? roundAsShown(value, digits) : (value ?? null), u]);
+  const exact = (section: string, item: string, measure: string, value: number, u = "") => rows.push([section, item, measure, value, u]);
   add("report", r.panel.title, "panel status", r.panel.status);
   add("report", r.panel.title, "generated at", r.generatedAt);
+  add("report", r.panel.title, "summary", r.summary);
   add("question", r.question.text, "unit", r.question.unit);
   add("question", r.question.text, "target period", r.question.targetPeriod);
   add("question", r.question.text, "aggregation", r.question.aggregation);
@@ -360,13 +396,13 @@ export function reportCsv(r: QuestionReport): string {
     add("track record", who, "resolved questions", p.count);
     add("track record", who, "mean log ratio", p.meanLogRatio);
     add("track record", who, "MAPE %", p.mape);
-    add("track record", who, "bias factor", p.biasFactor);
+    add("track record", who, "bias factor", p.biasFactor, "", 4);
     add("track record", who, "interval hit rate", p.intervalHitRate);
   }
   for (const p of r.biasCorrection) {
     const who = p.name ? `${p.pseudonym} (${p.name})` : p.pseudonym;
     add("bias correction", who, "answer", p.value, unit);
-    add("bias correction", who, "factor", p.factor);
+    add("bias correction", who, "factor", p.factor, "", 4);
     add("bias correction", who, "corrected answer", p.correctedValue, unit);
   }
   // As the pages (lib/ui/convergence-view.tsx): the spread between panelists only where consensus applies.
@@ -399,22 +435,37 @@ export function reportCsv(r: QuestionReport): string {
     }
   }
   if (r.resolution) {
-    add("resolution", "actual", "value", r.resolution.actual, unit);
+    exact("outcome", "outcome", "value", r.resolution.actual, unit);
     for (const s of [r.resolution.scores.rawPanel, r.resolution.scores.correctedPanel, r.resolution.scores.baseline, r.resolution.scores.blend, ...r.resolution.scores.panelists]) {
       if (!s) continue;
-      add("resolution", s.label, "forecast", s.forecast, unit);
-      add("resolution", s.label, "error", s.error, unit);
-      add("resolution", s.label, "absolute percent error", s.absolutePercentError);
+      add("outcome", s.label, "forecast", s.forecast, unit);
+      add("outcome", s.label, "error", s.error, unit);
+      add("outcome", s.label, "absolute percent error", s.absolutePercentError);
     }
   }
   r.methodNotes.forEach((n, i) => add("method notes", String(i + 1), "note", n));
   r.inputs.forEach((n, i) => add("inputs", String(i + 1), "input", n));
   r.cautions.forEach((n, i) => add("cautions", String(i + 1), "caution", n));
-  return rows.map((row) => row.map(csvCell).join(",")).join("\r\n") + "\r\n";
+  return rows;
 }
+
+const csvLines = (rows: readonly (readonly Cell[])[]) => rows.map((row) => row.map(csvCell).join(",")).join("\r\n") + "\r\n";
+
+/** The report as CSV: a header and one row per figure (section, item, measure, value, unit). */
+export function reportCsv(r: QuestionReport): string {
+  return csvLines([["section", "item", "measure", "value", "unit"], ...reportRows(r)]);
+}
+
+/** A panel's question reports as one CSV: the question's number in the panel first, then each report's rows. */
+export function panelReportCsv(reports: readonly QuestionReport[]): string {
+  return csvLines([["question", "section", "item", "measure", "value", "unit"], ...reports.flatMap((r, i) => reportRows(r).map((row) => [i + 1, ...row]))]);
+}
+
+/** The download name of a question's report, without extension: panel title, then question text. */
+export const questionReportFileName = (r: Pick<QuestionReport, "panel" | "question">): string => `${fileSlug(r.panel.title, 40, "panel")}-${fileSlug(r.question.text, 40, "question")}`;
 
 /** The report as CSV text with a file name (organisers and reviewers of the panel). */
 export async function getQuestionReportCsv(actor: Actor, panelId: string, questionId: string): Promise<{ filename: string; csv: string }> {
   const report = await getQuestionReport(actor, panelId, questionId);
-  return { filename: `report-${questionId}.csv`, csv: reportCsv(report) };
+  return { filename: `${questionReportFileName(report)}.csv`, csv: reportCsv(report) };
 }

@@ -14,6 +14,16 @@ export function formatNumber(value: number | null | undefined, digits = 4): stri
 }
 
 /**
+ * A figure rounded as `formatNumber` shows it, for exports: `digits` significant digits, but never
+ * into the integer part (7676.980381156674 → 7677; 123456.7 → 123457; 0.123456 → 0.1235 with 4).
+ * Integers are unchanged; NaN and ±∞ pass through (the CSV writer leaves them empty).
+ */
+export function roundAsShown(value: number, digits = 4): number {
+  if (!Number.isFinite(value) || Number.isInteger(value)) return value;
+  return Math.abs(value) >= 10 ** digits ? Math.sign(value) * Math.round(Math.abs(value)) : Number(value.toPrecision(digits));
+}
+
+/**
  * A number in full, as it is stored: the shortest decimal that reads back as the same double
  * (ECMAScript Number::toString), thousands grouped with commas, e.g. 12500.75 → "12,500.75",
  * 1.5e-12 → "1.5e-12"; for confirming a value before it is saved, never rounded.

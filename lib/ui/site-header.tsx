@@ -1,6 +1,6 @@
 /**
  * The site header. Its navigation follows who is signed in: organisers get their panels,
- * expert roster, reports and API tokens; reviewers their reports; nobody signed in gets the
+ * expert roster, reports, the portfolio and API tokens; reviewers their reports and the portfolio; nobody signed in gets the
  * sign-in link. Panelist pages (/p/…) show the name only (see HeaderNav).
  */
 import type { UserActor } from "@/lib/accounts/actor";
@@ -26,6 +26,7 @@ export default function SiteHeader({ user }: { user: UserActor | null }) {
               </>
             ) : null}
             <a href="/reports">Reports</a>
+            <a href="/portfolio">Portfolio</a>
             {user.role === "organiser" ? <a href="/account/tokens">API tokens</a> : null}
             <a href="/account">Account</a>
             <span className="who">

@@ -276,10 +276,20 @@ export const accuracyHistory = z.object({
   notes: z.array(z.string()),
 });
 
+const blendMovement = z
+  .object({
+    fromRound: z.number().int().describe("the closed round before the latest one with answers"),
+    toRound: z.number().int().describe("the latest closed round with answers"),
+    previousFigure: num.describe("the blended figure from the answers up to fromRound, with today's baseline, weight rule and track records"),
+    change: num.describe("today's blended figure minus previousFigure"),
+  })
+  .describe("how the blended figure moved since the previous closed round; null without a blend or with fewer than two closed rounds with answers");
+
 const panelist = { pseudonym: z.string(), name: z.string().nullable().describe("only for an organiser who revealed identities") };
 
 export const questionReport = z.object({
   generatedAt: dateTime,
+  summary: z.string().describe("the sentence the report leads with: the figure, its 80% range, the outcome if recorded, and the main disagreement"),
   panel: z.object({ id: z.string(), title: z.string(), status: z.string() }),
   question: z.object({ id: z.string(), text: z.string(), unit: z.string(), targetPeriod: z.string(), lowerBound: num, upperBound: num, aggregation: z.enum(AGGREGATIONS), answerFormat: z.enum(ANSWER_FORMATS) }),
   viewer: z.object({ role: z.enum(["owner", "organiser", "reviewer"]), namesShown: z.boolean() }),
@@ -357,6 +367,7 @@ export const questionReport = z.object({
   departures: departures.nullable(),
   biasCorrection: z.array(z.object({ ...panelist, ...correctedAnswerFields })).describe("empty unless viewer.namesShown"),
   resolution: resolution.nullable(),
+  movement: blendMovement.nullable(),
   distributions: z.object({ panelRaw: loose.nullable(), panelCorrected: loose.nullable(), baseline: loose.nullable(), blend: loose.nullable() }).describe("lib/blend distributions behind the ranges, for charts"),
   methodNotes: z.array(z.string()),
   inputs: z.array(z.string()),
@@ -365,3 +376,29 @@ export const questionReport = z.object({
 });
 
 export const csvText = z.string().describe("CSV (RFC 4180): section,item,measure,value,unit; cells that could run as spreadsheet formulas start with an apostrophe");
+
+export const portfolioRow = z.object({
+  panelId: z.string(),
+  panelTitle: z.string(),
+  panelStatus: z.string(),
+  role: z.enum(["owner", "organiser", "reviewer"]),
+  questionId: z.string(),
+  questionText: z.string(),
+  unit: z.string(),
+  targetPeriod: z.string(),
+  aggregation: z.enum(AGGREGATIONS),
+  figure: n0.describe("the blended figure (as the question's report); null without a blend"),
+  lower80: n0,
+  upper80: n0,
+  convergence: z.enum(["no-closed-round", "not-settled", "settled"]).describe("the stopping rules' verdict after the latest closed round: settled when the answers are stable"),
+  latestRound: z.number().int().nullable().describe("the latest closed round with answers"),
+  outcome: n0.describe("the recorded outcome value; null while none is recorded"),
+  outcomeRecordedAt: dateTime.nullable(),
+  movement: blendMovement.nullable(),
+});
+
+export const portfolio = z.object({
+  generatedAt: dateTime,
+  movementRule: z.string().describe("how the change column is computed, in plain words"),
+  rows: z.array(portfolioRow),
+});

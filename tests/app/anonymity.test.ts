@@ -86,12 +86,16 @@ function csvRows(text: string): string[][] {
 
 function leaksInCsv(text: string, where: string): string[] {
   const byItem = new Map<string, number[]>();
+  const found: string[] = [];
   for (const [, item, , value] of csvRows(text)) {
     const m = PSEUDONYM.exec(item ?? "");
     if (!m || value === "" || !Number.isFinite(Number(value))) continue;
     byItem.set(m[0], [...(byItem.get(m[0]) ?? []), Number(value)]);
+    // The CSV rounds figures as the pages show them: a cell with 3 or more decimals matches a
+    // named figure within half a unit of its last digit, as on a page (leaksInPage).
+    const decimals = /\.(\d{3,})$/.exec(value)?.[1];
+    if (decimals && named.some((f) => Math.abs(Number(value) - f) <= 0.5 * 10 ** -decimals.length * 1.000001)) found.push(`${where} (${m[0]}): ${value}`);
   }
-  const found: string[] = [];
   for (const [who, values] of byItem) for (const x of suspects(values)) if (matchesNamed(x)) found.push(`${where} (${who}): ${x}`);
   return found;
 }

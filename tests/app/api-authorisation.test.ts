@@ -214,7 +214,10 @@ const ROWS: readonly Row[] = [
   { route: "correctResolution", path: () => `/api/v1/panels/${R}/questions/${qR}/resolution`, body: () => ({ actual: 412, reason: "matrix" }), expect: ownerOnly(200) },
   { route: "getQuestionReport", path: () => `/api/v1/panels/${P}/questions/${qP}/report.json`, expect: panelRead(200) },
   { route: "getQuestionReportCsv", path: () => `/api/v1/panels/${P}/questions/${qP}/report.csv`, expect: panelRead(200) },
+  { route: "getPanelReportCsv", path: () => `/api/v1/panels/${P}/report.csv`, expect: panelRead(200) },
   { route: "listTrackRecords", path: () => "/api/v1/track-records", expect: organiserRoute(200) },
+  { route: "getPortfolio", path: () => "/api/v1/portfolio", expect: userRoute(200) },
+  { route: "getPortfolioCsv", path: () => "/api/v1/portfolio.csv", expect: userRoute(200) },
   { route: "getAccuracyHistory", path: () => "/api/v1/accuracy-history", expect: organiserRoute(200) },
 ];
 
@@ -267,7 +270,7 @@ describe("authorisation matrix", () => {
           expect(res.contentType, `${role}: ${res.text}`).toContain("application/problem+json");
           expect(res.body.status).toBe(res.status);
         } else {
-          expect(res.contentType).toContain(row.route === "getQuestionReportCsv" ? "text/csv" : "application/json");
+          expect(res.contentType).toContain(("produces" in def && def.produces) || "application/json");
         }
       }
       expect(seen).toEqual(row.expect);

@@ -213,7 +213,8 @@ describe("a panel run by script with an API token", () => {
   it("refuses a late answer with a clear message", async () => {
     const res = await answer(2, { questionId: qIds[0], value: 3000 });
     expect(res.status).toBe(409);
-    expect(res.body.detail).toMatch(/Round 1 closed at .*answers are no longer accepted/);
+    // A plain date and time (lib/ui/format.ts formatDateTime), not an ISO timestamp.
+    expect(res.body.detail).toMatch(/^Round 1 closed on \d{1,2} [A-Z][a-z]{2} \d{4}, \d{2}:\d{2} UTC; answers are no longer accepted/);
     expect(res.body.type).toBe("/problems/round-closed");
   });
 

@@ -8,7 +8,7 @@
  * (tests/reference-data/nist_handbook_6431_ses12.csv); people and answers are invented.
  */
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { api, apiTokenFor, clearDatabase, createAccount, signIn, type TestUser } from "./api-client";
+import { api, apiTokenFor, baseURL, clearDatabase, createAccount, signIn, type TestUser } from "./api-client";
 import { expectClose, runR, rVector } from "../stats/rscript";
 import { referenceCsv } from "../stats/reference-data";
 
@@ -207,6 +207,12 @@ describe("triangulation, resolution and the report", () => {
     expect(r.resolution.actual).toBe(78);
     expect(r.cautions.join(" ")).toMatch(/do not make it|does not make/);
     expect(r.inputs.join(" ")).toMatch(/12 observations/);
+    // The sentence the report leads with. By hand: naive forecast = the last observation, 70
+    // (NIST series); panel median 75 (no track record yet: the question's own outcome is left out);
+    // blend 0.5 × 75 + 0.5 × 70 = 72.5; (75 − 70) / 70 = 7.1% → "7% apart".
+    expect(r.summary).toMatch(
+      /^The blended figure for month 15 is 72\.5 units, with an 80% range of [\d.,]+ to [\d.,]+; the recorded outcome is 78 units; the main disagreement is between the panel's corrected figure \(75\) and the baseline's forecast \(70\): 7% apart, the panel above the baseline\.$/,
+    );
   });
 
   it("names appear in the report only for the organiser, after revealing them (audited)", async () => {
@@ -228,6 +234,35 @@ describe("triangulation, resolution and the report", () => {
     expect(lines.some((l) => l.startsWith("blend,blended figure,figure,72.5,units"))).toBe(true);
     const cells = lines.flatMap((l) => l.split(","));
     expect(cells.filter((c) => /^[=+@]/.test(c) || (/^-/.test(c) && !/^-\d+(\.\d+)?(e-?\d+)?$/.test(c)))).toEqual([]);
+  });
+
+  it("CSV numbers are rounded as the report shows them, the file is named after the titles, and the panel has one CSV of every question", async () => {
+    const text = (await api("GET", `${q()}/report.csv`, { cookie: reviewerCookie })).text;
+    const cell = (prefix: string) => text.split("\r\n").find((l) => l.startsWith(prefix))?.slice(prefix.length).split(",")[0];
+    // Expected: R's forecast::naive on the same series, then signif(x, 4) (4 significant digits, as the page shows them).
+    const [r] = runR(`
+      suppressMessages(library(forecast))
+      f <- naive(${rVector(series)}, h = 3, level = c(80, 95))
+      out(signif(c(f$lower[3, 1], f$upper[3, 1], f$lower[3, 2], f$upper[3, 2]), 4))
+    `);
+    expect([cell("baseline,naive,80% lower,"), cell("baseline,naive,80% upper,"), cell("baseline,naive,95% lower,"), cell("baseline,naive,95% upper,")].map(Number)).toEqual(r);
+    // No cell carries more digits than the page shows (the issue's example was 7676.980381156674).
+    const numbers = text.split(/[\r\n,]+/).filter((c) => /^-?\d+\.\d+$/.test(c));
+    expect(numbers.length).toBeGreaterThan(5);
+    for (const c of numbers) expect(c.replace(/^-?0\.0*/, "").replace(/^-/, "").replace(".", "").length, c).toBeLessThanOrEqual(4);
+    // The outcome exactly as recorded.
+    expect(text).toContain("\r\noutcome,outcome,value,78,units\r\n");
+
+    const raw = await fetch(`${baseURL}${q()}/report.csv`, { headers: { cookie: reviewerCookie } });
+    expect(raw.headers.get("content-disposition")).toBe('attachment; filename="plover-3-gauge-volumes-1-2-how-many-plover-3-gauges-in-month-15.csv"');
+
+    const panelCsv = await fetch(`${baseURL}/api/v1/panels/${panelId}/report.csv`, { headers: { cookie: reviewerCookie } });
+    expect(panelCsv.status).toBe(200);
+    expect(panelCsv.headers.get("content-disposition")).toBe('attachment; filename="plover-3-gauge-volumes-report.csv"');
+    const lines = (await panelCsv.text()).trimEnd().split("\r\n");
+    expect(lines[0]).toBe("question,section,item,measure,value,unit");
+    // One question: its report's rows, each after the question's number.
+    expect(lines.slice(1).map((l) => l.replace(/^1,/, ""))).toEqual(text.trimEnd().split("\r\n").slice(1).map((l) => (l.includes("generated at") ? expect.any(String) : l)));
   });
 
   it("track records and the accuracy history derive from the stored resolution", async () => {

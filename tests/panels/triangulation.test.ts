@@ -471,6 +471,7 @@ describe("CSV export cells (formula injection)", () => {
     const t = computeTriangulation(sharedInput());
     const csv = reportCsv({
       generatedAt: "",
+      summary: "",
       panel: { id: "p", title: "=cmd|' /C calc'!A0", status: "running" },
       question: { id: "q", text: "=1+1", unit: "@units", targetPeriod: "+1", aggregation: "shared", answerFormat: "single" },
       viewer: { role: "owner", namesShown: false },
@@ -480,6 +481,7 @@ describe("CSV export cells (formula injection)", () => {
       departures: null,
       biasCorrection: [],
       resolution: null,
+      movement: null,
       distributions: { panelRaw: null, panelCorrected: null, baseline: null, blend: null },
       methodNotes: ["-note"],
       inputs: [],

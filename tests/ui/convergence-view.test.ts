@@ -75,6 +75,7 @@ describe("sum-of-parts convergence: the panel page and the report agree", () => 
   it("the CSV export: no median, IQR or CV of the parts for a sum-of-parts question, the total kept", () => {
     const csv = reportCsv({
       generatedAt: "",
+      summary: "",
       panel: { id: "p", title: "Quillmoor regions", status: "running" },
       question: { id: "q1", text: Q.text, unit: "units", targetPeriod: "next quarter", aggregation: "sum-of-parts", answerFormat: "single" },
       viewer: { role: "owner", namesShown: false },
@@ -84,6 +85,7 @@ describe("sum-of-parts convergence: the panel page and the report agree", () => 
       departures: null,
       biasCorrection: [],
       resolution: null,
+      movement: null,
       distributions: { panelRaw: null, panelCorrected: null, baseline: null, blend: null },
       methodNotes: [],
       inputs: [],

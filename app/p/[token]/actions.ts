@@ -1,5 +1,7 @@
 "use server";
 import { revalidatePath } from "next/cache";
+import { redirect } from "next/navigation";
+import { ConflictError } from "@/lib/errors";
 import { headers } from "next/headers";
 import type { PanelistActor } from "@/lib/accounts/actor";
 import { limits } from "@/lib/http/rate-limit";
@@ -24,7 +26,7 @@ async function localeOf(values: Record<string, string>): Promise<string> {
  * One answer from the form's fields (already without any prefix): read in `locale`, parsed with
  * the API's schema, stored by the same service. Returns the state for that question's fields.
  */
-async function storeOne(actor: PanelistActor, fields: Record<string, string>, locale: string): Promise<FormState & { version?: number }> {
+async function storeOne(actor: PanelistActor, fields: Record<string, string>, locale: string): Promise<FormState & { version?: number; late?: boolean }> {
   const input = withNumbers(fields, NUMBERS, locale);
   const unreadable = typedNumberErrors(input);
   if (unreadable) return { ...unreadable, message: NOT_STORED };
@@ -34,12 +36,23 @@ async function storeOne(actor: PanelistActor, fields: Record<string, string>, lo
     const { answer } = await submitAnswer(actor, parsed.data);
     return { ok: true, version: answer.version };
   } catch (error) {
-    return fromThrown(error);
+    // Too late: the round closed (or the panel finished) since the page was loaded.
+    const late = error instanceof ConflictError && (error.kind === "round-closed" || error.kind === "panel-finished");
+    return { ...fromThrown(error), late };
   }
 }
 
+/**
+ * After an answer that came too late, the page again, so that it shows the closed round (not the
+ * open round it showed when the form was filled) and says the answer was not stored.
+ */
+function showLate(token: unknown): never {
+  revalidatePath(`/p/${token}`);
+  redirect(`/p/${typeof token === "string" ? token : ""}?late=1`);
+}
+
 /** Stores the panelist's final answer of the previous round again, as this round's answer ("keep my answer"). */
-async function keepPrevious(actor: PanelistActor, questionId: string): Promise<FormState & { version?: number }> {
+async function keepPrevious(actor: PanelistActor, questionId: string): Promise<FormState & { version?: number; late?: boolean }> {
   const q = (await getPanelistPanel(actor)).questions.find((x) => x.id === questionId);
   const prev = q?.previousAnswer;
   if (!prev) return { ok: false, message: "There is no answer from the previous round to keep." };
@@ -62,6 +75,7 @@ export async function submitAnswerAction(token: unknown, _previous: FormState, f
   const panelist = await panelistForAction(typeof token === "string" ? token : "");
   if ("state" in panelist) return panelist.state;
   const stored = values.keep ? await keepPrevious(panelist.actor, values.keep) : await storeOne(panelist.actor, values, await localeOf(values));
+  if (stored.late) showLate(token);
   if (!stored.ok) return stored;
   revalidatePath(`/p/${token}`);
   return { ok: true, message: `Your answer was saved (version ${stored.version}). You can revise it until the round closes.` };
@@ -81,6 +95,7 @@ export async function submitAllAnswersAction(token: unknown, _previous: FormStat
   if ("state" in panelist) return panelist.state;
   if (values.keep) {
     const kept = await keepPrevious(panelist.actor, values.keep);
+    if (kept.late) showLate(token);
     if (!kept.ok) return kept;
     revalidatePath(`/p/${token}`);
     return { ok: true, message: "Your answer from the last round is kept for this round." };
@@ -106,6 +121,7 @@ export async function submitAllAnswersAction(token: unknown, _previous: FormStat
     }
     first = false;
     const stored = await storeOne(panelist.actor, fields, locale);
+    if (stored.late && saved === 0) showLate(token);
     if (stored.ok) saved++;
     else {
       for (const [field, list] of Object.entries(stored.fieldErrors ?? {})) for (const message of list ?? []) errors.push({ field: `q${i}.${field}`, message });

@@ -1,4 +1,5 @@
 import type { Metadata } from "next";
+import { redirect } from "next/navigation";
 import { getPanelistPanel } from "@/lib/panels/answers";
 import { getFeedback } from "@/lib/panels/feedback";
 import ActionForm, { FieldError } from "@/lib/ui/action-form";
@@ -16,11 +17,14 @@ import { submitAllAnswersAction, submitAnswerAction } from "./actions";
 export const metadata: Metadata = { title: "Your answers", referrer: "no-referrer", robots: { index: false, follow: false } };
 export const dynamic = "force-dynamic";
 
-export default async function PanelistPage({ params, searchParams }: { params: Promise<{ token: string }>; searchParams: Promise<{ page?: string | string[] }> }) {
-  const { token } = await params;
-  const { page } = await searchParams;
-  const who = await panelistFromLink(token);
+export default async function PanelistPage({ params, searchParams }: { params: Promise<{ token: string }>; searchParams: Promise<{ page?: string | string[]; late?: string | string[] }> }) {
+  const { token: asGiven } = await params;
+  const { page, late } = await searchParams;
+  const who = await panelistFromLink(asGiven);
   if ("problem" in who) return <LinkProblem problem={who.problem} />;
+  // Punctuation an e-mail program added to the link: continue on the clean link.
+  if (who.token !== asGiven) redirect(`/p/${who.token}${typeof page === "string" ? `?page=${encodeURIComponent(page)}` : ""}`);
+  const token = who.token;
   const view = await getPanelistPanel(who.actor);
   // One page of questions at a time (lib/ui/question-pages.tsx), with the feedback of those only.
   const at = questionPage(view.questions.length, page);
@@ -107,6 +111,12 @@ export default async function PanelistPage({ params, searchParams }: { params: P
       <p className="muted small">
         Your answers are anonymous to the other panelists: they see only the group&apos;s figures and unnamed rationales.
       </p>
+      {late !== undefined && !view.acceptingAnswers ? (
+        <p className="form-error" role="alert" data-late-answer>
+          Your last answer was not stored: {view.panel.status === "finished" ? "the panel had finished" : `round ${round?.number ?? ""} had closed${round?.closedAt ? ` (on ${formatDateTime(round.closedAt)})` : ""}`} before it
+          arrived.
+        </p>
+      ) : null}
       {view.panel.status === "finished" ? (
         <p className="notice">This panel is finished. Thank you for taking part.</p>
       ) : view.acceptingAnswers && round ? (

@@ -48,6 +48,11 @@ export default async function ReportPage({ params }: { params: Promise<{ id: str
         departures and the inputs; it supports a decision, it does not make one.
       </p>
       <h2>Questions</h2>
+      <div className="actions">
+        <a className="button secondary" href={`/api/v1/panels/${encodeURIComponent(id)}/report.csv`} download data-export="panel-csv">
+          Export every question&apos;s report (CSV)
+        </a>
+      </div>
       <div className="table-scroll">
         <table>
           <thead>
@@ -80,7 +85,17 @@ export default async function ReportPage({ params }: { params: Promise<{ id: str
                       "—"
                     )}
                   </td>
-                  <td>{r.resolution ? `resolved: ${r.resolution.actual}` : r.legs.baseline ? "baseline attached" : "no baseline"}</td>
+                  <td>
+                    {r.resolution ? (
+                      <>
+                        outcome: <Figure value={r.resolution.actual} name="outcome" />
+                      </>
+                    ) : r.legs.baseline ? (
+                      "baseline attached"
+                    ) : (
+                      "no baseline"
+                    )}
+                  </td>
                 </tr>
               );
             })}

@@ -1,4 +1,5 @@
 import type { Metadata } from "next";
+import { redirect } from "next/navigation";
 import { getFeedback, RATIONALES_SHOWN } from "@/lib/panels/feedback";
 import { MAX_PANELISTS_PER_PANEL } from "@/lib/validation/limits";
 import LinkProblem from "@/lib/ui/link-problem";
@@ -11,10 +12,13 @@ export const metadata: Metadata = { title: "Feedback", referrer: "no-referrer", 
 export const dynamic = "force-dynamic";
 
 export default async function FeedbackPage({ params, searchParams }: { params: Promise<{ token: string }>; searchParams: Promise<{ q?: string | string[]; n?: string | string[]; page?: string | string[] }> }) {
-  const { token } = await params;
+  const { token: asGiven } = await params;
   const { q, n, page } = await searchParams;
-  const who = await panelistFromLink(token);
+  const who = await panelistFromLink(asGiven);
   if ("problem" in who) return <LinkProblem problem={who.problem} />;
+  // Punctuation an e-mail program added to the link: continue on the clean link.
+  if (who.token !== asGiven) redirect(`/p/${who.token}/feedback`);
+  const token = who.token;
   // ?q=<question id>&n=<count>: more of that question's rationales (the "show more" links).
   const count = Math.min(MAX_PANELISTS_PER_PANEL, Math.max(RATIONALES_SHOWN, Math.trunc(Number(typeof n === "string" ? n : RATIONALES_SHOWN)) || RATIONALES_SHOWN));
   // One page of questions at a time (lib/ui/question-pages.tsx): the one holding ?q= if given.

@@ -2,7 +2,7 @@ import type { Metadata } from "next";
 import { notFound } from "next/navigation";
 import { NotFoundError } from "@/lib/errors";
 import { getBaseline, type BaselineView } from "@/lib/panels/baselines";
-import { getQuestionReport, type QuestionReport } from "@/lib/panels/report";
+import { getQuestionReport, questionReportFileName, type QuestionReport } from "@/lib/panels/report";
 import { RoundsChart, RoundStatsTable } from "@/lib/ui/convergence-view";
 import { formatDateTime } from "@/lib/ui/format";
 import PrintButton from "@/lib/ui/print-button";
@@ -62,13 +62,17 @@ export default async function QuestionReportPage({ params }: { params: Promise<{
           <a className="button secondary" href={`${api}/report.csv`} download data-export="csv">
             Export CSV
           </a>
-          <a className="button secondary" href={`${api}/report.json`} download={`report-${qid}.json`} data-export="json">
+          <a className="button secondary" href={`${api}/report.json`} download={`${questionReportFileName(report)}.json`} data-export="json">
             Export JSON
           </a>
           <PrintButton />
           {report.viewer.role !== "reviewer" ? <a href={`/panels/${id}/questions/${qid}`}>Manage this question</a> : null}
         </div>
       </header>
+
+      <p className="lead" data-report-summary>
+        {report.summary}
+      </p>
 
       <p className="caution">
         Every forecast is uncertain: read the ranges, not only the figures, and the inputs each rests on (at the end of this report). This report supports a
