@@ -157,14 +157,18 @@ export function panelistScores(questions: readonly CalibrationQuestion[]): Panel
   });
 }
 
+/** The levels of a three-quantile assessment, increasing inside (0, 1): (0.05, 0.5, 0.95) on calibration questions. */
+export type AssessedLevels = readonly [number, number, number];
+
 /**
  * The minimum-information CDF of one assessment on [L*, U*]: piecewise linear through
- * (L*, 0), (q5, 0.05), (q50, 0.5), (q95, 0.95), (U*, 1) (on the log scale for log-uniform).
+ * (L*, 0), (q5, 0.05), (q50, 0.5), (q95, 0.95), (U*, 1) (on the log scale for log-uniform);
+ * for an assessment at other levels, through those levels instead.
  */
-function assessmentCdf(a: Assessment, range: readonly [number, number], background: Background, v: number): number {
+function assessmentCdf(a: Assessment, range: readonly [number, number], background: Background, v: number, levels: AssessedLevels = QUANTILE_LEVELS): number {
   const tr = (x: number) => (background === "log-uniform" ? Math.log(x) : x);
   const xs = [tr(range[0]), tr(a[0]), tr(a[1]), tr(a[2]), tr(range[1])];
-  const ps = [0, 0.05, 0.5, 0.95, 1];
+  const ps = [0, levels[0], levels[1], levels[2], 1];
   const t = tr(v);
   if (t <= xs[0]) return 0;
   if (t >= xs[4]) return 1;
@@ -180,7 +184,9 @@ function assessmentCdf(a: Assessment, range: readonly [number, number], backgrou
 /**
  * The pooled distribution's quantiles (the linear opinion pool F = Σ w_e F_e of the panelists'
  * minimum-information distributions; Stone 1961, Cooke 1991) at the given levels, by bisection on
- * the pooled CDF over the intrinsic range (relative precision 1e-12 of the range).
+ * the pooled CDF over the intrinsic range (relative precision 1e-12 of the range). The assessments
+ * are 5/50/95 percentiles unless `assessedLevels` says otherwise (a target question asked as
+ * P10/P50/P90: the same minimum-information CDF through those levels).
  * @throws RangeError for weights that are negative, not one per panelist, or all zero.
  */
 export function pooledQuantiles(
@@ -189,11 +195,17 @@ export function pooledQuantiles(
   range: readonly [number, number],
   levels: readonly number[] = QUANTILE_LEVELS,
   background: Background = "uniform",
+  assessedLevels: AssessedLevels = QUANTILE_LEVELS,
 ): number[] {
   if (weights.length !== assessments.length) throw new RangeError("pooledQuantiles: one weight per panelist");
+  if (!(0 < assessedLevels[0] && assessedLevels[0] < assessedLevels[1] && assessedLevels[1] < assessedLevels[2] && assessedLevels[2] < 1)) {
+    throw new RangeError("pooledQuantiles: the assessed levels must increase inside (0, 1)");
+  }
+  assessments.forEach((a, e) => checkAssessment(a, `pooledQuantiles, panelist ${e + 1}`));
+  if (levels.some((p) => !(p > 0 && p < 1))) throw new RangeError("pooledQuantiles: levels must lie inside (0, 1)");
   const total = weights.reduce((s, w) => s + w, 0);
   if (weights.some((w) => !(w >= 0)) || !(total > 0)) throw new RangeError("pooledQuantiles: weights must be ≥ 0 and not all 0");
-  const cdf = (v: number) => assessments.reduce((s, a, e) => s + (weights[e] / total) * assessmentCdf(a, range, background, v), 0);
+  const cdf = (v: number) => assessments.reduce((s, a, e) => s + (weights[e] / total) * assessmentCdf(a, range, background, v, assessedLevels), 0);
   return levels.map((p) => {
     let lo = range[0];
     let hi = range[1];
