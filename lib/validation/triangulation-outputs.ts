@@ -7,6 +7,7 @@
 import { z } from "zod";
 import { AGGREGATIONS, ANSWER_FORMATS } from "./inputs";
 import { convergence } from "./outputs";
+import { PANEL_LEGS } from "./triangulation-inputs";
 
 const num = z.number();
 const n0 = z.number().nullable();
@@ -99,6 +100,9 @@ export const baseline = z.object({
 
 export const blendRule = z.object({ rule: weightRule, panelWeight: n0 });
 export const questionBlendRule = blendRule.extend({ from: z.enum(["question", "panel"]) });
+export const panelBlendRule = blendRule.extend({
+  panelLeg: z.enum(PANEL_LEGS).describe("The panel leg of three-point shared questions: equal, or performance (Cooke's performance-weighted pool; used only when the panel has scored calibration questions)"),
+});
 
 const departureFields = {
   value: num,
