@@ -652,6 +652,18 @@ export const routes = {
     response: tout.questionBlendRule,
     errors: [...AUTH_ERRORS, 404, 422],
   }),
+  getPerformanceWeights: route({
+    operationId: "getPerformanceWeights",
+    method: "GET",
+    path: "/api/v1/panels/{panelId}/performance-weights",
+    summary: "Cooke's classical model on the panel's calibration questions: each panelist's calibration and information score and weight (by pseudonym), both pools of every target question, and the leave-one-out comparison",
+    tag: "triangulation",
+    auth: "user",
+    params: input.params.panelId,
+    status: 200,
+    response: tout.calibrationReport,
+    errors: [...AUTH_ERRORS, 404],
+  }),
   getTriangulation: route({
     operationId: "getTriangulation",
     method: "GET",

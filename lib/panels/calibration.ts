@@ -37,6 +37,7 @@ import {
 import { authorisePanel } from "./access";
 import { panelReads, type PanelReads } from "./panel-reads";
 import { settleDeadlines } from "./round-closing";
+import { jsonSafe, type JsonSafe } from "./json";
 
 /** The levels target questions are answered at (three-point: P10 / P50 / P90, docs/methods.md §14.1). */
 export const TARGET_LEVELS = [0.1, 0.5, 0.9] as const;
@@ -291,9 +292,8 @@ export async function loadCalibration(panelId: string, reads: PanelReads = panel
   return computeCalibration(questions, answers);
 }
 
-/** The panel's performance weights and pools (organisers and reviewers of the panel); null without calibration questions. */
-export async function getCalibration(actor: Actor, panelId: string, reads?: PanelReads): Promise<CalibrationReport | null> {
+/** The panel's performance weights and pools (organisers and reviewers of the panel); `calibrationQuestions` 0 and nothing else on a panel without calibration questions. */
+export async function getCalibration(actor: Actor, panelId: string, reads?: PanelReads): Promise<JsonSafe<CalibrationReport>> {
   await authorisePanel(actor, panelId, "read");
-  const data = await loadCalibration(panelId, reads);
-  return data.report.calibrationQuestions === 0 ? null : data.report;
+  return jsonSafe((await loadCalibration(panelId, reads)).report);
 }

@@ -437,7 +437,19 @@ function weightSpec(rule: PanelWeightRule, panelWeight: number | null, history: 
 /** A question's stored inputs, loaded for {@link computeTriangulation}, with what else the report shows. */
 export interface LoadedTriangulation {
   readonly input: TriangulationInput;
-  readonly question: { id: string; text: string; unit: string; targetPeriod: string; lowerBound: number; upperBound: number; aggregation: "shared" | "sum-of-parts"; answerFormat: "single" | "three-point" };
+  readonly question: {
+    id: string;
+    text: string;
+    unit: string;
+    targetPeriod: string;
+    lowerBound: number;
+    upperBound: number;
+    aggregation: "shared" | "sum-of-parts";
+    answerFormat: "single" | "three-point";
+    calibration: boolean;
+  };
+  /** The panel's choice of panel leg (equal, or the performance-weighted pool). */
+  readonly panelLeg: "equal" | "performance";
   readonly ownerId: string;
   readonly rule: ReturnType<typeof effectiveRule>;
   readonly baselineTarget: BaselineTarget | null;
@@ -531,7 +543,8 @@ export async function loadTriangulation(panelId: string, questionId: string, rea
       ...(baselineUnusable ? { baselineUnusable } : {}),
       ...(performance ? { performance } : {}),
     },
-    question: { id: q.id, text: q.text, unit: q.unit, targetPeriod: q.targetPeriod, lowerBound: q.lowerBound, upperBound: q.upperBound, aggregation, answerFormat },
+    question: { id: q.id, text: q.text, unit: q.unit, targetPeriod: q.targetPeriod, lowerBound: q.lowerBound, upperBound: q.upperBound, aggregation, answerFormat, calibration: q.calibration },
+    panelLeg: q.panel.panelLeg === "performance" ? "performance" : "equal",
     ownerId: q.panel.ownerId,
     rule,
     baselineTarget: target,

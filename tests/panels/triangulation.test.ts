@@ -472,7 +472,8 @@ describe("CSV export cells (formula injection)", () => {
     const csv = reportCsv({
       generatedAt: "",
       panel: { id: "p", title: "=cmd|' /C calc'!A0", status: "running" },
-      question: { id: "q", text: "=1+1", unit: "@units", targetPeriod: "+1", aggregation: "shared", answerFormat: "single" },
+      question: { id: "q", text: "=1+1", unit: "@units", targetPeriod: "+1", aggregation: "shared", answerFormat: "single", calibration: false },
+      performanceWeights: null,
       viewer: { role: "owner", namesShown: false },
       blend: null,
       legs: { panel: null, baseline: null, trackRecord: { panelistsWithRecord: 0, meanFactor: null, panelists: [] } },

@@ -76,7 +76,8 @@ describe("sum-of-parts convergence: the panel page and the report agree", () => 
     const csv = reportCsv({
       generatedAt: "",
       panel: { id: "p", title: "Quillmoor regions", status: "running" },
-      question: { id: "q1", text: Q.text, unit: "units", targetPeriod: "next quarter", aggregation: "sum-of-parts", answerFormat: "single" },
+      question: { id: "q1", text: Q.text, unit: "units", targetPeriod: "next quarter", aggregation: "sum-of-parts", answerFormat: "single", calibration: false },
+      performanceWeights: null,
       viewer: { role: "owner", namesShown: false },
       blend: null,
       legs: { panel: null, baseline: null, trackRecord: { panelistsWithRecord: 0, meanFactor: null, panelists: [] } },
