@@ -269,8 +269,28 @@ export function computeCalibration(
   return { report: { calibrationQuestions: calibrationQs.length, counted: counted.length, waiting, panelists, pools, outOfSample, verdict, targets, method: METHOD }, weights };
 }
 
-/** Each panelist's latest answer in a closed round, per question (no access check: callers authorise). */
-export async function loadCalibration(panelId: string, reads: PanelReads = panelReads()): Promise<CalibrationData> {
+/** One computation per panel per request: the report page asks for it once per question. Keyed on the request's reads, so nothing outlives the request. */
+const perRequest = new WeakMap<PanelReads, Map<string, Promise<CalibrationData>>>();
+
+/**
+ * The panel's calibration data from each panelist's latest answer in a closed round, per question
+ * (no access check: callers authorise). Computed once per `reads` (one request).
+ */
+export function loadCalibration(panelId: string, reads: PanelReads = panelReads()): Promise<CalibrationData> {
+  let kept = perRequest.get(reads);
+  if (!kept) {
+    kept = new Map();
+    perRequest.set(reads, kept);
+  }
+  let p = kept.get(panelId);
+  if (!p) {
+    p = readCalibration(panelId, reads);
+    kept.set(panelId, p);
+  }
+  return p;
+}
+
+async function readCalibration(panelId: string, reads: PanelReads): Promise<CalibrationData> {
   await settleDeadlines(panelId);
   const questions = await db.question.findMany({
     where: { panelId },

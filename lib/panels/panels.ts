@@ -183,15 +183,17 @@ export async function getPanel(actor: Actor, panelId: string): Promise<PanelView
 
 /**
  * How far the panel's questions are past the rounds: the first question without a baseline and
- * the first without an outcome (null when none is missing), and how many have each.
+ * the first without an outcome (null when none is missing), and how many have each (calibration
+ * questions aside).
  */
 export async function getPanelMilestones(
   actor: Actor,
   panelId: string,
 ): Promise<{ baselines: number; resolved: number; firstWithoutBaseline: string | null; firstUnresolved: string | null }> {
   await authorisePanel(actor, panelId, "read");
+  // Calibration questions have a true value instead of a baseline and an outcome.
   const questions = await db.question.findMany({
-    where: { panelId },
+    where: { panelId, calibration: false },
     orderBy: { position: "asc" },
     select: { id: true, baseline: { select: { id: true } }, resolution: { select: { id: true } } },
   });

@@ -4,6 +4,8 @@ import { NotFoundError } from "@/lib/errors";
 import { getPanel } from "@/lib/panels/panels";
 import { getConvergencePage } from "@/lib/panels/views";
 import { getPanelReports } from "@/lib/panels/panel-reports";
+import { getCalibration } from "@/lib/panels/calibration";
+import PerformanceWeights from "@/lib/ui/performance-weights";
 import ConvergenceView from "@/lib/ui/convergence-view";
 import Figure from "@/lib/ui/figure";
 import { formatDateTime } from "@/lib/ui/format";
@@ -23,6 +25,7 @@ export default async function ReportPage({ params }: { params: Promise<{ id: str
   }
   const convergence = await getConvergencePage(user, id);
   const reports = await getPanelReports(user, id, panel.questions.map((q) => q.id));
+  const calibration = panel.questions.some((q) => q.calibration) ? await getCalibration(user, id) : null;
   return (
     <article>
       <p className="muted small">
@@ -80,13 +83,22 @@ export default async function ReportPage({ params }: { params: Promise<{ id: str
                       "—"
                     )}
                   </td>
-                  <td>{r.resolution ? `resolved: ${r.resolution.actual}` : r.legs.baseline ? "baseline attached" : "no baseline"}</td>
+                  <td>
+                    {q.calibration
+                      ? "calibration question"
+                      : r.resolution
+                        ? `resolved: ${r.resolution.actual}`
+                        : r.legs.baseline
+                          ? "baseline attached"
+                          : "no baseline"}
+                  </td>
                 </tr>
               );
             })}
           </tbody>
         </table>
       </div>
+      {calibration ? <PerformanceWeights report={calibration} /> : null}
       <h2>Convergence across rounds</h2>
       <ConvergenceView view={convergence} reader="reviewer" />
     </article>
