@@ -122,6 +122,8 @@ export interface TriangulationInput {
    * answers are taken with equal weights). Absent: the panel leg is the equal-weight one.
    */
   readonly performance?: { readonly weights: Readonly<Record<string, number>>; readonly calibrationQuestions: number } | { readonly unavailable: string };
+  /** A calibration question (answers P5 / P50 / P95): shown for completeness, not meant to be triangulated. */
+  readonly calibration?: boolean;
 }
 
 /** A panelist's answer with its correction. */
@@ -230,6 +232,9 @@ export function computeTriangulation(input: TriangulationInput): Triangulation {
   const cautions: string[] = [
     "Every figure here is uncertain: read the ranges, not only the points. The figures support a decision; they do not make it.",
   ];
+  if (input.calibration) {
+    cautions.push("This is a calibration question: its answers are the 5th, 50th and 95th percentiles and its true value scores the panelists (the report's performance weights). The panel range below reads them as P10 / P90; it takes no baseline or outcome.");
+  }
   const mode = input.aggregation === "shared" ? "shared-quantity" : "sum-of-parts";
   const final = input.rounds.at(-1);
   let panel: PanelLeg | null = null;
@@ -542,6 +547,7 @@ export async function loadTriangulation(panelId: string, questionId: string, rea
       weight: weightSpec(rule.rule, rule.panelWeight, history),
       ...(baselineUnusable ? { baselineUnusable } : {}),
       ...(performance ? { performance } : {}),
+      ...(q.calibration ? { calibration: true } : {}),
     },
     question: { id: q.id, text: q.text, unit: q.unit, targetPeriod: q.targetPeriod, lowerBound: q.lowerBound, upperBound: q.upperBound, aggregation, answerFormat, calibration: q.calibration },
     panelLeg: q.panel.panelLeg === "performance" ? "performance" : "equal",

@@ -82,6 +82,12 @@ beforeAll(async () => {
     // The panelist sees which questions ask for P5 / P95, never a true value.
     expect(view.body.questions.map((q: { calibration: boolean }) => q.calibration)).toEqual([true, true, true, false, false]);
     for (const t of TRUE) expect(view.text).not.toContain(String(t));
+    if (i === 0) {
+      // Asked for the 5th and 95th percentiles on a calibration question.
+      const missing = await api("POST", "/api/v1/panelist/answers", { token, body: { questionId: calibrationIds[0], value: 4200, high: 5000 } });
+      expect(missing.status).toBe(422);
+      expect(missing.body.errors.find((e: { field: string }) => e.field === "low").message).toMatch(/5th percentile/);
+    }
     const qs = [...calibrationIds, targetId];
     for (let j = 0; j < qs.length; j++) {
       const [low, value, high] = ANSWERS[i][j];
@@ -125,6 +131,16 @@ describe("calibration questions: what is accepted", () => {
     expect(target.body.errors[0]).toMatchObject({ field: "trueValue" });
     const text = await api("PUT", `/api/v1/panels/${panelId}/questions/${calibrationIds[0]}/true-value`, { token: owner, body: { trueValue: "4173.5" } });
     expect(text.status).toBe(422);
+  });
+
+  it("a calibration question takes a true value, not a baseline or an outcome", async () => {
+    const q = `/api/v1/panels/${panelId}/questions/${calibrationIds[0]}`;
+    const baseline = await api("PUT", `${q}/baseline`, { token: owner, body: { values: [1, 2, 3, 4, 5, 6], method: "naive" } });
+    expect(baseline.status).toBe(409);
+    expect(baseline.body.type).toBe("/problems/calibration-question");
+    const outcome = await api("POST", `${q}/resolution`, { token: owner, body: { actual: 4173.5 } });
+    expect(outcome.status).toBe(409);
+    expect(outcome.body.type).toBe("/problems/calibration-question");
   });
 
   it("the panel leg is equal or performance, checked by the blend-rule schema", async () => {
