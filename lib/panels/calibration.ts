@@ -172,7 +172,7 @@ export function computeCalibration(
 
   let waiting: string | null = null;
   if (calibrationQs.length === 0) return empty;
-  if (calibrationQs.every((q) => q.trueValue === null)) waiting = "No calibration question has its true value yet: enter them on the questions' pages to score the panelists.";
+  if (calibrationQs.every((q) => q.trueValue === null)) waiting = "No calibration question has its true value yet: enter them on the panel page (or PUT …/true-value) to score the panelists.";
   else if (counted.length === 0) waiting = "No calibration question with a true value has answers from a closed round yet.";
   else if (scoredIds.length === 0) waiting = `No panelist has answered all ${counted.length} calibration questions with a true value.`;
 
