@@ -42,6 +42,11 @@ export const PROBLEM_TYPES = {
   "already-invited": { status: 409, title: "Already invited", description: "Someone named is already invited to this panel; re-issue their link instead." },
   "already-has-access": { status: 409, title: "Already has access", description: "The user already has access to this panel (for example the owner)." },
   "question-resolved": { status: 409, title: "Question resolved", description: "The question is resolved; its baseline and outcome can no longer change except by a correction with a reason." },
+  "calibration-question": {
+    status: 409,
+    title: "Calibration question",
+    description: "A calibration question has a true value (PUT …/true-value) instead of a baseline and an outcome; it scores the panelists, it is not triangulated.",
+  },
   "no-panel-figure": { status: 409, title: "No panel figure", description: "No closed round has answers to this question, so there is nothing to score yet." },
   "account-exists": { status: 409, title: "Account exists", description: "An account with this e-mail exists, or the first organiser was already created." },
   "smtp-required": {

@@ -157,31 +157,47 @@ export function panelistScores(questions: readonly CalibrationQuestion[]): Panel
   });
 }
 
+/** The levels of a three-quantile assessment, increasing inside (0, 1): (0.05, 0.5, 0.95) on calibration questions. */
+export type AssessedLevels = readonly [number, number, number];
+
 /**
- * The minimum-information CDF of one assessment on [L*, U*]: piecewise linear through
- * (L*, 0), (q5, 0.05), (q50, 0.5), (q95, 0.95), (U*, 1) (on the log scale for log-uniform).
+ * The linear pool's CDF at t (on the working scale: ln x for a log-uniform background): Σ w_e F_e(t)
+ * with weights summing to 1, F_e the minimum-information CDF of assessment e, piecewise linear
+ * through (L*, 0), (q_1, level_1), (q_2, level_2), (q_3, level_3), (U*, 1) — for a 5/50/95
+ * assessment (L*, 0), (q5, 0.05), (q50, 0.5), (q95, 0.95), (U*, 1). `knots` holds each
+ * assessment's five x values; a bin of zero width is a jump.
  */
-function assessmentCdf(a: Assessment, range: readonly [number, number], background: Background, v: number): number {
-  const tr = (x: number) => (background === "log-uniform" ? Math.log(x) : x);
-  const xs = [tr(range[0]), tr(a[0]), tr(a[1]), tr(a[2]), tr(range[1])];
-  const ps = [0, 0.05, 0.5, 0.95, 1];
-  const t = tr(v);
-  if (t <= xs[0]) return 0;
-  if (t >= xs[4]) return 1;
-  for (let k = 1; k <= 4; k++) {
-    if (t <= xs[k]) {
-      const w = xs[k] - xs[k - 1];
-      return w > 0 ? ps[k - 1] + ((ps[k] - ps[k - 1]) * (t - xs[k - 1])) / w : ps[k];
+function pooledCdf(knots: readonly (readonly number[])[], w: readonly number[], ps: readonly number[], t: number): number {
+  let sum = 0;
+  for (let e = 0; e < knots.length; e++) {
+    if (w[e] === 0) continue;
+    const xs = knots[e];
+    let f = 1;
+    if (t <= xs[0]) f = 0;
+    else if (t < xs[4]) {
+      for (let k = 1; k <= 4; k++) {
+        if (t <= xs[k]) {
+          const width = xs[k] - xs[k - 1];
+          f = width > 0 ? ps[k - 1] + ((ps[k] - ps[k - 1]) * (t - xs[k - 1])) / width : ps[k];
+          break;
+        }
+      }
     }
+    sum += w[e] * f;
   }
-  return 1;
+  return sum;
 }
 
 /**
  * The pooled distribution's quantiles (the linear opinion pool F = Σ w_e F_e of the panelists'
- * minimum-information distributions; Stone 1961, Cooke 1991) at the given levels, by bisection on
- * the pooled CDF over the intrinsic range (relative precision 1e-12 of the range).
- * @throws RangeError for weights that are negative, not one per panelist, or all zero.
+ * minimum-information distributions; Stone 1961, Cooke 1991) at the given levels: the smallest x
+ * with F(x) ≥ p. F is piecewise linear between the assessments' percentiles (on ln x for a
+ * log-uniform background), so the quantile is found exactly: the segment by bisection over the
+ * sorted knots, then the line through F inside it (a jump — equal percentiles — gives its knot).
+ * The assessments are 5/50/95 percentiles unless `assessedLevels` says otherwise (a target
+ * question asked as P10/P50/P90: the same minimum-information CDF through those levels).
+ * @throws RangeError for weights that are negative, not one per panelist, or all zero; levels
+ * outside (0, 1); assessed levels that do not increase inside (0, 1); a bad assessment.
  */
 export function pooledQuantiles(
   assessments: readonly Assessment[],
@@ -189,20 +205,67 @@ export function pooledQuantiles(
   range: readonly [number, number],
   levels: readonly number[] = QUANTILE_LEVELS,
   background: Background = "uniform",
+  assessedLevels: AssessedLevels = QUANTILE_LEVELS,
 ): number[] {
   if (weights.length !== assessments.length) throw new RangeError("pooledQuantiles: one weight per panelist");
+  if (!(0 < assessedLevels[0] && assessedLevels[0] < assessedLevels[1] && assessedLevels[1] < assessedLevels[2] && assessedLevels[2] < 1)) {
+    throw new RangeError("pooledQuantiles: the assessed levels must increase inside (0, 1)");
+  }
+  assessments.forEach((a, e) => checkAssessment(a, `pooledQuantiles, panelist ${e + 1}`));
+  if (levels.some((p) => !(p > 0 && p < 1))) throw new RangeError("pooledQuantiles: levels must lie inside (0, 1)");
   const total = weights.reduce((s, w) => s + w, 0);
   if (weights.some((w) => !(w >= 0)) || !(total > 0)) throw new RangeError("pooledQuantiles: weights must be ≥ 0 and not all 0");
-  const cdf = (v: number) => assessments.reduce((s, a, e) => s + (weights[e] / total) * assessmentCdf(a, range, background, v), 0);
+  return preparedQuantiles(preparePool(assessments, range, background, assessedLevels), weights, levels);
+}
+
+/** What a pool's quantiles need that does not depend on the weights: each assessment's knots and all knots sorted. */
+interface PreparedPool {
+  readonly log: boolean;
+  readonly ps: readonly number[];
+  readonly knots: readonly (readonly number[])[];
+  readonly xs: readonly number[];
+}
+
+function preparePool(assessments: readonly Assessment[], range: readonly [number, number], background: Background, assessedLevels: AssessedLevels): PreparedPool {
+  const log = background === "log-uniform";
+  const tr = (x: number) => (log ? Math.log(x) : x);
+  const lo = tr(range[0]);
+  const hi = tr(range[1]);
+  const knots = assessments.map((a) => [lo, tr(a[0]), tr(a[1]), tr(a[2]), hi]);
+  const xs = [...new Set(knots.flat().map((x) => Math.min(hi, Math.max(lo, x))))].sort((a, b) => a - b);
+  return { log, ps: [0, assessedLevels[0], assessedLevels[1], assessedLevels[2], 1], knots, xs };
+}
+
+/** {@link pooledQuantiles} on a prepared pool (weights ≥ 0, not all 0, not yet normalised). */
+function preparedQuantiles(prep: PreparedPool, weights: readonly number[], levels: readonly number[]): number[] {
+  const { log, ps, knots, xs } = prep;
+  const total = weights.reduce((s, v) => s + v, 0);
+  const w = weights.map((v) => v / total);
+  const F = (t: number) => pooledCdf(knots, w, ps, t);
   return levels.map((p) => {
-    let lo = range[0];
-    let hi = range[1];
-    for (let i = 0; i < 200 && hi - lo > 1e-12 * (range[1] - range[0]); i++) {
-      const mid = background === "log-uniform" ? Math.sqrt(lo * hi) : (lo + hi) / 2;
-      if (cdf(mid) < p) lo = mid;
-      else hi = mid;
+    // The first knot with F ≥ p (F(L*) = 0 < p, F(U*) = 1 ≥ p).
+    let a = 0;
+    let b = xs.length - 1;
+    if (b <= 0) return log ? Math.exp(xs[0]) : xs[0];
+    while (b - a > 1) {
+      const m = (a + b) >> 1;
+      if (F(xs[m]) >= p) b = m;
+      else a = m;
     }
-    return (lo + hi) / 2;
+    // F is linear inside (xs[a], xs[b]): its line from two inner points gives both one-sided limits.
+    const x0 = xs[a];
+    const x1 = xs[b];
+    const t1 = x0 + (x1 - x0) / 3;
+    const t2 = x0 + (2 * (x1 - x0)) / 3;
+    const f1 = F(t1);
+    const slope = (F(t2) - f1) / (t2 - t1);
+    const left = f1 - slope * (t1 - x0);
+    const right = f1 + slope * (x1 - t1);
+    let t: number;
+    if (left >= p) t = x0;
+    else if (right >= p && slope > 0) t = Math.min(x1, Math.max(x0, x0 + (p - left) / slope));
+    else t = x1;
+    return log ? Math.exp(t) : t;
   });
 }
 
@@ -219,13 +282,11 @@ export interface PoolResult {
  * The pool scored as one more panelist: its 5/50/95 percentiles on each calibration question,
  * scored on the panelists' intrinsic ranges (the pool does not widen them).
  */
-function poolScore(questions: readonly CalibrationQuestion[], weights: readonly number[]): PanelistScore {
+function poolScore(questions: readonly PreparedQuestion[], weights: readonly number[]): PanelistScore {
   const counts: [number, number, number, number] = [0, 0, 0, 0];
   let info = 0;
-  for (const q of questions) {
-    const bg = q.background ?? "uniform";
-    const range = intrinsicRange(q.assessments, q.realisation, bg);
-    const pooled = pooledQuantiles(q.assessments, weights, range, QUANTILE_LEVELS, bg) as unknown as Assessment;
+  for (const { q, bg, range, prep } of questions) {
+    const pooled = preparedQuantiles(prep, weights, QUANTILE_LEVELS) as unknown as Assessment;
     counts[binOf(pooled, q.realisation)]++;
     info += informationScore(pooled, range, bg);
   }
@@ -234,11 +295,28 @@ function poolScore(questions: readonly CalibrationQuestion[], weights: readonly 
   return { binCounts: counts, calibration, information, combined: calibration * information };
 }
 
+/** A calibration question with its intrinsic range and prepared pool, made once per question set. */
+interface PreparedQuestion {
+  readonly q: CalibrationQuestion;
+  readonly bg: Background;
+  readonly range: readonly [number, number];
+  readonly prep: PreparedPool;
+}
+
+/** The questions prepared for pooling once (the cut-off search pools them once per candidate cut-off). */
+function prepared(questions: readonly CalibrationQuestion[]): PreparedQuestion[] {
+  return questions.map((q) => {
+    const bg = q.background ?? "uniform";
+    const range = intrinsicRange(q.assessments, q.realisation, bg);
+    return { q, bg, range, prep: preparePool(q.assessments, range, bg, QUANTILE_LEVELS) };
+  });
+}
+
 /** Equal weights over all panelists, scored as a pool. */
 export function equalWeightPool(questions: readonly CalibrationQuestion[]): PoolResult {
   const k = checkQuestions(questions);
   const weights = Array<number>(k).fill(1 / k);
-  return { weights, cutoff: null, score: poolScore(questions, weights) };
+  return { weights, cutoff: null, score: poolScore(prepared(questions), weights) };
 }
 
 /**
@@ -250,13 +328,14 @@ export function equalWeightPool(questions: readonly CalibrationQuestion[]): Pool
 export function performanceWeightedPool(questions: readonly CalibrationQuestion[]): PoolResult {
   const scores = panelistScores(questions);
   const cutoffs = [...new Set(scores.map((s) => s.calibration))].sort((a, b) => a - b);
+  const ready = prepared(questions);
   let best: PoolResult | null = null;
   for (const alpha of cutoffs) {
     const raw = scores.map((s) => (s.calibration >= alpha ? s.combined : 0));
     const sum = raw.reduce((a, v) => a + v, 0);
     if (!(sum > 0)) continue;
     const weights = raw.map((v) => v / sum);
-    const score = poolScore(questions, weights);
+    const score = poolScore(ready, weights);
     if (!best || score.combined > best.score.combined) best = { weights, cutoff: alpha, score };
   }
   return best ?? equalWeightPool(questions);

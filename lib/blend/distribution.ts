@@ -170,15 +170,26 @@ function indexedThreePoint(a: ThreePointAnswer, i: number, fn: string, name: str
  * F_panel(x) = (1/n)·Σ_i F_i(x) — the linear opinion pool of M. Stone (1961), "The opinion
  * pool", Annals of Mathematical Statistics 32(4), 1339–1342.
  *
+ * With `weights` (one per answer, ≥ 0, not all 0; normalised here) the pool is Σ_i w_i·F_i, as
+ * in Cooke's performance-weighted pool (docs/methods.md §21); without them every w_i = 1/n.
+ *
  * Input: a non-empty array of valid three-point answers.
- * @throws RangeError for an empty array or an invalid answer (the message names its index).
+ * @throws RangeError for an empty array, an invalid answer (the message names its index), or
+ * weights that are not one per answer, negative, non-finite or all 0.
  */
-export function panelFromThreePoint(answers: readonly ThreePointAnswer[]): PanelDistribution {
+export function panelFromThreePoint(answers: readonly ThreePointAnswer[], weights?: readonly number[]): PanelDistribution {
   assertNonEmpty(answers, "panelFromThreePoint", "answers");
   const components = answers.map((a, i) => indexedThreePoint(a, i, "panelFromThreePoint", "answers"));
-  const w = 1 / components.length;
+  let ws = components.map(() => 1 / components.length);
+  if (weights) {
+    if (weights.length !== answers.length) throw new RangeError("panelFromThreePoint: give one weight per answer");
+    weights.forEach((w, i) => assertFinite(w, "panelFromThreePoint", `weights[${i}]`));
+    const total = weights.reduce((a, w) => a + w, 0);
+    if (weights.some((w) => w < 0) || !(total > 0)) throw new RangeError("panelFromThreePoint: weights must be ≥ 0 and not all 0");
+    ws = weights.map((w) => w / total);
+  }
   return {
-    distribution: { kind: "mixture", weights: components.map(() => w), components },
+    distribution: { kind: "mixture", weights: ws, components },
     rule: "three-point pool",
     n: answers.length,
     median: NaN,

@@ -141,15 +141,17 @@ export async function getPanelistPanel(actor: Actor): Promise<PanelistPanelView>
 }
 
 /** Field errors of an answer against its question (format, order, plausible bounds). */
-export function answerFieldErrors(q: Pick<Question, "answerFormat" | "lowerBound" | "upperBound" | "unit">, input: AnswerInput): FieldError[] {
+export function answerFieldErrors(q: Pick<Question, "answerFormat" | "lowerBound" | "upperBound" | "unit"> & { readonly calibration?: boolean }, input: AnswerInput): FieldError[] {
   const errors: FieldError[] = [];
   const bounds = `between ${q.lowerBound} and ${q.upperBound} ${q.unit} (the question's plausible bounds)`;
   const inBounds = (field: string, v: number | undefined) => {
     if (v !== undefined && (v < q.lowerBound || v > q.upperBound)) errors.push({ field, message: `must be ${bounds}` });
   };
   if (q.answerFormat === "three-point") {
-    if (input.low === undefined) errors.push({ field: "low", message: "a three-point answer needs a low value (10th percentile)" });
-    if (input.high === undefined) errors.push({ field: "high", message: "a three-point answer needs a high value (90th percentile)" });
+    // A calibration question asks for the 5th and 95th percentiles (docs/methods.md §14.1).
+    const [lowP, highP] = q.calibration ? ["5th", "95th"] : ["10th", "90th"];
+    if (input.low === undefined) errors.push({ field: "low", message: `a three-point answer needs a low value (${lowP} percentile)` });
+    if (input.high === undefined) errors.push({ field: "high", message: `a three-point answer needs a high value (${highP} percentile)` });
     if (input.low !== undefined && input.low > input.value) errors.push({ field: "low", message: "low must not be above the median estimate (P50)" });
     if (input.high !== undefined && input.high < input.value) errors.push({ field: "high", message: "high must not be below the median estimate (P50)" });
     inBounds("low", input.low);
@@ -237,6 +239,7 @@ async function storeAnswer(me: PanelistActor, input: AnswerInput, key: string | 
       panelStatus: string;
       questionId: string | null;
       answerFormat: string;
+      calibration: boolean | number;
       lowerBound: number;
       upperBound: number;
       unit: string;
@@ -245,7 +248,7 @@ async function storeAnswer(me: PanelistActor, input: AnswerInput, key: string | 
       deadline: Date | string | null;
     }
   >(
-    `SELECT p."status" AS "panelStatus", q."id" AS "questionId", q."answerFormat", q."lowerBound", q."upperBound", q."unit",
+    `SELECT p."status" AS "panelStatus", q."id" AS "questionId", q."answerFormat", q."calibration", q."lowerBound", q."upperBound", q."unit",
             r."id" AS "roundId", r."number" AS "roundNumber", r."deadline"
      FROM "Panel" p
      LEFT JOIN "Question" q ON q."panelId" = p."id" AND q."id" = ?
@@ -257,7 +260,14 @@ async function storeAnswer(me: PanelistActor, input: AnswerInput, key: string | 
   if (!found) throw new ConflictError("panel-deleted", "The panel no longer exists.");
   if (found.panelStatus === "finished") throw new ConflictError("panel-finished", "The panel is finished; answers are no longer accepted.");
   if (!found.questionId) throw new InvalidInputError([{ field: "questionId", message: "no such question in your panel" }]);
-  const question = { id: found.questionId, answerFormat: found.answerFormat, lowerBound: Number(found.lowerBound), upperBound: Number(found.upperBound), unit: found.unit };
+  const question = {
+    id: found.questionId,
+    answerFormat: found.answerFormat,
+    calibration: Boolean(found.calibration),
+    lowerBound: Number(found.lowerBound),
+    upperBound: Number(found.upperBound),
+    unit: found.unit,
+  };
   let round =
     found.roundId === null ? null : { id: found.roundId, number: Number(found.roundNumber), deadline: found.deadline === null ? null : new Date(found.deadline) };
   if (round?.deadline && round.deadline.getTime() <= Date.now()) {

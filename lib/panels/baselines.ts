@@ -376,6 +376,10 @@ async function findQuestion(panelId: string, questionId: string): Promise<Questi
   return q;
 }
 
+function refuseIfCalibration(q: Question): void {
+  if (q.calibration) throw new ConflictError("calibration-question", "A calibration question has a true value instead of a baseline: enter it on the panel page (or PUT …/true-value).");
+}
+
 async function refuseIfResolved(questionId: string): Promise<void> {
   if (await db.resolution.findUnique({ where: { questionId } })) {
     throw new ConflictError("question-resolved", "The question is resolved; its baseline is part of the scored record and can no longer change.");
@@ -443,7 +447,7 @@ export async function storeBaseline(
  */
 export async function attachBaseline(actor: Actor, panelId: string, questionId: string, input: BaselineInput): Promise<BaselineView> {
   const access = await authorisePanel(actor, panelId, "manage");
-  await findQuestion(panelId, questionId);
+  refuseIfCalibration(await findQuestion(panelId, questionId));
   await refuseIfResolved(questionId);
   const a = await analyseBaseline(input, await launchMarket(actor, panelId, questionId, input));
   const stored = await db.$transaction(async (tx) => {

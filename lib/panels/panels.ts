@@ -11,7 +11,7 @@ import { ConflictError, ForbiddenError, InvalidInputError, NotFoundError } from 
 import type { Actor } from "@/lib/accounts/actor";
 import { normaliseEmail, requireOrganiser } from "@/lib/accounts/users";
 import type { Panel, Question, Round } from "@/lib/generated/prisma/client";
-import type { PanelCreate, PanelUpdate, QuestionInput, QuestionUpdate, ShareInput } from "@/lib/validation/inputs";
+import { calibrationProblems, type PanelCreate, type PanelUpdate, type QuestionInput, type QuestionUpdate, type ShareInput, type TrueValueInput } from "@/lib/validation/inputs";
 import {
   STOPPING_RULE_DEFAULTS,
   defaultConsensusThreshold,
@@ -31,6 +31,13 @@ export interface QuestionView {
   readonly upperBound: number;
   readonly answerFormat: "single" | "three-point";
   readonly aggregation: "shared" | "sum-of-parts";
+  /** A calibration question: three-point read as the 5th, 50th and 95th percentiles (docs/methods.md §21). */
+  readonly calibration: boolean;
+}
+
+/** A question as its organisers and reviewers see it: with a calibration question's true value (never shown to panelists). */
+export interface OrganiserQuestionView extends QuestionView {
+  readonly trueValue: number | null;
 }
 
 export interface RoundView {
@@ -64,7 +71,7 @@ export interface PanelView extends PanelRules {
   readonly description: string;
   readonly status: "draft" | "running" | "finished";
   readonly role: PanelRole;
-  readonly questions: readonly QuestionView[];
+  readonly questions: readonly OrganiserQuestionView[];
   readonly rounds: readonly RoundView[];
   readonly createdAt: string;
   readonly updatedAt: string;
@@ -81,7 +88,12 @@ export function questionView(q: Question): QuestionView {
     upperBound: q.upperBound,
     answerFormat: q.answerFormat === "three-point" ? "three-point" : "single",
     aggregation: q.aggregation === "sum-of-parts" ? "sum-of-parts" : "shared",
+    calibration: q.calibration,
   };
+}
+
+export function organiserQuestionView(q: Question): OrganiserQuestionView {
+  return { ...questionView(q), trueValue: q.calibration ? q.trueValue : null };
 }
 
 export function roundView(r: Round): RoundView {
@@ -120,7 +132,7 @@ async function loadPanelView(panelId: string, role: PanelRole): Promise<PanelVie
     status: p.status as PanelView["status"],
     role,
     ...panelRules(p),
-    questions: p.questions.map(questionView),
+    questions: p.questions.map(organiserQuestionView),
     rounds: p.rounds.map(roundView),
     createdAt: p.createdAt.toISOString(),
     updatedAt: p.updatedAt.toISOString(),
@@ -164,15 +176,17 @@ export async function getPanel(actor: Actor, panelId: string): Promise<PanelView
 
 /**
  * How far the panel's questions are past the rounds: the first question without a baseline and
- * the first without an outcome (null when none is missing), and how many have each.
+ * the first without an outcome (null when none is missing), and how many have each (calibration
+ * questions aside).
  */
 export async function getPanelMilestones(
   actor: Actor,
   panelId: string,
 ): Promise<{ baselines: number; resolved: number; firstWithoutBaseline: string | null; firstUnresolved: string | null }> {
   await authorisePanel(actor, panelId, "read");
+  // Calibration questions have a true value instead of a baseline and an outcome.
   const questions = await db.question.findMany({
-    where: { panelId },
+    where: { panelId, calibration: false },
     orderBy: { position: "asc" },
     select: { id: true, baseline: { select: { id: true } }, resolution: { select: { id: true } } },
   });
@@ -240,7 +254,7 @@ function requireDraft(panel: Panel): void {
 }
 
 /** Adds a question at the end (draft panels only; at most MAX_QUESTIONS_PER_PANEL). */
-export async function addQuestion(actor: Actor, panelId: string, input: QuestionInput): Promise<QuestionView> {
+export async function addQuestion(actor: Actor, panelId: string, input: QuestionInput): Promise<OrganiserQuestionView> {
   const access = await authorisePanel(actor, panelId, "manage");
   requireDraft(access.panel);
   const q = await db.$transaction(async (tx) => {
@@ -250,11 +264,11 @@ export async function addQuestion(actor: Actor, panelId: string, input: Question
     await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "question.created", detail: { questionId: created.id, ...input } });
     return created;
   });
-  return questionView(q);
+  return organiserQuestionView(q);
 }
 
 /** Changes a question (draft panels only); the merged bounds must stay in order. */
-export async function updateQuestion(actor: Actor, panelId: string, questionId: string, input: QuestionUpdate): Promise<QuestionView> {
+export async function updateQuestion(actor: Actor, panelId: string, questionId: string, input: QuestionUpdate): Promise<OrganiserQuestionView> {
   const access = await authorisePanel(actor, panelId, "manage");
   const existing = await db.question.findFirst({ where: { id: questionId, panelId } });
   if (!existing) throw new NotFoundError("The question");
@@ -262,12 +276,33 @@ export async function updateQuestion(actor: Actor, panelId: string, questionId: 
   const lower = input.lowerBound ?? existing.lowerBound;
   const upper = input.upperBound ?? existing.upperBound;
   if (!(lower < upper)) throw new InvalidInputError([{ field: "lowerBound", message: "lower bound must be below the upper bound" }]);
+  const merged = { ...existing, ...input };
+  const problems = calibrationProblems({ ...merged, trueValue: input.trueValue ?? (merged.calibration ? existing.trueValue : null) });
+  if (problems.length > 0) throw new InvalidInputError(problems);
+  // A question that stops being a calibration question loses its true value.
+  if (input.calibration === false) input = { ...input, trueValue: null };
   const q = await db.$transaction(async (tx) => {
     const updated = await tx.question.update({ where: { id: questionId }, data: input });
     await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "question.updated", detail: { questionId, ...input } });
     return updated;
   });
-  return questionView(q);
+  return organiserQuestionView(q);
+}
+
+/**
+ * Sets (or with null clears) a calibration question's true value, at any stage of the panel —
+ * before, during or after the rounds (organisers; audited). Panelists never see it.
+ */
+export async function setTrueValue(actor: Actor, panelId: string, questionId: string, input: TrueValueInput): Promise<{ questionId: string; trueValue: number | null }> {
+  const access = await authorisePanel(actor, panelId, "manage");
+  const existing = await db.question.findFirst({ where: { id: questionId, panelId } });
+  if (!existing) throw new NotFoundError("The question");
+  if (!existing.calibration) throw new InvalidInputError([{ field: "trueValue", message: "only a calibration question has a true value" }]);
+  await db.$transaction(async (tx) => {
+    await tx.question.update({ where: { id: questionId }, data: { trueValue: input.trueValue } });
+    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "question.true-value", detail: { questionId, trueValue: input.trueValue } });
+  });
+  return { questionId, trueValue: input.trueValue };
 }
 
 /** Removes a question (draft panels only). */

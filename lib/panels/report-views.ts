@@ -14,7 +14,7 @@
 import { db } from "@/lib/db";
 import type { Actor } from "@/lib/accounts/actor";
 import { NotFoundError } from "@/lib/errors";
-import { WEIGHT_RULES, type PanelWeightRule } from "@/lib/validation/triangulation-inputs";
+import { WEIGHT_RULES, type PanelLegChoice, type PanelWeightRule } from "@/lib/validation/triangulation-inputs";
 import { authorisePanel } from "./access";
 import type { JsonSafe } from "./json";
 import type { CorrectedAnswer } from "./triangulation";
@@ -25,6 +25,10 @@ export interface PanelBlendRuleView {
   readonly panelWeight: number | null;
   /** Questions with a rule of their own (they do not follow the panel's). */
   readonly questionsWithOwnRule: number;
+  /** The panel leg of three-point shared questions: equal, or Cooke's performance-weighted pool. */
+  readonly panelLeg: PanelLegChoice;
+  /** Calibration questions on the panel (0: the panel-leg choice is not offered). */
+  readonly calibrationQuestions: number;
 }
 
 const isRule = (r: string): r is PanelWeightRule => (WEIGHT_RULES as readonly string[]).includes(r);
@@ -32,10 +36,17 @@ const isRule = (r: string): r is PanelWeightRule => (WEIGHT_RULES as readonly st
 /** The panel's blend weight rule (organisers and reviewers of the panel). */
 export async function getPanelBlendRule(actor: Actor, panelId: string): Promise<PanelBlendRuleView> {
   await authorisePanel(actor, panelId, "read");
-  const panel = await db.panel.findUnique({ where: { id: panelId }, select: { blendRule: true, blendPanelWeight: true } });
+  const panel = await db.panel.findUnique({ where: { id: panelId }, select: { blendRule: true, blendPanelWeight: true, panelLeg: true } });
   if (!panel) throw new NotFoundError("The panel");
   const own = await db.question.count({ where: { panelId, blendRule: { not: null } } });
-  return { rule: isRule(panel.blendRule) ? panel.blendRule : "equal", panelWeight: panel.blendPanelWeight, questionsWithOwnRule: own };
+  const calibrationQuestions = await db.question.count({ where: { panelId, calibration: true } });
+  return {
+    rule: isRule(panel.blendRule) ? panel.blendRule : "equal",
+    panelWeight: panel.blendPanelWeight,
+    questionsWithOwnRule: own,
+    panelLeg: panel.panelLeg === "performance" ? "performance" : "equal",
+    calibrationQuestions,
+  };
 }
 
 /**

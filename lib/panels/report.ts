@@ -35,6 +35,7 @@ import { fileSlug } from "@/lib/csv/file-name";
 import { roundAsShown } from "@/lib/ui/format";
 import { legWarnings } from "./warnings";
 import { reportSummary } from "./report-summary";
+import { loadCalibration, type CalibrationReport, type TargetPools } from "./calibration";
 
 type Intervals = readonly { readonly level: number; readonly lower: number | null; readonly upper: number | null }[];
 
@@ -56,6 +57,7 @@ export interface QuestionReport {
     readonly targetPeriod: string;
     readonly aggregation: "shared" | "sum-of-parts";
     readonly answerFormat: "single" | "three-point";
+    readonly calibration: boolean;
   };
   readonly viewer: { readonly role: PanelRole; readonly namesShown: boolean };
   /** The blended figure and range (null without a baseline or without a panel figure). */
@@ -136,6 +138,10 @@ export interface QuestionReport {
    * now, or with fewer than two closed rounds with answers.
    */
   readonly movement: { readonly fromRound: number; readonly toRound: number; readonly previousFigure: number; readonly change: number } | null;
+  /** Cooke's classical model on the panel's calibration questions (lib/panels/calibration.ts); null on a panel without them. */
+  readonly performanceWeights:
+    | (Omit<JsonSafe<CalibrationReport>, "targets"> & { readonly panelLeg: "equal" | "performance"; readonly thisQuestion: JsonSafe<TargetPools> | null })
+    | null;
   /** The distributions behind the ranges, for charts. */
   readonly distributions: { readonly panelRaw: Distribution | null; readonly panelCorrected: Distribution | null; readonly baseline: Distribution | null; readonly blend: Distribution | null };
   readonly methodNotes: readonly string[];
@@ -266,6 +272,13 @@ export async function getQuestionReportWithRule(
   if (t.panel && t.panel.n < 5) cautions.push(`Only ${t.panel.n} panelists answered: the panel's median and range rest on very few people.`);
   if (resolution) cautions.push("This question is resolved: the figures above are recomputed from the stored inputs; the scores use the figures as they stood at resolution.");
 
+  const c = await loadCalibration(panelId, reads);
+  let calibration: QuestionReport["performanceWeights"] = null;
+  if (c.report.calibrationQuestions > 0) {
+    const { targets, ...rest } = jsonSafe(c.report);
+    calibration = { ...rest, panelLeg: loaded.panelLeg, thisQuestion: targets.find((x) => x.questionId === questionId) ?? null };
+  }
+
   const w = t.weights;
   const report: Omit<QuestionReport, "summary"> = {
     generatedAt: new Date().toISOString(),
@@ -315,6 +328,7 @@ export async function getQuestionReportWithRule(
     biasCorrection: namesShown ? panelists.map(({ invitationId, pseudonym, ...rest }) => ({ pseudonym, name: nameOf(invitationId), ...jsonSafe(rest) })) : [],
     resolution: resolution ? resolutionView(resolution) : null,
     movement: blendMovement(loaded.input, t.blend?.figure ?? null),
+    performanceWeights: calibration,
     distributions: {
       panelRaw: t.panel?.raw.distribution ?? null,
       panelCorrected: t.panel?.corrected.distribution ?? null,
@@ -442,6 +456,22 @@ export function reportRows(r: QuestionReport): Cell[][] {
       add("outcome", s.label, "error", s.error, unit);
       add("outcome", s.label, "absolute percent error", s.absolutePercentError);
     }
+  }
+  const pw = r.performanceWeights;
+  if (pw) {
+    for (const p of pw.panelists) {
+      add("performance weights", p.pseudonym, "calibration questions answered", p.answered);
+      add("performance weights", p.pseudonym, "calibration score", p.calibration);
+      add("performance weights", p.pseudonym, "information score", p.information);
+      add("performance weights", p.pseudonym, "weight", p.weight);
+    }
+    for (const [label, pool] of [["equal-weight pool", pw.thisQuestion?.equal], ["performance-weighted pool", pw.thisQuestion?.performance]] as const) {
+      if (!pool) continue;
+      add("performance weights", label, "P5", pool.p5, unit);
+      add("performance weights", label, "P50", pool.p50, unit);
+      add("performance weights", label, "P95", pool.p95, unit);
+    }
+    add("performance weights", "out of sample", "verdict", pw.verdict);
   }
   r.methodNotes.forEach((n, i) => add("method notes", String(i + 1), "note", n));
   r.inputs.forEach((n, i) => add("inputs", String(i + 1), "input", n));

@@ -189,6 +189,7 @@ async function readyToResolve(actor: Actor, panelId: string, questionId: string,
   const access = await authorisePanel(actor, panelId, "manage");
   const question = await db.question.findFirst({ where: { id: questionId, panelId } });
   if (!question) throw new NotFoundError("The question");
+  if (question.calibration) throw new ConflictError("calibration-question", "A calibration question has a true value instead of an outcome: enter it on the panel page (or PUT …/true-value).");
   if (await db.resolution.findUnique({ where: { questionId } })) {
     throw new ConflictError("question-resolved", "The question is already resolved; correct the recorded value instead (PATCH, with a reason).");
   }

@@ -67,7 +67,7 @@ function figures(values: readonly number[]): SummaryFigures | null {
 
 /** Round statistics of one question from the round's final answers (one per panelist). */
 export function computeQuestionStatistics(
-  question: { readonly id: string; readonly answerFormat: string; readonly aggregation: string },
+  question: { readonly id: string; readonly answerFormat: string; readonly aggregation: string; readonly calibration?: boolean },
   roundNumber: number,
   answers: readonly FinalAnswer[],
 ): QuestionStatistics {
@@ -94,7 +94,8 @@ export function computeQuestionStatistics(
     values: figures(values),
     lows: threePoint ? figures(tp.map((a) => a.low as number)) : null,
     highs: threePoint ? figures(tp.map((a) => a.high as number)) : null,
-    pooled: threePoint && tp.length > 0 ? pooledFigures(tp) : null,
+    // A calibration question's answers are P5 / P50 / P95, not the P10 / P90 the pool reads.
+    pooled: threePoint && !question.calibration && tp.length > 0 ? pooledFigures(tp) : null,
     sumOfParts: parts,
   };
 }

@@ -67,11 +67,12 @@ import {
   type ResolvedPair,
   type WeightSpec,
 } from "@/lib/blend";
-import type { PanelWeightRule, PanelBlendRuleInput, QuestionBlendRuleInput } from "@/lib/validation/triangulation-inputs";
+import type { PanelLegChoice, PanelWeightRule, PanelBlendRuleInput, QuestionBlendRuleInput } from "@/lib/validation/triangulation-inputs";
 import { authorisePanel } from "./access";
 import { recordAudit } from "./audit";
 import { storedTarget, type BaselineTarget } from "./baselines";
 import { legWarnings } from "./warnings";
+import { loadCalibration, targetPoolMedian } from "./calibration";
 import { historyOf, type HistoryFilter } from "./track-records";
 import { panelReads, type PanelReads } from "./panel-reads";
 import { jsonSafe, type JsonSafe } from "./json";
@@ -114,6 +115,14 @@ export interface TriangulationInput {
   readonly weight: WeightSpec;
   /** Why a stored baseline cannot be used (e.g. an interval of zero width), when `baseline` is null. */
   readonly baselineUnusable?: string;
+  /**
+   * The panel's leg is Cooke's performance-weighted pool (lib/panels/calibration.ts): the weight
+   * per invitation id from the panel's calibration questions, or why it cannot be used (then the
+   * answers are taken with equal weights). Absent: the panel leg is the equal-weight one.
+   */
+  readonly performance?: { readonly weights: Readonly<Record<string, number>>; readonly calibrationQuestions: number } | { readonly unavailable: string };
+  /** A calibration question (answers P5 / P50 / P95): shown for completeness, not meant to be triangulated. */
+  readonly calibration?: boolean;
 }
 
 /** A panelist's answer with its correction. */
@@ -142,7 +151,7 @@ export interface PanelFigureWithRange {
   readonly distribution: Distribution;
 }
 
-export type PanelRule = "three-point pool" | "track record" | "sum of parts";
+export type PanelRule = "three-point pool" | "performance-weighted pool" | "track record" | "sum of parts";
 
 export interface PanelLeg {
   readonly round: number;
@@ -199,9 +208,13 @@ function panelDistribution(
   answers: readonly { value: number; low: number | null; high: number | null; rangeFactor: number }[],
   figure: number,
   errors: PanelErrorScale,
+  performanceWeights: readonly number[] | null = null,
 ): { distribution: Distribution; rule: PanelRule } {
   if (isThreePoint(input, answers)) {
     const points = answers.map((a) => widenThreePoint({ low: a.low!, mid: a.value, high: a.high! }, a.rangeFactor));
+    if (performanceWeights && input.aggregation === "shared") {
+      return { distribution: panelFromThreePoint(points, performanceWeights).distribution, rule: "performance-weighted pool" };
+    }
     return input.aggregation === "shared"
       ? { distribution: panelFromThreePoint(points).distribution, rule: "three-point pool" }
       : { distribution: panelFromParts(points).distribution, rule: "sum of parts" };
@@ -218,6 +231,9 @@ export function computeTriangulation(input: TriangulationInput): Triangulation {
   const cautions: string[] = [
     "Every figure here is uncertain: read the ranges, not only the points. The figures support a decision; they do not make it.",
   ];
+  if (input.calibration) {
+    cautions.push("This is a calibration question: its answers are the 5th, 50th and 95th percentiles and its true value scores the panelists (the report's performance weights). The panel range below reads them as P10 / P90; it takes no baseline or outcome.");
+  }
   const mode = input.aggregation === "shared" ? "shared-quantity" : "sum-of-parts";
   const final = input.rounds.at(-1);
   let panel: PanelLeg | null = null;
@@ -252,20 +268,40 @@ export function computeTriangulation(input: TriangulationInput): Triangulation {
         rangeFactor: intervalWidthFactor(h.hits, h.count).factor,
       };
     });
-    const fig = correctedPanelFigure(answers.map((a) => ({ answer: a.value, factor: a.factor })), mode);
+    // Cooke's performance-weighted pool as the panel leg (three-point shared questions only).
+    let perfWeights: number[] | null = null;
+    let perfUnavailable: string | null = null;
+    if (input.performance) {
+      if ("unavailable" in input.performance) perfUnavailable = input.performance.unavailable;
+      else if (!(input.aggregation === "shared" && isThreePoint(input, answers))) perfUnavailable = "only three-point questions with a shared quantity give percentiles to weigh.";
+      else {
+        const w = answers.map((a) => (input.performance as { weights: Readonly<Record<string, number>> }).weights[a.invitationId] ?? 0);
+        if (w.some((x) => x > 0)) perfWeights = w;
+        else perfUnavailable = "no panelist with a performance weight above 0 answered this question in the final round.";
+      }
+    }
+    const equalFig = correctedPanelFigure(answers.map((a) => ({ answer: a.value, factor: a.factor })), mode);
+    const fig = perfWeights
+      ? {
+          raw: targetPoolMedian(answers.map((a) => ({ low: a.low!, mid: a.value, high: a.high! })), perfWeights),
+          corrected: targetPoolMedian(answers.map((a) => ({ low: a.correctedLow!, mid: a.correctedValue, high: a.correctedHigh! })), perfWeights),
+        }
+      : equalFig;
     const errorScale = panelErrorScale(input.panelLogErrors ?? []);
-    const rawD = panelDistribution(input, answers, fig.raw, errorScale);
+    const rawD = panelDistribution(input, answers, fig.raw, errorScale, perfWeights);
     const corrD = panelDistribution(
       input,
       answers.map((a) => ({ value: a.correctedValue, low: a.correctedLow, high: a.correctedHigh, rangeFactor: a.rangeFactor })),
       fig.corrected,
       errorScale,
+      perfWeights,
     );
     const rescaled = answers.filter((a) => a.rangeFactor !== 1).length;
     const fromHits = `each answer's P10–P90 range rescaled by Φ⁻¹(0.9)/Φ⁻¹((1 + ĥ)/2), ĥ its panelist's interval hit rate shrunk toward 80% with weight 5 (${rescaled} of ${answers.length} panelists have one)`;
     const e = errorScale;
     const rangeHow = {
       "three-point pool": `Panel range: the equal-weight linear pool (Stone 1961) of the three-point answers, each read as P10/P50/P90 of a two-piece normal, ${fromHits}.`,
+      "performance-weighted pool": `Panel range: the linear pool of the three-point answers with Cooke's performance weights from ${input.performance && "calibrationQuestions" in input.performance ? input.performance.calibrationQuestions : 0} calibration questions (docs/methods.md §21), each answer read as P10/P50/P90 of a two-piece normal, ${fromHits}.`,
       "sum of parts": `Panel range: the total of the parts as a normal with the summed means and variances of the three-point parts (parts taken as independent), ${fromHits}.`,
       "track record": `Panel range: from the track record, not from the spread of the answers. Log errors ln(actual / corrected panel figure) of ${e.n} resolved question${e.n === 1 ? "" : "s"} pooled with a prior scale of ${e.priorScale} worth ${e.priorStrength} questions give a scale of ${e.scale.toPrecision(3)}; the range is figure × exp(±t·scale) with t the Student t quantile on ${e.df} degrees of freedom (Gelman et al. 2013, §2.6).`,
     }[rawD.rule];
@@ -280,10 +316,17 @@ export function computeTriangulation(input: TriangulationInput): Triangulation {
       answers,
     };
     notes.push(
-      input.aggregation === "shared"
-        ? `Panel figure: the median (Hyndman & Fan type 7) of the ${answers.length} final answers of round ${final.round}${input.answerFormat === "three-point" ? " (their middle values, read as P50)" : ""}.`
-        : `Panel figure: the sum of the ${answers.length} parts of the final answers (round ${final.round}).`,
+      perfWeights
+        ? `Panel figure: the median (P50) of Cooke's performance-weighted pool of the ${answers.length} final answers of round ${final.round}, each read as P10/P50/P90 with a distribution uniform between them on the answers' range widened by 10% (docs/methods.md §21); ${perfWeights.filter((w) => w > 0).length} of them carry weight. The equal-weight median would be ${equalFig.raw.toPrecision(6)}.`
+        : input.aggregation === "shared"
+          ? `Panel figure: the median (Hyndman & Fan type 7) of the ${answers.length} final answers of round ${final.round}${input.answerFormat === "three-point" ? " (their middle values, read as P50)" : ""}.`
+          : `Panel figure: the sum of the ${answers.length} parts of the final answers (round ${final.round}).`,
     );
+    if (perfUnavailable) {
+      const msg = `The panel leg is set to the performance-weighted pool, but it cannot be used here: ${perfUnavailable} The answers are taken with equal weights.`;
+      notes.push(msg);
+      cautions.push(msg);
+    }
     if (carried > 0) {
       const msg = `${carried} of the ${answers.length} parts come from an earlier round: those panelists did not answer in round ${final.round}, so their latest part was kept.`;
       notes.push(msg);
@@ -398,7 +441,19 @@ function weightSpec(rule: PanelWeightRule, panelWeight: number | null, history: 
 /** A question's stored inputs, loaded for {@link computeTriangulation}, with what else the report shows. */
 export interface LoadedTriangulation {
   readonly input: TriangulationInput;
-  readonly question: { id: string; text: string; unit: string; targetPeriod: string; lowerBound: number; upperBound: number; aggregation: "shared" | "sum-of-parts"; answerFormat: "single" | "three-point" };
+  readonly question: {
+    id: string;
+    text: string;
+    unit: string;
+    targetPeriod: string;
+    lowerBound: number;
+    upperBound: number;
+    aggregation: "shared" | "sum-of-parts";
+    answerFormat: "single" | "three-point";
+    calibration: boolean;
+  };
+  /** The panel's choice of panel leg (equal, or the performance-weighted pool). */
+  readonly panelLeg: "equal" | "performance";
   readonly ownerId: string;
   readonly rule: ReturnType<typeof effectiveRule>;
   readonly baselineTarget: BaselineTarget | null;
@@ -470,9 +525,31 @@ export async function loadTriangulation(panelId: string, questionId: string, rea
       : undefined;
   const aggregation = q.aggregation === "sum-of-parts" ? "sum-of-parts" : "shared";
   const answerFormat = q.answerFormat === "three-point" ? "three-point" : "single";
+  let performance: TriangulationInput["performance"];
+  if (q.panel.panelLeg === "performance" && !q.calibration) {
+    const c = await loadCalibration(panelId, reads);
+    if (c.report.calibrationQuestions === 0) performance = undefined;
+    else if (c.weights.size === 0) performance = { unavailable: c.report.waiting ?? "no panelist has been scored on the calibration questions yet." };
+    else performance = { weights: Object.fromEntries(c.weights), calibrationQuestions: c.report.counted };
+  }
   return {
-    input: { aggregation, answerFormat, rounds: roundInputs, factors, intervalHits, panelLogErrors, blendHistory: pairs, blendStandardisedErrors, baseline, weight: weightSpec(rule.rule, rule.panelWeight, history), ...(baselineUnusable ? { baselineUnusable } : {}) },
-    question: { id: q.id, text: q.text, unit: q.unit, targetPeriod: q.targetPeriod, lowerBound: q.lowerBound, upperBound: q.upperBound, aggregation, answerFormat },
+    input: {
+      aggregation,
+      answerFormat,
+      rounds: roundInputs,
+      factors,
+      intervalHits,
+      panelLogErrors,
+      blendHistory: pairs,
+      blendStandardisedErrors,
+      baseline,
+      weight: weightSpec(rule.rule, rule.panelWeight, history),
+      ...(baselineUnusable ? { baselineUnusable } : {}),
+      ...(performance ? { performance } : {}),
+      ...(q.calibration ? { calibration: true } : {}),
+    },
+    question: { id: q.id, text: q.text, unit: q.unit, targetPeriod: q.targetPeriod, lowerBound: q.lowerBound, upperBound: q.upperBound, aggregation, answerFormat, calibration: q.calibration },
+    panelLeg: q.panel.panelLeg === "performance" ? "performance" : "equal",
     ownerId: q.panel.ownerId,
     rule,
     baselineTarget: target,
@@ -521,14 +598,19 @@ export async function getTriangulation(actor: Actor, panelId: string, questionId
 }
 
 /** Sets the panel's blend weight rule (organisers; audited). */
-export async function setPanelBlendRule(actor: Actor, panelId: string, input: PanelBlendRuleInput): Promise<{ rule: PanelWeightRule; panelWeight: number | null }> {
+export async function setPanelBlendRule(
+  actor: Actor,
+  panelId: string,
+  input: PanelBlendRuleInput,
+): Promise<{ rule: PanelWeightRule; panelWeight: number | null; panelLeg: PanelLegChoice }> {
   const access = await authorisePanel(actor, panelId, "manage");
   const panelWeight = input.rule === "organiser" ? input.panelWeight! : null;
+  const panelLeg: PanelLegChoice = input.panelLeg ?? (access.panel.panelLeg === "performance" ? "performance" : "equal");
   await db.$transaction(async (tx) => {
-    await tx.panel.update({ where: { id: panelId }, data: { blendRule: input.rule, blendPanelWeight: panelWeight } });
-    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "panel.blend-rule", detail: { rule: input.rule, panelWeight } });
+    await tx.panel.update({ where: { id: panelId }, data: { blendRule: input.rule, blendPanelWeight: panelWeight, panelLeg } });
+    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "panel.blend-rule", detail: { rule: input.rule, panelWeight, panelLeg } });
   });
-  return { rule: input.rule, panelWeight };
+  return { rule: input.rule, panelWeight, panelLeg };
 }
 
 /** Sets one question's blend weight rule, or hands it back to the panel's (organisers; audited). */

@@ -2,10 +2,10 @@
  * The fields of a question (docs/methods.md §14.1), for adding and for editing. Errors
  * from the server appear beside each field (FieldError reads the enclosing ActionForm).
  */
-import type { QuestionView } from "@/lib/panels/panels";
+import type { OrganiserQuestionView } from "@/lib/panels/panels";
 import { FieldError } from "./action-form";
 
-export default function QuestionFields({ question }: { question?: QuestionView }) {
+export default function QuestionFields({ question }: { question?: OrganiserQuestionView }) {
   const q = question;
   return (
     <>
@@ -62,6 +62,20 @@ export default function QuestionFields({ question }: { question?: QuestionView }
           Sum of parts — each panelist estimates their own part; the panel figure is the total
         </label>
         <FieldError name="aggregation" />
+      </fieldset>
+      <fieldset>
+        <legend>Calibration question (optional)</legend>
+        <label className="inline">
+          <input type="checkbox" name="calibration" value="yes" defaultChecked={q?.calibration ?? false} />
+          A question whose true value I know: it scores each panelist&apos;s calibration and information (Cooke&apos;s classical
+          model, docs/methods.md §21). Asked as three-point with a shared quantity, read as the 5th / 50th / 95th percentiles.
+        </label>
+        <FieldError name="calibration" />
+        <label className="narrow">
+          True value <span className="hint">now or later, on the panel page; never shown to panelists</span>
+          <input name="trueValue" inputMode="decimal" defaultValue={q?.trueValue ?? ""} />
+          <FieldError name="trueValue" />
+        </label>
       </fieldset>
     </>
   );

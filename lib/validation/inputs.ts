@@ -33,12 +33,40 @@ const questionFields = {
   upperBound: finite.describe("Highest plausible answer; answers above it are refused."),
   answerFormat: z.enum(ANSWER_FORMATS).describe("single value, or low / median / high read as P10 / P50 / P90"),
   aggregation: z.enum(AGGREGATIONS).describe("shared quantity (panel figure: median) or sum of parts (panel figure: total)"),
+  calibration: z
+    .boolean()
+    .optional()
+    .describe("A calibration question (Cooke's classical model, docs/methods.md §21): its true value is known to the organiser; asked as three-point with a shared quantity, the low / median / high read as P5 / P50 / P95. Default false."),
+  trueValue: finite
+    .nullable()
+    .optional()
+    .describe("Calibration questions: the true value (may also be given later, PUT …/true-value); never shown to panelists."),
 };
 
-/** A new question. The lower plausible bound must be below the upper one. */
+/** What a calibration question must be (the question as it will be stored: new, or merged with its update). */
+export function calibrationProblems(q: {
+  readonly answerFormat: string;
+  readonly aggregation: string;
+  readonly calibration?: boolean;
+  readonly trueValue?: number | null;
+}): { field: string; message: string }[] {
+  const out: { field: string; message: string }[] = [];
+  if (q.calibration && (q.answerFormat !== "three-point" || q.aggregation !== "shared")) {
+    out.push({ field: "calibration", message: "a calibration question is asked as three-point (5th, 50th and 95th percentiles) with a shared quantity" });
+  }
+  if (!q.calibration && q.trueValue !== undefined && q.trueValue !== null) {
+    out.push({ field: "trueValue", message: "only a calibration question has a true value" });
+  }
+  return out;
+}
+
+/** A new question. The lower plausible bound must be below the upper one; a calibration question is three-point and shared. */
 export const questionInput = z
   .object(questionFields)
-  .refine((q) => q.lowerBound < q.upperBound, { path: ["lowerBound"], message: "lower bound must be below the upper bound" });
+  .refine((q) => q.lowerBound < q.upperBound, { path: ["lowerBound"], message: "lower bound must be below the upper bound" })
+  .superRefine((q, ctx) => {
+    for (const p of calibrationProblems(q)) ctx.addIssue({ code: "custom", path: [p.field], message: p.message });
+  });
 export type QuestionInput = z.infer<typeof questionInput>;
 
 /** Changes to a question (the bound order is checked against the merged question). */
@@ -116,12 +144,18 @@ export type RoundOpen = z.infer<typeof roundOpen>;
 export const nextRoundInput = z.object({ deadline: deadline.optional(), open: z.boolean().default(false) });
 export type NextRoundInput = z.infer<typeof nextRoundInput>;
 
+/** The true value of a calibration question (null clears it); organisers may give it before, during or after the rounds. */
+export const trueValueInput = z.object({
+  trueValue: finite.nullable().describe("The true value, in the question's unit; null clears it. Never shown to panelists."),
+});
+export type TrueValueInput = z.infer<typeof trueValueInput>;
+
 /** A panelist's answer to one question in the open round. */
 export const answerInput = z.object({
   questionId: id,
   value: finite.describe("The single value, or the median estimate (P50) of a three-point answer."),
-  low: finite.optional().describe("Three-point answers: the low value (P10)."),
-  high: finite.optional().describe("Three-point answers: the high value (P90)."),
+  low: finite.optional().describe("Three-point answers: the low value (P10; P5 on a calibration question)."),
+  high: finite.optional().describe("Three-point answers: the high value (P90; P95 on a calibration question)."),
   rationale: z.string().trim().max(2000, "at most 2000 characters").default(""),
 });
 export type AnswerInput = z.infer<typeof answerInput>;

@@ -47,7 +47,14 @@ export const question = z.object({
   upperBound: num,
   answerFormat: z.enum(ANSWER_FORMATS),
   aggregation: z.enum(AGGREGATIONS),
+  calibration: z.boolean().describe("A calibration question: three-point read as P5 / P50 / P95 (docs/methods.md §21)."),
 });
+
+/** A question as organisers and reviewers see it: with a calibration question's true value. */
+export const organiserQuestion = question.extend({
+  trueValue: numOrNull.describe("Calibration questions: the true value given by the organiser (null: not yet, or not a calibration question)."),
+});
+export const trueValue = z.object({ questionId: z.string(), trueValue: numOrNull });
 
 export const round = z.object({
   number: z.number().int(),
@@ -83,7 +90,7 @@ export const panel = z.object({
   status: panelStatus,
   role: panelRole,
   ...rules,
-  questions: z.array(question),
+  questions: z.array(organiserQuestion),
   rounds: z.array(round),
   createdAt: dateTime,
   updatedAt: dateTime,

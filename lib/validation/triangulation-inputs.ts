@@ -125,11 +125,21 @@ export const baselineInput = z
   });
 export type BaselineInput = z.infer<typeof baselineInput>;
 
+/** What the panel leg of the blend is on a panel with calibration questions (lib/panels/calibration.ts). */
+export const PANEL_LEGS = ["equal", "performance"] as const;
+export type PanelLegChoice = (typeof PANEL_LEGS)[number];
+
 /** The blend weight rule of a panel. `panelWeight` (0–1) is required for the organiser rule. */
 export const panelBlendRuleInput = z
   .object({
     rule: z.enum(WEIGHT_RULES).describe("equal (50/50), inverse-mse (Bates & Granger, from resolved history) or organiser"),
     panelWeight: z.number().min(0, "at least 0").max(1, "at most 1").optional().describe("The panel's weight (organiser rule)"),
+    panelLeg: z
+      .enum(PANEL_LEGS, { error: 'must be "equal" or "performance"' })
+      .optional()
+      .describe(
+        "The panel leg of three-point shared questions: equal (the answers as they are, the default) or performance (Cooke's performance-weighted pool from the panel's calibration questions, docs/methods.md §21). Omitted: unchanged.",
+      ),
   })
   .superRefine((b, ctx) => {
     if (b.rule === "organiser" && b.panelWeight === undefined) ctx.addIssue({ code: "custom", path: ["panelWeight"], message: "the organiser rule needs a panel weight between 0 and 1" });

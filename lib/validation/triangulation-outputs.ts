@@ -7,6 +7,7 @@
 import { z } from "zod";
 import { AGGREGATIONS, ANSWER_FORMATS } from "./inputs";
 import { convergence } from "./outputs";
+import { PANEL_LEGS } from "./triangulation-inputs";
 
 const num = z.number();
 const n0 = z.number().nullable();
@@ -99,6 +100,9 @@ export const baseline = z.object({
 
 export const blendRule = z.object({ rule: weightRule, panelWeight: n0 });
 export const questionBlendRule = blendRule.extend({ from: z.enum(["question", "panel"]) });
+export const panelBlendRule = blendRule.extend({
+  panelLeg: z.enum(PANEL_LEGS).describe("The panel leg of three-point shared questions: equal, or performance (Cooke's performance-weighted pool; used only when the panel has scored calibration questions)"),
+});
 
 const departureFields = {
   value: num,
@@ -287,11 +291,66 @@ const blendMovement = z
 
 const panelist = { pseudonym: z.string(), name: z.string().nullable().describe("only for an organiser who revealed identities") };
 
+const poolScore = z.object({
+  binCounts: z.array(z.number().int()).describe("true values at or below P5, P5–P50, P50–P95, above P95"),
+  calibration: num,
+  information: num,
+  combined: num.describe("calibration × information"),
+});
+const pooledPercentiles = z.object({ p5: num, p10: num, p50: num, p90: num, p95: num });
+export const targetPools = z.object({
+  questionId: z.string(),
+  text: z.string(),
+  unit: z.string(),
+  answers: z.number().int().describe("panelists whose answers are pooled with equal weights"),
+  equal: pooledPercentiles.nullable(),
+  performance: pooledPercentiles.nullable(),
+  note: z.string().nullable().describe("why a pool is missing"),
+});
+const calibrationFields = {
+  calibrationQuestions: z.number().int(),
+  counted: z.number().int().describe("calibration questions with a true value and answers"),
+  waiting: z.string().nullable().describe("why nothing is scored yet"),
+  panelists: z
+    .array(
+      z.object({
+        pseudonym: z.string(),
+        answered: z.number().int(),
+        scored: z.boolean(),
+        binCounts: z.array(z.number().int()).nullable(),
+        calibration: n0,
+        information: n0,
+        combined: n0,
+        weight: n0.describe("weight in the performance-weighted pool"),
+      }),
+    )
+    .describe("under pseudonyms only; every figure from this panel's calibration questions"),
+  pools: z.object({ equal: poolScore, performance: poolScore.extend({ cutoff: n0 }) }).nullable().describe("each pool scored on the calibration questions (in sample)"),
+  outOfSample: z
+    .object({ questions: z.number().int(), equal: poolScore, performance: poolScore, weightingHelped: z.boolean() })
+    .nullable()
+    .describe("each calibration question left out in turn"),
+  verdict: z.string().describe("the out-of-sample comparison in one plain sentence"),
+  method: z.array(z.string()),
+};
+/** The panel's performance weights (Cooke's classical model, docs/methods.md §21). */
+export const calibrationReport = z.object({ ...calibrationFields, targets: z.array(targetPools) });
+
 export const questionReport = z.object({
   generatedAt: dateTime,
   summary: z.string().describe("the sentence the report leads with: the figure, its 80% range, the outcome if recorded, and the main disagreement"),
   panel: z.object({ id: z.string(), title: z.string(), status: z.string() }),
-  question: z.object({ id: z.string(), text: z.string(), unit: z.string(), targetPeriod: z.string(), lowerBound: num, upperBound: num, aggregation: z.enum(AGGREGATIONS), answerFormat: z.enum(ANSWER_FORMATS) }),
+  question: z.object({
+    id: z.string(),
+    text: z.string(),
+    unit: z.string(),
+    targetPeriod: z.string(),
+    lowerBound: num,
+    upperBound: num,
+    aggregation: z.enum(AGGREGATIONS),
+    answerFormat: z.enum(ANSWER_FORMATS),
+    calibration: z.boolean().describe("a calibration question (answers read as P5 / P50 / P95)"),
+  }),
   viewer: z.object({ role: z.enum(["owner", "organiser", "reviewer"]), namesShown: z.boolean() }),
   blend: z
     .object({
@@ -369,6 +428,14 @@ export const questionReport = z.object({
   resolution: resolution.nullable(),
   movement: blendMovement.nullable(),
   distributions: z.object({ panelRaw: loose.nullable(), panelCorrected: loose.nullable(), baseline: loose.nullable(), blend: loose.nullable() }).describe("lib/blend distributions behind the ranges, for charts"),
+  performanceWeights: z
+    .object({
+      ...calibrationFields,
+      panelLeg: z.enum(PANEL_LEGS).describe("the panel leg of the blend chosen for the panel"),
+      thisQuestion: targetPools.nullable().describe("this question's two pools (null for a calibration question)"),
+    })
+    .nullable()
+    .describe("Cooke's classical model on the panel's calibration questions; null on a panel without calibration questions"),
   methodNotes: z.array(z.string()),
   inputs: z.array(z.string()),
   warnings: z.array(z.string()).describe("plain messages, also at the head of cautions: a leg outside the question's plausible range, or the legs an order of magnitude apart"),

@@ -132,6 +132,20 @@ describe("pools", () => {
     ours.forEach((v, i) => expect(v).toBeCloseTo(r.q[i], 8));
   });
 
+  it("an assessment at P10/P50/P90 (a target question) pools through those levels, as R's inversion does", () => {
+    const a: Assessment[] = [[900, 1200, 1500], [1000, 1100, 1800], [700, 1300, 1400]];
+    const range = intrinsicRange(a, null);
+    const w = [0.6, 0.1, 0.3];
+    const ours = pooledQuantiles(a, w, range, [0.05, 0.5, 0.95], "uniform", [0.1, 0.5, 0.9]);
+    const r = rEval(`L <- ${range[0]}; U <- ${range[1]}; w <- ${rVector(w)}
+      A <- list(${a.map((x) => rVector(x)).join(", ")})
+      Fs <- lapply(A, function(a) approxfun(c(L, a, U), c(0, 0.1, 0.5, 0.9, 1), rule = 2, ties = "ordered"))
+      F <- function(x) sum(sapply(seq_along(Fs), function(e) w[e] * Fs[[e]](x)))
+      out("q", sapply(c(0.05, 0.5, 0.95), function(p) uniroot(function(x) F(x) - p, c(L, U), tol = 1e-13)$root))`, { withForecast: false });
+    ours.forEach((v, i) => expect(v).toBeCloseTo(r.q[i], 8));
+    expect(() => pooledQuantiles(a, w, range, [0.5], "uniform", [0.5, 0.1, 0.9])).toThrow(/increase inside/);
+  });
+
   it("performance weights are calibration × information over those kept, and both pools are scored", () => {
     const scores = panelistScores(questions);
     const pw = performanceWeightedPool(questions);

@@ -9,7 +9,7 @@ import { reportSummary } from "../../lib/panels/report-summary";
 
 type Input = Parameters<typeof reportSummary>[0];
 
-const question = { id: "q", text: "Wren-2 units sold in year one?", unit: "units", targetPeriod: "year one", aggregation: "shared" as const, answerFormat: "single" as const };
+const question = { id: "q", text: "Wren-2 units sold in year one?", unit: "units", targetPeriod: "year one", aggregation: "shared" as const, answerFormat: "single" as const, calibration: false };
 const iv = (lower: number, upper: number) => [
   { level: 80, lower, upper },
   { level: 95, lower: lower - 5, upper: upper + 5 },

@@ -186,7 +186,15 @@ function AnswerFields({ q, prefix }: { q: PanelistQuestionView; prefix: string }
       {three ? (
         <div className="row">
           <label>
-            Low (10th percentile) <span className="hint">Only a 1-in-10 chance it is lower.</span>
+            {q.calibration ? (
+              <>
+                Low (5th percentile) <span className="hint">Only a 1-in-20 chance it is lower.</span>
+              </>
+            ) : (
+              <>
+                Low (10th percentile) <span className="hint">Only a 1-in-10 chance it is lower.</span>
+              </>
+            )}
             <NumberInput name={`${prefix}low`} defaultValue={shown?.low} />
             <FieldError name={`${prefix}low`} />
           </label>
@@ -196,7 +204,15 @@ function AnswerFields({ q, prefix }: { q: PanelistQuestionView; prefix: string }
             <FieldError name={`${prefix}value`} />
           </label>
           <label>
-            High (90th percentile) <span className="hint">Only a 1-in-10 chance it is higher.</span>
+            {q.calibration ? (
+              <>
+                High (95th percentile) <span className="hint">Only a 1-in-20 chance it is higher.</span>
+              </>
+            ) : (
+              <>
+                High (90th percentile) <span className="hint">Only a 1-in-10 chance it is higher.</span>
+              </>
+            )}
             <NumberInput name={`${prefix}high`} defaultValue={shown?.high} />
             <FieldError name={`${prefix}high`} />
           </label>

@@ -8,7 +8,7 @@ import { headers } from "next/headers";
 import { createInvitations, reissueInvitation, revokeInvitation, type IssuedInvitation } from "@/lib/panels/invitations";
 import { deleteOutboxMessage, sendNotices } from "@/lib/panels/messages";
 import { siteOrigin } from "@/lib/http/site";
-import { addQuestion, deleteQuestion, sharePanel, unsharePanel, updatePanel, updateQuestion } from "@/lib/panels/panels";
+import { addQuestion, deleteQuestion, setTrueValue, sharePanel, unsharePanel, updatePanel, updateQuestion } from "@/lib/panels/panels";
 import { closeRound, finishPanel, openRound, revealIdentities, startNextRound } from "@/lib/panels/rounds";
 import { getCurrentUser } from "@/lib/session";
 import { setPanelBlendRule } from "@/lib/panels/triangulation";
@@ -25,6 +25,7 @@ import {
   revealInput,
   roundOpen,
   shareInput,
+  trueValueInput,
 } from "@/lib/validation/inputs";
 import type { FormState } from "@/lib/ui/form-state";
 import { formList, formObject, fromThrown, withNumbers } from "@/lib/ui/form-result";
@@ -32,7 +33,12 @@ import { NOT_SIGNED_IN, signedInAction } from "@/lib/ui/signed-in-action";
 import { textProblems } from "@/lib/ui/action-guard";
 import { limits } from "@/lib/http/rate-limit";
 
-const QUESTION_NUMBERS = ["lowerBound", "upperBound"] as const;
+const QUESTION_NUMBERS = ["lowerBound", "upperBound", "trueValue"] as const;
+
+/** The question form's input: the calibration checkbox as a boolean, the numbers read as typed. */
+function questionBody(values: Record<string, string>): Record<string, unknown> {
+  return withNumbers({ ...values, calibration: values.calibration === "yes" }, QUESTION_NUMBERS);
+}
 
 /** The site's own address, for the full private links shown once and e-mailed (lib/http/site.ts). */
 async function origin(): Promise<string> {
@@ -65,7 +71,7 @@ export async function addQuestionAction(_p: FormState, formData: FormData): Prom
   return signedInAction(values, params.panelId, async (user, id, question) => {
     await addQuestion(user, id.panelId, question);
     return done(id.panelId, "Question added.");
-  }, [questionInput, withNumbers(values, QUESTION_NUMBERS)]);
+  }, [questionInput, questionBody(values)]);
 }
 
 export async function updateQuestionAction(_p: FormState, formData: FormData): Promise<FormState> {
@@ -73,7 +79,19 @@ export async function updateQuestionAction(_p: FormState, formData: FormData): P
   return signedInAction(values, params.question, async (user, id, question) => {
     await updateQuestion(user, id.panelId, id.questionId, question);
     return done(id.panelId, "Question saved.");
-  }, [questionUpdate, withNumbers(values, QUESTION_NUMBERS)]);
+  }, [questionUpdate, questionBody(values)]);
+}
+
+export async function trueValueAction(_p: FormState, formData: FormData): Promise<FormState> {
+  const { panelId, questionId, trueValue } = formObject(formData);
+  const read = withNumbers({ trueValue }, ["trueValue"]);
+  // An empty field clears the true value.
+  if ((trueValue ?? "").trim() === "") read.trueValue = null;
+  return signedInAction({ panelId, questionId }, params.question, async (user, id, input) => {
+    const r = await setTrueValue(user, id.panelId, id.questionId, input);
+    revalidatePath(`/reports/${id.panelId}`);
+    return done(id.panelId, r.trueValue === null ? "True value cleared." : `True value saved: ${r.trueValue}.`);
+  }, [trueValueInput, read]);
 }
 
 export async function deleteQuestionAction(_p: FormState, formData: FormData): Promise<FormState> {
@@ -221,6 +239,6 @@ export async function panelBlendRuleAction(_p: FormState, formData: FormData): P
   return signedInAction({ panelId }, params.panelId, async (user, id, rule) => {
     const r = await setPanelBlendRule(user, id.panelId, rule);
     revalidatePath(`/reports/${id.panelId}`);
-    return done(id.panelId, `Blend weight rule: ${r.rule}${r.rule === "organiser" ? ` (w = ${r.panelWeight})` : ""}.`);
+    return done(id.panelId, `Blend weight rule: ${r.rule}${r.rule === "organiser" ? ` (w = ${r.panelWeight})` : ""}; panel leg: ${r.panelLeg === "performance" ? "performance-weighted pool" : "equal weights"}.`);
   }, [panelBlendRuleInput, input]);
 }

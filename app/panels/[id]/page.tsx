@@ -36,6 +36,7 @@ import {
   revokeInvitationAction,
   sendNoticesAction,
   shareAction,
+  trueValueAction,
   unshareAction,
   updateQuestionAction,
   updateRulesAction,
@@ -82,7 +83,9 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
   const limitReached = lastRound !== null && lastRound.number >= panel.roundLimit;
   // After a closed round: the stopping rules (or the round limit) say whether to stop.
   const rulesSayStop = canStartNext && (limitReached || convergence.evaluation?.recommendation === "stop");
-  const steps = panelSteps({ questions: panel.questions.length, invitations: invitations.length, finished, ...milestones });
+  // Calibration questions need no baseline or outcome; a panel of only calibration questions counts them all.
+  const targetQuestions = panel.questions.filter((q) => !q.calibration).length || panel.questions.length;
+  const steps = panelSteps({ questions: targetQuestions, invitations: invitations.length, finished, ...milestones });
   const next = steps.find((s) => s.state === "next")!.id;
   const questionPage = (qid: string | null) => (qid ? `/panels/${id}/questions/${qid}` : `/panels/${id}`);
   const stepHref: Record<StepId, string> = {
@@ -202,16 +205,41 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
                 {formatNumber(q.lowerBound, 8)} to {formatNumber(q.upperBound, 8)} {q.unit}
               </dd>
               <dt>Answer format</dt>
-              <dd>{q.answerFormat === "single" ? "single value" : "low / median / high (P10 / P50 / P90)"}</dd>
+              <dd>
+                {q.answerFormat === "single" ? "single value" : q.calibration ? "low / median / high (P5 / P50 / P95)" : "low / median / high (P10 / P50 / P90)"}
+              </dd>
               <dt>Aggregation</dt>
               <dd>{q.aggregation === "shared" ? "shared quantity (median)" : "sum of parts (total)"}</dd>
+              {q.calibration ? (
+                <>
+                  <dt>Calibration question</dt>
+                  <dd data-true-value={q.trueValue ?? ""}>
+                    true value {q.trueValue === null ? "not given yet" : `${formatNumber(q.trueValue, 8)} ${q.unit}`} (never shown to panelists)
+                  </dd>
+                </>
+              ) : null}
             </dl>
-            <p>
-              <a href={`/panels/${id}/questions/${q.id}`} data-question-link={q.id}>
-                Baseline, blend and resolution of this question
-              </a>{" "}
-              · <a href={`/reports/${id}/questions/${q.id}`}>Reviewer report</a>
-            </p>
+            {q.calibration ? (
+              <details>
+                <summary>{q.trueValue === null ? "Enter the true value" : "Change the true value"}</summary>
+                <ActionForm action={trueValueAction} submitLabel="Save true value" ariaLabel={`True value of question ${q.position}`}>
+                  <input type="hidden" name="panelId" value={id} />
+                  <input type="hidden" name="questionId" value={q.id} />
+                  <label className="narrow">
+                    True value ({q.unit}; empty clears it)
+                    <input name="trueValue" inputMode="decimal" defaultValue={q.trueValue ?? ""} />
+                    <FieldError name="trueValue" />
+                  </label>
+                </ActionForm>
+              </details>
+            ) : (
+              <p>
+                <a href={`/panels/${id}/questions/${q.id}`} data-question-link={q.id}>
+                  Baseline, blend and resolution of this question
+                </a>{" "}
+                · <a href={`/reports/${id}/questions/${q.id}`}>Reviewer report</a>
+              </p>
+            )}
             {draft ? (
               <details>
                 <summary>Edit or remove this question</summary>
@@ -529,6 +557,12 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
                 ? "inverse-MSE weights from your resolved questions"
                 : `set by the organiser, w = ${blendRule.panelWeight}`}
           </strong>
+          {blendRule.calibrationQuestions > 0 ? (
+            <>
+              ; panel leg:{" "}
+              <strong data-panel-leg={blendRule.panelLeg}>{blendRule.panelLeg === "performance" ? "performance-weighted pool" : "every answer alike"}</strong>
+            </>
+          ) : null}
           .
         </p>
         <details>
@@ -551,6 +585,20 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
               <input name="panelWeight" inputMode="decimal" defaultValue={blendRule.panelWeight ?? ""} />
               <FieldError name="panelWeight" />
             </label>
+            {blendRule.calibrationQuestions > 0 ? (
+              <fieldset>
+                <legend>Panel leg of three-point questions</legend>
+                <label className="inline">
+                  <input type="radio" name="panelLeg" value="equal" defaultChecked={blendRule.panelLeg === "equal"} /> Every panelist&apos;s answer alike
+                </label>
+                <label className="inline">
+                  <input type="radio" name="panelLeg" value="performance" defaultChecked={blendRule.panelLeg === "performance"} /> Performance-weighted pool from
+                  the {blendRule.calibrationQuestions} calibration question{blendRule.calibrationQuestions === 1 ? "" : "s"} (Cooke&apos;s classical model; see the
+                  report for whether weighting helped on this panel)
+                </label>
+                <FieldError name="panelLeg" />
+              </fieldset>
+            ) : null}
           </ActionForm>
         </details>
       </section>

@@ -4,6 +4,8 @@ import { NotFoundError } from "@/lib/errors";
 import { getPanel } from "@/lib/panels/panels";
 import { getConvergencePage } from "@/lib/panels/views";
 import { getPanelReports } from "@/lib/panels/panel-reports";
+import { getCalibration } from "@/lib/panels/calibration";
+import PerformanceWeights from "@/lib/ui/performance-weights";
 import ConvergenceView from "@/lib/ui/convergence-view";
 import Figure from "@/lib/ui/figure";
 import { formatDateTime } from "@/lib/ui/format";
@@ -23,6 +25,7 @@ export default async function ReportPage({ params }: { params: Promise<{ id: str
   }
   const convergence = await getConvergencePage(user, id);
   const reports = await getPanelReports(user, id, panel.questions.map((q) => q.id));
+  const calibration = panel.questions.some((q) => q.calibration) ? await getCalibration(user, id) : null;
   return (
     <article>
       <p className="muted small">
@@ -86,7 +89,9 @@ export default async function ReportPage({ params }: { params: Promise<{ id: str
                     )}
                   </td>
                   <td>
-                    {r.resolution ? (
+                    {q.calibration ? (
+                      "calibration question"
+                    ) : r.resolution ? (
                       <>
                         outcome: <Figure value={r.resolution.actual} name="outcome" />
                       </>
@@ -102,6 +107,7 @@ export default async function ReportPage({ params }: { params: Promise<{ id: str
           </tbody>
         </table>
       </div>
+      {calibration ? <PerformanceWeights report={calibration} /> : null}
       <h2>Convergence across rounds</h2>
       <ConvergenceView view={convergence} reader="reviewer" />
     </article>
