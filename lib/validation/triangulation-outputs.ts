@@ -17,10 +17,11 @@ const weightRule = z.enum(["equal", "inverse-mse", "organiser"]);
 
 export const baselineTarget = z
   .object({
-    step: z.number().int().describe("value: steps to the target period; total, average: the number of periods"),
+    step: z.number().int().describe("value: steps to the target period; total, average: the last period b of periods firstPeriod..b"),
+    firstPeriod: z.number().int().describe("total, average: the first period a of periods a..step (1: the next period); value: equal to step"),
     quantity: z.enum(["value", "total", "average"]),
     period: z.enum(["month", "quarter", "year", "week", "day", "other"]).describe("what one history row is"),
-    label: z.string().describe("plain words, e.g. total of the next 12 months"),
+    label: z.string().describe("plain words, e.g. total of the next 12 months, total of months 4 to 15 after the history"),
     how: z.string().nullable().describe("how the total's distribution was made"),
     mean: n0,
     lower80: n0,
