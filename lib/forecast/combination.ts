@@ -16,6 +16,7 @@
 import { normalQuantile } from "../stats/normal";
 import { studentTQuantile } from "../stats/student-t";
 import type { Forecast } from "./types";
+import { innovationWeights, weightsFromStepVariances } from "./total";
 
 /** Fewest history errors at a horizon for its empirical spread to be used. */
 export const MIN_HISTORY_ERRORS = 3;
@@ -145,22 +146,26 @@ export function combineForecasts(members: readonly CombinationMember[], y: reado
 }
 
 /**
- * Effective degrees of freedom of a mean square of overlapping window sums (Satterthwaite 1946,
- * "An approximate distribution of estimates of variance components", Biometrics Bulletin 2(6),
- * 110–114: ν = 2·E[s²]²/Var[s²]). The sums at origins t_1..t_N each add w consecutive period
- * errors; read as independent with equal variance, the sums at origins k apart share w − k of
- * them, so their correlation is ρ_k = max(0, (w − k)/w), and for normal errors
+ * Effective degrees of freedom of a mean square of window sums from overlapping origins
+ * (Satterthwaite 1946, "An approximate distribution of estimates of variance components",
+ * Biometrics Bulletin 2(6), 110–114: ν = 2·E[s²]²/Var[s²]). The sum's error from origin t is
+ * Σ_i w_i ε_{t+i} (`weights` w_1..w_b: {@link innovationWeights} of lib/forecast/total.ts), so the
+ * sums from origins k apart share innovations and have correlation
+ * ρ_k = Σ_i w_i w_{i+k} / Σ_i w_i² (0 from k ≥ b), and for normal errors
  * Var[Σ e²] = 2σ⁴ Σ_{r,s} ρ²_{|t_r − t_s|} (the variance of a normal quadratic form), giving
- * ν = N² / Σ_{r,s} ρ²_{|t_r − t_s|}. Non-overlapping sums (w = 1 or origins ≥ w apart) give
- * ν = N; each overlap lowers it (N sums from consecutive origins: about N/(1 + (w − 1)(2w − 1)/(3w))).
- * Input: ascending origins (empty gives 0), w ≥ 1.
+ * ν = N² / Σ_{r,s} ρ²_{|t_r − t_s|}. With independent period errors (w = 1 on the window a..b,
+ * 0 before it) ρ_k = (b − a + 1 − k)/(b − a + 1): N sums from consecutive origins then give about
+ * N/(1 + (w − 1)(2w − 1)/(3w)), w = b − a + 1; errors that carry over between periods lower ν further.
+ * Non-overlapping origins give ν = N. Input: ascending origins (empty gives 0), weights ≥ 0, not all 0.
  */
-export function overlapDegreesOfFreedom(origins: readonly number[], w: number): number {
+export function overlapDegreesOfFreedom(origins: readonly number[], weights: readonly number[]): number {
   const n = origins.length;
   if (n === 0) return 0;
+  const b = weights.length;
+  const g = weights.map((_, k) => weights.reduce((a, w, i) => a + (i + k < b ? w * weights[i + k] : 0), 0));
   let sum = n;
   for (let r = 0; r < n; r++) {
-    for (let s = r + 1; s < n && origins[s] - origins[r] < w; s++) sum += 2 * ((w - (origins[s] - origins[r])) / w) ** 2;
+    for (let s = r + 1; s < n && origins[s] - origins[r] < b; s++) sum += 2 * (g[origins[s] - origins[r]] / g[0]) ** 2;
   }
   return (n * n) / sum;
 }
@@ -171,8 +176,11 @@ export function overlapDegreesOfFreedom(origins: readonly number[], w: number): 
  * empirical spread of the combination's sums over the same window on the history: from every
  * origin t ≥ {@link firstOrigin} with y_{t+a}..y_{t+b} observed, e_t = Σ_{j=a}^{b} (y_{t+j} − f_{t,j}),
  * relative to the forecast sum when every observation is above zero. Neighbouring origins'
- * window sums share most of their periods, so the t quantile has the effective degrees of freedom
- * of {@link overlapDegreesOfFreedom}, not the number of sums. Fewer than
+ * window sums share most of their innovations, so the t quantile has the effective degrees of
+ * freedom of {@link overlapDegreesOfFreedom}, not the number of sums, with the innovations'
+ * weights of the members' error model: their average step variances read as a linear
+ * innovations model (c_k of lib/forecast/total.ts; c = 0, independent period errors, when a
+ * member gives no finite step sd). Fewer than
  * {@link MIN_HISTORY_ERRORS} sums: the quantile average alone.
  */
 export function combineTotals(
@@ -205,7 +213,10 @@ export function combineTotals(
   }
   const count = used.length;
   const spread = count >= MIN_HISTORY_ERRORS ? Math.sqrt(sum / count) : NaN;
-  const df = overlapDegreesOfFreedom(used, h - from + 1);
+  // The members' error model: their average step variances read as a linear innovations model.
+  const sd = meanOf(members.map((m) => m.forecast.sd));
+  const c = sd.length === h && sd.every((x) => Number.isFinite(x) && x > 0) ? weightsFromStepVariances(sd.map((x) => x * x)) : new Array<number>(Math.max(h - 1, 0)).fill(0);
+  const df = overlapDegreesOfFreedom(used, innovationWeights(c, h, from));
   const lower: Record<string, number> = {};
   const upper: Record<string, number> = {};
   for (const level of levels) {

@@ -49,20 +49,33 @@ const NAMED_ETS: Partial<Record<string, EtsModel>> = {
 };
 
 /**
- * σ² Σ_{i=1}^{b} (Σ_{j=max(i,a)}^{b} ψ_{j−i})², ψ_0 = 1, ψ_k = c_k (c = c_1..c_{b−1}): the variance
- * of the total over steps a..b of a linear innovations model (see the file comment).
- * Input: 1 ≤ a ≤ b, c with at least b − 1 finite weights.
+ * The weight of each innovation ε_{n+i}, i = 1..b, in the error of the total over steps a..b of a
+ * linear innovations model: w_i = Σ_{j=max(i,a)}^{b} ψ_{j−i}, ψ_0 = 1, ψ_k = c_k (c = c_1..c_{b−1};
+ * see the file comment). Input: 1 ≤ a ≤ b, c with at least b − 1 finite weights.
  */
-export function linearTotalVariance(sigma2: number, c: readonly number[], b: number, a = 1): number {
+export function innovationWeights(c: readonly number[], b: number, a = 1): number[] {
   // cum[m] = Σ_{k=0}^{m} ψ_k, so Σ_{j=lo}^{b} ψ_{j−i} = cum[b − i] − cum[lo − i − 1].
   const cum: number[] = [];
   for (let k = 0; k < b; k++) cum.push((k === 0 ? 0 : cum[k - 1]) + (k === 0 ? 1 : c[k - 1]));
-  let v = 0;
+  const w: number[] = [];
   for (let i = 1; i <= b; i++) {
     const skip = Math.max(i, a) - i; // steps i..a−1 lie before the window
-    v += (cum[b - i] - (skip > 0 ? cum[skip - 1] : 0)) ** 2;
+    w.push(cum[b - i] - (skip > 0 ? cum[skip - 1] : 0));
   }
-  return sigma2 * v;
+  return w;
+}
+
+/**
+ * σ² Σ_{i=1}^{b} (Σ_{j=max(i,a)}^{b} ψ_{j−i})²: the variance of the total over steps a..b of a
+ * linear innovations model ({@link innovationWeights}; see the file comment).
+ */
+export function linearTotalVariance(sigma2: number, c: readonly number[], b: number, a = 1): number {
+  return sigma2 * innovationWeights(c, b, a).reduce((v, w) => v + w * w, 0);
+}
+
+/** c_k = √((v_{k+1} − v_k)/v_1), k = 1..h−1: step variances read as a linear innovations model (file comment). */
+export function weightsFromStepVariances(v: readonly number[]): number[] {
+  return v.slice(1).map((x, k) => Math.sqrt(Math.max(x - v[k], 0) / v[0]));
 }
 
 function fromNormal(mean: number, variance: number, levels: readonly number[], how: string): TotalForecast {
@@ -145,6 +158,5 @@ export function forecastTotal(fit: Fit, method: Method, h: number, levels: reado
   }
   const v = fc.sd.map((s) => s * s);
   if (v.some((x) => !Number.isFinite(x))) throw new ForecastInputError(`${fit.method} gives no step variances, so it has no total`);
-  const c = v.slice(1).map((x, k) => Math.sqrt(Math.max(x - v[k], 0) / v[0]));
-  return fromNormal(mean, linearTotalVariance(v[0], c, h, a), levels, `${fit.method}'s step variances read as a linear innovations model (approximate)`);
+  return fromNormal(mean, linearTotalVariance(v[0], weightsFromStepVariances(v), h, a), levels, `${fit.method}'s step variances read as a linear innovations model (approximate)`);
 }
