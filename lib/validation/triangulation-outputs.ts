@@ -65,6 +65,17 @@ export const baselineResult = z
     accuracy: z.object({ insample: z.object({ mae: n0, rmse: n0, mape: n0, smape: n0, mase: n0 }) }),
     candidates: z.array(z.object({ method: z.string(), mase: n0, error: z.string().optional() })).optional().describe("rolling-origin holdout MASE per method (automatic selection)"),
     combination: z.array(z.object({ method: z.string(), parameters: z.record(z.string(), n0) })).optional(),
+    total: z
+      .object({
+        from: z.number().int().optional().describe("first period summed (absent in results stored before windows: 1)"),
+        to: z.number().int().optional().describe("last period summed (the horizon)"),
+        mean: n0,
+        lower: z.record(z.string(), n0),
+        upper: z.record(z.string(), n0),
+        how: z.string(),
+      })
+      .optional()
+      .describe("the total over periods from..to after the history (total and average quantities; docs/methods.md §10)"),
     launch: launchResult.optional().describe("a launch baseline: the analogues' Bass fits, p and q carried over, the market potential (docs/methods.md §19)"),
     notes: z.array(z.string()),
   })
