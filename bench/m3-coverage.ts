@@ -1,5 +1,5 @@
 /**
- * `npm run bench -- coverage [--data FILE] [--every K] [--method M] [--period P] [--threads N] [--total]`:
+ * `npm run bench -- coverage [--data FILE] [--every K] [--method M] [--period P] [--threads N] [--total [--from A]]`:
  * accuracy and calibration of the automatic baseline on the M3 competition (Makridakis & Hibon
  * 2000, 3,003 series, as distributed by the R package Mcomp; one JSON object per line with id,
  * period, frequency, h, train and test).
@@ -18,7 +18,8 @@
  * the CPU time of all threads beside it.
  *
  * `--total` also asks for the total over the horizon (docs/methods.md §10, §20) and reports how
- * often the held-out sum lies inside its 80% and 95% intervals.
+ * often the held-out sum lies inside its 80% and 95% intervals; with `--from A`, the total of
+ * periods min(A, h)..h only (a window that starts after the next period).
  * `--every K` keeps every K-th series (a quick look while working; report full runs).
  * The data file defaults to $TRIANGULATE_M3 or ../shared/benchmark-data/m3.jsonl.
  */
@@ -59,12 +60,12 @@ function startWorker(): Promise<Worker> {
 }
 
 /** Scores every series on `threads` workers, each taking the next series when free. */
-async function scoreAll(series: readonly M3Series[], method: string, threads: number, total: boolean): Promise<{ scores: SeriesScore[]; seconds: number; cpuSeconds: number }> {
+async function scoreAll(series: readonly M3Series[], method: string, threads: number, total: boolean, from: number): Promise<{ scores: SeriesScore[]; seconds: number; cpuSeconds: number }> {
   const workers = await Promise.all(Array.from({ length: Math.min(threads, series.length) }, startWorker));
   // Warm-up: one small series per worker, so that module loading is not counted in the time.
   await Promise.all(workers.map((w) => new Promise((resolve) => {
     w.once("message", resolve);
-    w.postMessage({ index: -1, series: series[0], method, total });
+    w.postMessage({ index: -1, series: series[0], method, total, from });
   })));
   const scores: SeriesScore[] = new Array(series.length);
   let next = 0;
@@ -77,7 +78,7 @@ async function scoreAll(series: readonly M3Series[], method: string, threads: nu
           const send = () => {
             if (next >= series.length) return resolve();
             const index = next++;
-            w.postMessage({ index, series: series[index], method, total });
+            w.postMessage({ index, series: series[index], method, total, from });
           };
           w.on("message", (m: { index: number; score: SeriesScore }) => {
             scores[m.index] = m.score;
@@ -104,6 +105,7 @@ export async function runCoverage(args: string[]): Promise<void> {
       period: { type: "string" },
       threads: { type: "string" },
       total: { type: "boolean" },
+      from: { type: "string" },
     },
   });
   const file = values.data ?? process.env.TRIANGULATE_M3 ?? "../shared/benchmark-data/m3.jsonl";
@@ -115,7 +117,9 @@ export async function runCoverage(args: string[]): Promise<void> {
     .filter((l) => l.trim() !== "")
     .map((l) => JSON.parse(l));
   const series = all.filter((s, i) => i % every === 0 && (!values.period || s.period === values.period));
-  const { scores, seconds, cpuSeconds } = await scoreAll(series, method, threads, values.total === true);
+  const from = values.from ? Number(values.from) : 1;
+  if (!(Number.isInteger(from) && from >= 1)) throw new Error(`--from must be a whole number of at least 1 (got ${values.from})`);
+  const { scores, seconds, cpuSeconds } = await scoreAll(series, method, threads, values.total === true, from);
 
   const tallies = new Map<string, Tally>();
   const chosen = new Map<string, number>();
@@ -174,7 +178,7 @@ export async function runCoverage(args: string[]): Promise<void> {
   console.log(`goal: 80% interval covers 77–83%, 95% covers 92–97% of held-out points; Theta = the competition's submitted forecasts`);
   if (total.totals > 0) {
     const share = (t: Tally) => `${((100 * t.total80) / t.totals).toFixed(1)}% / ${((100 * t.total95) / t.totals).toFixed(1)}%`;
-    console.log(`total over the horizon (--total): held-out sums inside the 80% / 95% intervals: ${["yearly", "quarterly", "monthly", "other"].filter((p) => tallies.get(p)?.totals).map((p) => `${p} ${share(tallies.get(p)!)}`).join(", ")}, all ${share(total)}`);
+    console.log(`total over ${from > 1 ? `periods min(${from}, h)..h` : "the horizon"} (--total): held-out sums inside the 80% / 95% intervals: ${["yearly", "quarterly", "monthly", "other"].filter((p) => tallies.get(p)?.totals).map((p) => `${p} ${share(tallies.get(p)!)}`).join(", ")}, all ${share(total)}`);
   }
   console.log(`points whose forecast lies outside its own 80% or 95% interval: ${total.incoherent}`);
   console.log(`methods: ${[...chosen.entries()].sort((a, b) => b[1] - a[1]).map(([k, v]) => `${k} ${v}`).join(", ")}`);

@@ -35,12 +35,13 @@ export interface SeriesScore {
 /**
  * `baseline(train, { season: frequency, horizon: h, method })`, then sMAPE (Makridakis & Hibon
  * 2000), MASE with the seasonal-naive in-sample scale (Hyndman & Koehler 2006) and interval hits
- * on the held-out points; with `total`, also whether the held-out sum lies inside the total's
- * intervals. Never throws: a failure is returned as `error`.
+ * on the held-out points; with `total`, also whether the held-out sum over periods
+ * min(from, h)..h lies inside the total's intervals. Never throws: a failure is returned as `error`.
  */
-export function scoreSeries(s: M3Series, method: string, total = false): SeriesScore {
+export function scoreSeries(s: M3Series, method: string, total = false, from = 1): SeriesScore {
   try {
-    const r = baseline(s.train, { season: s.frequency, horizon: s.h, method: method as "auto" | MethodId, levels: [80, 95], total });
+    const a = Math.min(from, s.h);
+    const r = baseline(s.train, { season: s.frequency, horizon: s.h, method: method as "auto" | MethodId, levels: [80, 95], total, totalFrom: a });
     const mean = r.forecast.map((f) => f.mean ?? NaN);
     let in80 = 0;
     let in95 = 0;
@@ -53,7 +54,7 @@ export function scoreSeries(s: M3Series, method: string, total = false): SeriesS
       const m = f.mean ?? NaN;
       if (!(l95 <= l80 && l80 <= m && m <= u80 && u80 <= u95)) incoherent++;
     });
-    const sum = s.test.reduce((a, v) => a + v, 0);
+    const sum = s.test.slice(a - 1, s.h).reduce((x, v) => x + v, 0);
     const inside = (level: string) => (r.total?.lower[level] ?? Infinity) <= sum && sum <= (r.total?.upper[level] ?? -Infinity);
     return {
       ...(total ? { total80: inside("80"), total95: inside("95") } : {}),

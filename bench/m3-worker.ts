@@ -6,7 +6,7 @@ import { parentPort } from "node:worker_threads";
 import { scoreSeries, type M3Series, type SeriesScore } from "./m3-score";
 
 const port = parentPort!;
-port.on("message", (m: { index: number; series: M3Series; method: string; total: boolean }) => {
-  const score: SeriesScore = scoreSeries(m.series, m.method, m.total);
+port.on("message", (m: { index: number; series: M3Series; method: string; total: boolean; from?: number }) => {
+  const score: SeriesScore = scoreSeries(m.series, m.method, m.total, m.from ?? 1);
   port.postMessage({ index: m.index, score });
 });

@@ -45,8 +45,10 @@ options:
                       intervals widened to its own errors on the history) or one of:
 ${wrap(METHOD_IDS.join(", "), 68, 22)}
   --levels L1,L2      prediction interval levels in percent (default: ${DEFAULT_LEVELS.join(",")})
-  --total             also forecast the sum of the next H periods ("total": mean, lower
-                      and upper by level), from the distribution of the sum
+  --total             also forecast the sum of periods A..H ("total": from, to, mean,
+                      lower and upper by level), from the distribution of the sum
+  --from A            first period of the total (with --total; default 1, the next
+                      period; at most H): e.g. --from 4 --horizon 15 sums periods 4..15
   --format F          json (default) or table
   -h, --help          show this text
 
@@ -91,6 +93,8 @@ interface Options {
   readonly levels?: number[];
   readonly format: "json" | "table";
   readonly total: boolean;
+  /** First period of the total (default 1). */
+  readonly from?: number;
   readonly help: boolean;
 }
 
@@ -109,6 +113,7 @@ function parseOptions(args: string[]): Options {
         levels: { type: "string" },
         format: { type: "string" },
         total: { type: "boolean" },
+        from: { type: "string" },
         help: { type: "boolean", short: "h" },
       },
     });
@@ -127,17 +132,22 @@ function parseOptions(args: string[]): Options {
     throw new UsageError(`--format must be json or table (got '${format}')`);
   }
   if (v.value !== undefined && v.value.trim() === "") throw new UsageError("--value needs a column name");
+  const from = positiveInteger("from", v.from);
+  if (from !== undefined && !v.total) throw new UsageError("--from is the first period of a total: give --total with it");
+  const horizon = positiveInteger("horizon", v.horizon);
+  if (from !== undefined && horizon !== undefined && from > horizon) throw new UsageError(`--from ${from} is after the last period, --horizon ${horizon}`);
   const files = parsed.positionals;
   if (files.filter((f) => f === "-").length > 1) throw new UsageError("standard input ('-') can be read only once");
   return {
     files,
     value: v.value ?? "value",
     season: positiveInteger("season", v.season),
-    horizon: positiveInteger("horizon", v.horizon),
+    horizon,
     method: method as "auto" | MethodId,
     levels: parseLevels(v.levels),
     format,
     total: v.total ?? false,
+    from,
     help: v.help ?? false,
   };
 }
@@ -152,7 +162,7 @@ export function forecastText(file: string, text: string, opts: Omit<Options, "fi
   const table = readSeriesCsv(text, { value: opts.value });
   const result = baseline(
     { y: table.y, rows: table.rows, x: table.x, xNames: table.xNames, futureX: table.futureX },
-    { season: opts.season, horizon: opts.horizon, method: opts.method, levels: opts.levels, total: opts.total },
+    { season: opts.season, horizon: opts.horizon, method: opts.method, levels: opts.levels, total: opts.total, totalFrom: opts.from },
   );
   return { file, ...result };
 }
@@ -201,7 +211,7 @@ export function formatTable(r: FileResult): string {
     const t = r.total;
     out.push("");
     out.push(
-      `total of steps 1-${r.horizon}: ${formatNumber(t.mean)}${r.levels.map((l) => `, ${l}% ${formatNumber(t.lower[String(l)])} to ${formatNumber(t.upper[String(l)])}`).join("")} (${t.how})`,
+      `total of steps ${t.from ?? 1}-${t.to ?? r.horizon}: ${formatNumber(t.mean)}${r.levels.map((l) => `, ${l}% ${formatNumber(t.lower[String(l)])} to ${formatNumber(t.upper[String(l)])}`).join("")} (${t.how})`,
     );
   }
   const a = r.accuracy.insample;

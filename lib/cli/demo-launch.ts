@@ -65,6 +65,7 @@ export async function loadLaunchPanel(actor: Actor, memberIds: readonly string[]
     season: 1,
     method: "bass",
     horizon: 4,
+    firstPeriod: 1,
     quantity: "total",
     period: "quarter",
   });

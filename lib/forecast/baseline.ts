@@ -66,12 +66,18 @@ export interface BaselineOptions {
   readonly refit?: "full" | "update";
   /** Candidate methods (default: every registered method). */
   readonly methods?: readonly Method[];
-  /** Also give the forecast of the total over the horizon (lib/forecast/total.ts). */
+  /** Also give the forecast of the total over periods `totalFrom`..horizon (lib/forecast/total.ts). */
   readonly total?: boolean;
+  /** First period a of the total (1 ≤ a ≤ horizon; default 1: the total of the next `horizon` periods). */
+  readonly totalFrom?: number;
 }
 
-/** The forecast of the sum of the next `horizon` values (JSON-ready; see lib/forecast/total.ts). */
+/** The forecast of the sum of the values in periods from..to after the history (JSON-ready; see lib/forecast/total.ts). */
 export interface TotalResult {
+  /** First period summed (1: the next period; absent in results stored before it existed = 1). */
+  readonly from?: number;
+  /** Last period summed (the horizon). */
+  readonly to?: number;
   readonly mean: number | null;
   readonly lower: Record<string, number | null>;
   readonly upper: Record<string, number | null>;
@@ -124,7 +130,7 @@ export interface BaselineResult {
   readonly candidates?: readonly CandidateResult[];
   /** Members of a combination with their own parameters (only when method is "combination"). */
   readonly combination?: readonly { readonly method: MethodId; readonly parameters: Record<string, number | null> }[];
-  /** The total over the horizon, when asked for (`total: true`). */
+  /** The total over periods totalFrom..horizon, when asked for (`total: true`). */
   readonly total?: TotalResult;
   /** A launch baseline's analogues, carried p and q, and market potential (lib/forecast/launch.ts). */
   readonly launch?: {
@@ -179,11 +185,11 @@ function params(fit: Fit): Record<string, number | null> {
 }
 
 /**
- * The total of the next h values; for a combination, the members' totals averaged quantile by
+ * The total over periods from..h; for a combination, the members' totals averaged quantile by
  * quantile, as its step bounds (Lichtendahl et al. 2013).
  */
-function totalOf(members: readonly { method: Method; fit: Fit }[], s: PreparedSeries, levels: readonly number[]): TotalResult {
-  const t = members.map(({ method, fit }) => forecastTotal(fit, method, s.horizon, levels, s.futureX));
+function totalOf(members: readonly { method: Method; fit: Fit }[], s: PreparedSeries, levels: readonly number[], from: number): TotalResult {
+  const t = members.map(({ method, fit }) => forecastTotal(fit, method, s.horizon, levels, s.futureX, from));
   const avg = (get: (x: TotalForecast) => number) => finite(t.reduce((a, x) => a + get(x), 0) / t.length);
   const lower: Record<string, number | null> = {};
   const upper: Record<string, number | null> = {};
@@ -191,7 +197,7 @@ function totalOf(members: readonly { method: Method; fit: Fit }[], s: PreparedSe
     lower[String(l)] = avg((x) => x.lower[String(l)]);
     upper[String(l)] = avg((x) => x.upper[String(l)]);
   }
-  return { mean: avg((x) => x.mean), lower, upper, how: t.map((x) => x.how).join("; ") };
+  return { from, to: s.horizon, mean: avg((x) => x.mean), lower, upper, how: t.map((x) => x.how).join("; ") };
 }
 
 function steps(fc: Forecast, levels: readonly number[]): ForecastStep[] {
@@ -220,6 +226,10 @@ export function baseline(input: RawSeries | readonly (number | null)[], options:
   const raw: RawSeries = Array.isArray(input) ? { y: input as readonly (number | null)[] } : (input as RawSeries);
   const levels = checkLevels(options.levels ?? DEFAULT_LEVELS);
   const s = prepareSeries(raw, { season: options.season, horizon: options.horizon });
+  const from = options.totalFrom ?? 1;
+  if (options.total && !(Number.isInteger(from) && from >= 1 && from <= s.horizon)) {
+    throw new ForecastInputError(`the total's first period must be a whole number from 1 to the horizon ${s.horizon} (got ${from})`);
+  }
   const notes = [...s.notes];
   const which = options.method ?? "auto";
   const methods = options.methods ?? (which === "auto" ? METHODS.filter((m) => !(m.id in NOT_AUTOMATIC)) : METHODS);
@@ -243,7 +253,7 @@ export function baseline(input: RawSeries | readonly (number | null)[], options:
       forecast: steps(fc, levels),
       fitted: fit.fitted.map(finite),
       accuracy: { insample: insample(s, fit.fitted) },
-      ...(options.total ? { total: totalOf([{ method, fit }], s, levels) } : {}),
+      ...(options.total ? { total: totalOf([{ method, fit }], s, levels, from) } : {}),
       notes: [...notes, ...fit.notes],
     };
   }
@@ -254,7 +264,7 @@ export function baseline(input: RawSeries | readonly (number | null)[], options:
 
   const strategy = options.strategy ?? (options.methods ? "best" : "combination");
   if (strategy === "combination" && !s.constant) {
-    const combined = combination(s, levels, options.total === true, options.methods ?? METHODS);
+    const combined = combination(s, levels, options.total === true ? from : null, options.methods ?? METHODS);
     if (combined) return { ...combined, notes: [...notes, ...combined.notes] };
     notes.push("no member of the combination could be fitted: rolling-origin selection used instead");
   }
@@ -362,7 +372,7 @@ export function baseline(input: RawSeries | readonly (number | null)[], options:
       fitted: fit.fitted.map(finite),
       accuracy: { insample: insample(s, fit.fitted) },
       candidates,
-      ...(options.total ? { total: totalOf([{ method, fit }], s, levels) } : {}),
+      ...(options.total ? { total: totalOf([{ method, fit }], s, levels, from) } : {}),
       notes: [...notes, ...fit.notes],
     };
   }
@@ -395,7 +405,7 @@ export function baseline(input: RawSeries | readonly (number | null)[], options:
     accuracy: { insample: insample(s, fitted) },
     candidates,
     combination: fits.map((f) => ({ method: f.method.id, parameters: params(f.fit) })),
-    ...(options.total ? { total: totalOf(fits, s, levels) } : {}),
+    ...(options.total ? { total: totalOf(fits, s, levels, from) } : {}),
     notes: [...notes, ...fits.flatMap((f) => f.fit.notes.map((t) => `${f.method.id}: ${t}`))],
   };
 }
@@ -409,7 +419,7 @@ export function baseline(input: RawSeries | readonly (number | null)[], options:
 function combination(
   s: PreparedSeries,
   levels: readonly number[],
-  total: boolean,
+  total: number | null,
   available: readonly Method[],
 ): (Omit<BaselineResult, "notes"> & { notes: string[] }) | null {
   const notes: string[] = [];
@@ -448,7 +458,7 @@ function combination(
       fitted: fit.fitted.map(finite),
       accuracy: { insample: insample(s, fit.fitted) },
       candidates: [],
-      ...(total ? { total: totalOf([{ method, fit }], s, levels) } : {}),
+      ...(total !== null ? { total: totalOf([{ method, fit }], s, levels, total) } : {}),
       notes: [...notes, ...fit.notes],
     };
   }
@@ -463,9 +473,9 @@ function combination(
     ...c.notes,
   );
   let totalResult: TotalResult | undefined;
-  if (total) {
-    const t = fits.map(({ method, fit }) => forecastTotal(fit, method, s.horizon, levels, s.futureX));
-    const ct = combineTotals(t, members, s.y, s.season, s.horizon, levels);
+  if (total !== null) {
+    const t = fits.map(({ method, fit }) => forecastTotal(fit, method, s.horizon, levels, s.futureX, total));
+    const ct = combineTotals(t, members, s.y, s.season, s.horizon, levels, total);
     const lower: Record<string, number | null> = {};
     const upper: Record<string, number | null> = {};
     for (const l of levels) {
@@ -473,10 +483,12 @@ function combination(
       upper[String(l)] = finite(ct.upper[String(l)]);
     }
     totalResult = {
+      from: total,
+      to: s.horizon,
       mean: finite(ct.mean),
       lower,
       upper,
-      how: `members' totals averaged quantile by quantile (${t.map((x) => x.how).join("; ")})${ct.empirical ? ", widened to the combination's own errors of h-step sums on the history where those are wider" : ""}`,
+      how: `members' totals averaged quantile by quantile (${t.map((x) => x.how).join("; ")})${ct.empirical ? `, widened to the combination's own errors of the same window's sums on the history where those are wider (${ct.sums} overlapping sums, Student t with ${ct.df.toFixed(1)} effective degrees of freedom)` : ""}`,
     };
   }
   return {

@@ -16,6 +16,7 @@
 import { normalQuantile } from "../stats/normal";
 import { studentTQuantile } from "../stats/student-t";
 import type { Forecast } from "./types";
+import { innovationWeights, weightsFromStepVariances } from "./total";
 
 /** Fewest history errors at a horizon for its empirical spread to be used. */
 export const MIN_HISTORY_ERRORS = 3;
@@ -87,7 +88,7 @@ export function historySpread(
  */
 function errorQuantile(level: number, k: number): number {
   const p = 0.5 + level / 200;
-  return k >= 1 ? studentTQuantile(p, k) : normalQuantile(p);
+  return k > 0 ? studentTQuantile(p, k) : normalQuantile(p);
 }
 
 /**
@@ -145,11 +146,42 @@ export function combineForecasts(members: readonly CombinationMember[], y: reado
 }
 
 /**
- * The total over the horizon for the combination: the members' totals averaged quantile by
- * quantile, widened like the steps by the empirical spread of the combination's h-step sums on
- * the history (origins t ≥ {@link firstOrigin} with all h values observed; relative to the
- * forecast sum when every observation is above zero; t quantile with as many degrees of freedom
- * as sums). Fewer than {@link MIN_HISTORY_ERRORS} such sums: the quantile average alone.
+ * Effective degrees of freedom of a mean square of window sums from overlapping origins
+ * (Satterthwaite 1946, "An approximate distribution of estimates of variance components",
+ * Biometrics Bulletin 2(6), 110–114: ν = 2·E[s²]²/Var[s²]). The sum's error from origin t is
+ * Σ_i w_i ε_{t+i} (`weights` w_1..w_b: {@link innovationWeights} of lib/forecast/total.ts), so the
+ * sums from origins k apart share innovations and have correlation
+ * ρ_k = Σ_i w_i w_{i+k} / Σ_i w_i² (0 from k ≥ b), and for normal errors
+ * Var[Σ e²] = 2σ⁴ Σ_{r,s} ρ²_{|t_r − t_s|} (the variance of a normal quadratic form), giving
+ * ν = N² / Σ_{r,s} ρ²_{|t_r − t_s|}. With independent period errors (w = 1 on the window a..b,
+ * 0 before it) ρ_k = (b − a + 1 − k)/(b − a + 1): N sums from consecutive origins then give about
+ * N/(1 + (w − 1)(2w − 1)/(3w)), w = b − a + 1; errors that carry over between periods lower ν further.
+ * Non-overlapping origins give ν = N. Input: ascending origins (empty gives 0), weights ≥ 0, not all 0.
+ */
+export function overlapDegreesOfFreedom(origins: readonly number[], weights: readonly number[]): number {
+  const n = origins.length;
+  if (n === 0) return 0;
+  const b = weights.length;
+  const g = weights.map((_, k) => weights.reduce((a, w, i) => a + (i + k < b ? w * weights[i + k] : 0), 0));
+  let sum = n;
+  for (let r = 0; r < n; r++) {
+    for (let s = r + 1; s < n && origins[s] - origins[r] < b; s++) sum += 2 * (g[origins[s] - origins[r]] / g[0]) ** 2;
+  }
+  return (n * n) / sum;
+}
+
+/**
+ * The total over steps a..b (`from` = a, default 1; `h` = b) for the combination: the members'
+ * totals (over the same steps) averaged quantile by quantile, widened like the steps by the
+ * empirical spread of the combination's sums over the same window on the history: from every
+ * origin t ≥ {@link firstOrigin} with y_{t+a}..y_{t+b} observed, e_t = Σ_{j=a}^{b} (y_{t+j} − f_{t,j}),
+ * relative to the forecast sum when every observation is above zero. Neighbouring origins'
+ * window sums share most of their innovations, so the t quantile has the effective degrees of
+ * freedom of {@link overlapDegreesOfFreedom}, not the number of sums, with the innovations'
+ * weights of the members' error model: their average step variances read as a linear
+ * innovations model (c_k of lib/forecast/total.ts; c = 0, independent period errors, when a
+ * member gives no finite step sd). Fewer than
+ * {@link MIN_HISTORY_ERRORS} sums: the quantile average alone.
  */
 export function combineTotals(
   totals: readonly { readonly mean: number; readonly lower: Record<string, number>; readonly upper: Record<string, number> }[],
@@ -158,17 +190,18 @@ export function combineTotals(
   season: number,
   h: number,
   levels: readonly number[],
-): { mean: number; lower: Record<string, number>; upper: Record<string, number>; empirical: boolean } {
+  from = 1,
+): { mean: number; lower: Record<string, number>; upper: Record<string, number>; empirical: boolean; sums: number; df: number } {
   const avg = (get: (t: (typeof totals)[number]) => number) => totals.reduce((a, t) => a + get(t), 0) / totals.length;
   const mean = avg((t) => t.mean);
   const relative = y.every((v) => v > 0);
   let sum = 0;
-  let count = 0;
+  const used: number[] = [];
   for (let t = firstOrigin(y.length, season); t + h <= y.length; t++) {
     const f = meanOf(members.map((m) => m.origins[t]));
     let fs = 0;
     let ys = 0;
-    for (let j = 0; j < h; j++) {
+    for (let j = from - 1; j < h; j++) {
       fs += f[j];
       ys += y[t + j];
     }
@@ -176,16 +209,21 @@ export function combineTotals(
     const e = relative ? (ys - fs) / fs : ys - fs;
     if (!Number.isFinite(e)) continue;
     sum += e * e;
-    count++;
+    used.push(t);
   }
+  const count = used.length;
   const spread = count >= MIN_HISTORY_ERRORS ? Math.sqrt(sum / count) : NaN;
+  // The members' error model: their average step variances read as a linear innovations model.
+  const sd = meanOf(members.map((m) => m.forecast.sd));
+  const c = sd.length === h && sd.every((x) => Number.isFinite(x) && x > 0) ? weightsFromStepVariances(sd.map((x) => x * x)) : new Array<number>(Math.max(h - 1, 0)).fill(0);
+  const df = overlapDegreesOfFreedom(used, innovationWeights(c, h, from));
   const lower: Record<string, number> = {};
   const upper: Record<string, number> = {};
   for (const level of levels) {
     const key = String(level);
-    const half = errorQuantile(level, count) * spread * (relative ? Math.abs(mean) : 1);
+    const half = errorQuantile(level, df) * spread * (relative ? Math.abs(mean) : 1);
     lower[key] = Math.min(avg((t) => t.lower[key]), mean, Number.isFinite(half) ? mean - half : Infinity);
     upper[key] = Math.max(avg((t) => t.upper[key]), mean, Number.isFinite(half) ? mean + half : -Infinity);
   }
-  return { mean, lower, upper, empirical: Number.isFinite(spread) };
+  return { mean, lower, upper, empirical: Number.isFinite(spread), sums: count, df };
 }

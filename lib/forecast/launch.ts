@@ -79,7 +79,7 @@ export interface LaunchForecast {
   readonly market: MarketPotential;
   /** Periods 1..horizon since launch. */
   readonly steps: readonly SimulatedQuantity[];
-  /** Total of periods 1..horizon. */
+  /** Total of periods from..horizon (launchForecast's `from`, default 1). */
   readonly total: SimulatedQuantity;
   readonly draws: number;
   readonly notes: readonly string[];
@@ -109,9 +109,10 @@ function pqFactor(f: BassFit): [number, number, number] {
 }
 
 /**
- * The launch forecast for periods 1..horizon (see the file comment).
- * @throws RangeError for no analogue, an analogue the Bass fit refuses (named), or a horizon
- *   outside 1..1000.
+ * The launch forecast for periods 1..horizon (see the file comment); its total is over periods
+ * `from`..horizon (default 1: all of them).
+ * @throws RangeError for no analogue, an analogue the Bass fit refuses (named), a horizon
+ *   outside 1..1000, or a first period outside 1..horizon.
  */
 export function launchForecast(
   analogues: readonly { readonly name: string; readonly values: readonly number[] }[],
@@ -119,9 +120,11 @@ export function launchForecast(
   horizon: number,
   levels: readonly number[],
   draws = LAUNCH_DRAWS,
+  from = 1,
 ): LaunchForecast {
   if (analogues.length === 0) throw new RangeError("launch: give at least one analogous product's adoptions");
   if (!(Number.isInteger(horizon) && horizon >= 1 && horizon <= 1000)) throw new RangeError(`launch: the horizon must be a whole number from 1 to 1000 (got ${horizon})`);
+  if (!(Number.isInteger(from) && from >= 1 && from <= horizon)) throw new RangeError(`launch: the total's first period must be a whole number from 1 to the horizon ${horizon} (got ${from})`);
   const fits = analogues.map((a) => {
     try {
       return fitBass(a.values);
@@ -163,7 +166,7 @@ export function launchForecast(
       const v = Math.max(0, m * (share - prev) + noise * z());
       prev = share;
       steps[t - 1][d] = v;
-      total += v;
+      if (t >= from) total += v;
     }
     totals[d] = total;
   }

@@ -1,20 +1,23 @@
 /**
- * The forecast of a total: the distribution of Y = y_{n+1} + … + y_{n+h}, with the errors'
- * correlation across steps, never the sum of step bounds. Pure TypeScript.
+ * The forecast of a total over a window of future periods: the distribution of
+ * Y = y_{n+a} + … + y_{n+b} (1 ≤ a ≤ b; a = 1 the next b periods), with the errors' correlation
+ * across steps, never the sum of step bounds. Pure TypeScript.
  *
  * Linear innovations models (ETS class 1: A errors, N/A/Ad trend, N/A season; naive and
- * seasonal naive as their limiting cases): the h-step error is
- * e_{n+j} = ε_{n+j} + Σ_{k=1}^{j−1} c_k ε_{n+j−k} (Hyndman, Koehler, Ord & Snyder 2008, ch. 6),
- * so the error of the total collects each innovation ε_{n+i} once for every step j ≥ i:
- *   Y − Ŷ = Σ_{i=1}^{h} ε_{n+i} (1 + Σ_{k=1}^{h−i} c_k),  var = σ² Σ_{i=1}^{h} (1 + Σ_{k=1}^{h−i} c_k)²
- * (the aggregated forecast variance of Hyndman et al. 2008 §6.6, "lead-time demand"); for
- * ETS(A,N,N), c_k = α and var = σ² Σ_{j=1}^{h} (1 + (h − j) α)². Bounds are normal.
- * Lag walks (naive, seasonal naive, drift; R's lagwalk): innovation ε_{n+i} enters every step
- * i, i + lag, … ≤ h, and the drift's estimation error δ (sd se_b) enters step j ⌈j/lag⌉ times:
- *   var = σ² Σ_i (⌊(h − i)/lag⌋ + 1)² + se_b² (Σ_j ⌈j/lag⌉)².
- * Non-linear ETS members (M errors, M season): sums of the simulated sample paths (fixed PRNG
- * start value), bounds their type-7 quantiles.
- * Bass diffusion: h·s² plus the parameters' part gᵀCg of the summed curve (lib/forecast/bass.ts).
+ * seasonal naive as their limiting cases): the j-step error is
+ * e_{n+j} = Σ_{k=0}^{j−1} ψ_k ε_{n+j−k}, ψ_0 = 1, ψ_k = c_k (Hyndman, Koehler, Ord & Snyder
+ * 2008, ch. 6), so the error of the total collects innovation ε_{n+i} (i = 1..b) once for every
+ * step j of the window with j ≥ i, i.e. steps max(i, a)..b:
+ *   Y − Ŷ = Σ_{i=1}^{b} ε_{n+i} Σ_{j=max(i,a)}^{b} ψ_{j−i},  var = σ² Σ_{i=1}^{b} (Σ_{j=max(i,a)}^{b} ψ_{j−i})²
+ * (the aggregated forecast variance of Hyndman et al. 2008 §6.6, "lead-time demand", for a
+ * window that starts after the next period; for a = 1 it is σ² Σ_{i=1}^{b} (1 + Σ_{k=1}^{b−i} c_k)²).
+ * ETS(A,N,N): var = σ² [(a − 1)((b − a + 1)α)² + Σ_{i=a}^{b} (1 + (b − i)α)²]. Bounds are normal.
+ * Lag walks (naive, seasonal naive, drift; R's lagwalk): ψ_k = 1 when k is a multiple of the
+ * lag, else 0, and the drift's estimation error δ (sd se_b) enters step j ⌈j/lag⌉ times:
+ *   var = σ² Σ_{i=1}^{b} (#{j ∈ [max(i,a), b] : j ≡ i mod lag})² + se_b² (Σ_{j=a}^{b} ⌈j/lag⌉)².
+ * Non-linear ETS members (M errors, M season): sums over the window of the simulated sample
+ * paths (fixed PRNG start value), bounds their type-7 quantiles.
+ * Bass diffusion: (b − a + 1)·s² plus the parameters' part gᵀCg of the summed curve (lib/forecast/bass.ts).
  * Other methods: their step variances v_j read as a linear innovations model with
  * non-negative weights, c_k = √((v_{k+1} − v_k)/v_1) (exact for the models above, e.g. ARIMA
  * with positive ψ-weights; an approximation otherwise, said in `how`).
@@ -45,15 +48,34 @@ const NAMED_ETS: Partial<Record<string, EtsModel>> = {
   "holt-winters-multiplicative": { trend: "A", season: "M" },
 };
 
-/** σ² Σ_{i=1}^{h} (1 + Σ_{k=1}^{h−i} c_k)², c = c_1..c_{h−1} (see the file comment). */
-export function linearTotalVariance(sigma2: number, c: readonly number[], h: number): number {
-  let v = 0;
-  let cum = 0; // Σ_{k=1}^{h−i} c_k, grown as i falls from h to 1
-  for (let i = h; i >= 1; i--) {
-    if (i < h) cum += c[h - i - 1];
-    v += (1 + cum) ** 2;
+/**
+ * The weight of each innovation ε_{n+i}, i = 1..b, in the error of the total over steps a..b of a
+ * linear innovations model: w_i = Σ_{j=max(i,a)}^{b} ψ_{j−i}, ψ_0 = 1, ψ_k = c_k (c = c_1..c_{b−1};
+ * see the file comment). Input: 1 ≤ a ≤ b, c with at least b − 1 finite weights.
+ */
+export function innovationWeights(c: readonly number[], b: number, a = 1): number[] {
+  // cum[m] = Σ_{k=0}^{m} ψ_k, so Σ_{j=lo}^{b} ψ_{j−i} = cum[b − i] − cum[lo − i − 1].
+  const cum: number[] = [];
+  for (let k = 0; k < b; k++) cum.push((k === 0 ? 0 : cum[k - 1]) + (k === 0 ? 1 : c[k - 1]));
+  const w: number[] = [];
+  for (let i = 1; i <= b; i++) {
+    const skip = Math.max(i, a) - i; // steps i..a−1 lie before the window
+    w.push(cum[b - i] - (skip > 0 ? cum[skip - 1] : 0));
   }
-  return sigma2 * v;
+  return w;
+}
+
+/**
+ * σ² Σ_{i=1}^{b} (Σ_{j=max(i,a)}^{b} ψ_{j−i})²: the variance of the total over steps a..b of a
+ * linear innovations model ({@link innovationWeights}; see the file comment).
+ */
+export function linearTotalVariance(sigma2: number, c: readonly number[], b: number, a = 1): number {
+  return sigma2 * innovationWeights(c, b, a).reduce((v, w) => v + w * w, 0);
+}
+
+/** c_k = √((v_{k+1} − v_k)/v_1), k = 1..h−1: step variances read as a linear innovations model (file comment). */
+export function weightsFromStepVariances(v: readonly number[]): number[] {
+  return v.slice(1).map((x, k) => Math.sqrt(Math.max(x - v[k], 0) / v[0]));
 }
 
 function fromNormal(mean: number, variance: number, levels: readonly number[], how: string): TotalForecast {
@@ -68,30 +90,36 @@ function fromNormal(mean: number, variance: number, levels: readonly number[], h
   return { mean, sd, lower, upper, how };
 }
 
-function fromPaths(spec: EtsSpec, par: Smoothing, fit: Fit, h: number, levels: readonly number[], origin: Parameters<typeof samplePaths>[2]): TotalForecast {
-  const paths = samplePaths(spec, par, origin, fit.sigma2, h);
+function fromPaths(spec: EtsSpec, par: Smoothing, fit: Fit, a: number, b: number, levels: readonly number[], origin: Parameters<typeof samplePaths>[2]): TotalForecast {
+  const paths = samplePaths(spec, par, origin, fit.sigma2, b);
   const sums = new Array<number>(PATHS).fill(0);
-  for (let i = 0; i < h; i++) for (let p = 0; p < PATHS; p++) sums[p] += paths[i * PATHS + p];
-  sums.sort((a, b) => a - b);
-  const b = sampleBounds(sums, levels);
+  for (let i = a - 1; i < b; i++) for (let p = 0; p < PATHS; p++) sums[p] += paths[i * PATHS + p];
+  sums.sort((x, y) => x - y);
+  const bounds = sampleBounds(sums, levels);
   const lower: Record<string, number> = {};
   const upper: Record<string, number> = {};
   levels.forEach((lv, l) => {
-    lower[String(lv)] = b.lower[l];
-    upper[String(lv)] = b.upper[l];
+    lower[String(lv)] = bounds.lower[l];
+    upper[String(lv)] = bounds.upper[l];
   });
-  const mean = pointForecasts(spec, par, origin, h).reduce((a, v) => a + v, 0);
-  const avg = sums.reduce((a, v) => a + v, 0) / PATHS;
-  const sd = Math.sqrt(sums.reduce((a, v) => a + (v - avg) ** 2, 0) / (PATHS - 1));
-  return { mean, sd, lower, upper, how: `sum of ${PATHS} simulated sample paths of ETS(${spec.error},${spec.trend},${spec.season})` };
+  const mean = windowSum(pointForecasts(spec, par, origin, b), a);
+  const avg = sums.reduce((x, v) => x + v, 0) / PATHS;
+  const sd = Math.sqrt(sums.reduce((x, v) => x + (v - avg) ** 2, 0) / (PATHS - 1));
+  return { mean, sd, lower, upper, how: `sum over the window of ${PATHS} simulated sample paths of ETS(${spec.error},${spec.trend},${spec.season})` };
 }
 
+/** Σ of x over steps a..x.length (x holds steps 1..b). */
+const windowSum = (x: readonly number[], a: number) => x.slice(a - 1).reduce((s, v) => s + v, 0);
+
 /**
- * Mean and bounds of the total of the next h values of a fitted method (see the file comment).
- * `futureX` as for the method's forecast (regression).
- * @throws ForecastInputError for a bad horizon or level (the method's own checks).
+ * Mean and bounds of the total over steps a..b (`from` = a, default 1; `h` = b) of a fitted
+ * method (see the file comment). `futureX` as for the method's forecast (regression).
+ * @throws ForecastInputError for a bad horizon or level (the method's own checks), or a first
+ *   step that is not a whole number in 1..h.
  */
-export function forecastTotal(fit: Fit, method: Method, h: number, levels: readonly number[], futureX?: FutureX): TotalForecast {
+export function forecastTotal(fit: Fit, method: Method, h: number, levels: readonly number[], futureX?: FutureX, from = 1): TotalForecast {
+  if (!Number.isInteger(from) || from < 1 || from > h) throw new ForecastInputError(`the total's first period must be a whole number from 1 to the horizon ${h} (got ${from})`);
+  const a = from;
   const named = NAMED_ETS[fit.method];
   if (named || fit.method === "ets") {
     const { spec, par, origin } = named
@@ -108,30 +136,27 @@ export function forecastTotal(fit: Fit, method: Method, h: number, levels: reado
       : memberOf(fit);
     checkHorizon(method.id, h, levels);
     if (spec.error === "A" && hasClosedForm(spec)) {
-      const mean = pointForecasts(spec, par, origin, h).reduce((a, v) => a + v, 0);
-      return fromNormal(mean, linearTotalVariance(fit.sigma2, errorWeights(spec, par, h), h), levels, `closed form for ETS(A,${spec.trend},${spec.season}) (Hyndman et al. 2008 ch. 6)`);
+      const mean = windowSum(pointForecasts(spec, par, origin, h), a);
+      return fromNormal(mean, linearTotalVariance(fit.sigma2, errorWeights(spec, par, h), h, a), levels, `closed form for ETS(A,${spec.trend},${spec.season}) (Hyndman et al. 2008 ch. 6)`);
     }
-    return fromPaths(spec, par, fit, h, levels, origin);
+    return fromPaths(spec, par, fit, a, h, levels, origin);
   }
   if (fit.method === "bass") {
     checkHorizon(method.id, h, levels);
-    const periods = Array.from({ length: h }, (_, i) => fit.n + i + 1);
+    const periods = Array.from({ length: h - a + 1 }, (_, i) => fit.n + a + i);
     return { ...bassForecastSum(asBassFit(fit), periods, levels), how: "Bass curve summed over the periods; period errors independent, parameter uncertainty by the delta method" };
   }
   const fc = method.forecast(fit, h, levels, futureX);
-  const mean = fc.mean.reduce((a, v) => a + v, 0);
+  const mean = windowSum(fc.mean, a);
   const lag = (fit.state.lastValues as readonly number[] | undefined)?.length;
   if (lag !== undefined && typeof fit.state.driftSe === "number") {
-    let walk = 0;
+    // ψ_k = 1 at multiples of the lag: ε_{n+i} recurs at steps i, i + lag, …
+    const psi = Array.from({ length: h - 1 }, (_, k) => ((k + 1) % lag === 0 ? 1 : 0));
     let drift = 0;
-    for (let i = 1; i <= h; i++) {
-      walk += (Math.floor((h - i) / lag) + 1) ** 2;
-      drift += Math.ceil(i / lag);
-    }
-    return fromNormal(mean, fit.sigma2 * walk + (fit.state.driftSe * drift) ** 2, levels, `closed form for a lag-${lag} random walk${fit.state.driftSe > 0 ? " with drift" : ""}`);
+    for (let j = a; j <= h; j++) drift += Math.ceil(j / lag);
+    return fromNormal(mean, linearTotalVariance(fit.sigma2, psi, h, a) + (fit.state.driftSe * drift) ** 2, levels, `closed form for a lag-${lag} random walk${fit.state.driftSe > 0 ? " with drift" : ""}`);
   }
   const v = fc.sd.map((s) => s * s);
   if (v.some((x) => !Number.isFinite(x))) throw new ForecastInputError(`${fit.method} gives no step variances, so it has no total`);
-  const c = v.slice(1).map((x, k) => Math.sqrt(Math.max(x - v[k], 0) / v[0]));
-  return fromNormal(mean, linearTotalVariance(v[0], c, h), levels, `${fit.method}'s step variances read as a linear innovations model (approximate)`);
+  return fromNormal(mean, linearTotalVariance(v[0], weightsFromStepVariances(v), h, a), levels, `${fit.method}'s step variances read as a linear innovations model (approximate)`);
 }

@@ -67,13 +67,15 @@ export interface BaselinePreview {
 
 /** The baseline's forecast of the quantity the question asks for. */
 export interface BaselineTarget {
-  /** Steps after the last observation (the horizon); for a total or average, the number of periods. */
+  /** Steps after the last observation (the horizon); for a total or average, the last period b. */
   readonly step: number;
-  /** value: the value in period `step`; total or average: over periods 1..step. */
+  /** Total or average: the first period a of periods a..step (1 = the next period); value: `step`. */
+  readonly firstPeriod: number;
+  /** value: the value in period `step`; total or average: over periods firstPeriod..step. */
   readonly quantity: BaselineQuantity;
   /** What one history row is. */
   readonly period: HistoryPeriod;
-  /** Plain words, e.g. "total of the next 12 months". */
+  /** Plain words, e.g. "total of the next 12 months", "total of months 4 to 15 after the history". */
   readonly label: string;
   /** How the total's distribution was made (total and average; lib/forecast/total.ts). */
   readonly how: string | null;
@@ -115,6 +117,7 @@ interface Analysed {
 
 /** Which option an engine error is about, from its message (for the problem's `field`). */
 function engineField(message: string, source: "csv" | "values"): string {
+  if (/first period/i.test(message)) return "firstPeriod";
   if (/season/i.test(message)) return "season";
   if (/horizon/i.test(message)) return "horizon";
   if (/method|regression/i.test(message)) return "method";
@@ -181,7 +184,7 @@ export async function analyseBaseline(input: BaselineInput, market?: ResolvedMar
   try {
     result = await runJob("baseline", {
       series: { y, rows: table.rows, x: table.x, xNames: table.xNames, futureX },
-      options: { season: input.season, horizon, method: input.method, levels: [80, 95], total: input.quantity !== "value" },
+      options: { season: input.season, horizon, method: input.method, levels: [80, 95], total: input.quantity !== "value", totalFrom: input.quantity !== "value" ? input.firstPeriod : 1 },
     });
   } catch (err) {
     // By name too: the worker pool lives on globalThis, so its rebuilt error may come from
@@ -194,7 +197,7 @@ export async function analyseBaseline(input: BaselineInput, market?: ResolvedMar
   if (factor !== 1) {
     result = { ...result, notes: [...result.notes, `the history is an analogous product's, multiplied by ${factor} before fitting: ${input.analogue!.note}`] };
   }
-  const target = targetOf({ result, horizon, quantity: input.quantity, period: input.period });
+  const target = targetOf({ result, horizon, firstPeriod: input.firstPeriod, quantity: input.quantity, period: input.period });
   const preview: BaselinePreview = {
     source,
     valueColumn,
@@ -223,10 +226,10 @@ async function analyseLaunch(input: BaselineInput, launch: LaunchInput, market: 
   const horizon = input.horizon ?? 1;
   let fc;
   try {
-    fc = await runJob("launch", { analogues: launch.analogues, market: { median: market.median, sigmaLog: market.sigmaLog, low: market.low, high: market.high, how: market.how }, horizon });
+    fc = await runJob("launch", { analogues: launch.analogues, market: { median: market.median, sigmaLog: market.sigmaLog, low: market.low, high: market.high, how: market.how }, horizon, from: input.quantity !== "value" ? input.firstPeriod : 1 });
   } catch (err) {
     if (err instanceof RangeError || (err instanceof Error && err.name === "RangeError")) {
-      throw new InvalidInputError([{ field: "launch.analogues", message: err.message }], "The launch baseline could not be computed.");
+      throw new InvalidInputError([{ field: /first period/.test(err.message) ? "firstPeriod" : "launch.analogues", message: err.message }], "The launch baseline could not be computed.");
     }
     throw err;
   }
@@ -239,7 +242,7 @@ async function analyseLaunch(input: BaselineInput, launch: LaunchInput, market: 
     forecast: fc.steps.map((st, i) => ({ step: i + 1, mean: st.mean, lower: st.lower, upper: st.upper })),
     fitted: [],
     accuracy: { insample: { mae: null, rmse: null, mape: null, smape: null, mase: null } },
-    total: { ...fc.total, how: `the totals of ${fc.draws} simulated launches (docs/methods.md §19)` },
+    total: { from: input.quantity !== "value" ? input.firstPeriod : 1, to: horizon, ...fc.total, how: `the totals of ${fc.draws} simulated launches (docs/methods.md §19)` },
     launch: { analogues: fc.analogues, p: fc.p, q: fc.q, market, draws: fc.draws },
     notes: [...fc.notes, `Analogues chosen because: ${launch.note}`],
   };
@@ -255,7 +258,7 @@ async function analyseLaunch(input: BaselineInput, launch: LaunchInput, market: 
     scaleFactor: 1,
   };
   const data = JSON.stringify({ analogues: launch.analogues, market, note: launch.note });
-  return { source: "launch", data, futureX: {}, horizon, result, preview, target: targetOf({ result, horizon, quantity: input.quantity, period: input.period }) };
+  return { source: "launch", data, futureX: {}, horizon, result, preview, target: targetOf({ result, horizon, firstPeriod: input.firstPeriod, quantity: input.quantity, period: input.period }) };
 }
 
 const plain = (v: number) => Number(v.toPrecision(4)).toLocaleString("en-GB");
@@ -323,12 +326,16 @@ const PERIOD_WORDS: Record<HistoryPeriod, readonly [string, string]> = {
 };
 
 /**
- * Plain words for what a baseline answers, e.g. "total of the next 12 months", "value in month 3
- * after the history"; for a launch baseline (periods counted from launch) "total of the first 12
- * months after launch", "value in month 3 after launch".
+ * Plain words for what a baseline answers, e.g. "total of the next 12 months", "total of months 4
+ * to 15 after the history", "value in month 3 after the history"; for a launch baseline (periods
+ * counted from launch) "total of the first 12 months after launch", "total of months 13 to 24
+ * after launch", "value in month 3 after launch". `from` is the first period of a total or average.
  */
-export function quantityLabel(quantity: string, period: string, n: number, launch = false): string {
+export function quantityLabel(quantity: string, period: string, n: number, launch = false, from = 1): string {
   const [one, many] = PERIOD_WORDS[period as HistoryPeriod] ?? PERIOD_WORDS.other;
+  if ((quantity === "total" || quantity === "average") && from > 1) {
+    return from === n ? `${quantity} of ${one} ${n} after ${launch ? "launch" : "the history"}` : `${quantity} of ${many} ${from} to ${n} after ${launch ? "launch" : "the history"}`;
+  }
   if (quantity === "total" || quantity === "average") {
     if (launch) return n === 1 ? `${quantity} of the first ${one} after launch` : `${quantity} of the first ${n} ${many} after launch`;
     return n === 1 ? `${quantity} of the next ${one}` : `${quantity} of the next ${n} ${many}`;
@@ -338,21 +345,22 @@ export function quantityLabel(quantity: string, period: string, n: number, launc
 
 /**
  * The forecast of the quantity the question asks for: the value in period `horizon` (the
- * step forecast), or the total over periods 1..horizon (lib/forecast/total.ts: the sum with the
- * errors' correlation across steps, never the sum of step bounds), or the average (the total's
- * mean and bounds divided by the number of periods). A total of periods a..b with a > 1 is not
- * offered: the core gives the distribution of totals from the first period only.
+ * step forecast), or the total over periods a..b = firstPeriod..horizon (lib/forecast/total.ts:
+ * the sum with the errors' correlation across steps, never the sum of step bounds), or the
+ * average (the total's mean and bounds divided by the number of periods b − a + 1). The periods
+ * come from the stored result's total (`from`, absent in results stored before windows = 1).
  */
-export function targetOf(b: { result: BaselineResult; horizon: number; quantity: string; period: string }): BaselineTarget {
+export function targetOf(b: { result: BaselineResult; horizon: number; firstPeriod?: number; quantity: string; period: string }): BaselineTarget {
   const quantity: BaselineQuantity = b.quantity === "total" || b.quantity === "average" ? b.quantity : "value";
   const period = (b.period in PERIOD_WORDS ? b.period : "other") as HistoryPeriod;
-  const head = { step: b.horizon, quantity, period, label: quantityLabel(quantity, period, b.horizon, b.result.launch !== undefined) };
+  const from = quantity === "value" ? b.horizon : (b.result.total?.from ?? b.firstPeriod ?? 1);
+  const head = { step: b.horizon, firstPeriod: from, quantity, period, label: quantityLabel(quantity, period, b.horizon, b.result.launch !== undefined, from) };
   if (quantity === "value") {
     const s = b.result.forecast[b.horizon - 1];
     return { ...head, how: null, mean: s?.mean ?? null, lower80: s?.lower["80"] ?? null, upper80: s?.upper["80"] ?? null, lower95: s?.lower["95"] ?? null, upper95: s?.upper["95"] ?? null };
   }
   const t = b.result.total;
-  const k = quantity === "average" ? b.horizon : 1;
+  const k = quantity === "average" ? b.horizon - from + 1 : 1;
   const per = (v: number | null | undefined) => (v === null || v === undefined ? null : v / k);
   return {
     ...head,
@@ -366,8 +374,8 @@ export function targetOf(b: { result: BaselineResult; horizon: number; quantity:
 }
 
 /** The stored baseline's target forecast. */
-export function storedTarget(b: Pick<Baseline, "result" | "horizon" | "quantity" | "period">): BaselineTarget {
-  return targetOf({ result: JSON.parse(b.result) as BaselineResult, horizon: b.horizon, quantity: b.quantity, period: b.period });
+export function storedTarget(b: Pick<Baseline, "result" | "horizon" | "firstPeriod" | "quantity" | "period">): BaselineTarget {
+  return targetOf({ result: JSON.parse(b.result) as BaselineResult, horizon: b.horizon, firstPeriod: b.firstPeriod, quantity: b.quantity, period: b.period });
 }
 
 async function findQuestion(panelId: string, questionId: string): Promise<Question> {
@@ -431,6 +439,7 @@ export async function storeBaseline(
     method: input.launch ? "bass" : input.method,
     horizon: a.horizon,
     quantity: input.quantity,
+    firstPeriod: input.quantity === "value" ? 1 : input.firstPeriod,
     period: input.period,
     result: JSON.stringify(a.result),
     preview: JSON.stringify(a.preview),
@@ -457,7 +466,7 @@ export async function attachBaseline(actor: Actor, panelId: string, questionId: 
       actorId: access.actor.userId,
       panelId,
       action: existed ? "baseline.replaced" : "baseline.attached",
-      detail: { questionId, method: a.result.method, horizon: a.horizon, quantity: input.quantity, period: input.period, observations: a.preview.observations, scaleFactor: input.analogue?.scaleFactor ?? 1 },
+      detail: { questionId, method: a.result.method, horizon: a.horizon, quantity: input.quantity, firstPeriod: a.target.firstPeriod, period: input.period, observations: a.preview.observations, scaleFactor: input.analogue?.scaleFactor ?? 1 },
     });
     return b;
   });

@@ -3,7 +3,8 @@
  * `baselineInput` parses: the CSV or the pasted values (each token must be a number; a token
  * that is not is reported with its position), the explanatory columns' target-period values
  * (`future.<column>`, comma-separated), the analogue's factor and note, season, method,
- * horizon, what the question asks for (quantity) and what one history row is (period). Empty optional fields are left out so the schema's defaults apply.
+ * horizon, the first period of a total or average (firstPeriod; dropped for a value), what
+ * the question asks for (quantity) and what one history row is (period). Empty optional fields are left out so the schema's defaults apply.
  * A launch baseline (`source` = launch) reads one analogue per line of `analogues`
  * ("Name: 120, 340, 610, …"), the market potential from a question (`marketSource` = question,
  * `marketQuestionId`) or as `marketLow` / `marketMedian` / `marketHigh`, and `launchNote`.
@@ -46,8 +47,15 @@ function launchValues(values: Record<string, string>, errors: Record<string, str
 export function baselineFormValues(values: Record<string, string>): BaselineFormRead {
   const errors: Record<string, string[]> = {};
   const input: Record<string, unknown> = withNumbers(
-    Object.fromEntries(Object.entries({ season: values.season ?? "", horizon: values.horizon ?? "" }).filter(([, v]) => v.trim() !== "")),
-    ["season", "horizon"],
+    Object.fromEntries(
+      Object.entries({
+        season: values.season ?? "",
+        horizon: values.horizon ?? "",
+        // A value in one period has no first period: a field left over from a total is not read.
+        firstPeriod: values.quantity === "value" ? "" : (values.firstPeriod ?? ""),
+      }).filter(([, v]) => v.trim() !== ""),
+    ),
+    ["season", "horizon", "firstPeriod"],
   );
   if (values.method) input.method = values.method;
   if (values.quantity) input.quantity = values.quantity;

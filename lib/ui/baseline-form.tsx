@@ -4,8 +4,8 @@
  * browser into the text box), pasted CSV, or pasted values; the value column and the
  * explanatory columns' values for the target period; optionally an analogous product's
  * history with its scale factor and a note; season, method; what the question asks for (the
- * value in period k, or the total or average over the next n periods) and what one history
- * row is (month, quarter, …). "Preview" reads and
+ * value in period k, or the total or average over periods a..b after the history, a = 1 by
+ * default) and what one history row is (month, quarter, …). "Preview" reads and
  * fits without storing and shows what was read (chart and rows) and the forecast it would
  * give; "Attach" stores it. Errors name the row and column (lib/csv messages).
  * For a product with no history, "Analogous launches" takes the adoptions of 1–5 analogous
@@ -57,6 +57,8 @@ export interface BaselineFormDefaults {
   readonly season: number;
   readonly method: string;
   readonly horizon: number | null;
+  /** First period a of a total or average (1 = the next period). */
+  readonly firstPeriod: number;
   readonly quantity: string;
   readonly period: string;
   readonly analogue: { readonly scaleFactor: number; readonly note: string } | null;
@@ -315,16 +317,20 @@ export default function BaselineForm({
             What the question asks for
             <select name="quantity" defaultValue={defaults.quantity}>
               <option value="value">the value in period k</option>
-              <option value="total">the total over the next n periods</option>
-              <option value="average">the average over the next n periods</option>
+              <option value="total">the total over periods a to b</option>
+              <option value="average">the average over periods a to b</option>
             </select>
             <FieldErr state={state} name="quantity" />
           </label>
           <label>
-            Horizon: k or n{" "}
-            <span className="hint">
-              {source === "launch" ? "periods after launch; a total or average always starts at the first" : "periods after the last history row; a total or average always starts at the first of them"}
-            </span>
+            First period a{" "}
+            <span className="hint">total or average only; 1 = the {source === "launch" ? "first period after launch" : "next period after the history"}</span>
+            <input name="firstPeriod" inputMode="numeric" defaultValue={defaults.firstPeriod} placeholder="1" />
+            <FieldErr state={state} name="firstPeriod" />
+          </label>
+          <label>
+            Horizon: k, or the last period b{" "}
+            <span className="hint">{source === "launch" ? "periods after launch" : "periods after the last history row"}</span>
             <input name="horizon" inputMode="numeric" defaultValue={defaults.horizon ?? ""} placeholder="1" />
             <FieldErr state={state} name="horizon" />
           </label>

@@ -101,11 +101,18 @@ export const baselineInput = z
       .describe("The history is an analogous product's, scaled by scaleFactor"),
     season: z.number().int("must be a whole number").min(1, "at least 1").max(52, "at most 52").default(1).describe("Season length (4 quarterly, 12 monthly)"),
     method: z.enum(BASELINE_METHODS).default("auto").describe("auto (ETS chosen by AICc and Theta, averaged) or a method id"),
-    horizon: z.number().int("must be a whole number").min(1, "at least 1").max(1000, "at most 1000").optional().describe("Steps to the target period (value), or the number of periods n (total, average)"),
+    horizon: z.number().int("must be a whole number").min(1, "at least 1").max(1000, "at most 1000").optional().describe("Steps to the target period (value), or the last period b of a total or average over periods firstPeriod..b"),
+    firstPeriod: z
+      .number()
+      .int("must be a whole number")
+      .min(1, "at least 1")
+      .max(1000, "at most 1000")
+      .default(1)
+      .describe("First period a of a total or average over periods a..horizon after the last history row (after launch for a launch baseline); default 1, the next period. Only with quantity total or average"),
     quantity: z
       .enum(BASELINE_QUANTITIES)
       .default("value")
-      .describe("What the question asks for: value (in period `horizon`), total or average (over the next `horizon` periods, always from the first: the forecast core gives totals of periods 1..n only)"),
+      .describe("What the question asks for: value (in period `horizon`), total or average (over periods `firstPeriod`..`horizon`; firstPeriod defaults to 1, the next `horizon` periods)"),
     period: z.enum(HISTORY_PERIODS).default("other").describe("What one history row is: month, quarter, year, week, day or other"),
     launch: launchInput.optional().describe("A launch baseline instead of a history: Bass diffusion fitted to analogous products, market potential from the panel"),
   })
@@ -118,6 +125,12 @@ export const baselineInput = z
       if (b.method !== "auto" && b.method !== "bass") ctx.addIssue({ code: "custom", path: ["method"], message: "a launch baseline uses the Bass method (give auto or bass)" });
       if (b.analogue !== undefined) ctx.addIssue({ code: "custom", path: ["analogue"], message: "a launch baseline names its analogues under launch.analogues; leave out analogue" });
       if (b.futureValues !== undefined) ctx.addIssue({ code: "custom", path: ["futureValues"], message: "a launch baseline has no explanatory columns" });
+    }
+    if (b.firstPeriod !== 1 && b.quantity === "value") {
+      ctx.addIssue({ code: "custom", path: ["firstPeriod"], message: "a first period applies to a total or average; for the value in one period give only the horizon" });
+    }
+    if (b.horizon !== undefined && b.firstPeriod > b.horizon) {
+      ctx.addIssue({ code: "custom", path: ["firstPeriod"], message: `the first period must not be after the last one (the horizon, ${b.horizon})` });
     }
     if (b.values !== undefined && b.futureValues !== undefined) {
       ctx.addIssue({ code: "custom", path: ["futureValues"], message: "pasted values have no explanatory columns; use csv" });

@@ -18,10 +18,11 @@ const weightRule = z.enum(["equal", "inverse-mse", "organiser"]);
 
 export const baselineTarget = z
   .object({
-    step: z.number().int().describe("value: steps to the target period; total, average: the number of periods"),
+    step: z.number().int().describe("value: steps to the target period; total, average: the last period b of periods firstPeriod..b"),
+    firstPeriod: z.number().int().describe("total, average: the first period a of periods a..step (1: the next period); value: equal to step"),
     quantity: z.enum(["value", "total", "average"]),
     period: z.enum(["month", "quarter", "year", "week", "day", "other"]).describe("what one history row is"),
-    label: z.string().describe("plain words, e.g. total of the next 12 months"),
+    label: z.string().describe("plain words, e.g. total of the next 12 months, total of months 4 to 15 after the history"),
     how: z.string().nullable().describe("how the total's distribution was made"),
     mean: n0,
     lower80: n0,
@@ -65,6 +66,17 @@ export const baselineResult = z
     accuracy: z.object({ insample: z.object({ mae: n0, rmse: n0, mape: n0, smape: n0, mase: n0 }) }),
     candidates: z.array(z.object({ method: z.string(), mase: n0, error: z.string().optional() })).optional().describe("rolling-origin holdout MASE per method (automatic selection)"),
     combination: z.array(z.object({ method: z.string(), parameters: z.record(z.string(), n0) })).optional(),
+    total: z
+      .object({
+        from: z.number().int().optional().describe("first period summed (absent in results stored before windows: 1)"),
+        to: z.number().int().optional().describe("last period summed (the horizon)"),
+        mean: n0,
+        lower: z.record(z.string(), n0),
+        upper: z.record(z.string(), n0),
+        how: z.string(),
+      })
+      .optional()
+      .describe("the total over periods from..to after the history (total and average quantities; docs/methods.md §10)"),
     launch: launchResult.optional().describe("a launch baseline: the analogues' Bass fits, p and q carried over, the market potential (docs/methods.md §19)"),
     notes: z.array(z.string()),
   })

@@ -11,8 +11,8 @@ export const jobs = {
   /** The baseline engine's fit and forecast (lib/forecast/baseline.ts). */
   baseline: (arg: { readonly series: RawSeries; readonly options: Omit<BaselineOptions, "methods"> }) => baseline(arg.series, arg.options),
   /** A launch baseline's simulation (lib/forecast/launch.ts). */
-  launch: (arg: { readonly analogues: readonly { readonly name: string; readonly values: readonly number[] }[]; readonly market: MarketPotential; readonly horizon: number }) =>
-    launchForecast(arg.analogues, arg.market, arg.horizon, [80, 95]),
+  launch: (arg: { readonly analogues: readonly { readonly name: string; readonly values: readonly number[] }[]; readonly market: MarketPotential; readonly horizon: number; readonly from?: number }) =>
+    launchForecast(arg.analogues, arg.market, arg.horizon, [80, 95], undefined, arg.from ?? 1),
 };
 
 export type Jobs = typeof jobs;

@@ -3,7 +3,8 @@
  * after launch, a history of 24 monthly values with season 12. Attached as "the value in period
  * 12" (the old behaviour) the baseline is one month's forecast, outside the question's plausible
  * range, and the API warns; as "the total over the next 12 periods" it answers the question:
- * inside the range, and the blend lies between the legs.
+ * inside the range, and the blend lies between the legs. A total over months a..b (a window
+ * after the next period) is stored and shown in the same words.
  *
  * History: R's AirPassengers, January 1949 to December 1950 (public; R datasets), in thousands.
  * Method seasonal naive, so the expected figures are hand computations: its step-12 forecast is
@@ -81,6 +82,31 @@ describe("month-to-year: what the baseline answers", () => {
     const report = await ok("GET", `/api/v1/panels/${panelId}/questions/${questionId}/report.json`, owner);
     expect(report.legs.baseline.target.label).toBe("total of the next 12 months");
     expect(report.inputs.join(" ")).toMatch(/the baseline answers the total of the next 12 months .*; the question's target period: first 12 months after launch/);
+  });
+
+  it("the total of months 4..14 after the history (a window): stored, shown in words, in the report, and in the API document", async () => {
+    const b = await ok("PUT", `${q()}/baseline`, owner, { ...history, horizon: 14, firstPeriod: 4, quantity: "total" });
+    // Seasonal naive: months 4..14 after December 1950 repeat April 1950..February 1950+1:
+    // 135 + 125 + 149 + 170 + 170 + 158 + 133 + 114 + 140 + 115 + 126 = 1,535 (hand sum).
+    expect(b.target).toMatchObject({ quantity: "total", step: 14, firstPeriod: 4, label: "total of months 4 to 14 after the history", mean: 1535 });
+    expect(b.result.total).toMatchObject({ from: 4, to: 14 });
+    expect(b.target.lower80).toBeLessThan(1535);
+    expect(b.target.upper80).toBeGreaterThan(1535);
+    const again = await ok("GET", `${q()}/baseline`, owner);
+    expect(again.target).toMatchObject({ firstPeriod: 4, step: 14, mean: 1535 });
+    const report = await ok("GET", `/api/v1/panels/${panelId}/questions/${questionId}/report.json`, owner);
+    expect(report.legs.baseline.target.label).toBe("total of months 4 to 14 after the history");
+    expect(report.inputs.join(" ")).toMatch(/the baseline answers the total of months 4 to 14 after the history/);
+    const doc = await ok("GET", "/api/v1/openapi.json", owner);
+    expect(JSON.stringify(doc)).toMatch(/First period a of a total or average over periods a\.\.horizon/);
+  });
+
+  it("refuses a first period after the horizon, or with a value, with 422 naming firstPeriod", async () => {
+    for (const body of [{ ...history, horizon: 3, firstPeriod: 4, quantity: "total" }, { ...history, firstPeriod: 2 }]) {
+      const res = await api("PUT", `${q()}/baseline`, { token: owner, body });
+      expect(res.status).toBe(422);
+      expect(res.body.errors.map((e: any) => e.field)).toEqual(["firstPeriod"]);
+    }
   });
 
   it("refuses a quantity or period it does not know with 422 naming the field", async () => {

@@ -102,4 +102,21 @@ describe("month-to-year baseline in the browser", () => {
     expect(blend).toBeGreaterThan(Math.min(panel, baseline));
     expect(blend).toBeLessThan(Math.max(panel, baseline));
   });
+
+  it("a total over months 4..14 (first period a, last period b): the preview says so in words", async () => {
+    await org.goto(`${baseURL}/panels/${panelId}/questions/${questionId}`);
+    await org.getByText("Change the history or the method").click();
+    await org.getByLabel("Pasted values, oldest first").check();
+    await org.getByLabel(/^Values/).fill(AIR24.join(", "));
+    await org.getByLabel(/^Season length/).fill("12");
+    await org.getByRole("combobox", { name: /^Method/ }).selectOption("seasonal-naive");
+    await org.getByRole("combobox", { name: /^What the question asks for/ }).selectOption("total");
+    await org.getByLabel(/^First period a/).fill("4");
+    await org.getByLabel(/^Horizon/).fill("14");
+    await org.getByRole("combobox", { name: /^Each history row is one/ }).selectOption("month");
+    await org.getByRole("button", { name: "Preview", exact: true }).click();
+    await expect.poll(() => org.locator("[data-preview-target]").textContent()).toBe("total of months 4 to 14 after the history");
+    // Seasonal naive: April 1950 … February 1950's values, 1,676 − 141 (March) = 1,535 (hand sum).
+    expect(await stat("preview-target-mean")).toBe(1535);
+  });
 });

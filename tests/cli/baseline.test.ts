@@ -84,6 +84,39 @@ describe("triangulate baseline", () => {
     expect(cli(["baseline", NIST12, "--value", "y", "--method", "naive", "--horizon", "3"]).out).not.toContain('"total"');
   });
 
+  it("--from 2 --horizon 3 --total: the total of periods 2..3 of a random walk, variance σ²(4 + 4 + 1)", () => {
+    const res = cli(["baseline", NIST12, "--value", "y", "--method", "naive", "--horizon", "3", "--total", "--from", "2"]);
+    expect(res.err).toBe("");
+    expect(res.code).toBe(0);
+    const out = JSON.parse(res.out);
+    // Expected: σ from R's forecast::naive as above; innovation ε_{n+i} enters steps max(i, 2)..3:
+    // ε1 and ε2 twice, ε3 once, so var = σ²(2² + 2² + 1²) = 9σ² (hand computation); mean 2·y_n.
+    const rv = r(
+      `y <- read.csv("${NIST12}")$y; f <- forecast::naive(y, h = 3, level = 80);
+       s <- (f$mean[1] - f$lower[1, 1]) / qnorm(0.9); z <- qnorm(c(0.9, 0.975)); m <- sum(f$mean[2:3])
+       cat(format(c(m, m - z * s * 3, m + z * s * 3), digits = 17))`,
+    );
+    expect(out.total).toMatchObject({ from: 2, to: 3 });
+    expect(out.total.mean).toBeCloseTo(rv[0], 9);
+    expect(out.total.lower["80"]).toBeCloseTo(rv[1], 9);
+    expect(out.total.lower["95"]).toBeCloseTo(rv[2], 9);
+    expect(out.total.upper["80"]).toBeCloseTo(rv[3], 9);
+    expect(out.total.upper["95"]).toBeCloseTo(rv[4], 9);
+    const table = cli(["baseline", NIST12, "--value", "y", "--method", "naive", "--horizon", "3", "--total", "--from", "2", "--format", "table"]);
+    expect(table.out).toContain("total of steps 2-3:");
+  });
+
+  it("--from after --horizon, or without --total, is a usage error (exit 2)", () => {
+    const late = cli(["baseline", NIST12, "--value", "y", "--horizon", "3", "--total", "--from", "4"]);
+    expect(late.code).toBe(2);
+    expect(late.err).toContain("--from 4 is after the last period, --horizon 3");
+    const alone = cli(["baseline", NIST12, "--value", "y", "--horizon", "3", "--from", "2"]);
+    expect(alone.code).toBe(2);
+    expect(alone.err).toContain("give --total with it");
+    const zero = cli(["baseline", NIST12, "--value", "y", "--horizon", "3", "--total", "--from", "0"]);
+    expect(zero.code).toBe(2);
+  });
+
   it("the automatic baseline combines ets and theta and keeps the field names of issue 2", () => {
     const res = cli(["baseline", "airpassengers.csv", "--season", "12", "--horizon", "12"]);
     expect(res.err).toBe("");

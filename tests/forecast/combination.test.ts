@@ -5,7 +5,7 @@
  */
 import { describe, expect, it } from "vitest";
 import { baseline } from "../../lib/forecast/baseline";
-import { combineForecasts, type CombinationMember } from "../../lib/forecast/combination";
+import { combineForecasts, combineTotals, overlapDegreesOfFreedom, type CombinationMember } from "../../lib/forecast/combination";
 import { rEval } from "../helpers/r";
 
 /**
@@ -127,5 +127,73 @@ describe("combineForecasts: quantile average widened to the history's relative e
     c.spread.forEach((v, j) => expect(v).toBeCloseTo(r.s[j], 10));
     c.lower["95"].forEach((v, j) => expect(v).toBeCloseTo(r.lo2[j], 6));
     c.upper["80"].forEach((v, j) => expect(v).toBeCloseTo(r.hi1[j], 6));
+  });
+});
+
+/**
+ * The window total's rule (docs/methods.md §20), written independently in R: the two SES
+ * members' totals over periods a..h (ETS(A,N,N) closed form with σ from R's own one-step bound:
+ * ε_{n+i} has weight (h − a + 1)α for i < a and 1 + (h − i)α for i ≥ a), averaged quantile by
+ * quantile; the relative errors of the combination's window sums from origins t ≥ max(2, ⌈n/3⌉);
+ * the effective degrees of freedom N²/Σ_{r,s} ρ²_{|t_r − t_s|}, ρ_k = Σ_i w_i w_{i+k} / Σ_i w_i² with
+ * the innovations' weights w_i = Σ_{j=max(i,a)}^{h} ψ_{j−i} of the members' average step sd read as
+ * a linear innovations model (ψ_0 = 1, ψ_k = √((v_{k+1} − v_k)/v_1)); R's qt().
+ */
+function windowTotalInR(values: string, h: number, a: number) {
+  return rEval(`y <- ${values}; n <- length(y); h <- ${h}; a <- ${a}; w <- h - a + 1; al <- c(0.3, 0.8)
+    fc <- lapply(al, function(x) ses(y, alpha = x, initial = "simple", h = h, level = c(80, 95)))
+    org <- lapply(al, function(x) t(sapply(1:n, function(t) if (t == 1) rep(y[1], h) else as.numeric(ses(y[1:t], alpha = x, initial = "simple", h = h)$mean))))
+    orig <- lapply(org, function(o) rbind(rep(y[1], h), o[1:(n - 1), , drop = FALSE]))
+    i <- 1:h; z <- qnorm(c(0.9, 0.975))
+    tot <- lapply(1:2, function(k) { s <- (fc[[k]]$upper[1, 2] - fc[[k]]$mean[1]) / qnorm(0.975)
+      wt <- ifelse(i < a, w * al[k], 1 + (h - i) * al[k]); m <- sum(fc[[k]]$mean[a:h]); sd <- s * sqrt(sum(wt^2))
+      list(mean = m, lo = m - z * sd, hi = m + z * sd) })
+    mu <- (tot[[1]]$mean + tot[[2]]$mean) / 2
+    t0 <- max(2, ceiling(n / 3)); e <- c(); used <- c()
+    for (t in t0:(n - h)) { f <- (orig[[1]][t + 1, ] + orig[[2]][t + 1, ]) / 2; fs <- sum(f[a:h]); e <- c(e, (sum(y[t + (a:h)]) - fs) / fs); used <- c(used, t) }
+    s <- sqrt(mean(e^2)); N <- length(e)
+    sdm <- ((fc[[1]]$upper[, 2] - fc[[1]]$mean) + (fc[[2]]$upper[, 2] - fc[[2]]$mean)) / 2 / qnorm(0.975); v <- sdm^2
+    psi <- c(1, sqrt(pmax(diff(v), 0) / v[1]))
+    wts <- sapply(1:h, function(i) sum(psi[(max(i, a):h) - i + 1]))
+    g <- sapply(0:(h - 1), function(k) sum(wts[1:(h - k)] * wts[(1 + k):h]))
+    D <- abs(outer(used, used, "-")); rho <- ifelse(D < h, g[pmin(D, h - 1) + 1] / g[1], 0)
+    df <- N^2 / sum(rho^2)
+    q <- qt(c(0.9, 0.975), df)
+    lo <- pmin((tot[[1]]$lo + tot[[2]]$lo) / 2, mu - q * s * abs(mu)); hi <- pmax((tot[[1]]$hi + tot[[2]]$hi) / 2, mu + q * s * abs(mu))
+    for (k in 1:2) { out(paste0("tm", k), tot[[k]]$mean); out(paste0("tl", k), tot[[k]]$lo); out(paste0("th", k), tot[[k]]$hi)
+      out(paste0("orig", k), t(orig[[k]])); out(paste0("sd", k), (fc[[k]]$upper[, 2] - fc[[k]]$mean) / qnorm(0.975)) }
+    out("y", y); out("mu", mu); out("lo", lo); out("hi", hi); out("df", df); out("N", N)`);
+}
+
+describe("combineTotals: a window's total widened to the history's window sums", () => {
+  it("matches an R computation of the rule for periods 4..10 on the Nile series", () => {
+    const [h, a] = [10, 4];
+    const r = windowTotalInR("as.numeric(Nile)", h, a);
+    const members = [1, 2].map((i) => ({ forecast: { method: "ses" as const, mean: [], levels: [80, 95], lower: {}, upper: {}, sd: r[`sd${i}`] }, origins: Array.from({ length: r.y.length }, (_, t) => r[`orig${i}`].slice(t * h, (t + 1) * h)) }));
+    const totals = [1, 2].map((i) => ({ mean: r[`tm${i}`][0], lower: { "80": r[`tl${i}`][0], "95": r[`tl${i}`][1] }, upper: { "80": r[`th${i}`][0], "95": r[`th${i}`][1] } }));
+    const c = combineTotals(totals, members, r.y, 1, h, [80, 95], a);
+    expect(c.sums).toBe(r.N[0]);
+    expect(c.df).toBeCloseTo(r.df[0], 10);
+    expect(c.mean).toBeCloseTo(r.mu[0], 8);
+    expect(c.lower["80"]).toBeCloseTo(r.lo[0], 6);
+    expect(c.lower["95"]).toBeCloseTo(r.lo[1], 6);
+    expect(c.upper["80"]).toBeCloseTo(r.hi[0], 6);
+    expect(c.upper["95"]).toBeCloseTo(r.hi[1], 6);
+  });
+
+  it("effective degrees of freedom of overlapping sums (hand computation)", () => {
+    // Independent period errors, window of 2 (weights 1, 1), origins 0, 1, 2: ρ_1 = 1/2, ρ_2 = 0;
+    // Σ ρ² = 3 + 2·(2·¼) = 4, ν = 9/4.
+    expect(overlapDegreesOfFreedom([0, 1, 2], [1, 1])).toBeCloseTo(2.25, 14);
+    // No overlap: as many degrees of freedom as sums.
+    expect(overlapDegreesOfFreedom([0, 1, 2, 3], [1])).toBe(4);
+    expect(overlapDegreesOfFreedom([0, 5, 10], [1, 1, 1, 1, 1])).toBe(3);
+    // Window of 3, origins 0, 1, 3 (one skipped): pairs (0,1) ρ = 2/3, (1,3) ρ = 1/3, (0,3) 0:
+    // Σ = 3 + 2·(4/9 + 1/9) = 37/9, ν = 9/(37/9) = 81/37.
+    expect(overlapDegreesOfFreedom([0, 1, 3], [1, 1, 1])).toBeCloseTo(81 / 37, 14);
+    // Random walk, total of 3 periods: weights 3, 2, 1; origins 0, 1: ρ_1 = (3·2 + 2·1)/14 = 4/7,
+    // Σ = 2 + 2·16/49 = 130/49, ν = 4·49/130 = 98/65.
+    expect(overlapDegreesOfFreedom([0, 1], [3, 2, 1])).toBeCloseTo(98 / 65, 14);
+    expect(overlapDegreesOfFreedom([], [1, 1, 1])).toBe(0);
   });
 });

@@ -32,13 +32,14 @@ describe("launch forecast", () => {
         nls(y ~ m * (Fb(t, p, q) - Fb(t - 1, p, q)), start = list(p = 0.03, q = 0.38, m = 1.1 * sum(y)),
           algorithm = "port", lower = c(1e-9, 0, 1), control = list(maxiter = 1000, eval.max = 5000)) })
       D <- 40000; H <- 12; med <- 20000; sig <- log(40000 / 10000) / (2 * qnorm(0.9))
-      set.seed(1); tot <- numeric(D); s3 <- numeric(D)
+      set.seed(1); tot <- numeric(D); s3 <- numeric(D); w5 <- numeric(D)
       for (d in 1:D) { f <- fits[[(d - 1) %% 2 + 1]]; cf <- coef(f); L <- t(chol(vcov(f)[1:2, 1:2]))
         repeat { z <- L %*% rnorm(2); p <- cf[1] + z[1]; q <- cf[2] + z[2]; if (p > 0 && q >= 0) break }
         m <- med * exp(sig * rnorm(1)); s <- sqrt(deviance(f) / (length(fitted(f)) - 3)) * m / cf[3]
-        v <- pmax(0, m * (Fb(1:H, p, q) - Fb(0:(H - 1), p, q)) + s * rnorm(H)); tot[d] <- sum(v); s3[d] <- v[3] }
+        v <- pmax(0, m * (Fb(1:H, p, q) - Fb(0:(H - 1), p, q)) + s * rnorm(H)); tot[d] <- sum(v); s3[d] <- v[3]; w5[d] <- sum(v[5:H]) }
       out("tot", quantile(tot, c(0.025, 0.1, 0.5, 0.9, 0.975))); out("totsd", sd(tot))
-      out("s3", quantile(s3, c(0.1, 0.9))); out("s3sd", sd(s3))`, { withForecast: false });
+      out("s3", quantile(s3, c(0.1, 0.9))); out("s3sd", sd(s3))
+      out("w5", quantile(w5, c(0.1, 0.9))); out("w5sd", sd(w5))`, { withForecast: false });
     const fc = launchForecast(
       [{ name: "first", values: r.a1 }, { name: "second", values: r.a2 }],
       marketPotentialFromRange(10000, 20000, 40000, "given"),
@@ -56,6 +57,11 @@ describe("launch forecast", () => {
     expect(fc.total.lower["80"]).toBeLessThan(fc.total.mean);
     expect(fc.total.mean).toBeLessThan(fc.total.upper["80"]);
     expect(fc.analogues.map((a) => a.name)).toEqual(["first", "second"]);
+    // The total of periods 5..12 after launch: R's simulated launches summed over [5:12].
+    const late = launchForecast([{ name: "first", values: r.a1 }, { name: "second", values: r.a2 }], marketPotentialFromRange(10000, 20000, 40000, "given"), 12, [80, 95], undefined, 5);
+    expect(Math.abs(late.total.lower["80"] - r.w5[0])).toBeLessThan(tol(0.1, r.w5sd[0]));
+    expect(Math.abs(late.total.upper["80"] - r.w5[1])).toBeLessThan(tol(0.9, r.w5sd[0]));
+    expect(() => launchForecast([{ name: "first", values: r.a1 }], marketPotentialFromRange(10000, 20000, 40000, "given"), 12, [80], undefined, 13)).toThrow(/first period/);
   });
 
   it("names the analogue the fit refuses", () => {

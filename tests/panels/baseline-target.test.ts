@@ -59,6 +59,35 @@ describe("the quantity a baseline answers", () => {
     expectClose([a.target.mean!, a.target.lower80!, a.target.upper80!], [total / 12, (total - 1.2815515655446004 * sd) / 12, (total + 1.2815515655446004 * sd) / 12], 1e-10, "snaive average vs R");
   });
 
+  it("the total and average of months 4..15 (a..b): R's summed means over the window, bounds from 15σ²", async () => {
+    const [[windowTotal]] = runR(`
+      suppressMessages(library(forecast))
+      f <- snaive(ts(${rVector(AIR24)}, frequency = 12), h = 15)
+      out(sum(f$mean[4:15]))
+    `);
+    // Lag-12 walk, window 4..15: innovation ε_{n+i} recurs at steps i and i + 12; inside 4..15
+    // each of i = 1..15 is counted once (i = 1, 2, 3 at steps 13, 14, 15; i ≥ 4 at step i):
+    // var = 15σ² (hand computation from lib/forecast/total.ts's decomposition).
+    const wsd = Math.sqrt(15) * sigma;
+    const z80 = 1.2815515655446004; // Φ⁻¹(0.9), R qnorm(0.9)
+    const a = await analyseBaseline(parse({ values: AIR24, season: 12, method: "seasonal-naive", horizon: 15, firstPeriod: 4, quantity: "total", period: "month" }));
+    expect(a.target).toMatchObject({ quantity: "total", step: 15, firstPeriod: 4, label: "total of months 4 to 15 after the history" });
+    expectClose([a.target.mean!, a.target.lower80!, a.target.upper80!], [windowTotal, windowTotal - z80 * wsd, windowTotal + z80 * wsd], 1e-10, "snaive window total vs R");
+    expect(windowTotal).toBe(135 + 125 + 149 + 170 + 170 + 158 + 133 + 114 + 140 + 115 + 126 + 141); // 1950's April–December, then January–March (hand)
+    const avg = await analyseBaseline(parse({ values: AIR24, season: 12, method: "seasonal-naive", horizon: 15, firstPeriod: 4, quantity: "average", period: "month" }));
+    expect(avg.target.label).toBe("average of months 4 to 15 after the history");
+    expectClose([avg.target.mean!, avg.target.upper80!], [windowTotal / 12, (windowTotal + z80 * wsd) / 12], 1e-10, "window average = total / 12 periods");
+  });
+
+  it("a first period is refused for a value, after the horizon, or after the default horizon (named field)", async () => {
+    expect(baselineInput.safeParse({ values: [1, 2], horizon: 3, firstPeriod: 2 }).error?.issues[0].path).toEqual(["firstPeriod"]);
+    expect(baselineInput.safeParse({ values: [1, 2], horizon: 3, firstPeriod: 4, quantity: "total" }).error?.issues[0].path).toEqual(["firstPeriod"]);
+    expect(parse({ values: [1, 2], quantity: "total" }).firstPeriod).toBe(1);
+    await expect(analyseBaseline(parse({ values: AIR24, method: "naive", firstPeriod: 3, quantity: "total" }))).rejects.toMatchObject({ errors: [{ field: "firstPeriod" }] });
+    expect(quantityLabel("total", "month", 15, true, 13)).toBe("total of months 13 to 15 after launch");
+    expect(quantityLabel("average", "year", 3, false, 3)).toBe("average of year 3 after the history");
+  });
+
   it("the request schema offers value, total and average and the six period names, and keeps today's default", () => {
     expect(parse({ values: [1, 2] })).toMatchObject({ quantity: "value", period: "other" });
     expect(baselineInput.safeParse({ values: [1, 2], quantity: "sum" }).error?.issues[0].path).toEqual(["quantity"]);

@@ -45,4 +45,13 @@ describe("baselineFormValues", () => {
     expect(Object.keys(r.fieldErrors)).toEqual(["season"]);
     expect(r.fieldErrors.season?.[0]).toContain("contains letters");
   });
+
+  it("reads the first period of a total, and leaves a stale one out for a value in one period", () => {
+    const total = baselineFormValues({ source: "values", values: "1 2 3", quantity: "total", firstPeriod: "4", horizon: "15" });
+    expect(total).toEqual({ ok: true, input: { values: [1, 2, 3], quantity: "total", firstPeriod: 4, horizon: 15 } });
+    const value = baselineFormValues({ source: "values", values: "1 2 3", quantity: "value", firstPeriod: "4", horizon: "15" });
+    expect(value).toEqual({ ok: true, input: { values: [1, 2, 3], quantity: "value", horizon: 15 } });
+    if (!total.ok) throw new Error("unreachable");
+    expect(baselineInput.parse(total.input)).toMatchObject({ firstPeriod: 4, horizon: 15, quantity: "total" });
+  });
 });

@@ -104,6 +104,7 @@ export default async function QuestionPage({ params }: { params: Promise<{ id: s
                   season: baseline?.season ?? 1,
                   method: baseline?.requestedMethod ?? "auto",
                   horizon: baseline?.horizon ?? null,
+                  firstPeriod: baseline && baseline.target.quantity !== "value" ? baseline.target.firstPeriod : 1,
                   quantity: baseline?.target.quantity ?? "value",
                   period: baseline?.target.period ?? "other",
                   analogue: baseline?.analogue ?? null,

@@ -1,0 +1,2 @@
+-- AlterTable
+ALTER TABLE "Baseline" ADD COLUMN "firstPeriod" INTEGER NOT NULL DEFAULT 1;
