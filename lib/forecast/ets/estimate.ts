@@ -1,6 +1,6 @@
 /**
  * Maximum-likelihood estimation of one ETS member in state-space form (any error type), for
- * the multiplicative-error members: the additive-error ones are fitted by lib/forecast/ets.ts,
+ * the multiplicative-error members: the additive-error ones are fitted by ./least-squares.ts,
  * whose least squares is their likelihood.
  *
  * The parameters and the initial states ℓ0, b0, s1…s(m−1) (s_m makes the seasonal states sum to
@@ -13,7 +13,7 @@
  * σ² = Σ ε_t² / (n − k), k the number of estimated parameters and states (R's ets).
  */
 import { minimise } from "../optimise";
-import { etsKeys, ALPHA_LOWER, ALPHA_UPPER, BETA_LOWER, GAMMA_LOWER, PHI_LOWER, PHI_UPPER } from "../ets";
+import { etsKeys, ALPHA_LOWER, ALPHA_UPPER, BETA_LOWER, GAMMA_LOWER, PHI_LOWER, PHI_UPPER } from "./model";
 import { ForecastInputError } from "../types";
 import { aicc, filterSeries, makeState, type EtsSpec, type EtsState, type Filtered, type Smoothing } from "./state-space";
 
@@ -60,7 +60,7 @@ export function evaluate(
 
 /**
  * Fits a member by maximum likelihood from `start` (every parameter and initial state, keys as
- * in etsKeys, lib/forecast/ets.ts); values in `fixed` are held. Needs y > 0 for an M error or M season.
+ * in etsKeys, ./model.ts); values in `fixed` are held. Needs y > 0 for an M error or M season.
  * @throws ForecastInputError for non-positive data with a multiplicative part, or too few observations.
  */
 export function fitStateSpace(

@@ -18,7 +18,7 @@
  *   p_t = y_t (N), y_t − s_{t−m} (A), y_t / s_{t−m} (M);  r_t = y_t − q_t (A), y_t / q_t (M).
  * E.g. for M,A,M: p_t − q_t = q_t ε_t, so ℓ_t = q_t (1 + α ε_t) and b_t = b_{t−1} + β q_t ε_t.
  */
-import type { SeasonKind, TrendKind } from "../ets";
+import type { SeasonKind, TrendKind } from "./model";
 
 /** Error type: additive or multiplicative. */
 export type ErrorKind = "A" | "M";
