@@ -15,7 +15,7 @@
 import { minimise } from "../optimise";
 import { etsKeys, ALPHA_LOWER, ALPHA_UPPER, BETA_LOWER, GAMMA_LOWER, PHI_LOWER, PHI_UPPER } from "./model";
 import { ForecastInputError } from "../types";
-import { aicc, filterSeries, makeState, type EtsSpec, type EtsState, type Filtered, type Smoothing } from "./state-space";
+import { aicc, filterSeries, likelihood, makeState, type EtsSpec, type EtsState, type Filtered, type Smoothing } from "./state-space";
 
 /** Objective evaluations allowed to the search over every free value (R's ets allows 2,000 Nelder–Mead iterations). */
 const FULL_SEARCH_BUDGET = 2000;
@@ -147,7 +147,7 @@ export function fitStateSpace(
     }
     init.level = iL0 >= 0 ? x[iL0] : cL0;
     init.trend = !trended ? 0 : iB0 >= 0 ? x[iB0] : cB0;
-    return filterSeries(spec, trial, init, y, work, null).lik;
+    return likelihood(spec, trial, init, y, work);
   };
   if (!Number.isFinite(objective(x0)) && x0.some((v) => !Number.isFinite(v))) {
     throw new ForecastInputError(`ETS(${spec.error},${spec.trend},${spec.season}): no finite start`);
