@@ -26,9 +26,10 @@
 import { readFileSync } from "node:fs";
 import { availableParallelism, loadavg } from "node:os";
 import { parseArgs } from "node:util";
-import { Worker } from "node:worker_threads";
 import { meanAbsoluteScaledError, symmetricMape } from "../lib/forecast/accuracy";
+import { createPool } from "../lib/work/pool";
 import type { M3Series, SeriesScore } from "./m3-score";
+import type { benchJobs } from "./m3-worker";
 
 interface Tally {
   series: number;
@@ -50,48 +51,17 @@ interface Tally {
 
 const empty = (): Tally => ({ series: 0, smape: 0, mase: 0, maseCount: 0, points: 0, in80: 0, in95: 0, failures: 0, incoherent: 0, thetaSmape: 0, thetaMase: 0, thetaCount: 0, totals: 0, total80: 0, total95: 0 });
 
-/** Starts a worker and resolves when it is ready (its module graph loaded). */
-function startWorker(): Promise<Worker> {
-  const w = new Worker(new URL("./m3-worker-boot.mjs", import.meta.url));
-  return new Promise((resolve, reject) => {
-    w.once("online", () => resolve(w));
-    w.once("error", reject);
-  });
-}
-
-/** Scores every series on `threads` workers, each taking the next series when free. */
+/** Scores every series on a pool of `threads` workers (lib/work/pool.ts), each taking the next series when free. */
 async function scoreAll(series: readonly M3Series[], method: string, threads: number, total: boolean, from: number): Promise<{ scores: SeriesScore[]; seconds: number; cpuSeconds: number }> {
-  const workers = await Promise.all(Array.from({ length: Math.min(threads, series.length) }, startWorker));
+  const pool = createPool<typeof benchJobs>(new URL("./m3-worker-boot.mjs", import.meta.url), Math.min(threads, series.length));
   // Warm-up: one small series per worker, so that module loading is not counted in the time.
-  await Promise.all(workers.map((w) => new Promise((resolve) => {
-    w.once("message", resolve);
-    w.postMessage({ index: -1, series: series[0], method, total, from });
-  })));
-  const scores: SeriesScore[] = new Array(series.length);
-  let next = 0;
+  await Promise.all(Array.from({ length: Math.min(threads, series.length) }, () => pool.run("score", { series: series[0], method, total, from })));
   const t0 = performance.now();
   const c0 = process.cpuUsage();
-  await Promise.all(
-    workers.map(
-      (w) =>
-        new Promise<void>((resolve, reject) => {
-          const send = () => {
-            if (next >= series.length) return resolve();
-            const index = next++;
-            w.postMessage({ index, series: series[index], method, total, from });
-          };
-          w.on("message", (m: { index: number; score: SeriesScore }) => {
-            scores[m.index] = m.score;
-            send();
-          });
-          w.on("error", reject);
-          send();
-        }),
-    ),
-  );
+  const scores = await Promise.all(series.map((s) => pool.run("score", { series: s, method, total, from })));
   const seconds = (performance.now() - t0) / 1000;
   const cpu = process.cpuUsage(c0);
-  await Promise.all(workers.map((w) => w.terminate()));
+  await pool.close();
   return { scores, seconds, cpuSeconds: (cpu.user + cpu.system) / 1e6 };
 }
 

@@ -1,12 +1,13 @@
 /**
- * One worker thread of the M3 bench (bench/m3-coverage.ts): scores each series it is sent and
- * answers with the series' figures (plain data).
+ * One worker thread of the M3 bench (bench/m3-coverage.ts, through lib/work/pool.ts): scores
+ * each series it is sent and answers with the series' figures (plain data).
  */
-import { parentPort } from "node:worker_threads";
+import { serveJobs } from "../lib/work/serve";
 import { scoreSeries, type M3Series, type SeriesScore } from "./m3-score";
 
-const port = parentPort!;
-port.on("message", (m: { index: number; series: M3Series; method: string; total: boolean; from?: number }) => {
-  const score: SeriesScore = scoreSeries(m.series, m.method, m.total, m.from ?? 1);
-  port.postMessage({ index: m.index, score });
-});
+/** The bench's job table. */
+export const benchJobs = {
+  score: (arg: { readonly series: M3Series; readonly method: string; readonly total: boolean; readonly from?: number }): SeriesScore => scoreSeries(arg.series, arg.method, arg.total, arg.from ?? 1),
+};
+
+serveJobs(benchJobs);

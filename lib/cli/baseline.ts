@@ -7,13 +7,21 @@
  * code is 1 (2 for bad usage), and standard output stays empty.
  *
  * JSON shape: one file → one object; several files → an array in the order given.
+ *
+ * A batch (several files) is fitted on the worker pool of lib/work/pool.ts, `--jobs` threads
+ * (default: one per core), with a progress line on standard error when it is a terminal. The
+ * files are read and parsed on this thread; only the engine's fit runs on the workers, and it
+ * gives the same result there as here (structured clone keeps every number).
  */
 import { readFileSync } from "node:fs";
+import { availableParallelism } from "node:os";
 import { parseArgs } from "node:util";
 import { readSeriesCsv } from "../csv/parse";
-import { baseline, DEFAULT_LEVELS, type BaselineResult } from "../forecast/baseline";
+import { baseline, DEFAULT_LEVELS, type BaselineOptions, type BaselineResult } from "../forecast/baseline";
+import type { RawSeries } from "../forecast/series";
 import { METHOD_IDS, type MethodId } from "../forecast/types";
 import { historyRowsMessage } from "../validation/limits";
+import { runJob, setPoolThreads } from "../work/pool";
 import type { CommandIo } from "./main";
 
 /** Wraps text at spaces to lines of at most `width` characters, each indented by `indent`. */
@@ -50,7 +58,12 @@ ${wrap(METHOD_IDS.join(", "), 68, 22)}
   --from A            first period of the total (with --total; default 1, the next
                       period; at most H): e.g. --from 4 --horizon 15 sums periods 4..15
   --format F          json (default) or table
+  --jobs N            worker threads for several files (default: one per core, here ${availableParallelism()})
   -h, --help          show this text
+
+Several files are a batch: each file is one series, fitted on worker threads (--jobs),
+with a progress line on standard error when it is a terminal. Nothing is written to
+standard output until every file has been fitted.
 
 JSON output: one object for one file, an array in the same order for several. Each has
 file, method, parameters, season, horizon, levels, forecast (step, mean, lower and upper by
@@ -95,6 +108,7 @@ interface Options {
   readonly total: boolean;
   /** First period of the total (default 1). */
   readonly from?: number;
+  readonly jobs: number;
   readonly help: boolean;
 }
 
@@ -114,6 +128,7 @@ function parseOptions(args: string[]): Options {
         format: { type: "string" },
         total: { type: "boolean" },
         from: { type: "string" },
+        jobs: { type: "string" },
         help: { type: "boolean", short: "h" },
       },
     });
@@ -148,6 +163,7 @@ function parseOptions(args: string[]): Options {
     format,
     total: v.total ?? false,
     from,
+    jobs: positiveInteger("jobs", v.jobs) ?? availableParallelism(),
     help: v.help ?? false,
   };
 }
@@ -155,16 +171,47 @@ function parseOptions(args: string[]): Options {
 /** Result of one file, as printed. */
 export type FileResult = { readonly file: string } & BaselineResult;
 
-/** Forecasts one CSV text. Throws the row limit's, the reader's or the engine's error unchanged. */
-export function forecastText(file: string, text: string, opts: Omit<Options, "files" | "format" | "help">): FileResult {
+type FitOptions = Omit<Options, "files" | "format" | "help" | "jobs">;
+
+/** Reads one CSV text into a series. Throws the row limit's or the reader's error unchanged. */
+function readText(text: string, opts: FitOptions): RawSeries {
   const refusal = historyRowsMessage(text);
   if (refusal) throw new Error(refusal);
   const table = readSeriesCsv(text, { value: opts.value });
-  const result = baseline(
-    { y: table.y, rows: table.rows, x: table.x, xNames: table.xNames, futureX: table.futureX },
-    { season: opts.season, horizon: opts.horizon, method: opts.method, levels: opts.levels, total: opts.total, totalFrom: opts.from },
-  );
-  return { file, ...result };
+  return { y: table.y, rows: table.rows, x: table.x, xNames: table.xNames, futureX: table.futureX };
+}
+
+/** The engine's options from the command's. */
+function engineOptions(opts: FitOptions): Omit<BaselineOptions, "methods"> {
+  return { season: opts.season, horizon: opts.horizon, method: opts.method, levels: opts.levels, total: opts.total, totalFrom: opts.from };
+}
+
+/** Forecasts one CSV text. Throws the row limit's, the reader's or the engine's error unchanged. */
+export function forecastText(file: string, text: string, opts: FitOptions): FileResult {
+  return { file, ...baseline(readText(text, opts), engineOptions(opts)) };
+}
+
+/**
+ * A progress line on standard error ("fitted 12 of 300 series"), rewritten in place at most
+ * ten times a second, and cleared by `done`. Silent unless standard error is a terminal.
+ */
+function progressLine(io: CommandIo, total: number): { step: () => void; done: () => void } {
+  if (!io.errIsTTY || total < 2) return { step: () => {}, done: () => {} };
+  let count = 0;
+  let shown = 0;
+  const show = () => io.err(`\rtriangulate baseline: fitted ${count} of ${total} series`);
+  show();
+  return {
+    step: () => {
+      count++;
+      const now = Date.now();
+      if (count === total || now - shown >= 100) {
+        shown = now;
+        show();
+      }
+    },
+    done: () => io.err("\r\x1b[K"),
+  };
 }
 
 // ---------------------------------------------------------------- table format
@@ -253,24 +300,46 @@ export async function run(args: string[], io: CommandIo): Promise<number> {
     return 2;
   }
 
-  const results: FileResult[] = [];
-  const errors: string[] = [];
-  for (const file of opts.files) {
+  // Each file's outcome in the order given: its result, or the message naming it.
+  const outcomes: ({ ok: true; result: FileResult } | { ok: false; message: string })[] = [];
+  const series: (RawSeries | null)[] = opts.files.map((file, i) => {
     const name = file === "-" ? "(standard input)" : file;
     let text: string;
     try {
       text = file === "-" ? io.stdin() : readFileSync(file, "utf8");
     } catch (e) {
       const code = (e as NodeJS.ErrnoException).code;
-      errors.push(`${name}: cannot read the file${code ? ` (${code})` : ""}`);
-      continue;
+      outcomes[i] = { ok: false, message: `${name}: cannot read the file${code ? ` (${code})` : ""}` };
+      return null;
     }
     try {
-      results.push(forecastText(file, text, opts));
+      return readText(text, opts);
     } catch (e) {
-      errors.push(`${name}: ${e instanceof Error ? e.message : String(e)}`);
+      outcomes[i] = { ok: false, message: `${name}: ${e instanceof Error ? e.message : String(e)}` };
+      return null;
     }
+  });
+  const options = engineOptions(opts);
+  const pending = series.flatMap((s, i) => (s === null ? [] : [i]));
+  const threads = Math.min(opts.jobs, pending.length);
+  const progress = progressLine(io, pending.length);
+  const settle = (i: number, fit: () => BaselineResult | Promise<BaselineResult>) =>
+    Promise.resolve()
+      .then(fit)
+      .then(
+        (result) => (outcomes[i] = { ok: true, result: { file: opts.files[i], ...result } }),
+        (e: unknown) => (outcomes[i] = { ok: false, message: `${opts.files[i] === "-" ? "(standard input)" : opts.files[i]}: ${e instanceof Error ? e.message : String(e)}` }),
+      )
+      .then(progress.step);
+  if (threads >= 2) {
+    setPoolThreads(threads);
+    await Promise.all(pending.map((i) => settle(i, () => runJob("baseline", { series: series[i]!, options }))));
+  } else {
+    for (const i of pending) await settle(i, () => baseline(series[i]!, options));
   }
+  progress.done();
+  const results = outcomes.flatMap((o) => (o.ok ? [o.result] : []));
+  const errors = outcomes.flatMap((o) => (o.ok ? [] : [o.message]));
   if (errors.length > 0) {
     io.err(errors.map((m) => `triangulate baseline: ${m}\n`).join(""));
     return 1;

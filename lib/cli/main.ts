@@ -16,6 +16,8 @@ export interface CommandIo {
   readonly err: (text: string) => void;
   /** Reads all of standard input as UTF-8. */
   readonly stdin: () => string;
+  /** Whether standard error is a terminal (progress lines are written only then). */
+  readonly errIsTTY?: boolean;
 }
 
 /** A command module's entry point; resolves to the exit code. */
@@ -68,6 +70,7 @@ const defaultIo: CommandIo = {
   out: (t) => process.stdout.write(t),
   err: (t) => process.stderr.write(t),
   stdin: () => readFileSync(0, "utf8"),
+  errIsTTY: process.stderr.isTTY === true,
 };
 
 /** Runs `triangulate` with the given arguments (without node and the script path). */

@@ -120,7 +120,6 @@ export function minimise(
   const xr = new Float64Array(d);
   const xe = new Float64Array(d);
   const xc = new Float64Array(d);
-  const order = new Int32Array(n1);
 
   const project = (x: Float64Array): void => {
     for (let i = 0; i < d; i++) {
@@ -152,20 +151,17 @@ export function minimise(
     const startValue = bestValue;
     converged = false;
     while (evaluations < maxEval) {
-      // Order vertices by value (insertion sort on indices; d is small).
-      for (let v = 0; v < n1; v++) order[v] = v;
-      for (let a = 1; a < n1; a++) {
-        const key = order[a];
-        let b = a - 1;
-        while (b >= 0 && values[order[b]] > values[key]) {
-          order[b + 1] = order[b];
-          b--;
-        }
-        order[b + 1] = key;
+      // Best, worst and second-worst vertex: the first and the last two of the vertices sorted
+      // by value, ties in vertex order (values are never NaN, so this is a total order), found
+      // in one pass each.
+      let iBest = 0;
+      let iWorst = 0;
+      for (let v = 1; v < n1; v++) {
+        if (values[v] < values[iBest]) iBest = v;
+        if (values[v] >= values[iWorst]) iWorst = v;
       }
-      const iBest = order[0];
-      const iWorst = order[d];
-      const iSecond = order[d - 1];
+      let iSecond = iWorst === 0 ? 1 : 0;
+      for (let v = iSecond + 1; v < n1; v++) if (v !== iWorst && values[v] >= values[iSecond]) iSecond = v;
       const fBest = values[iBest];
       const fWorst = values[iWorst];
       if (

@@ -1,16 +1,19 @@
 /**
- * A small pool of worker threads (node:worker_threads) for long computations, so that a
- * panelist's request never waits on an organiser's forecast (issue 11, item 7): the request
- * thread awaits the result while it goes on serving others. The jobs are the pure core's
- * functions (lib/work/jobs.ts); the domain services call {@link runJob}.
+ * Pools of worker threads (node:worker_threads) for long computations. Jobs are plain
+ * functions by name (a job table, e.g. lib/work/jobs.ts) that take and return plain data;
+ * each worker serves the table with {@link serveJobs} (lib/work/serve.ts). Jobs queue in
+ * arrival order and each free worker takes the next. A worker that dies fails its job and is
+ * replaced on the next one. Idle workers do not keep the process alive.
  *
- * One worker: the machine this runs on has two cores, one for the request thread. Jobs queue
- * in arrival order. The worker's entry file is read from the source tree at run time
- * (`lib/work/worker-boot.mjs`: beside this module under tsx and vitest; under the working
- * directory, the project folder that `npm start` and `triangulate serve` run in, when this
- * module is part of Next.js's bundle, whose chunks do not keep the file layout). The pool lives on globalThis: route modules load twice in the production server
- * (DEVELOPERS.md), and two pools would compete for the cores. A worker that dies fails its
- * job and is replaced on the next one. An idle worker does not keep the process alive.
+ * The app's pool ({@link runJob}): so that a panelist's request never waits on an organiser's
+ * forecast (issue 11, item 7), the request thread awaits the result while it goes on serving
+ * others. One worker by default: the machine this runs on has two cores, one for the request
+ * thread; `triangulate baseline` on many files asks for more ({@link setPoolThreads}). Its
+ * entry file is read from the source tree at run time (`lib/work/worker-boot.mjs`: beside this
+ * module under tsx and vitest; under the working directory, the project folder that `npm start`
+ * and `triangulate serve` run in, when this module is part of Next.js's bundle, whose chunks do
+ * not keep the file layout). It lives on globalThis: route modules load twice in the production
+ * server (DEVELOPERS.md), and two pools would compete for the cores.
  */
 import { existsSync } from "node:fs";
 import { Worker } from "node:worker_threads";
@@ -19,86 +22,146 @@ import { fileURLToPath } from "node:url";
 import { ForecastInputError } from "../forecast/types";
 import type { JobName, Jobs } from "./jobs";
 
+/** A job table: plain-data functions by name. */
+export type JobTable = Record<string, (arg: never) => unknown>;
+
 interface Task {
   readonly id: number;
-  readonly job: JobName;
+  readonly job: string;
   readonly arg: unknown;
   readonly resolve: (value: unknown) => void;
   readonly reject: (err: Error) => void;
-  /** The caller's own error classes: the pool on globalThis may be shared by two copies of this module. */
+  /** The caller's own error classes: the app's pool on globalThis may be shared by two copies of this module. */
   readonly rebuild: (name: string, message: string) => Error;
 }
 
-interface Pool {
+interface Slot {
   worker: Worker | null;
   running: Task | null;
+}
+
+interface PoolState {
+  readonly boot: string | URL;
+  readonly slots: Slot[];
   readonly queue: Task[];
   nextId: number;
+  threads: number;
 }
 
 type Reply = { id: number; ok: true; value: unknown } | { id: number; ok: false; name: string; message: string };
 
-const pool: Pool = ((globalThis as { __triangulateWorkPool?: Pool }).__triangulateWorkPool ??= { worker: null, running: null, queue: [], nextId: 1 });
+/** A pool of worker threads serving one job table. */
+export interface WorkerPool<J extends JobTable> {
+  /** Runs a job on the next free worker; the job's errors are rethrown here. */
+  run<K extends keyof J & string>(job: K, arg: Parameters<J[K]>[0]): Promise<ReturnType<J[K]>>;
+  /** Sets how many workers may run at once (at least 1). */
+  setThreads(threads: number): void;
+  /** Stops every worker (queued jobs stay queued; a later run starts new workers). */
+  close(): Promise<void>;
+}
 
 /**
- * Errors the services tell apart, rebuilt with their class on this side. Each task carries the
+ * Errors the callers tell apart, rebuilt with their class on this side. Each task carries the
  * function of the module copy that queued it: Next.js route bundles and the production server's
  * direct route each load their own copy, and `instanceof` only matches a copy's own classes.
  */
 function rebuild(name: string, message: string): Error {
   if (name === "ForecastInputError") return new ForecastInputError(message);
   if (name === "RangeError") return new RangeError(message);
+  if (name === "Error") return new Error(message);
   return new Error(`${name}: ${message}`);
 }
 
-function fail(err: Error): void {
-  const task = pool.running;
-  pool.running = null;
-  pool.worker = null;
+function fail(state: PoolState, slot: Slot, err: Error): void {
+  const task = slot.running;
+  slot.running = null;
+  slot.worker = null;
   task?.reject(err);
-  dispatch();
+  dispatch(state);
 }
 
-/** The entry file beside this module when it runs from the source tree, else under the working directory. */
+function spawn(state: PoolState, slot: Slot): Worker {
+  const worker = new Worker(state.boot);
+  worker.on("message", (reply: Reply) => {
+    const task = slot.running;
+    if (!task || task.id !== reply.id) return;
+    slot.running = null;
+    if (reply.ok) task.resolve(reply.value);
+    else task.reject(task.rebuild(reply.name, reply.message));
+    dispatch(state);
+  });
+  worker.on("error", (err) => fail(state, slot, err));
+  worker.on("exit", (code) => {
+    if (slot.worker === worker) fail(state, slot, new Error(`the computation's worker thread stopped (exit code ${code})`));
+  });
+  return worker;
+}
+
+function dispatch(state: PoolState): void {
+  while (state.slots.length < state.threads) state.slots.push({ worker: null, running: null });
+  state.slots.forEach((slot, i) => {
+    if (slot.running) return;
+    const task = i < state.threads ? state.queue.shift() : undefined;
+    if (!task) {
+      slot.worker?.unref();
+      return;
+    }
+    slot.worker ??= spawn(state, slot);
+    slot.worker.ref();
+    slot.running = task;
+    slot.worker.postMessage({ id: task.id, job: task.job, arg: task.arg });
+  });
+}
+
+function poolOf<J extends JobTable>(state: PoolState): WorkerPool<J> {
+  return {
+    run<K extends keyof J & string>(job: K, arg: Parameters<J[K]>[0]): Promise<ReturnType<J[K]>> {
+      return new Promise((resolve, reject) => {
+        state.queue.push({ id: state.nextId++, job, arg, resolve: resolve as (value: unknown) => void, reject, rebuild });
+        dispatch(state);
+      });
+    },
+    setThreads(threads: number): void {
+      state.threads = Math.max(1, Math.floor(threads));
+      dispatch(state);
+    },
+    async close(): Promise<void> {
+      const workers = state.slots.map((s) => s.worker).filter((w): w is Worker => w !== null);
+      for (const s of state.slots) s.worker = null; // their exit is then no failure
+      await Promise.all(workers.map((w) => w.terminate()));
+    },
+  };
+}
+
+/**
+ * A pool of `threads` workers started from `boot` (a plain-JavaScript entry file that serves a
+ * job table with serveJobs), for job table J.
+ */
+export function createPool<J extends JobTable>(boot: string | URL, threads = 1): WorkerPool<J> {
+  return poolOf<J>({ boot, slots: [], queue: [], nextId: 1, threads: Math.max(1, Math.floor(threads)) });
+}
+
+/** The app's entry file beside this module when it runs from the source tree, else under the working directory. */
 function bootFile(): string {
   const beside = path.join(path.dirname(fileURLToPath(import.meta.url)), "worker-boot.mjs");
   return existsSync(beside) ? beside : path.join(process.cwd(), "lib", "work", "worker-boot.mjs");
 }
 
-function spawn(): Worker {
-  const worker = new Worker(bootFile());
-  worker.on("message", (reply: Reply) => {
-    const task = pool.running;
-    if (!task || task.id !== reply.id) return;
-    pool.running = null;
-    if (reply.ok) task.resolve(reply.value);
-    else task.reject(task.rebuild(reply.name, reply.message));
-    dispatch();
-  });
-  worker.on("error", (err) => fail(err));
-  worker.on("exit", (code) => {
-    if (pool.worker === worker) fail(new Error(`the computation's worker thread stopped (exit code ${code})`));
-  });
-  return worker;
-}
+const appState: PoolState = ((globalThis as { __triangulateWorkers?: PoolState }).__triangulateWorkers ??= {
+  boot: bootFile(),
+  slots: [],
+  queue: [],
+  nextId: 1,
+  threads: 1,
+});
+const appPool = poolOf<Jobs>(appState);
 
-function dispatch(): void {
-  if (pool.running) return;
-  const task = pool.queue.shift();
-  if (!task) {
-    pool.worker?.unref();
-    return;
-  }
-  pool.worker ??= spawn();
-  pool.worker.ref();
-  pool.running = task;
-  pool.worker.postMessage({ id: task.id, job: task.job, arg: task.arg });
-}
-
-/** Runs a job of lib/work/jobs.ts on the pool's worker thread; the job's errors are rethrown here. */
+/** Runs a job of lib/work/jobs.ts on the app's pool; the job's errors are rethrown here. */
 export function runJob<J extends JobName>(job: J, arg: Parameters<Jobs[J]>[0]): Promise<ReturnType<Jobs[J]>> {
-  return new Promise((resolve, reject) => {
-    pool.queue.push({ id: pool.nextId++, job, arg, resolve: resolve as (value: unknown) => void, reject, rebuild });
-    dispatch();
-  });
+  return appPool.run(job, arg);
+}
+
+/** Sets how many worker threads the app's pool may run at once (1 by default). */
+export function setPoolThreads(threads: number): void {
+  appPool.setThreads(threads);
 }

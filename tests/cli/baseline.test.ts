@@ -185,6 +185,71 @@ describe("triangulate baseline", () => {
     expect(arr[1].forecast[1].mean).toBeCloseTo(rv[1], 9);
   });
 
+  describe("a batch of files", () => {
+    const files = ["nile.csv", "lakehuron.csv", "wwwusage.csv", "airpassengers.csv"];
+    beforeAll(() => {
+      // Public test data: R's datasets::LakeHuron and datasets::WWWusage, written by R itself.
+      execFileSync("Rscript", [
+        "-e",
+        `write.csv(data.frame(value = as.numeric(LakeHuron)), "${dir}/lakehuron.csv", row.names = FALSE);
+         write.csv(data.frame(value = as.numeric(WWWusage)), "${dir}/wwwusage.csv", row.names = FALSE);
+         write.csv(data.frame(value = as.numeric(Nile)), "${dir}/nile-value.csv", row.names = FALSE)`,
+      ]);
+    });
+
+    it("fits several files on two worker threads and gives each file's single run, in the order given", () => {
+      const names = files.map((f) => (f === "nile.csv" ? "nile-value.csv" : f));
+      const batch = cli(["baseline", ...names, "--horizon", "6", "--total", "--jobs", "2"]);
+      expect(batch.err).toBe("");
+      expect(batch.code).toBe(0);
+      const arr = JSON.parse(batch.out) as { file: string }[];
+      expect(arr.map((x) => x.file)).toEqual(names);
+      // The worker threads run the same engine: every figure equals the file's own run.
+      for (const [i, name] of names.entries()) {
+        const single = cli(["baseline", name, "--horizon", "6", "--total"]);
+        expect(single.code).toBe(0);
+        expect(arr[i]).toEqual(JSON.parse(single.out));
+      }
+    });
+
+    it("gives R's drift forecasts for a series of the batch, and refuses --jobs 0", () => {
+      const batch = cli(["baseline", "nile-value.csv", "lakehuron.csv", "wwwusage.csv", "--method", "drift", "--horizon", "3", "--levels", "80"]);
+      expect(batch.code).toBe(0);
+      const lake = (JSON.parse(batch.out) as { forecast: { mean: number; lower: Record<string, number>; upper: Record<string, number> }[] }[])[1];
+      // Expected: R forecast::rwf(LakeHuron, h = 3, drift = TRUE, level = 80), computed here.
+      const rv = r("f <- forecast::rwf(as.numeric(LakeHuron), h = 3, drift = TRUE, level = 80); cat(format(c(f$mean, f$lower, f$upper), digits = 17))");
+      lake.forecast.forEach((s, i) => {
+        expect(s.mean).toBeCloseTo(rv[i], 8);
+        expect(s.lower["80"]).toBeCloseTo(rv[3 + i], 8);
+        expect(s.upper["80"]).toBeCloseTo(rv[6 + i], 8);
+      });
+      const zero = cli(["baseline", "nile-value.csv", "lakehuron.csv", "--jobs", "0"]);
+      expect(zero.code).toBe(2);
+      expect(zero.err).toContain("--jobs must be a whole number of at least 1 (got '0')");
+    });
+
+    it("shows a progress line on standard error only when it is a terminal, and clears it", async () => {
+      const { main } = await import("../../lib/cli/main");
+      const run = async (errIsTTY: boolean) => {
+        let out = "";
+        let err = "";
+        const io = { out: (t: string) => void (out += t), err: (t: string) => void (err += t), stdin: () => "", errIsTTY };
+        const code = await main(["baseline", join(dir, "nile-value.csv"), join(dir, "lakehuron.csv"), "--method", "naive", "--horizon", "2", "--jobs", "2"], io);
+        return { code, out, err };
+      };
+      const tty = await run(true);
+      expect(tty.code).toBe(0);
+      expect(tty.err).toContain("\rtriangulate baseline: fitted 0 of 2 series");
+      expect(tty.err).toContain("\rtriangulate baseline: fitted 2 of 2 series");
+      expect(tty.err.endsWith("\r\x1b[K")).toBe(true);
+      const piped = await run(false);
+      expect(piped.err).toBe("");
+      expect(piped.out).toBe(tty.out);
+      // Naive forecasts: the last value (R's naive()): Nile 1970 = 740, LakeHuron 1972 = 579.96.
+      expect((JSON.parse(piped.out) as { forecast: { mean: number }[] }[]).map((x) => x.forecast[0].mean)).toEqual([740, 579.96]);
+    });
+  });
+
   it("names file, row and column of a bad cell, exits 1 and writes nothing to stdout", () => {
     const res = cli(["baseline", NIST12, "bad.csv", "--value", "y", "--method", "naive"]);
     expect(res.code).toBe(1);

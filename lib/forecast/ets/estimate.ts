@@ -1,6 +1,6 @@
 /**
  * Maximum-likelihood estimation of one ETS member in state-space form (any error type), for
- * the multiplicative-error members: the additive-error ones are fitted by lib/forecast/ets.ts,
+ * the multiplicative-error members: the additive-error ones are fitted by ./least-squares.ts,
  * whose least squares is their likelihood.
  *
  * The parameters and the initial states ℓ0, b0, s1…s(m−1) (s_m makes the seasonal states sum to
@@ -13,9 +13,9 @@
  * σ² = Σ ε_t² / (n − k), k the number of estimated parameters and states (R's ets).
  */
 import { minimise } from "../optimise";
-import { etsKeys, ALPHA_LOWER, ALPHA_UPPER, BETA_LOWER, GAMMA_LOWER, PHI_LOWER, PHI_UPPER } from "../ets";
+import { etsKeys, ALPHA_LOWER, ALPHA_UPPER, BETA_LOWER, GAMMA_LOWER, PHI_LOWER, PHI_UPPER } from "./model";
 import { ForecastInputError } from "../types";
-import { aicc, filterSeries, makeState, type EtsSpec, type EtsState, type Filtered, type Smoothing } from "./state-space";
+import { aicc, filterSeries, likelihood, makeState, type EtsSpec, type EtsState, type Filtered, type Smoothing } from "./state-space";
 
 /** Objective evaluations allowed to the search over every free value (R's ets allows 2,000 Nelder–Mead iterations). */
 const FULL_SEARCH_BUDGET = 2000;
@@ -60,7 +60,7 @@ export function evaluate(
 
 /**
  * Fits a member by maximum likelihood from `start` (every parameter and initial state, keys as
- * in etsKeys, lib/forecast/ets.ts); values in `fixed` are held. Needs y > 0 for an M error or M season.
+ * in etsKeys, ./model.ts); values in `fixed` are held. Needs y > 0 for an M error or M season.
  * @throws ForecastInputError for non-positive data with a multiplicative part, or too few observations.
  */
 export function fitStateSpace(
@@ -147,7 +147,7 @@ export function fitStateSpace(
     }
     init.level = iL0 >= 0 ? x[iL0] : cL0;
     init.trend = !trended ? 0 : iB0 >= 0 ? x[iB0] : cB0;
-    return filterSeries(spec, trial, init, y, work, null).lik;
+    return likelihood(spec, trial, init, y, work);
   };
   if (!Number.isFinite(objective(x0)) && x0.some((v) => !Number.isFinite(v))) {
     throw new ForecastInputError(`ETS(${spec.error},${spec.trend},${spec.season}): no finite start`);

@@ -8,7 +8,7 @@
  * cost as much to fit as M,·,M, and the M season is the reason to have M errors here (ranges
  * that widen with the level).
  *
- * A-error members are fitted by least squares (lib/forecast/ets.ts, their likelihood); the
+ * A-error members are fitted by least squares (./least-squares.ts, their likelihood); the
  * M-error members by maximum likelihood (./estimate.ts) from the least-squares fit of the same
  * structure. Likelihoods of both error types are on the same scale (n·log Σε² + 2Σlog|f| vs
  * n·log Σe², both −2 log L up to the same constant), so one AICc compares them.
@@ -16,7 +16,8 @@
  * A fit records its member in state.model (a code, see modelCode) so that the member and its
  * values can be given back in `fixed` (model plus the parameters and initial states).
  */
-import { etsKeys, etsMinLength, fitEts, type EtsFitResult, type SeasonKind, type TrendKind } from "../ets";
+import { fitEts, type EtsFitResult } from "./least-squares";
+import { etsKeys, etsMinLength, type SeasonKind, type TrendKind } from "./model";
 import { ForecastInputError, type Fit } from "../types";
 import { evaluate, fitStateSpace, type StateSpaceFit } from "./estimate";
 import { specName, type ErrorKind, type EtsSpec, type EtsState, type Smoothing } from "./state-space";

@@ -18,7 +18,7 @@
  *   p_t = y_t (N), y_t − s_{t−m} (A), y_t / s_{t−m} (M);  r_t = y_t − q_t (A), y_t / q_t (M).
  * E.g. for M,A,M: p_t − q_t = q_t ε_t, so ℓ_t = q_t (1 + α ε_t) and b_t = b_{t−1} + β q_t ε_t.
  */
-import type { SeasonKind, TrendKind } from "../ets";
+import type { SeasonKind, TrendKind } from "./model";
 
 /** Error type: additive or multiplicative. */
 export type ErrorKind = "A" | "M";
@@ -150,6 +150,55 @@ export function filterSeries(
   st.k = k;
   const lik = n * Math.log(sumSq) + 2 * sumLog;
   return { fitted, sumSq, lik: Number.isFinite(lik) ? lik : Infinity, final: st };
+}
+
+/**
+ * {@link Filtered.lik} of {@link filterSeries} alone, for the estimation's objective: the same
+ * operations in the same order (so the same value), with the loop written out for each error
+ * and season so that no switch is tested per observation, and no fitted values or result object.
+ * `work` (ring of the right length) is overwritten. Never throws; not finite gives Infinity.
+ */
+export function likelihood(spec: EtsSpec, p: Smoothing, init: EtsState, y: ArrayLike<number>, work: EtsState): number {
+  if (spec.error !== "M" || spec.season === "A") return filterSeries(spec, p, init, y, work, null).lik;
+  const ring = work.ring;
+  ring.set(init.ring);
+  const trended = spec.trend !== "N";
+  const { alpha, beta, gamma, phi } = p;
+  const m = spec.m;
+  let level = init.level;
+  let trend = init.trend;
+  let k = init.k;
+  const n = y.length;
+  let sumSq = 0;
+  let sumLog = 0;
+  if (spec.season === "M") {
+    for (let t = 0; t < n; t++) {
+      const q = trended ? level + phi * trend : level;
+      const s = ring[k];
+      const f = q * s;
+      const yt = y[t];
+      const e = (yt - f) / f;
+      sumSq += e * e;
+      sumLog += Math.log(Math.abs(f));
+      const adj = yt / s;
+      level = q + alpha * (adj - q);
+      if (trended) trend = phi * trend + beta * (adj - q);
+      ring[k] = s + gamma * (yt / q - s);
+      if (++k === m) k = 0;
+    }
+  } else {
+    for (let t = 0; t < n; t++) {
+      const q = trended ? level + phi * trend : level;
+      const yt = y[t];
+      const e = (yt - q) / q;
+      sumSq += e * e;
+      sumLog += Math.log(Math.abs(q));
+      level = q + alpha * (yt - q);
+      if (trended) trend = phi * trend + beta * (yt - q);
+    }
+  }
+  const lik = n * Math.log(sumSq) + 2 * sumLog;
+  return Number.isFinite(lik) ? lik : Infinity;
 }
 
 /**

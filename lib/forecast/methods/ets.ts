@@ -1,9 +1,7 @@
-import { etsMinLength } from "../ets";
+import { checkHorizon, etsMinLength } from "../ets/model";
 import { chooseMember, decodeModel, fitMember, memberOf, memberToFit } from "../ets/family";
-import { memberForecast } from "../ets/distribution";
 import { makeState, specName, update } from "../ets/state-space";
-import { pointForecasts } from "../ets/distribution";
-import { checkHorizon } from "../ets";
+import { memberForecast, pointForecasts } from "../ets/distribution";
 import { ForecastInputError, type Fit, type FitInput, type Forecast, type Method } from "../types";
 
 /**

@@ -1,5 +1,6 @@
 import { autocorrelations, classicalDecomposition } from "../decompose";
-import { checkHorizon, checkSeries, fitEts } from "../ets";
+import { fitEts } from "../ets/least-squares";
+import { checkHorizon, checkSeries } from "../ets/model";
 import { ols } from "../ols";
 import { ForecastInputError, type Fit, type FitInput, type Forecast, type Method } from "../types";
 import { normalQuantile } from "../../stats/normal";

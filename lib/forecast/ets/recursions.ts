@@ -1,0 +1,287 @@
+/**
+ * The recursions of the additive-error members (the named exponential-smoothing methods) as
+ * tight loops over a series: one pass giving the sum of squared one-step errors, and the
+ * passes that also carry the derivatives of the one-step fitted values for the least-squares
+ * searches. Each works on one state object (level, trend, seasonal ring; ./state-space.ts)
+ * and one record of smoothing parameters; nothing is allocated. Pure TypeScript.
+ *
+ * Source: Hyndman, Koehler, Ord & Snyder (2008) "Forecasting with Exponential Smoothing: the
+ * state space approach", Springer, table 2.1 (error-correction form). With
+ * q_t = ℓ_{t−1} + φ·b_{t−1} (φ = 1 undamped, b = 0 without trend) and ε_t = y_t − μ_t:
+ *   ETS(A,N,N), (A,A,N), (A,Ad,N), (A,A,A): μ_t = q_t (+ s_{t−m}),
+ *     ℓ_t = q_t + α ε_t,  b_t = φ b_{t−1} + β ε_t,  s_t = s_{t−m} + γ ε_t
+ *   ETS(A,A,M): μ_t = q_t·s_{t−m},
+ *     ℓ_t = q_t + α ε_t / s_{t−m},  b_t = φ b_{t−1} + β ε_t / s_{t−m},  s_t = s_{t−m} + γ ε_t / q_t
+ * The derivative passes differentiate these updates exactly (forward mode, in time order).
+ */
+import type { EtsState, Smoothing } from "./state-space";
+
+/** Season of the loops: 0 none, 1 additive, 2 multiplicative. */
+export type SeasonCode = 0 | 1 | 2;
+
+/** The member as the loops see it: trend on or off, season code, season length (1 without). */
+export interface Shape {
+  readonly trendOn: boolean;
+  readonly season: SeasonCode;
+  readonly m: number;
+}
+
+/** Where each smoothing parameter sits in the search vector (−1 when held), and its length P. */
+export interface SearchLayout {
+  readonly P: number;
+  readonly iAlpha: number;
+  readonly iBeta: number;
+  readonly iGamma: number;
+  readonly iPhi: number;
+}
+
+/**
+ * Chain-rule factors from (alpha, beta, gamma) to the search box, where beta and gamma are
+ * searched as fractions u, v of their admissible ranges: ∂β/∂α, ∂β/∂u, ∂γ/∂α, ∂γ/∂v.
+ */
+export interface ChainFactors {
+  betaAlpha: number;
+  betaU: number;
+  gammaAlpha: number;
+  gammaV: number;
+}
+
+/**
+ * Scratch of the derivative passes: the running derivatives of level (dl), trend (db) and
+ * seasonal ring (ds, m·P) with respect to the P search variables, one row of the Jacobian
+ * (jrow), the outputs J'J (a, upper triangle, P×P) and J'e (rhs), and for the seasonal pass the
+ * stored Jacobian (jcols, column-major n·P) and errors (ecol, n).
+ */
+export interface DerivativeWork {
+  readonly dl: Float64Array;
+  readonly db: Float64Array;
+  readonly ds: Float64Array;
+  readonly jrow: Float64Array;
+  readonly a: Float64Array;
+  readonly rhs: Float64Array;
+  readonly jcols: Float64Array;
+  readonly ecol: Float64Array;
+}
+
+/**
+ * One pass of the recursions over y from the states in `st`, which it leaves at the forecast
+ * origin: level and trend after the last observation, the ring updated in place (ring[k] is the
+ * seasonal state for the next step). Writes the one-step fitted values to `mu` when given.
+ * Returns the SSE (not finite when the recursions overflow or divide by zero). No allocation.
+ */
+export function filter(y: ArrayLike<number>, shape: Shape, par: Smoothing, st: EtsState, mu: Float64Array | null): number {
+  const { trendOn, season, m } = shape;
+  const { alpha, beta, gamma, phi } = par;
+  const s = st.ring;
+  const n = y.length;
+  let l = st.level;
+  let b = trendOn ? st.trend : 0;
+  let sse = 0;
+  let k = st.k;
+  for (let t = 0; t < n; t++) {
+    const q = trendOn ? l + phi * b : l;
+    const yt = y[t];
+    let f: number;
+    let e: number;
+    if (season === 0) {
+      f = q;
+      e = yt - f;
+      l = q + alpha * e;
+      if (trendOn) b = phi * b + beta * e;
+    } else if (season === 1) {
+      const sv = s[k];
+      f = q + sv;
+      e = yt - f;
+      l = q + alpha * e;
+      if (trendOn) b = phi * b + beta * e;
+      s[k] = sv + gamma * e;
+    } else {
+      const sv = s[k];
+      f = q * sv;
+      e = yt - f;
+      l = q + (alpha * e) / sv;
+      if (trendOn) b = phi * b + (beta * e) / sv;
+      s[k] = sv + (gamma * e) / q;
+    }
+    if (mu !== null) mu[t] = f;
+    sse += e * e;
+    if (++k === m) k = 0;
+  }
+  st.level = l;
+  st.trend = b;
+  st.k = k;
+  return sse;
+}
+
+/**
+ * One derivative pass of the joint search (./joint-search.ts) for the seasonal members:
+ * accumulates J'J (upper triangle) into `d.a` and J'e into `d.rhs`, J being the derivatives of
+ * the one-step fitted values with respect to the search variables. `d.dl`, `d.db`, `d.ds` hold
+ * the derivatives of the initial states on entry. The rows of J and the errors are first stored
+ * (column-major in `d.jcols`, and in `d.ecol`); the products are then formed as dot products
+ * over time, each summed in time order as a running update would. The ring of `st` is
+ * overwritten. Returns the SSE.
+ */
+export function jointPass(y: Float64Array, shape: Shape, layout: SearchLayout, par: Smoothing, chain: ChainFactors, st: EtsState, d: DerivativeWork): number {
+  const { trendOn, season, m } = shape;
+  const { P, iAlpha, iBeta, iGamma, iPhi } = layout;
+  const { alpha, beta, gamma, phi } = par;
+  const { betaAlpha: cBA, betaU: cBU, gammaAlpha: cGA, gammaV: cGV } = chain;
+  const { dl, db, ds, jrow, a, rhs, jcols, ecol } = d;
+  const ring = st.ring;
+  const n = y.length;
+  let l = st.level;
+  let b = st.trend;
+  let k = st.k;
+  let sse = 0;
+  for (let t = 0; t < n; t++) {
+    const q = trendOn ? l + phi * b : l;
+    const sv = season === 0 ? 0 : ring[k];
+    const ko = k * P;
+    let e: number;
+    if (season === 2) {
+      e = y[t] - q * sv;
+      const invS = 1 / sv;
+      const invQ = 1 / q;
+      const eS2 = e * invS * invS;
+      const eQ2 = e * invQ * invQ;
+      for (let j = 0; j < P; j++) {
+        const dq = trendOn ? dl[j] + phi * db[j] + (j === iPhi ? b : 0) : dl[j];
+        const dsv = ds[ko + j];
+        const df = dq * sv + q * dsv;
+        const common = -df * invS - eS2 * dsv;
+        dl[j] = dq + alpha * common;
+        if (trendOn) db[j] = phi * db[j] + beta * common;
+        ds[ko + j] = dsv + gamma * (-df * invQ - eQ2 * dq);
+        jrow[j] = df;
+      }
+      // Direct terms of the parameter directions (∂/∂α, ∂/∂β, ∂/∂γ, ∂/∂φ of the updates).
+      if (iAlpha >= 0) dl[iAlpha] += e * invS;
+      if (iBeta >= 0) db[iBeta] += e * invS;
+      if (iGamma >= 0) ds[ko + iGamma] += e * invQ;
+      if (iPhi >= 0) db[iPhi] += b;
+      l = q + alpha * e * invS;
+      if (trendOn) b = phi * b + beta * e * invS;
+      ring[k] = sv + gamma * e * invQ;
+    } else {
+      e = y[t] - (q + sv);
+      for (let j = 0; j < P; j++) {
+        const dq = trendOn ? dl[j] + phi * db[j] + (j === iPhi ? b : 0) : dl[j];
+        const dsv = season === 0 ? 0 : ds[ko + j];
+        const df = dq + dsv;
+        dl[j] = dq - alpha * df;
+        if (trendOn) db[j] = phi * db[j] - beta * df;
+        if (season !== 0) ds[ko + j] = dsv - gamma * df;
+        jrow[j] = df;
+      }
+      // Direct terms of the parameter directions (∂/∂α, ∂/∂β, ∂/∂γ, ∂/∂φ of the updates).
+      if (iAlpha >= 0) dl[iAlpha] += e;
+      if (iBeta >= 0) db[iBeta] += e;
+      if (iGamma >= 0) ds[ko + iGamma] += e;
+      if (iPhi >= 0) db[iPhi] += b;
+      l = q + alpha * e;
+      if (trendOn) b = phi * b + beta * e;
+      if (season !== 0) ring[k] = sv + gamma * e;
+    }
+    // Chain rule from (alpha, beta, gamma) to the box coordinates.
+    if (iAlpha >= 0) {
+      let v = jrow[iAlpha];
+      if (iBeta >= 0) v += cBA * jrow[iBeta];
+      if (iGamma >= 0) v += cGA * jrow[iGamma];
+      jrow[iAlpha] = v;
+    }
+    if (iBeta >= 0) jrow[iBeta] *= cBU;
+    if (iGamma >= 0) jrow[iGamma] *= cGV;
+    sse += e * e;
+    ecol[t] = e;
+    for (let j = 0, o = t; j < P; j++, o += n) jcols[o] = jrow[j];
+    if (++k === m) k = 0;
+  }
+  for (let i = 0; i < P; i++) {
+    const ci = i * n;
+    let r = 0;
+    for (let t = 0; t < n; t++) r += jcols[ci + t] * ecol[t];
+    rhs[i] = r;
+    const oi = i * P;
+    let j = i;
+    for (; j + 3 < P; j += 4) {
+      // Four columns per sweep over time (each sum still runs in time order).
+      const c0 = j * n;
+      const c1 = c0 + n;
+      const c2 = c1 + n;
+      const c3 = c2 + n;
+      let v0 = 0;
+      let v1 = 0;
+      let v2 = 0;
+      let v3 = 0;
+      for (let t = 0; t < n; t++) {
+        const x = jcols[ci + t];
+        v0 += x * jcols[c0 + t];
+        v1 += x * jcols[c1 + t];
+        v2 += x * jcols[c2 + t];
+        v3 += x * jcols[c3 + t];
+      }
+      a[oi + j] = v0;
+      a[oi + j + 1] = v1;
+      a[oi + j + 2] = v2;
+      a[oi + j + 3] = v3;
+    }
+    for (; j < P; j++) {
+      const cj = j * n;
+      let v = 0;
+      for (let t = 0; t < n; t++) v += jcols[ci + t] * jcols[cj + t];
+      a[oi + j] = v;
+    }
+  }
+  return sse;
+}
+
+/**
+ * {@link jointPass} for the non-seasonal members (A,N,N / A,A,N / A,Ad,N), without the seasonal
+ * branches, accumulating J'J and J'e as it goes (`d.jcols`, `d.ecol` and `d.ds` unused).
+ * Leaves `st` unchanged. Returns the SSE.
+ */
+export function jointPassNonSeasonal(y: Float64Array, shape: Shape, layout: SearchLayout, par: Smoothing, chain: ChainFactors, st: EtsState, d: DerivativeWork): number {
+  const { trendOn } = shape;
+  const { P, iAlpha, iBeta, iPhi } = layout;
+  const { alpha, beta, phi } = par;
+  const { betaAlpha: cBA, betaU: cBU } = chain;
+  const { dl, db, jrow, a, rhs } = d;
+  const n = y.length;
+  a.fill(0);
+  rhs.fill(0);
+  let l = st.level;
+  let b = trendOn ? st.trend : 0;
+  let sse = 0;
+  const phiT = trendOn ? phi : 0;
+  for (let t = 0; t < n; t++) {
+    const q = l + phiT * b;
+    const e = y[t] - q;
+    for (let j = 0; j < P; j++) {
+      const dq = dl[j] + phiT * db[j];
+      dl[j] = dq - alpha * dq;
+      db[j] = phiT * db[j] - beta * dq;
+      jrow[j] = dq;
+    }
+    if (iPhi >= 0) {
+      // q depends on φ directly: ∂q/∂φ = b.
+      jrow[iPhi] += b;
+      dl[iPhi] += (1 - alpha) * b;
+      db[iPhi] += b - beta * b;
+    }
+    if (iAlpha >= 0) dl[iAlpha] += e;
+    if (iBeta >= 0) db[iBeta] += e;
+    if (iAlpha >= 0 && iBeta >= 0) jrow[iAlpha] += cBA * jrow[iBeta];
+    if (iBeta >= 0) jrow[iBeta] *= cBU;
+    sse += e * e;
+    for (let i = 0; i < P; i++) {
+      const ji = jrow[i];
+      rhs[i] += ji * e;
+      const oi = i * P;
+      for (let j = i; j < P; j++) a[oi + j] += ji * jrow[j];
+    }
+    l = q + alpha * e;
+    b = phiT * b + beta * e;
+  }
+  return sse;
+}
