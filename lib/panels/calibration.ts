@@ -36,7 +36,6 @@ import {
 } from "@/lib/blend/classical-model";
 import { authorisePanel } from "./access";
 import { panelReads, type PanelReads } from "./panel-reads";
-import { settleDeadlines } from "./round-closing";
 import { jsonSafe, type JsonSafe } from "./json";
 
 /** The levels target questions are answered at (three-point: P10 / P50 / P90, docs/methods.md §14.1). */
@@ -291,7 +290,7 @@ export function loadCalibration(panelId: string, reads: PanelReads = panelReads(
 }
 
 async function readCalibration(panelId: string, reads: PanelReads): Promise<CalibrationData> {
-  await settleDeadlines(panelId);
+  // Overdue rounds were closed by the caller's authorisation (lib/panels/access.ts).
   const questions = await db.question.findMany({
     where: { panelId },
     orderBy: { position: "asc" },
