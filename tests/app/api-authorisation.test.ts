@@ -215,6 +215,17 @@ const ROWS: readonly Row[] = [
   { route: "getQuestionReport", path: () => `/api/v1/panels/${P}/questions/${qP}/report.json`, expect: panelRead(200) },
   { route: "getQuestionReportCsv", path: () => `/api/v1/panels/${P}/questions/${qP}/report.csv`, expect: panelRead(200) },
   { route: "getPanelReportCsv", path: () => `/api/v1/panels/${P}/report.csv`, expect: panelRead(200) },
+  {
+    route: "setTrueValue",
+    path: async () => {
+      const p = await ok("POST", "/api/v1/panels", owner, { title: `Matrix calibration ${unique()}`, questions: [{ ...QUESTION, answerFormat: "three-point", calibration: true }] });
+      await ok("POST", `/api/v1/panels/${p.id}/shares`, owner, { email: reviewer.email, role: "reviewer" });
+      return `/api/v1/panels/${p.id}/questions/${p.questions[0].id}/true-value`;
+    },
+    body: () => ({ trueValue: 420 }),
+    expect: ownerOnly(200),
+  },
+  { route: "getPerformanceWeights", path: () => `/api/v1/panels/${P}/performance-weights`, expect: panelRead(200) },
   { route: "listTrackRecords", path: () => "/api/v1/track-records", expect: organiserRoute(200) },
   { route: "getPortfolio", path: () => "/api/v1/portfolio", expect: userRoute(200) },
   { route: "getPortfolioCsv", path: () => "/api/v1/portfolio.csv", expect: userRoute(200) },
