@@ -11,7 +11,9 @@
  *   panel the member was invited to, with the member's latest answer in a closed round; its
  *   P5–P95 range against the nominal 90% (lib/blend `intervalHitRate`, nominal 90%).
  * - Errors over time: one point per outcome, (answer − outcome)/outcome in percent, in the order
- *   the outcomes were recorded.
+ *   the outcomes were recorded, dated; without the question, the answer or the outcome, so that
+ *   the page holds no more of the person's answers than the chart needs (THREATS.md: an organiser
+ *   who kept the link could otherwise match answers to pseudonyms on earlier panels).
  *
  * Privacy (THREATS.md): reached only with the panelist's own link (a PanelistActor from a valid,
  * unrevoked, unexpired invitation); there is no organiser route to it. The view holds only this
@@ -27,20 +29,11 @@ import { authorisePanelist } from "./access";
 import { loadResolutions, recordsByMember } from "./track-records";
 import { jsonSafe, type JsonSafe } from "./json";
 
-/** One recorded outcome of the panelist's answers. */
+/** One recorded outcome of the panelist's answers (no question, answer or outcome: see the module comment). */
 export interface OwnOutcome {
-  readonly panelTitle: string;
-  readonly question: string;
-  readonly unit: string;
   readonly resolvedAt: string;
-  readonly answer: number;
-  readonly low: number | null;
-  readonly high: number | null;
-  readonly actual: number;
   /** (answer − actual)/actual × 100. */
   readonly errorPercent: number;
-  /** Whether the actual lay in [low, high] (null for a single-value answer). */
-  readonly held: boolean | null;
 }
 
 export interface OwnRecord {
@@ -75,18 +68,7 @@ export async function getOwnRecord(actor: Actor): Promise<JsonSafe<OwnRecord>> {
   for (const r of resolutions) {
     for (const a of recordsByMember([r]).get(memberId)?.records ?? []) {
       if (!usableRecord(a)) continue;
-      outcomes.push({
-        panelTitle: r.panelTitle,
-        question: r.text,
-        unit: r.unit,
-        resolvedAt: r.resolvedAt.toISOString(),
-        answer: a.answer,
-        low: a.low ?? null,
-        high: a.high ?? null,
-        actual: a.actual,
-        errorPercent: ((a.answer - a.actual) / a.actual) * 100,
-        held: a.low === undefined || a.high === undefined ? null : a.actual >= a.low && a.actual <= a.high,
-      });
+      outcomes.push({ resolvedAt: r.resolvedAt.toISOString(), errorPercent: ((a.answer - a.actual) / a.actual) * 100 });
     }
   }
 

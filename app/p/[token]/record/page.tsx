@@ -3,7 +3,6 @@ import { redirect } from "next/navigation";
 import { getOwnRecord } from "@/lib/panels/own-record";
 import { MIN_OUTCOMES_FOR_ADVICE } from "@/lib/blend/own-record";
 import Figure from "@/lib/ui/figure";
-import { formatDateTime } from "@/lib/ui/format";
 import LinkProblem from "@/lib/ui/link-problem";
 import OwnErrorChart from "@/lib/ui/own-error-chart";
 import { panelistFromLink } from "@/lib/ui/panelist-access";
@@ -78,48 +77,11 @@ export default async function OwnRecordPage({ params }: { params: Promise<{ toke
           <p className="muted">No outcome of your answers has been recorded yet.</p>
         ) : (
           <>
-            <OwnErrorChart labels={r.outcomes.map((o, i) => `${i + 1}`)} values={r.outcomes.map((o) => o.errorPercent ?? 0)} />
-            <table>
-              <thead>
-                <tr>
-                  <th>#</th>
-                  <th>Panel and question</th>
-                  <th>Recorded</th>
-                  <th>Your answer</th>
-                  <th>Outcome</th>
-                  <th>Above (+) / below (−)</th>
-                  <th>Range held</th>
-                </tr>
-              </thead>
-              <tbody>
-                {r.outcomes.map((o, i) => (
-                  <tr key={i} data-outcome={i}>
-                    <td>{i + 1}</td>
-                    <td>
-                      {o.panelTitle}: {o.question}
-                    </td>
-                    <td>{formatDateTime(o.resolvedAt)}</td>
-                    <td>
-                      {o.low !== null && o.high !== null ? (
-                        <>
-                          <Figure value={o.low} /> – <Figure value={o.answer} /> – <Figure value={o.high} />
-                        </>
-                      ) : (
-                        <Figure value={o.answer} />
-                      )}{" "}
-                      {o.unit}
-                    </td>
-                    <td>
-                      <Figure value={o.actual} /> {o.unit}
-                    </td>
-                    <td>
-                      <Figure value={o.errorPercent === null ? null : o.errorPercent / 100} percent />
-                    </td>
-                    <td>{o.held === null ? "—" : o.held ? "yes" : "no"}</td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
+            <OwnErrorChart labels={r.outcomes.map((o) => o.resolvedAt.slice(0, 10))} values={r.outcomes.map((o) => o.errorPercent ?? 0)} />
+            <p className="muted small">
+              One point per recorded outcome, in the order the outcomes were recorded (dated): how far your answer (the middle of a range) was above or below the outcome,
+              in percent of the outcome. The question behind each point is not listed, so that this page shows no more of your answers than your record needs.
+            </p>
           </>
         )}
       </section>
