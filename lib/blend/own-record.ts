@@ -6,7 +6,7 @@
  * Input policy: see `index.ts` (thin history is expected: below the minimum the advice says so).
  */
 import { assertFinite } from "../stats/validate";
-import { logGamma } from "../stats/special";
+import { binomialCdf, binomialUpperTail } from "../stats/binomial";
 import type { IntervalHitRate } from "./track-record";
 
 /**
@@ -28,53 +28,6 @@ export const CLOSE_ENOUGH = 0.05;
 
 /** Nominal coverage of a calibration question's [P5, P95] range (Cooke 1991; docs/methods.md §21). */
 export const NOMINAL_CALIBRATION_COVERAGE = 0.9;
-
-/**
- * Binomial probability P(X ≤ k) for X ~ Binomial(n, p), by summing the terms
- * C(n, j)·p^j·(1 − p)^(n − j) for j = 0…k on the log scale (log-gamma, lib/stats/special.ts),
- * as R's `pbinom(k, n, p)`. P(X ≥ k) is `1 − binomialCdf(k − 1, n, p)`, or use
- * {@link binomialUpperTail}, which sums its own terms (no cancellation).
- *
- * Input: n a whole number ≥ 0, k a whole number (k < 0 gives 0, k ≥ n gives 1), p in [0, 1].
- * @throws RangeError for a non-whole or negative n, a non-whole k, or p outside [0, 1].
- */
-export function binomialCdf(k: number, n: number, p: number): number {
-  checkBinomial(k, n, p, "binomialCdf");
-  if (k < 0) return 0;
-  if (k >= n) return 1;
-  return Math.min(1, sumTerms(0, k, n, p));
-}
-
-/**
- * Binomial probability P(X ≥ k) for X ~ Binomial(n, p), as R's `pbinom(k - 1, n, p, lower.tail = FALSE)`.
- * Input and errors as {@link binomialCdf}.
- */
-export function binomialUpperTail(k: number, n: number, p: number): number {
-  checkBinomial(k, n, p, "binomialUpperTail");
-  if (k <= 0) return 1;
-  if (k > n) return 0;
-  return Math.min(1, sumTerms(k, n, n, p));
-}
-
-function checkBinomial(k: number, n: number, p: number, fn: string): void {
-  assertFinite(k, fn, "k");
-  assertFinite(n, fn, "n");
-  assertFinite(p, fn, "p");
-  if (!Number.isInteger(n) || n < 0) throw new RangeError(`${fn}: n is ${n}; it must be a whole number ≥ 0`);
-  if (!Number.isInteger(k)) throw new RangeError(`${fn}: k is ${k}; it must be a whole number`);
-  if (p < 0 || p > 1) throw new RangeError(`${fn}: p is ${p}; it must be in [0, 1]`);
-}
-
-function sumTerms(from: number, to: number, n: number, p: number): number {
-  if (p === 0) return from === 0 ? 1 : 0;
-  if (p === 1) return to === n ? 1 : 0;
-  const lp = Math.log(p);
-  const lq = Math.log1p(-p);
-  const lc = logGamma(n + 1);
-  let s = 0;
-  for (let j = from; j <= to; j++) s += Math.exp(lc - logGamma(j + 1) - logGamma(n - j + 1) + j * lp + (n - j) * lq);
-  return s;
-}
 
 /** The verdict on a set of ranges. */
 export type RangeVerdict = "too-few" | "too-narrow" | "too-wide" | "as-stated";

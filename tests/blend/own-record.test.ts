@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { intervalHitRate } from "../../lib/blend";
-import { biasAdvice, binomialCdf, binomialUpperTail, MIN_OUTCOMES_FOR_ADVICE, rangeAdvice } from "../../lib/blend/own-record";
+import { biasAdvice, MIN_OUTCOMES_FOR_ADVICE, rangeAdvice } from "../../lib/blend/own-record";
+import { binomialCdf, binomialUpperTail } from "../../lib/stats";
 import { rEval } from "../helpers/r";
 
 const hits = (h: number, n: number, nominal = 0.8) => ({ count: n, hits: h, rate: n ? h / n : NaN, nominal });
