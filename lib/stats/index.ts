@@ -27,3 +27,4 @@ export { normalCdf, normalSurvival, normalDensity, normalQuantile } from "./norm
 export { studentTCdf, studentTQuantile } from "./student-t";
 export { summarise, median, type Summary, type SummaryOptions } from "./summary";
 export { histogram, type HistogramBin } from "./histogram";
+export { binomialCdf, binomialUpperTail } from "./binomial";

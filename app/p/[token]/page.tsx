@@ -133,11 +133,15 @@ export default async function PanelistPage({ params, searchParams }: { params: P
       ) : (
         <p className="notice">Round 1 has not opened yet. Come back to this link once the organiser opens it.</p>
       )}
-      {feedback.round !== null ? (
-        <p>
-          <a href={`/p/${token}/feedback`}>Full feedback of round {feedback.round}</a>
-        </p>
-      ) : null}
+      <p>
+        {feedback.round !== null ? (
+          <>
+            <a href={`/p/${token}/feedback`}>Full feedback of round {feedback.round}</a>
+            {" · "}
+          </>
+        ) : null}
+        <a href={`/p/${token}/record`}>Your record</a> <span className="muted small">(how your past answers turned out; only you see it)</span>
+      </p>
 
       {pager}
       {together ? (
