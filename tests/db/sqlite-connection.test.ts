@@ -29,7 +29,7 @@ describe("one SQLite connection shared by concurrent requests", () => {
       .catch((e: Error) => e.message);
     await sleep(30);
     await db.db.rateLimitWindow.create({ data: { key: "outside-orm", windowStart: new Date(), count: 1 } });
-    await db.sqlRows(`INSERT INTO "RateLimitWindow" ("key", "windowStart", "count") VALUES (?, ?, 1)`, ["outside-direct", db.sqlTime(new Date())]);
+    await db.statements.countRateLimitHit("outside-direct", new Date(), new Date(0));
     expect(await failing).toBe("abort");
     const keys = (await db.db.rateLimitWindow.findMany({ select: { key: true }, orderBy: { key: "asc" } })).map((r) => r.key);
     expect(keys).toEqual(["outside-direct", "outside-orm"]);
@@ -43,9 +43,9 @@ describe("one SQLite connection shared by concurrent requests", () => {
       order.push("tx done");
     });
     await sleep(10);
-    const outside = db.sqlRows<{ n: number | bigint }>(`SELECT COUNT(*) AS "n" FROM "RateLimitWindow" WHERE "key" = ?`, ["tx"]).then((rows) => {
+    const outside = db.statements.rateLimitWindow("tx").then((w) => {
       order.push("outside read");
-      return Number(rows[0].n);
+      return w?.count;
     });
     await tx;
     // The read waited for the commit, so it sees the transaction's row.
