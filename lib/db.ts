@@ -100,9 +100,10 @@ async function outsideTransactions(conn: SqliteConnection): Promise<void> {
  * acknowledged answer, would become part of the open transaction and vanish if it rolled back.
  * So statements from outside wait until the open transaction has ended
  * (tests/db/sqlite-connection.test.ts). A transaction's own statements go through its own object
- * and are not held. What this relies on in the adapter is pinned by tests/db/sqlite-adapter.test.ts.
+ * and are not held. What this relies on in the adapter (and in how Prisma calls it) is pinned by
+ * the same test file, so an upgrade that changes it fails there.
  */
-export function holdOutsideStatements(adapter: SqlDriverAdapter, conn: { openTransaction: Promise<void> | null }): void {
+function holdOutsideStatements(adapter: SqlDriverAdapter, conn: { openTransaction: Promise<void> | null }): void {
   for (const method of ["queryRaw", "executeRaw"] as const) {
     const run = adapter[method].bind(adapter) as (q: never) => Promise<never>;
     (adapter as unknown as Record<string, unknown>)[method] = async (query: never) => {

@@ -40,7 +40,9 @@ async function open(kind: "sqlite" | "postgresql"): Promise<Database> {
   return conn;
 }
 
-describe.each([["sqlite" as const], ...(PG ? [["postgresql" as const]] : [])])("hand-written statements on %s", (kind) => {
+const kinds: ("sqlite" | "postgresql")[] = PG ? ["sqlite", "postgresql"] : ["sqlite"];
+
+describe.each(kinds)("hand-written statements on %s", (kind) => {
   let conn: Database;
   let ids: { panelId: string; questionId: string; roundId: string; invitationId: string };
   const deadline = new Date("2031-05-06T07:08:09.123Z");
