@@ -2,6 +2,7 @@ import { PrismaBetterSQLite3 } from "@prisma/adapter-better-sqlite3";
 import { PrismaPg } from "@prisma/adapter-pg";
 import { PrismaClient } from "./generated/prisma/client";
 import { PrismaClient as PostgresPrismaClient } from "./generated/prisma-pg/client";
+import { appPrismaClient, type AppPrismaClient } from "./prisma-client";
 import type { SqlDriverAdapter, Transaction } from "@prisma/driver-adapter-utils";
 import type BetterSqlite3 from "better-sqlite3";
 import pg from "pg";
@@ -12,7 +13,7 @@ import { env } from "./env";
 /** A database connection: the Prisma client and the hand-written statements (lib/db-statements.ts) on the same connection. */
 export interface Database {
   readonly dialect: Dialect;
-  readonly prisma: PrismaClient;
+  readonly prisma: AppPrismaClient;
   readonly statements: Statements;
 }
 
@@ -56,15 +57,14 @@ interface SqliteConnection {
 
 /**
  * A connection to `url` (DATABASE_URL's form). PostgreSQL goes through a connection pool
- * (node-postgres) of TRIANGULATE_PG_POOL connections (default 10). Both generated clients come
- * from the same models (scripts/postgres-schema.mjs), so the PostgreSQL one is used under the
- * SQLite one's type.
+ * (node-postgres) of TRIANGULATE_PG_POOL connections (default 10). Either client has the one
+ * type {@link AppPrismaClient} (lib/prisma-client.ts).
  */
 export function connectDatabase(url: string | undefined): Database {
   if (dialectOf(url) === "postgresql") {
     const pool = new pg.Pool({ connectionString: url, max: env().TRIANGULATE_PG_POOL });
     // disposeExternalPool: $disconnect (the CLI commands end with it) also closes the pool.
-    const prisma = new PostgresPrismaClient({ adapter: new PrismaPg(pool, { disposeExternalPool: true }) }) as unknown as PrismaClient;
+    const prisma = appPrismaClient(new PostgresPrismaClient({ adapter: new PrismaPg(pool, { disposeExternalPool: true }) }));
     return { dialect: "postgresql", prisma, statements: statementsOn(postgresRunner(pool)) };
   }
   const conn: SqliteConnection = { openTransaction: null };
@@ -141,7 +141,7 @@ function holdOutsideStatements(adapter: SqlDriverAdapter, conn: { openTransactio
 const shared: Database = ((globalThis as unknown as { triangulateDb?: Database }).triangulateDb ??= (env(), connectDatabase(process.env.DATABASE_URL)));
 
 /** The one Prisma client of the process. Inside `db.$transaction(async (tx) => …)` use `tx` only. */
-export const db: PrismaClient = shared.prisma;
+export const db: AppPrismaClient = shared.prisma;
 
 /** The hand-written statements of the hot panelist path (lib/db-statements.ts), on the same connection as {@link db}. */
 export const statements: Statements = shared.statements;
