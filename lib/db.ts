@@ -135,8 +135,9 @@ function holdOutsideStatements(adapter: SqlDriverAdapter, conn: { openTransactio
 }
 
 /**
- * The process's one connection (DATABASE_URL, checked by lib/env.ts), kept on globalThis so that the dev server's module reloads (and
- * the route modules the production server loads twice) share it.
+ * The process's one connection (DATABASE_URL, checked by lib/env.ts), kept on globalThis so that
+ * the dev server's module reloads and the route modules the production server loads twice share
+ * it, with its prepared statements and its transaction gate.
  */
 const shared: Database = ((globalThis as unknown as { triangulateDb?: Database }).triangulateDb ??= (env(), connectDatabase(process.env.DATABASE_URL)));
 
