@@ -6,6 +6,10 @@
  * Statements use `?` placeholders (turned into `$1, $2, …` for PostgreSQL) and double-quoted
  * identifiers, which both databases read alike. Whole numbers come back as numbers and
  * timestamps as Date objects on both.
+ *
+ * A test and bench utility, not a way into the database for the app: it opens its own connection
+ * (read-only if asked), runs any check a test needs, clears tables and creates databases. The
+ * app's own hand-written statements are the typed functions of lib/db-statements.ts.
  */
 import Database from "better-sqlite3";
 import pg from "pg";

@@ -2,37 +2,28 @@ import { PrismaBetterSQLite3 } from "@prisma/adapter-better-sqlite3";
 import { PrismaPg } from "@prisma/adapter-pg";
 import { PrismaClient } from "./generated/prisma/client";
 import { PrismaClient as PostgresPrismaClient } from "./generated/prisma-pg/client";
+import { appPrismaClient, type AppPrismaClient } from "./prisma-client";
 import type { SqlDriverAdapter, Transaction } from "@prisma/driver-adapter-utils";
 import type BetterSqlite3 from "better-sqlite3";
-import { createHash } from "node:crypto";
 import pg from "pg";
+import { postgresRunner, sqliteRunner, statementsOn, type Dialect, type Statements } from "./db-statements";
 import { ensureDatabaseFile, isPostgresUrl } from "./env-db";
 import { env } from "./env";
-import { numberedPlaceholders, parsePostgresTimestamp, timestampParam } from "./sql-text";
 
-/**
- * The one Prisma client of the process and what hangs on its connection: the SQLite connection
- * with its prepared statements and the open-transaction gate, or the PostgreSQL pool. Kept on
- * globalThis, so that the dev server's module reloads reuse them.
- */
-interface Connection {
-  prisma?: PrismaClient;
-  sqlite?: { adapter: SqlDriverAdapter & { client: BetterSqlite3.Database }; statements: Map<string, BetterSqlite3.Statement> };
-  /** Settles when the interactive transaction open on the SQLite connection ends; null when none is open. */
-  openTransaction: Promise<void> | null;
-  postgresPool?: pg.Pool;
-  /** Statement text → its PostgreSQL form: a prepared-statement name and `$n` placeholders. */
-  postgresStatements: Map<string, { name: string; text: string }>;
+/** A database connection: the Prisma client and the hand-written statements (lib/db-statements.ts) on the same connection. */
+export interface Database {
+  readonly dialect: Dialect;
+  readonly prisma: AppPrismaClient;
+  readonly statements: Statements;
 }
-const shared: Connection = ((globalThis as unknown as { triangulateDb?: Connection }).triangulateDb ??= { openTransaction: null, postgresStatements: new Map() });
+
+/** Which database `url` names: PostgreSQL for `postgresql://…`, else the SQLite file. */
+export function dialectOf(url: string | undefined): Dialect {
+  return isPostgresUrl(url) ? "postgresql" : "sqlite";
+}
 
 /** Which database this process talks to: DATABASE_URL naming PostgreSQL, else the SQLite file. */
-export const dialect: "sqlite" | "postgresql" = isPostgresUrl(process.env.DATABASE_URL) ? "postgresql" : "sqlite";
-
-/** A timestamp as a parameter of {@link sqlRows} on this process's database (lib/sql-text.ts). */
-export function sqlTime(d: Date): string {
-  return timestampParam(dialect, d);
-}
+export const dialect: Dialect = dialectOf(process.env.DATABASE_URL);
 
 /**
  * Connection settings, run once on the connection when Prisma opens it:
@@ -56,39 +47,50 @@ export function connectionPragmas(): string[] {
   return ["journal_mode = WAL", `synchronous = ${env().TRIANGULATE_SQLITE_SYNCHRONOUS}`, "busy_timeout = 5000", "foreign_keys = ON"];
 }
 
+/** The SQLite connection Prisma opened, and the interactive transaction open on it. */
+interface SqliteConnection {
+  /** better-sqlite3's connection inside Prisma's adapter; set when Prisma connects. */
+  client?: BetterSqlite3.Database;
+  /** Settles when the interactive transaction open on the connection ends; null when none is open. */
+  openTransaction: Promise<void> | null;
+}
+
 /**
- * The client for DATABASE_URL. PostgreSQL goes through a connection pool (node-postgres) of
- * TRIANGULATE_PG_POOL connections (default 10) per app instance. Both generated clients come
- * from the same models (scripts/postgres-schema.mjs), so the PostgreSQL one is used under the
- * SQLite one's type.
+ * A connection to `url` (DATABASE_URL's form). PostgreSQL goes through a connection pool
+ * (node-postgres) of TRIANGULATE_PG_POOL connections (default 10). Either client has the one
+ * type {@link AppPrismaClient} (lib/prisma-client.ts).
  */
-function createClient(): PrismaClient {
-  const { DATABASE_URL, TRIANGULATE_PG_POOL } = env();
-  if (dialect === "postgresql") {
-    shared.postgresPool = new pg.Pool({ connectionString: DATABASE_URL, max: TRIANGULATE_PG_POOL });
+export function connectDatabase(url: string | undefined): Database {
+  if (dialectOf(url) === "postgresql") {
+    const pool = new pg.Pool({ connectionString: url, max: env().TRIANGULATE_PG_POOL });
     // disposeExternalPool: $disconnect (the CLI commands end with it) also closes the pool.
-    return new PostgresPrismaClient({ adapter: new PrismaPg(shared.postgresPool, { disposeExternalPool: true }) }) as unknown as PrismaClient;
+    const prisma = appPrismaClient(new PostgresPrismaClient({ adapter: new PrismaPg(pool, { disposeExternalPool: true }) }));
+    return { dialect: "postgresql", prisma, statements: statementsOn(postgresRunner(pool)) };
   }
-  const factory = new PrismaBetterSQLite3({ url: `file:${ensureDatabaseFile()}`, timeout: 5000 });
+  const conn: SqliteConnection = { openTransaction: null };
+  const factory = new PrismaBetterSQLite3({ url: `file:${ensureDatabaseFile({ ...process.env, DATABASE_URL: url })}`, timeout: 5000 });
   const connect = factory.connect.bind(factory);
   factory.connect = async () => {
     const adapter = await connect();
     await adapter.executeScript(connectionPragmas().map((p) => `PRAGMA ${p};`).join("\n"));
-    shared.sqlite = { adapter: adapter as SqlDriverAdapter & { client: BetterSqlite3.Database }, statements: new Map() };
-    holdOutsideStatements(adapter);
+    conn.client = (adapter as SqlDriverAdapter & { client: BetterSqlite3.Database }).client;
+    holdOutsideStatements(adapter, conn);
     return adapter;
   };
-  return new PrismaClient({ adapter: factory });
+  const prisma = new PrismaClient({ adapter: factory });
+  // The statements run on Prisma's own connection (SQLite allows one writer), outside any open transaction.
+  const statements = statementsOn(
+    sqliteRunner(async () => {
+      if (!conn.client) await prisma.$connect();
+      await outsideTransactions(conn);
+      return conn.client!;
+    }),
+  );
+  return { dialect: "sqlite", prisma, statements };
 }
 
-/** PostgreSQL `timestamp` (OID 1114) as UTC, the way Prisma writes it; other types as node-postgres parses them. */
-const postgresTypes = {
-  getTypeParser: ((oid: number, format?: "text" | "binary") =>
-    oid === 1114 ? parsePostgresTimestamp : pg.types.getTypeParser(oid, format)) as typeof pg.types.getTypeParser,
-};
-
-async function outsideTransactions(): Promise<void> {
-  while (shared.openTransaction) await shared.openTransaction;
+async function outsideTransactions(conn: SqliteConnection): Promise<void> {
+  while (conn.openTransaction) await conn.openTransaction;
 }
 
 /**
@@ -98,13 +100,14 @@ async function outsideTransactions(): Promise<void> {
  * acknowledged answer, would become part of the open transaction and vanish if it rolled back.
  * So statements from outside wait until the open transaction has ended
  * (tests/db/sqlite-connection.test.ts). A transaction's own statements go through its own object
- * and are not held.
+ * and are not held. What this relies on in the adapter (and in how Prisma calls it) is pinned by
+ * the same test file, so an upgrade that changes it fails there.
  */
-function holdOutsideStatements(adapter: SqlDriverAdapter): void {
+function holdOutsideStatements(adapter: SqlDriverAdapter, conn: { openTransaction: Promise<void> | null }): void {
   for (const method of ["queryRaw", "executeRaw"] as const) {
     const run = adapter[method].bind(adapter) as (q: never) => Promise<never>;
     (adapter as unknown as Record<string, unknown>)[method] = async (query: never) => {
-      await outsideTransactions();
+      await outsideTransactions(conn);
       return run(query);
     };
   }
@@ -112,9 +115,9 @@ function holdOutsideStatements(adapter: SqlDriverAdapter): void {
   adapter.startTransaction = async (isolationLevel) => {
     const tx: Transaction = await start(isolationLevel);
     let ended!: () => void;
-    shared.openTransaction = new Promise((resolve) => (ended = resolve));
+    conn.openTransaction = new Promise((resolve) => (ended = resolve));
     const finish = () => {
-      shared.openTransaction = null;
+      conn.openTransaction = null;
       ended();
     };
     for (const method of ["commit", "rollback"] as const) {
@@ -132,38 +135,17 @@ function holdOutsideStatements(adapter: SqlDriverAdapter): void {
 }
 
 /**
- * Runs one statement (`?` placeholders, double-quoted names; lib/sql-text.ts) and returns its
- * rows. On SQLite it runs directly on Prisma's own connection, with the statement prepared once
- * and kept, outside any open transaction; on PostgreSQL, on a connection of Prisma's own pool as
- * a named prepared statement: no query compilation, no per-call preparation. This
- * is for the few statements every panelist request runs (bench/load.ts profiles them); the rest
- * of the app uses the Prisma client. Integers come back as bigint on SQLite and as numbers (or, for
- * bigint results such as COUNT, text) on PostgreSQL, timestamps as text on SQLite and as Dates on
- * PostgreSQL: callers convert. Pass timestamps as {@link sqlTime}.
+ * The process's one connection (DATABASE_URL, checked by lib/env.ts), kept on globalThis so that
+ * the dev server's module reloads and the route modules the production server loads twice share
+ * it, with its prepared statements and its transaction gate.
  */
-export async function sqlRows<T = Record<string, unknown>>(text: string, params: readonly unknown[] = []): Promise<T[]> {
-  if (dialect === "postgresql") {
-    let stmt = shared.postgresStatements.get(text);
-    if (!stmt) {
-      stmt = { name: `q${createHash("sha1").update(text).digest("hex").slice(0, 16)}`, text: numberedPlaceholders(text) };
-      shared.postgresStatements.set(text, stmt);
-    }
-    return (await shared.postgresPool!.query({ ...stmt, values: params as unknown[], types: postgresTypes })).rows as T[];
-  }
-  if (!shared.sqlite) await db.$connect();
-  const conn = shared.sqlite!;
-  await outsideTransactions();
-  let stmt = conn.statements.get(text);
-  if (!stmt) {
-    stmt = conn.adapter.client.prepare(text);
-    conn.statements.set(text, stmt);
-  }
-  if (stmt.reader) return stmt.all(...params) as T[];
-  stmt.run(...params);
-  return [];
-}
+const shared: Database = ((globalThis as unknown as { triangulateDb?: Database }).triangulateDb ??= (env(), connectDatabase(process.env.DATABASE_URL)));
 
-export const db: PrismaClient = (shared.prisma ??= createClient());
+/** The one Prisma client of the process. Inside `db.$transaction(async (tx) => …)` use `tx` only. */
+export const db: AppPrismaClient = shared.prisma;
+
+/** The hand-written statements of the hot panelist path (lib/db-statements.ts), on the same connection as {@link db}. */
+export const statements: Statements = shared.statements;
 
 /** The Prisma error code of `err` ("P2002"…), if it has one. */
 function prismaCode(err: unknown): string | undefined {

@@ -4,7 +4,7 @@
  * request (lib/http/context.ts); pages from the session (lib/session.ts) or from the
  * invitation token in the link `/p/<token>` ({@link actorFromInvitationToken}).
  */
-import { db, sqlRows, sqlTime } from "@/lib/db";
+import { db, statements } from "@/lib/db";
 import { NotAuthenticatedError } from "@/lib/errors";
 import { API_TOKEN_PREFIX, apiTokenExpiry, hashToken, tokenMatches } from "./tokens";
 
@@ -82,13 +82,9 @@ export async function actorFromApiToken(token: string): Promise<UserActor> {
  *   re-issued one) or expired; the message says which and what to do.
  */
 export async function actorFromInvitationToken(token: string): Promise<PanelistActor> {
-  // A prepared statement (sqlRows): this lookup runs on every panelist request (a burst of
-  // answers), where Prisma's per-call query compilation was the largest cost (bench/load.ts).
-  const [found] = await sqlRows<{ id: string; panelId: string; pseudonym: string; tokenHash: string; expiresAt: Date | string; revokedAt: Date | string | null; lastSeenAt: Date | string | null }>(
-    `SELECT "id", "panelId", "pseudonym", "tokenHash", "expiresAt", "revokedAt", "lastSeenAt" FROM "Invitation" WHERE "tokenHash" = ?`,
-    [hashToken(token)],
-  );
-  const row = found && { ...found, expiresAt: new Date(found.expiresAt), revokedAt: found.revokedAt === null ? null : new Date(found.revokedAt), lastSeenAt: found.lastSeenAt === null ? null : new Date(found.lastSeenAt) };
+  // A hand-written statement (lib/db-statements.ts): this lookup runs on every panelist request
+  // (a burst of answers), where Prisma's per-call query compilation was the largest cost (bench/load.ts).
+  const row = await statements.invitationByTokenHash(hashToken(token));
   if (!row || !tokenMatches(token, row.tokenHash)) {
     throw new NotAuthenticatedError("This invitation link is not valid (it may have been replaced by a newer one).");
   }
@@ -96,7 +92,7 @@ export async function actorFromInvitationToken(token: string): Promise<PanelistA
   if (row.expiresAt.getTime() <= Date.now()) {
     throw new NotAuthenticatedError("This invitation has expired; ask the organiser for a new link.");
   }
-  if (isStale(row.lastSeenAt)) await sqlRows(`UPDATE "Invitation" SET "lastSeenAt" = ? WHERE "id" = ?`, [sqlTime(new Date()), row.id]);
+  if (isStale(row.lastSeenAt)) await statements.touchInvitation(row.id, new Date());
   return { kind: "panelist", invitationId: row.id, panelId: row.panelId, pseudonym: row.pseudonym };
 }
 

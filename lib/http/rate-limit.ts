@@ -10,7 +10,7 @@
  * address when the request has none). A client can send its own header, so per-address limits
  * only hold behind a proxy that overwrites it; the per-account limits below do not depend on it.
  */
-import { db, sqlRows, sqlTime } from "@/lib/db";
+import { db, statements } from "@/lib/db";
 import { TooManyRequestsError } from "@/lib/errors";
 import { problemResponse } from "./problem";
 
@@ -36,32 +36,23 @@ export class FixedWindowLimiter {
 
   /** Seconds until `key` may try again, or null when it is under the limit (counts nothing). */
   async blocked(key: string, now = Date.now()): Promise<number | null> {
-    // A prepared statement (sqlRows): this check runs on every API request.
-    const [w] = await sqlRows<{ windowStart: Date | string; count: number | bigint }>(`SELECT "windowStart", "count" FROM "RateLimitWindow" WHERE "key" = ?`, [`${this.name}:${key}`]);
-    const start = w ? new Date(w.windowStart).getTime() : 0;
+    // A hand-written statement (lib/db-statements.ts): this check runs on every API request.
+    const w = await statements.rateLimitWindow(`${this.name}:${key}`);
+    const start = w ? w.windowStart.getTime() : 0;
     if (!w || now - start >= this.windowMs) return null;
-    return retryAfter(this.limit, this.windowMs, start, Number(w.count) + 1, now);
+    return retryAfter(this.limit, this.windowMs, start, w.count + 1, now);
   }
 
   /** Counts one hit; returns the seconds to wait when this hit is over the limit, else null. */
   async hit(key: string, now = Date.now()): Promise<number | null> {
-    const at = sqlTime(new Date(now));
-    const expired = sqlTime(new Date(now - this.windowMs));
     // One statement: a new key or an expired window starts a window with count 1; otherwise the
-    // count goes up by one. SET expressions read the row as it was before the update.
-    const [w] = await sqlRows<{ windowStart: Date | string; count: number | bigint }>(
-      `INSERT INTO "RateLimitWindow" ("key", "windowStart", "count") VALUES (?, ?, 1)
-       ON CONFLICT ("key") DO UPDATE SET
-         "count" = CASE WHEN "RateLimitWindow"."windowStart" <= ? THEN 1 ELSE "RateLimitWindow"."count" + 1 END,
-         "windowStart" = CASE WHEN "RateLimitWindow"."windowStart" <= ? THEN ? ELSE "RateLimitWindow"."windowStart" END
-       RETURNING "windowStart", "count"`,
-      [`${this.name}:${key}`, at, expired, expired, at],
-    );
+    // count goes up by one.
+    const w = await statements.countRateLimitHit(`${this.name}:${key}`, new Date(now), new Date(now - this.windowMs));
     if (++hitsSinceSweep >= 1000) {
       hitsSinceSweep = 0;
       await db.rateLimitWindow.deleteMany({ where: { windowStart: { lt: new Date(now - KEEP_MS) } } });
     }
-    return retryAfter(this.limit, this.windowMs, new Date(w.windowStart).getTime(), Number(w.count), now);
+    return retryAfter(this.limit, this.windowMs, w.windowStart.getTime(), w.count, now);
   }
 }
 

@@ -12,7 +12,7 @@
  * Sum-of-parts answers estimate different parts, so the rule does not apply to them.
  */
 import { formatDateTime } from "@/lib/ui/format";
-import { db, dialect, sqlRows, sqlTime } from "@/lib/db";
+import { db, statements } from "@/lib/db";
 import { randomBytes } from "node:crypto";
 import { ConflictError, DomainError, InvalidInputError, type FieldError } from "@/lib/errors";
 import type { Actor, PanelistActor } from "@/lib/accounts/actor";
@@ -232,44 +232,14 @@ function newAnswerId(): string {
  * transaction of four queries: the answer path is the hottest write of the app; bench/load.ts.)
  */
 async function storeAnswer(me: PanelistActor, input: AnswerInput, key: string | undefined): Promise<AnswerView> {
-  // One prepared statement (sqlRows: the hottest path skips Prisma's per-call query compilation)
-  // for the panel's status, the question and the open round (a panel has at most one open round).
-  const [found] = await sqlRows<
-    {
-      panelStatus: string;
-      questionId: string | null;
-      answerFormat: string;
-      calibration: boolean | number;
-      lowerBound: number;
-      upperBound: number;
-      unit: string;
-      roundId: string | null;
-      roundNumber: number | bigint | null;
-      deadline: Date | string | null;
-    }
-  >(
-    `SELECT p."status" AS "panelStatus", q."id" AS "questionId", q."answerFormat", q."calibration", q."lowerBound", q."upperBound", q."unit",
-            r."id" AS "roundId", r."number" AS "roundNumber", r."deadline"
-     FROM "Panel" p
-     LEFT JOIN "Question" q ON q."panelId" = p."id" AND q."id" = ?
-     LEFT JOIN "Round" r ON r."panelId" = p."id" AND r."status" = 'open'
-     WHERE p."id" = ?
-     LIMIT 1`,
-    [input.questionId, me.panelId],
-  );
+  // One hand-written statement (lib/db-statements.ts: the hottest path skips Prisma's per-call
+  // query compilation) for the panel's status, the question and the open round.
+  const found = await statements.answerTarget(me.panelId, input.questionId);
   if (!found) throw new ConflictError("panel-deleted", "The panel no longer exists.");
   if (found.panelStatus === "finished") throw new ConflictError("panel-finished", "The panel is finished; answers are no longer accepted.");
-  if (!found.questionId) throw new InvalidInputError([{ field: "questionId", message: "no such question in your panel" }]);
-  const question = {
-    id: found.questionId,
-    answerFormat: found.answerFormat,
-    calibration: Boolean(found.calibration),
-    lowerBound: Number(found.lowerBound),
-    upperBound: Number(found.upperBound),
-    unit: found.unit,
-  };
-  let round =
-    found.roundId === null ? null : { id: found.roundId, number: Number(found.roundNumber), deadline: found.deadline === null ? null : new Date(found.deadline) };
+  const question = found.question;
+  if (!question) throw new InvalidInputError([{ field: "questionId", message: "no such question in your panel" }]);
+  let round = found.round;
   if (round?.deadline && round.deadline.getTime() <= Date.now()) {
     // The deadline has passed: entering the panel closes the round, so the message below names it.
     await authorisePanelist(me);
@@ -297,24 +267,23 @@ async function storeAnswer(me: PanelistActor, input: AnswerInput, key: string | 
   const high = input.high ?? null;
   for (let tries = 0; tries < 3; tries++) {
     const now = new Date();
-    const at = sqlTime(now);
-    const rows = await sqlRows<{ version: number | bigint }>(
-      `INSERT INTO "Answer" ("id", "roundId", "questionId", "invitationId", "version", "value", "low", "high", "rationale", "idempotencyKey", "createdAt")
-       SELECT ?, r."id", ?, ?,
-              COALESCE((SELECT MAX(a."version") FROM "Answer" a WHERE a."roundId" = r."id" AND a."questionId" = ? AND a."invitationId" = ?), 0) + 1,
-              ?, ?, ?, ?, ?, ?
-       FROM "Round" r
-       WHERE r."id" = ? AND r."status" = 'open' AND (r."deadline" IS NULL OR r."deadline" > ?)
-       ${dialect === "postgresql" ? "FOR SHARE OF r" : ""}
-       ON CONFLICT DO NOTHING
-       RETURNING "version"`,
-      [newAnswerId(), question.id, me.invitationId, question.id, me.invitationId, input.value, low, high, input.rationale, key ?? null, at, round.id, at],
-    );
-    if (rows.length === 1) {
+    const version = await statements.insertAnswerVersion({
+      id: newAnswerId(),
+      roundId: round.id,
+      questionId: question.id,
+      invitationId: me.invitationId,
+      value: input.value,
+      low,
+      high,
+      rationale: input.rationale,
+      idempotencyKey: key ?? null,
+      at: now,
+    });
+    if (version !== null) {
       return {
         questionId: question.id,
         roundNumber: round.number,
-        version: Number(rows[0].version),
+        version,
         value: input.value,
         low,
         high,
