@@ -96,7 +96,7 @@ describe("departure chart", () => {
     expect(sets).toHaveLength(6);
     expect(new Set(sets.map((d) => d.borderColor)).size).toBe(6);
     expect(new Set(sets.map((d) => d.pointStyle)).size).toBe(6);
-    expect(new Set(sets.map((d) => (d.borderDash ?? []).join(","))).size).toBe(6);
+    expect(new Set(sets.map((d) => JSON.stringify(d.borderDash ?? []))).size).toBe(6);
     expect(sets[5]).toMatchObject({ label: "Panel figure", borderColor: "#000000", data: [0.4, 0.2] });
   });
 
@@ -117,6 +117,6 @@ describe("departure chart", () => {
   it("gives the tracking signal's four figures distinct shapes and dashes", () => {
     const s = signalDatasets(["Raw panel", "Corrected panel", "Baseline", "Blend"].map((label) => ({ label, values: [1, -2] })));
     expect(new Set(s.map((d) => d.pointStyle)).size).toBe(4);
-    expect(new Set(s.map((d) => (d.borderDash ?? []).join(","))).size).toBe(4);
+    expect(new Set(s.map((d) => JSON.stringify(d.borderDash ?? []))).size).toBe(4);
   });
 });
