@@ -35,6 +35,7 @@ export function convergenceConfig(points: readonly ConvergencePoint[], unit: str
     borderSkipped: false,
     pointStyle: "rect",
     barPercentage: 0.5,
+    maxBarThickness: 56,
     categoryPercentage: 0.9,
     order: 2,
   };
@@ -61,7 +62,7 @@ export function convergenceConfig(points: readonly ConvergencePoint[], unit: str
       animation: false,
       scales: {
         x: { offset: true },
-        y: { ...range, title: { display: true, text: `${unit} (${PROPORTIONAL_NOTE})` } },
+        y: { beginAtZero: false, ...range, title: { display: true, text: `${unit} (${PROPORTIONAL_NOTE})` } },
       },
       plugins: {
         legend: legendOptions(),

@@ -78,7 +78,7 @@ export function legendOptions(filter?: (text: string) => boolean) {
 export const MIN_AXIS_SHARE = 0.4;
 
 /** The phrase added to an axis title that uses `proportionalRange`. */
-export const PROPORTIONAL_NOTE = `scale spans at least ${MIN_AXIS_SHARE * 100}% of the largest value`;
+export const PROPORTIONAL_NOTE = `axis spans ≥ ${MIN_AXIS_SHARE * 100}% of the value`;
 
 /**
  * Axis bounds in which a change shows in proportion to the value: the values' own range with 5%
