@@ -2,7 +2,7 @@ import type { Metadata } from "next";
 import { TRACKING_SIGNAL_LIMIT } from "@/lib/blend";
 import { getAccuracyHistory } from "@/lib/panels/track-records";
 import Figure from "@/lib/ui/figure";
-import { formatDateTime, formatNumber } from "@/lib/ui/format";
+import { countOf, formatDate, formatNumber } from "@/lib/ui/format";
 import { requireOrganiserPage } from "@/lib/ui/require-user";
 import TrackingSignalChart from "@/lib/ui/tracking-signal-chart";
 
@@ -37,10 +37,10 @@ export default async function AccuracyPage() {
         How each figure did over your resolved questions: the panel&apos;s raw figure, the bias-corrected panel, the statistical baseline and the blend.
       </p>
       {view.withoutBaseline > 0 ? (
-        <p className="muted small">{view.withoutBaseline} resolved question(s) had no baseline and are left out (there is no baseline or blend to compare).</p>
+        <p className="muted small">{countOf(view.withoutBaseline, "resolved question")} had no baseline and are left out (there is no baseline or blend to compare).</p>
       ) : null}
       {view.unusable > 0 ? (
-        <p className="muted small">{view.unusable} resolved question(s) are left out because a recorded value is too extreme to score (outside 0 or 1e-12 to 1e15 in size).</p>
+        <p className="muted small">{countOf(view.unusable, "resolved question")} {view.unusable === 1 ? "is" : "are"} left out because a recorded value is too extreme to score (outside 0 or 1e-12 to 1e15 in size).</p>
       ) : null}
       {h === null ? (
         <p className="muted">No resolved question with a baseline yet. Resolve a question on its page once the outcome is known.</p>
@@ -128,7 +128,7 @@ export default async function AccuracyPage() {
                           {q.panelTitle} · {q.unit}
                         </span>
                       </td>
-                      <td>{formatDateTime(q.resolvedAt).replace(/, \d\d:\d\d UTC$/, "")}</td>
+                      <td>{formatDate(q.resolvedAt)}</td>
                       <td className="num">
                         <Figure value={q.actual} name="actual" />
                       </td>

@@ -58,10 +58,11 @@ export async function createOrganiser(args: string[], io: CommandIo): Promise<nu
     return 0;
   }
   const { setupInput, USER_ROLES } = await import("../validation/inputs");
+  const { plainMessage } = await import("../validation/messages");
   const password = values.password === "-" ? io.stdin().split(/\r?\n/)[0] : values.password;
   const parsed = setupInput.safeParse({ email: values.email, name: values.name, password });
   if (!parsed.success) {
-    return usageError(io, CREATE_USAGE, parsed.error.issues.map((i) => `--${i.path.join(".")}: ${i.message}`).join("; "));
+    return usageError(io, CREATE_USAGE, parsed.error.issues.map((i) => `--${i.path.join(".")}: ${plainMessage(i)}`).join("; "));
   }
   const role = values.role as (typeof USER_ROLES)[number];
   if (!USER_ROLES.includes(role)) return usageError(io, CREATE_USAGE, `--role must be organiser or reviewer (got "${values.role}")`);
@@ -104,11 +105,12 @@ export async function createToken(args: string[], io: CommandIo): Promise<number
   }
   if (!values.email) return usageError(io, TOKEN_USAGE, "--email is required");
   const { apiTokenCreate } = await import("../validation/inputs");
+  const { plainMessage } = await import("../validation/messages");
   const days = values.days === undefined ? undefined : /^\d+$/.test(values.days) ? Number(values.days) : NaN;
   const parsed = apiTokenCreate.safeParse({ name: values.name, ...(days === undefined ? {} : { expiresInDays: days }) });
   if (!parsed.success) {
     const option = (field: PropertyKey | undefined) => (field === "expiresInDays" ? "days" : String(field));
-    return usageError(io, TOKEN_USAGE, parsed.error.issues.map((i) => `--${option(i.path[0])}: ${i.message}`).join("; "));
+    return usageError(io, TOKEN_USAGE, parsed.error.issues.map((i) => `--${option(i.path[0])}: ${plainMessage(i)}`).join("; "));
   }
   const { createApiTokenFor } = await import("../accounts/users");
   const { DomainError } = await import("../errors");

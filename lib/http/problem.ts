@@ -8,6 +8,7 @@
 import { z } from "zod";
 import { DomainError, TooManyRequestsError, type FieldError } from "@/lib/errors";
 import { PROBLEM_TYPES, problemTypeUri, type ProblemKind } from "@/lib/problem-types";
+import { plainMessage } from "@/lib/validation/messages";
 
 export const PROBLEM_CONTENT_TYPE = "application/problem+json";
 
@@ -25,9 +26,9 @@ export function fieldOf(path: readonly PropertyKey[]): string {
   return path.map(String).join(".");
 }
 
-/** Field errors of a zod error, one per issue. */
+/** Field errors of a zod error, one per issue, in plain words (`plainMessage`). */
 export function zodFieldErrors(err: z.ZodError, prefix = ""): FieldError[] {
-  return err.issues.map((i) => ({ field: prefix + fieldOf(i.path), message: i.message }));
+  return err.issues.map((i) => ({ field: prefix + fieldOf(i.path), message: plainMessage(i) }));
 }
 
 /**

@@ -260,11 +260,11 @@ export function evaluateStoppingRules(input: {
   if (allSettled) reasons.push("Every question is stable: another round would not be expected to change the answers.");
   const disagreeing = questions.filter((q) => q.settled && q.consensus.applicable && !q.consensus.met).length;
   if (allSettled && disagreeing > 0) {
-    reasons.push(`${disagreeing} stable question(s) have not reached consensus: report the spread of views as the finding.`);
+    reasons.push(`${disagreeing} stable ${disagreeing === 1 ? "question has" : "questions have"} not reached consensus: report the spread of views as the finding.`);
   }
   if (!limitMet && !allSettled) {
     const open = questions.filter((q) => !q.settled).length;
-    reasons.push(`${open} of ${questions.length} question(s) are not yet stable${roundNumber === 1 ? " (stability needs two rounds to compare; consensus alone does not stop a panel)" : ""}.`);
+    reasons.push(`${open} of ${questions.length} ${questions.length === 1 ? "question" : "questions"} ${open === 1 ? "is" : "are"} not yet stable${roundNumber === 1 ? " (stability needs two rounds to compare; consensus alone does not stop a panel)" : ""}.`);
   }
   return {
     roundNumber,

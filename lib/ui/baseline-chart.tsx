@@ -8,6 +8,7 @@
  */
 import { useEffect, useRef } from "react";
 import { resizeForPrint } from "./chart-print";
+import { legendOptions, OKABE_ITO, PROPORTIONAL_NOTE, proportionalRange } from "./chart-style";
 import { Chart, LineController, LineElement, PointElement, LinearScale, CategoryScale, Filler, Tooltip, Legend } from "chart.js";
 
 Chart.register(LineController, LineElement, PointElement, LinearScale, CategoryScale, Filler, Tooltip, Legend);
@@ -66,33 +67,35 @@ export default function BaselineChart({ labels, history, fitted = [], forecast =
         datasets: [
           ...(h > 0
             ? [
-                { label: "95% lower", data: fan((s) => s.lower95), borderColor: "rgba(138, 75, 20, 0.25)", pointRadius: 0, borderWidth: 1, fill: false },
+                { label: "95% lower", data: fan((s) => s.lower95), borderColor: "rgba(230, 159, 0, 0.4)", pointRadius: 0, borderWidth: 1, fill: false },
                 {
                   label: "95% interval",
                   data: fan((s) => s.upper95),
-                  borderColor: "rgba(138, 75, 20, 0.25)",
-                  backgroundColor: "rgba(138, 75, 20, 0.12)",
+                  borderColor: "rgba(230, 159, 0, 0.4)",
+                  backgroundColor: "rgba(230, 159, 0, 0.15)",
+                  pointStyle: "rect" as const,
                   pointRadius: 0,
                   borderWidth: 1,
                   fill: "-1" as const,
                 },
-                { label: "80% lower", data: fan((s) => s.lower80), borderColor: "rgba(138, 75, 20, 0.45)", pointRadius: 0, borderWidth: 1, fill: false },
+                { label: "80% lower", data: fan((s) => s.lower80), borderColor: "rgba(230, 159, 0, 0.7)", pointRadius: 0, borderWidth: 1, fill: false },
                 {
                   label: "80% interval",
                   data: fan((s) => s.upper80),
-                  borderColor: "rgba(138, 75, 20, 0.45)",
-                  backgroundColor: "rgba(138, 75, 20, 0.25)",
+                  borderColor: "rgba(230, 159, 0, 0.7)",
+                  backgroundColor: "rgba(230, 159, 0, 0.35)",
+                  pointStyle: "rect" as const,
                   pointRadius: 0,
                   borderWidth: 1,
                   fill: "-1" as const,
                 },
-                { label: "Forecast", data: fan((s) => s.mean), borderColor: "#8a4b14", backgroundColor: "#8a4b14", borderWidth: 2, pointRadius: 3, fill: false },
+                { label: "Forecast", data: fan((s) => s.mean), borderColor: OKABE_ITO.vermillion, backgroundColor: OKABE_ITO.vermillion, borderDash: [8, 4], pointStyle: "triangle" as const, borderWidth: 2, pointRadius: 4, fill: false },
               ]
             : []),
           ...(fit.length > 0
-            ? [{ label: fittedLabel, data: fit, borderColor: "#5b6673", borderDash: [5, 4], borderWidth: 1.5, pointRadius: 0, fill: false }]
+            ? [{ label: fittedLabel, data: fit, borderColor: OKABE_ITO.blue, backgroundColor: OKABE_ITO.blue, borderDash: [2, 3], pointStyle: "line" as const, borderWidth: 1.5, pointRadius: 0, fill: false }]
             : []),
-          ...(n > 0 ? [{ label: "History", data: pad(history, 0, h), borderColor: "#1d232b", backgroundColor: "#1d232b", borderWidth: 2, pointRadius: 2.5, fill: false }] : []),
+          ...(n > 0 ? [{ label: "History", data: pad(history, 0, h), borderColor: OKABE_ITO.black, backgroundColor: OKABE_ITO.black, pointStyle: "circle" as const, borderWidth: 2, pointRadius: 2.5, fill: false }] : []),
         ],
       },
       options: {
@@ -100,9 +103,9 @@ export default function BaselineChart({ labels, history, fitted = [], forecast =
         maintainAspectRatio: false,
         animation: false,
         spanGaps: false,
-        scales: { y: { title: { display: true, text: unit } }, x: { title: { display: true, text: launch ? "period after launch" : "row / steps after the last observation" } } },
+        scales: { y: { ...proportionalRange([...history, ...fitted, ...forecast.flatMap((s) => [s.mean, s.lower95, s.upper95])]), title: { display: true, text: `${unit} (${PROPORTIONAL_NOTE})` } }, x: { title: { display: true, text: launch ? "period after launch" : "row / steps after the last observation" } } },
         plugins: {
-          legend: { labels: { filter: (item) => !item.text.endsWith("lower") } },
+          legend: legendOptions((text) => !text.endsWith("lower")),
           tooltip: { mode: "index", intersect: false },
         },
       },

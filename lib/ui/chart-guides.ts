@@ -1,11 +1,13 @@
 /**
  * A chart.js plugin that draws horizontal guide lines (e.g. z = ±1.96, tracking signal ±4)
  * across the whole plot area, whatever the number of categories (a one-round chart included),
- * with a small label at the right end. Pair it with `guideRange` so the y axis shows them;
+ * with a small label at one end (neighbouring guides alternate ends, `guideLabelSides`, so their
+ * labels never overlap). Pair it with `guideRange` so the y axis shows them;
  * `guidedLineChart` does both.
  */
 import { Chart, CategoryScale, Legend, LinearScale, LineController, LineElement, PointElement, Tooltip, type ChartDataset, type Plugin } from "chart.js";
 import { resizeForPrint } from "./chart-print";
+import { guideLabelSides, legendOptions } from "./chart-style";
 
 Chart.register(LineController, LineElement, PointElement, LinearScale, CategoryScale, Tooltip, Legend);
 
@@ -15,7 +17,7 @@ export interface Guide {
   readonly dash: readonly number[];
 }
 
-export function guidesPlugin(guides: readonly Guide[], color = "rgba(155, 44, 44, 0.75)"): Plugin {
+export function guidesPlugin(guides: readonly Guide[], color = "rgba(60, 60, 60, 0.85)"): Plugin {
   return {
     id: "horizontal-guides",
     afterDatasetsDraw(chart) {
@@ -27,17 +29,18 @@ export function guidesPlugin(guides: readonly Guide[], color = "rgba(155, 44, 44
       ctx.fillStyle = color;
       ctx.lineWidth = 1;
       ctx.font = "11px system-ui, sans-serif";
-      ctx.textAlign = "right";
-      for (const g of guides) {
+      const sides = guideLabelSides(guides.map((g) => g.y));
+      guides.forEach((g, i) => {
         const py = y.getPixelForValue(g.y);
-        if (py < chartArea.top - 1 || py > chartArea.bottom + 1) continue;
+        if (py < chartArea.top - 1 || py > chartArea.bottom + 1) return;
         ctx.setLineDash([...g.dash]);
         ctx.beginPath();
         ctx.moveTo(chartArea.left, py);
         ctx.lineTo(chartArea.right, py);
         ctx.stroke();
-        ctx.fillText(g.label, chartArea.right - 4, py - 3);
-      }
+        ctx.textAlign = sides[i];
+        ctx.fillText(g.label, sides[i] === "right" ? chartArea.right - 4 : chartArea.left + 4, py - 3);
+      });
       ctx.restore();
     },
   };
@@ -71,7 +74,7 @@ export function guidedLineChart(
       maintainAspectRatio: false,
       animation: false,
       scales: { x: { offset: true }, y: { ...range, title: { display: true, text: o.yTitle } } },
-      plugins: { tooltip: { mode: "index", intersect: false } },
+      plugins: { legend: legendOptions(), tooltip: { mode: "index", intersect: false } },
     },
     plugins: [guidesPlugin(o.guides)],
   });

@@ -6,6 +6,7 @@
 import type { ZodError } from "zod";
 import { DomainError } from "../errors";
 import { parseTypedNumber } from "../validation/typed-number";
+import { plainMessage } from "../validation/messages";
 import type { FormState } from "./form-state";
 
 /**
@@ -20,19 +21,8 @@ export function byField(errors: Iterable<{ readonly field: string; readonly mess
 
 /** Field errors from a failed zod safeParse. */
 export function fromZodError(error: ZodError, message = "Please correct the fields marked below."): FormState {
-  const fieldErrors = byField(error.issues.map((issue) => ({ field: issue.path.map(String).join(".") || "form", message: readable(issue) })));
+  const fieldErrors = byField(error.issues.map((issue) => ({ field: issue.path.map(String).join(".") || "form", message: plainMessage(issue) })));
   return { ok: false, message, fieldErrors };
-}
-
-/** zod's type messages ("expected number, received undefined") in plain words. */
-function readable(issue: ZodError["issues"][number]): string {
-  if (issue.code === "invalid_type") {
-    const expected = (issue as { expected?: string }).expected;
-    const missing = (issue as { input?: unknown }).input === undefined;
-    if (missing) return "required";
-    if (expected === "number") return "must be a number";
-  }
-  return issue.message;
 }
 
 /** Where withNumbers keeps what it could not read, beside the entries (a symbol key, never a form field). */

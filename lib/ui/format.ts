@@ -48,3 +48,18 @@ export function formatDateTime(value: string | Date | null | undefined): string 
   const d = typeof value === "string" ? new Date(value) : value;
   return `${d.toLocaleString("en-GB", { day: "numeric", month: "short", year: "numeric", hour: "2-digit", minute: "2-digit", timeZone: "UTC" })} UTC`;
 }
+
+/** A date alone, in the same style as `formatDateTime` (UTC), e.g. "2 Dec 2026"; "—" when missing. */
+export function formatDate(value: string | Date | null | undefined): string {
+  if (!value) return "—";
+  const d = typeof value === "string" ? new Date(value) : value;
+  return d.toLocaleDateString("en-GB", { day: "numeric", month: "short", year: "numeric", timeZone: "UTC" });
+}
+
+/**
+ * A count with its noun in the right number, e.g. countOf(1, "recorded action") → "1 recorded
+ * action", countOf(3, "round") → "3 rounds"; `plural` for nouns that do not take an -s.
+ */
+export function countOf(n: number, singular: string, plural = `${singular}s`): string {
+  return `${n.toLocaleString("en-GB")} ${n === 1 ? singular : plural}`;
+}

@@ -6,6 +6,7 @@
  */
 import { useEffect, useRef } from "react";
 import { resizeForPrint } from "./chart-print";
+import { legendOptions, OKABE_ITO, PROPORTIONAL_NOTE, proportionalRange } from "./chart-style";
 import { Chart, BarController, BarElement, LinearScale, CategoryScale, Tooltip, Legend, type Plugin } from "chart.js";
 
 Chart.register(BarController, BarElement, LinearScale, CategoryScale, Tooltip, Legend);
@@ -42,7 +43,7 @@ export default function RangeChart({ rows, unit, actual }: { rows: readonly Rang
         });
         if (actual !== undefined && actual !== null) {
           const x = scales.x.getPixelForValue(actual);
-          ctx.strokeStyle = "#2f6b3a";
+          ctx.strokeStyle = OKABE_ITO.bluishGreen;
           ctx.setLineDash([5, 3]);
           ctx.lineWidth = 2;
           ctx.beginPath();
@@ -54,17 +55,14 @@ export default function RangeChart({ rows, unit, actual }: { rows: readonly Rang
       },
     };
     const ends = rows.flatMap((r) => [r.lower95, r.upper95, r.lower80, r.upper80, r.figure]).concat(actual ?? null).filter((v): v is number => v !== null);
-    const lo = Math.min(...ends);
-    const hi = Math.max(...ends);
-    const pad = (hi - lo) * 0.06 || Math.abs(hi) * 0.05 || 1;
-    const span = { suggestedMin: lo - pad, suggestedMax: hi + pad };
+    const span = proportionalRange(ends);
     const chart = new Chart(canvas.current, {
       type: "bar",
       data: {
         labels: rows.map((r) => r.label),
         datasets: [
-          { label: "95% range", data: rows.map((r) => bar(r.lower95, r.upper95)), backgroundColor: "rgba(138, 75, 20, 0.18)", grouped: false, barPercentage: 0.7 },
-          { label: "80% range", data: rows.map((r) => bar(r.lower80, r.upper80)), backgroundColor: "rgba(138, 75, 20, 0.45)", grouped: false, barPercentage: 0.4 },
+          { label: "95% range", data: rows.map((r) => bar(r.lower95, r.upper95)), backgroundColor: "rgba(86, 180, 233, 0.3)", pointStyle: "rect" as const, grouped: false, barPercentage: 0.7 },
+          { label: "80% range", data: rows.map((r) => bar(r.lower80, r.upper80)), backgroundColor: "rgba(0, 114, 178, 0.75)", pointStyle: "rect" as const, grouped: false, barPercentage: 0.4 },
         ],
       },
       options: {
@@ -72,8 +70,8 @@ export default function RangeChart({ rows, unit, actual }: { rows: readonly Rang
         responsive: true,
         maintainAspectRatio: false,
         animation: false,
-        scales: { x: { beginAtZero: false, ...span, title: { display: true, text: unit } } },
-        plugins: { legend: { display: true } },
+        scales: { x: { beginAtZero: false, ...span, title: { display: true, text: `${unit} (${PROPORTIONAL_NOTE})` } } },
+        plugins: { legend: { display: true, ...legendOptions() } },
       },
       plugins: [marks],
     });
@@ -89,7 +87,7 @@ export default function RangeChart({ rows, unit, actual }: { rows: readonly Rang
         <canvas ref={canvas} role="img" aria-label={`80% and 95% ranges of each figure in ${unit}; the black mark is the figure itself`} />
       </div>
       <figcaption className="muted small">
-        Each bar is a range (pale: 95%, dark: 80%); the black mark is the figure{actual !== undefined && actual !== null ? "; the dashed green line is the actual value" : ""}.
+        Each bar is a range (wide and pale: 95%, narrow and dark: 80%); the black mark is the figure{actual !== undefined && actual !== null ? "; the dashed green line is the actual value" : ""}.
       </figcaption>
     </figure>
   );

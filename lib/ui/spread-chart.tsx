@@ -8,6 +8,7 @@
 import { useEffect, useRef } from "react";
 import { Chart, ScatterController, PointElement, LinearScale, Tooltip, Legend, type Plugin } from "chart.js";
 import type { HistogramBin } from "@/lib/stats/histogram";
+import { legendOptions, OKABE_ITO } from "./chart-style";
 
 Chart.register(ScatterController, PointElement, LinearScale, Tooltip, Legend);
 
@@ -50,7 +51,7 @@ export default function SpreadChart({ bins, own, q1, median, q3, unit }: SpreadC
         const x3 = scales.x.getPixelForValue(q3);
         const xm = scales.x.getPixelForValue(median);
         ctx.save();
-        ctx.fillStyle = "rgba(138, 75, 20, 0.15)";
+        ctx.fillStyle = "rgba(86, 180, 233, 0.3)";
         ctx.fillRect(x1, chartArea.top, Math.max(1, x3 - x1), chartArea.bottom - chartArea.top);
         ctx.strokeStyle = "#1d232b";
         ctx.lineWidth = 2;
@@ -75,8 +76,8 @@ export default function SpreadChart({ bins, own, q1, median, q3, unit }: SpreadC
                 {
                   label: "Your answer",
                   data: [{ x: own, y: ownHeight }],
-                  backgroundColor: "#8a4b14",
-                  borderColor: "#1d232b",
+                  backgroundColor: OKABE_ITO.vermillion,
+                  borderColor: OKABE_ITO.black,
                   pointStyle: "rectRot" as const,
                   pointRadius: 9,
                 },
@@ -92,6 +93,7 @@ export default function SpreadChart({ bins, own, q1, median, q3, unit }: SpreadC
           y: { display: false, min: 0, max: maxY },
         },
         plugins: {
+          legend: legendOptions(),
           tooltip: { callbacks: { label: (item) => `${item.dataset.label}: ${item.parsed.x}` } },
         },
       },

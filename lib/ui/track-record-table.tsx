@@ -7,7 +7,7 @@
 import type { RosterTrackRecordView } from "@/lib/panels/track-records";
 import { BIAS_PRIOR_STRENGTH, MIN_RESOLVED_FOR_THEIL } from "@/lib/blend";
 import Figure from "./figure";
-import { formatNumber, formatPercent } from "./format";
+import { countOf, formatNumber, formatPercent } from "./format";
 
 export default function TrackRecordRoster({ records }: { records: readonly RosterTrackRecordView[] }) {
   const withTheil = records.filter((r) => r.record.theil !== null);
@@ -40,7 +40,7 @@ export default function TrackRecordRoster({ records }: { records: readonly Roste
               <tr key={r.rosterMemberId} data-track-record={r.name}>
                 <td>
                   {r.name} {r.group ? <span className="muted">· {r.group}</span> : null}
-                  {r.skipped > 0 ? <span className="hint">{r.skipped} answer(s) left out (value or actual ≤ 0, or too extreme to score)</span> : null}
+                  {r.skipped > 0 ? <span className="hint">{countOf(r.skipped, "answer")} left out (value or actual ≤ 0, or too extreme to score)</span> : null}
                 </td>
                 <td className="num" data-stat="count">
                   {r.record.count}

@@ -3,22 +3,17 @@
  * Tracking signal of each figure (raw panel, corrected panel, baseline, blend) after each
  * resolved question, with the ±4 limits that common practice uses to flag a biased forecast
  * (no authoritative source; stated on the page). The signal is on relative errors
- * (docs/methods.md §8). The values come from lib/blend `accuracyHistory`; the chart only draws them.
+ * (docs/methods.md §8). Each figure has its own colour-blind-safe colour, marker shape and dash
+ * (`signalDatasets`). The values come from lib/blend `accuracyHistory`; the chart only draws them.
  */
 import { useEffect, useRef } from "react";
 import { guidedLineChart } from "./chart-guides";
+import { signalDatasets } from "./chart-configs";
 
 export interface SignalSeries {
   readonly label: string;
   readonly values: readonly (number | null)[];
 }
-
-const STYLE = [
-  { color: "#96a1ad", dash: [4, 3] },
-  { color: "#1d232b", dash: [] },
-  { color: "#2f6b3a", dash: [8, 3] },
-  { color: "#8a4b14", dash: [] },
-];
 
 export default function TrackingSignalChart({ labels, series, limit }: { labels: readonly string[]; series: readonly SignalSeries[]; limit: number }) {
   const canvas = useRef<HTMLCanvasElement>(null);
@@ -30,16 +25,7 @@ export default function TrackingSignalChart({ labels, series, limit }: { labels:
     ];
     return guidedLineChart(canvas.current, {
       labels,
-      datasets: series.map((s, i) => ({
-        label: s.label,
-        data: [...s.values],
-        borderColor: STYLE[i % STYLE.length].color,
-        backgroundColor: STYLE[i % STYLE.length].color,
-        borderDash: STYLE[i % STYLE.length].dash,
-        borderWidth: 2,
-        pointRadius: 3,
-        fill: false,
-      })),
+      datasets: signalDatasets(series),
       yTitle: "tracking signal (cumulative relative error / mean absolute relative error)",
       guides,
     });

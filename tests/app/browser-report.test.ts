@@ -392,6 +392,13 @@ describe("triangulation in the browser", () => {
     // The charts rendered without a script error.
     expect(await page.locator('[data-chart="ranges"] canvas').count()).toBe(1);
     expect(await page.locator('[data-chart="departure"] canvas').count()).toBe(1);
+    // One closed round: the convergence chart draws its interquartile range as a bar and says that
+    // convergence is judged from the second round on.
+    const convergence = page.locator('[data-chart="convergence"]');
+    expect(await convergence.getAttribute("data-rounds")).toBe("1");
+    expect(await convergence.locator("canvas").count()).toBe(1);
+    expect(await page.locator("figure", { has: convergence }).locator("figcaption").textContent()).toMatch(/second round/);
+    await page.screenshot({ path: path.join(shots, "report-question-charts.png"), fullPage: true });
     expect(errors).toEqual([]);
     await ctx.close();
   });

@@ -29,6 +29,7 @@ import {
 } from "@/lib/validation/inputs";
 import type { FormState } from "@/lib/ui/form-state";
 import { formList, formObject, fromThrown, withNumbers } from "@/lib/ui/form-result";
+import { plainMessage } from "@/lib/validation/messages";
 import { NOT_SIGNED_IN, signedInAction } from "@/lib/ui/signed-in-action";
 import { textProblems } from "@/lib/ui/action-guard";
 import { limits } from "@/lib/http/rate-limit";
@@ -221,7 +222,7 @@ export async function revealNamesAction(
   const id = params.panelId.safeParse({ panelId });
   const parsed = revealInput.safeParse({ reason });
   if (!id.success) return { ok: false, message: "Unknown panel." };
-  if (!parsed.success) return { ok: false, message: parsed.error.issues[0]?.message };
+  if (!parsed.success) return { ok: false, message: parsed.error.issues[0] && plainMessage(parsed.error.issues[0]) };
   try {
     const people = await revealIdentities(user, id.data.panelId, parsed.data);
     revalidatePath(`/panels/${id.data.panelId}`);

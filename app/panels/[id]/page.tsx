@@ -16,7 +16,7 @@ import { STOPPING_RULE_DEFAULTS as D } from "@/lib/stats/stopping-rules";
 import ActionForm, { FieldError } from "@/lib/ui/action-form";
 import ConvergenceView from "@/lib/ui/convergence-view";
 import DeadlineInput from "@/lib/ui/deadline-input";
-import { formatDateTime, formatNumber, formatPercent } from "@/lib/ui/format";
+import { countOf, formatDateTime, formatNumber, formatPercent } from "@/lib/ui/format";
 import InvitationActions from "@/lib/ui/invitation-actions";
 import LiveProgress from "@/lib/ui/live-progress";
 import QuestionFields from "@/lib/ui/question-fields";
@@ -645,7 +645,7 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
       <section aria-labelledby="audit-h">
         <h2 id="audit-h">Audit log</h2>
         <details>
-          <summary>{audit.length} recorded actions (opening and closing rounds, invitations, revealed names…)</summary>
+          <summary>{countOf(audit.length, "recorded action")} (opening and closing rounds, invitations, revealed names…)</summary>
           <table className="small">
             <tbody>
               {audit.map((e) => (

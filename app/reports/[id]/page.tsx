@@ -8,7 +8,7 @@ import { getCalibration } from "@/lib/panels/calibration";
 import PerformanceWeights from "@/lib/ui/performance-weights";
 import ConvergenceView from "@/lib/ui/convergence-view";
 import Figure from "@/lib/ui/figure";
-import { formatDateTime } from "@/lib/ui/format";
+import { countOf, formatDateTime } from "@/lib/ui/format";
 import { requireSignedIn } from "@/lib/ui/require-user";
 
 export const metadata: Metadata = { title: "Report" };
@@ -35,7 +35,7 @@ export default async function ReportPage({ params }: { params: Promise<{ id: str
       <p>
         <span className="status">{panel.status}</span>{" "}
         <span className="muted small">
-          {panel.rounds.filter((r) => r.status === "closed").length} closed round(s); created {formatDateTime(panel.createdAt)}.
+          {countOf(panel.rounds.filter((r) => r.status === "closed").length, "closed round")}; created {formatDateTime(panel.createdAt)}.
           {panel.role !== "reviewer" ? (
             <>
               {" "}

@@ -68,7 +68,7 @@ export default async function QuestionPage({ params }: { params: Promise<{ id: s
         {question.position}. {question.text}
       </h1>
       <p className="muted small">
-        Unit {question.unit}; target period {question.targetPeriod}; plausible range {formatNumber(question.lowerBound, 8)} to{" "}
+        Measured in {question.unit}; target period {question.targetPeriod}; plausible range {formatNumber(question.lowerBound, 8)} to{" "}
         {formatNumber(question.upperBound, 8)}; {question.aggregation === "shared" ? "shared quantity (median)" : "sum of parts (total)"}.{" "}
         <a href={`/reports/${id}/questions/${qid}`}>Reviewer report</a>
       </p>

@@ -55,7 +55,7 @@ export default async function QuestionReportPage({ params }: { params: Promise<{
         </p>
         <h1>{q.text}</h1>
         <p className="muted small">
-          Unit {q.unit}; target period {q.targetPeriod}; {q.aggregation === "shared" ? "shared quantity (panel figure: the median)" : "sum of parts (panel figure: the total)"};{" "}
+          Measured in {q.unit}; target period {q.targetPeriod}; {q.aggregation === "shared" ? "shared quantity (panel figure: the median)" : "sum of parts (panel figure: the total)"};{" "}
           {q.answerFormat === "single" ? "single-value answers" : "three-point answers (P10 / P50 / P90)"}.
         </p>
         <div className="actions no-print report-actions">
