@@ -192,6 +192,26 @@ describe("a practice set", () => {
       }
     });
 
+    it("when a further round is started the result is withdrawn until that round closes too", async () => {
+      const p = await ok("POST", "/api/v1/panels", owner, { title: "Practice run twice", questions: [calibration("Wren-1 units shipped in 2024", "units", TRUE[0])] });
+      const [token] = await invite(p.id, 1);
+      await ok("POST", `/api/v1/panels/${p.id}/rounds/1/open`, owner, {});
+      await answer(token, p.questions[0].id, ANSWERS[0][0]);
+      await ok("POST", `/api/v1/panels/${p.id}/rounds/1/close`, owner);
+      expect((await ok("GET", "/api/v1/panelist/feedback", token)).practice.questions[0].trueValue).toBe(TRUE[0]);
+      for (const body of [{}, null]) {
+        // A draft round 2, then the same round opened: answers can still change, so no true value.
+        if (body) await ok("POST", `/api/v1/panels/${p.id}/rounds`, owner, body);
+        else await ok("POST", `/api/v1/panels/${p.id}/rounds/2/open`, owner, {});
+        expect((await ok("GET", "/api/v1/panelist/feedback", token)).practice).toBeNull();
+        for (const text of await panelistViews(token)) expect(text).not.toContain('data-section="practice"');
+        const page = await (await fetch(`${baseURL}/p/${token}/feedback`)).text();
+        expect(page).not.toContain(`data-value="${TRUE[0]}"`);
+      }
+      await ok("POST", `/api/v1/panels/${p.id}/rounds/2/close`, owner);
+      expect((await ok("GET", "/api/v1/panelist/feedback", token)).practice.questions[0].trueValue).toBe(TRUE[0]);
+    });
+
     it("a panel with a question that is not a calibration question, or a true value missing, has no practice result", async () => {
       const mixed = await ok("POST", "/api/v1/panels", owner, {
         title: "Wren-2 volume with one calibration question",
