@@ -119,7 +119,7 @@ export interface CalibrationData {
   readonly weights: ReadonlyMap<string, number>;
 }
 
-interface FinalAnswer {
+export interface FinalAnswer {
   readonly invitationId: string;
   readonly pseudonym: string;
   readonly value: number;
@@ -297,18 +297,23 @@ async function readCalibration(panelId: string, reads: PanelReads): Promise<Cali
     select: { id: true, text: true, unit: true, answerFormat: true, aggregation: true, calibration: true, trueValue: true },
   });
   if (!questions.some((q) => q.calibration)) return computeCalibration(questions, new Map());
+  return computeCalibration(questions, await closedFinalAnswers(panelId, questions.map((q) => q.id), reads));
+}
+
+/** Each panelist's latest answer in a closed round to each of these questions of the panel (question id → answers): the final answers the scores use. */
+export async function closedFinalAnswers(panelId: string, questionIds: readonly string[], reads: PanelReads): Promise<Map<string, FinalAnswer[]>> {
   const rounds = await db.round.findMany({ where: { panelId, status: "closed" }, orderBy: { number: "asc" }, select: { id: true } });
   const answers = new Map<string, FinalAnswer[]>();
-  for (const q of questions) {
+  for (const id of questionIds) {
     const latest = new Map<string, FinalAnswer>();
     for (const r of rounds) {
-      for (const a of await reads.finalAnswers(r.id, q.id)) {
+      for (const a of await reads.finalAnswers(r.id, id)) {
         latest.set(a.invitationId, { invitationId: a.invitationId, pseudonym: a.pseudonym, value: a.value, low: a.low, high: a.high });
       }
     }
-    answers.set(q.id, [...latest.values()]);
+    answers.set(id, [...latest.values()]);
   }
-  return computeCalibration(questions, answers);
+  return answers;
 }
 
 /** The panel's performance weights and pools (organisers and reviewers of the panel); `calibrationQuestions` 0 and nothing else on a panel without calibration questions. */

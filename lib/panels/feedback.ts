@@ -18,6 +18,7 @@ import type { HistogramBin } from "@/lib/stats";
 import { authorisePanelist } from "./access";
 import { explanationsRequired } from "./answers";
 import { closedRoundFeedback } from "./round-feedback";
+import { getPracticeResult, type PracticeResult } from "./practice";
 
 export interface QuestionFeedback {
   readonly questionId: string;
@@ -55,6 +56,8 @@ export interface FeedbackView {
   /** True when the panel is finished: there is no next round to keep or revise an answer in. */
   readonly finished: boolean;
   readonly questions: readonly QuestionFeedback[];
+  /** A practice set's result for this panelist once its last round has closed (./practice.ts); null on any other panel. */
+  readonly practice: PracticeResult | null;
 }
 
 /** Rationales sent per question unless a page asks for more. */
@@ -85,7 +88,7 @@ export async function getFeedback(actor: Actor, options: FeedbackOptions = {}): 
   const me = await authorisePanelist(actor);
   const round = await db.round.findFirst({ where: { panelId: me.panelId, status: "closed" }, orderBy: { number: "desc" }, select: { id: true, panelId: true, number: true, closedAt: true } });
   const finished = (await db.panel.findUniqueOrThrow({ where: { id: me.panelId }, select: { status: true } })).status === "finished";
-  if (!round) return { round: null, finished, questions: [] };
+  if (!round) return { round: null, finished, questions: [], practice: null };
   const shared = await closedRoundFeedback(round);
   const wanted = options.questionIds ? new Set(options.questionIds) : null;
   // A finished panel has no next round, so nobody is asked to explain in it.
@@ -93,6 +96,7 @@ export async function getFeedback(actor: Actor, options: FeedbackOptions = {}): 
   return {
     round: round.number,
     finished,
+    practice: await getPracticeResult(me),
     questions: shared
       .filter((q) => wanted === null || wanted.has(q.questionId))
       .map(({ finals, rationales, ...q }): QuestionFeedback => {

@@ -299,6 +299,27 @@ export const feedback = z.object({
       rationaleCount: z.number().int(),
     }),
   ),
+  practice: z
+    .object({
+      questions: z.array(
+        z.object({
+          questionId: z.string(),
+          text: z.string(),
+          unit: z.string(),
+          trueValue: num,
+          myAnswer: z.object({ low: num, value: num, high: num }).nullable(),
+          inside: z.boolean().nullable(),
+        }),
+      ),
+      hits: z.object({ count: z.number().int(), hits: z.number().int(), rate: numOrNull, nominal: num }),
+      scored: z.boolean(),
+      binCounts: z.array(z.number().int()).nullable(),
+      calibration: numOrNull,
+      information: numOrNull,
+      sentence: z.string(),
+    })
+    .nullable()
+    .describe("A practice set (every question a calibration question with its true value) once its last round has closed: the panelist's own result; null on any other panel."),
 });
 
 export const auditEvent = z.object({ id: z.string(), action: z.string(), actorName: z.string().nullable(), detail: z.record(z.string(), z.unknown()), createdAt: dateTime });

@@ -7,6 +7,7 @@ import { panelistFromLink } from "@/lib/ui/panelist-access";
 import QuestionFeedback from "@/lib/ui/question-feedback";
 import { questionPage, QuestionPager } from "@/lib/ui/question-pages";
 import { getPanelistPanel } from "@/lib/panels/answers";
+import Figure from "@/lib/ui/figure";
 
 export const metadata: Metadata = { title: "Feedback", referrer: "no-referrer", robots: { index: false, follow: false } };
 export const dynamic = "force-dynamic";
@@ -48,6 +49,7 @@ export default async function FeedbackPage({ params, searchParams }: { params: P
               ? "The panel is finished: these are its final figures. Thank you for taking part."
               : "Compare it with your own answer; in the next round you may keep or revise your answer, and explain why."}
           </p>
+          {feedback.practice ? <PracticeSection p={feedback.practice} /> : null}
           {pager}
           {feedback.questions.map((f, i) => (
             <section key={f.questionId} className="card">
@@ -61,5 +63,61 @@ export default async function FeedbackPage({ params, searchParams }: { params: P
         </>
       )}
     </article>
+  );
+}
+
+/** A practice set's result for this panelist only (lib/panels/practice.ts; docs/methods.md §22). */
+function PracticeSection({ p }: { p: NonNullable<Awaited<ReturnType<typeof getFeedback>>["practice"]> }) {
+  return (
+    <section className="card" data-section="practice">
+      <h2>Your practice result</h2>
+      <p data-practice-sentence>{p.sentence}</p>
+      {p.scored ? (
+        <dl>
+          <dt>Your calibration score</dt>
+          <dd>
+            <Figure name="practice-calibration" value={p.calibration} digits={3} />
+          </dd>
+          <dt>Your information score</dt>
+          <dd>
+            <Figure name="practice-information" value={p.information} digits={3} />
+          </dd>
+        </dl>
+      ) : null}
+      <table>
+        <thead>
+          <tr>
+            <th>Question</th>
+            <th>True value</th>
+            <th>Your 5th / 50th / 95th percentile</th>
+            <th>Inside your range</th>
+          </tr>
+        </thead>
+        <tbody>
+          {p.questions.map((q) => (
+            <tr key={q.questionId} data-practice-question={q.questionId}>
+              <td>{q.text}</td>
+              <td>
+                <Figure name="practice-true-value" value={q.trueValue} /> {q.unit}
+              </td>
+              <td>
+                {q.myAnswer ? (
+                  <>
+                    <Figure value={q.myAnswer.low} /> / <Figure value={q.myAnswer.value} /> / <Figure value={q.myAnswer.high} />
+                  </>
+                ) : (
+                  <span className="muted">not answered</span>
+                )}
+              </td>
+              <td data-inside={q.inside === null ? "" : String(q.inside)}>{q.inside === null ? "" : q.inside ? "yes" : "no"}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      <p className="muted small">
+        A practice set: questions whose true values were known in advance, to give you a first score before a real panel. Only you see this, through your own link. The
+        scores are those of Cooke&apos;s classical model (docs/methods.md §21), the same the organiser&apos;s report shows for your pseudonym.
+      </p>
+    </section>
   );
 }
