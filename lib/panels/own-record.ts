@@ -93,14 +93,16 @@ export async function getOwnRecord(actor: Actor): Promise<JsonSafe<OwnRecord>> {
 /**
  * The member's P5 / P50 / P95 answers to calibration questions with a true value, on every panel
  * they were invited to: their latest answer in a closed round (as lib/panels/calibration.ts reads
- * final answers), with the true value as the outcome.
+ * final answers), with the true value as the outcome. Only panels with no round open or waiting as
+ * a draft count (as the practice result, lib/panels/practice.ts): while answers can still change, a
+ * hit count that moves would hint at a true value.
  */
 async function calibrationAnswers(memberId: string): Promise<ResolvedAnswer[]> {
   const rows = await db.answer.findMany({
     where: {
       invitation: { rosterMemberId: memberId },
       round: { status: "closed" },
-      question: { calibration: true, trueValue: { not: null } },
+      question: { calibration: true, trueValue: { not: null }, panel: { rounds: { none: { status: { in: ["draft", "open"] } } } } },
       low: { not: null },
       high: { not: null },
     },
