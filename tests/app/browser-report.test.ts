@@ -36,7 +36,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser, BrowserContext, Page } from "playwright-core";
 import { expectClose, runR, rVector } from "../stats/rscript";
 import { api, apiTokenFor, baseURL, clearDatabase, createAccount, sql, type TestUser } from "./api-client";
-import { expectAccessible, launchChromium, signInPage, stat } from "./browser";
+import { expectAccessible, launchChromium, overflowing, signInPage, stat } from "./browser";
 
 const shots = path.resolve(__dirname, "..", "..", "test-artifacts", "screenshots");
 
@@ -327,7 +327,12 @@ describe("triangulation in the browser", () => {
     await expectAccessible(org);
     // On a 360-px phone the organiser's question page fits its width: no sideways scrolling.
     await org.setViewportSize({ width: 360, height: 800 });
-    await expect.poll(() => org.evaluate(() => document.documentElement.scrollWidth), { message: "scrollWidth at 360 px" }).toBeLessThanOrEqual(360);
+    await expect
+      .poll(() => org.evaluate(() => document.documentElement.scrollWidth), { message: "scrollWidth at 360 px" })
+      .toBeLessThanOrEqual(360)
+      .catch(async (err: Error) => {
+        throw new Error(`${err.message}\nwider than 360 px: ${(await overflowing(org)).join(", ")}`);
+      });
     await expectAccessible(org);
     await org.screenshot({ path: path.join(shots, "question-resolved-phone.png"), fullPage: true });
     await org.setViewportSize({ width: 1280, height: 900 });

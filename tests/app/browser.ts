@@ -62,5 +62,49 @@ export async function axeViolations(page: Page): Promise<string[]> {
  * and fails at its end, listing every violation of every page state it visited).
  */
 export async function expectAccessible(page: Page): Promise<void> {
+  // After a server action the page's metadata streams in again: wait for its title first (a page
+  // without one still fails here, on this poll).
+  await expect.poll(() => page.title(), { message: `the title of ${page.url()}` }).not.toBe("");
   expect.soft(await axeViolations(page), `axe-core on ${page.url()}`).toEqual([]);
+}
+
+/**
+ * The compressed size of the JavaScript a page load fetches: the sum over the script responses of
+ * their bodies as sent over the network (after Content-Encoding, Chromium's encoded body size),
+ * counted from `load()` until the page's network is idle.
+ */
+export async function scriptBytes(page: Page, load: () => Promise<unknown>): Promise<{ bytes: number; files: number }> {
+  const sizes: Promise<number>[] = [];
+  const onFinished = (req: import("playwright-core").Request) => {
+    if (req.resourceType() === "script") sizes.push(req.sizes().then((s) => s.responseBodySize));
+  };
+  page.on("requestfinished", onFinished);
+  try {
+    await load();
+    await page.waitForLoadState("networkidle");
+  } finally {
+    page.off("requestfinished", onFinished);
+  }
+  const all = await Promise.all(sizes);
+  return { bytes: all.reduce((a, b) => a + b, 0), files: all.length };
+}
+
+/**
+ * The outermost elements that reach past the right edge of the viewport (tag, id or class, and
+ * their right edge in px), to say what makes a page scroll sideways.
+ */
+export function overflowing(page: Page): Promise<string[]> {
+  return page.evaluate(() => {
+    const width = document.documentElement.clientWidth;
+    const out: string[] = [];
+    for (const el of Array.from(document.body.querySelectorAll("*"))) {
+      const right = el.getBoundingClientRect().right;
+      const parent = el.parentElement;
+      if (right > width + 0.5 && (!parent || parent.getBoundingClientRect().right <= width + 0.5)) {
+        const name = `${el.tagName.toLowerCase()}${el.id ? `#${el.id}` : ""}${el.classList.length ? `.${Array.from(el.classList).join(".")}` : ""}`;
+        out.push(`${name} (right edge ${Math.round(right)} px)`);
+      }
+    }
+    return out;
+  });
 }
