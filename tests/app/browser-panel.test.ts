@@ -469,6 +469,8 @@ describe("Delphi panel in the browser", () => {
     // The organiser's page is not theirs: they are sent to the read-only report.
     await page.goto(panelUrl);
     await page.waitForURL(/\/reports\//);
+    // The redirect lands on the loading state first: wait for the report itself.
+    await page.locator("table.convergence-table").waitFor({ state: "visible" });
     await page.screenshot({ path: path.join(shots, "reviewer-report.png"), fullPage: true });
     await expectAccessible(page);
     // Signing out returns the header to its signed-out state.

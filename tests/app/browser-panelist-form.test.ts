@@ -14,7 +14,7 @@ import { randomBytes } from "node:crypto";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { chromium, type Browser, type Page } from "playwright-core";
 import { api, apiTokenFor, baseURL, clearDatabase, createAccount } from "./api-client";
-import { expectAccessible } from "./browser";
+import { expectAccessible, scriptBytes } from "./browser";
 
 const LAUNCH_ARGS = ["--no-sandbox", "--disable-gpu", "--disable-background-networking", "--disable-component-update", "--no-first-run"];
 const SINGLE = { text: "Wren-2 units shipped in year one?", unit: "units", targetPeriod: "first 12 months", lowerBound: 0, upperBound: 100_000, answerFormat: "single", aggregation: "shared" };
@@ -61,7 +61,11 @@ afterAll(async () => {
 
 describe("the panelist's form", () => {
   it("refuses 0x10 and 1_000 with what is wrong, in the browser and on the server, never 'required'", async () => {
-    await page.goto(link);
+    // The JavaScript a panelist's phone loads for the page, compressed as sent (issue 15's goal:
+    // at most 150 kB; reported here, not yet met).
+    const js = await scriptBytes(page, () => page.goto(link));
+    console.log(`panelist page: ${js.files} scripts, ${(js.bytes / 1000).toFixed(1)} kB of JavaScript as sent (content-encoding: ${js.encodings.join(", ")})`);
+    expect(js.files).toBeGreaterThan(0);
     const form = page.getByRole("form", { name: "Your answers" });
     await expect.poll(() => form.count()).toBe(1);
     // The locale field is filled once the page runs in the browser.

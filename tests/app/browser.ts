@@ -73,10 +73,11 @@ export async function expectAccessible(page: Page): Promise<void> {
  * their bodies as sent over the network (after Content-Encoding, Chromium's encoded body size),
  * counted from `load()` until the page's network is idle.
  */
-export async function scriptBytes(page: Page, load: () => Promise<unknown>): Promise<{ bytes: number; files: number }> {
-  const sizes: Promise<number>[] = [];
+export async function scriptBytes(page: Page, load: () => Promise<unknown>): Promise<{ bytes: number; files: number; encodings: string[] }> {
+  const sizes: Promise<[number, string]>[] = [];
   const onFinished = (req: import("playwright-core").Request) => {
-    if (req.resourceType() === "script") sizes.push(req.sizes().then((s) => s.responseBodySize));
+    if (req.resourceType() !== "script") return;
+    sizes.push(Promise.all([req.sizes(), req.response()]).then(async ([s, res]) => [s.responseBodySize, (await res?.headerValue("content-encoding")) ?? "none"]));
   };
   page.on("requestfinished", onFinished);
   try {
@@ -86,7 +87,7 @@ export async function scriptBytes(page: Page, load: () => Promise<unknown>): Pro
     page.off("requestfinished", onFinished);
   }
   const all = await Promise.all(sizes);
-  return { bytes: all.reduce((a, b) => a + b, 0), files: all.length };
+  return { bytes: all.reduce((a, [b]) => a + b, 0), files: all.length, encodings: [...new Set(all.map(([, e]) => e))] };
 }
 
 /**
