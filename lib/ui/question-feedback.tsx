@@ -17,7 +17,11 @@
 import type { QuestionFeedback as Feedback } from "@/lib/panels/feedback";
 import Figure from "./figure";
 import { formatPercent } from "./format";
-import SpreadChart from "./spread-chart";
+import dynamic from "next/dynamic";
+
+// chart.js is loaded only on pages that draw a spread chart: a panelist answering an open
+// round fetches none of it (issue 15, the panelist page's weight).
+const SpreadChart = dynamic(() => import("./spread-chart"));
 
 const POSITION = {
   "below-iqr": "below the lower quartile (Q1)",

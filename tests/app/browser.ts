@@ -73,11 +73,11 @@ export async function expectAccessible(page: Page): Promise<void> {
  * their bodies as sent over the network (after Content-Encoding, Chromium's encoded body size),
  * counted from `load()` until the page's network is idle.
  */
-export async function scriptBytes(page: Page, load: () => Promise<unknown>): Promise<{ bytes: number; files: number; encodings: string[] }> {
-  const sizes: Promise<[number, string]>[] = [];
+export async function scriptBytes(page: Page, load: () => Promise<unknown>): Promise<{ bytes: number; files: number; encodings: string[]; largest: string[] }> {
+  const sizes: Promise<[number, string, string]>[] = [];
   const onFinished = (req: import("playwright-core").Request) => {
     if (req.resourceType() !== "script") return;
-    sizes.push(Promise.all([req.sizes(), req.response()]).then(async ([s, res]) => [s.responseBodySize, (await res?.headerValue("content-encoding")) ?? "none"]));
+    sizes.push(Promise.all([req.sizes(), req.response()]).then(async ([s, res]) => [s.responseBodySize, (await res?.headerValue("content-encoding")) ?? "none", new URL(req.url()).pathname]));
   };
   page.on("requestfinished", onFinished);
   try {
@@ -87,7 +87,7 @@ export async function scriptBytes(page: Page, load: () => Promise<unknown>): Pro
     page.off("requestfinished", onFinished);
   }
   const all = await Promise.all(sizes);
-  return { bytes: all.reduce((a, [b]) => a + b, 0), files: all.length, encodings: [...new Set(all.map(([, e]) => e))] };
+  return { bytes: all.reduce((a, [b]) => a + b, 0), files: all.length, encodings: [...new Set(all.map(([, e]) => e))], largest: [...all].sort((a, b) => b[0] - a[0]).map(([b, , u]) => `${u.split("/").pop()} ${(b / 1000).toFixed(1)} kB`) };
 }
 
 /**
