@@ -109,3 +109,24 @@ describe("an answer sent after its round closed", () => {
     expect(answers.questions.find((q: { questionId: string }) => q.questionId === questionId).answers).toEqual([]);
   });
 });
+
+describe("keyboard use", () => {
+  it("the first Tab reaches a visible skip link with a focus outline, and it moves focus to the main content", async () => {
+    await page.goto(`${baseURL}${link}`);
+    await expect.poll(() => page.locator("h1").count()).toBe(1);
+    await page.keyboard.press("Tab");
+    const focused = await page.evaluate(() => {
+      const el = document.activeElement as HTMLElement;
+      const style = getComputedStyle(el);
+      const box = el.getBoundingClientRect();
+      return { text: el.textContent?.trim(), href: el.getAttribute("href"), outline: `${style.outlineStyle} ${style.outlineWidth}`, top: box.top, bottom: box.bottom };
+    });
+    expect(focused.text).toBe("Skip to main content");
+    expect(focused.href).toBe("#main");
+    expect(focused.outline).toBe("solid 3px"); // app/globals.css :focus-visible
+    expect(focused.top).toBeGreaterThanOrEqual(0); // on screen once focused
+    expect(focused.bottom).toBeGreaterThan(focused.top);
+    await page.keyboard.press("Enter");
+    await expect.poll(() => page.evaluate(() => document.activeElement?.id)).toBe("main");
+  });
+});
