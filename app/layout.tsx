@@ -14,8 +14,13 @@ export default async function RootLayout({ children }: { children: React.ReactNo
   return (
     <html lang="en">
       <body>
+        <a className="skip-link" href="#main">
+          Skip to main content
+        </a>
         <SiteHeader user={user} />
-        <main className="site-main">{children}</main>
+        <main id="main" className="site-main" tabIndex={-1}>
+          {children}
+        </main>
       </body>
     </html>
   );

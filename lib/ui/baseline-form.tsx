@@ -349,7 +349,7 @@ export default function BaselineForm({
       </fieldset>
       {p ? (
         <div className="card preview" data-baseline-preview>
-          <h4>{state.attached ? "Attached: what was read" : "Preview: what was read (not stored yet)"}</h4>
+          <h3>{state.attached ? "Attached: what was read" : "Preview: what was read (not stored yet)"}</h3>
           <p className="small">
             Column <code>{p.valueColumn}</code>: <strong><Figure value={p.observations} name="preview-observations" /></strong> observations
             {p.missing > 0 ? `, ${p.missing} missing` : ""}

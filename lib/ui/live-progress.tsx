@@ -85,7 +85,7 @@ export default function LiveProgress({
         {snapshot.round?.deadline ? ` (closes by itself at ${formatDateTime(snapshot.round.deadline)})` : ""}.
         {snapshot.answeredSome > snapshot.answeredAll ? ` ${snapshot.answeredSome - snapshot.answeredAll} more have answered some.` : ""}
       </p>
-      <div className="progress-bar" role="progressbar" aria-valuemin={0} aria-valuemax={snapshot.invited} aria-valuenow={snapshot.answeredAll}>
+      <div className="progress-bar" role="progressbar" aria-label={`Panelists who have answered every question of round ${snapshot.round?.number ?? "—"}`} aria-valuetext={`${snapshot.answeredAll} of ${snapshot.invited}`} aria-valuemin={0} aria-valuemax={snapshot.invited} aria-valuenow={snapshot.answeredAll}>
         <span style={{ width: `${Math.round(share * 100)}%` }} />
       </div>
       <p className="hint">Updated every {Math.round(intervalMs / 1000)} seconds; last checked {formatDateTime(checkedAt)}.</p>

@@ -17,7 +17,11 @@
 import type { QuestionFeedback as Feedback } from "@/lib/panels/feedback";
 import Figure from "./figure";
 import { formatPercent } from "./format";
-import SpreadChart from "./spread-chart";
+import dynamic from "next/dynamic";
+
+// chart.js is loaded only on pages that draw a spread chart: a panelist answering an open
+// round fetches none of it (issue 15, the panelist page's weight).
+const SpreadChart = dynamic(() => import("./spread-chart"));
 
 const POSITION = {
   "below-iqr": "below the lower quartile (Q1)",
@@ -46,9 +50,9 @@ export default function QuestionFeedback({ f, round, rationales: mode = "list", 
   );
   return (
     <div className="feedback" id={`f-${f.questionId}`} data-feedback-question={f.questionId}>
-      <h4>
+      <h3>
         Round {round} feedback <span className="muted small">({f.n} answer{f.n === 1 ? "" : "s"})</span>
-      </h4>
+      </h3>
       {f.n === 0 ? (
         <p className="muted">Nobody answered this question in round {round}.</p>
       ) : (
@@ -144,12 +148,12 @@ export default function QuestionFeedback({ f, round, rationales: mode = "list", 
               </p>
             ) : (
               <>
-                <h5>
+                <h4>
                   Anonymous rationales{" "}
                   <span className="muted small">
                     ({rest > 0 ? `the ${f.rationales.length} nearest ${f.myAnswer ? "your answer" : "the median"} of ${f.rationaleCount}` : f.rationaleCount})
                   </span>
-                </h5>
+                </h4>
                 {rationales}
                 {rest > 0 ? (
                   <p className="small">

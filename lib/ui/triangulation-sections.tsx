@@ -148,7 +148,9 @@ export function LegsSideBySide({ report }: { report: QuestionReport }) {
             <table className="small">
               <thead>
                 <tr>
-                  <th></th>
+                  <th>
+                    <span className="visually-hidden">Figure or range</span>
+                  </th>
                   <th className="num">Raw</th>
                   <th className="num">Bias-corrected</th>
                 </tr>

@@ -16,7 +16,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
 import { api, apiTokenFor, baseURL, clearDatabase, createAccount, type TestUser } from "./api-client";
-import { launchChromium, signInPage, stat as statOn } from "./browser";
+import { expectAccessible, launchChromium, signInPage, stat as statOn } from "./browser";
 
 const AIR24 = [112, 118, 132, 129, 121, 135, 148, 148, 136, 119, 104, 118, 115, 126, 141, 135, 125, 149, 170, 170, 158, 133, 114, 140];
 const ANSWERS = [1600, 1750, 1800, 1900, 2100];
@@ -72,6 +72,7 @@ describe("month-to-year baseline in the browser", () => {
     expect(await org.locator("[data-warning]").first().textContent()).toMatch(/outside the question's plausible range, 500 to 5,000/);
     expect(await org.locator("[data-baseline-answers]").textContent()).toBe("value in month 12 after the history");
     expect(await stat("baseline-mean")).toBe(140); // December 1950
+    await expectAccessible(org);
   });
 
   it("the total of the next 12 months: previewed with its range, attached, inside the range, the blend between the legs", async () => {
@@ -88,6 +89,7 @@ describe("month-to-year baseline in the browser", () => {
     expect(await stat("preview-target-mean")).toBe(1676); // sum of 1950's values
     expect(await stat("preview-target-lower80")).toBeLessThan(1676);
     expect(await stat("preview-target-upper80")).toBeGreaterThan(1676);
+    await expectAccessible(org);
 
     await org.getByRole("button", { name: "Attach baseline" }).click();
     await expect.poll(() => org.locator("[data-baseline-answers]").textContent()).toBe("total of the next 12 months");
@@ -101,6 +103,7 @@ describe("month-to-year baseline in the browser", () => {
     const blend = await stat("blend-figure");
     expect(blend).toBeGreaterThan(Math.min(panel, baseline));
     expect(blend).toBeLessThan(Math.max(panel, baseline));
+    await expectAccessible(org);
   });
 
   it("a total over months 4..14 (first period a, last period b): the preview says so in words", async () => {

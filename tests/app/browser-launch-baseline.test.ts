@@ -14,7 +14,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
 import { api, apiTokenFor, baseURL, clearDatabase, createAccount, type TestUser } from "./api-client";
-import { launchChromium, signInPage, stat as statOn } from "./browser";
+import { expectAccessible, launchChromium, signInPage, stat as statOn } from "./browser";
 
 const N0115 = [13.0, 32.06, 89.72, 128.1, 110.7, 154.94, 195.16, 183.56, 181.32, 187.54, 266.64, 199.48, 498.84, 1179.28, 640.4, 421.56, 506.78, 722.78, 543.46];
 const SIM = [112.66, 187.3, 240.45, 346.45, 505.67, 551.9, 636.76, 598.49, 506.26, 380.91, 278.38, 198.67, 107.3, 85.25];
@@ -77,6 +77,7 @@ describe("launch baseline in the browser", () => {
     await org.getByLabel(/^Why these analogues/).fill("same buyers");
     await org.getByRole("button", { name: "Preview", exact: true }).click();
     await expect.poll(() => org.locator('[data-field="launch.analogues"]').textContent()).toMatch(/at least 5 periods/);
+    await expectAccessible(org);
   });
 
   it("previews the analogues' fits and the forecast, attaches, and the blend lies between the legs", async () => {
@@ -92,6 +93,7 @@ describe("launch baseline in the browser", () => {
     const mean = await stat("preview-target-mean");
     expect(await stat("preview-target-lower80")).toBeLessThan(mean);
     expect(await stat("preview-target-upper80")).toBeGreaterThan(mean);
+    await expectAccessible(org);
 
     await org.getByRole("button", { name: "Attach baseline" }).click();
     await expect.poll(() => org.locator("[data-baseline-answers]").textContent()).toBe("total of the first 8 quarters after launch");
@@ -102,5 +104,6 @@ describe("launch baseline in the browser", () => {
     const blend = await stat("blend-figure");
     expect(blend).toBeGreaterThan(Math.min(panel, baseline));
     expect(blend).toBeLessThan(Math.max(panel, baseline));
+    await expectAccessible(org);
   });
 });

@@ -20,6 +20,7 @@ import path from "node:path";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { chromium, type Browser, type BrowserContext, type Page } from "playwright-core";
 import { expectClose, runR, rVector } from "../stats/rscript";
+import { expectAccessible } from "./browser";
 
 const baseURL = inject("baseURL");
 const root = path.resolve(__dirname, "..", "..");
@@ -133,24 +134,28 @@ describe("Delphi panel in the browser", () => {
     await org.getByLabel("Password").fill("short");
     await org.getByRole("button", { name: "Create organiser" }).click();
     await expect.poll(() => org.locator('[data-field="password"]').textContent()).toContain("at least 12 characters");
+    await expectAccessible(org);
     await org.getByLabel("Password").fill(ORGANISER.password);
     await org.getByRole("button", { name: "Create organiser" }).click();
     await org.waitForURL(/\/sign-in/);
 
     await org.goto(`${baseURL}/setup`);
     await expect.poll(() => org.locator("main").textContent()).toContain("already exists");
+    await expectAccessible(org);
 
     await org.goto(`${baseURL}/sign-in`);
     await org.getByLabel("E-mail").fill(ORGANISER.email);
     await org.getByLabel("Password").fill("not the password");
     await org.getByRole("button", { name: "Sign in" }).click();
     await expect.poll(() => org.locator(".form-error").textContent()).toContain("do not match");
+    await expectAccessible(org);
     await org.getByLabel("Password").fill(ORGANISER.password);
     await org.getByRole("button", { name: "Sign in" }).click();
     await org.waitForURL(/\/panels$/);
     // The header reflects who is signed in.
     await expect.poll(() => org.locator(".site-header").textContent()).toContain(ORGANISER.name);
     expect(await org.locator(".site-header").textContent()).toContain("Expert roster");
+    await expectAccessible(org);
   });
 
   it("puts five people on the expert roster", async () => {
@@ -164,6 +169,7 @@ describe("Delphi panel in the browser", () => {
       await expect.poll(() => form.locator(".notice").textContent()).toContain(`${p.name} was added`);
     }
     await expect.poll(() => org.locator("tr[data-roster-member]").count()).toBe(5);
+    await expectAccessible(org);
   });
 
   it("creates a panel with a shared-quantity question, showing each default with its source", async () => {
@@ -172,6 +178,7 @@ describe("Delphi panel in the browser", () => {
     expect(page).toContain("convention, not verified");
     expect(page).toContain("Scheibe");
     expect(page).toContain("English");
+    await expectAccessible(org);
     await org.getByLabel(/^Title/).fill("Year-one volume of the Wren-2 soil-moisture sensor");
     await org.getByLabel(/^Description/).fill("Quillmoor Instruments plans the Wren-2 launch: how many units will ship in the first year?");
     await org.getByRole("button", { name: "Create panel" }).click();
@@ -187,10 +194,12 @@ describe("Delphi panel in the browser", () => {
     await add.getByRole("button", { name: "Add question" }).click();
     // The schema's message appears beside the field.
     await expect.poll(() => add.locator('[data-field="lowerBound"]').textContent()).toContain("lower bound must be below the upper bound");
+    await expectAccessible(org);
     await add.getByLabel("Lower plausible bound").fill("0");
     await add.getByLabel("Upper plausible bound").fill("50000");
     await add.getByRole("button", { name: "Add question" }).click();
     await expect.poll(() => org.locator("[data-question]").count()).toBe(1);
+    await expectAccessible(org);
   });
 
   it("invites the five from the roster and shows each private link once", async () => {
@@ -221,6 +230,7 @@ describe("Delphi panel in the browser", () => {
       links.set(email!, link);
     }
     expect(links.size).toBe(5);
+    await expectAccessible(org);
     await org.screenshot({ path: path.join(shots, "organiser-panel-page.png"), fullPage: true });
     // The suite's server has no SMTP server: each invitation waits in the outbox, one per person,
     // with that person's link and nobody else's name, e-mail or link.
@@ -243,6 +253,7 @@ describe("Delphi panel in the browser", () => {
       await expect.poll(() => m.getByRole("button", { name: "Download .eml" }).count()).toBe(1);
     }
     await org.screenshot({ path: path.join(shots, "organiser-outbox.png"), fullPage: true });
+    await expectAccessible(org);
     await org.goto(panelUrl);
     // Shown once: after a reload the links are gone.
     await org.reload();
@@ -253,6 +264,7 @@ describe("Delphi panel in the browser", () => {
       if (!invitationIds.includes(v)) invitationIds.push(v);
     }
     expect(invitationIds).toHaveLength(5);
+    await expectAccessible(org);
   });
 
   it("opens round 1; the panelists answer in separate browsers and live progress reaches 5/5 without a reload", async () => {
@@ -260,6 +272,7 @@ describe("Delphi panel in the browser", () => {
     await expect.poll(() => org.locator('[data-testid="progress-count"]').textContent(), { timeout: 15_000 }).toBe("0/5");
     for (const row of await org.locator("tr[data-pseudonym]").all()) pseudonyms.push((await row.getAttribute("data-pseudonym"))!);
     expect(pseudonyms).toHaveLength(5);
+    await expectAccessible(org);
     // A marker that a reload would wipe out.
     await org.evaluate(() => ((window as unknown as { notReloaded: boolean }).notReloaded = true));
 
@@ -272,6 +285,7 @@ describe("Delphi panel in the browser", () => {
         await page.getByLabel(/^Your estimate/).fill("90000");
         await page.getByRole("button", { name: "Save answer" }).click();
         await expect.poll(() => page.locator('[data-field="value"]').textContent()).toContain("plausible bounds");
+        await expectAccessible(page);
         await page.screenshot({ path: path.join(shots, "panelist-answer-phone-error.png"), fullPage: true });
       }
       await page.getByLabel(/^Your estimate/).fill(String(p.r1));
@@ -279,6 +293,7 @@ describe("Delphi panel in the browser", () => {
       await page.getByRole("button", { name: /Save( revised)? answer/ }).click();
       await expect.poll(() => page.locator(".notice").last().textContent()).toContain("Your answer was saved");
       await expect.poll(() => page.locator("[data-current-answer]").getAttribute("data-current-answer")).toBe(String(p.r1));
+      await expectAccessible(page);
       if (i === 0) {
         await page.screenshot({ path: path.join(shots, "panelist-answer-phone.png"), fullPage: true });
         const width = await page.evaluate(() => document.documentElement.scrollWidth);
@@ -291,11 +306,13 @@ describe("Delphi panel in the browser", () => {
     await expect.poll(() => org.locator('[data-testid="progress-count"]').textContent(), { timeout: 20_000 }).toBe("5/5");
     expect(await org.evaluate(() => (window as unknown as { notReloaded?: boolean }).notReloaded)).toBe(true);
     await org.locator("#live-progress").screenshot({ path: path.join(shots, "organiser-live-progress.png") });
+    await expectAccessible(org);
 
     // Revealing names asks for a reason, warns that it is logged, and is then in the audit log.
     await org.getByLabel(/^Reason for revealing names/).fill("Checking that the sales team answered");
     await org.getByRole("button", { name: "Reveal names (logged)" }).click();
     await expect.poll(() => org.locator("#live-progress").textContent()).toContain("recorded in the audit log");
+    await expectAccessible(org);
     for (const p of PANELISTS) expect(await org.locator("#live-progress").textContent()).toContain(p.name);
     await org.reload();
     expect(await org.locator("#live-progress").textContent()).not.toContain(PANELISTS[0].name);
@@ -325,6 +342,7 @@ describe("Delphi panel in the browser", () => {
       expect(await chart.getAttribute("data-own")).toBe(String(p.r1));
       expect(await chart.getAttribute("data-answers")).toBe("5");
       expect(await chart.locator("canvas").count()).toBe(1);
+      await expectAccessible(page);
       const outside = p.r1 < want.q1 || p.r1 > want.q3;
       expect(await page.locator('[data-explanation-requested="true"]').count()).toBe(outside ? 1 : 0);
       expectNoOtherIdentity(await rawHtml(page, url), p);
@@ -348,6 +366,7 @@ describe("Delphi panel in the browser", () => {
       // Round 2 starts from the panelist's round 1 answer, with a one-tap "keep my answer".
       expect(await page.getByLabel(/^Your estimate/).inputValue()).toBe(String(p.r1));
       expect(await page.locator("[data-keep]").count()).toBe(1);
+      await expectAccessible(page);
       await page.getByLabel(/^Your estimate/).fill(String(p.r2));
       await page.getByLabel(/^Rationale/).fill("");
       await page.getByRole("button", { name: /Save( revised)? answer/ }).click();
@@ -368,6 +387,7 @@ describe("Delphi panel in the browser", () => {
     expect(await after.getAttribute("data-rules-say")).toBe(verdict);
     const primary = await after.locator("button[type=submit]:not(.secondary):not([hidden])").allTextContents();
     expect(primary).toEqual([verdict === "stop" ? "Finish the panel" : "Start round 3"]);
+    await expectAccessible(org);
   });
 
   it("shows the organiser a convergence view whose figures match R for both rounds", async () => {
@@ -400,6 +420,7 @@ describe("Delphi panel in the browser", () => {
     expect(text).toContain("Stability rule");
     expect(text).toContain("the median changed by");
     expect(text).toContain("supports your decision");
+    await expectAccessible(org);
     await org.locator("#convergence").screenshot({ path: path.join(shots, "organiser-convergence.png") });
 
     // Each panelist now sees round 2 feedback with their own round 2 answer marked.
@@ -409,6 +430,7 @@ describe("Delphi panel in the browser", () => {
     await expect.poll(() => page.locator("h1").textContent()).toContain("Feedback of round 2");
     const want2 = expectedFromR(PANELISTS.map((x) => x.r2));
     expectClose([await statValue(page, "median")], [want2.median], 1e-12, "round 2 feedback median");
+    await expectAccessible(page);
     expect(await page.locator("[data-own-answer]").first().getAttribute("data-own-answer")).toBe(String(p.r2));
     await page.close();
   });
@@ -424,6 +446,7 @@ describe("Delphi panel in the browser", () => {
     await org.getByLabel("Their e-mail").fill(REVIEWER.email);
     await org.getByRole("button", { name: "Share", exact: true }).click();
     await expect.poll(() => org.locator("section[aria-labelledby=sharing-h]").textContent()).toContain(`${REVIEWER.email} — reviewer, read only`);
+    await expectAccessible(org);
 
     const ctx = await browser.newContext();
     const page = await ctx.newPage();
@@ -432,6 +455,7 @@ describe("Delphi panel in the browser", () => {
     await page.getByLabel("Password").fill(REVIEWER.password);
     await page.getByRole("button", { name: "Sign in" }).click();
     await page.waitForURL(/\/reports$/);
+    await expectAccessible(page);
     const header = (await page.locator(".site-header").textContent()) ?? "";
     expect(header).toContain(REVIEWER.name);
     expect(header).not.toContain("Expert roster");
@@ -440,11 +464,15 @@ describe("Delphi panel in the browser", () => {
     const want = expectedFromR(PANELISTS.map((p) => p.r2));
     const row = page.locator('table.convergence-table tr[data-round="2"]');
     expectClose([await statValue(row, "median"), await statValue(row, "q1"), await statValue(row, "q3")], [want.median, want.q1, want.q3], 1e-12, "reviewer view");
+    await expectAccessible(page);
     expect(await page.locator("form").count()).toBe(0);
     // The organiser's page is not theirs: they are sent to the read-only report.
     await page.goto(panelUrl);
     await page.waitForURL(/\/reports\//);
+    // The redirect lands on the loading state first: wait for the report itself.
+    await page.locator("table.convergence-table").waitFor({ state: "visible" });
     await page.screenshot({ path: path.join(shots, "reviewer-report.png"), fullPage: true });
+    await expectAccessible(page);
     // Signing out returns the header to its signed-out state.
     await page.getByRole("button", { name: "Sign out" }).click();
     await expect.poll(() => page.locator(".site-header").textContent(), { timeout: 15_000 }).toContain("Sign in");
@@ -469,16 +497,19 @@ describe("Delphi panel in the browser", () => {
     await page.goto(links.get(p.email)!);
     expect(await page.locator("h1").textContent()).toContain("This link does not work");
     expect(await page.locator(".form-error").textContent()).toContain("withdrawn");
+    await expectAccessible(page);
 
     await row.locator("details").evaluate((d) => ((d as HTMLDetailsElement).open = true));
     await row.getByRole("button", { name: "Re-issue link" }).click();
     await expect.poll(() => row.locator(".secret-once code").count()).toBe(1);
+    await expectAccessible(org);
     const fresh = ((await row.locator(".secret-once code").textContent()) ?? "").trim();
     expect(fresh).not.toBe(links.get(p.email));
     await page.goto(links.get(p.email)!);
     expect(await page.locator(".form-error").textContent()).toContain("not valid");
     await page.goto(fresh);
     expect(await page.locator("h1").textContent()).toContain("Wren-2");
+    await expectAccessible(page);
     await page.close();
   });
 });

@@ -36,7 +36,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser, BrowserContext, Page } from "playwright-core";
 import { expectClose, runR, rVector } from "../stats/rscript";
 import { api, apiTokenFor, baseURL, clearDatabase, createAccount, sql, type TestUser } from "./api-client";
-import { launchChromium, signInPage, stat } from "./browser";
+import { expectAccessible, launchChromium, overflowing, signInPage, stat } from "./browser";
 
 const shots = path.resolve(__dirname, "..", "..", "test-artifacts", "screenshots");
 
@@ -176,6 +176,7 @@ describe("triangulation in the browser", () => {
     await org.getByRole("button", { name: "Preview", exact: true }).click();
     // The header is row 1, so the fifth data row is row 6.
     await expect.poll(() => org.locator('[data-field="csv"]').textContent()).toContain("row 6, column 'y'");
+    await expectAccessible(org);
   });
 
   it("reads pasted values as an analogous product's history, scaled by the stated factor, and asks for the note", async () => {
@@ -186,6 +187,7 @@ describe("triangulation in the browser", () => {
     await org.getByRole("button", { name: "Preview", exact: true }).click();
     // The note is required with a factor (lib/validation: analogue.note must not be empty).
     await expect.poll(() => org.locator('[data-field="analogue.note"]').textContent()).toContain("must not be empty");
+    await expectAccessible(org);
     await org.getByLabel(/^Note/).fill("Wren-1 launch months; Wren-2 is sold through 2.5 times as many dealers");
     await org.getByRole("button", { name: "Preview", exact: true }).click();
     await expect.poll(() => org.locator("[data-baseline-preview]").count(), { timeout: 30_000 }).toBe(1);
@@ -193,6 +195,7 @@ describe("triangulation in the browser", () => {
     // Each value × 2.5 (the stated factor), by hand.
     const shown = await org.locator('[data-preview-row] [data-stat="preview-value"]').evaluateAll((els) => els.map((e) => Number(e.getAttribute("data-value"))));
     expect(shown).toEqual(NIST_Y.map((v) => v * 2.5));
+    await expectAccessible(org);
     // Nothing was stored by a preview.
     expect((await api("GET", `/api/v1/panels/${panelId}/questions/${questionId}/baseline`, { token })).status).toBe(404);
     await org.getByLabel(/analogous product's launch history/).uncheck();
@@ -215,6 +218,7 @@ describe("triangulation in the browser", () => {
     near(await stat(org, "baseline-mean"), expected.mean, 1e-9, "baseline point = R naive mean");
     near(await stat(org, "baseline-80-lower"), expected.lower80, 1e-9, "80% lower = R");
     near(await stat(org, "baseline-80-upper"), expected.upper80, 1e-9, "80% upper = R");
+    await expectAccessible(org);
     near(await stat(org, "baseline-95-lower"), expected.lower95, 1e-9, "95% lower = R");
     near(await stat(org, "baseline-95-upper"), expected.upper95, 1e-9, "95% upper = R");
     // History 12 points and a forecast fan of one step.
@@ -238,6 +242,7 @@ describe("triangulation in the browser", () => {
     // The departure of the answer 90, against R's (x − mean)/sd.
     const row = org.locator("tr[data-departure]", { has: org.locator('[data-stat="value"][data-value="90"]') });
     near(await stat(row, "z"), expected.z90, 1e-9, "z of 90 = R (x − mean)/sd");
+    await expectAccessible(org);
   });
 
   it("an actual value outside the question's bounds is refused before any confirmation, naming the number and the bounds", async () => {
@@ -247,6 +252,7 @@ describe("triangulation in the browser", () => {
     await error.waitFor({ state: "visible" });
     expect(await error.textContent()).toContain("-100 is outside the question's bounds 0 to 1000");
     expect(await org.locator("[data-confirm]").count()).toBe(0);
+    await expectAccessible(org);
     expect((await api("GET", `/api/v1/panels/${panelId}/questions/${questionId}/resolution`, { token })).status).toBe(404);
   });
 
@@ -258,6 +264,7 @@ describe("triangulation in the browser", () => {
     await confirm.waitFor({ state: "visible" });
     // The server read the field and states the value it will store, in the question's unit.
     expect(await confirm.textContent()).toContain(`Record ${ACTUAL} hundred units as the actual value`);
+    await expectAccessible(org);
     // Nothing is saved before the confirmation.
     expect((await api("GET", `/api/v1/panels/${panelId}/questions/${questionId}/resolution`, { token })).status).toBe(404);
     expect(await org.locator('[data-resolved="yes"]').count()).toBe(0);
@@ -275,6 +282,7 @@ describe("triangulation in the browser", () => {
     near(await stat(org.locator('[data-score="blend"]'), "error"), ACTUAL - blend, 1e-9, "blend error");
     near(await stat(org.locator('[data-score="baseline"]'), "error"), ACTUAL - expected.mean, 1e-9, "baseline error");
     near(await stat(org.locator('[data-score="raw panel"]'), "error"), ACTUAL - expected.median, 1e-9, "raw panel error");
+    await expectAccessible(org);
 
     await org.goto(`${baseURL}/roster`);
     await org.locator("#track-records-h").waitFor({ state: "visible" });
@@ -284,6 +292,7 @@ describe("triangulation in the browser", () => {
     near(await stat(della, "mean-log-ratio"), Math.log(ACTUAL / 90), 1e-12, "ln(actual/answer)");
     // Shrunk bias factor exp(Z·m), Z = n/(n + 5) with n = 1 (credibility, constant 5 stated on the page).
     near(await stat(della, "bias-factor"), Math.exp((1 / 6) * Math.log(ACTUAL / 90)), 1e-12, "bias factor");
+    await expectAccessible(org);
     await org.screenshot({ path: path.join(shots, "roster-track-records.png"), fullPage: true });
 
     await org.goto(`${baseURL}/accuracy`);
@@ -293,6 +302,7 @@ describe("triangulation in the browser", () => {
     near(await stat(q, "blend"), blend, 1e-9, "blend in the history");
     // One question: MAE of the blend = |actual − blend|.
     near(await stat(org, "blend-mae"), Math.abs(ACTUAL - blend), 1e-9, "MAE of the blend over one question");
+    await expectAccessible(org);
     await org.screenshot({ path: path.join(shots, "accuracy.png"), fullPage: true });
   });
 
@@ -314,6 +324,18 @@ describe("triangulation in the browser", () => {
     near(await stat(org.locator('[data-score="blend"]'), "error"), CORRECTED - blend, 1e-9, "rescored blend error");
     await expect.poll(() => org.locator("section[aria-labelledby=resolve-h]").textContent()).toContain("The ledger missed two late pallets");
     await org.screenshot({ path: path.join(shots, "question-resolved.png"), fullPage: true });
+    await expectAccessible(org);
+    // On a 360-px phone the organiser's question page fits its width: no sideways scrolling.
+    await org.setViewportSize({ width: 360, height: 800 });
+    await expect
+      .poll(() => org.evaluate(() => document.documentElement.scrollWidth), { message: "scrollWidth at 360 px" })
+      .toBeLessThanOrEqual(360)
+      .catch(async (err: Error) => {
+        throw new Error(`${err.message}\nwider than 360 px: ${(await overflowing(org)).join(", ")}`);
+      });
+    await expectAccessible(org);
+    await org.screenshot({ path: path.join(shots, "question-resolved-phone.png"), fullPage: true });
+    await org.setViewportSize({ width: 1280, height: 900 });
   });
 
   it("the reviewer's report puts the blended figure first, shows the three legs and the departures, and the CSV export carries the same figures", async () => {
@@ -322,6 +344,7 @@ describe("triangulation in the browser", () => {
     const errors: string[] = [];
     page.on("pageerror", (e) => errors.push(e.message));
     await page.goto(`${baseURL}/reports/${panelId}`);
+    await expectAccessible(page);
     await page
       .locator(`[data-report-question="${questionId}"] a`)
       .click()
@@ -352,6 +375,7 @@ describe("triangulation in the browser", () => {
     near(await stat(page, "panel-raw"), expected.median, 1e-12, "judgment leg = R median");
     const row = page.locator("tr[data-departure]", { has: page.locator('[data-stat="value"][data-value="90"]') });
     near(await stat(row, "z"), expected.z90, 1e-9, "report z of 90 = R");
+    await expectAccessible(page);
     // A reviewer sees no names: the departure rows carry pseudonyms.
     const html = await page.content();
     for (const p of PANELISTS) expect(html).not.toContain(p.name);

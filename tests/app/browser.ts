@@ -2,7 +2,10 @@
  * What the browser tests share: Debian's Chromium started headless, signing in through the real
  * sign-in page, and reading a figure a page exposes as `data-stat`/`data-value`.
  */
+import { readFileSync } from "node:fs";
+import path from "node:path";
 import { chromium, type Browser, type BrowserContext, type Page } from "playwright-core";
+import { expect } from "vitest";
 import { baseURL, type TestUser } from "./api-client";
 
 const LAUNCH_ARGS = ["--no-sandbox", "--disable-gpu", "--disable-background-networking", "--disable-component-update", "--no-first-run"];
@@ -33,4 +36,76 @@ export async function stat(scope: Page | ReturnType<Page["locator"]>, name: stri
   const raw = await scope.locator(`[data-stat="${name}"]`).first().getAttribute("data-value");
   if (raw === null || raw === "") throw new Error(`no value for ${name}`);
   return Number(raw);
+}
+
+const AXE_SOURCE = readFileSync(path.join(process.cwd(), "node_modules/axe-core/axe.min.js"), "utf8");
+
+/**
+ * Runs axe-core (node_modules/axe-core/axe.min.js, injected into the page) over the page as it
+ * stands and returns its violations as one readable line each: rule id, impact, the selectors of
+ * the offending nodes. An empty list means axe found nothing (WCAG 2.x A/AA and best-practice
+ * rules, axe's defaults).
+ */
+export async function axeViolations(page: Page): Promise<string[]> {
+  if (!(await page.evaluate(() => "axe" in window))) await page.addScriptTag({ content: AXE_SOURCE });
+  const found = await page.evaluate(async () => {
+    const axe = (window as unknown as { axe: { run: (ctx: Document) => Promise<{ violations: { id: string; impact: string | null; nodes: { target: unknown[] }[] }[] }> } }).axe;
+    const result = await axe.run(document);
+    return result.violations.map((v) => ({ id: v.id, impact: v.impact, targets: v.nodes.map((n) => n.target.map(String).join(" ")) }));
+  });
+  const where = new URL(page.url()).pathname;
+  return found.map((v) => `${where}: ${v.id} (${v.impact ?? "no impact"}) at ${v.targets.join(", ")}`);
+}
+
+/**
+ * Expects axe to find no violation on the page as it stands (a soft expectation: the test goes on
+ * and fails at its end, listing every violation of every page state it visited).
+ */
+export async function expectAccessible(page: Page): Promise<void> {
+  // After a server action the page's metadata streams in again: wait for its title first (a page
+  // without one still fails here, on this poll).
+  await expect.poll(() => page.title(), { message: `the title of ${page.url()}` }).not.toBe("");
+  expect.soft(await axeViolations(page), `axe-core on ${page.url()}`).toEqual([]);
+}
+
+/**
+ * The compressed size of the JavaScript a page load fetches: the sum over the script responses of
+ * their bodies as sent over the network (after Content-Encoding, Chromium's encoded body size),
+ * counted from `load()` until the page's network is idle.
+ */
+export async function scriptBytes(page: Page, load: () => Promise<unknown>): Promise<{ bytes: number; files: number; encodings: string[]; largest: string[] }> {
+  const sizes: Promise<[number, string, string]>[] = [];
+  const onFinished = (req: import("playwright-core").Request) => {
+    if (req.resourceType() !== "script") return;
+    sizes.push(Promise.all([req.sizes(), req.response()]).then(async ([s, res]) => [s.responseBodySize, (await res?.headerValue("content-encoding")) ?? "none", new URL(req.url()).pathname]));
+  };
+  page.on("requestfinished", onFinished);
+  try {
+    await load();
+    await page.waitForLoadState("networkidle");
+  } finally {
+    page.off("requestfinished", onFinished);
+  }
+  const all = await Promise.all(sizes);
+  return { bytes: all.reduce((a, [b]) => a + b, 0), files: all.length, encodings: [...new Set(all.map(([, e]) => e))], largest: [...all].sort((a, b) => b[0] - a[0]).map(([b, , u]) => `${u.split("/").pop()} ${(b / 1000).toFixed(1)} kB`) };
+}
+
+/**
+ * The outermost elements that reach past the right edge of the viewport (tag, id or class, and
+ * their right edge in px), to say what makes a page scroll sideways.
+ */
+export function overflowing(page: Page): Promise<string[]> {
+  return page.evaluate(() => {
+    const width = document.documentElement.clientWidth;
+    const out: string[] = [];
+    for (const el of Array.from(document.body.querySelectorAll("*"))) {
+      const right = el.getBoundingClientRect().right;
+      const parent = el.parentElement;
+      if (right > width + 0.5 && (!parent || parent.getBoundingClientRect().right <= width + 0.5)) {
+        const name = `${el.tagName.toLowerCase()}${el.id ? `#${el.id}` : ""}${el.classList.length ? `.${Array.from(el.classList).join(".")}` : ""}`;
+        out.push(`${name} (right edge ${Math.round(right)} px)`);
+      }
+    }
+    return out;
+  });
 }

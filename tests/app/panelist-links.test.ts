@@ -16,7 +16,7 @@ import { randomBytes } from "node:crypto";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
 import { api, apiTokenFor, baseURL, clearDatabase, createAccount } from "./api-client";
-import { launchChromium } from "./browser";
+import { expectAccessible, launchChromium } from "./browser";
 
 let org = "";
 let panelId = "";
@@ -80,6 +80,11 @@ describe("mangled private links", () => {
     expect(added).not.toContain("cut short");
     const unknown = await (await visit(`/p/${"A".repeat(43)}`)).text();
     expect(unknown).toContain("not valid");
+    for (const bad of [link.slice(0, -10), `${link}xyz`]) {
+      await page.goto(`${baseURL}${bad}`);
+      await expect.poll(() => page.locator("h1").count()).toBe(1);
+      await expectAccessible(page);
+    }
   });
 });
 
@@ -87,6 +92,7 @@ describe("an answer sent after its round closed", () => {
   it("shows the closed round and a plain closing time, and stores nothing", async () => {
     await page.goto(`${baseURL}${link}`);
     await expect.poll(() => page.locator("[data-round-open]").count()).toBe(1);
+    await expectAccessible(page);
     const form = page.getByRole("form", { name: "Answer to question 1" });
     await form.locator('input[name="value"]').fill("420");
     await form.locator('textarea[name="rationale"]').fill("Dealer orders so far.");
@@ -98,7 +104,29 @@ describe("an answer sent after its round closed", () => {
     expect(late).not.toMatch(/\d{4}-\d{2}-\d{2}T/);
     expect(await page.locator("[data-round-open]").count()).toBe(0);
     expect(await page.locator(".notice").first().textContent()).toContain("Round 1 is closed");
+    await expectAccessible(page);
     const answers = await ok("GET", `/api/v1/panels/${panelId}/rounds/1/answers`);
     expect(answers.questions.find((q: { questionId: string }) => q.questionId === questionId).answers).toEqual([]);
+  });
+});
+
+describe("keyboard use", () => {
+  it("the first Tab reaches a visible skip link with a focus outline, and it moves focus to the main content", async () => {
+    await page.goto(`${baseURL}${link}`);
+    await expect.poll(() => page.locator("h1").count()).toBe(1);
+    await page.keyboard.press("Tab");
+    const focused = await page.evaluate(() => {
+      const el = document.activeElement as HTMLElement;
+      const style = getComputedStyle(el);
+      const box = el.getBoundingClientRect();
+      return { text: el.textContent?.trim(), href: el.getAttribute("href"), outline: `${style.outlineStyle} ${style.outlineWidth}`, top: box.top, bottom: box.bottom };
+    });
+    expect(focused.text).toBe("Skip to main content");
+    expect(focused.href).toBe("#main");
+    expect(focused.outline).toBe("solid 3px"); // app/globals.css :focus-visible
+    expect(focused.top).toBeGreaterThanOrEqual(0); // on screen once focused
+    expect(focused.bottom).toBeGreaterThan(focused.top);
+    await page.keyboard.press("Enter");
+    await expect.poll(() => page.evaluate(() => document.activeElement?.id)).toBe("main");
   });
 });

@@ -20,7 +20,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
 import { api, apiTokenFor, baseURL, clearDatabase, createAccount, signIn, type TestUser } from "./api-client";
-import { launchChromium, signInPage } from "./browser";
+import { expectAccessible, launchChromium, signInPage } from "./browser";
 
 const ROUND1 = [60, 64, 70, 72, 80];
 const ROUND2 = [66, 68, 72, 73, 75];
@@ -177,8 +177,10 @@ describe("the portfolio page in Chromium", () => {
     await page.goto(`${baseURL}/portfolio`);
     await expect.poll(() => page.locator("[data-portfolio-row]").count()).toBe(2);
     expect(await page.locator('[data-stat="portfolio-figure"]').getAttribute("data-value")).toMatch(/^7[56]/);
+    await expectAccessible(page);
     await page.getByRole("button", { name: "Question" }).click();
     await expect.poll(() => page.locator("[data-portfolio]").getAttribute("data-sort")).toBe("question ascending");
+    await expectAccessible(page);
     expect(await questionsShown()).toEqual(["Wren-2 units returned in year one?", "Wren-2 units sold in year one?"]);
     await expect.poll(() => page.getByRole("columnheader", { name: /Question/ }).getAttribute("aria-sort")).toBe("ascending");
     await page.getByRole("button", { name: /Question/ }).click();
@@ -191,5 +193,6 @@ describe("the portfolio page in Chromium", () => {
     await expect.poll(() => page.locator("[data-portfolio]").getAttribute("data-sort")).toBe("figure descending");
     expect(await questionsShown()).toEqual(["Wren-2 units sold in year one?", "Wren-2 units returned in year one?"]);
     await expect.poll(async () => Number(await page.locator('[data-portfolio-row] [data-stat="portfolio-change"]').getAttribute("data-value"))).toBeCloseTo(1, 9);
+    await expectAccessible(page);
   });
 });

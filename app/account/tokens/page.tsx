@@ -49,7 +49,9 @@ export default async function TokensPage() {
                 <th>Last used</th>
                 <th>Expires</th>
                 <th>Status</th>
-                <th />
+                <th>
+                  <span className="visually-hidden">Action</span>
+                </th>
               </tr>
             </thead>
             <tbody>

@@ -42,8 +42,8 @@ export default async function OutboxPage({ params }: { params: Promise<{ id: str
       </p>
       <p className="hint">An invitation holds the person&apos;s private link: delete it here once it is sent.</p>
       {messages.length === 0 ? <p className="muted">The outbox is empty.</p> : null}
-      {messages.map((m) => (
-        <section className="card" key={m.id} data-outbox-message={m.id} aria-label={`${KIND[m.kind] ?? m.kind} to ${m.to}`}>
+      {messages.map((m, i) => (
+        <section className="card" key={m.id} data-outbox-message={m.id} aria-label={`Message ${i + 1}: ${(KIND[m.kind] ?? m.kind).toLowerCase()} to ${m.to}`}>
           <h2>{m.subject}</h2>
           <dl className="facts">
             <dt>To</dt>
@@ -64,7 +64,7 @@ export default async function OutboxPage({ params }: { params: Promise<{ id: str
             <CopyButton text={m.body} label="Copy message" />
             <DownloadButton text={toEml(m)} filename={`${m.kind}-${m.id}.eml`} type="message/rfc822" label="Download .eml" />
           </div>
-          <ActionForm action={deleteOutboxAction} submitLabel="Delete (sent)" submitClassName="secondary" ariaLabel="Delete message">
+          <ActionForm action={deleteOutboxAction} submitLabel="Delete (sent)" submitClassName="secondary" ariaLabel={`Delete message ${i + 1}`}>
             <input type="hidden" name="panelId" value={id} />
             <input type="hidden" name="messageId" value={m.id} />
           </ActionForm>
