@@ -30,6 +30,22 @@ export type Assessment = readonly [number, number, number];
 /** Uniform or log-uniform background measure for the information score. */
 export type Background = "uniform" | "log-uniform";
 
+/** Orders of magnitude (as a ratio, largest / smallest) from which a question's values get the log-uniform background. */
+export const LOG_BACKGROUND_RATIO = 100;
+
+/**
+ * The background for a question's values (percentiles and, if known, the true value): log-uniform
+ * when every value is above 0 and they span at least two orders of magnitude (largest / smallest ≥
+ * {@link LOG_BACKGROUND_RATIO}), else uniform. The sources leave the choice to the analyst for
+ * "quantities spanning orders of magnitude" (Cooke 1991; Cooke & Goossens 2008); the factor 100 is
+ * common practice, not from the sources. Empty input or any value that is not finite: uniform (the
+ * scores' own checks then name the bad value).
+ */
+export function backgroundFor(values: readonly number[]): Background {
+  if (values.length === 0 || !values.every((v) => Number.isFinite(v) && v > 0)) return "uniform";
+  return Math.max(...values) / Math.min(...values) >= LOG_BACKGROUND_RATIO ? "log-uniform" : "uniform";
+}
+
 function checkAssessment(a: Assessment, where: string): void {
   if (!a.every(Number.isFinite)) throw new RangeError(`${where}: percentiles must be finite numbers`);
   if (!(a[0] <= a[1] && a[1] <= a[2])) throw new RangeError(`${where}: percentiles must not decrease (5th ≤ 50th ≤ 95th)`);

@@ -10,8 +10,9 @@
  * - Calibration questions count once their true value is given; a panelist is scored only when
  *   they answered every counted calibration question (the model compares panelists on the same
  *   questions). Answers to calibration questions are the 5th, 50th and 95th percentiles.
- * - Background: uniform on each question's intrinsic range (the percentiles and the true value,
- *   widened by 10% each side).
+ * - Background: on each question's intrinsic range (the percentiles and the true value, widened by
+ *   10% each side), uniform, or log-uniform when the values are all above 0 and span two orders of
+ *   magnitude or more (`backgroundFor`).
  * - Target questions: the panel's three-point shared-quantity questions that are not calibration
  *   questions, answered as P10 / P50 / P90; each panelist's minimum-information distribution
  *   through those levels on the answers' intrinsic range, pooled with equal weights (everyone who
@@ -25,6 +26,7 @@
 import { db } from "@/lib/db";
 import type { Actor } from "@/lib/accounts/actor";
 import {
+  backgroundFor,
   intrinsicRange,
   leaveOneOut,
   equalWeightPool,
@@ -137,9 +139,9 @@ const poolScore = (s: { binCounts: readonly number[]; calibration: number; infor
 
 const METHOD = [
   "Calibration score: the p-value of 2N·I(s, p) under χ² with 3 degrees of freedom, s the shares of the N true values in the panelist's four inter-percentile bins and p = (0.05, 0.45, 0.45, 0.05) (Cooke 1991).",
-  "Information score: the mean over the calibration questions of the relative information of the panelist's distribution (uniform between the percentiles) against a uniform background on the question's intrinsic range — every percentile and the true value, widened by 10% each side (Cooke 1991).",
+  "Information score: the mean over the calibration questions of the relative information of the panelist's distribution (uniform between the percentiles) against a uniform background on the question's intrinsic range — every percentile and the true value, widened by 10% each side — or, when the values are all above 0 and span two orders of magnitude or more, the same on their logarithms (log-uniform background; Cooke 1991).",
   "Performance weights ∝ calibration × information for panelists whose calibration is at least the cut-off, the cut-off chosen to maximise the pool's own calibration × information on the calibration questions (Cooke & Goossens 2008). The equal-weight pool weighs every panelist alike.",
-  "Target questions: each panelist's P10 / P50 / P90 read as a distribution uniform between the percentiles on the answers' range widened by 10%, pooled linearly (Stone 1961).",
+  "Target questions: each panelist's P10 / P50 / P90 read as a distribution uniform between the percentiles (between their logarithms when the answers span two orders of magnitude or more) on the answers' range widened by 10%, pooled linearly (Stone 1961).",
   "Out of sample: each calibration question left out in turn, the weights found on the others, both pools scored on the one left out (after Colson & Cooke 2017, who leave out larger sets). Weighting helps when the performance-weighted pool's calibration × information is the higher.",
   "A panelist's final answer is their latest answer in a closed round; a panelist is scored only when they answered every calibration question that has a true value.",
 ];
@@ -151,9 +153,10 @@ const METHOD = [
  */
 export function targetPoolMedian(answers: readonly { low: number; mid: number; high: number }[], weights: readonly number[]): number {
   const assessments = answers.map((a) => [a.low, a.mid, a.high] as Assessment);
-  const range = intrinsicRange(assessments, null);
+  const background = backgroundFor(assessments.flat());
+  const range = intrinsicRange(assessments, null, background);
   if (!(range[1] > range[0])) return answers[0].mid;
-  return pooledQuantiles(assessments, weights, range, [0.5], "uniform", TARGET_LEVELS)[0];
+  return pooledQuantiles(assessments, weights, range, [0.5], background, TARGET_LEVELS)[0];
 }
 
 /** The result from plain inputs (no I/O). `answers` maps question id → final answers. */
@@ -183,13 +186,11 @@ export function computeCalibration(
   if (!waiting) {
     const cq: CalibrationQuestion[] = counted.map((q) => {
       const byId = new Map((answers.get(q.id) ?? []).map((a) => [a.invitationId, a]));
-      return {
-        assessments: scoredIds.map((id) => {
-          const a = byId.get(id)!;
-          return [a.low!, a.value, a.high!] as Assessment;
-        }),
-        realisation: q.trueValue!,
-      };
+      const assessments = scoredIds.map((id) => {
+        const a = byId.get(id)!;
+        return [a.low!, a.value, a.high!] as Assessment;
+      });
+      return { assessments, realisation: q.trueValue!, background: backgroundFor([...assessments.flat(), q.trueValue!]) };
     });
     let s, pw, ew;
     try {
@@ -251,9 +252,10 @@ export function computeCalibration(
       const as = (answers.get(q.id) ?? []).filter((a) => a.low !== null && a.high !== null);
       if (as.length === 0) return { ...base, answers: 0, equal: null, performance: null, note: "No answers from a closed round yet." };
       const assessments = as.map((a) => [a.low!, a.value, a.high!] as Assessment);
-      const range = intrinsicRange(assessments, null);
+      const background = backgroundFor(assessments.flat());
+      const range = intrinsicRange(assessments, null, background);
       if (!(range[1] > range[0])) return { ...base, answers: as.length, equal: null, performance: null, note: "Every answer is the same number: there is no range to pool on." };
-      const pool = (w: readonly number[]) => percentiles(pooledQuantiles(assessments, w, range, POOL_LEVELS, "uniform", TARGET_LEVELS));
+      const pool = (w: readonly number[]) => percentiles(pooledQuantiles(assessments, w, range, POOL_LEVELS, background, TARGET_LEVELS));
       const equal = pool(as.map(() => 1));
       const pw = as.map((a) => weights.get(a.invitationId) ?? 0);
       const performance = pw.some((w) => w > 0) ? pool(pw) : null;

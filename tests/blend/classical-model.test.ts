@@ -16,6 +16,7 @@
  */
 import { describe, expect, it } from "vitest";
 import {
+  backgroundFor,
   calibrationScore,
   chiSquare3Survival,
   equalWeightPool,
@@ -106,6 +107,39 @@ describe("information", () => {
   it("log-uniform background: the same formula on ln x", () => {
     expect(informationScore([10, 100, 1000], [1, 10000], "log-uniform")).toBeCloseTo(informationScore([1, 2, 3], [0, 4]), 12);
     expect(() => intrinsicRange([[0, 1, 2]], 1, "log-uniform")).toThrow(/above 0/);
+  });
+});
+
+describe("backgroundFor", () => {
+  it("is log-uniform only for positive values spanning two orders of magnitude (factor 100: common practice)", () => {
+    // Hand cases: ratio 99.9 / 1 < 100; ratio 100 / 1 = 100; a value at 0 or below, or not finite, keeps the uniform background.
+    expect(backgroundFor([1, 50, 99.9])).toBe("uniform");
+    expect(backgroundFor([1, 10, 100])).toBe("log-uniform");
+    expect(backgroundFor([0, 10, 1000])).toBe("uniform");
+    expect(backgroundFor([-5, 10, 1000])).toBe("uniform");
+    expect(backgroundFor([])).toBe("uniform");
+    expect(backgroundFor([1, Number.NaN, 1000])).toBe("uniform");
+  });
+
+  it("the information score on a log-uniform background equals R's integral of f·ln(f/g) on ln x", () => {
+    // One question spanning four orders of magnitude: two panelists' P5/P50/P95 and the true value 300.
+    const assessments: Assessment[] = [[10, 100, 1000], [50, 400, 100000]];
+    const question: CalibrationQuestion = { assessments, realisation: 300, background: backgroundFor([...assessments.flat(), 300]) };
+    expect(question.background).toBe("log-uniform");
+    const scores = panelistScores([question]);
+    // R: the intrinsic range on ln x (every percentile and the true value, widened by 10% each side) and the
+    // relative information of the minimum-information density against the uniform density on it, by integrate.
+    const r = rEval(
+      assessments
+        .map((a, i) => `v <- log(c(${[...assessments.flat(), 300].join(", ")})); pad <- 0.1 * (max(v) - min(v))
+          x <- c(min(v) - pad, log(c(${a.join(", ")})), max(v) + pad); p <- c(0.05, 0.45, 0.45, 0.05)
+          f <- function(t) { k <- findInterval(t, x, rightmost.closed = TRUE, all.inside = TRUE); p[k] / diff(x)[k] }
+          g <- 1 / (x[5] - x[1])
+          out("inf${i}", sum(sapply(1:4, function(k) integrate(function(t) f(t) * log(f(t) / g), x[k], x[k + 1], rel.tol = 1e-12)$value)))`)
+        .join("\n"),
+      { withForecast: false },
+    );
+    scores.forEach((s, i) => expect(s.information).toBeCloseTo(r[`inf${i}`][0], 9));
   });
 });
 
