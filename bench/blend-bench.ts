@@ -15,7 +15,7 @@
  * Baseline: lib/forecast `baseline(train, { method: "auto", season: frequency, horizon })`,
  * the automatic baseline the app attaches; its step at the question's horizon.
  *
- * Blend: lib/panels/triangulation `computeTriangulation`, exactly as the app computes a
+ * Blend: lib/triangulation/triangulation `computeTriangulation`, exactly as the app computes a
  * question, with the track records of the questions resolved before it (bias factors,
  * interval hit rates, the panel's log errors, inverse-MSE history on relative errors), in order.
  * The inverse-MSE weight's raw value and the weight applied are summarised at the end.
@@ -33,7 +33,7 @@ import { join } from "node:path";
 import { parseArgs } from "node:util";
 import { baseline } from "../lib/forecast/baseline";
 import { blendErrorCorrelation, trackRecord, type BiasFactor, type ResolvedAnswer, type ResolvedPair } from "../lib/blend";
-import { computeTriangulation, type TriangulationAnswer } from "../lib/panels/triangulation";
+import { computeTriangulation, type TriangulationAnswer } from "../lib/triangulation/triangulation";
 import { normalQuantile } from "../lib/stats/normal";
 import { mulberry32 } from "../tests/helpers/prng";
 

@@ -1,12 +1,12 @@
 /**
  * `npx tsx bench/calibration-speed.ts [--sizes 10x10,30x10,100x10]`: how long the report's
- * performance weights take (lib/panels/calibration-figures.ts `computeCalibration`, docs/methods.md §21) for
+ * performance weights take (lib/triangulation/calibration-figures.ts `computeCalibration`, docs/methods.md §21) for
  * P panelists × N calibration questions and 5 target questions — the panelists' scores, the
  * optimised cut-off and the leave-one-out comparison, which the app computes on the worker pool
  * (lib/work/jobs.ts), not on the request thread. Simulated answers (as
  * bench/classical-model.ts: bias, noise and spread per panelist; background by `backgroundFor`); a fixed PRNG start value. Prints the median of 3 runs per size.
  */
-import { computeCalibration } from "../lib/panels/calibration-figures";
+import { computeCalibration } from "../lib/triangulation/calibration-figures";
 import { normalQuantile } from "../lib/stats/normal";
 import { mulberry32 } from "../tests/helpers/prng";
 

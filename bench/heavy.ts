@@ -14,8 +14,8 @@
 import { mkdtempSync, rmSync } from "node:fs";
 import { cpus, loadavg, tmpdir } from "node:os";
 import path from "node:path";
-import { Client, build, createOrganiser, createPanel, freePort, hasBuild, migrate, newKey, organiserToken, percentile, sendAnswer, startServer, type PanelSetup } from "./harness";
-import { freshDatabase } from "./sql";
+import { Client, build, createOrganiser, createPanel, freePort, hasBuild, migrate, newKey, organiserToken, percentile, sendAnswer, startServer, type PanelSetup } from "../tests/harness/harness";
+import { freshDatabase } from "../tests/harness/sql";
 
 const distDir = process.env.NEXT_DIST_DIR || ".next";
 const ROUNDS = Number(process.env.ROUNDS ?? 3);

@@ -22,7 +22,7 @@
  *    other work on a shared machine hardly changes.
  * 5. Retries RETRIES acknowledged requests with their original key: each must return 200 with the
  *    same version, and no row may be added.
- * 6. Stops the servers and checks the database directly (bench/sql.ts): every acknowledged answer
+ * 6. Stops the servers and checks the database directly (tests/harness/sql.ts): every acknowledged answer
  *    is stored exactly once with its acknowledged version and value, no refused answer is stored,
  *    versions run 1…n without gaps, and (SQLite) `PRAGMA integrity_check` is ok.
  *
@@ -56,8 +56,8 @@ import {
   type AnswerAttempt,
   type AnswerOutcome,
   type RunningServer,
-} from "./harness";
-import { freshDatabase, openSql } from "./sql";
+} from "../tests/harness/harness";
+import { freshDatabase, openSql } from "../tests/harness/sql";
 
 /** `--name value` from the command line, else the environment variable, else the default. */
 function setting(flag: string, variable: string, fallback: string): string {

@@ -50,7 +50,7 @@ import {
   sessionCookie,
   startServer,
   type Panelist,
-} from "./harness";
+} from "../tests/harness/harness";
 
 function arg(flag: string, fallback: string): string {
   const i = process.argv.indexOf(`--${flag}`);
@@ -85,7 +85,7 @@ function questionBody(i: number, product: string) {
     targetPeriod: "first 12 months after launch",
     lowerBound: 0,
     // The outcome of a sum-of-parts question (the total of up to 500 parts) is held to the same
-    // bounds as each part (lib/panels/resolution.ts checkWithinBounds), so its range covers the total.
+    // bounds as each part (lib/triangulation/resolution.ts checkWithinBounds), so its range covers the total.
     upperBound: k.aggregation === "sum-of-parts" ? 100_000_000 : 100_000,
     ...k,
   };

@@ -3,9 +3,9 @@ import { headers } from "next/headers";
 import { changePassword } from "@/lib/accounts/users";
 import { clientAddress, countPasswordAttempt } from "@/lib/http/rate-limit";
 import { passwordChange } from "@/lib/validation/inputs";
-import type { FormState } from "@/lib/ui/form-state";
-import { formObject } from "@/lib/ui/form-result";
-import { signedInAction } from "@/lib/ui/signed-in-action";
+import type { FormState } from "@/lib/actions/form-state";
+import { formObject } from "@/lib/actions/form-result";
+import { signedInAction } from "@/lib/actions/signed-in-action";
 
 /** Changes the password (limited like sign-in); every session ends, this one too. */
 export async function changePasswordAction(_previous: FormState, formData: FormData): Promise<FormState> {

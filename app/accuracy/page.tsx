@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import { TRACKING_SIGNAL_LIMIT } from "@/lib/blend";
-import { getAccuracyHistory } from "@/lib/panels/track-records";
+import { getAccuracyHistory } from "@/lib/triangulation/track-records";
 import Figure from "@/lib/ui/figure";
 import { countOf, formatDate, formatNumber } from "@/lib/ui/format";
 import { requireOrganiserPage } from "@/lib/ui/require-user";

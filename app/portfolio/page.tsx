@@ -1,5 +1,5 @@
 import type { Metadata } from "next";
-import { CONVERGENCE_LABEL, getPortfolio } from "@/lib/panels/portfolio";
+import { CONVERGENCE_LABEL, getPortfolio } from "@/lib/triangulation/portfolio";
 import { formatDateTime } from "@/lib/ui/format";
 import PortfolioTable from "@/lib/ui/portfolio-table";
 import { requireSignedIn } from "@/lib/ui/require-user";

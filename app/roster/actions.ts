@@ -2,9 +2,9 @@
 import { revalidatePath } from "next/cache";
 import { addRosterMember, deleteRosterMember, updateRosterMember } from "@/lib/panels/roster";
 import { params, rosterMemberInput, rosterMemberUpdate } from "@/lib/validation/inputs";
-import type { FormState } from "@/lib/ui/form-state";
-import { formObject } from "@/lib/ui/form-result";
-import { signedInAction } from "@/lib/ui/signed-in-action";
+import type { FormState } from "@/lib/actions/form-state";
+import { formObject } from "@/lib/actions/form-result";
+import { signedInAction } from "@/lib/actions/signed-in-action";
 
 /** Adds a person to the organiser's expert roster. */
 export async function addMemberAction(_previous: FormState, formData: FormData): Promise<FormState> {

@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import { listRoster } from "@/lib/panels/roster";
-import { listTrackRecords } from "@/lib/panels/track-records";
+import { listTrackRecords } from "@/lib/triangulation/track-records";
 import TrackRecordRoster from "@/lib/ui/track-record-table";
 import ActionForm, { FieldError } from "@/lib/ui/action-form";
 import { requireOrganiserPage } from "@/lib/ui/require-user";

@@ -2,9 +2,9 @@
 import { redirect } from "next/navigation";
 import { createFirstOrganiser } from "@/lib/accounts/users";
 import { setupInput } from "@/lib/validation/inputs";
-import type { FormState } from "@/lib/ui/form-state";
-import { formObject, fromThrown, fromZodError } from "@/lib/ui/form-result";
-import { textProblems } from "@/lib/ui/action-guard";
+import type { FormState } from "@/lib/actions/form-state";
+import { formObject, fromThrown, fromZodError } from "@/lib/actions/form-result";
+import { textProblems } from "@/lib/actions/action-guard";
 
 /** Creates the first organiser (refused by the service once one exists), then asks them to sign in. */
 export async function createFirstOrganiserAction(_previous: FormState, formData: FormData): Promise<FormState> {

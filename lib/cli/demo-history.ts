@@ -18,9 +18,9 @@ import { createPanel, type QuestionView } from "../panels/panels";
 import { createInvitations } from "../panels/invitations";
 import { closeRound, finishPanel, openRound } from "../panels/rounds";
 import { submitAnswer } from "../panels/answers";
-import { attachBaseline } from "../panels/baselines";
-import { setPanelBlendRule } from "../panels/triangulation";
-import { resolveQuestion } from "../panels/resolution";
+import { attachBaseline } from "../triangulation/baselines";
+import { setPanelBlendRule } from "../triangulation/triangulation";
+import { resolveQuestion } from "../triangulation/resolution";
 import type { RosterMemberView } from "../panels/roster";
 
 /**

@@ -14,7 +14,7 @@ import { createPanel } from "../panels/panels";
 import { createInvitations } from "../panels/invitations";
 import { closeRound, openRound } from "../panels/rounds";
 import { submitAnswer } from "../panels/answers";
-import { attachBaseline } from "../panels/baselines";
+import { attachBaseline } from "../triangulation/baselines";
 
 /** Fenwick-1 rain gauge: units sold per quarter from its launch (invented). */
 export const FENWICK1_QUARTERS = [1080, 1410, 1760, 2240, 2180, 2140, 1910, 1370, 1080, 740, 470, 330, 200, 130];

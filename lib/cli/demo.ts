@@ -19,7 +19,7 @@ import { createPanel, sharePanel } from "../panels/panels";
 import { createInvitations } from "../panels/invitations";
 import { closeRound, openRound, startNextRound } from "../panels/rounds";
 import { submitAnswer } from "../panels/answers";
-import { setPanelBlendRule } from "../panels/triangulation";
+import { setPanelBlendRule } from "../triangulation/triangulation";
 import type { CommandIo } from "./main";
 import { attachWren2Baseline, loadPastPanels, PAST_PANELS } from "./demo-history";
 import { loadLaunchPanel } from "./demo-launch";

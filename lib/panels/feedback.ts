@@ -18,7 +18,7 @@ import type { HistogramBin } from "@/lib/stats";
 import { authorisePanelist } from "./access";
 import { explanationsRequired } from "./answers";
 import { closedRoundFeedback } from "./round-feedback";
-import { getPracticeResult, type PracticeResult } from "./practice";
+import { getPracticeResult, type PracticeResult } from "../triangulation/practice";
 
 export interface QuestionFeedback {
   readonly questionId: string;
@@ -56,7 +56,7 @@ export interface FeedbackView {
   /** True when the panel is finished: there is no next round to keep or revise an answer in. */
   readonly finished: boolean;
   readonly questions: readonly QuestionFeedback[];
-  /** A practice set's result for this panelist once its last round has closed (./practice.ts); null on any other panel. */
+  /** A practice set's result for this panelist once its last round has closed (lib/triangulation/practice.ts); null on any other panel. */
   readonly practice: PracticeResult | null;
 }
 

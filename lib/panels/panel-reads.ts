@@ -17,7 +17,7 @@ import { finalAnswers } from "./round-closing";
 import { closedRound } from "./closed-rounds";
 import { nextTurn } from "@/lib/work/turn";
 import { getConvergence, type ConvergenceView } from "./rounds";
-import { filterResolutions, loadResolutions, trackRecordsOf, type HistoryFilter, type ResolvedQuestion } from "./track-records";
+import { filterResolutions, loadResolutions, trackRecordsOf, type HistoryFilter, type ResolvedQuestion } from "../triangulation/track-records";
 
 type FinalAnswerRow = NonNullable<ReturnType<Awaited<ReturnType<typeof finalAnswers>>["get"]>>[number];
 

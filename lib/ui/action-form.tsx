@@ -8,7 +8,7 @@
  */
 import { createContext, startTransition, useActionState, useContext, useEffect, useRef, type ReactNode } from "react";
 import { CopyButton } from "./copy-button";
-import { EMPTY_FORM_STATE, type FormAction, type FormState } from "./form-state";
+import { EMPTY_FORM_STATE, type FormAction, type FormState } from "../actions/form-state";
 
 const StateContext = createContext<FormState>(EMPTY_FORM_STATE);
 const PendingContext = createContext(false);

@@ -9,7 +9,7 @@
  * ("Name: 120, 340, 610, …"), the market potential from a question (`marketSource` = question,
  * `marketQuestionId`) or as `marketLow` / `marketMedian` / `marketHigh`, and `launchNote`.
  */
-import { typedNumberErrors, withNumbers } from "./form-result";
+import { typedNumberErrors, withNumbers } from "../actions/form-result";
 
 export type BaselineFormRead =
   | { readonly ok: true; readonly input: Record<string, unknown> }

@@ -14,7 +14,7 @@
  * (docs/methods.md §19).
  */
 import { startTransition, useActionState, useMemo, useState } from "react";
-import type { FormState } from "./form-state";
+import type { FormState } from "../actions/form-state";
 import BaselineChart from "./baseline-chart";
 import Figure from "./figure";
 import { formatNumber } from "./format";

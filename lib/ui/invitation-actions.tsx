@@ -7,7 +7,7 @@
  */
 import { useEffect, useRef, useState } from "react";
 import ActionForm, { FieldError } from "./action-form";
-import type { FormAction } from "./form-state";
+import type { FormAction } from "../actions/form-state";
 
 export default function InvitationActions({
   panelId,

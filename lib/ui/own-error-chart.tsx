@@ -2,7 +2,7 @@
 /**
  * A panelist's errors over time (the "Your record" page): (answer − outcome)/outcome in percent
  * for each recorded outcome, in the order the outcomes were recorded, with a line at 0 (no error).
- * The values come from lib/panels/own-record.ts; the chart only draws them.
+ * The values come from lib/triangulation/own-record.ts; the chart only draws them.
  */
 import { useEffect, useRef } from "react";
 import { guidedLineChart } from "./chart-guides";

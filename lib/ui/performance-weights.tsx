@@ -4,7 +4,7 @@
  * of every target question, and the out-of-sample comparison in one sentence. Rendered only on
  * a panel with calibration questions.
  */
-import type { CalibrationReport } from "@/lib/panels/calibration";
+import type { CalibrationReport } from "@/lib/triangulation/calibration";
 import type { JsonSafe } from "@/lib/panels/json";
 import Figure from "./figure";
 

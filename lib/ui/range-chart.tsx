@@ -2,7 +2,7 @@
 /**
  * Ranges side by side: for each figure (raw panel, corrected panel, baseline, blend) its 95%
  * and 80% ranges as horizontal bars and the figure itself as a mark. The ranges come from the
- * report read model (lib/panels/report.ts); the chart only draws them.
+ * report read model (lib/triangulation/report.ts); the chart only draws them.
  */
 import { useEffect, useRef } from "react";
 import { resizeForPrint } from "./chart-print";

@@ -1,10 +1,10 @@
 /**
- * Track records of the organiser's expert roster (lib/panels/track-records.ts
+ * Track records of the organiser's expert roster (lib/triangulation/track-records.ts
  * `listTrackRecords`): per member the resolved questions, mean error, mean log ratio
  * actual/answer, MAPE, interval hit rate of three-point answers, the bias factor with its
  * shrinkage, and Theil's proportions once there are enough resolved questions.
  */
-import type { RosterTrackRecordView } from "@/lib/panels/track-records";
+import type { RosterTrackRecordView } from "@/lib/triangulation/track-records";
 import { BIAS_PRIOR_STRENGTH, MIN_RESOLVED_FOR_THEIL } from "@/lib/blend";
 import Figure from "./figure";
 import { countOf, formatNumber, formatPercent } from "./format";

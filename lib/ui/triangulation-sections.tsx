@@ -4,11 +4,11 @@
  * method, parameters and holdout accuracy with its chart, the weight rule with its inputs, the
  * departure report (table and chart), the bias correction applied, the resolution's scores, and
  * the method notes, inputs and cautions. They only display the report read model
- * (lib/panels/report.ts) and the stored baseline (lib/panels/baselines.ts); no figure is
+ * (lib/triangulation/report.ts) and the stored baseline (lib/triangulation/baselines.ts); no figure is
  * computed here.
  */
-import type { BaselineView } from "@/lib/panels/baselines";
-import type { QuestionReport } from "@/lib/panels/report";
+import type { BaselineView } from "@/lib/triangulation/baselines";
+import type { QuestionReport } from "@/lib/triangulation/report";
 import { BIAS_PRIOR_STRENGTH, MIN_RESOLVED_FOR_THEIL, MIN_RESOLVED_FOR_WEIGHTS } from "@/lib/blend";
 import BaselineChart from "./baseline-chart";
 import DepartureChart from "./departure-chart";
@@ -55,7 +55,7 @@ function Percentile({ value }: { value: number | null }) {
 }
 
 /** The blended figure and its 80% and 95% ranges, with the weight behind it: shown first. */
-/** Warnings about the legs (lib/panels/warnings.ts): outside the plausible range, an order of magnitude apart. */
+/** Warnings about the legs (lib/triangulation/warnings.ts): outside the plausible range, an order of magnitude apart. */
 export function LegWarnings({ report }: { report: QuestionReport }) {
   if (report.warnings.length === 0) return null;
   return (

@@ -1,6 +1,6 @@
 /**
  * zod's built-in messages ("Too small: expected number to be >=1") as plain sentences for people,
- * in one place: forms (lib/ui/form-result.ts), the JSON API's problem details (lib/http/problem.ts)
+ * in one place: forms (lib/actions/form-result.ts), the JSON API's problem details (lib/http/problem.ts)
  * and the CLI all show `plainMessage`. Messages written by the project's own checks (code
  * "custom", or a `message` given to a check) pass through unchanged.
  */

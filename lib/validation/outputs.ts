@@ -1,6 +1,6 @@
 /**
  * zod 4 schemas of what the API returns. They describe the domain services' return types
- * (lib/panels, lib/accounts) for the OpenAPI document; tests/app checks responses against
+ * (lib/panels, lib/triangulation, lib/accounts) for the OpenAPI document; tests/app checks responses against
  * the document's shapes through real requests.
  */
 import { z } from "zod";

@@ -1,7 +1,7 @@
 /**
  * zod 4 schemas of what clients send for triangulation (issue 4): baselines on questions,
  * blend weight rules, resolutions. Used by the route table (lib/http/routes.ts) and by pages'
- * server actions; the services in lib/panels take their parsed types.
+ * server actions; the services in lib/panels and lib/triangulation take their parsed types.
  */
 import { z } from "zod";
 import { METHOD_IDS } from "@/lib/forecast/types";
@@ -14,7 +14,7 @@ const text = (max: number) => z.string().trim().min(1, "must not be empty").max(
 export const MAX_CSV_CHARS = 1_000_000;
 
 export const BASELINE_METHODS = ["auto", ...METHOD_IDS] as const;
-/** What a baseline answers, in the history's periods (lib/panels/baselines.ts). */
+/** What a baseline answers, in the history's periods (lib/triangulation/baselines.ts). */
 export const BASELINE_QUANTITIES = ["value", "total", "average"] as const;
 /** What one history row is. */
 export const HISTORY_PERIODS = ["month", "quarter", "year", "week", "day", "other"] as const;
@@ -138,7 +138,7 @@ export const baselineInput = z
   });
 export type BaselineInput = z.infer<typeof baselineInput>;
 
-/** What the panel leg of the blend is on a panel with calibration questions (lib/panels/calibration.ts). */
+/** What the panel leg of the blend is on a panel with calibration questions (lib/triangulation/calibration.ts). */
 export const PANEL_LEGS = ["equal", "performance"] as const;
 export type PanelLegChoice = (typeof PANEL_LEGS)[number];
 

@@ -1,6 +1,6 @@
 /**
  * zod 4 schemas of what the triangulation routes return (issue 4), for the OpenAPI document.
- * They describe the services' return types in lib/panels (baselines, triangulation,
+ * They describe the services' return types in lib/triangulation (baselines, triangulation,
  * resolution, track-records, report). Numbers that are undefined for the data (e.g. a percent
  * of a zero baseline) are null.
  */

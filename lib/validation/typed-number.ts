@@ -7,7 +7,7 @@
  * ("12k", "1e3"), hexadecimal, binary and octal forms ("0x10", "0b101", "0o17"), underscores
  * ("1_000"), a thousands separator not followed by groups of three digits ("12,5" in en-GB,
  * "12.5" in de-DE), two decimal marks. The same function serves the browser form and the
- * server action (lib/ui/form-result.ts); the JSON API takes JSON numbers and never calls it.
+ * server action (lib/actions/form-result.ts); the JSON API takes JSON numbers and never calls it.
  *
  * Policy: empty or blank text is `{ empty: true }` (the caller decides whether it is required);
  * an unknown or malformed locale falls back to "en"; the number's range is checked elsewhere

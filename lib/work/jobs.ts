@@ -1,13 +1,13 @@
 /**
  * The computations that run in the worker pool (lib/work/pool.ts), by name. Each takes and
  * returns plain data (structured clone: no functions, no class instances; Maps are kept). Only the
- * pure core, and lib/panels/calibration-figures.ts (which imports only the core), is imported here:
+ * pure core, and lib/triangulation/calibration-figures.ts (which imports only the core), is imported here:
  * a worker loads no database, framework or zod.
  */
 import { baseline, type BaselineOptions } from "../forecast/baseline";
 import type { RawSeries } from "../forecast/series";
 import { launchForecast, type MarketPotential } from "../forecast/launch";
-import { computeCalibration } from "../panels/calibration-figures";
+import { computeCalibration } from "../triangulation/calibration-figures";
 
 export const jobs = {
   /** The baseline engine's fit and forecast (lib/forecast/baseline.ts). */
@@ -15,7 +15,7 @@ export const jobs = {
   /** A launch baseline's simulation (lib/forecast/launch.ts). */
   launch: (arg: { readonly analogues: readonly { readonly name: string; readonly values: readonly number[] }[]; readonly market: MarketPotential; readonly horizon: number; readonly from?: number }) =>
     launchForecast(arg.analogues, arg.market, arg.horizon, [80, 95], undefined, arg.from ?? 1),
-  /** Performance weights of a panel (lib/panels/calibration-figures.ts). */
+  /** Performance weights of a panel (lib/triangulation/calibration-figures.ts). */
   calibration: (arg: { readonly questions: Parameters<typeof computeCalibration>[0]; readonly answers: Parameters<typeof computeCalibration>[1] }) => computeCalibration(arg.questions, arg.answers),
 };
 

@@ -10,7 +10,7 @@
  * Method seasonal naive, so the expected figures are hand computations: its step-12 forecast is
  * December 1950's value, 140; its 12-month total is the sum of 1950's values, 1,676 (Hyndman &
  * Athanasopoulos, FPP3 §5.2, seasonal naive: ŷ_{T+h} = y_{T+h−m(k+1)}). The total's bounds are
- * checked against R in tests/panels/baseline-target.test.ts. Answers and people are invented.
+ * checked against R in tests/triangulation/baseline-target.test.ts. Answers and people are invented.
  */
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { api, apiTokenFor, clearDatabase, createAccount } from "./api-client";

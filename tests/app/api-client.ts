@@ -13,8 +13,8 @@ import { expect, inject } from "vitest";
 import { isProblemKind, PROBLEM_TYPES, problemTypeUri } from "../../lib/problem-types";
 import { routes, type RouteDef } from "../../lib/http/routes";
 import { problem } from "../../lib/validation/outputs";
-import { signInAttempt as attemptSignIn } from "../../bench/harness";
-import { clearAllTables, dialectOf, openSql, type SqlConnection } from "../../bench/sql";
+import { signInAttempt as attemptSignIn } from "../harness/harness";
+import { clearAllTables, dialectOf, openSql, type SqlConnection } from "../harness/sql";
 
 export const baseURL = inject("baseURL");
 export const databaseUrl = inject("databaseUrl");
@@ -127,7 +127,7 @@ export function createAccount(name: string, role: "organiser" | "reviewer" = "or
   return user;
 }
 
-/** One sign-in attempt (bench/harness.ts), on the suite's server unless `base` names another. */
+/** One sign-in attempt (tests/harness/harness.ts), on the suite's server unless `base` names another. */
 export function signInAttempt(email: string, password: string, base = baseURL): Promise<Response> {
   return attemptSignIn(base, email, password);
 }
@@ -149,7 +149,7 @@ export async function apiTokenFor(user: TestUser): Promise<string> {
   return res.body.token as string;
 }
 
-/** Opens the test database directly (bench/sql.ts: `?` placeholders, double-quoted names). */
+/** Opens the test database directly (tests/harness/sql.ts: `?` placeholders, double-quoted names). */
 export function openDb(): Promise<SqlConnection> {
   return openSql(databaseUrl);
 }

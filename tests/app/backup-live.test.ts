@@ -15,7 +15,7 @@ import { promisify } from "node:util";
 import Database from "better-sqlite3";
 import { afterAll, describe, expect, it } from "vitest";
 import { dialect } from "./api-client";
-import { Client, createOrganiser, createPanel, freePort, migrate, newKey, organiserToken, pool, root, sendAnswer, startServer, type RunningServer } from "../../bench/harness";
+import { Client, createOrganiser, createPanel, freePort, migrate, newKey, organiserToken, pool, root, sendAnswer, startServer, type RunningServer } from "../harness/harness";
 
 const run = promisify(execFile);
 const dir = mkdtempSync(path.join(os.tmpdir(), "triangulate-backup-"));

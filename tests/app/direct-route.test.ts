@@ -12,7 +12,7 @@
  */
 import http from "node:http";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { Client, createPanel, newKey, type PanelSetup } from "../../bench/harness";
+import { Client, createPanel, newKey, type PanelSetup } from "../harness/harness";
 import { MAX_BODY_BYTES } from "@/lib/http/handler";
 import { apiTokenFor, baseURL, clearDatabase, createAccount, sql } from "./api-client";
 

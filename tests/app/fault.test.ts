@@ -30,8 +30,8 @@ import {
   type AnswerAttempt,
   type AnswerOutcome,
   type RunningServer,
-} from "../../bench/harness";
-import { freshDatabase, openSql } from "../../bench/sql";
+} from "../harness/harness";
+import { freshDatabase, openSql } from "../harness/sql";
 import { databaseUrl as suiteDatabase, dialect } from "./api-client";
 
 const dir = mkdtempSync(path.join(os.tmpdir(), "triangulate-fault-"));

@@ -19,7 +19,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { mulberry32 } from "../helpers/prng";
 import { routes, type RouteDef } from "../../lib/http/routes";
 import { api, apiTokenFor, baseURL, clearDatabase, createAccount, openDb, signIn, sql } from "./api-client";
-import { appTables } from "../../bench/sql";
+import { appTables } from "../harness/sql";
 
 const RNG_START = 0x7a11_f022 ^ 0x1234; // fixed: change only on purpose
 const PER_ROUTE = 20;

@@ -13,7 +13,7 @@
 import { randomBytes } from "node:crypto";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { inject } from "vitest";
-import { freePort, startServer, type RunningServer } from "../../bench/harness";
+import { freePort, startServer, type RunningServer } from "../harness/harness";
 import { api, apiTokenFor, baseURL, clearDatabase, createAccount, databaseUrl, signIn, signInAttempt, sql, type TestUser } from "./api-client";
 
 const A = baseURL;

@@ -16,7 +16,7 @@ import { randomBytes } from "node:crypto";
 import { SMTPServer } from "smtp-server";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { inject } from "vitest";
-import { freePort, startServer, type RunningServer } from "../../bench/harness";
+import { freePort, startServer, type RunningServer } from "../harness/harness";
 import { api, apiTokenFor, baseURL, clearDatabase, createAccount, databaseUrl, signIn } from "./api-client";
 
 interface Received {

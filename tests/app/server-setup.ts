@@ -1,6 +1,6 @@
 /**
  * Vitest global setup for the "app" and "app-postgres" projects: builds the production app once
- * per run (unless TRIANGULATE_SKIP_BUILD=1), starts it with bench/harness.ts (as the load run and
+ * per run (unless TRIANGULATE_SKIP_BUILD=1), starts it with tests/harness/harness.ts (as the load run and
  * the fault test do) on a free loopback port with a fresh database (app: a SQLite file;
  * app-postgres: a new database created on the PostgreSQL server that
  * TRIANGULATE_TEST_POSTGRES_URL names), and hands the tests its address and database URL
@@ -11,8 +11,8 @@ import { mkdtempSync, rmSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import type { TestProject } from "vitest/node";
-import { build, freePort, migrate, startServer, type ServerOptions } from "../../bench/harness";
-import { freshDatabase } from "../../bench/sql";
+import { build, freePort, migrate, startServer, type ServerOptions } from "../harness/harness";
+import { freshDatabase } from "../harness/sql";
 
 declare module "vitest" {
   export interface ProvidedContext {

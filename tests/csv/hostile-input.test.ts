@@ -8,7 +8,7 @@
 import { describe, expect, it } from "vitest";
 import { CsvError, parseCsv, readSeriesCsv } from "../../lib/csv/parse";
 import { csvCell } from "../../lib/csv/cell";
-import { analyseBaseline } from "../../lib/panels/baselines";
+import { analyseBaseline } from "../../lib/triangulation/baselines";
 import { InvalidInputError } from "../../lib/errors";
 import { baselineInput } from "../../lib/validation/triangulation-inputs";
 

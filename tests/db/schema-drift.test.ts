@@ -17,7 +17,7 @@ import { mkdtempSync, readdirSync, readFileSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
-import { freshDatabase, openSql, type SqlConnection } from "../../bench/sql";
+import { freshDatabase, openSql, type SqlConnection } from "../harness/sql";
 import { migratePostgres } from "../../lib/cli/migrate";
 // @ts-expect-error -- a plain .mjs script without type declarations
 import { derivePostgresSchema } from "../../scripts/postgres-schema.mjs";

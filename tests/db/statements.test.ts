@@ -11,7 +11,7 @@ import { mkdtempSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { freshDatabase } from "../../bench/sql";
+import { freshDatabase } from "../harness/sql";
 import { migratePostgres } from "../../lib/cli/migrate";
 import { migratedSqliteDatabase } from "../helpers/migrated-sqlite";
 import type { Database } from "../../lib/db";

@@ -1,5 +1,5 @@
 /**
- * The demo's history against the services that read it (lib/panels/track-records.ts,
+ * The demo's history against the services that read it (lib/triangulation/track-records.ts,
  * report.ts): the demo is loaded into a fresh SQLite file through the domain services, then
  * the track records, the accuracy history and the Wren-2 report are read back and checked
  * against loops written here over the demo's invented answers (lib/cli/demo-history.ts) and
@@ -20,9 +20,9 @@ import { expectClose, runR, rVector } from "../stats/rscript";
 import { migratedSqliteDatabase } from "../helpers/migrated-sqlite";
 
 let services: {
-  listTrackRecords: typeof import("../../lib/panels/track-records").listTrackRecords;
-  getAccuracyHistory: typeof import("../../lib/panels/track-records").getAccuracyHistory;
-  getQuestionReport: typeof import("../../lib/panels/report").getQuestionReport;
+  listTrackRecords: typeof import("../../lib/triangulation/track-records").listTrackRecords;
+  getAccuracyHistory: typeof import("../../lib/triangulation/track-records").getAccuracyHistory;
+  getQuestionReport: typeof import("../../lib/triangulation/report").getQuestionReport;
 };
 let organiser: import("../../lib/accounts/actor").Actor;
 let reviewer: import("../../lib/accounts/actor").Actor;
@@ -46,8 +46,8 @@ beforeAll(async () => {
   const panel = await db.panel.findFirstOrThrow({ where: { title: "Year-one unit sales of the Wren-2" }, include: { questions: { orderBy: { position: "asc" } } } });
   wren2 = { panelId: panel.id, questionId: panel.questions[0].id };
   services = {
-    ...(await import("../../lib/panels/track-records")),
-    ...(await import("../../lib/panels/report")),
+    ...(await import("../../lib/triangulation/track-records")),
+    ...(await import("../../lib/triangulation/report")),
   };
 }, 120_000);
 
@@ -80,7 +80,7 @@ describe("the demo's launch baseline (docs/methods.md §19)", () => {
   it("answers the first four quarters from the two analogues, with the market potential from the panel", async () => {
     const { db } = await import("../../lib/db");
     const { FENWICK1_QUARTERS } = await import("../../lib/cli/demo-launch");
-    const { getBaseline } = await import("../../lib/panels/baselines");
+    const { getBaseline } = await import("../../lib/triangulation/baselines");
     const panel = await db.panel.findFirstOrThrow({ where: { title: "The Wren-2's course by quarter" }, include: { questions: { orderBy: { position: "asc" } } } });
     const b = await getBaseline(organiser, panel.id, panel.questions[1].id);
     expect(b.source).toBe("launch");
@@ -89,7 +89,7 @@ describe("the demo's launch baseline (docs/methods.md §19)", () => {
     expect(b.target.mean!).toBeLessThan(b.target.upper80!);
     // the market potential is the market question's corrected panel figure; the raw one is the
     // median of 30,000, 38,000, 42,000, 45,000, 55,000 = 42,000 (hand)
-    const { getTriangulation } = await import("../../lib/panels/triangulation");
+    const { getTriangulation } = await import("../../lib/triangulation/triangulation");
     const t = await getTriangulation(organiser, panel.id, panel.questions[0].id);
     expect(t.panel!.raw.figure).toBe(42000);
     expect(b.result.launch!.market.median).toBe(t.panel!.corrected.figure);
@@ -167,7 +167,7 @@ describe("demo history", () => {
 describe("resolving the demo's sum-of-parts question (services on the demo database)", () => {
   it("refuses while a round is open, names a bad part, then scores the total and feeds each part into its panelist's record", async () => {
     const { db } = await import("../../lib/db");
-    const { resolveQuestion, correctResolution } = await import("../../lib/panels/resolution");
+    const { resolveQuestion, correctResolution } = await import("../../lib/triangulation/resolution");
     const { closeRound } = await import("../../lib/panels/rounds");
     const { DomainError } = await import("../../lib/errors");
     const panel = await db.panel.findUniqueOrThrow({ where: { id: wren2.panelId }, include: { questions: { orderBy: { position: "asc" } } } });

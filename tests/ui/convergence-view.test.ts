@@ -2,7 +2,7 @@
  * The panel page's convergence view (lib/ui/convergence-view.tsx `ConvergenceView`) and the
  * report's round table (`RoundStatsTable`, app/reports/[id]/questions/[qid]) agree for a
  * sum-of-parts question: both say the spread between panelists is "not applicable" and neither
- * shows a coefficient of variation of the parts; the report's CSV (lib/panels/report.ts
+ * shows a coefficient of variation of the parts; the report's CSV (lib/triangulation/report.ts
  * `reportCsv`) says the same. Rendered to HTML with react-dom/server, no browser.
  *
  * Invented scenario: three Quillmoor regional managers each estimate their own region's Wren-2
@@ -15,7 +15,7 @@ import { renderToStaticMarkup } from "react-dom/server";
 import { describe, expect, it } from "vitest";
 import ConvergenceView, { RoundStatsTable } from "../../lib/ui/convergence-view";
 import { evaluateStoppingRules, STOPPING_RULE_DEFAULTS } from "../../lib/stats/stopping-rules";
-import { reportCsv, type QuestionReport } from "../../lib/panels/report";
+import { reportCsv, type QuestionReport } from "../../lib/triangulation/report";
 import type { ConvergencePoint } from "../../lib/panels/rounds";
 
 const PARTS = [2000, 3000, 7000];

@@ -2,7 +2,7 @@
  * The worker pool (lib/work/pool.ts): a fit runs on a worker thread, so this thread goes on
  * while it runs (order of completion, not time), and the engine's input errors come back with
  * their class. The fit's figures through the worker are checked against R in
- * tests/panels/baselines.test.ts.
+ * tests/triangulation/baselines.test.ts.
  */
 import { describe, expect, it } from "vitest";
 import { ForecastInputError } from "../../lib/forecast/types";

@@ -3,9 +3,9 @@ import { revalidatePath } from "next/cache";
 import { z } from "zod";
 import { createApiToken, revokeApiToken } from "@/lib/accounts/users";
 import { apiTokenCreate, params } from "@/lib/validation/inputs";
-import type { FormState } from "@/lib/ui/form-state";
-import { formObject, withNumbers } from "@/lib/ui/form-result";
-import { signedInAction } from "@/lib/ui/signed-in-action";
+import type { FormState } from "@/lib/actions/form-state";
+import { formObject, withNumbers } from "@/lib/actions/form-result";
+import { signedInAction } from "@/lib/actions/signed-in-action";
 
 /** Creates a personal API token and returns it once for the page to show. */
 export async function createTokenAction(_previous: FormState, formData: FormData): Promise<FormState> {

@@ -7,9 +7,9 @@ import type { PanelistActor } from "@/lib/accounts/actor";
 import { limits } from "@/lib/http/rate-limit";
 import { getPanelistPanel, submitAnswer } from "@/lib/panels/answers";
 import { answerInput } from "@/lib/validation/inputs";
-import type { FormState } from "@/lib/ui/form-state";
-import { byField, formObject, fromThrown, fromZodError, typedNumberErrors, withNumbers } from "@/lib/ui/form-result";
-import { hitLimit, panelistForAction, textProblems } from "@/lib/ui/action-guard";
+import type { FormState } from "@/lib/actions/form-state";
+import { byField, formObject, fromThrown, fromZodError, typedNumberErrors, withNumbers } from "@/lib/actions/form-result";
+import { hitLimit, panelistForAction, textProblems } from "@/lib/actions/action-guard";
 
 const NUMBERS = ["value", "low", "high"] as const;
 const NOT_STORED = "The answer was not stored: correct the fields marked below.";
@@ -65,7 +65,7 @@ async function keepPrevious(actor: PanelistActor, questionId: string): Promise<F
 /**
  * Stores a new version of the panelist's answer (the token is bound by the page: it is the
  * panelist's own link). The same limits and text rules as the API's answer route
- * (lib/ui/action-guard.ts); field errors from the schema or the service appear beside the fields.
+ * (lib/actions/action-guard.ts); field errors from the schema or the service appear beside the fields.
  * A "keep" submit button stores last round's answer again instead of the typed fields.
  */
 export async function submitAnswerAction(token: unknown, _previous: FormState, formData: FormData): Promise<FormState> {

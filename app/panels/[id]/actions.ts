@@ -11,7 +11,7 @@ import { siteOrigin } from "@/lib/http/site";
 import { addQuestion, deleteQuestion, setTrueValue, sharePanel, unsharePanel, updatePanel, updateQuestion } from "@/lib/panels/panels";
 import { closeRound, finishPanel, openRound, revealIdentities, startNextRound } from "@/lib/panels/rounds";
 import { getCurrentUser } from "@/lib/session";
-import { setPanelBlendRule } from "@/lib/panels/triangulation";
+import { setPanelBlendRule } from "@/lib/triangulation/triangulation";
 import { panelBlendRuleInput } from "@/lib/validation/triangulation-inputs";
 import {
   invitationCreate,
@@ -27,11 +27,11 @@ import {
   shareInput,
   trueValueInput,
 } from "@/lib/validation/inputs";
-import type { FormState } from "@/lib/ui/form-state";
-import { formList, formObject, fromThrown, withNumbers } from "@/lib/ui/form-result";
+import type { FormState } from "@/lib/actions/form-state";
+import { formList, formObject, fromThrown, withNumbers } from "@/lib/actions/form-result";
 import { plainMessage } from "@/lib/validation/messages";
-import { NOT_SIGNED_IN, signedInAction } from "@/lib/ui/signed-in-action";
-import { textProblems } from "@/lib/ui/action-guard";
+import { NOT_SIGNED_IN, signedInAction } from "@/lib/actions/signed-in-action";
+import { textProblems } from "@/lib/actions/action-guard";
 import { limits } from "@/lib/http/rate-limit";
 
 const QUESTION_NUMBERS = ["lowerBound", "upperBound", "trueValue"] as const;

@@ -8,7 +8,7 @@ import { smtpConfigured } from "@/lib/mail/smtp";
 import { listOutbox } from "@/lib/panels/messages";
 import { panelSteps, type StepId } from "@/lib/ui/panel-steps";
 import { MIN_RESOLVED_FOR_WEIGHTS } from "@/lib/blend";
-import { getPanelBlendRule } from "@/lib/panels/report-views";
+import { getPanelBlendRule } from "@/lib/triangulation/report-views";
 import { listRoster } from "@/lib/panels/roster";
 import { getProgress } from "@/lib/panels/rounds";
 import { getConvergencePage } from "@/lib/panels/views";

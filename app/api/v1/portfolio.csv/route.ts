@@ -1,6 +1,6 @@
 import { FileReply, handle, otherMethods } from "@/lib/http/handler";
 import { routes } from "@/lib/http/routes";
-import { getPortfolioCsv } from "@/lib/panels/portfolio";
+import { getPortfolioCsv } from "@/lib/triangulation/portfolio";
 
 export const GET = handle(routes.getPortfolioCsv, async ({ actor }) => {
   const { filename, csv } = await getPortfolioCsv(actor);

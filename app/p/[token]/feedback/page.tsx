@@ -66,7 +66,7 @@ export default async function FeedbackPage({ params, searchParams }: { params: P
   );
 }
 
-/** A practice set's result for this panelist only (lib/panels/practice.ts; docs/methods.md §22). */
+/** A practice set's result for this panelist only (lib/triangulation/practice.ts; docs/methods.md §22). */
 function PracticeSection({ p }: { p: NonNullable<Awaited<ReturnType<typeof getFeedback>>["practice"]> }) {
   return (
     <section className="card" data-section="practice">

@@ -1,13 +1,13 @@
 import type { Metadata } from "next";
 import { redirect } from "next/navigation";
-import { getOwnRecord } from "@/lib/panels/own-record";
+import { getOwnRecord } from "@/lib/triangulation/own-record";
 import { MIN_OUTCOMES_FOR_ADVICE } from "@/lib/blend/own-record";
 import Figure from "@/lib/ui/figure";
 import LinkProblem from "@/lib/ui/link-problem";
 import OwnErrorChart from "@/lib/ui/own-error-chart";
 import { panelistFromLink } from "@/lib/ui/panelist-access";
 
-// Only the panelist's own link opens this page (lib/panels/own-record.ts; THREATS.md).
+// Only the panelist's own link opens this page (lib/triangulation/own-record.ts; THREATS.md).
 export const metadata: Metadata = { title: "Your record", referrer: "no-referrer", robots: { index: false, follow: false } };
 export const dynamic = "force-dynamic";
 

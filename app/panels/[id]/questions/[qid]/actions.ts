@@ -5,19 +5,19 @@
  * from lib/validation, call one service, revalidate, return what the form shows.
  */
 import { revalidatePath } from "next/cache";
-import { attachBaseline, previewBaseline, type BaselineView } from "@/lib/panels/baselines";
-import { correctResolution, previewResolution, resolveQuestion, type ResolutionPreview } from "@/lib/panels/resolution";
-import { setQuestionBlendRule } from "@/lib/panels/triangulation";
+import { attachBaseline, previewBaseline, type BaselineView } from "@/lib/triangulation/baselines";
+import { correctResolution, previewResolution, resolveQuestion, type ResolutionPreview } from "@/lib/triangulation/resolution";
+import { setQuestionBlendRule } from "@/lib/triangulation/triangulation";
 import { getCurrentUser } from "@/lib/session";
 import { params } from "@/lib/validation/inputs";
 import { baselineInput, questionBlendRuleInput, resolutionCorrection, resolutionInput } from "@/lib/validation/triangulation-inputs";
-import type { FormState } from "@/lib/ui/form-state";
+import type { FormState } from "@/lib/actions/form-state";
 import type { BaselineFormState, BaselinePreviewPayload } from "@/lib/ui/baseline-form";
-import { formObject, fromThrown, fromZodError, withNumbers } from "@/lib/ui/form-result";
+import { formObject, fromThrown, fromZodError, withNumbers } from "@/lib/actions/form-result";
 import { baselineFormValues } from "@/lib/ui/baseline-form-values";
 import { launchPreview } from "@/lib/ui/launch-table";
-import { NOT_SIGNED_IN, signedInAction } from "@/lib/ui/signed-in-action";
-import { textProblems } from "@/lib/ui/action-guard";
+import { NOT_SIGNED_IN, signedInAction } from "@/lib/actions/signed-in-action";
+import { textProblems } from "@/lib/actions/action-guard";
 import { formatExact } from "@/lib/ui/format";
 
 

@@ -1,8 +1,8 @@
 import type { Metadata } from "next";
 import { notFound } from "next/navigation";
 import { NotFoundError } from "@/lib/errors";
-import { getBaseline, type BaselineView } from "@/lib/panels/baselines";
-import { getQuestionReport, questionReportFileName, type QuestionReport } from "@/lib/panels/report";
+import { getBaseline, type BaselineView } from "@/lib/triangulation/baselines";
+import { getQuestionReport, questionReportFileName, type QuestionReport } from "@/lib/triangulation/report";
 import { RoundsChart, RoundStatsTable } from "@/lib/ui/convergence-view";
 import { formatDateTime } from "@/lib/ui/format";
 import PrintButton from "@/lib/ui/print-button";

@@ -1,6 +1,6 @@
 import { FileReply, handle, otherMethods } from "@/lib/http/handler";
 import { routes } from "@/lib/http/routes";
-import { getPanelReportCsv } from "@/lib/panels/panel-reports";
+import { getPanelReportCsv } from "@/lib/triangulation/panel-reports";
 
 export const GET = handle(routes.getPanelReportCsv, async ({ actor, params }) => {
   const { filename, csv } = await getPanelReportCsv(actor, params.panelId);

@@ -1,6 +1,6 @@
 import { handle, otherMethods } from "@/lib/http/handler";
 import { routes } from "@/lib/http/routes";
-import { attachBaseline, getBaseline, removeBaseline } from "@/lib/panels/baselines";
+import { attachBaseline, getBaseline, removeBaseline } from "@/lib/triangulation/baselines";
 
 export const GET = handle(routes.getBaseline, ({ actor, params }) => getBaseline(actor, params.panelId, params.questionId));
 export const PUT = handle(routes.attachBaseline, ({ actor, params, body }) => attachBaseline(actor, params.panelId, params.questionId, body));

@@ -1,6 +1,6 @@
 import { FileReply, handle, otherMethods } from "@/lib/http/handler";
 import { routes } from "@/lib/http/routes";
-import { getQuestionReportCsv } from "@/lib/panels/report";
+import { getQuestionReportCsv } from "@/lib/triangulation/report";
 
 export const GET = handle(routes.getQuestionReportCsv, async ({ actor, params }) => {
   const { filename, csv } = await getQuestionReportCsv(actor, params.panelId, params.questionId);

@@ -6,7 +6,7 @@
  *
  * Computed on read, not cached: the inputs are the final answers of the closed rounds, the
  * stored baseline, the question's or panel's weight rule, and the track records derived from
- * the organiser's stored resolutions (lib/panels/track-records.ts). The computation takes a few
+ * the organiser's stored resolutions (lib/triangulation/track-records.ts). The computation takes a few
  * milliseconds, and computing on read means no cached figure can outlive a changed input.
  *
  * Rules (each stated again in the result's notes):
@@ -68,14 +68,14 @@ import {
   type WeightSpec,
 } from "@/lib/blend";
 import type { PanelLegChoice, PanelWeightRule, PanelBlendRuleInput, QuestionBlendRuleInput } from "@/lib/validation/triangulation-inputs";
-import { authorisePanel } from "./access";
-import { recordAudit } from "./audit";
+import { authorisePanel } from "../panels/access";
+import { recordAudit } from "../panels/audit";
 import { storedTarget, type BaselineTarget } from "./baselines";
 import { legWarnings } from "./warnings";
 import { loadCalibration, targetPoolMedian } from "./calibration";
 import { historyOf, type HistoryFilter } from "./track-records";
-import { panelReads, type PanelReads } from "./panel-reads";
-import { jsonSafe, type JsonSafe } from "./json";
+import { panelReads, type PanelReads } from "../panels/panel-reads";
+import { jsonSafe, type JsonSafe } from "../panels/json";
 import { correctionSummary, namesRevealed, withoutHistory, type AnswerWithoutHistory, type CorrectionSummary } from "./report-views";
 
 /** One panelist's final answer in a closed round. */
@@ -116,7 +116,7 @@ export interface TriangulationInput {
   /** Why a stored baseline cannot be used (e.g. an interval of zero width), when `baseline` is null. */
   readonly baselineUnusable?: string;
   /**
-   * The panel's leg is Cooke's performance-weighted pool (lib/panels/calibration.ts): the weight
+   * The panel's leg is Cooke's performance-weighted pool (lib/triangulation/calibration.ts): the weight
    * per invitation id from the panel's calibration questions, or why it cannot be used (then the
    * answers are taken with equal weights). Absent: the panel leg is the equal-weight one.
    */
@@ -562,12 +562,12 @@ export async function loadTriangulation(panelId: string, questionId: string, rea
  * {@link Triangulation} as JSON (non-finite numbers as null), with the rule that chose the
  * weight. Answers carry pseudonyms only: invitation ids would let an organiser match pseudonyms
  * to the invitation list (names) without the audited reveal. While names are hidden, answers
- * also carry nothing from the panelist's history (see lib/panels/report-views.ts).
+ * also carry nothing from the panelist's history (see lib/triangulation/report-views.ts).
  */
 export type TriangulationView = Omit<JsonSafe<Triangulation>, "panel"> & {
   readonly panel:
     | (Omit<JsonSafe<PanelLeg>, "answers"> & {
-        /** Per-person correction figures only when names are shown (lib/panels/report-views.ts). */
+        /** Per-person correction figures only when names are shown (lib/triangulation/report-views.ts). */
         readonly answers: (Omit<JsonSafe<CorrectedAnswer>, "invitationId"> | AnswerWithoutHistory)[];
         readonly correction: JsonSafe<CorrectionSummary>;
       })
@@ -575,7 +575,7 @@ export type TriangulationView = Omit<JsonSafe<Triangulation>, "panel"> & {
   readonly questionId: string;
   readonly weightRule: { readonly rule: PanelWeightRule; readonly panelWeight: number | null; readonly from: "question" | "panel" };
   readonly namesShown: boolean;
-  /** Plain messages: a leg outside the question's plausible range, legs an order of magnitude apart (lib/panels/warnings.ts). */
+  /** Plain messages: a leg outside the question's plausible range, legs an order of magnitude apart (lib/triangulation/warnings.ts). */
   readonly warnings: readonly string[];
 };
 

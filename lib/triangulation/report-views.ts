@@ -15,8 +15,8 @@ import { db } from "@/lib/db";
 import type { Actor } from "@/lib/accounts/actor";
 import { NotFoundError } from "@/lib/errors";
 import { WEIGHT_RULES, type PanelLegChoice, type PanelWeightRule } from "@/lib/validation/triangulation-inputs";
-import { authorisePanel } from "./access";
-import type { JsonSafe } from "./json";
+import { authorisePanel } from "../panels/access";
+import type { JsonSafe } from "../panels/json";
 import type { CorrectedAnswer } from "./triangulation";
 
 export interface PanelBlendRuleView {

@@ -8,10 +8,10 @@
  */
 import type { Actor } from "@/lib/accounts/actor";
 import { nextTurn } from "@/lib/work/turn";
-import { panelReads } from "./panel-reads";
+import { panelReads } from "../panels/panel-reads";
 import { db } from "@/lib/db";
 import { fileSlug } from "@/lib/csv/file-name";
-import { authorisePanel } from "./access";
+import { authorisePanel } from "../panels/access";
 import { getQuestionReport, panelReportCsv, type QuestionReport } from "./report";
 
 export async function getPanelReports(actor: Actor, panelId: string, questionIds: readonly string[]): Promise<QuestionReport[]> {

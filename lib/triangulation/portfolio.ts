@@ -5,7 +5,7 @@
  * blended figure moved since the previous closed round. One row per question, as JSON, CSV and the
  * /portfolio page.
  *
- * Every figure is the question's report's (lib/panels/report.ts), built per panel with one set of
+ * Every figure is the question's report's (lib/triangulation/report.ts), built per panel with one set of
  * shared reads (`getPanelReports`): each panel's closed rounds, track records, invitations and
  * convergence are read once per request, not once per question. Only panel-level figures appear:
  * no pseudonym, answer or per-person figure (THREATS.md), so it shows nothing a reviewer's report
@@ -15,8 +15,8 @@ import type { Actor } from "@/lib/accounts/actor";
 import { db } from "@/lib/db";
 import { csvCell } from "@/lib/csv/cell";
 import { roundAsShown } from "@/lib/ui/format";
-import { listPanels } from "./panels";
-import type { PanelRole } from "./access";
+import { listPanels } from "../panels/panels";
+import type { PanelRole } from "../panels/access";
 import { getPanelReports } from "./panel-reports";
 import type { QuestionReport } from "./report";
 

@@ -9,7 +9,7 @@
  * panelist's history across panels (track record, bias factor, corrected answer), are added only
  * for an organiser of the panel who has revealed the identities (an audited action,
  * lib/panels/rounds.ts `revealIdentities`); until then the correction is shown as the panel's
- * aggregate (lib/panels/report-views.ts).
+ * aggregate (lib/triangulation/report-views.ts).
  *
  * CSV export: one row per figure (section, item, measure, value, unit). Any cell that a
  * spreadsheet could run as a formula — one starting with =, +, -, @, a tab or a carriage
@@ -20,13 +20,13 @@ import { db } from "@/lib/db";
 import type { Actor } from "@/lib/accounts/actor";
 import { trackRecord, type TrackRecord } from "@/lib/blend";
 import type { BaselineResult } from "@/lib/forecast/baseline";
-import { authorisePanel, type PanelRole } from "./access";
+import { authorisePanel, type PanelRole } from "../panels/access";
 import type { BaselinePreview } from "./baselines";
-import type { ConvergencePoint } from "./rounds";
+import type { ConvergencePoint } from "../panels/rounds";
 import { resolutionView, type ResolutionView } from "./resolution";
 import { computeTriangulation, loadTriangulation, type CorrectedAnswer, type DepartureReport, type LoadedTriangulation, type TriangulationInput } from "./triangulation";
-import { panelReads, type PanelReads } from "./panel-reads";
-import { jsonSafe, type JsonSafe } from "./json";
+import { panelReads, type PanelReads } from "../panels/panel-reads";
+import { jsonSafe, type JsonSafe } from "../panels/json";
 import { correctionSummary, namesRevealed } from "./report-views";
 import type { BlendInterval, Distribution } from "@/lib/blend";
 import { consensusApplies, type QuestionVerdict } from "@/lib/stats/stopping-rules";
@@ -47,7 +47,7 @@ export interface ReportPanelist {
 
 export interface QuestionReport {
   readonly generatedAt: string;
-  /** The sentence the report leads with: figure, 80% range, outcome, main disagreement (lib/panels/report-summary.ts). */
+  /** The sentence the report leads with: figure, 80% range, outcome, main disagreement (lib/triangulation/report-summary.ts). */
   readonly summary: string;
   readonly panel: { readonly id: string; readonly title: string; readonly status: string };
   readonly question: {
@@ -75,7 +75,7 @@ export interface QuestionReport {
     readonly resolvedQuestionsBehindWeight: number | null;
     readonly msePanel: number | null;
     readonly mseBaseline: number | null;
-    /** How the blend's range was made (lib/panels/triangulation.ts). */
+    /** How the blend's range was made (lib/triangulation/triangulation.ts). */
     readonly rangeHow: string;
   } | null;
   readonly legs: {
@@ -138,7 +138,7 @@ export interface QuestionReport {
    * now, or with fewer than two closed rounds with answers.
    */
   readonly movement: { readonly fromRound: number; readonly toRound: number; readonly previousFigure: number; readonly change: number } | null;
-  /** Cooke's classical model on the panel's calibration questions (lib/panels/calibration.ts); null on a panel without them. */
+  /** Cooke's classical model on the panel's calibration questions (lib/triangulation/calibration.ts); null on a panel without them. */
   readonly performanceWeights:
     | (Omit<JsonSafe<CalibrationReport>, "targets"> & { readonly panelLeg: "equal" | "performance"; readonly thisQuestion: JsonSafe<TargetPools> | null })
     | null;
@@ -146,7 +146,7 @@ export interface QuestionReport {
   readonly distributions: { readonly panelRaw: Distribution | null; readonly panelCorrected: Distribution | null; readonly baseline: Distribution | null; readonly blend: Distribution | null };
   readonly methodNotes: readonly string[];
   readonly inputs: readonly string[];
-  /** Also at the head of `cautions` (lib/panels/warnings.ts). */
+  /** Also at the head of `cautions` (lib/triangulation/warnings.ts). */
   readonly warnings: readonly string[];
   readonly cautions: readonly string[];
 }
@@ -167,7 +167,7 @@ function blendMovement(input: TriangulationInput, now: number | null): QuestionR
 
 /**
  * The report of one question (organisers and reviewers of the panel). Computed on read from the
- * stored answers, baseline, resolutions and rules (see lib/panels/triangulation.ts). A page that
+ * stored answers, baseline, resolutions and rules (see lib/triangulation/triangulation.ts). A page that
  * shows several questions passes one `reads` (lib/panels/panel-reads.ts) to them all.
  */
 export async function getQuestionReport(actor: Actor, panelId: string, questionId: string, reads: PanelReads = panelReads()): Promise<QuestionReport> {

@@ -27,9 +27,9 @@ import { db } from "@/lib/db";
 import type { Actor } from "@/lib/accounts/actor";
 import { runJob } from "@/lib/work/pool";
 import { computeCalibration, type CalibrationData, type CalibrationReport, type FinalAnswer } from "./calibration-figures";
-import { authorisePanel } from "./access";
-import { panelReads, type PanelReads } from "./panel-reads";
-import { jsonSafe, type JsonSafe } from "./json";
+import { authorisePanel } from "../panels/access";
+import { panelReads, type PanelReads } from "../panels/panel-reads";
+import { jsonSafe, type JsonSafe } from "../panels/json";
 
 export * from "./calibration-figures";
 

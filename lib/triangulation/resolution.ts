@@ -5,7 +5,7 @@
  * scored by lib/blend `scoreResolution` / `scoreFigure` (errors actual − figure, percent
  * errors, and the scaled error against the baseline history's naive MAE, Hyndman & Koehler
  * 2006). Track records and the accuracy history are derived from these rows on read
- * (lib/panels/track-records.ts).
+ * (lib/triangulation/track-records.ts).
  *
  * Correcting a recorded actual is a separate, audited action with a reason; it rescores the
  * stored figures (which do not change: they are what was reported).
@@ -18,11 +18,11 @@ import { ConflictError, InvalidInputError, NotFoundError, type FieldError } from
 import type { Actor } from "@/lib/accounts/actor";
 import { scoreFigure, scoreResolution, type FigureScore, type ResolutionScores } from "@/lib/blend";
 import type { ResolutionCorrection, ResolutionInput } from "@/lib/validation/triangulation-inputs";
-import { authorisePanel } from "./access";
-import { recordAudit } from "./audit";
+import { authorisePanel } from "../panels/access";
+import { recordAudit } from "../panels/audit";
 import { computeTriangulation, loadTriangulation } from "./triangulation";
 import type { ResolutionFigures } from "./track-records";
-import { jsonSafe, type JsonSafe } from "./json";
+import { jsonSafe, type JsonSafe } from "../panels/json";
 import type { BaselinePreview } from "./baselines";
 
 /** The scores of a resolution; baseline and blend are null without a baseline. */
@@ -44,7 +44,7 @@ export interface ResolutionView {
   readonly resolvedAt: string;
   readonly correctedAt: string | null;
   readonly figures: Omit<ResolutionFigures, "panelists" | "baselineTraining"> & {
-    /** Answers only: the bias factor each one got comes from its panelist's history across panels and would name them (lib/panels/report-views.ts). */
+    /** Answers only: the bias factor each one got comes from its panelist's history across panels and would name them (lib/triangulation/report-views.ts). */
     readonly panelists: readonly { readonly pseudonym: string; readonly value: number; readonly low: number | null; readonly high: number | null }[];
   };
   readonly scores: JsonSafe<StoredScores>;

@@ -8,7 +8,7 @@
  */
 import { describe, expect, it } from "vitest";
 import { accuracyHistory, trackRecord } from "../../lib/blend";
-import { historyOf, recordsByMember, type ResolvedQuestion } from "../../lib/panels/track-records";
+import { historyOf, recordsByMember, type ResolvedQuestion } from "../../lib/triangulation/track-records";
 
 /** A stored resolution whose panel figures and one panelist's ("m") answer are all `figure`. */
 function resolved(actual: number, figure: number): ResolvedQuestion {

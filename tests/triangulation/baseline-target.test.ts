@@ -1,5 +1,5 @@
 /**
- * What a baseline answers (lib/panels/baselines.ts `analyseBaseline`, issue 12 item 1): the
+ * What a baseline answers (lib/triangulation/baselines.ts `analyseBaseline`, issue 12 item 1): the
  * value in period k, the total over the next n periods, or their average, on 24 monthly values
  * with season 12 (R's AirPassengers, 1949–1950: a public series shipped with R).
  *
@@ -15,10 +15,10 @@
  *   a question about the year must not get the one-month figure.
  */
 import { describe, expect, it } from "vitest";
-import { analyseBaseline, quantityLabel } from "../../lib/panels/baselines";
+import { analyseBaseline, quantityLabel } from "../../lib/triangulation/baselines";
 import { baselineInput } from "../../lib/validation/triangulation-inputs";
 import { expectClose, runR, rVector } from "../stats/rscript";
-import { legWarnings } from "../../lib/panels/warnings";
+import { legWarnings } from "../../lib/triangulation/warnings";
 
 /** AirPassengers, January 1949 to December 1950 (R datasets). */
 const AIR24 = [112, 118, 132, 129, 121, 135, 148, 148, 136, 119, 104, 118, 115, 126, 141, 135, 125, 149, 170, 170, 158, 133, 114, 140];

@@ -1,6 +1,6 @@
 /**
  * Track records and the accuracy history, derived on read from the stored resolutions
- * (lib/panels/resolution.ts): each Resolution row keeps the actual value and the figures as
+ * (lib/triangulation/resolution.ts): each Resolution row keeps the actual value and the figures as
  * they stood when the question was resolved, including every panelist's final answer with
  * their roster member. Nothing is counted up in place, so correcting an actual value or
  * deleting a panel changes every derived figure consistently.
@@ -37,7 +37,7 @@ import {
   type TrackRecord,
 } from "@/lib/blend";
 import { usableHistoryEntry } from "@/lib/blend/scoring";
-import { jsonSafe, type JsonSafe } from "./json";
+import { jsonSafe, type JsonSafe } from "../panels/json";
 
 /** One panelist's final answer as it stood at resolution. */
 export interface ResolvedPanelistFigure {

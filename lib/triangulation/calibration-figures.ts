@@ -2,7 +2,7 @@
  * The figures of Cooke's classical model on a panel (docs/methods.md §21) from plain inputs: the
  * panel's questions and each panelist's final answers in, scores, pools and the leave-one-out verdict
  * out. No database or framework: it runs on the worker pool (lib/work/jobs.ts), so a large panel's
- * scoring does not hold up other requests. The rules are stated in lib/panels/calibration.ts.
+ * scoring does not hold up other requests. The rules are stated in lib/triangulation/calibration.ts.
  */
 import {
   backgroundFor,

@@ -1,12 +1,12 @@
 /**
- * Reading and fitting a question's baseline (lib/panels/baselines.ts `analyseBaseline`): the
+ * Reading and fitting a question's baseline (lib/triangulation/baselines.ts `analyseBaseline`): the
  * target period's forecast with explanatory columns and their target-period values (against R's
  * lm() + predict.lm), an analogous product's history scaled by a stated factor (against R's
  * forecast::naive on the scaled series), and errors that name the row, column or option.
  * Pure: `analyseBaseline` touches no database.
  */
 import { describe, expect, it } from "vitest";
-import { analyseBaseline } from "../../lib/panels/baselines";
+import { analyseBaseline } from "../../lib/triangulation/baselines";
 import { InvalidInputError } from "../../lib/errors";
 import { baselineInput, panelBlendRuleInput } from "../../lib/validation/triangulation-inputs";
 import { expectClose, runR, rVector } from "../stats/rscript";

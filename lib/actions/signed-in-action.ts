@@ -1,9 +1,9 @@
 /**
  * The fixed path of an organiser's form action: the signed-in user, the text rules and rate
- * limits the JSON API applies (lib/ui/action-guard.ts), the ids carried by the form, the form's
+ * limits the JSON API applies (lib/actions/action-guard.ts), the ids carried by the form, the form's
  * input parsed with its zod schema (when the action takes one), then one service call in `run`.
  * zod issues come back as field errors, a thrown DomainError as the form's message
- * (lib/ui/form-result.ts).
+ * (lib/actions/form-result.ts).
  */
 import type { ZodType } from "zod";
 import type { UserActor } from "../accounts/actor";

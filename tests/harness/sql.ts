@@ -13,8 +13,8 @@
  */
 import Database from "better-sqlite3";
 import pg from "pg";
-import { isPostgresUrl } from "../lib/env-db";
-import { numberedPlaceholders, parsePostgresTimestamp, timestampParam } from "../lib/sql-text";
+import { isPostgresUrl } from "../../lib/env-db";
+import { numberedPlaceholders, parsePostgresTimestamp, timestampParam } from "../../lib/sql-text";
 
 export type Dialect = "sqlite" | "postgresql";
 

@@ -11,7 +11,7 @@ import { clientAddress, limits, type FixedWindowLimiter } from "../http/rate-lim
 import { textFieldErrors } from "../validation/nul";
 import type { FormState } from "./form-state";
 import { byField } from "./form-result";
-import { panelistFromLink } from "./panelist-access";
+import { panelistFromLink } from "../ui/panelist-access";
 
 /** Field errors for text the app refuses anywhere in `values` (named by field; `form` when unnamed). */
 export function textProblems(...values: unknown[]): FormState | null {

@@ -1,8 +1,8 @@
 /**
- * Triangulation of a question composed from lib/blend (lib/panels/triangulation.ts
+ * Triangulation of a question composed from lib/blend (lib/triangulation/triangulation.ts
  * `computeTriangulation`), the derivation of track records and blend-weight history from stored
- * resolutions (lib/panels/track-records.ts), resolution scores (lib/panels/resolution.ts) and
- * the CSV export's cell neutralisation (lib/panels/report.ts). Pure: no database.
+ * resolutions (lib/triangulation/track-records.ts), resolution scores (lib/triangulation/resolution.ts) and
+ * the CSV export's cell neutralisation (lib/triangulation/report.ts). Pure: no database.
  *
  * Expected values come from R (Rscript, computed in the test from the same inputs: median,
  * quantile type 7, qnorm/pnorm, uniroot on the mixture CDF written out from its definition) or
@@ -10,11 +10,11 @@
  */
 import { describe, expect, it } from "vitest";
 import { trackRecord, type BiasFactor } from "../../lib/blend";
-import { computeTriangulation, type TriangulationInput } from "../../lib/panels/triangulation";
-import { historyOf, recordsByMember, type ResolvedQuestion, type ResolutionFigures } from "../../lib/panels/track-records";
-import { checkWithinBounds, scoreFigures } from "../../lib/panels/resolution";
+import { computeTriangulation, type TriangulationInput } from "../../lib/triangulation/triangulation";
+import { historyOf, recordsByMember, type ResolvedQuestion, type ResolutionFigures } from "../../lib/triangulation/track-records";
+import { checkWithinBounds, scoreFigures } from "../../lib/triangulation/resolution";
 import { InvalidInputError } from "../../lib/errors";
-import { csvCell, reportCsv } from "../../lib/panels/report";
+import { csvCell, reportCsv } from "../../lib/triangulation/report";
 import { expectClose, runR, rVector } from "../stats/rscript";
 
 const answers = (values: readonly number[], prefix = "i") =>

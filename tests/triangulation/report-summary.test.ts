@@ -1,11 +1,11 @@
 /**
- * The sentence a report leads with (lib/panels/report-summary.ts). The reports are written by
+ * The sentence a report leads with (lib/triangulation/report-summary.ts). The reports are written by
  * hand (invented Wren-2 figures); each expected sentence is written out by hand from the rule in
  * the module comment, its percentages computed here by hand: (72 − 80) / 80 = −10%;
  * (8,200 − 7,676.98) / 7,676.98 = 6.8% → 7%.
  */
 import { describe, expect, it } from "vitest";
-import { reportSummary } from "../../lib/panels/report-summary";
+import { reportSummary } from "../../lib/triangulation/report-summary";
 
 type Input = Parameters<typeof reportSummary>[0];
 

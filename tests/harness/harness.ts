@@ -4,7 +4,7 @@
  * start production servers on 127.0.0.1 on a database (a fresh SQLite file, or a PostgreSQL
  * database), create an organiser and an API token, build a panel of N invited panelists through
  * the JSON API, send answers with idempotency keys at bounded concurrency, and check the database
- * directly (bench/sql.ts) against what the servers acknowledged.
+ * directly (tests/harness/sql.ts) against what the servers acknowledged.
  *
  * Traffic goes only to the loopback server this module starts. Demo names are invented
  * (Quillmoor Instruments).
@@ -17,11 +17,11 @@ import { createServer } from "node:net";
 import path from "node:path";
 import { performance } from "node:perf_hooks";
 import { openSql } from "./sql";
-import { mulberry32 } from "../tests/helpers/prng";
+import { mulberry32 } from "../helpers/prng";
 
 export { mulberry32 };
 
-export const root = path.resolve(path.dirname(new URL(import.meta.url).pathname), "..");
+export const root = path.resolve(path.dirname(new URL(import.meta.url).pathname), "../..");
 const bin = (name: string) => path.join(root, "node_modules", ".bin", name);
 
 export function freePort(): Promise<number> {

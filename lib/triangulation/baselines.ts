@@ -25,8 +25,8 @@ import { marketPotentialFromRange, type MarketPotential } from "@/lib/forecast/l
 import { ForecastInputError, type MethodId } from "@/lib/forecast/types";
 import type { BASELINE_QUANTITIES, BaselineInput, HISTORY_PERIODS, LaunchInput } from "@/lib/validation/triangulation-inputs";
 import { runJob } from "@/lib/work/pool";
-import { authorisePanel } from "./access";
-import { recordAudit } from "./audit";
+import { authorisePanel } from "../panels/access";
+import { recordAudit } from "../panels/audit";
 
 export type BaselineQuantity = (typeof BASELINE_QUANTITIES)[number];
 export type HistoryPeriod = (typeof HISTORY_PERIODS)[number];

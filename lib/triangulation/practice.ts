@@ -22,9 +22,9 @@ import { db } from "@/lib/db";
 import type { Actor } from "@/lib/accounts/actor";
 import { intervalHitRate, type IntervalHitRate } from "@/lib/blend";
 import { NOMINAL_CALIBRATION_COVERAGE, rangeAdvice } from "@/lib/blend/own-record";
-import { authorisePanelist } from "./access";
+import { authorisePanelist } from "../panels/access";
 import { closedFinalAnswers, loadCalibration } from "./calibration";
-import { panelReads } from "./panel-reads";
+import { panelReads } from "../panels/panel-reads";
 
 export interface PracticeQuestion {
   readonly questionId: string;

@@ -25,9 +25,9 @@ import type { Actor } from "@/lib/accounts/actor";
 import { intervalHitRate, trackRecord, type IntervalHitRate, type ResolvedAnswer } from "@/lib/blend";
 import { usableRecord } from "@/lib/blend/track-record";
 import { biasAdvice, NOMINAL_CALIBRATION_COVERAGE, rangeAdvice, type BiasAdvice, type RangeAdvice } from "@/lib/blend/own-record";
-import { authorisePanelist } from "./access";
+import { authorisePanelist } from "../panels/access";
 import { loadResolutions, recordsByMember } from "./track-records";
-import { jsonSafe, type JsonSafe } from "./json";
+import { jsonSafe, type JsonSafe } from "../panels/json";
 
 /** One recorded outcome of the panelist's answers (no question, answer or outcome: see the module comment). */
 export interface OwnOutcome {
@@ -92,9 +92,9 @@ export async function getOwnRecord(actor: Actor): Promise<JsonSafe<OwnRecord>> {
 
 /**
  * The member's P5 / P50 / P95 answers to calibration questions with a true value, on every panel
- * they were invited to: their latest answer in a closed round (as lib/panels/calibration.ts reads
+ * they were invited to: their latest answer in a closed round (as lib/triangulation/calibration.ts reads
  * final answers), with the true value as the outcome. Only panels with no round open or waiting as
- * a draft count (as the practice result, lib/panels/practice.ts): while answers can still change, a
+ * a draft count (as the practice result, lib/triangulation/practice.ts): while answers can still change, a
  * hit count that moves would hint at a true value.
  */
 async function calibrationAnswers(memberId: string): Promise<ResolvedAnswer[]> {
