@@ -7,6 +7,7 @@ import type { Prisma } from "@/lib/generated/prisma/client";
 import { db } from "@/lib/db";
 import type { Actor } from "@/lib/accounts/actor";
 import { authorisePanel } from "./access";
+import { auditSentence } from "./audit-text";
 
 type Tx = Prisma.TransactionClient;
 
@@ -26,21 +27,24 @@ export interface AuditEventView {
   readonly actorName: string | null;
   readonly detail: Record<string, unknown>;
   readonly createdAt: string;
+  /** The event in plain words for people (lib/panels/audit-text.ts). */
+  readonly sentence: string;
 }
 
 /** A panel's audit log, newest first (organisers of the panel only). */
 export async function listAuditEvents(actor: Actor, panelId: string): Promise<AuditEventView[]> {
   await authorisePanel(actor, panelId, "manage");
-  const rows = await db.auditEvent.findMany({
-    where: { panelId },
-    orderBy: { createdAt: "desc" },
-    include: { actor: { select: { name: true } } },
+  const [rows, questions] = await Promise.all([
+    db.auditEvent.findMany({
+      where: { panelId },
+      orderBy: { createdAt: "desc" },
+      include: { actor: { select: { name: true } } },
+    }),
+    db.question.findMany({ where: { panelId }, select: { id: true, text: true, unit: true } }),
+  ]);
+  const byId = new Map(questions.map((q) => [q.id, q]));
+  return rows.map((r) => {
+    const event = { action: r.action, actorName: r.actor?.name ?? null, detail: JSON.parse(r.detail) as Record<string, unknown> };
+    return { id: r.id, ...event, createdAt: r.createdAt.toISOString(), sentence: auditSentence(event, byId) };
   });
-  return rows.map((r) => ({
-    id: r.id,
-    action: r.action,
-    actorName: r.actor?.name ?? null,
-    detail: JSON.parse(r.detail) as Record<string, unknown>,
-    createdAt: r.createdAt.toISOString(),
-  }));
 }

@@ -231,7 +231,7 @@ export async function updatePanel(actor: Actor, panelId: string, input: PanelUpd
   if (access.panel.status === "finished") throw new ConflictError("panel-finished", "The panel is finished; it can no longer be changed.");
   await db.$transaction(async (tx) => {
     await tx.panel.update({ where: { id: panelId }, data: input });
-    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "panel.updated", detail: { ...input } });
+    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "panel.updated", detail: { ...input, from: oldValues(access.panel, input) } });
   });
   return loadPanelView(panelId, access.role);
 }
@@ -245,6 +245,12 @@ export async function deletePanel(actor: Actor, panelId: string): Promise<{ id: 
     await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "panel.deleted", detail: { title: access.panel.title } });
   });
   return { id: panelId, deleted: true };
+}
+
+/** The stored values of the fields an update changes, for the audit log's "from … to …". */
+function oldValues(stored: object, update: object): Record<string, unknown> {
+  const row = stored as Record<string, unknown>;
+  return Object.fromEntries(Object.keys(update).map((k) => [k, row[k] ?? null]));
 }
 
 function requireDraft(panel: Panel): void {
@@ -283,7 +289,7 @@ export async function updateQuestion(actor: Actor, panelId: string, questionId: 
   if (input.calibration === false) input = { ...input, trueValue: null };
   const q = await db.$transaction(async (tx) => {
     const updated = await tx.question.update({ where: { id: questionId }, data: input });
-    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "question.updated", detail: { questionId, ...input } });
+    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "question.updated", detail: { questionId, ...input, from: oldValues(existing, input) } });
     return updated;
   });
   return organiserQuestionView(q);
@@ -300,7 +306,7 @@ export async function setTrueValue(actor: Actor, panelId: string, questionId: st
   if (!existing.calibration) throw new InvalidInputError([{ field: "trueValue", message: "only a calibration question has a true value" }]);
   await db.$transaction(async (tx) => {
     await tx.question.update({ where: { id: questionId }, data: { trueValue: input.trueValue } });
-    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "question.true-value", detail: { questionId, trueValue: input.trueValue } });
+    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "question.true-value", detail: { questionId, from: existing.trueValue, trueValue: input.trueValue } });
   });
   return { questionId, trueValue: input.trueValue };
 }

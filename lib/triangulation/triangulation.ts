@@ -608,7 +608,7 @@ export async function setPanelBlendRule(
   const panelLeg: PanelLegChoice = input.panelLeg ?? (access.panel.panelLeg === "performance" ? "performance" : "equal");
   await db.$transaction(async (tx) => {
     await tx.panel.update({ where: { id: panelId }, data: { blendRule: input.rule, blendPanelWeight: panelWeight, panelLeg } });
-    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "panel.blend-rule", detail: { rule: input.rule, panelWeight, panelLeg } });
+    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "panel.blend-rule", detail: { fromRule: access.panel.blendRule, fromPanelWeight: access.panel.blendPanelWeight, rule: input.rule, panelWeight, panelLeg } });
   });
   return { rule: input.rule, panelWeight, panelLeg };
 }
@@ -628,7 +628,7 @@ export async function setQuestionBlendRule(
   const panelWeight = input.rule === "organiser" ? input.panelWeight! : null;
   await db.$transaction(async (tx) => {
     await tx.question.update({ where: { id: questionId }, data: { blendRule: rule, blendPanelWeight: panelWeight } });
-    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "question.blend-rule", detail: { questionId, rule: input.rule, panelWeight } });
+    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "question.blend-rule", detail: { questionId, fromRule: q.blendRule ?? "panel", fromPanelWeight: q.blendPanelWeight, rule: input.rule, panelWeight } });
   });
   return effectiveRule(access.panel, { blendRule: rule, blendPanelWeight: panelWeight });
 }

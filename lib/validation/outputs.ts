@@ -322,5 +322,12 @@ export const feedback = z.object({
     .describe("A practice set (every question a calibration question with its true value) once its last round has closed: the panelist's own result; null on any other panel."),
 });
 
-export const auditEvent = z.object({ id: z.string(), action: z.string(), actorName: z.string().nullable(), detail: z.record(z.string(), z.unknown()), createdAt: dateTime });
+export const auditEvent = z.object({
+  id: z.string(),
+  action: z.string().describe("The event's id for clients, e.g. question.true-value"),
+  actorName: z.string().nullable(),
+  detail: z.record(z.string(), z.unknown()).describe("The event's stored detail; update events carry the old value (from, fromRule) since it was added, older ones do not"),
+  createdAt: dateTime,
+  sentence: z.string().describe("The event in plain words, as the panel page shows it; names no panelist"),
+});
 export const finished = z.object({ id: z.string(), status: z.literal("finished") });

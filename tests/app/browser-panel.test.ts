@@ -316,7 +316,7 @@ describe("Delphi panel in the browser", () => {
     for (const p of PANELISTS) expect(await org.locator("#live-progress").textContent()).toContain(p.name);
     await org.reload();
     expect(await org.locator("#live-progress").textContent()).not.toContain(PANELISTS[0].name);
-    expect(await org.locator("section[aria-labelledby=audit-h]").textContent()).toContain("identities.revealed");
+    expect(await org.locator("section[aria-labelledby=audit-h]").textContent()).toContain("revealed the names behind");
     expect(await org.locator("section[aria-labelledby=audit-h]").textContent()).toContain("Checking that the sales team answered");
   });
 

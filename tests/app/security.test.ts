@@ -398,12 +398,17 @@ describe("audit log", () => {
     expect(log.status).toBe(200);
     const actions = (log.body as { action: string }[]).map((e) => e.action);
     expect(actions).toEqual(expect.arrayContaining(["question.updated", "round.opened", "round.closed", "identities.revealed"]));
+    // Each event also in plain words, with the old value the update replaced.
+    const updated = (log.body as { action: string; sentence: string }[]).find((e) => e.action === "question.updated")!;
+    expect(updated.sentence).toMatch(/ changed the question 'QF-3 units in year one\?': the unit from 'units' to 'boxes'\.$/);
     // The panel page shows the same log to the organiser.
     const page = await fetch(`${baseURL}/panels/${panel.id}`, { headers: { cookie } });
     expect(page.status).toBe(200);
     const html = await page.text();
     expect(html).toContain("Audit log");
-    for (const a of ["round.opened", "round.closed", "identities.revealed", "reason: audit check"]) expect(html).toContain(a);
+    // …in plain sentences (lib/panels/audit-text.ts), without the raw action ids.
+    for (const a of ["opened round 1.", "closed round 1.", "revealed the names behind", "(reason: audit check)"]) expect(html).toContain(a);
+    for (const a of ["round.opened", "identities.revealed"]) expect(html).not.toContain(a);
 
     const conn = await openDb();
     try {

@@ -651,9 +651,7 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
               {audit.map((e) => (
                 <tr key={e.id}>
                   <td>{formatDateTime(e.createdAt)}</td>
-                  <td>{e.actorName ?? "system"}</td>
-                  <td>{e.action}</td>
-                  <td className="muted">{typeof e.detail.reason === "string" ? `reason: ${e.detail.reason}` : ""}</td>
+                  <td>{e.sentence}</td>
                 </tr>
               ))}
             </tbody>

@@ -186,7 +186,7 @@ export default async function QuestionPage({ params }: { params: Promise<{ id: s
               <ul className="small muted">
                 {corrections.map((e) => (
                   <li key={e.id}>
-                    {formatDateTime(e.createdAt)}: {String(e.detail.from)} → {String(e.detail.to)} by {e.actorName ?? "system"} — {String(e.detail.reason ?? "")}
+                    {formatDateTime(e.createdAt)}: {e.sentence}
                   </li>
                 ))}
               </ul>
