@@ -56,12 +56,15 @@ const CASES: [string, Record<string, unknown>, string | null, string][] = [
   ["messages.reminder", { kind: "reminder", roundNumber: 2, recipients: 1, sent: 0, outbox: 1, failed: 0 }, ada, "Ada Fenwick sent a reminder for round 2 to 1 panelist (0 sent, 1 in the outbox, 0 failed)."],
 ];
 
-/** The actions the services record: the `action: "…"` literals beside recordAudit in lib/panels. */
+/** The actions the services record: the `action: "…"` literals beside recordAudit in lib/panels and lib/triangulation. */
 function recordedActions(): Set<string> {
-  const dir = join(__dirname, "../../lib/panels");
   const found = new Set<string>();
-  for (const f of readdirSync(dir).filter((n) => n.endsWith(".ts"))) {
-    const src = readFileSync(join(dir, f), "utf8");
+  const files = ["../../lib/panels", "../../lib/triangulation"].flatMap((d) => {
+    const dir = join(__dirname, d);
+    return readdirSync(dir).filter((n) => n.endsWith(".ts")).map((n) => join(dir, n));
+  });
+  for (const file of files) {
+    const src = readFileSync(file, "utf8");
     if (!src.includes("recordAudit(tx")) continue;
     for (const m of src.matchAll(/"([a-z]+\.[a-z-]+)"/g)) if (/^(panel|question|resolution|baseline|round|identities|invitation)\./.test(m[1])) found.add(m[1]);
   }
