@@ -6,7 +6,7 @@
  * (not through the `action` prop) so that what the user typed stays in place when the server
  * rejects it; it is cleared only after a success, when `resetOnSuccess` is set.
  */
-import { createContext, startTransition, useActionState, useContext, useEffect, useRef, type ReactNode } from "react";
+import { createContext, startTransition, useActionState, useContext, useEffect, useRef, useState, type ReactNode } from "react";
 import { CopyButton } from "./copy-button";
 import { EMPTY_FORM_STATE, type FormAction, type FormState } from "../actions/form-state";
 
@@ -50,6 +50,10 @@ export default function ActionForm({
 }: ActionFormProps) {
   const [state, formAction, pending] = useActionState(action, EMPTY_FORM_STATE);
   const form = useRef<HTMLFormElement>(null);
+  // Until the page's script has run, a submit would be the browser's own (a GET of the same page,
+  // losing what was typed): the submit buttons wait, and `data-ready` tells tests the form is live.
+  const [ready, setReady] = useState(false);
+  useEffect(() => setReady(true), []);
   useEffect(() => {
     if (state.ok && resetOnSuccess) form.current?.reset();
   }, [state, resetOnSuccess]);
@@ -60,6 +64,7 @@ export default function ActionForm({
           ref={form}
           className={className}
           aria-label={ariaLabel}
+          data-ready={ready ? "" : undefined}
           noValidate
           onSubmit={(event) => {
             event.preventDefault();
@@ -69,7 +74,7 @@ export default function ActionForm({
             startTransition(() => formAction(data));
           }}
         >
-          {otherSubmits ? <button type="submit" hidden tabIndex={-1} aria-hidden="true" disabled={pending || submitDisabled} /> : null}
+          {otherSubmits ? <button type="submit" hidden tabIndex={-1} aria-hidden="true" disabled={!ready || pending || submitDisabled} /> : null}
           {state.message && !state.ok ? (
             <p className="form-error" role="alert">
               {state.message}
@@ -93,7 +98,7 @@ export default function ActionForm({
           {state.secret ? <SecretOnce label={state.secret.label} value={state.secret.value} /> : null}
           {state.secrets?.map((s) => <SecretOnce key={s.value} label={s.label} value={s.value} />)}
           <div className="actions">
-            <button type="submit" className={submitClassName} disabled={pending || submitDisabled}>
+            <button type="submit" className={submitClassName} disabled={!ready || pending || submitDisabled}>
               {pending ? (pendingLabel ?? "Saving…") : submitLabel}
             </button>
             {state.ok === false && state.fieldErrors && Object.keys(state.fieldErrors).length > 0 ? (

@@ -107,6 +107,8 @@ describe("the panelist's form", () => {
     // Prefilled, shown with the German decimal mark.
     await expect.poll(() => form.locator('input[name="q0.value"]').inputValue()).toBe("2600,5");
     expect(await form.locator('input[name="q1.high"]').inputValue()).toBe("2000,5");
+    // The form is live once its script has run (data-ready); a click before that would be the browser's own submit.
+    await page.locator('form[aria-label="Your answers"][data-ready]').waitFor();
     await form.locator(`[data-keep="${q1}"]`).click();
     await expect.poll(() => form.locator(".notice").last().textContent()).toContain("kept");
     await expectAccessible(page);
@@ -114,6 +116,7 @@ describe("the panelist's form", () => {
     await page.screenshot({ path: "test-artifacts/screenshots/panelist-round-2-keep-phone.png", fullPage: true });
     // Save all now stores question 2 (prefilled) and skips question 1, already this round's.
     await page.reload();
+    await page.locator('form[aria-label="Your answers"][data-ready]').waitFor();
     await page.getByRole("form", { name: "Your answers" }).getByRole("button", { name: "Save all answers" }).click();
     await expect.poll(() => page.locator(".notice").last().textContent()).toContain("1 answer was saved");
     await expectAccessible(page);
