@@ -65,6 +65,8 @@ export async function expectAccessible(page: Page): Promise<void> {
   // After a server action the page's metadata streams in again: wait for its title first (a page
   // without one still fails here, on this poll).
   await expect.poll(() => page.title(), { message: `the title of ${page.url()}` }).not.toBe("");
+  // A page still streaming in shows the loading state (app/loading.tsx), not the page: check the page.
+  await expect.poll(() => page.locator("[data-loading]").count(), { message: `the loading state of ${page.url()} to end` }).toBe(0);
   expect.soft(await axeViolations(page), `axe-core on ${page.url()}`).toEqual([]);
 }
 
