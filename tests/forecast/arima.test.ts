@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { autoArima, chooseDifferences, fitArima, forecastArima, kpssStatistic, minRootModulus, type ArimaSpec } from "../../lib/forecast/arima";
 import arimaMethod from "../../lib/forecast/methods/arima";
-import { expectClose, runR } from "../stats/rscript";
+import { expectClose, runRBatch } from "../stats/rscript";
 
 const R_PRELUDE = "suppressPackageStartupMessages(library(forecast))";
 
@@ -34,13 +34,57 @@ const FIXED_ORDER_CASES: ReadonlyArray<{ series: string; spec: ArimaSpec }> = [
   { series: "WWWusage", spec: { p: 0, d: 2, q: 2, constant: false } },
 ];
 
+const FC_CASES: ReadonlyArray<{ series: string; spec: ArimaSpec; h: number }> = [
+  { series: "Nile", spec: { p: 1, d: 0, q: 1, constant: true }, h: 10 },
+  { series: "WWWusage", spec: { p: 1, d: 1, q: 1, constant: false }, h: 12 },
+  { series: "austres", spec: { p: 1, d: 1, q: 0, constant: true }, h: 8 },
+  { series: "WWWusage", spec: { p: 0, d: 2, q: 2, constant: false }, h: 6 },
+  { series: "lynx", spec: { p: 2, d: 0, q: 2, constant: true }, h: 10 },
+];
+
+const KPSS_SERIES = ["Nile", "WWWusage", "lynx", "austres", "LakeHuron", "lh", "AirPassengers"];
+const AUTO_SERIES = ["WWWusage", "LakeHuron", "lh"];
+
+/** Every R reference of this file, computed in one R session (R's calls as named in each test). */
+const R = runRBatch({
+  ...Object.fromEntries(
+    FIXED_ORDER_CASES.map((c, i) => [
+      `ml${i}`,
+      `${R_PRELUDE}
+${rSeries(c.series, c.spec.d)}; f <- ${rModel("yr", c.spec)}
+out(y); out(f$loglik); out(f$aicc); out(if (length(coef(f))) coef(f) else numeric(0))`,
+    ]),
+  ),
+  ...Object.fromEntries(
+    FC_CASES.map((c, i) => {
+      const { p, d, q, constant } = c.spec;
+      return [
+        `fc${i}`,
+        `${R_PRELUDE}
+${rSeries(c.series, d)}; f0 <- ${rModel("yr", c.spec)}
+f <- Arima(yr, model = NULL, order = c(${p}, ${d}, ${q}), ${d === 0 ? `include.mean = ${constant ? "TRUE" : "FALSE"}` : `include.drift = ${constant ? "TRUE" : "FALSE"}`}, fixed = coef(f0), transform.pars = FALSE, method = "ML")
+fc <- forecast(f, h = ${c.h}, level = c(80, 95))
+out(y); out(coef(f0)); out(fc$mean + shift); out(fc$lower[, 1] + shift); out(fc$upper[, 2] + shift)`,
+      ];
+    }),
+  ),
+  kpss: `${R_PRELUDE}
+for (s in c(${KPSS_SERIES.map((s) => `"${s}"`).join(", ")})) { y <- get(s); out(y); out(urca::ur.kpss(y, type = "mu", use.lag = trunc(3 * sqrt(length(y)) / 13))@teststat); out(ndiffs(y)) }`,
+  ...Object.fromEntries(
+    AUTO_SERIES.map((series) => [
+      `auto_${series}`,
+      `${R_PRELUDE}
+y <- ${series}; a <- auto.arima(y, stepwise = FALSE, approximation = FALSE, seasonal = FALSE, max.p = 3, max.q = 3, max.order = 6)
+o <- arimaorder(a); out(y); out(c(o[1], o[2], o[3])); out(a$aicc)`,
+    ]),
+  ),
+});
+
 describe("ARIMA maximum likelihood against R (stats::arima via forecast::Arima, method = 'ML')", () => {
-  for (const c of FIXED_ORDER_CASES) {
+  for (const [i, c] of FIXED_ORDER_CASES.entries()) {
     const { p, d, q, constant } = c.spec;
     it(`${c.series} ARIMA(${p},${d},${q})${constant ? " + constant" : ""}: log-likelihood at least R's, coefficients close, AICc equal`, () => {
-      const rows = runR(`${R_PRELUDE}
-${rSeries(c.series, d)}; f <- ${rModel("yr", c.spec)}
-out(y); out(f$loglik); out(f$aicc); out(if (length(coef(f))) coef(f) else numeric(0))`);
+      const rows = R[`ml${i}`];
       const [y, [loglik], [aicc], coef] = rows;
       const fit = fitArima(y, c.spec);
       // Our optimum may be better than R's BFGS stop, never meaningfully worse.
@@ -54,21 +98,10 @@ out(y); out(f$loglik); out(f$aicc); out(if (length(coef(f))) coef(f) else numeri
 });
 
 describe("ARIMA forecasts against R forecast(Arima(..., fixed = coef)) — same coefficients, so exact", () => {
-  const FC_CASES: ReadonlyArray<{ series: string; spec: ArimaSpec; h: number }> = [
-    { series: "Nile", spec: { p: 1, d: 0, q: 1, constant: true }, h: 10 },
-    { series: "WWWusage", spec: { p: 1, d: 1, q: 1, constant: false }, h: 12 },
-    { series: "austres", spec: { p: 1, d: 1, q: 0, constant: true }, h: 8 },
-    { series: "WWWusage", spec: { p: 0, d: 2, q: 2, constant: false }, h: 6 },
-    { series: "lynx", spec: { p: 2, d: 0, q: 2, constant: true }, h: 10 },
-  ];
-  for (const c of FC_CASES) {
-    const { p, d, q, constant } = c.spec;
-    it(`${c.series} ARIMA(${p},${d},${q}): mean and 80%/95% bounds for h = ${c.h}`, () => {
-      const rows = runR(`${R_PRELUDE}
-${rSeries(c.series, d)}; f0 <- ${rModel("yr", c.spec)}
-f <- Arima(yr, model = NULL, order = c(${p}, ${d}, ${q}), ${d === 0 ? `include.mean = ${constant ? "TRUE" : "FALSE"}` : `include.drift = ${constant ? "TRUE" : "FALSE"}`}, fixed = coef(f0), transform.pars = FALSE, method = "ML")
-fc <- forecast(f, h = ${c.h}, level = c(80, 95))
-out(y); out(coef(f0)); out(fc$mean + shift); out(fc$lower[, 1] + shift); out(fc$upper[, 2] + shift)`);
+  for (const [i, c] of FC_CASES.entries()) {
+    const { p, q, constant } = c.spec;
+    it(`${c.series} ARIMA(${p},${c.spec.d},${q}): mean and 80%/95% bounds for h = ${c.h}`, () => {
+      const rows = R[`fc${i}`];
       const [y, coef, mean, l80, u95] = rows;
       const fixed = {
         ar: coef.slice(0, p),
@@ -89,21 +122,17 @@ out(y); out(coef(f0)); out(fc$mean + shift); out(fc$lower[, 1] + shift); out(fc$
 
 describe("differencing by KPSS (as forecast::ndiffs) and automatic order selection", () => {
   it("KPSS statistic equals urca::ur.kpss(type = 'mu', use.lag = trunc(3*sqrt(n)/13)) and d equals ndiffs()", () => {
-    const series = ["Nile", "WWWusage", "lynx", "austres", "LakeHuron", "lh", "AirPassengers"];
-    const rows = runR(`${R_PRELUDE}
-for (s in c(${series.map((s) => `"${s}"`).join(", ")})) { y <- get(s); out(y); out(urca::ur.kpss(y, type = "mu", use.lag = trunc(3 * sqrt(length(y)) / 13))@teststat); out(ndiffs(y)) }`);
-    series.forEach((name, i) => {
+    const rows = R.kpss;
+    KPSS_SERIES.forEach((name, i) => {
       const [y, [stat], [nd]] = rows.slice(3 * i, 3 * i + 3);
       expect(Math.abs(kpssStatistic(y) - stat) / stat, name).toBeLessThan(1e-12);
       expect(chooseDifferences(y), name).toBe(nd);
     });
   });
 
-  for (const series of ["WWWusage", "LakeHuron", "lh"]) {
+  for (const series of AUTO_SERIES) {
     it(`${series}: the AICc-chosen order and its AICc match auto.arima(stepwise = FALSE, approximation = FALSE, seasonal = FALSE)`, () => {
-      const rows = runR(`${R_PRELUDE}
-y <- ${series}; a <- auto.arima(y, stepwise = FALSE, approximation = FALSE, seasonal = FALSE, max.p = 3, max.q = 3, max.order = 6)
-o <- arimaorder(a); out(y); out(c(o[1], o[2], o[3])); out(a$aicc)`);
+      const rows = R[`auto_${series}`];
       const [y, order, [aicc]] = rows;
       const { fit } = autoArima(y);
       expect([fit.spec.p, fit.spec.d, fit.spec.q]).toEqual(order);

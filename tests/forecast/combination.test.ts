@@ -6,7 +6,7 @@
 import { describe, expect, it } from "vitest";
 import { baseline } from "../../lib/forecast/baseline";
 import { combineForecasts, combineTotals, overlapDegreesOfFreedom, type CombinationMember } from "../../lib/forecast/combination";
-import { rEval } from "../helpers/r";
+import { rEvalBatch } from "../helpers/r";
 
 /**
  * Series of R's datasets on which our AICc choice of ETS member is R's ets() choice, with the
@@ -24,10 +24,7 @@ const AGREEING = [
 describe("auto: the equal-weight combination of ETS (AICc) and Theta", () => {
   for (const c of AGREEING) {
     it(`${c.series}: ETS member is R's ets() choice and the mean is the mean of R's ets() and thetaf() forecasts`, () => {
-      const r = rEval(`y <- ${c.series}; m <- frequency(y); h <- if (m > 1) 2 * m else 10
-        f <- ets(y); a <- forecast(f, h = h)$mean; b <- thetaf(y, h = h)$mean
-        out("y", y); out("m", m); out("h", h); out("mean", (a + b) / 2)
-        out("model", match(unlist(strsplit(gsub("ETS\\\\(|\\\\)", "", f$method), ",")), c("A", "M", "N", "Ad")))`);
+      const r = R[`auto_${c.series}`];
       const res = baseline(r.y, { season: r.m[0], horizon: r.h[0] });
       expect(res.method).toBe("combination");
       expect(res.combination!.map((x) => x.method)).toEqual(["ets", "theta"]);
@@ -47,7 +44,7 @@ describe("auto: the equal-weight combination of ETS (AICc) and Theta", () => {
   it("keeps the point forecast inside its own 80% and 95% intervals and gives a total (UKgas, h = 8)", () => {
     // Coherence rule (docs/methods.md §20): mean inside both ranges, 95% containing 80%; the
     // total's mean is the sum of the step means (both are linear in the members' means).
-    const y = rEval("out('y', UKgas)").y;
+    const y = R.ukgas.y;
     const res = baseline(y, { season: 4, horizon: 8, total: true });
     for (const s of res.forecast) {
       expect(s.lower["95"]!).toBeLessThanOrEqual(s.lower["80"]!);
@@ -71,8 +68,8 @@ describe("auto: the equal-weight combination of ETS (AICc) and Theta", () => {
  * (Student t quantiles from R's qt() with as many degrees of freedom as errors), written
  * independently of lib/forecast/combination.ts.
  */
-function sesPairInR(values: string, h: number) {
-  return rEval(`y <- ${values}; n <- length(y); h <- ${h}; al <- c(0.3, 0.8)
+function sesPairInR(values: string, h: number): string {
+  return `y <- ${values}; n <- length(y); h <- ${h}; al <- c(0.3, 0.8)
     fc <- lapply(al, function(a) ses(y, alpha = a, initial = "simple", h = h, level = c(80, 95)))
     org <- lapply(al, function(a) t(sapply(1:n, function(t) if (t == 1) rep(y[1], h) else as.numeric(ses(y[1:t], alpha = a, initial = "simple", h = h)$mean))))
     # origin t (0-based) has seen t values: row t + 1 of sapply above is origin t + 1; origin 0 forecasts l0 = y1.
@@ -90,7 +87,7 @@ function sesPairInR(values: string, h: number) {
     for (i in 1:2) { out(paste0("mean", i), fc[[i]]$mean); out(paste0("sd", i), (fc[[i]]$upper[, 2] - fc[[i]]$mean) / qnorm(0.975))
       for (k in 1:2) { out(paste0("l", i, k), fc[[i]]$lower[, k]); out(paste0("u", i, k), fc[[i]]$upper[, k]) }
       out(paste0("orig", i), t(orig[[i]])) }
-    out("y", y); out("mu", mu); out("s", s)`);
+    out("y", y); out("mu", mu); out("s", s)`;
 }
 
 function membersFrom(r: Record<string, number[]>, h: number): CombinationMember[] {
@@ -110,7 +107,7 @@ function membersFrom(r: Record<string, number[]>, h: number): CombinationMember[
 describe("combineForecasts: quantile average widened to the history's relative errors", () => {
   it("matches an R computation of the rule on the Nile series (SES α = 0.3 and 0.8 from R's ses())", () => {
     const h = 10;
-    const r = sesPairInR("as.numeric(Nile)", h);
+    const r = R.nile; // h = 10
     const c = combineForecasts(membersFrom(r, h), r.y, 1, [80, 95]);
     expect(c.relative).toBe(true);
     c.mean.forEach((v, j) => expect(v).toBeCloseTo(r.mu[j], 8));
@@ -121,7 +118,7 @@ describe("combineForecasts: quantile average widened to the history's relative e
 
   it("extends the spread past the last step with enough errors by the members' sd (first 15 Nile values)", () => {
     const h = 10;
-    const r = sesPairInR("as.numeric(Nile)[1:15]", h);
+    const r = R.nile15; // h = 10
     const c = combineForecasts(membersFrom(r, h), r.y, 1, [80, 95]);
     // With t ≥ max(2, ⌈15/3⌉) = 5, step 9 has origins 5 and 6 only: extrapolated from step 8 (R above).
     c.spread.forEach((v, j) => expect(v).toBeCloseTo(r.s[j], 10));
@@ -139,8 +136,8 @@ describe("combineForecasts: quantile average widened to the history's relative e
  * the innovations' weights w_i = Σ_{j=max(i,a)}^{h} ψ_{j−i} of the members' average step sd read as
  * a linear innovations model (ψ_0 = 1, ψ_k = √((v_{k+1} − v_k)/v_1)); R's qt().
  */
-function windowTotalInR(values: string, h: number, a: number) {
-  return rEval(`y <- ${values}; n <- length(y); h <- ${h}; a <- ${a}; w <- h - a + 1; al <- c(0.3, 0.8)
+function windowTotalInR(values: string, h: number, a: number): string {
+  return `y <- ${values}; n <- length(y); h <- ${h}; a <- ${a}; w <- h - a + 1; al <- c(0.3, 0.8)
     fc <- lapply(al, function(x) ses(y, alpha = x, initial = "simple", h = h, level = c(80, 95)))
     org <- lapply(al, function(x) t(sapply(1:n, function(t) if (t == 1) rep(y[1], h) else as.numeric(ses(y[1:t], alpha = x, initial = "simple", h = h)$mean))))
     orig <- lapply(org, function(o) rbind(rep(y[1], h), o[1:(n - 1), , drop = FALSE]))
@@ -162,13 +159,30 @@ function windowTotalInR(values: string, h: number, a: number) {
     lo <- pmin((tot[[1]]$lo + tot[[2]]$lo) / 2, mu - q * s * abs(mu)); hi <- pmax((tot[[1]]$hi + tot[[2]]$hi) / 2, mu + q * s * abs(mu))
     for (k in 1:2) { out(paste0("tm", k), tot[[k]]$mean); out(paste0("tl", k), tot[[k]]$lo); out(paste0("th", k), tot[[k]]$hi)
       out(paste0("orig", k), t(orig[[k]])); out(paste0("sd", k), (fc[[k]]$upper[, 2] - fc[[k]]$mean) / qnorm(0.975)) }
-    out("y", y); out("mu", mu); out("lo", lo); out("hi", hi); out("df", df); out("N", N)`);
+    out("y", y); out("mu", mu); out("lo", lo); out("hi", hi); out("df", df); out("N", N)`;
 }
+
+/** Every R reference of this file, computed in one R session (R 4.x + forecast, as named in each test). */
+const R = rEvalBatch({
+  ...Object.fromEntries(
+    AGREEING.map((c) => [
+      `auto_${c.series}`,
+      `y <- ${c.series}; m <- frequency(y); h <- if (m > 1) 2 * m else 10
+        f <- ets(y); a <- forecast(f, h = h)$mean; b <- thetaf(y, h = h)$mean
+        out("y", y); out("m", m); out("h", h); out("mean", (a + b) / 2)
+        out("model", match(unlist(strsplit(gsub("ETS\\\\(|\\\\)", "", f$method), ",")), c("A", "M", "N", "Ad")))`,
+    ]),
+  ),
+  ukgas: "out('y', UKgas)",
+  nile: sesPairInR("as.numeric(Nile)", 10),
+  nile15: sesPairInR("as.numeric(Nile)[1:15]", 10),
+  window: windowTotalInR("as.numeric(Nile)", 10, 4),
+});
 
 describe("combineTotals: a window's total widened to the history's window sums", () => {
   it("matches an R computation of the rule for periods 4..10 on the Nile series", () => {
     const [h, a] = [10, 4];
-    const r = windowTotalInR("as.numeric(Nile)", h, a);
+    const r = R.window; // h = 10, a = 4
     const members = [1, 2].map((i) => ({ forecast: { method: "ses" as const, mean: [], levels: [80, 95], lower: {}, upper: {}, sd: r[`sd${i}`] }, origins: Array.from({ length: r.y.length }, (_, t) => r[`orig${i}`].slice(t * h, (t + 1) * h)) }));
     const totals = [1, 2].map((i) => ({ mean: r[`tm${i}`][0], lower: { "80": r[`tl${i}`][0], "95": r[`tl${i}`][1] }, upper: { "80": r[`th${i}`][0], "95": r[`th${i}`][1] } }));
     const c = combineTotals(totals, members, r.y, 1, h, [80, 95], a);

@@ -5,7 +5,7 @@ import drift from "../../lib/forecast/methods/drift";
 import linearTrend from "../../lib/forecast/methods/linear-trend";
 import type { Method } from "../../lib/forecast/types";
 import { ForecastInputError } from "../../lib/forecast/types";
-import { expectClose, runR } from "../stats/rscript";
+import { expectClose, runRBatch } from "../stats/rscript";
 
 /**
  * Each case runs R's forecast 8.20 on a built-in series and compares means, 80% and 95%
@@ -32,12 +32,28 @@ const CASES: readonly Case[] = [
   { method: linearTrend, r: "forecast(tslm(y ~ trend), h = h, level = c(80, 95))", series: "lynx", h: 15 },
 ];
 
-describe("simple methods against R forecast 8.20 run now via Rscript", () => {
-  for (const c of CASES) {
-    it(`${c.method.id} on ${c.series}, h = ${c.h}: mean, 80%/95% bounds and fitted values equal R's ${c.r.split("(")[0]}()`, () => {
-      const rows = runR(`suppressPackageStartupMessages(library(forecast))
+/** Every R reference of this file, computed in one R session (the R calls named in each test). */
+const R = runRBatch({
+  ...Object.fromEntries(
+    CASES.map((c, i) => [
+      `case${i}`,
+      `suppressPackageStartupMessages(library(forecast))
 y <- ${c.series}; h <- ${c.h}; fc <- ${c.r}
-out(y); out(frequency(y)); out(fc$mean); out(fc$lower[, 1]); out(fc$lower[, 2]); out(fc$upper[, 1]); out(fc$upper[, 2]); out(fitted(fc))`);
+out(y); out(frequency(y)); out(fc$mean); out(fc$lower[, 1]); out(fc$lower[, 2]); out(fc$upper[, 1]); out(fc$upper[, 2]); out(fitted(fc))`,
+    ]),
+  ),
+  fixedSlope: `y <- as.numeric(Nile); n <- length(y); t <- 1:n; b <- -2.5; h <- 5
+f <- lm(I(y - b * t) ~ 1); p <- predict(f, data.frame(row = 1:h), interval = "prediction", level = 0.95)
+out(y); out(coef(f)); out(p[, "fit"] + b * (n + 1:h)); out(p[, "lwr"] + b * (n + 1:h)); out(p[, "upr"] + b * (n + 1:h))`,
+  bothFixed: `y <- as.numeric(WWWusage); n <- length(y); t <- 1:n; a <- 100; b <- 0.8
+e <- y - a - b * t; s <- sqrt(sum(e^2) / n); m <- a + b * (n + 1:3)
+out(y); out(m - qt(0.9, n) * s); out(m + qt(0.975, n) * s)`,
+});
+
+describe("simple methods against R forecast 8.20 run now via Rscript", () => {
+  for (const [i, c] of CASES.entries()) {
+    it(`${c.method.id} on ${c.series}, h = ${c.h}: mean, 80%/95% bounds and fitted values equal R's ${c.r.split("(")[0]}()`, () => {
+      const rows = R[`case${i}`];
       const [y, [m], mean, l80, l95, u80, u95, fitted] = rows;
       const fit = c.method.fit({ y, season: m });
       const f = c.method.forecast(fit, c.h, [80, 95]);
@@ -99,9 +115,7 @@ describe("simple methods: input policy", () => {
 
 describe("linear-trend with fixed coefficients (estimated unless given)", () => {
   it("fixed slope: intercept estimated on y − slope·t; intervals as R lm(I(y − b·t) ~ 1) + predict.lm", () => {
-    const rows = runR(`y <- as.numeric(Nile); n <- length(y); t <- 1:n; b <- -2.5; h <- 5
-f <- lm(I(y - b * t) ~ 1); p <- predict(f, data.frame(row = 1:h), interval = "prediction", level = 0.95)
-out(y); out(coef(f)); out(p[, "fit"] + b * (n + 1:h)); out(p[, "lwr"] + b * (n + 1:h)); out(p[, "upr"] + b * (n + 1:h))`);
+    const rows = R.fixedSlope; // R lm() + predict.lm, above
     const [y, [a], mean, lwr, upr] = rows;
     const fit = linearTrend.fit({ y, season: 1, fixed: { slope: -2.5 } });
     expect(fit.parameters.slope).toBe(-2.5);
@@ -112,9 +126,7 @@ out(y); out(coef(f)); out(p[, "fit"] + b * (n + 1:h)); out(p[, "lwr"] + b * (n +
     expectClose(f.upper["95"], upr, 1e-12, "upper 95");
   });
   it("both fixed (coefficients known): s² = SSE/n, bounds ŷ ± t_n·s (computed in R)", () => {
-    const rows = runR(`y <- as.numeric(WWWusage); n <- length(y); t <- 1:n; a <- 100; b <- 0.8
-e <- y - a - b * t; s <- sqrt(sum(e^2) / n); m <- a + b * (n + 1:3)
-out(y); out(m - qt(0.9, n) * s); out(m + qt(0.975, n) * s)`);
+    const rows = R.bothFixed; // R qt(), above
     const [y, l80, u95] = rows;
     const fit = linearTrend.fit({ y, season: 1, fixed: { intercept: 100, slope: 0.8 } });
     const f = linearTrend.forecast(fit, 3, [80, 95]);

@@ -50,7 +50,41 @@ const PRELUDE_BASE = PRELUDE.replace("suppressMessages(library(forecast))\n", ""
  */
 export function rEval(code: string, options: { withForecast?: boolean } = {}): Record<string, number[]> {
   const prelude = options.withForecast === false ? PRELUDE_BASE : PRELUDE;
-  const text = runRscript(prelude + code);
+  return parseOut(runRscript(prelude + code));
+}
+
+/** Splits Rscript output into the sections that {@link batchScript} marked with `@@key` lines. */
+export function sections<K extends string>(keys: readonly K[], text: string): Record<K, string> {
+  const result = Object.fromEntries(keys.map((k) => [k, ""])) as Record<K, string>;
+  let current: K | undefined;
+  for (const line of text.split("\n")) {
+    if (line.startsWith("@@")) current = line.slice(2) as K;
+    else if (current !== undefined) result[current] += line + "\n";
+  }
+  return result;
+}
+
+/** One script running each snippet in its own environment (`local`, its value not printed), each output after a `@@key` line. */
+export function batchScript(snippets: Record<string, string>): string {
+  return Object.entries(snippets)
+    .map(([key, code]) => `cat("@@${key}\\n")\ninvisible(local({\n${code}\n}))\n`)
+    .join("");
+}
+
+/**
+ * Several {@link rEval} snippets in one Rscript: one R start-up (and one `library(forecast)`)
+ * per test file instead of one per check. Each snippet runs in its own environment, so names
+ * do not leak from one to the next; the result maps each key to that snippet's `out` vectors.
+ */
+export function rEvalBatch<K extends string>(snippets: Record<K, string>, options: { withForecast?: boolean } = {}): Record<K, Record<string, number[]>> {
+  const keys = Object.keys(snippets) as K[];
+  const prelude = options.withForecast === false ? PRELUDE_BASE : PRELUDE;
+  const text = sections(keys, runRscript(prelude + batchScript(snippets)));
+  return Object.fromEntries(keys.map((k) => [k, parseOut(text[k])])) as Record<K, Record<string, number[]>>;
+}
+
+/** Lines `name=v1,v2,…` (from `out(name, x)`) as named vectors; `NA` as NaN. */
+function parseOut(text: string): Record<string, number[]> {
   const result: Record<string, number[]> = {};
   for (const line of text.split("\n")) {
     const eq = line.indexOf("=");
@@ -61,6 +95,7 @@ export function rEval(code: string, options: { withForecast?: boolean } = {}): R
   }
   return result;
 }
+
 
 /** Formats numbers as an R vector literal (shortest round-trip decimals; NaN and ±Inf as R's). */
 export function rVector(values: readonly number[]): string {

@@ -3,7 +3,7 @@
  * the numbers it prints. Expected values in the tests come from R, outside this project.
  * The helper never skips: if Rscript is missing the test fails and says so.
  */
-import { runRscript } from "../helpers/r";
+import { batchScript, runRscript, sections } from "../helpers/r";
 
 export { rVector } from "../helpers/r";
 
@@ -27,12 +27,26 @@ function parseToken(tok: string): number {
  * (each `out(x)` call gives one line).
  */
 export function runR(code: string): number[][] {
-  const stdout = runRscript(PRELUDE + code);
+  return lines(runRscript(PRELUDE + code));
+}
+
+/** Each printed line as an array of numbers. */
+function lines(stdout: string): number[][] {
   return stdout
     .split("\n")
     .map((l) => l.trim())
     .filter((l) => l.length > 0)
     .map((l) => l.split(/\s+/).map(parseToken));
+}
+
+/**
+ * Several {@link runR} snippets in one Rscript (one R start-up per test file instead of one per
+ * check), each in its own environment; returns each key's printed lines.
+ */
+export function runRBatch<K extends string>(snippets: Record<K, string>): Record<K, number[][]> {
+  const keys = Object.keys(snippets) as K[];
+  const text = sections(keys, runRscript(PRELUDE + batchScript(snippets)));
+  return Object.fromEntries(keys.map((k) => [k, lines(text[k])])) as Record<K, number[][]>;
 }
 
 /** Relative difference |a − b| / max(|b|, tiny); 0 when both are the same non-finite value. */
