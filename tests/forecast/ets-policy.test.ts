@@ -90,7 +90,12 @@ describe("multiplicative seasonality refuses zeros and negatives", () => {
   });
   it("accepts the same series when positive", () => {
     expect(hwMultiplicative.applicable(base, 4, false)).toBe(true);
-    expect(() => hwMultiplicative.fit({ y: base, season: 4 })).not.toThrow();
+    const fit = hwMultiplicative.fit({ y: base, season: 4 });
+    // A fit, not only no error: a fitted value for each of the 24 observations, and the SSE is
+    // Σ(y − ŷ)² over them (definition).
+    expect(fit.fitted).toHaveLength(24);
+    expect(fit.fitted.every(Number.isFinite)).toBe(true);
+    expect(fit.sse).toBeCloseTo(base.reduce((a, v, i) => a + (v - fit.fitted[i]) ** 2, 0), 6);
   });
 });
 

@@ -1,16 +1,8 @@
-import { execFileSync } from "node:child_process";
 import { describe, expect, it } from "vitest";
 import ses from "../../lib/forecast/methods/ses";
 import { originPlan, rollingOrigin, selectMethod } from "../../lib/forecast/select";
 import type { Method, MethodId } from "../../lib/forecast/types";
-
-/** Evaluates R code and returns the printed numbers. */
-function r(code: string): number[] {
-  return execFileSync("Rscript", ["-e", code], { encoding: "utf8", stdio: "pipe" }).trim().split(/\s+/).map(Number);
-}
-
-/** R's datasets::Nile (annual flow of the Nile at Aswan, 1871–1970), read from R itself. */
-const NILE = r("cat(format(as.numeric(Nile), digits = 17))");
+import { rEvalBatch } from "../helpers/r";
 
 /**
  * SES with alpha fixed and the level started at the first value: the same model as R's
@@ -28,17 +20,48 @@ function fixedSes(alpha: number, id: MethodId = "ses"): Method {
   };
 }
 
-/** R 4.2.2 + forecast 8.20: mean over the last three origins of MAE(tsCV errors) / in-sample naive MAE. */
-const R_ROLLING_MASE = (forecastFn: string, h: number) => `
-  suppressMessages(library(forecast)); y <- as.numeric(Nile); n <- length(y); h <- ${h}
-  fc <- ${forecastFn}
+/** R: SES(α) with ℓ0 = y1, as `fixedSes`; the mean of two as the equal-weight combination. */
+const SES = (alpha: number) => `function(x, h) ses(x, alpha = ${alpha}, initial = "simple", h = h)`;
+const PAIR = (a: number, b: number) => `function(x, h) list(mean = (ses(x, alpha = ${a}, initial = "simple", h = h)$mean + ses(x, alpha = ${b}, initial = "simple", h = h)$mean) / 2)`;
+
+/**
+ * R 4.x + forecast: mean over three origins (the last at n − h, then `step` apart) of
+ * MAE(tsCV errors) / in-sample naive MAE, the rolling-origin MASE of lib/forecast/select.ts.
+ */
+const rollingMase = (forecastFn: string, h: number, step: number) => `fc <- ${forecastFn}; h <- ${h}
   e <- tsCV(y, fc, h = h)
-  origins <- c(n - h, n - h - 1, n - h - 2)
-  cat(format(mean(sapply(origins, function(t) mean(abs(e[t, ])) / mean(abs(diff(y[1:t]))))), digits = 17))`;
+  origins <- n - h - ${step} * (0:2)
+  out("mase", mean(sapply(origins, function(t) mean(abs(e[t, ])) / mean(abs(diff(y[1:t]))))))`;
+
+/** Every R reference of this file, in one R session. */
+const R = rEvalBatch(
+  Object.fromEntries(
+    Object.entries({
+      nile: `out("y", Nile)`, // R's datasets::Nile (annual flow of the Nile at Aswan, 1871–1970)
+      ses05h5: rollingMase(SES(0.5), 5, 1),
+      pair0502h4: rollingMase(PAIR(0.5, 0.2), 4, 1),
+      // selectMethod's default spacing of origins is 2
+      ses09h5s2: rollingMase(SES(0.9), 5, 2),
+      ses02h5s2: rollingMase(SES(0.2), 5, 2),
+      ses05h4s2: rollingMase(SES(0.5), 4, 2),
+      ses02h4s2: rollingMase(SES(0.2), 4, 2),
+      pair0502h4s2: rollingMase(PAIR(0.5, 0.2), 4, 2),
+      ses07h10: rollingMase(SES(0.7), 10, 1),
+      ses01h10: rollingMase(SES(0.1), 10, 1),
+      pair0701h10: rollingMase(PAIR(0.7, 0.1), 10, 1),
+      // Expected: ses(Nile, alpha, initial = "simple", h = 10, level = c(80, 95)), averaged.
+      combined: `a <- ses(Nile, alpha = 0.7, initial = "simple", h = 10, level = c(80, 95))
+        b <- ses(Nile, alpha = 0.1, initial = "simple", h = 10, level = c(80, 95))
+        out("mean", (a$mean + b$mean) / 2); out("lower80", (a$lower[, 1] + b$lower[, 1]) / 2); out("upper95", (a$upper[, 2] + b$upper[, 2]) / 2)`,
+    }).map(([k, code]) => [k, `y <- as.numeric(Nile); n <- length(y)\n${code}`]),
+  ),
+);
+const NILE = R.nile.y;
+const mase = (key: string) => R[key].mase[0];
 
 describe("rolling-origin MASE", () => {
   it("equals the MASE of R's tsCV() errors for SES(alpha = 0.5) on the Nile series", () => {
-    const expected = r(R_ROLLING_MASE('function(x, h) ses(x, alpha = 0.5, initial = "simple", h = h)', 5))[0];
+    const expected = mase("ses05h5");
     for (const refit of ["full", "update"] as const) {
       const score = rollingOrigin(fixedSes(0.5), { y: NILE, season: 1, horizon: 5 }, 3, 1, refit);
       expect(score.origins).toBe(3);
@@ -47,12 +70,7 @@ describe("rolling-origin MASE", () => {
   });
 
   it("scores the equal-weight combination like R's tsCV() of the averaged forecasts", () => {
-    const expected = r(
-      R_ROLLING_MASE(
-        `function(x, h) list(mean = (ses(x, alpha = 0.5, initial = "simple", h = h)$mean + ses(x, alpha = 0.2, initial = "simple", h = h)$mean) / 2)`,
-        4,
-      ),
-    )[0];
+    const expected = mase("pair0502h4");
     const sel = selectMethod([fixedSes(0.5, "ses"), fixedSes(0.2, "holt")], { y: NILE, season: 1, horizon: 4 }, { strategy: "combine", combine: 2, step: 1 });
     expect(sel.combination?.methods).toHaveLength(2);
     expect(sel.combination?.mase).toBeCloseTo(expected, 10);
@@ -70,9 +88,13 @@ describe("selectMethod", () => {
     const sel = selectMethod([fixedSes(0.9, "ses"), failing, fixedSes(0.2, "holt")], { y: NILE, season: 1, horizon: 5 });
     expect(sel.candidates.map((c) => c.method)).toEqual(["ses", "theta", "holt"]);
     expect(sel.candidates[1]).toEqual({ method: "theta", mase: null, origins: 0, error: "boom at this origin" });
+    // R's tsCV scores (default spacing 2): SES(0.9) 1.0929, SES(0.2) 0.99993, so SES(0.2), listed as "holt".
     const [a, , c] = sel.candidates;
-    expect(sel.chosen).toEqual([a.mase! <= c.mase! ? "ses" : "holt"]);
-    expect(sel.mase).toBe(Math.min(a.mase!, c.mase!));
+    expect(a.mase).toBeCloseTo(mase("ses09h5s2"), 10);
+    expect(c.mase).toBeCloseTo(mase("ses02h5s2"), 10);
+    expect(mase("ses02h5s2")).toBeLessThan(mase("ses09h5s2"));
+    expect(sel.chosen).toEqual(["holt"]);
+    expect(sel.mase).toBeCloseTo(mase("ses02h5s2"), 10);
   });
 
   it("breaks a tie in favour of the method listed first", () => {
@@ -82,10 +104,17 @@ describe("selectMethod", () => {
   });
 
   it("chooses the combination only when it scores better than the best single candidate", () => {
-    const sel = selectMethod([fixedSes(0.5, "ses"), fixedSes(0.2, "holt")], { y: NILE, season: 1, horizon: 4 }, { strategy: "combine", combine: 2 });
-    const best = Math.min(...sel.candidates.map((c) => c.mase!));
-    if (sel.combination!.mase < best) expect(sel.chosen).toHaveLength(2);
-    else expect(sel.chosen).toHaveLength(1);
+    // R's tsCV scores, h = 4, spacing 2: SES(0.5) 1.1299, SES(0.2) 0.97187, their mean 1.0509: not chosen.
+    const worse = selectMethod([fixedSes(0.5, "ses"), fixedSes(0.2, "holt")], { y: NILE, season: 1, horizon: 4 }, { strategy: "combine", combine: 2 });
+    expect(worse.candidates.map((c) => c.mase)).toEqual([expect.closeTo(mase("ses05h4s2"), 10), expect.closeTo(mase("ses02h4s2"), 10)]);
+    expect(worse.combination!.mase).toBeCloseTo(mase("pair0502h4s2"), 10);
+    expect(mase("pair0502h4s2")).toBeGreaterThan(mase("ses02h4s2"));
+    expect(worse.chosen).toEqual(["holt"]);
+    // R's tsCV scores, h = 10, spacing 1: SES(0.7) 0.85497, SES(0.1) 0.82551, their mean 0.81236: chosen.
+    const better = selectMethod([fixedSes(0.7, "ses"), fixedSes(0.1, "holt")], { y: NILE, season: 1, horizon: 10 }, { strategy: "combine", combine: 2, step: 1 });
+    expect(better.combination!.mase).toBeCloseTo(mase("pair0701h10"), 10);
+    expect(mase("pair0701h10")).toBeLessThan(Math.min(mase("ses07h10"), mase("ses01h10")));
+    expect([...better.chosen].sort()).toEqual(["holt", "ses"]);
   });
 
   it("shortens the evaluated horizon on short series and says so", () => {
@@ -106,7 +135,7 @@ describe("baseline() with a combination", () => {
   it("averages the members' means and interval bounds, matching R's ses() forecasts averaged", async () => {
     const { baseline } = await import("../../lib/forecast/baseline");
     // On the Nile series with h = 10, the combination of SES(0.7) and SES(0.1) scores below both
-    // (rolling-origin MASE 0.812 against 0.855 and 0.826 here; the scoring is checked against R's tsCV above).
+    // (R's tsCV rolling-origin MASE 0.812 against 0.855 and 0.826: the selection test above).
     const res = baseline(NILE, {
       horizon: 10,
       strategy: "combine",
@@ -117,15 +146,11 @@ describe("baseline() with a combination", () => {
     expect(res.method).toBe("combination");
     expect(res.parameters).toEqual({ ses: 0.5, holt: 0.5 });
     expect(res.combination!.map((c) => c.method)).toEqual(["holt", "ses"]);
-    // Expected: R 4.2.2 + forecast 8.20, ses(Nile, alpha, initial = "simple", h = 10, level = c(80, 95)), averaged.
-    const rv = r(`suppressMessages(library(forecast));
-      a <- ses(Nile, alpha = 0.7, initial = "simple", h = 10, level = c(80, 95));
-      b <- ses(Nile, alpha = 0.1, initial = "simple", h = 10, level = c(80, 95));
-      cat(format(c((a$mean + b$mean) / 2, (a$lower[, 1] + b$lower[, 1]) / 2, (a$upper[, 2] + b$upper[, 2]) / 2), digits = 17))`);
+    // Expected: R 4.x + forecast, ses(Nile, alpha, initial = "simple", h = 10, level = c(80, 95)), averaged.
     res.forecast.forEach((s, i) => {
-      expect(s.mean).toBeCloseTo(rv[i], 8);
-      expect(s.lower["80"]).toBeCloseTo(rv[10 + i], 8);
-      expect(s.upper["95"]).toBeCloseTo(rv[20 + i], 8);
+      expect(s.mean).toBeCloseTo(R.combined.mean[i], 8);
+      expect(s.lower["80"]).toBeCloseTo(R.combined.lower80[i], 8);
+      expect(s.upper["95"]).toBeCloseTo(R.combined.upper95[i], 8);
     });
   });
 });
