@@ -12,6 +12,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { api, apiTokenFor, baseURL, clearDatabase, createAccount, signIn } from "./api-client";
+import { classicalScoresInR } from "../helpers/classical-model-r";
 import { expectClose, runR, rVector } from "../stats/rscript";
 
 let owner = "";
@@ -156,28 +157,7 @@ describe("scores, pools and the out-of-sample comparison", () => {
   let rInf: number[] = [];
   let rEqual: number[] = [];
   beforeAll(() => {
-    const calib = (j: number) => `list(${ANSWERS.map((a) => rVector(a[j])).join(", ")})`;
-    const lines = runR(`
-      p <- c(0.05, 0.45, 0.45, 0.05)
-      Q <- list(${[0, 1, 2].map(calib).join(", ")})
-      truth <- ${rVector(TRUE)}
-      cal <- c(); inf <- c()
-      for (e in 1:4) {
-        bins <- c(0, 0, 0, 0); info <- 0
-        for (j in 1:3) {
-          a <- Q[[j]][[e]]; x <- truth[j]
-          k <- if (x <= a[1]) 1 else if (x <= a[2]) 2 else if (x <= a[3]) 3 else 4
-          bins[k] <- bins[k] + 1
-          v <- c(unlist(Q[[j]]), x); L <- min(v); U <- max(v)
-          Ls <- L - 0.1 * (U - L); Us <- U + 0.1 * (U - L)
-          xs <- c(Ls, a, Us)
-          info <- info + sum(p * log(p / diff(xs))) + log(Us - Ls)
-        }
-        s <- bins / 3
-        I <- sum(ifelse(s > 0, s * log(s / p), 0))
-        cal <- c(cal, pchisq(2 * 3 * I, 3, lower.tail = FALSE)); inf <- c(inf, info / 3)
-      }
-      out(cal); out(inf)
+    const lines = runR(`${classicalScoresInR(ANSWERS, TRUE)}
       A <- list(${ANSWERS.map((a) => rVector(a[3])).join(", ")})
       v <- unlist(A); L <- min(v); U <- max(v); Ls <- L - 0.1 * (U - L); Us <- U + 0.1 * (U - L)
       Fs <- lapply(A, function(a) approxfun(c(Ls, a, Us), c(0, 0.1, 0.5, 0.9, 1), rule = 2, ties = "ordered"))

@@ -13,7 +13,8 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { api, apiTokenFor, baseURL, clearDatabase, createAccount } from "./api-client";
-import { expectClose, runR, rVector } from "../stats/rscript";
+import { classicalScoresInR } from "../helpers/classical-model-r";
+import { expectClose, runR } from "../stats/rscript";
 
 let owner = "";
 let panelId = "";
@@ -118,28 +119,7 @@ describe("a practice set", () => {
       await ok("POST", `/api/v1/panels/${panelId}/rounds/1/close`, owner);
       report = await ok("GET", `/api/v1/panels/${panelId}/performance-weights`, owner);
       // R: each panelist's bins, calibration (pchisq, 3 degrees of freedom) and information (10% overshoot).
-      const q = (j: number) => `list(${ANSWERS.map((a) => rVector(a[j])).join(", ")})`;
-      [rCal, rInf] = runR(`
-        p <- c(0.05, 0.45, 0.45, 0.05)
-        Q <- list(${[0, 1, 2].map(q).join(", ")})
-        truth <- ${rVector(TRUE)}
-        cal <- c(); inf <- c()
-        for (e in 1:2) {
-          bins <- c(0, 0, 0, 0); info <- 0
-          for (j in 1:3) {
-            a <- Q[[j]][[e]]; x <- truth[j]
-            k <- if (x <= a[1]) 1 else if (x <= a[2]) 2 else if (x <= a[3]) 3 else 4
-            bins[k] <- bins[k] + 1
-            v <- c(unlist(Q[[j]]), x); L <- min(v); U <- max(v)
-            Ls <- L - 0.1 * (U - L); Us <- U + 0.1 * (U - L)
-            info <- info + sum(p * log(p / diff(c(Ls, a, Us)))) + log(Us - Ls)
-          }
-          s <- bins / 3
-          I <- sum(ifelse(s > 0, s * log(s / p), 0))
-          cal <- c(cal, pchisq(2 * 3 * I, 3, lower.tail = FALSE)); inf <- c(inf, info / 3)
-        }
-        out(cal); out(inf)
-      `);
+      [rCal, rInf] = runR(classicalScoresInR(ANSWERS, TRUE));
     });
 
     it("each panelist sees the true values, which fell inside their P5–P95, and their own scores: the organiser's figures for their pseudonym and R's", async () => {
