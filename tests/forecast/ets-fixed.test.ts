@@ -19,7 +19,7 @@ import dampedHolt from "../../lib/forecast/methods/damped-holt";
 import hwAdditive from "../../lib/forecast/methods/holt-winters-additive";
 import hwMultiplicative from "../../lib/forecast/methods/holt-winters-multiplicative";
 import type { Method } from "../../lib/forecast/types";
-import { maxRelDiff, preloadSeries, rEval, rSeries, rVector } from "../helpers/r";
+import { maxRelDiff, preloadSeries, rEvalBatch, rSeries, rVector } from "../helpers/r";
 
 const TOL = 1e-8;
 const H = 30;
@@ -76,15 +76,13 @@ function fixedOf(c: Case): Record<string, number> {
   return fixed;
 }
 
-describe("ETS recursions at fixed parameters and states equal R's etscalc (forecast:::pegelsresid.C)", () => {
-  for (const c of cases) {
-    it(c.name, () => {
-      const { y, m: freq } = rSeries(c.series);
-      const m = c.season === "N" ? 1 : freq;
-      const init = [c.l0, ...(c.trend === "A" ? [c.b0!] : []), ...(c.s ? [...c.s].reverse() : [])];
-      const par = `c(alpha = ${c.alpha}, beta = ${c.beta ?? 0}, gamma = ${c.gamma ?? 0}, phi = ${c.phi ?? 1})`;
-      const p = init.length;
-      const code = `
+/** R code: etscalc (forecast:::pegelsresid.C) at the case's parameters and states, and its forecasts. */
+function etscalcCode(c: Case): string {
+  const m = c.season === "N" ? 1 : rSeries(c.series).m;
+  const init = [c.l0, ...(c.trend === "A" ? [c.b0!] : []), ...(c.s ? [...c.s].reverse() : [])];
+  const par = `c(alpha = ${c.alpha}, beta = ${c.beta ?? 0}, gamma = ${c.gamma ?? 0}, phi = ${c.phi ?? 1})`;
+  const p = init.length;
+  return `
         y <- as.numeric(${c.series}); m <- ${m}; h <- ${H}; par <- ${par}
         r <- forecast:::pegelsresid.C(y, m, ${rVector(init)}, "A", "${c.trend}", "${c.season}", ${c.damped ? "TRUE" : "FALSE"},
                                       par[["alpha"]], par[["beta"]], par[["gamma"]], par[["phi"]], 2)
@@ -96,7 +94,27 @@ describe("ETS recursions at fixed parameters and states equal R's etscalc (forec
         } else {
           out("mean", forecast:::class1(h, last, "${c.trend}", "${c.season}", ${c.damped ? "TRUE" : "FALSE"}, m, 1, par)$mu)
         }`;
-      const r = rEval(code);
+}
+
+const CO2_SEASON = [-0.05, 0.6, 1.3, 2.5, 3.0, 2.3, 0.8, -1.2, -3.0, -3.2, -2.0, -1.0];
+
+/** Every R reference of this file, in one R session (R 4.x forecast and stats, as named in each test). */
+const R = rEvalBatch<string>({
+  ...Object.fromEntries(cases.map((c, i) => [`case${i}`, etscalcCode(c)])),
+  hwNile: `hw <- HoltWinters(Nile, alpha = 0.25, beta = FALSE, gamma = FALSE)
+      out("xhat", fitted(hw)[, "xhat"]); out("pred", predict(hw, n.ahead = 5)); out("sse", hw$SSE)`,
+  hwWww: `hw <- HoltWinters(WWWusage, alpha = 0.8, beta = 0.3, gamma = FALSE)
+      out("xhat", fitted(hw)[, "xhat"]); out("pred", predict(hw, n.ahead = 5)); out("sse", hw$SSE)`,
+  hwCo2: `hw <- HoltWinters(co2, alpha = 0.5, beta = 0.01, gamma = 0.3, seasonal = "additive",
+        l.start = 315.5, b.start = 0.08, s.start = ${rVector(CO2_SEASON)})
+      out("xhat", fitted(hw)[, "xhat"]); out("pred", predict(hw, n.ahead = 24)); out("sse", hw$SSE)`,
+});
+
+describe("ETS recursions at fixed parameters and states equal R's etscalc (forecast:::pegelsresid.C)", () => {
+  for (const [i, c] of cases.entries()) {
+    it(c.name, () => {
+      const { y, m: freq } = rSeries(c.series);
+      const r = R[`case${i}`];
       const fit = c.method.fit({ y, season: freq, fixed: fixedOf(c) });
       const fc = c.method.forecast(fit, H, [80, 95]);
       // R 4.x forecast:::pegelsresid.C (etscalc), computed in the test.
@@ -119,8 +137,7 @@ describe("ETS recursions at fixed parameters and states equal R's etscalc (forec
 describe("additive models at fixed parameters equal stats::HoltWinters (component form mapped by β = αβ*, γ = (1 − α)γ*)", () => {
   it("SES on Nile: HoltWinters(alpha = 0.25, beta = FALSE, gamma = FALSE), l.start = y1", () => {
     const { y } = rSeries("Nile");
-    const r = rEval(`hw <- HoltWinters(Nile, alpha = 0.25, beta = FALSE, gamma = FALSE)
-      out("xhat", fitted(hw)[, "xhat"]); out("pred", predict(hw, n.ahead = 5)); out("sse", hw$SSE)`, { withForecast: false });
+    const r = R.hwNile;
     // HoltWinters starts with level y1 and first fits y2: our series is y2..yn with l0 = y1.
     const fit = ses.fit({ y: y.slice(1), season: 1, fixed: { alpha: 0.25, l0: y[0] } });
     expect(maxRelDiff(fit.fitted, r.xhat)).toBeLessThan(TOL); // R 4.x stats::HoltWinters, computed in the test
@@ -130,8 +147,7 @@ describe("additive models at fixed parameters equal stats::HoltWinters (componen
 
   it("Holt on WWWusage: HoltWinters(alpha = 0.8, beta = 0.3, gamma = FALSE), l.start = y2, b.start = y2 − y1", () => {
     const { y } = rSeries("WWWusage");
-    const r = rEval(`hw <- HoltWinters(WWWusage, alpha = 0.8, beta = 0.3, gamma = FALSE)
-      out("xhat", fitted(hw)[, "xhat"]); out("pred", predict(hw, n.ahead = 5)); out("sse", hw$SSE)`, { withForecast: false });
+    const r = R.hwWww;
     const fit = holt.fit({ y: y.slice(2), season: 1, fixed: { alpha: 0.8, beta: 0.8 * 0.3, l0: y[1], b0: y[1] - y[0] } });
     expect(maxRelDiff(fit.fitted, r.xhat)).toBeLessThan(TOL); // R 4.x stats::HoltWinters, computed in the test
     expect(maxRelDiff([fit.sse], r.sse)).toBeLessThan(TOL);
@@ -140,10 +156,8 @@ describe("additive models at fixed parameters equal stats::HoltWinters (componen
 
   it("Holt-Winters additive on co2: HoltWinters(alpha = 0.5, beta = 0.01, gamma = 0.3) with given l.start, b.start, s.start", () => {
     const { y, m } = rSeries("co2");
-    const s = [-0.05, 0.6, 1.3, 2.5, 3.0, 2.3, 0.8, -1.2, -3.0, -3.2, -2.0, -1.0];
-    const r = rEval(`hw <- HoltWinters(co2, alpha = 0.5, beta = 0.01, gamma = 0.3, seasonal = "additive",
-        l.start = 315.5, b.start = 0.08, s.start = ${rVector(s)})
-      out("xhat", fitted(hw)[, "xhat"]); out("pred", predict(hw, n.ahead = 24)); out("sse", hw$SSE)`, { withForecast: false });
+    const s = CO2_SEASON;
+    const r = R.hwCo2;
     // HoltWinters' first fitted observation is y_{m+1}; its start values are the states before it.
     const fixed: Record<string, number> = { alpha: 0.5, beta: 0.5 * 0.01, gamma: (1 - 0.5) * 0.3, l0: 315.5, b0: 0.08 };
     s.forEach((v, i) => (fixed[`s${i + 1}`] = v));
