@@ -46,7 +46,7 @@ const KPSS_SERIES = ["Nile", "WWWusage", "lynx", "austres", "LakeHuron", "lh", "
 const AUTO_SERIES = ["WWWusage", "LakeHuron", "lh"];
 
 /** Every R reference of this file, computed in one R session (R's calls as named in each test). */
-const R = runRBatch({
+const R = runRBatch<string>({
   ...Object.fromEntries(
     FIXED_ORDER_CASES.map((c, i) => [
       `ml${i}`,

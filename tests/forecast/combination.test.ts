@@ -163,7 +163,7 @@ function windowTotalInR(values: string, h: number, a: number): string {
 }
 
 /** Every R reference of this file, computed in one R session (R 4.x + forecast, as named in each test). */
-const R = rEvalBatch({
+const R = rEvalBatch<string>({
   ...Object.fromEntries(
     AGREEING.map((c) => [
       `auto_${c.series}`,

@@ -55,7 +55,7 @@ const rFits: { name: string; method: Method; series: string; model: string; damp
 const AAM_H = 24;
 
 /** R's fits of this file (one R session): R 4.x forecast::ets and forecast(), as named in each test. */
-const R = rEvalBatch({
+const R = rEvalBatch<string>({
   ...Object.fromEntries(
     rFits.map((c, i) => [
       `fit${i}`,

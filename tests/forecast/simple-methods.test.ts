@@ -33,7 +33,7 @@ const CASES: readonly Case[] = [
 ];
 
 /** Every R reference of this file, computed in one R session (the R calls named in each test). */
-const R = runRBatch({
+const R = runRBatch<string>({
   ...Object.fromEntries(
     CASES.map((c, i) => [
       `case${i}`,
