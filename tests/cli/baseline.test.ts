@@ -64,7 +64,7 @@ beforeAll(() => {
     nileDrift: `out(forecast::rwf(Nile, h = 2, drift = TRUE)$mean)`,
     lakeDrift: `f <- forecast::rwf(as.numeric(LakeHuron), h = 3, drift = TRUE, level = 80); out(c(f$mean, f$lower, f$upper))`,
   });
-});
+}, 120_000); // one R start with forecast: seconds, longer on a loaded machine
 
 afterAll(() => {
   process.chdir(cwd);
