@@ -166,11 +166,11 @@ export function fitStateSpace(
         inner.forEach((i, j) => (full[i] = v[j]));
         return objective(full);
       };
-      const r = minimise(sub, inner.map((i) => x0[i]), { lower: inner.map((i) => lower[i]), upper: inner.map((i) => upper[i]), step: inner.map((i) => step[i]), restarts: 1, tol: 1e-10 });
+      const r = minimise(sub, inner.map((i) => x0[i]), { lower: inner.map((i) => lower[i]), upper: inner.map((i) => upper[i]), step: inner.map((i) => step[i]), restarts: 0, tol: 1.49e-8 });
       best = [...x0];
       inner.forEach((i, j) => (best[i] = r.x[j]));
     }
-    best = minimise(objective, best, { lower, upper, step, maxIter: FULL_SEARCH_BUDGET, restarts: 1, tol: 1e-10 }).x;
+    best = minimise(objective, best, { lower, upper, step, maxIter: FULL_SEARCH_BUDGET, restarts: 0, tol: 1.49e-8 }).x;
   }
   const { par, initial } = decode(best);
   return evaluate(spec, y, par, initial, estimated);
