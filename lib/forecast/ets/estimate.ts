@@ -160,6 +160,7 @@ export function fitStateSpace(
     // held at their start; stage 2: everything, from there, with a budget (Nelder–Mead is slow
     // in many dimensions; the start is already close in the seasonal states).
     const inner = free.map((k, i) => (/^s\d+$/.test(k) ? -1 : i)).filter((i) => i >= 0);
+    let used = 0;
     if (inner.length < free.length && inner.length > 0) {
       const full = Float64Array.from(x0);
       const sub = (v: Float64Array): number => {
@@ -169,8 +170,9 @@ export function fitStateSpace(
       const r = minimise(sub, inner.map((i) => x0[i]), { lower: inner.map((i) => lower[i]), upper: inner.map((i) => upper[i]), step: inner.map((i) => step[i]), restarts: 0, tol: 1.49e-8 });
       best = [...x0];
       inner.forEach((i, j) => (best[i] = r.x[j]));
+      used = r.evaluations;
     }
-    best = minimise(objective, best, { lower, upper, step, maxIter: FULL_SEARCH_BUDGET, restarts: 0, tol: 1.49e-8 }).x;
+    best = minimise(objective, best, { lower, upper, step, maxIter: Math.max(FULL_SEARCH_BUDGET - used, 1), restarts: 0, tol: 1.49e-8 }).x;
   }
   const { par, initial } = decode(best);
   return evaluate(spec, y, par, initial, estimated);
