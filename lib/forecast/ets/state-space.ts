@@ -271,18 +271,34 @@ export function samplePaths(spec: EtsSpec, p: Smoothing, origin: EtsState, sigma
   const out = new Float64Array(h * paths);
   const gauss = normalStream(PATH_RNG_START);
   const sigma = Math.sqrt(Math.max(sigma2, 0));
-  const st: EtsState = { level: 0, trend: 0, ring: new Float64Array(origin.ring.length), k: 0 };
+  // oneStep and update written out with the member's switches hoisted (the same operations in
+  // the same order: the same paths).
+  const ring = new Float64Array(origin.ring.length);
+  const trended = spec.trend !== "N";
+  const seasonal = spec.season !== "N";
+  const multSeason = spec.season === "M";
+  const multError = spec.error === "M";
+  const { alpha, beta, gamma, phi } = p;
+  const m = spec.m;
   for (let j = 0; j < paths; j++) {
-    st.level = origin.level;
-    st.trend = origin.trend;
-    st.ring.set(origin.ring);
-    st.k = origin.k;
+    let level = origin.level;
+    let trend = origin.trend;
+    let k = origin.k;
+    ring.set(origin.ring);
     for (let i = 0; i < h; i++) {
-      const f = oneStep(spec, p, st);
+      const q = trended ? level + phi * trend : level;
+      const s = ring[k];
+      const f = !seasonal ? q : multSeason ? q * s : q + s;
       const e = sigma * gauss();
-      const y = spec.error === "A" ? f + e : f * (1 + e);
+      const y = multError ? f * (1 + e) : f + e;
       out[i * paths + j] = y;
-      update(spec, p, st, y);
+      const adj = !seasonal ? y : multSeason ? y / s : y - s;
+      level = q + alpha * (adj - q);
+      if (trended) trend = phi * trend + beta * (adj - q);
+      if (seasonal) {
+        ring[k] = s + gamma * ((multSeason ? y / q : y - q) - s);
+        if (++k === m) k = 0;
+      }
     }
   }
   return out;
