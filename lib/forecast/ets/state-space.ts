@@ -83,6 +83,11 @@ export function update(spec: EtsSpec, p: Smoothing, st: EtsState, y: number): vo
   }
 }
 
+/** The member's switches, for loops that test them per observation rather than per call. */
+function switches(spec: EtsSpec): { trended: boolean; seasonal: boolean; multSeason: boolean; multError: boolean } {
+  return { trended: spec.trend !== "N", seasonal: spec.season !== "N", multSeason: spec.season === "M", multError: spec.error === "M" };
+}
+
 /** Result of {@link filterSeries}. */
 export interface Filtered {
   /** One-step fitted values f_t (null when not asked for). */
@@ -115,10 +120,7 @@ export function filterSeries(
   st.ring.set(init.ring);
   // The recursions of oneStep and update, written out with the member's switches hoisted out of
   // the loop (the same operations in the same order: results are identical).
-  const trended = spec.trend !== "N";
-  const seasonal = spec.season !== "N";
-  const multSeason = spec.season === "M";
-  const multError = spec.error === "M";
+  const { trended, seasonal, multSeason, multError } = switches(spec);
   const { alpha, beta, gamma, phi } = p;
   const ring = st.ring;
   const m = spec.m;
@@ -274,10 +276,7 @@ export function samplePaths(spec: EtsSpec, p: Smoothing, origin: EtsState, sigma
   // oneStep and update written out with the member's switches hoisted (the same operations in
   // the same order: the same paths).
   const ring = new Float64Array(origin.ring.length);
-  const trended = spec.trend !== "N";
-  const seasonal = spec.season !== "N";
-  const multSeason = spec.season === "M";
-  const multError = spec.error === "M";
+  const { trended, seasonal, multSeason, multError } = switches(spec);
   const { alpha, beta, gamma, phi } = p;
   const m = spec.m;
   for (let j = 0; j < paths; j++) {
