@@ -31,25 +31,7 @@
  * Every part works on the same records: the smoothing parameters {alpha, beta, gamma, phi}
  * (`Smoothing`) and the states {level, trend, ring, k} (`EtsState`), both in ets/state-space.ts.
  */
-export {
-  ALPHA_LOWER,
-  ALPHA_UPPER,
-  BETA_LOWER,
-  BETA_UPPER,
-  GAMMA_LOWER,
-  GAMMA_UPPER,
-  PHI_LOWER,
-  PHI_UPPER,
-  MAX_HORIZON,
-  checkHorizon,
-  checkSeries,
-  etsKeys,
-  etsMinLength,
-  etsParameterCount,
-  type EtsModel,
-  type SeasonKind,
-  type TrendKind,
-} from "./ets/model";
+export * from "./ets/model";
 export { fitEts, type EtsFitResult } from "./ets/least-squares";
 export { heuristicStates } from "./ets/initial-states";
 export { etsForecast } from "./ets/forecast";

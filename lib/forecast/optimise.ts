@@ -117,6 +117,21 @@ export function minimise(
   const simplex = new Float64Array(n1 * d);
   const values = new Float64Array(n1);
   const centroid = new Float64Array(d);
+  // Column sums of the simplex, kept up to date as vertices are replaced (O(d) per step instead
+  // of O(d²) for the centroid), recomputed from the vertices after a shrink and every 4(d + 1) steps.
+  const sum = new Float64Array(d);
+  const resum = (): void => {
+    sum.fill(0);
+    for (let v = 0; v < n1; v++) for (let i = 0, row = v * d; i < d; i++) sum[i] += simplex[row + i];
+  };
+  /** Replaces the vertex starting at `row` by x (value fx), keeping the column sums. */
+  const replace = (row: number, x: Float64Array, fx: number, v: number): void => {
+    for (let i = 0; i < d; i++) {
+      sum[i] += x[i] - simplex[row + i];
+      simplex[row + i] = x[i];
+    }
+    values[v] = fx;
+  };
   const xr = new Float64Array(d);
   const xe = new Float64Array(d);
   const xc = new Float64Array(d);
@@ -150,7 +165,13 @@ export function minimise(
 
     const startValue = bestValue;
     converged = false;
+    resum();
+    let sinceSum = 0;
     while (evaluations < maxEval) {
+      if (++sinceSum > 4 * n1) {
+        resum();
+        sinceSum = 0;
+      }
       // Best, worst and second-worst vertex: the first and the last two of the vertices sorted
       // by value, ties in vertex order (values are never NaN, so this is a total order), found
       // in one pass each.
@@ -172,14 +193,8 @@ export function minimise(
         break;
       }
       // Centroid of all but the worst.
-      centroid.fill(0);
-      for (let v = 0; v < n1; v++) {
-        if (v === iWorst) continue;
-        const row = v * d;
-        for (let i = 0; i < d; i++) centroid[i] += simplex[row + i];
-      }
-      for (let i = 0; i < d; i++) centroid[i] /= d;
       const wRow = iWorst * d;
+      for (let i = 0; i < d; i++) centroid[i] = (sum[i] - simplex[wRow + i]) / d;
       // Reflection.
       for (let i = 0; i < d; i++) xr[i] = centroid[i] + REFLECT * (centroid[i] - simplex[wRow + i]);
       project(xr);
@@ -188,18 +203,12 @@ export function minimise(
         for (let i = 0; i < d; i++) xe[i] = centroid[i] + EXPAND * (xr[i] - centroid[i]);
         project(xe);
         const fe = evalAt(xe);
-        if (fe < fr) {
-          for (let i = 0; i < d; i++) simplex[wRow + i] = xe[i];
-          values[iWorst] = fe;
-        } else {
-          for (let i = 0; i < d; i++) simplex[wRow + i] = xr[i];
-          values[iWorst] = fr;
-        }
+        if (fe < fr) replace(wRow, xe, fe, iWorst);
+        else replace(wRow, xr, fr, iWorst);
         continue;
       }
       if (fr < values[iSecond]) {
-        for (let i = 0; i < d; i++) simplex[wRow + i] = xr[i];
-        values[iWorst] = fr;
+        replace(wRow, xr, fr, iWorst);
         continue;
       }
       // Contraction (outside if the reflected point beats the worst, else inside).
@@ -212,8 +221,7 @@ export function minimise(
       project(xc);
       const fc = evalAt(xc);
       if (fc < (outside ? fr : fWorst)) {
-        for (let i = 0; i < d; i++) simplex[wRow + i] = xc[i];
-        values[iWorst] = fc;
+        replace(wRow, xc, fc, iWorst);
         continue;
       }
       // Shrink towards the best vertex.
@@ -230,6 +238,8 @@ export function minimise(
         }
         values[v] = evalAt(trial);
       }
+      resum();
+      sinceSum = 0;
       if (!moved) {
         converged = true;
         break;

@@ -13,14 +13,15 @@ import { leverage, ols, type OlsResult } from "./ols";
 export const SIMPLE_MAX_HORIZON = 10000;
 
 /**
- * Checks a series for fitting.
- * @throws ForecastInputError when a value is not finite (naming its position) or the series
- *   is shorter than `minLength` (saying how many are needed).
+ * Checks a series for fitting (every method's one check).
+ * @throws ForecastInputError when the series is empty, a value is not finite (naming its
+ *   position) or the series is shorter than `minLength` (saying how many are needed).
  */
 export function checkSeriesFor(method: string, y: readonly number[], minLength: number, why = ""): void {
+  if (!Array.isArray(y) || y.length === 0) throw new ForecastInputError(`${method}: the series is empty`);
   y.forEach((v, i) => {
     if (typeof v !== "number" || !Number.isFinite(v)) {
-      throw new ForecastInputError(`${method}: observation ${i + 1} is ${String(v)}; every value must be a finite number`);
+      throw new ForecastInputError(`${method}: observation ${i + 1} is not a finite number (${String(v)})`);
     }
   });
   if (y.length < minLength) {

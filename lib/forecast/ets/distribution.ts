@@ -113,19 +113,73 @@ export function memberForecast(spec: EtsSpec, p: Smoothing, origin: EtsState, si
     return { mean, sd, lower, upper };
   }
   if (levels.length === 0) return { mean, sd: mean.map(() => NaN), lower, upper };
-  const paths = samplePaths(spec, p, origin, sigma2, h);
+  const b = pathBounds(samplePaths(spec, p, origin, sigma2, h), PATHS, h, levels);
+  return { mean, sd: b.sd, lower: b.lower, upper: b.upper };
+}
+
+/**
+ * Per-step sd (n − 1 divisor) and type-7 bounds (Hyndman & Fan 1996) of each level from
+ * simulated paths, step-major (paths[i·count + j]: step i + 1 of path j); the paths are
+ * reordered in place. Type 7 reads only the order statistics at ⌊(n − 1)p⌋ and ⌈(n − 1)p⌉, so
+ * only those are put in their sorted places (the values a full sort gives, in linear expected
+ * time); a step with a non-finite path is sorted in full (NaN last).
+ */
+export function pathBounds(paths: Float64Array, count: number, h: number, levels: readonly number[]): { sd: number[]; lower: number[][]; upper: number[][] } {
   const sd: number[] = [];
+  const lower: number[][] = levels.map(() => []);
+  const upper: number[][] = levels.map(() => []);
+  // Positions (0-based, ascending) of the order statistics the quantiles read.
+  const ks = [
+    ...new Set(levels.flatMap((lv) => [0.5 - lv / 200, 0.5 + lv / 200].flatMap((q) => [Math.floor((count - 1) * q), Math.ceil((count - 1) * q)]))),
+  ].sort((a, b) => a - b);
   for (let i = 0; i < h; i++) {
-    // A typed copy sorts numerically without a comparator: the same order, several times faster.
-    const col = paths.slice(i * PATHS, (i + 1) * PATHS).sort();
-    sd.push(sampleSd(col));
+    const col = paths.subarray(i * count, (i + 1) * count);
+    const s = sampleSd(col);
+    sd.push(s);
+    if (Number.isFinite(s)) selectOrderStatistics(col, ks);
+    else col.sort(); // a typed array sorts numerically, NaN last
     const b = sampleBounds(col as unknown as readonly number[], levels);
     levels.forEach((_, l) => {
       lower[l].push(b.lower[l]);
       upper[l].push(b.upper[l]);
     });
   }
-  return { mean, sd, lower, upper };
+  return { sd, lower, upper };
+}
+
+/**
+ * Rearranges finite values `a` in place so that a[k] holds the k-th smallest value (0-based)
+ * for every k in `ks` (ascending, within range), with no larger value before and no smaller
+ * one after each such position: the values a full sort would put there. Hoare's selection
+ * (Hoare 1961, "Algorithm 65: Find", CACM 4(7); Wirth's formulation) on the part of the array
+ * to the right of the previous position, O(n) expected per position; no allocation.
+ */
+function selectOrderStatistics(a: Float64Array, ks: readonly number[]): void {
+  let from = 0;
+  const last = a.length - 1;
+  for (const k of ks) {
+    let left = from;
+    let right = last;
+    while (left < right) {
+      const x = a[k];
+      let i = left;
+      let j = right;
+      do {
+        while (a[i] < x) i++;
+        while (x < a[j]) j--;
+        if (i <= j) {
+          const tmp = a[i];
+          a[i] = a[j];
+          a[j] = tmp;
+          i++;
+          j--;
+        }
+      } while (i <= j);
+      if (j < k) left = i;
+      if (k < i) right = j;
+    }
+    from = k + 1;
+  }
 }
 
 /** Sample standard deviation (n − 1 divisor). */

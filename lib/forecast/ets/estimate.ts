@@ -17,8 +17,10 @@ import { etsKeys, ALPHA_LOWER, ALPHA_UPPER, BETA_LOWER, GAMMA_LOWER, PHI_LOWER, 
 import { ForecastInputError } from "../types";
 import { aicc, filterSeries, likelihood, makeState, type EtsSpec, type EtsState, type Filtered, type Smoothing } from "./state-space";
 
-/** Objective evaluations allowed to the search over every free value (R's ets allows 2,000 Nelder–Mead iterations). */
+/** Objective evaluations allowed to the whole search, both stages (R's ets: Nelder–Mead with maxit 2,000, counted in evaluations). */
 const FULL_SEARCH_BUDGET = 2000;
+/** Relative tolerance of the search, R's ets (its Nelder–Mead's reltol, sqrt of the machine epsilon). */
+const R_TOL = Math.sqrt(Number.EPSILON);
 
 /** Everything a fitted member carries (plain data). */
 export interface StateSpaceFit {
@@ -160,17 +162,19 @@ export function fitStateSpace(
     // held at their start; stage 2: everything, from there, with a budget (Nelder–Mead is slow
     // in many dimensions; the start is already close in the seasonal states).
     const inner = free.map((k, i) => (/^s\d+$/.test(k) ? -1 : i)).filter((i) => i >= 0);
+    let used = 0;
     if (inner.length < free.length && inner.length > 0) {
       const full = Float64Array.from(x0);
       const sub = (v: Float64Array): number => {
         inner.forEach((i, j) => (full[i] = v[j]));
         return objective(full);
       };
-      const r = minimise(sub, inner.map((i) => x0[i]), { lower: inner.map((i) => lower[i]), upper: inner.map((i) => upper[i]), step: inner.map((i) => step[i]), restarts: 1, tol: 1e-10 });
+      const r = minimise(sub, inner.map((i) => x0[i]), { lower: inner.map((i) => lower[i]), upper: inner.map((i) => upper[i]), step: inner.map((i) => step[i]), maxIter: FULL_SEARCH_BUDGET, restarts: 0, tol: R_TOL });
       best = [...x0];
       inner.forEach((i, j) => (best[i] = r.x[j]));
+      used = r.evaluations;
     }
-    best = minimise(objective, best, { lower, upper, step, maxIter: FULL_SEARCH_BUDGET, restarts: 1, tol: 1e-10 }).x;
+    best = minimise(objective, best, { lower, upper, step, maxIter: Math.max(FULL_SEARCH_BUDGET - used, 1), restarts: 0, tol: R_TOL }).x;
   }
   const { par, initial } = decode(best);
   return evaluate(spec, y, par, initial, estimated);

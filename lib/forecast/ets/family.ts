@@ -10,7 +10,9 @@
  *
  * A-error members are fitted by least squares (./least-squares.ts, their likelihood); the
  * M-error members by maximum likelihood (./estimate.ts) from the least-squares fit of the same
- * structure. Likelihoods of both error types are on the same scale (n·log Σε² + 2Σlog|f| vs
+ * structure (already fitted as a candidate, or for A,·,M one joint search warm-started from the
+ * fitted A,·,A of the same trend, its seasonal states as ratios: one fit shared, not a second
+ * full search). Likelihoods of both error types are on the same scale (n·log Σε² + 2Σlog|f| vs
  * n·log Σe², both −2 log L up to the same constant), so one AICc compares them.
  *
  * A fit records its member in state.model (a code, see modelCode) so that the member and its
@@ -107,6 +109,22 @@ export function fitMember(
   return fitStateSpace(spec, y, { ...start, ...given }, given);
 }
 
+/**
+ * Start values of an M-season member from the fitted A-season member of the same trend: its
+ * parameters and level and trend states, and the seasonal states as ratios 1 + s_i / ℓ0 (they
+ * sum to m as the additive ones sum to 0). Undefined when ℓ0 or a ratio is not above zero.
+ */
+function seasonRatios(r: EtsFitResult): Record<string, number> | undefined {
+  if (!(r.l0 > 0)) return undefined;
+  const out: Record<string, number> = { alpha: r.alpha, beta: r.beta, gamma: r.gamma, phi: r.phi, l0: r.l0, b0: r.b0 };
+  for (let i = 0; i < r.initialSeason.length; i++) {
+    const v = 1 + r.initialSeason[i] / r.l0;
+    if (!(v > 0)) return undefined;
+    out[`s${i + 1}`] = v;
+  }
+  return out;
+}
+
 /** Result of {@link chooseMember}: the chosen fit and every member's AICc. */
 export interface FamilyChoice {
   readonly best: StateSpaceFit;
@@ -130,7 +148,13 @@ export function chooseMember(y: readonly number[], m: number): FamilyChoice {
         const r = fitEts(`ETS(${specName(spec)})`, { trend: spec.trend, season: spec.season }, y, spec.m);
         lsFits.set(key, r);
         fit = fromLeastSquares(spec, y, r);
-      } else fit = fitMember(spec, y, undefined, lsFits.get(key));
+      } else {
+        // The least-squares start of an M-season member: A,·,M warm-started from the fitted A,·,A.
+        const additive = spec.season === "M" && !lsFits.has(key) ? lsFits.get(`${spec.trend},A`) : undefined;
+        const warm = additive ? seasonRatios(additive) : undefined;
+        if (warm) lsFits.set(key, fitEts(`ETS(${specName(spec)})`, { trend: spec.trend, season: spec.season }, y, spec.m, undefined, warm));
+        fit = fitMember(spec, y, undefined, lsFits.get(key));
+      }
       table.push({ model: specName(spec), aicc: fit.aicc });
       if (!best || fit.aicc < best.aicc) best = fit;
     } catch (e) {

@@ -5,10 +5,10 @@
  * (./simulate.ts). Pure TypeScript.
  */
 import { normalQuantile } from "../../stats/normal";
-import { quantileOfSorted } from "../../stats/quantile";
 import type { Fit, Forecast, MethodId } from "../types";
 import { checkHorizon, type EtsModel } from "./model";
 import { simulateAam, SIMULATION_PATHS } from "./simulate";
+import { pathBounds } from "./distribution";
 
 /**
  * Point forecasts and prediction intervals of a fitted ETS model.
@@ -72,77 +72,12 @@ export function etsForecast(what: string, method: MethodId, model: EtsModel, fit
     for (let i = 0; i < h; i++) sd.push(Number.NaN);
   } else {
     const paths = simulateAam(level, trend, seasonNext, m, alpha, beta, gamma, phi, Math.sqrt(sigma2), h, SIMULATION_PATHS);
-    for (const lv of levels) {
-      lower[String(lv)] = [];
-      upper[String(lv)] = [];
-    }
-    // Positions (0-based, ascending) of the order statistics the quantiles below read.
-    const orderIndices = [
-      ...new Set(
-        levels.flatMap((lv) =>
-          [0.5 - lv / 200, 0.5 + lv / 200].flatMap((p) => [Math.floor((SIMULATION_PATHS - 1) * p), Math.ceil((SIMULATION_PATHS - 1) * p)]),
-        ),
-      ),
-    ].sort((a, b) => a - b);
-    for (let i = 0; i < h; i++) {
-      const col = paths.subarray(i * SIMULATION_PATHS, (i + 1) * SIMULATION_PATHS);
-      let s1 = 0;
-      for (let p = 0; p < col.length; p++) s1 += col[p];
-      const avg = s1 / col.length;
-      let s2 = 0;
-      for (let p = 0; p < col.length; p++) s2 += (col[p] - avg) ** 2;
-      sd.push(Math.sqrt(s2 / (col.length - 1)));
-      let sorted: readonly number[];
-      if (Number.isFinite(s1)) {
-        // Type 7 quantiles read only the order statistics at ⌊(n − 1)p⌋ and ⌈(n − 1)p⌉: put just
-        // those in their sorted places (same values as a full sort, in linear expected time).
-        selectOrderStatistics(col, orderIndices);
-        sorted = col as unknown as readonly number[];
-      } else {
-        col.sort(); // a non-finite path: the full sort orders NaN last
-        sorted = Array.from(col);
-      }
-      for (const lv of levels) {
-        lower[String(lv)].push(quantileOfSorted(sorted, 0.5 - lv / 200, 7));
-        upper[String(lv)].push(quantileOfSorted(sorted, 0.5 + lv / 200, 7));
-      }
-    }
+    const b = pathBounds(paths, SIMULATION_PATHS, h, levels);
+    sd.push(...b.sd);
+    levels.forEach((lv, l) => {
+      lower[String(lv)] = b.lower[l];
+      upper[String(lv)] = b.upper[l];
+    });
   }
   return { method, mean, levels: [...levels], lower, upper, sd };
 }
-
-/**
- * Rearranges finite values `a` in place so that a[k] holds the k-th smallest value (0-based)
- * for every k in `ks` (ascending, within range), with no larger value before and no smaller
- * one after each such position: the values a full sort would put there. Hoare's selection
- * (Hoare 1961, "Algorithm 65: Find", CACM 4(7); Wirth's formulation) on the part of the array
- * to the right of the previous position, O(n) expected per position; no allocation.
- */
-function selectOrderStatistics(a: Float64Array, ks: readonly number[]): void {
-  let from = 0;
-  const last = a.length - 1;
-  for (const k of ks) {
-    let left = from;
-    let right = last;
-    while (left < right) {
-      const x = a[k];
-      let i = left;
-      let j = right;
-      do {
-        while (a[i] < x) i++;
-        while (x < a[j]) j--;
-        if (i <= j) {
-          const tmp = a[i];
-          a[i] = a[j];
-          a[j] = tmp;
-          i++;
-          j--;
-        }
-      } while (i <= j);
-      if (j < k) left = i;
-      if (k < i) right = j;
-    }
-    from = k + 1;
-  }
-}
-

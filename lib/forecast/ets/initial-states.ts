@@ -8,6 +8,7 @@
  * Springer, §2.6.1 (start values) and ch. 5 (estimation); Marquardt (1963).
  */
 import { classicalDecomposition } from "../decompose";
+import { ols } from "../ols";
 import { choleskySolve, dampedSystem } from "./linear-algebra";
 import { filter, type Shape } from "./recursions";
 import type { EtsState, Smoothing } from "./state-space";
@@ -474,21 +475,10 @@ export function heuristicStates(
   return { l0: a, b0: b, s };
 }
 
-/** OLS line through (1, y_1) … (k, y_k): intercept at t = 0 and slope. */
+/** OLS line through (1, y_1) … (k, y_k) (../ols.ts): intercept at t = 0 and slope; flat through y_1 when k < 3. */
 function olsLine(y: readonly number[], k: number): { a: number; b: number } {
-  if (k < 2) return { a: y[0], b: 0 };
-  const tbar = (k + 1) / 2;
-  let ybar = 0;
-  for (let t = 0; t < k; t++) ybar += y[t];
-  ybar /= k;
-  let sxy = 0;
-  let sxx = 0;
-  for (let t = 0; t < k; t++) {
-    const dt = t + 1 - tbar;
-    sxy += dt * (y[t] - ybar);
-    sxx += dt * dt;
-  }
-  const b = sxy / sxx;
-  return { a: ybar - b * tbar, b };
+  if (k < 3) return { a: y[0], b: 0 };
+  const [a, b] = ols(y.slice(0, k), [Array.from({ length: k }, (_, t) => t + 1)]).coefficients;
+  return { a, b };
 }
 

@@ -16,10 +16,10 @@
  */
 import { minimiseScalar } from "../optimise";
 import { ForecastInputError } from "../types";
+import { checkSeriesFor } from "../simple";
 import { heuristicStates, loadStates, multWorkspace, solveStates, solveStatesMult, workspace, type Given, type Problem } from "./initial-states";
 import { bestCandidates, refineJoint, startCandidates, type JointSpec } from "./joint-search";
 import {
-  checkSeries,
   etsKeys,
   ALPHA_LOWER,
   ALPHA_UPPER,
@@ -160,7 +160,7 @@ export function fitEts(
   fixed?: Readonly<Record<string, number>>,
   warmStart?: Readonly<Record<string, number>>,
 ): EtsFitResult {
-  checkSeries(y, what);
+  checkSeriesFor(what, y, 1);
   const seasonal = model.season !== "N";
   const n = y.length;
   let m = 1;

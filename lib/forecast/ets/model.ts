@@ -2,7 +2,7 @@
  * What names a member of the additive-error exponential-smoothing family and the checks every
  * part of it shares: the member's trend and season, the bounds of its smoothing parameters,
  * the names it accepts in `fixed`, how many values it estimates, the shortest series it
- * accepts, and the series and horizon checks. Pure TypeScript.
+ * accepts, and the horizon check (series: checkSeriesFor in ../simple.ts). Pure TypeScript.
  *
  * Bounds are R forecast::ets's defaults ("usual" region; Hyndman et al. 2008 §5.2).
  */
@@ -73,16 +73,6 @@ export function etsMinLength(model: EtsModel, season: number): number {
   const m = model.season === "N" ? 1 : season;
   const k = etsParameterCount(model, m);
   return model.season === "N" ? k + 1 : Math.max(2 * m, k + 1);
-}
-
-/** Validate a series: non-empty, finite numbers. @throws ForecastInputError naming the position. */
-export function checkSeries(y: readonly number[], what: string): void {
-  if (!Array.isArray(y) || y.length === 0) throw new ForecastInputError(`${what}: the series is empty`);
-  for (let i = 0; i < y.length; i++) {
-    if (typeof y[i] !== "number" || !Number.isFinite(y[i])) {
-      throw new ForecastInputError(`${what}: observation ${i + 1} is not a finite number (${String(y[i])})`);
-    }
-  }
 }
 
 /** Validate a horizon and interval levels. @throws ForecastInputError. */

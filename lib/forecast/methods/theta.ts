@@ -1,6 +1,7 @@
 import { autocorrelations, classicalDecomposition } from "../decompose";
 import { fitEts } from "../ets/least-squares";
-import { checkHorizon, checkSeries } from "../ets/model";
+import { checkHorizon } from "../ets/model";
+import { checkSeriesFor } from "../simple";
 import { ols } from "../ols";
 import { ForecastInputError, type Fit, type FitInput, type Forecast, type Method } from "../types";
 import { normalQuantile } from "../../stats/normal";
@@ -51,7 +52,7 @@ const theta: Method = {
   /** @throws ForecastInputError for unusable input. */
   fit(input: FitInput): Fit {
     const { y } = input;
-    checkSeries(y, "theta");
+    checkSeriesFor("theta", y, 1);
     const n = y.length;
     if (n < MIN_LENGTH) throw new ForecastInputError(`theta: needs at least ${MIN_LENGTH} observations (got ${n})`);
     const m = input.season;
