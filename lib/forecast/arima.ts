@@ -351,8 +351,11 @@ interface FilterResult {
   p: Float64Array;
 }
 
-/** Kalman filter of the ARMA model over w, from the stationary prior. */
-function kalman(w: readonly number[], ar: readonly number[], ma: readonly number[], keep: boolean): FilterResult | null {
+/**
+ * Kalman filter of the ARMA model over w, from the stationary prior. With `states`, the
+ * filtered state a_{t|t} after each observation is appended to it.
+ */
+function kalman(w: readonly number[], ar: readonly number[], ma: readonly number[], keep: boolean, states?: number[][]): FilterResult | null {
   const s = makeSsm(ar, ma);
   const r = s.r;
   const p = Float64Array.from(stationaryCovariance(ar, ma));
@@ -394,12 +397,14 @@ function kalman(w: readonly number[], ar: readonly number[], ma: readonly number
     if (keep) innovations.push(v);
     if (steady) {
       for (let i = 0; i < r; i++) a[i] += gain[i] * v;
+      states?.push(Array.from(a));
       continue;
     }
     // update: a += P[:,0] v / f ; P_filtered = P − P[:,0] P[0,:] / f
     for (let i = 0; i < r; i++) tmp[i] = p[i * r];
     for (let i = 0; i < r; i++) a[i] += (tmp[i] * v) / f;
     for (let i = 0; i < r; i++) for (let j = 0; j < r; j++) filtered[i * r + j] = p[i * r + j] - (tmp[i] * tmp[j]) / f;
+    states?.push(Array.from(a));
   }
   // filtered covariance at the end (steady state: from the steady predicted P)
   if (steady) {
@@ -657,21 +662,9 @@ export function autoArima(
 // ---------------------------------------------------------------------------------------
 // Forecasting
 
-/**
- * Point forecasts and forecast standard deviations for steps 1..h (see the module comment):
- * ŵ_{n+j} = Z T^j a_n; ŷ integrates c + ŵ d times from the last observations;
- * Var_h = σ²[b_h P_n b_h' + Σ_{m<h} ψ*_m²], ψ*_m = Σ_{k≤m} g_{m−k} ψ_k with ψ_k = Z T^k R the
- * ARMA ψ-weights and g the coefficients of (1 − B)^{−d}; b_h = Σ_{j=1..h} g_{h−j} Z T^j.
- */
-export function forecastArima(
-  fit: Pick<ArimaFit, "ar" | "ma" | "constant" | "sigma2" | "state" | "stateCov" | "lastValues"> & { readonly spec: Pick<ArimaSpec, "d"> },
-  h: number,
-): { mean: number[]; sd: number[] } {
-  const { d } = fit.spec;
-  const s = makeSsm(fit.ar, fit.ma);
+/** Rows z_j = Z T^j (j = 0..h) of the ARMA state-space form, as vectors of length r. */
+function powersOfT(s: Ssm, h: number): Float64Array[] {
   const r = s.r;
-  const g = (k: number) => (d === 0 ? (k === 0 ? 1 : 0) : d === 1 ? 1 : k + 1);
-  // rows z_j = Z T^j (j = 0..h), as vectors of length r
   const rows: Float64Array[] = [];
   let z = new Float64Array(r);
   z[0] = 1;
@@ -688,6 +681,24 @@ export function forecastArima(
     rows.push(next);
     z = next;
   }
+  return rows;
+}
+
+/**
+ * Point forecasts and forecast standard deviations for steps 1..h (see the module comment):
+ * ŵ_{n+j} = Z T^j a_n; ŷ integrates c + ŵ d times from the last observations;
+ * Var_h = σ²[b_h P_n b_h' + Σ_{m<h} ψ*_m²], ψ*_m = Σ_{k≤m} g_{m−k} ψ_k with ψ_k = Z T^k R the
+ * ARMA ψ-weights and g the coefficients of (1 − B)^{−d}; b_h = Σ_{j=1..h} g_{h−j} Z T^j.
+ */
+export function forecastArima(
+  fit: Pick<ArimaFit, "ar" | "ma" | "constant" | "sigma2" | "state" | "stateCov" | "lastValues"> & { readonly spec: Pick<ArimaSpec, "d"> },
+  h: number,
+): { mean: number[]; sd: number[] } {
+  const { d } = fit.spec;
+  const s = makeSsm(fit.ar, fit.ma);
+  const r = s.r;
+  const g = (k: number) => (d === 0 ? (k === 0 ? 1 : 0) : d === 1 ? 1 : k + 1);
+  const rows = powersOfT(s, h);
   const psi = rows.map((row) => {
     let v = 0;
     for (let k = 0; k < r; k++) v += row[k] * s.rv[k];
@@ -721,4 +732,44 @@ export function forecastArima(
     sd.push(Math.sqrt(fit.sigma2 * (Math.max(quad, 0) + sum)));
   }
   return { mean, sd };
+}
+
+/**
+ * In-sample forecasts from every origin with the fitted coefficients held: row t (t = 0..n−1)
+ * holds the forecasts of y_t..y_{t+h−1} made from y_0..y_{t−1}, i.e. the point forecasts of
+ * {@link forecastArima} from the Kalman filter's state a_{t−1−d|t−1−d} on Δ^d y − c (the prior
+ * mean 0 when t = d), integrated from y_{t−d}..y_{t−1}; step 1 of row t ≥ d is the fitted value of y_t. Rows
+ * t < d (too few values to integrate from) are NaN. Input: y the series the model was fitted to,
+ * h ≥ 1. Cost O(n·h·r).
+ */
+export function arimaOriginForecasts(
+  fit: Pick<ArimaFit, "ar" | "ma" | "constant"> & { readonly spec: Pick<ArimaSpec, "d"> },
+  y: readonly number[],
+  h: number,
+): number[][] {
+  const { d } = fit.spec;
+  const s = makeSsm(fit.ar, fit.ma);
+  const rows = powersOfT(s, h);
+  const states: number[][] = [];
+  kalman(difference(y, d).map((v) => v - fit.constant), fit.ar, fit.ma, false, states);
+  const delta = d === 0 ? [] : d === 1 ? [1] : [2, -1];
+  const out: number[][] = [];
+  for (let t = 0; t < y.length; t++) {
+    if (t < d) {
+      out.push(new Array<number>(h).fill(NaN));
+      continue;
+    }
+    const a = t - 1 - d >= 0 ? states[t - 1 - d] : new Array<number>(s.r).fill(0);
+    const hist = y.slice(t - d, t);
+    const row: number[] = [];
+    for (let j = 1; j <= h; j++) {
+      let v = fit.constant;
+      for (let k = 0; k < s.r; k++) v += rows[j][k] * (a?.[k] ?? NaN);
+      for (let i = 0; i < d; i++) v += delta[i] * hist[hist.length - 1 - i];
+      hist.push(v);
+      row.push(v);
+    }
+    out.push(row);
+  }
+  return out;
 }
