@@ -1,5 +1,5 @@
 /**
- * `npm run bench -- coverage [--data FILE] [--every K] [--method M] [--period P] [--threads N] [--total [--from A]]`:
+ * `npm run bench -- coverage [--data FILE] [--every K] [--method M] [--members a,b] [--period P] [--threads N] [--total [--from A]]`:
  * accuracy and calibration of the automatic baseline on the M3 competition (Makridakis & Hibon
  * 2000, 3,003 series, as distributed by the R package Mcomp; one JSON object per line with id,
  * period, frequency, h, train and test).
@@ -20,6 +20,8 @@
  * `--total` also asks for the total over the horizon (docs/methods.md §10, §20) and reports how
  * often the held-out sum lies inside its 80% and 95% intervals; with `--from A`, the total of
  * periods min(A, h)..h only (a window that starts after the next period).
+ * `--members a,b,c`: the automatic combination of those methods instead of the default members
+ * (to compare member sets on the same series).
  * `--every K` keeps every K-th series (a quick look while working; report full runs).
  * The data file defaults to $TRIANGULATE_M3 or ../shared/benchmark-data/m3.jsonl.
  */
@@ -52,13 +54,13 @@ interface Tally {
 const empty = (): Tally => ({ series: 0, smape: 0, mase: 0, maseCount: 0, points: 0, in80: 0, in95: 0, failures: 0, incoherent: 0, thetaSmape: 0, thetaMase: 0, thetaCount: 0, totals: 0, total80: 0, total95: 0 });
 
 /** Scores every series on a pool of `threads` workers (lib/work/pool.ts), each taking the next series when free. */
-async function scoreAll(series: readonly M3Series[], method: string, threads: number, total: boolean, from: number): Promise<{ scores: SeriesScore[]; seconds: number; cpuSeconds: number }> {
+async function scoreAll(series: readonly M3Series[], method: string, threads: number, total: boolean, from: number, members?: readonly string[]): Promise<{ scores: SeriesScore[]; seconds: number; cpuSeconds: number }> {
   const pool = createPool<typeof benchJobs>(new URL("./m3-worker-boot.mjs", import.meta.url), Math.min(threads, series.length));
   // Warm-up: one small series per worker, so that module loading is not counted in the time.
-  await Promise.all(Array.from({ length: Math.min(threads, series.length) }, () => pool.run("score", { series: series[0], method, total, from })));
+  await Promise.all(Array.from({ length: Math.min(threads, series.length) }, () => pool.run("score", { series: series[0], method, total, from, members })));
   const t0 = performance.now();
   const c0 = process.cpuUsage();
-  const scores = await Promise.all(series.map((s) => pool.run("score", { series: s, method, total, from })));
+  const scores = await Promise.all(series.map((s) => pool.run("score", { series: s, method, total, from, members })));
   const seconds = (performance.now() - t0) / 1000;
   const cpu = process.cpuUsage(c0);
   await pool.close();
@@ -76,6 +78,7 @@ export async function runCoverage(args: string[]): Promise<void> {
       threads: { type: "string" },
       total: { type: "boolean" },
       from: { type: "string" },
+      members: { type: "string" },
     },
   });
   const file = values.data ?? process.env.TRIANGULATE_M3 ?? "../shared/benchmark-data/m3.jsonl";
@@ -89,7 +92,8 @@ export async function runCoverage(args: string[]): Promise<void> {
   const series = all.filter((s, i) => i % every === 0 && (!values.period || s.period === values.period));
   const from = values.from ? Number(values.from) : 1;
   if (!(Number.isInteger(from) && from >= 1)) throw new Error(`--from must be a whole number of at least 1 (got ${values.from})`);
-  const { scores, seconds, cpuSeconds } = await scoreAll(series, method, threads, values.total === true, from);
+  const members = values.members ? values.members.split(",") : undefined;
+  const { scores, seconds, cpuSeconds } = await scoreAll(series, method, threads, values.total === true, from, members);
 
   const tallies = new Map<string, Tally>();
   const chosen = new Map<string, number>();
@@ -138,7 +142,7 @@ export async function runCoverage(args: string[]): Promise<void> {
       (t.thetaCount ? (t.thetaSmape / t.thetaCount).toFixed(2) : "-").padStart(11),
       (t.thetaCount ? (t.thetaMase / t.thetaCount).toFixed(3) : "-").padStart(10),
     ].join("  ");
-  console.log(`M3 (${file}), method ${method}${every > 1 ? `, every ${every}th series` : ""}`);
+  console.log(`M3 (${file}), method ${method}${members ? ` (combination of ${members.join(", ")})` : ""}${every > 1 ? `, every ${every}th series` : ""}`);
   console.log(["period".padEnd(10), "series".padStart(6), "sMAPE".padStart(7), "MASE".padStart(7), "80% in".padStart(8), "95% in".padStart(8), "failures".padStart(8), "Theta sMAPE".padStart(11), "Theta MASE".padStart(10)].join("  "));
   for (const p of ["yearly", "quarterly", "monthly", "other"]) {
     const t = tallies.get(p);

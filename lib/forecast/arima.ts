@@ -54,6 +54,12 @@ const U_BOUND = 7;
 /** Nelder–Mead settings for the likelihood: relative tolerance and restarts per start. */
 const ARIMA_TOL = 1e-10;
 const ARIMA_RESTARTS = 2;
+/**
+ * Quick fits (automatic selection's stepwise search, `quick`): one start (Hannan–Rissanen), no
+ * restarts, relative tolerance 1e-8 — as R's auto.arima trades exactness for speed with its
+ * approximation option (Hyndman & Khandakar 2008, §3.2).
+ */
+const QUICK_TOL = 1e-8;
 
 /** Order and constant of an ARIMA model. */
 export interface ArimaSpec {
@@ -428,11 +434,11 @@ export function difference(y: readonly number[], d: number): number[] {
  *
  * Input: y finite with n − d > npar + 1 (so AICc is defined); p, q ≤ 6; d ∈ {0, 1, 2};
  * `fixed` may hold any coefficient (then not estimated; fixed AR/MA must be stationary /
- * invertible).
+ * invertible). `quick`: one start, no restarts, tolerance 1e-8 (see QUICK_TOL).
  * @throws RangeError for an unusable order, too few observations, a series that is constant
  *   after differencing, or a non-stationary fixed AR (or non-invertible fixed MA) part.
  */
-export function fitArima(y: readonly number[], spec: ArimaSpec, fixed: ArimaFixed = {}): ArimaFit {
+export function fitArima(y: readonly number[], spec: ArimaSpec, fixed: ArimaFixed = {}, quick = false): ArimaFit {
   const { p, d, q } = spec;
   if (![p, d, q].every((v) => Number.isInteger(v) && v >= 0) || p > 6 || q > 6 || d > MAX_D) {
     throw new RangeError(`arima: order (p, d, q) = (${p}, ${d}, ${q}) is not supported (p, q ≤ 6, d ≤ ${MAX_D})`);
@@ -520,10 +526,10 @@ export function fitArima(y: readonly number[], spec: ArimaSpec, fixed: ArimaFixe
   let best = x0;
   let converged = true;
   if (nFree > 0) {
-    const starts = x0.every((v, i) => v === x1[i]) ? [x0] : [x0, x1];
+    const starts = quick || x0.every((v, i) => v === x1[i]) ? [x0] : [x0, x1];
     let bestValue = Infinity;
     for (const st of starts) {
-      const res = minimise((v) => objective(v), st, { lower, upper, step, tol: ARIMA_TOL, restarts: ARIMA_RESTARTS });
+      const res = minimise((v) => objective(v), st, { lower, upper, step, tol: quick ? QUICK_TOL : ARIMA_TOL, restarts: quick ? 0 : ARIMA_RESTARTS });
       if (res.value < bestValue) {
         bestValue = res.value;
         best = res.x;
@@ -615,41 +621,73 @@ export interface ArimaCandidate {
 }
 
 /**
- * Automatic ARIMA: d by {@link chooseDifferences} (unless given), then every (p, q) with
- * p ≤ maxP, q ≤ maxQ, with and without the constant when d ≤ 1, fitted by
- * {@link fitArima} and compared by AICc; a model with an AR or MA root of modulus below
- * {@link MIN_ROOT_MODULUS} is rejected. Ties go to the simpler model (grid order).
+ * Automatic ARIMA: d by {@link chooseDifferences} (unless given), then models compared by AICc,
+ * fitted by {@link fitArima}; a model with an AR or MA root of modulus below
+ * {@link MIN_ROOT_MODULUS} is rejected. Search:
+ * - "exhaustive" (default): every (p, q) with p ≤ maxP, q ≤ maxQ, with and without the constant
+ *   when d ≤ 1; ties go to the simpler model (grid order).
+ * - "stepwise": Hyndman & Khandakar (2008), J. Statistical Software 27(3), §3.2, without seasonal
+ *   terms: start from the best of ARIMA(2,d,2), (0,d,0), (1,d,0), (0,d,1) (with the constant when
+ *   d ≤ 1) and (0,d,0) without it; then, while one of them is better, move to the best of the
+ *   current model's neighbours: p ± 1, q ± 1, p and q ± 1 together, the constant toggled (d ≤ 1).
+ *   Each model is fitted once.
+ * `quick` fits every model with {@link fitArima}'s quick settings.
  * @throws RangeError when no candidate can be fitted.
  */
 export function autoArima(
   y: readonly number[],
-  options: { d?: number; maxP?: number; maxQ?: number } = {},
+  options: { d?: number; maxP?: number; maxQ?: number; search?: "exhaustive" | "stepwise"; quick?: boolean } = {},
 ): { fit: ArimaFit; candidates: ArimaCandidate[] } {
   const d = options.d ?? chooseDifferences(y);
   const maxP = options.maxP ?? MAX_AR;
   const maxQ = options.maxQ ?? MAX_MA;
   const candidates: ArimaCandidate[] = [];
+  const tried = new Map<string, ArimaFit | null>();
   let best: ArimaFit | null = null;
   let firstError = "";
-  for (let order = 0; order <= maxP + maxQ; order++) {
-    for (let p = 0; p <= Math.min(order, maxP); p++) {
-      const q = order - p;
-      if (q > maxQ) continue;
-      for (const constant of d <= 1 ? [true, false] : [false]) {
-        const spec: ArimaSpec = { p, d, q, constant };
-        let aicc = Infinity;
-        try {
-          const fit = fitArima(y, spec);
-          const ok = minRootModulus(fit.ar.map((v) => -v)) >= MIN_ROOT_MODULUS && minRootModulus(fit.ma) >= MIN_ROOT_MODULUS;
-          if (ok && Number.isFinite(fit.aicc)) {
-            aicc = fit.aicc;
-            if (!best || aicc < best.aicc) best = fit;
-          }
-        } catch (e) {
-          if (!firstError) firstError = e instanceof Error ? e.message : String(e);
-          aicc = Infinity;
-        }
-        candidates.push({ spec, aicc });
+  /** Fits a model once (later calls return the same result); null when it failed or was rejected. */
+  const consider = (p: number, q: number, constant: boolean): ArimaFit | null => {
+    const key = `${p},${q},${constant}`;
+    if (tried.has(key)) return tried.get(key)!;
+    const spec: ArimaSpec = { p, d, q, constant };
+    let aicc = Infinity;
+    let result: ArimaFit | null = null;
+    try {
+      const fit = fitArima(y, spec, {}, options.quick === true);
+      const ok = minRootModulus(fit.ar.map((v) => -v)) >= MIN_ROOT_MODULUS && minRootModulus(fit.ma) >= MIN_ROOT_MODULUS;
+      if (ok && Number.isFinite(fit.aicc)) {
+        aicc = fit.aicc;
+        result = fit;
+        if (!best || aicc < best.aicc) best = fit;
+      }
+    } catch (e) {
+      if (!firstError) firstError = e instanceof Error ? e.message : String(e);
+    }
+    tried.set(key, result);
+    candidates.push({ spec, aicc });
+    return result;
+  };
+  const constants = d <= 1 ? [true, false] : [false];
+  if (options.search === "stepwise") {
+    const c = d <= 1;
+    for (const [p, q] of [[2, 2], [0, 0], [1, 0], [0, 1]]) if (p <= maxP && q <= maxQ) consider(p, q, c);
+    if (c) consider(0, 0, false);
+    for (;;) {
+      const current: ArimaFit | null = best;
+      if (!current) break;
+      const { p, q, constant } = (current as ArimaFit).spec;
+      const moves: [number, number, boolean][] = [];
+      for (const [dp, dq] of [[-1, 0], [1, 0], [0, -1], [0, 1], [-1, -1], [1, 1]]) moves.push([p + dp, q + dq, constant]);
+      if (d <= 1) moves.push([p, q, !constant]);
+      for (const [mp, mq, mc] of moves) if (mp >= 0 && mq >= 0 && mp <= maxP && mq <= maxQ) consider(mp, mq, mc);
+      if (best === current) break;
+    }
+  } else {
+    for (let order = 0; order <= maxP + maxQ; order++) {
+      for (let p = 0; p <= Math.min(order, maxP); p++) {
+        const q = order - p;
+        if (q > maxQ) continue;
+        for (const constant of constants) consider(p, q, constant);
       }
     }
   }

@@ -26,16 +26,19 @@ import { ForecastInputError, METHOD_IDS, type Fit, type Forecast, type Method, t
  * it is available by name (`method: "arima"`).
  */
 export const NOT_AUTOMATIC: Readonly<Partial<Record<MethodId, string>>> = {
-  arima: "not compared automatically (slow order search); ask for it by name",
+  arima: "not compared automatically in rolling-origin selection (an order search at every origin); a member of the default combination, or ask for it by name",
   bass: "not compared automatically (a diffusion curve for adoptions since launch); ask for it by name",
 };
 
 /**
- * Members of the automatic combination (docs/methods.md §20): ETS chosen by AICc and the Theta
- * method, equal weights. On all of M3 (bench/m3-coverage.ts) their combination beat each of them
- * and the triple with the damped trend on seasonally adjusted data.
+ * Members of the automatic combination (docs/methods.md §20): ETS chosen by AICc, the Theta
+ * method and automatic ARIMA (on the seasonally adjusted series when seasonal), equal weights —
+ * the ETS/ARIMA/Theta combination of Petropoulos & Svetunkov (2020), "A simple combination of
+ * univariate models", IJF 36(1), 110–115, and of the M4 results (Makridakis, Spiliotis &
+ * Assimakopoulos 2020, IJF 36(1)). Measured on all of M3 by bench/m3-coverage.ts (its --members
+ * option compares member sets).
  */
-export const COMBINATION_MEMBERS: readonly MethodId[] = ["ets", "theta"];
+export const COMBINATION_MEMBERS: readonly MethodId[] = ["ets", "theta", "arima"];
 
 /** Interval levels used when none are given. */
 export const DEFAULT_LEVELS: readonly number[] = [80, 95];
