@@ -4,7 +4,6 @@
  */
 import { meanAbsoluteScaledError, symmetricMape } from "../lib/forecast/accuracy";
 import { baseline } from "../lib/forecast/baseline";
-import { METHODS } from "../lib/forecast/registry";
 import type { MethodId } from "../lib/forecast/types";
 
 /** One line of m3.jsonl (the fields the bench uses). */
@@ -43,7 +42,7 @@ export interface SeriesScore {
 export function scoreSeries(s: M3Series, method: string, total = false, from = 1, members?: readonly string[]): SeriesScore {
   try {
     const a = Math.min(from, s.h);
-    const r = baseline(s.train, { season: s.frequency, horizon: s.h, method: method as "auto" | MethodId, levels: [80, 95], total, totalFrom: a, ...(members ? { strategy: "combination" as const, methods: METHODS.filter((m) => members.includes(m.id)) } : {}) });
+    const r = baseline(s.train, { season: s.frequency, horizon: s.h, method: method as "auto" | MethodId, levels: [80, 95], total, totalFrom: a, ...(members ? { members: members as MethodId[] } : {}) });
     const mean = r.forecast.map((f) => f.mean ?? NaN);
     let in80 = 0;
     let in95 = 0;
