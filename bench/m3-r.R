@@ -30,7 +30,7 @@ for (i in seq_along(lines)) {
     secs <- proc.time()[["elapsed"]] - t0
     vals <- if (is.null(fc)) rep(list(rep(NA, h)), 5) else
       list(fc$mean, fc$lower[, 1], fc$upper[, 1], fc$lower[, 2], fc$upper[, 2])
-    cells <- vapply(vals, function(v) paste(format(as.numeric(v), digits = 15), collapse = " "), "")
+    cells <- vapply(vals, function(v) paste(sprintf("%.15g", as.numeric(v)), collapse = " "), "")
     writeLines(paste(c(id, model, format(secs, digits = 6), cells), collapse = "\t"), out)
   }
 }
