@@ -36,12 +36,13 @@ export interface SeriesScore {
  * `baseline(train, { season: frequency, horizon: h, method })`, then sMAPE (Makridakis & Hibon
  * 2000), MASE with the seasonal-naive in-sample scale (Hyndman & Koehler 2006) and interval hits
  * on the held-out points; with `total`, also whether the held-out sum over periods
- * min(from, h)..h lies inside the total's intervals. Never throws: a failure is returned as `error`.
+ * min(from, h)..h lies inside the total's intervals; with `members`, the automatic combination of
+ * those methods instead of the default members. Never throws: a failure is returned as `error`.
  */
-export function scoreSeries(s: M3Series, method: string, total = false, from = 1): SeriesScore {
+export function scoreSeries(s: M3Series, method: string, total = false, from = 1, members?: readonly string[]): SeriesScore {
   try {
     const a = Math.min(from, s.h);
-    const r = baseline(s.train, { season: s.frequency, horizon: s.h, method: method as "auto" | MethodId, levels: [80, 95], total, totalFrom: a });
+    const r = baseline(s.train, { season: s.frequency, horizon: s.h, method: method as "auto" | MethodId, levels: [80, 95], total, totalFrom: a, ...(members ? { members: members as MethodId[] } : {}) });
     const mean = r.forecast.map((f) => f.mean ?? NaN);
     let in80 = 0;
     let in95 = 0;

@@ -7,7 +7,8 @@ import { scoreSeries, type M3Series, type SeriesScore } from "./m3-score";
 
 /** The bench's job table. */
 export const benchJobs = {
-  score: (arg: { readonly series: M3Series; readonly method: string; readonly total: boolean; readonly from?: number }): SeriesScore => scoreSeries(arg.series, arg.method, arg.total, arg.from ?? 1),
+  score: (arg: { readonly series: M3Series; readonly method: string; readonly total: boolean; readonly from?: number; readonly members?: readonly string[] }): SeriesScore =>
+    scoreSeries(arg.series, arg.method, arg.total, arg.from ?? 1, arg.members),
 };
 
 serveJobs(benchJobs);

@@ -54,6 +54,12 @@ const U_BOUND = 7;
 /** Nelder–Mead settings for the likelihood: relative tolerance and restarts per start. */
 const ARIMA_TOL = 1e-10;
 const ARIMA_RESTARTS = 2;
+/**
+ * Quick fits (automatic selection's stepwise search, `quick`): one start (Hannan–Rissanen), no
+ * restarts, relative tolerance 1e-8 — as R's auto.arima trades exactness for speed with its
+ * approximation option (Hyndman & Khandakar 2008, §3.2).
+ */
+const QUICK_TOL = 1e-8;
 
 /** Order and constant of an ARIMA model. */
 export interface ArimaSpec {
@@ -351,8 +357,11 @@ interface FilterResult {
   p: Float64Array;
 }
 
-/** Kalman filter of the ARMA model over w, from the stationary prior. */
-function kalman(w: readonly number[], ar: readonly number[], ma: readonly number[], keep: boolean): FilterResult | null {
+/**
+ * Kalman filter of the ARMA model over w, from the stationary prior. With `states`, the
+ * filtered state a_{t|t} after each observation is appended to it.
+ */
+function kalman(w: readonly number[], ar: readonly number[], ma: readonly number[], keep: boolean, states?: number[][]): FilterResult | null {
   const s = makeSsm(ar, ma);
   const r = s.r;
   const p = Float64Array.from(stationaryCovariance(ar, ma));
@@ -394,12 +403,14 @@ function kalman(w: readonly number[], ar: readonly number[], ma: readonly number
     if (keep) innovations.push(v);
     if (steady) {
       for (let i = 0; i < r; i++) a[i] += gain[i] * v;
+      states?.push(Array.from(a));
       continue;
     }
     // update: a += P[:,0] v / f ; P_filtered = P − P[:,0] P[0,:] / f
     for (let i = 0; i < r; i++) tmp[i] = p[i * r];
     for (let i = 0; i < r; i++) a[i] += (tmp[i] * v) / f;
     for (let i = 0; i < r; i++) for (let j = 0; j < r; j++) filtered[i * r + j] = p[i * r + j] - (tmp[i] * tmp[j]) / f;
+    states?.push(Array.from(a));
   }
   // filtered covariance at the end (steady state: from the steady predicted P)
   if (steady) {
@@ -423,11 +434,11 @@ export function difference(y: readonly number[], d: number): number[] {
  *
  * Input: y finite with n − d > npar + 1 (so AICc is defined); p, q ≤ 6; d ∈ {0, 1, 2};
  * `fixed` may hold any coefficient (then not estimated; fixed AR/MA must be stationary /
- * invertible).
+ * invertible). `quick`: one start, no restarts, tolerance 1e-8 (see QUICK_TOL).
  * @throws RangeError for an unusable order, too few observations, a series that is constant
  *   after differencing, or a non-stationary fixed AR (or non-invertible fixed MA) part.
  */
-export function fitArima(y: readonly number[], spec: ArimaSpec, fixed: ArimaFixed = {}): ArimaFit {
+export function fitArima(y: readonly number[], spec: ArimaSpec, fixed: ArimaFixed = {}, quick = false): ArimaFit {
   const { p, d, q } = spec;
   if (![p, d, q].every((v) => Number.isInteger(v) && v >= 0) || p > 6 || q > 6 || d > MAX_D) {
     throw new RangeError(`arima: order (p, d, q) = (${p}, ${d}, ${q}) is not supported (p, q ≤ 6, d ≤ ${MAX_D})`);
@@ -515,10 +526,10 @@ export function fitArima(y: readonly number[], spec: ArimaSpec, fixed: ArimaFixe
   let best = x0;
   let converged = true;
   if (nFree > 0) {
-    const starts = x0.every((v, i) => v === x1[i]) ? [x0] : [x0, x1];
+    const starts = quick || x0.every((v, i) => v === x1[i]) ? [x0] : [x0, x1];
     let bestValue = Infinity;
     for (const st of starts) {
-      const res = minimise((v) => objective(v), st, { lower, upper, step, tol: ARIMA_TOL, restarts: ARIMA_RESTARTS });
+      const res = minimise((v) => objective(v), st, { lower, upper, step, tol: quick ? QUICK_TOL : ARIMA_TOL, restarts: quick ? 0 : ARIMA_RESTARTS });
       if (res.value < bestValue) {
         bestValue = res.value;
         best = res.x;
@@ -610,41 +621,73 @@ export interface ArimaCandidate {
 }
 
 /**
- * Automatic ARIMA: d by {@link chooseDifferences} (unless given), then every (p, q) with
- * p ≤ maxP, q ≤ maxQ, with and without the constant when d ≤ 1, fitted by
- * {@link fitArima} and compared by AICc; a model with an AR or MA root of modulus below
- * {@link MIN_ROOT_MODULUS} is rejected. Ties go to the simpler model (grid order).
+ * Automatic ARIMA: d by {@link chooseDifferences} (unless given), then models compared by AICc,
+ * fitted by {@link fitArima}; a model with an AR or MA root of modulus below
+ * {@link MIN_ROOT_MODULUS} is rejected. Search:
+ * - "exhaustive" (default): every (p, q) with p ≤ maxP, q ≤ maxQ, with and without the constant
+ *   when d ≤ 1; ties go to the simpler model (grid order).
+ * - "stepwise": Hyndman & Khandakar (2008), J. Statistical Software 27(3), §3.2, without seasonal
+ *   terms: start from the best of ARIMA(2,d,2), (0,d,0), (1,d,0), (0,d,1) (with the constant when
+ *   d ≤ 1) and (0,d,0) without it; then, while one of them is better, move to the best of the
+ *   current model's neighbours: p ± 1, q ± 1, p and q ± 1 together, the constant toggled (d ≤ 1).
+ *   Each model is fitted once.
+ * `quick` fits every model with {@link fitArima}'s quick settings.
  * @throws RangeError when no candidate can be fitted.
  */
 export function autoArima(
   y: readonly number[],
-  options: { d?: number; maxP?: number; maxQ?: number } = {},
+  options: { d?: number; maxP?: number; maxQ?: number; search?: "exhaustive" | "stepwise"; quick?: boolean } = {},
 ): { fit: ArimaFit; candidates: ArimaCandidate[] } {
   const d = options.d ?? chooseDifferences(y);
   const maxP = options.maxP ?? MAX_AR;
   const maxQ = options.maxQ ?? MAX_MA;
   const candidates: ArimaCandidate[] = [];
+  const tried = new Map<string, ArimaFit | null>();
   let best: ArimaFit | null = null;
   let firstError = "";
-  for (let order = 0; order <= maxP + maxQ; order++) {
-    for (let p = 0; p <= Math.min(order, maxP); p++) {
-      const q = order - p;
-      if (q > maxQ) continue;
-      for (const constant of d <= 1 ? [true, false] : [false]) {
-        const spec: ArimaSpec = { p, d, q, constant };
-        let aicc = Infinity;
-        try {
-          const fit = fitArima(y, spec);
-          const ok = minRootModulus(fit.ar.map((v) => -v)) >= MIN_ROOT_MODULUS && minRootModulus(fit.ma) >= MIN_ROOT_MODULUS;
-          if (ok && Number.isFinite(fit.aicc)) {
-            aicc = fit.aicc;
-            if (!best || aicc < best.aicc) best = fit;
-          }
-        } catch (e) {
-          if (!firstError) firstError = e instanceof Error ? e.message : String(e);
-          aicc = Infinity;
-        }
-        candidates.push({ spec, aicc });
+  /** Fits a model once (later calls return the same result); null when it failed or was rejected. */
+  const consider = (p: number, q: number, constant: boolean): ArimaFit | null => {
+    const key = `${p},${q},${constant}`;
+    if (tried.has(key)) return tried.get(key)!;
+    const spec: ArimaSpec = { p, d, q, constant };
+    let aicc = Infinity;
+    let result: ArimaFit | null = null;
+    try {
+      const fit = fitArima(y, spec, {}, options.quick === true);
+      const ok = minRootModulus(fit.ar.map((v) => -v)) >= MIN_ROOT_MODULUS && minRootModulus(fit.ma) >= MIN_ROOT_MODULUS;
+      if (ok && Number.isFinite(fit.aicc)) {
+        aicc = fit.aicc;
+        result = fit;
+        if (!best || aicc < best.aicc) best = fit;
+      }
+    } catch (e) {
+      if (!firstError) firstError = e instanceof Error ? e.message : String(e);
+    }
+    tried.set(key, result);
+    candidates.push({ spec, aicc });
+    return result;
+  };
+  const constants = d <= 1 ? [true, false] : [false];
+  if (options.search === "stepwise") {
+    const c = d <= 1;
+    for (const [p, q] of [[2, 2], [0, 0], [1, 0], [0, 1]]) if (p <= maxP && q <= maxQ) consider(p, q, c);
+    if (c) consider(0, 0, false);
+    for (;;) {
+      const current: ArimaFit | null = best;
+      if (!current) break;
+      const { p, q, constant } = (current as ArimaFit).spec;
+      const moves: [number, number, boolean][] = [];
+      for (const [dp, dq] of [[-1, 0], [1, 0], [0, -1], [0, 1], [-1, -1], [1, 1]]) moves.push([p + dp, q + dq, constant]);
+      if (d <= 1) moves.push([p, q, !constant]);
+      for (const [mp, mq, mc] of moves) if (mp >= 0 && mq >= 0 && mp <= maxP && mq <= maxQ) consider(mp, mq, mc);
+      if (best === current) break;
+    }
+  } else {
+    for (let order = 0; order <= maxP + maxQ; order++) {
+      for (let p = 0; p <= Math.min(order, maxP); p++) {
+        const q = order - p;
+        if (q > maxQ) continue;
+        for (const constant of constants) consider(p, q, constant);
       }
     }
   }
@@ -657,21 +700,9 @@ export function autoArima(
 // ---------------------------------------------------------------------------------------
 // Forecasting
 
-/**
- * Point forecasts and forecast standard deviations for steps 1..h (see the module comment):
- * ŵ_{n+j} = Z T^j a_n; ŷ integrates c + ŵ d times from the last observations;
- * Var_h = σ²[b_h P_n b_h' + Σ_{m<h} ψ*_m²], ψ*_m = Σ_{k≤m} g_{m−k} ψ_k with ψ_k = Z T^k R the
- * ARMA ψ-weights and g the coefficients of (1 − B)^{−d}; b_h = Σ_{j=1..h} g_{h−j} Z T^j.
- */
-export function forecastArima(
-  fit: Pick<ArimaFit, "ar" | "ma" | "constant" | "sigma2" | "state" | "stateCov" | "lastValues"> & { readonly spec: Pick<ArimaSpec, "d"> },
-  h: number,
-): { mean: number[]; sd: number[] } {
-  const { d } = fit.spec;
-  const s = makeSsm(fit.ar, fit.ma);
+/** Rows z_j = Z T^j (j = 0..h) of the ARMA state-space form, as vectors of length r. */
+function powersOfT(s: Ssm, h: number): Float64Array[] {
   const r = s.r;
-  const g = (k: number) => (d === 0 ? (k === 0 ? 1 : 0) : d === 1 ? 1 : k + 1);
-  // rows z_j = Z T^j (j = 0..h), as vectors of length r
   const rows: Float64Array[] = [];
   let z = new Float64Array(r);
   z[0] = 1;
@@ -688,6 +719,24 @@ export function forecastArima(
     rows.push(next);
     z = next;
   }
+  return rows;
+}
+
+/**
+ * Point forecasts and forecast standard deviations for steps 1..h (see the module comment):
+ * ŵ_{n+j} = Z T^j a_n; ŷ integrates c + ŵ d times from the last observations;
+ * Var_h = σ²[b_h P_n b_h' + Σ_{m<h} ψ*_m²], ψ*_m = Σ_{k≤m} g_{m−k} ψ_k with ψ_k = Z T^k R the
+ * ARMA ψ-weights and g the coefficients of (1 − B)^{−d}; b_h = Σ_{j=1..h} g_{h−j} Z T^j.
+ */
+export function forecastArima(
+  fit: Pick<ArimaFit, "ar" | "ma" | "constant" | "sigma2" | "state" | "stateCov" | "lastValues"> & { readonly spec: Pick<ArimaSpec, "d"> },
+  h: number,
+): { mean: number[]; sd: number[] } {
+  const { d } = fit.spec;
+  const s = makeSsm(fit.ar, fit.ma);
+  const r = s.r;
+  const g = (k: number) => (d === 0 ? (k === 0 ? 1 : 0) : d === 1 ? 1 : k + 1);
+  const rows = powersOfT(s, h);
   const psi = rows.map((row) => {
     let v = 0;
     for (let k = 0; k < r; k++) v += row[k] * s.rv[k];
@@ -721,4 +770,44 @@ export function forecastArima(
     sd.push(Math.sqrt(fit.sigma2 * (Math.max(quad, 0) + sum)));
   }
   return { mean, sd };
+}
+
+/**
+ * In-sample forecasts from every origin with the fitted coefficients held: row t (t = 0..n−1)
+ * holds the forecasts of y_t..y_{t+h−1} made from y_0..y_{t−1}, i.e. the point forecasts of
+ * {@link forecastArima} from the Kalman filter's state a_{t−1−d|t−1−d} on Δ^d y − c (the prior
+ * mean 0 when t = d), integrated from y_{t−d}..y_{t−1}; step 1 of row t ≥ d is the fitted value of y_t. Rows
+ * t < d (too few values to integrate from) are NaN. Input: y the series the model was fitted to,
+ * h ≥ 1. Cost O(n·h·r).
+ */
+export function arimaOriginForecasts(
+  fit: Pick<ArimaFit, "ar" | "ma" | "constant"> & { readonly spec: Pick<ArimaSpec, "d"> },
+  y: readonly number[],
+  h: number,
+): number[][] {
+  const { d } = fit.spec;
+  const s = makeSsm(fit.ar, fit.ma);
+  const rows = powersOfT(s, h);
+  const states: number[][] = [];
+  kalman(difference(y, d).map((v) => v - fit.constant), fit.ar, fit.ma, false, states);
+  const delta = d === 0 ? [] : d === 1 ? [1] : [2, -1];
+  const out: number[][] = [];
+  for (let t = 0; t < y.length; t++) {
+    if (t < d) {
+      out.push(new Array<number>(h).fill(NaN));
+      continue;
+    }
+    const a = t - 1 - d >= 0 ? states[t - 1 - d] : new Array<number>(s.r).fill(0);
+    const hist = y.slice(t - d, t);
+    const row: number[] = [];
+    for (let j = 1; j <= h; j++) {
+      let v = fit.constant;
+      for (let k = 0; k < s.r; k++) v += rows[j][k] * (a?.[k] ?? NaN);
+      for (let i = 0; i < d; i++) v += delta[i] * hist[hist.length - 1 - i];
+      hist.push(v);
+      row.push(v);
+    }
+    out.push(row);
+  }
+  return out;
 }

@@ -1,7 +1,14 @@
 /**
- * Classical decomposition and the sample autocorrelation function (pure TypeScript).
- * Shared by the Theta method and by the start values of the Holt-Winters methods.
+ * Classical decomposition, the sample autocorrelation function and the seasonal adjustment built
+ * on them (pure TypeScript). Shared by the Theta and ARIMA methods and by the start values of
+ * the Holt-Winters methods.
  */
+import { normalQuantile } from "../stats/normal";
+
+/** Level of the one-sided seasonality test on the lag-m autocorrelation (R forecast::thetaf: 90%, i.e. qnorm(0.95)). */
+export const SEASONAL_TEST_PROBABILITY = 0.95;
+/** Seasonal indices below this (in absolute value) make the adjustment unsafe (thetaf's rule). */
+export const MIN_SEASONAL_INDEX = 1e-4;
 
 /** Result of {@link classicalDecomposition}. */
 export interface Decomposition {
@@ -96,4 +103,44 @@ export function autocorrelations(y: readonly number[], maxLag: number): number[]
     r[k - 1] = s / c0;
   }
   return r;
+}
+
+/**
+ * Multiplicative seasonal adjustment when a seasonality test says so, as R forecast::thetaf
+ * does before the Theta method (Hyndman & Billah 2003, IJF 19(2); Assimakopoulos & Nikolopoulos
+ * 2000 adjust the same way; docs/methods.md §9).
+ *
+ * Test (only when m > 1, the series is not constant and n > 2m): with r_k the sample
+ * autocorrelations, the series is seasonal when |r_m| / √((1 + 2·Σ_{k<m} r_k²)/n) > Φ⁻¹(0.95)
+ * (a 90% two-sided test, thetaf's rule). If seasonal, the indices are those of a classical
+ * multiplicative decomposition ({@link classicalDecomposition}); the adjusted series is y_t / s_t.
+ * No adjustment (indices null, with a note saying why) when the test is not run or not
+ * significant, when an observation is not above zero, or when an index is below 1e-4.
+ * Input: finite y; m an integer ≥ 1.
+ */
+export function seasonalAdjustment(y: readonly number[], m: number): { indices: number[] | null; notes: string[] } {
+  const n = y.length;
+  const notes: string[] = [];
+  const constant = y.every((v) => v === y[0]);
+  if (m <= 1) return { indices: null, notes };
+  if (constant || n <= 2 * m) {
+    notes.push(`seasonality not tested: needs more than ${2 * m} observations and a non-constant series`);
+    return { indices: null, notes };
+  }
+  const r = autocorrelations(y, m);
+  let s2 = 0;
+  for (let k = 0; k < m - 1; k++) s2 += r[k] * r[k];
+  const seasonal = Math.abs(r[m - 1]) / Math.sqrt((1 + 2 * s2) / n) > normalQuantile(SEASONAL_TEST_PROBABILITY);
+  notes.push(seasonal ? `seasonal at lag ${m} (90% autocorrelation test): seasonally adjusted` : `no significant seasonality at lag ${m}`);
+  if (!seasonal) return { indices: null, notes };
+  if (y.some((v) => !(v > 0))) {
+    notes.push("multiplicative seasonal adjustment needs every observation above zero: not adjusted");
+    return { indices: null, notes };
+  }
+  const d = classicalDecomposition(y, m, "multiplicative");
+  if (d.figure.some((v) => Math.abs(v) < MIN_SEASONAL_INDEX)) {
+    notes.push("seasonal indices close to zero: not adjusted");
+    return { indices: null, notes };
+  }
+  return { indices: d.seasonal, notes };
 }

@@ -1,4 +1,4 @@
-import { autocorrelations, classicalDecomposition } from "../decompose";
+import { seasonalAdjustment } from "../decompose";
 import { fitEts } from "../ets/least-squares";
 import { checkHorizon } from "../ets/model";
 import { checkSeriesFor } from "../simple";
@@ -6,10 +6,6 @@ import { ols } from "../ols";
 import { ForecastInputError, type Fit, type FitInput, type Forecast, type Method } from "../types";
 import { normalQuantile } from "../../stats/normal";
 
-/** Level of the one-sided seasonality test on the lag-m autocorrelation (R forecast::thetaf: 90%, i.e. qnorm(0.95)). */
-export const THETA_SEASONAL_TEST_PROBABILITY = 0.95;
-/** Seasonal indices below this (in absolute value) make the adjustment unsafe (thetaf's rule). */
-export const THETA_MIN_SEASONAL_INDEX = 1e-4;
 /** Lower floor of alpha in the drift term, as in thetaf (avoids division by zero). */
 const ALPHA_FLOOR = 1e-10;
 const MIN_LENGTH = 3;
@@ -21,12 +17,9 @@ const MIN_LENGTH = 3;
  * (docs/methods.md §9).
  *
  * Steps:
- * 1. Seasonality test (only when m > 1, the series is not constant and n > 2m): with r_k
- *    the sample autocorrelations, the series is seasonal when
- *    |r_m| / √((1 + 2·Σ_{k<m} r_k²)/n) > Φ⁻¹(0.95) (a 90% two-sided test, thetaf's rule).
- *    If seasonal, y is divided by the seasonal indices of a classical multiplicative
- *    decomposition (skipped, with a note, when an index is below 1e-4 or an observation is
- *    not above zero).
+ * 1. Seasonality test and multiplicative classical adjustment ({@link seasonalAdjustment} of
+ *    lib/forecast/decompose.ts, thetaf's rule: a 90% test on the lag-m autocorrelation; skipped,
+ *    with a note, when an index is below 1e-4 or an observation is not above zero).
  * 2. SES (ETS(A,N,N)) is fitted to the (adjusted) series x by least squares: alpha and l0
  *    are estimated unless given in `fixed` (keys alpha, l0).
  * 3. b = OLS slope of x on t = 0..n−1 (lib/forecast/ols.ts, as thetaf's lsfit); forecast
@@ -61,30 +54,9 @@ const theta: Method = {
     let constant = true;
     for (let i = 1; i < n; i++) if (y[i] !== y[0]) constant = false;
 
-    let seasonal = false;
-    if (m > 1 && !constant && n > 2 * m) {
-      const r = autocorrelations(y, m);
-      let s2 = 0;
-      for (let k = 0; k < m - 1; k++) s2 += r[k] * r[k];
-      const stat = Math.sqrt((1 + 2 * s2) / n);
-      seasonal = Math.abs(r[m - 1]) / stat > normalQuantile(THETA_SEASONAL_TEST_PROBABILITY);
-      notes.push(seasonal ? `seasonal at lag ${m} (90% autocorrelation test): seasonally adjusted` : `no significant seasonality at lag ${m}`);
-    } else if (m > 1) {
-      notes.push(`seasonality not tested: needs more than ${2 * m} observations and a non-constant series`);
-    }
-    let indices: number[] | null = null;
-    if (seasonal) {
-      if (y.some((v) => !(v > 0))) {
-        notes.push("multiplicative seasonal adjustment needs every observation above zero: non-seasonal Theta used");
-      } else {
-        const d = classicalDecomposition(y, m, "multiplicative");
-        if (d.figure.some((v) => Math.abs(v) < THETA_MIN_SEASONAL_INDEX)) {
-          notes.push("seasonal indices close to zero: non-seasonal Theta used");
-        } else {
-          indices = d.seasonal;
-        }
-      }
-    }
+    const adjustment = seasonalAdjustment(y, m);
+    notes.push(...adjustment.notes.map((t) => t.replace(/: not adjusted$/, ": non-seasonal Theta used")));
+    const indices = adjustment.indices;
     const x = indices ? y.map((v, t) => v / indices![t]) : [...y];
     const fixed = input.fixed;
     if (fixed) {
