@@ -48,12 +48,13 @@ export interface PanelReportRow {
 export async function getPanelReportRows(actor: Actor, panelId: string, questionIds: readonly string[]): Promise<PanelReportRow[]> {
   await authorisePanel(actor, panelId, "read");
   const reads = panelReads({ wholeRounds: true });
-  const inputs = [];
+  // One question at a time, so that only one question's inputs (every answer of every closed round) are held at once.
+  const blends: Awaited<ReturnType<typeof runJob<"blends">>> = [];
   for (const questionId of questionIds) {
     await nextTurn();
-    inputs.push((await loadTriangulation(panelId, questionId, reads)).input);
+    const { input } = await loadTriangulation(panelId, questionId, reads);
+    blends.push((await runJob("blends", [input]))[0]);
   }
-  const blends = await runJob("blends", inputs);
   const outcomes = new Map((await db.resolution.findMany({ where: { questionId: { in: [...questionIds] } }, select: { questionId: true, actual: true } })).map((r) => [r.questionId, r.actual]));
   const baselines = new Set((await db.baseline.findMany({ where: { questionId: { in: [...questionIds] } }, select: { questionId: true } })).map((b) => b.questionId));
   return questionIds.map((questionId, i) => {
