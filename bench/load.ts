@@ -30,10 +30,11 @@
  * `--instances N`. Settings (environment): LOAD_DATABASE_URL, INSTANCES (1), PANELISTS (500),
  * QUESTIONS (2), CONCURRENCY (50), RETRIES (25), TRIANGULATE_PG_POOL (connections per instance),
  * NEXT_DIST_DIR (.next-load), LOAD_REBUILD, TRIANGULATE_SQLITE_SYNCHRONOUS (NORMAL or FULL, passed
- * to the server; lib/db.ts), SERVER_NODE_ARGS (e.g. "--cpu-prof --cpu-prof-dir=/tmp/prof"). Exit code 1 when any check fails. Traffic goes
+ * to the server; lib/db.ts), TRIANGULATE_DIRECT_ROUTES=off (every request through Next.js, no direct
+ * answer route; lib/http/server.ts), SERVER_NODE_ARGS (e.g. "--cpu-prof --cpu-prof-dir=/tmp/prof"). Exit code 1 when any check fails. Traffic goes
  * only to the servers this script starts; the run ends by itself.
  */
-import { mkdtempSync, readFileSync, rmSync } from "node:fs";
+import { mkdtempSync, rmSync } from "node:fs";
 import { cpus, loadavg, tmpdir } from "node:os";
 import path from "node:path";
 import { performance } from "node:perf_hooks";
@@ -41,6 +42,7 @@ import {
   build,
   Client,
   createOrganiser,
+  cpuSeconds,
   createPanel,
   freePort,
   hasBuild,
@@ -72,16 +74,6 @@ const RETRIES = Number(process.env.RETRIES ?? 25);
 const distDir = process.env.NEXT_DIST_DIR || ".next-load";
 const INSTANCES = Number(setting("instances", "INSTANCES", "1"));
 const POSTGRES = setting("database", "LOAD_DATABASE_URL", "");
-
-/** CPU seconds (user + system) the process has used so far, from /proc (Linux); NaN elsewhere. */
-function cpuSeconds(pid: number | undefined): number {
-  try {
-    const fields = readFileSync(`/proc/${pid}/stat`, "utf8").split(") ")[1].split(" ");
-    return (Number(fields[11]) + Number(fields[12])) / 100; // utime, stime in clock ticks (USER_HZ = 100)
-  } catch {
-    return Number.NaN;
-  }
-}
 
 function summarise(label: string, outcomes: readonly AnswerOutcome[], seconds: number): void {
   const ms = outcomes.filter((o) => o.status !== 0).map((o) => o.ms);

@@ -29,13 +29,14 @@
  * each page's last response there (to see what a page sends).
  * Traffic goes only to the loopback server this script starts; every loop is bounded.
  */
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
+import { mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { cpus, loadavg, tmpdir } from "node:os";
 import path from "node:path";
 import { performance } from "node:perf_hooks";
 import {
   build,
   Client,
+  cpuSeconds,
   createOrganiser,
   createRoster,
   freePort,
@@ -115,13 +116,23 @@ interface Timed {
  */
 const FRESH = { connection: "close" };
 
+/**
+ * One answer. A connection lost before the reply (a pooled socket the server closed as it idled,
+ * which a busy shared machine makes likelier) is retried with the same Idempotency-Key, which
+ * stores the answer at most once; at most 3 tries.
+ */
 async function postAnswer(c: Client, p: Panelist, body: unknown, headers: Record<string, string> = {}): Promise<Timed> {
-  try {
-    const r = await c.request("POST", "/api/v1/panelist/answers", { token: p.token, headers: { ...headers, "idempotency-key": newKey() }, body, timeoutMs: 120_000 });
-    return { status: r.status, ms: r.ms };
-  } catch {
-    return { status: 0, ms: 0 };
+  const key = newKey();
+  for (let tries = 0; tries < 3; tries++) {
+    try {
+      const r = await c.request("POST", "/api/v1/panelist/answers", { token: p.token, headers: { ...headers, "idempotency-key": key }, body, timeoutMs: 120_000 });
+      // A retry of a stored answer is replayed with 200: count it as stored.
+      return { status: tries > 0 && r.status === 200 ? 201 : r.status, ms: r.ms };
+    } catch {
+      // connection lost: try again
+    }
   }
+  return { status: 0, ms: 0 };
 }
 
 const median = (xs: readonly number[]) => percentile(xs, 50);
@@ -143,6 +154,23 @@ function peakRss(pid: number | undefined, field = "VmHWM"): number {
   } catch {
     return Number.NaN;
   }
+}
+
+/**
+ * With SCALE_HEAP_SNAPSHOT=1 and SERVER_NODE_ARGS="--heapsnapshot-signal=SIGUSR2 --diagnostic-dir=<folder>":
+ * the server writes a heap snapshot of its request thread into <folder> before it stops (what holds its memory).
+ */
+async function heapSnapshot(pid: number | undefined, baseURL: string): Promise<void> {
+  const dir = /--diagnostic-dir=(\S+)/.exec(process.env.SERVER_NODE_ARGS ?? "")?.[1];
+  if (!pid || !dir) throw new Error("SCALE_HEAP_SNAPSHOT=1 needs SERVER_NODE_ARGS with --heapsnapshot-signal=SIGUSR2 --diagnostic-dir=<folder>");
+  const files = () => readdirSync(dir).filter((f) => f.endsWith(".heapsnapshot"));
+  const before = files().length;
+  process.kill(pid, "SIGUSR2");
+  // Bounded: at most 5 minutes for the snapshot to be written (the file appears once complete).
+  for (let k = 0; k < 600 && files().length === before; k++) await new Promise((res) => setTimeout(res, 500));
+  // The file appears as the writing starts, which blocks the server's request thread: a request answered means it is done.
+  await fetch(`${baseURL}/api/v1/rule-defaults`, { headers: FRESH });
+  console.log(`heap snapshot: ${files().at(-1) ?? "none written"} in ${dir}`);
 }
 
 const load = () => loadavg().map((x) => x.toFixed(2)).join(" ");
@@ -174,13 +202,16 @@ async function measureSize(n: number, q: number): Promise<Column> {
     const t0 = performance.now();
     const memberIds = await createRoster(c, token, n);
 
-    const answerAll = async (questions: readonly { id: string }[], who: readonly Panelist[], round: number): Promise<{ out: Timed[]; seconds: number }> => {
+    const serverCpu = () => cpuSeconds(server.child.pid);
+    const answerAll = async (questions: readonly { id: string }[], who: readonly Panelist[], round: number): Promise<{ out: Timed[]; seconds: number; cpu: number }> => {
       const bodies = who.flatMap((p) => questions.map((qq, i) => ({ p, body: answerBody(rnd, qq.id, i, round) })));
       const t = performance.now();
+      const cpu0 = serverCpu();
       const out = await pool(bodies, CONCURRENCY, (a) => postAnswer(c, a.p, a.body));
+      const cpu = serverCpu() - cpu0;
       const bad = out.filter((o) => o.status !== 201);
       if (bad.length > 0) throw new Error(`round ${round}: ${bad.length} answers not stored (statuses ${[...new Set(bad.map((b) => b.status))].join(", ")})`);
-      return { out, seconds: (performance.now() - t) / 1000 };
+      return { out, seconds: (performance.now() - t) / 1000, cpu };
     };
     const resolve = async (panelId: string, question: { id: string }, i: number, round: number): Promise<number> => {
       let parts: { pseudonym: string; actual: number }[] = [];
@@ -227,10 +258,12 @@ async function measureSize(n: number, q: number): Promise<Column> {
     await api("POST", `/api/v1/panels/${panel.id}/rounds/1/open`);
     console.log(`setup (roster, 3 earlier panels with outcomes, panel, invitations): ${((performance.now() - t0) / 1000).toFixed(1)} s; ${memory(server.child.pid)}`);
 
-    const throughput = (label: string, r: { out: Timed[]; seconds: number }) => {
+    const throughput = (label: string, r: { out: Timed[]; seconds: number; cpu: number }) => {
       const ms = r.out.map((o) => o.ms);
       const rate = r.out.length / r.seconds;
+      const cpuEach = (1000 * r.cpu) / r.out.length;
       put(label, `${rate.toFixed(0)}/s, p50 ${fmtMs(percentile(ms, 50))}, p99 ${fmtMs(percentile(ms, 99))} (${r.out.length})`, percentile(ms, 99));
+      put(`${label}: server CPU per answer`, `${cpuEach.toFixed(2)} ms`, cpuEach);
       console.log(`${label}: ${r.out.length} in ${r.seconds.toFixed(1)} s, load average ${load()}; ${memory(server.child.pid)}`);
     };
     throughput("round-1 answers", await answerAll(questions, panelists, 1));
@@ -257,7 +290,9 @@ async function measureSize(n: number, q: number): Promise<Column> {
       let html = "";
       // CLOCK_MONOTONIC in µs, the clock of V8's CPU profiles: slices a server profile per page.
       const from = process.hrtime.bigint() / 1000n;
+      let cpu0 = 0;
       for (let r = 0; r <= REPS; r++) {
+        if (r === 1) cpu0 = serverCpu();
         const res = await c.request("GET", urlPath, { ...auth, headers: FRESH, timeoutMs: 300_000 });
         if (res.status !== 200) throw new Error(`GET ${urlPath} → ${res.status}`);
         if (r > 0) times.push(res.ms);
@@ -266,8 +301,9 @@ async function measureSize(n: number, q: number): Promise<Column> {
       const bytes = Buffer.byteLength(html);
       if (process.env.SCALE_DUMP_DIR) writeFileSync(path.join(process.env.SCALE_DUMP_DIR, `${n}x${q}-${label.replace(/[^a-z0-9]+/gi, "-")}.html`), html);
       const script = /^\s*<(!DOCTYPE|html)/i.test(html) ? `, script data ${fmtBytes(scriptBytes(html))}` : "";
-      put(label, `${fmtMs(median(times))}, ${fmtBytes(bytes)}${script}`, median(times));
-      console.log(`${label}: ${times.map((x) => x.toFixed(0)).join(" ")} ms (monotonic µs ${from}–${process.hrtime.bigint() / 1000n}); ${memory(server.child.pid)}`);
+      const cpuEach = (1000 * (serverCpu() - cpu0)) / REPS;
+      put(label, `${fmtMs(median(times))}, ${fmtBytes(bytes)}${script}; CPU ${fmtMs(cpuEach)}`, median(times));
+      console.log(`${label}: ${times.map((x) => x.toFixed(0)).join(" ")} ms, server CPU ${cpuEach.toFixed(0)} ms each (monotonic µs ${from}–${process.hrtime.bigint() / 1000n}); ${memory(server.child.pid)}`);
     };
     const reportPath = `/reports/${panel.id}`;
     await page("reviewer report page", reportPath, { cookie: reviewerCookie });
@@ -319,6 +355,7 @@ async function measureSize(n: number, q: number): Promise<Column> {
     const rss = peakRss(server.child.pid);
     put("server peak RSS (VmHWM)", `${(rss / 2 ** 20).toFixed(0)} MiB`, rss);
     console.log(`done ${n} × ${q}: load average ${load()}`);
+    if (process.env.SCALE_HEAP_SNAPSHOT === "1") await heapSnapshot(server.child.pid, server.baseURL);
   } finally {
     c.close();
     await server.stop();

@@ -24,7 +24,8 @@ export function retryAfter(limit: number, windowMs: number, start: number, count
 
 /** Windows older than this are deleted now and then (longer than any limit's window). */
 const KEEP_MS = 60 * 60_000;
-let hitsSinceSweep = 0;
+/** Hits counted since the last sweep: on globalThis, one count for the process (the answer handler's modules load twice, lib/http/answer-route.ts). */
+const sweep: { hits: number } = ((globalThis as { __triangulateRateLimitSweep?: { hits: number } }).__triangulateRateLimitSweep ??= { hits: 0 });
 
 export class FixedWindowLimiter {
   constructor(
@@ -48,8 +49,8 @@ export class FixedWindowLimiter {
     // One statement: a new key or an expired window starts a window with count 1; otherwise the
     // count goes up by one.
     const w = await statements.countRateLimitHit(`${this.name}:${key}`, new Date(now), new Date(now - this.windowMs));
-    if (++hitsSinceSweep >= 1000) {
-      hitsSinceSweep = 0;
+    if (++sweep.hits >= 1000) {
+      sweep.hits = 0;
       await db.rateLimitWindow.deleteMany({ where: { windowStart: { lt: new Date(now - KEEP_MS) } } });
     }
     return retryAfter(this.limit, this.windowMs, w.windowStart.getTime(), w.count, now);

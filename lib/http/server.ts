@@ -2,16 +2,20 @@
  * The production HTTP server (`triangulate serve`, which `npm start` runs): Node's HTTP server in
  * front of Next.js's request handler, with one shortcut.
  *
- * Requests for a direct route (DIRECT_ROUTES: a fixed API path, no path parameters) go straight
- * to that route module's exported method function, the same function Next.js calls for it (built
- * by lib/http/handler.ts, so the checks, the parsing and the responses are the same). Everything
- * else, every page and every other route, goes to Next.js.
+ * Requests for a direct route (DIRECT_ROUTES: a method on a fixed API path, no path parameters)
+ * go straight to its handler function in lib (lib/http/answer-route.ts), the same function the
+ * route module exports for Next.js to call (built by lib/http/handler.ts, so the checks, the
+ * parsing and the responses are the same). Everything else, every page, every other route and
+ * every other method of that path, goes to Next.js.
  *
  * Why: the answer endpoint takes a burst when an invitation goes out. Profiled under
  * `npm run load`, about three quarters of the server's CPU per answer went to Next.js's request
  * handling (routing, request and response stream conversion, tracing), and the app's own work
- * plus SQLite to the rest. Calling the route function directly halves the CPU per answer. Only
- * the answer route is direct: nothing else takes such bursts.
+ * plus SQLite to the rest. Calling the route function directly cuts the server's CPU per answer
+ * to about a third (`npm run load`: 1.9 ms through it, 5.6 ms through Next.js; README). Only the
+ * answer route is direct: nothing else takes such bursts. The handler is loaded here from the
+ * source tree (tsx) and by Next.js from its bundle: two copies of the same modules, so they keep
+ * no state in module variables (lib/http/answer-route.ts).
  *
  * What Next.js would add to a direct route's response and this server adds too:
  * - the headers next.config.mjs declares for the path (the security headers), read from the
@@ -33,15 +37,11 @@ import { problemResponse } from "./problem";
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..", "..");
 
 type RouteFunction = (req: Request, ctx: NextRouteContext) => Response | Promise<Response>;
-type RouteModule = Partial<Record<string, RouteFunction>>;
 
-/** The direct routes: path → route module (loaded at start-up). */
-const DIRECT_ROUTES: Record<string, () => Promise<RouteModule>> = {
-  "/api/v1/panelist/answers": () => import("@/app/api/v1/panelist/answers/route"),
+/** The direct routes: path → method → handler (loaded at start-up). */
+const DIRECT_ROUTES: Record<string, Record<string, () => Promise<RouteFunction>>> = {
+  "/api/v1/panelist/answers": { POST: async () => (await import("./answer-route")).postAnswer },
 };
-
-/** Methods a route module may export (lib/http/handler.ts `otherMethods`); HEAD and OPTIONS go to Next.js. */
-const ROUTE_METHODS = new Set(["GET", "POST", "PUT", "PATCH", "DELETE"]);
 
 /** A header rule as the build's routes-manifest.json records one from next.config.mjs `headers()`. */
 export interface HeaderRule {
@@ -140,8 +140,7 @@ export async function serve(o: ServeOptions): Promise<Serving> {
     const url = req.url ?? "/";
     const q = url.indexOf("?");
     const route = direct.get(q < 0 ? url : url.slice(0, q));
-    const method = req.method ?? "GET";
-    const fn = route && ROUTE_METHODS.has(method) ? route.module[method] : undefined;
+    const fn = route?.methods.get(req.method ?? "GET");
     if (!route || !fn) {
       void nextHandler(req, res);
       return;
@@ -185,13 +184,17 @@ export async function serve(o: ServeOptions): Promise<Serving> {
   };
 }
 
-/** The direct routes, each with its module and the headers next.config.mjs gives its path. */
-async function directRoutes(): Promise<Map<string, { module: RouteModule; headers: Record<string, string> }>> {
+/** The direct routes, each with its handlers and the headers next.config.mjs gives its path. */
+async function directRoutes(): Promise<Map<string, { methods: Map<string, RouteFunction>; headers: Record<string, string> }>> {
   const manifest = path.join(root, process.env.NEXT_DIST_DIR || ".next", "routes-manifest.json"); // the distDir of next.config.mjs
   const rules = (JSON.parse(readFileSync(manifest, "utf8")) as { headers: HeaderRule[] }).headers;
-  const out = new Map<string, { module: RouteModule; headers: Record<string, string> }>();
-  for (const [pathname, load] of Object.entries(DIRECT_ROUTES)) {
-    out.set(pathname, { module: await load(), headers: headersForPath(rules, pathname) });
+  const out = new Map<string, { methods: Map<string, RouteFunction>; headers: Record<string, string> }>();
+  // TRIANGULATE_DIRECT_ROUTES=off serves everything through Next.js: `npm run load` compares the two.
+  if (process.env.TRIANGULATE_DIRECT_ROUTES === "off") return out;
+  for (const [pathname, handlers] of Object.entries(DIRECT_ROUTES)) {
+    const methods = new Map<string, RouteFunction>();
+    for (const [method, load] of Object.entries(handlers)) methods.set(method, await load());
+    out.set(pathname, { methods, headers: headersForPath(rules, pathname) });
   }
   return out;
 }

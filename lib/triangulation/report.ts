@@ -24,7 +24,8 @@ import { authorisePanel, type PanelRole } from "../panels/access";
 import type { BaselinePreview } from "./baselines";
 import type { ConvergencePoint } from "../panels/rounds";
 import { resolutionView, type ResolutionView } from "./resolution";
-import { computeTriangulation, loadTriangulation, type CorrectedAnswer, type DepartureReport, type LoadedTriangulation, type TriangulationInput } from "./triangulation";
+import { runJob } from "@/lib/work/pool";
+import { loadTriangulation, type CorrectedAnswer, type DepartureReport, type LoadedTriangulation, type TriangulationInput } from "./triangulation";
 import { panelReads, type PanelReads } from "../panels/panel-reads";
 import { jsonSafe, type JsonSafe } from "../panels/json";
 import { correctionSummary, namesRevealed } from "./report-views";
@@ -153,16 +154,21 @@ export interface QuestionReport {
 
 const safeIntervals = (iv: readonly BlendInterval[]): Intervals => jsonSafe(iv) as Intervals;
 
-/** The blend's move since the previous closed round (see `QuestionReport.movement`). */
-function blendMovement(input: TriangulationInput, now: number | null): QuestionReport["movement"] {
+/** The inputs up to the previous closed round with answers, for the blend's move since then (`QuestionReport.movement`); null without one. */
+function earlierInput(input: TriangulationInput): { input: TriangulationInput; fromRound: number; toRound: number } | null {
   const rounds = [...input.rounds];
   const latest = rounds.pop();
   while (rounds.length > 0 && rounds.at(-1)!.answers.length === 0) rounds.pop();
   const previous = rounds.at(-1);
-  if (now === null || !Number.isFinite(now) || !latest || !previous) return null;
-  const before = computeTriangulation({ ...input, rounds }).blend?.figure ?? null;
+  if (!latest || !previous) return null;
+  return { input: { ...input, rounds }, fromRound: previous.round, toRound: latest.round };
+}
+
+/** The blend's move since the previous closed round (see `QuestionReport.movement`). */
+function blendMovement(earlier: ReturnType<typeof earlierInput>, now: number | null, before: number | null): QuestionReport["movement"] {
+  if (now === null || !Number.isFinite(now) || !earlier) return null;
   if (before === null || !Number.isFinite(before)) return null;
-  return { fromRound: previous.round, toRound: latest.round, previousFigure: before, change: now - before };
+  return { fromRound: earlier.fromRound, toRound: earlier.toRound, previousFigure: before, change: now - before };
 }
 
 /**
@@ -187,7 +193,9 @@ export async function getQuestionReportWithRule(
 ): Promise<{ report: QuestionReport; weightRule: LoadedTriangulation["rule"] }> {
   const access = await authorisePanel(actor, panelId, "read");
   const loaded = await loadTriangulation(panelId, questionId, reads);
-  const t = computeTriangulation(loaded.input);
+  // On the worker pool: a panelist's answer need not wait for the figures (issue 13).
+  const earlier = earlierInput(loaded.input);
+  const { now: t, before } = await runJob("triangulationWithEarlier", { input: loaded.input, earlier: earlier?.input ?? null });
   const namesShown = await namesRevealed(actor, panelId, access.canManage);
   const names = new Map((await reads.invitations(panelId)).map((i) => [i.id, i.name]));
   const nameOf = (invitationId: string) => (namesShown ? (names.get(invitationId) ?? null) : null);
@@ -327,7 +335,7 @@ export async function getQuestionReportWithRule(
     departures: t.departures ? jsonSafe(t.departures) : null,
     biasCorrection: namesShown ? panelists.map(({ invitationId, pseudonym, ...rest }) => ({ pseudonym, name: nameOf(invitationId), ...jsonSafe(rest) })) : [],
     resolution: resolution ? resolutionView(resolution) : null,
-    movement: blendMovement(loaded.input, t.blend?.figure ?? null),
+    movement: blendMovement(earlier, t.blend?.figure ?? null, before),
     performanceWeights: calibration,
     distributions: {
       panelRaw: t.panel?.raw.distribution ?? null,

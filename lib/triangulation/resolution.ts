@@ -20,7 +20,8 @@ import { scoreFigure, scoreResolution, type FigureScore, type ResolutionScores }
 import type { ResolutionCorrection, ResolutionInput } from "@/lib/validation/triangulation-inputs";
 import { authorisePanel } from "../panels/access";
 import { recordAudit } from "../panels/audit";
-import { computeTriangulation, loadTriangulation } from "./triangulation";
+import { loadTriangulation } from "./triangulation";
+import { runJob } from "@/lib/work/pool";
 import type { ResolutionFigures } from "./track-records";
 import { jsonSafe, type JsonSafe } from "../panels/json";
 import type { BaselinePreview } from "./baselines";
@@ -143,7 +144,7 @@ function view(r: { questionId: string; actual: number; note: string; partActuals
 /** The figures of a question as they stand now, for storing at resolution. */
 export async function currentFigures(panelId: string, questionId: string): Promise<ResolutionFigures> {
   const loaded = await loadTriangulation(panelId, questionId);
-  const t = computeTriangulation(loaded.input);
+  const t = await runJob("triangulation", loaded.input);
   if (!t.panel) throw new ConflictError("no-panel-figure", "No closed round has answers to this question, so there is no panel figure to score yet.");
   const b = await db.baseline.findUnique({ where: { questionId } });
   const preview = b ? (JSON.parse(b.preview) as BaselinePreview) : null;

@@ -1,13 +1,14 @@
 /**
  * The computations that run in the worker pool (lib/work/pool.ts), by name. Each takes and
  * returns plain data (structured clone: no functions, no class instances; Maps are kept). Only the
- * pure core, and lib/triangulation/calibration-figures.ts (which imports only the core), is imported here:
+ * pure core, and lib/triangulation/calibration-figures.ts and triangulation-figures.ts (which import only the core), is imported here:
  * a worker loads no database, framework or zod.
  */
 import { baseline, type BaselineOptions } from "../forecast/baseline";
 import type { RawSeries } from "../forecast/series";
 import { launchForecast, type MarketPotential } from "../forecast/launch";
 import { computeCalibration } from "../triangulation/calibration-figures";
+import { blendsOf, computeTriangulation, triangulationWithEarlier, type TriangulationInput } from "../triangulation/triangulation-figures";
 
 export const jobs = {
   /** The baseline engine's fit and forecast (lib/forecast/baseline.ts). */
@@ -17,6 +18,12 @@ export const jobs = {
     launchForecast(arg.analogues, arg.market, arg.horizon, [80, 95], undefined, arg.from ?? 1),
   /** Performance weights of a panel (lib/triangulation/calibration-figures.ts). */
   calibration: (arg: { readonly questions: Parameters<typeof computeCalibration>[0]; readonly answers: Parameters<typeof computeCalibration>[1] }) => computeCalibration(arg.questions, arg.answers),
+  /** A question's triangulation (lib/triangulation/triangulation-figures.ts). */
+  triangulation: (input: TriangulationInput) => computeTriangulation(input),
+  /** A question's triangulation and the blend figure before its final round (the question report). */
+  triangulationWithEarlier: (arg: { readonly input: TriangulationInput; readonly earlier: TriangulationInput | null }) => triangulationWithEarlier(arg.input, arg.earlier),
+  /** The blend figure and intervals of each question (a panel's report table). */
+  blends: (inputs: readonly TriangulationInput[]) => blendsOf(inputs),
 };
 
 export type Jobs = typeof jobs;

@@ -11,7 +11,7 @@
  */
 import { spawn, spawnSync, type ChildProcess } from "node:child_process";
 import { randomBytes } from "node:crypto";
-import { existsSync } from "node:fs";
+import { existsSync, readFileSync } from "node:fs";
 import http from "node:http";
 import { createServer } from "node:net";
 import path from "node:path";
@@ -417,6 +417,16 @@ export async function verifyAnswers(databaseUrl: string, outcomes: readonly Answ
     };
   } finally {
     await conn.close();
+  }
+}
+
+/** CPU seconds (user + system) the process has used so far, from /proc (Linux); NaN elsewhere. */
+export function cpuSeconds(pid: number | undefined): number {
+  try {
+    const fields = readFileSync(`/proc/${pid}/stat`, "utf8").split(") ")[1].split(" ");
+    return (Number(fields[11]) + Number(fields[12])) / 100; // utime, stime in clock ticks (USER_HZ = 100)
+  } catch {
+    return Number.NaN;
   }
 }
 

@@ -156,6 +156,10 @@ describe("demo history", () => {
     expect(r.legs.trackRecord.panelists).toEqual([]);
     expect(r.legs.trackRecord.meanFactor).not.toBe(1);
     expect(r.legs.panel!.corrected.figure).not.toBe(r.legs.panel!.raw.figure);
+    // The report page's table (computed apart, on the worker pool) shows exactly this report's blend.
+    const { getPanelReportRows } = await import("../../lib/triangulation/panel-reports");
+    const [row] = await getPanelReportRows(reviewer, wren2.panelId, [wren2.questionId]);
+    expect(row).toEqual({ questionId: wren2.questionId, blend: { figure: r.blend!.figure, intervals: r.blend!.intervals }, outcome: r.resolution?.actual ?? null, hasBaseline: true });
     const { db } = await import("../../lib/db");
     const stored = await db.baseline.findUniqueOrThrow({ where: { questionId: wren2.questionId } });
     const preview = JSON.parse(stored.preview) as { rows: { value: number; scaled: number }[] };

@@ -3,7 +3,7 @@ import { notFound } from "next/navigation";
 import { NotFoundError } from "@/lib/errors";
 import { getPanel } from "@/lib/panels/panels";
 import { getConvergencePage } from "@/lib/panels/views";
-import { getPanelReports } from "@/lib/triangulation/panel-reports";
+import { getPanelReportRows } from "@/lib/triangulation/panel-reports";
 import { getCalibration } from "@/lib/triangulation/calibration";
 import PerformanceWeights from "@/lib/ui/performance-weights";
 import ConvergenceView from "@/lib/ui/convergence-view";
@@ -24,7 +24,7 @@ export default async function ReportPage({ params }: { params: Promise<{ id: str
     throw error;
   }
   const convergence = await getConvergencePage(user, id);
-  const reports = await getPanelReports(user, id, panel.questions.map((q) => q.id));
+  const rows = await getPanelReportRows(user, id, panel.questions.map((q) => q.id));
   const calibration = panel.questions.some((q) => q.calibration) ? await getCalibration(user, id) : null;
   return (
     <article>
@@ -68,7 +68,7 @@ export default async function ReportPage({ params }: { params: Promise<{ id: str
           </thead>
           <tbody>
             {panel.questions.map((q, i) => {
-              const r = reports[i];
+              const r = rows[i];
               const iv = r.blend?.intervals.find((x) => x.level === 80);
               return (
                 <tr key={q.id} data-report-question={q.id}>
@@ -91,11 +91,11 @@ export default async function ReportPage({ params }: { params: Promise<{ id: str
                   <td>
                     {q.calibration ? (
                       "calibration question"
-                    ) : r.resolution ? (
+                    ) : r.outcome !== null ? (
                       <>
-                        outcome: <Figure value={r.resolution.actual} name="outcome" />
+                        outcome: <Figure value={r.outcome} name="outcome" />
                       </>
-                    ) : r.legs.baseline ? (
+                    ) : r.hasBaseline ? (
                       "baseline attached"
                     ) : (
                       "no baseline"

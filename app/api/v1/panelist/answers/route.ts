@@ -1,9 +1,6 @@
-import { Reply, handle, otherMethods } from "@/lib/http/handler";
-import { routes } from "@/lib/http/routes";
-import { submitAnswer } from "@/lib/panels/answers";
+import { otherMethods } from "@/lib/http/handler";
+import { postAnswer } from "@/lib/http/answer-route";
 
-export const POST = handle(routes.submitAnswer, async ({ actor, body, idempotencyKey }) => {
-  const stored = await submitAnswer(actor, body, { idempotencyKey });
-  return stored.replayed ? new Reply(200, stored) : stored;
-});
+// The handler lives in lib (the production server also calls it directly, lib/http/server.ts).
+export const POST = postAnswer;
 export const { GET, PUT, PATCH, DELETE } = otherMethods("POST");
