@@ -2,7 +2,7 @@ import type { Metadata } from "next";
 import { redirect } from "next/navigation";
 import { getPanelistPanel } from "@/lib/panels/answers";
 import { getFeedback } from "@/lib/panels/feedback";
-import ActionForm, { FieldError } from "@/lib/ui/action-form";
+import ActionForm, { FieldError, SubmitButton } from "@/lib/ui/action-form";
 import Figure from "@/lib/ui/figure";
 import { formatDateTime, formatNumber } from "@/lib/ui/format";
 import LinkProblem from "@/lib/ui/link-problem";
@@ -181,9 +181,9 @@ function AnswerFields({ q, prefix }: { q: PanelistQuestionView; prefix: string }
       ) : null}
       {q.previousAnswer && !q.answer ? (
         <p className="keep-answer">
-          <button type="submit" name="keep" value={q.id} className="secondary" data-keep={q.id}>
+          <SubmitButton name="keep" value={q.id} className="secondary" data-keep={q.id}>
             Keep my answer ({previousText(q)})
-          </button>{" "}
+          </SubmitButton>{" "}
           <span className="hint">Your final answer of round {q.previousAnswer.roundNumber}; or change it below.</span>
         </p>
       ) : null}
