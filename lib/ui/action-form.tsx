@@ -8,6 +8,7 @@
  */
 import { createContext, startTransition, useActionState, useContext, useEffect, useRef, useState, type ComponentProps, type ReactNode } from "react";
 import { CopyButton } from "./copy-button";
+import ErrorBanner from "./error-banner";
 import { EMPTY_FORM_STATE, type FormAction, type FormState } from "../actions/form-state";
 
 const StateContext = createContext<FormState>(EMPTY_FORM_STATE);
@@ -79,9 +80,7 @@ export default function ActionForm({
           >
             {otherSubmits ? <button type="submit" hidden tabIndex={-1} aria-hidden="true" disabled={!ready || pending || submitDisabled} /> : null}
             {state.message && !state.ok ? (
-              <p className="form-error" role="alert">
-                {state.message}
-              </p>
+              <ErrorBanner>{state.message}</ErrorBanner>
             ) : null}
             {children}
             {state.ok && (state.message || successMessage) ? (

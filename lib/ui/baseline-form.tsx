@@ -16,6 +16,7 @@
 import { startTransition, useActionState, useMemo, useState } from "react";
 import type { FormState } from "../actions/form-state";
 import BaselineChart from "./baseline-chart";
+import ErrorBanner from "./error-banner";
 import Figure from "./figure";
 import { formatNumber } from "./format";
 import LaunchTable, { type LaunchPreview } from "./launch-table";
@@ -138,9 +139,7 @@ export default function BaselineForm({
       <input type="hidden" name="panelId" value={panelId} />
       <input type="hidden" name="questionId" value={questionId} />
       {state.message && !state.ok ? (
-        <p className="form-error" role="alert">
-          {state.message}
-        </p>
+        <ErrorBanner>{state.message}</ErrorBanner>
       ) : null}
       <fieldset>
         <legend>History</legend>

@@ -7,6 +7,7 @@
  */
 import { useEffect, useRef, useState, useTransition } from "react";
 import { useRouter } from "next/navigation";
+import ErrorBanner from "./error-banner";
 import { formatDateTime } from "./format";
 
 /** What GET /api/v1/panels/{panelId}/progress returns (ProgressView, lib/panels/rounds.ts). */
@@ -89,7 +90,7 @@ export default function LiveProgress({
         <span style={{ width: `${Math.round(share * 100)}%` }} />
       </div>
       <p className="hint">Updated every {Math.round(intervalMs / 1000)} seconds; last checked {formatDateTime(checkedAt)}.</p>
-      {error ? <p className="form-error">{error}</p> : null}
+      {error ? <ErrorBanner>{error}</ErrorBanner> : null}
       <table>
         <thead>
           <tr>

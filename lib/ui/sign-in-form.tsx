@@ -5,6 +5,7 @@
  */
 import { useState } from "react";
 import { signIn } from "next-auth/react";
+import ErrorBanner from "./error-banner";
 
 export default function SignInForm({ next }: { next: string }) {
   const [error, setError] = useState<string | null>(null);
@@ -46,9 +47,7 @@ export default function SignInForm({ next }: { next: string }) {
         <input name="password" type="password" autoComplete="current-password" required />
       </label>
       {error ? (
-        <p className="form-error" role="alert">
-          {error}
-        </p>
+        <ErrorBanner>{error}</ErrorBanner>
       ) : null}
       <div className="actions">
         <button type="submit" disabled={pending}>

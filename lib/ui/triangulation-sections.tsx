@@ -62,7 +62,7 @@ export function LegWarnings({ report }: { report: QuestionReport }) {
     <section className="card warnings" aria-label="Warnings" data-warnings={report.warnings.length}>
       <ul>
         {report.warnings.map((w) => (
-          <li key={w} className="form-error" data-warning>
+          <li key={w} className="caution" data-warning>
             {w}
           </li>
         ))}
