@@ -6,8 +6,9 @@
  * (not through the `action` prop) so that what the user typed stays in place when the server
  * rejects it; it is cleared only after a success, when `resetOnSuccess` is set.
  */
-import { createContext, startTransition, useActionState, useContext, useEffect, useRef, useState, type ComponentProps, type ReactNode } from "react";
+import { createContext, startTransition, useActionState, useContext, useEffect, useRef, type ComponentProps, type ReactNode } from "react";
 import { CopyButton } from "./copy-button";
+import { useReady } from "./use-ready";
 import ErrorBanner from "./error-banner";
 import { EMPTY_FORM_STATE, type FormAction, type FormState } from "../actions/form-state";
 
@@ -55,8 +56,7 @@ export default function ActionForm({
   const form = useRef<HTMLFormElement>(null);
   // Until the page's script has run, a submit would be the browser's own (a GET of the same page,
   // losing what was typed): the submit buttons wait, and `data-ready` tells tests the form is live.
-  const [ready, setReady] = useState(false);
-  useEffect(() => setReady(true), []);
+  const ready = useReady();
   useEffect(() => {
     if (state.ok && resetOnSuccess) form.current?.reset();
   }, [state, resetOnSuccess]);

@@ -17,6 +17,7 @@ import { startTransition, useActionState, useMemo, useState } from "react";
 import type { FormState } from "../actions/form-state";
 import BaselineChart from "./baseline-chart";
 import ErrorBanner from "./error-banner";
+import { useReady } from "./use-ready";
 import Figure from "./figure";
 import { formatNumber } from "./format";
 import LaunchTable, { type LaunchPreview } from "./launch-table";
@@ -115,6 +116,7 @@ export default function BaselineForm({
   marketQuestions: readonly { readonly id: string; readonly text: string }[];
 }) {
   const [state, formAction, pending] = useActionState(action, EMPTY);
+  const ready = useReady();
   const [source, setSource] = useState<"csv" | "values" | "launch">(defaults.source);
   const [marketSource, setMarketSource] = useState<"question" | "range">(marketQuestions.length > 0 ? "question" : "range");
   const [csv, setCsv] = useState(defaults.csv);
@@ -129,6 +131,7 @@ export default function BaselineForm({
       className="baseline-form"
       aria-label="Baseline"
       noValidate
+      data-ready={ready ? "" : undefined}
       onSubmit={(event) => {
         event.preventDefault();
         const submitter = (event.nativeEvent as SubmitEvent).submitter;
@@ -395,10 +398,10 @@ export default function BaselineForm({
         </p>
       ) : null}
       <div className="actions">
-        <button type="submit" name="intent" value="preview" className="secondary" disabled={pending}>
+        <button type="submit" name="intent" value="preview" className="secondary" disabled={!ready || pending}>
           {pending ? "Reading…" : "Preview"}
         </button>
-        <button type="submit" name="intent" value="attach" disabled={pending}>
+        <button type="submit" name="intent" value="attach" disabled={!ready || pending}>
           {pending ? "Fitting…" : "Attach baseline"}
         </button>
         {state.ok === false && state.fieldErrors && Object.keys(state.fieldErrors).length > 0 ? (
