@@ -92,7 +92,7 @@ export default async function AccuracyPage() {
           <section aria-labelledby="signal-h">
             <h2 id="signal-h">Tracking signal</h2>
             <TrackingSignalChart
-              labels={view.questions.map((_, i) => `Q${i + 1}`)}
+              labels={view.questions.map((_, i) => `Question ${i + 1}`)}
               series={FIGURES.map(([f, label]) => ({ label, values: h[f].trackingSignal }))}
               limit={TRACKING_SIGNAL_LIMIT}
             />
@@ -121,7 +121,7 @@ export default async function AccuracyPage() {
                 <tbody>
                   {view.questions.map((q, i) => (
                     <tr key={q.questionId} data-history-question={q.questionId}>
-                      <td>Q{i + 1}</td>
+                      <td>{i + 1}</td>
                       <td>
                         <a href={`/panels/${q.panelId}/questions/${q.questionId}`}>{q.text}</a>
                         <span className="hint">

@@ -23,6 +23,7 @@ import { CsvError, readSeriesCsv, type SeriesTable } from "@/lib/csv/parse";
 import type { BaselineResult } from "@/lib/forecast/baseline";
 import { marketPotentialFromRange, type MarketPotential } from "@/lib/forecast/launch";
 import { ForecastInputError, type MethodId } from "@/lib/forecast/types";
+import { formatNumber } from "@/lib/ui/format";
 import type { BASELINE_QUANTITIES, BaselineInput, HISTORY_PERIODS, LaunchInput } from "@/lib/validation/triangulation-inputs";
 import { runJob } from "@/lib/work/pool";
 import { authorisePanel } from "../panels/access";
@@ -261,7 +262,7 @@ async function analyseLaunch(input: BaselineInput, launch: LaunchInput, market: 
   return { source: "launch", data, futureX: {}, horizon, result, preview, target: targetOf({ result, horizon, firstPeriod: input.firstPeriod, quantity: input.quantity, period: input.period }) };
 }
 
-const plain = (v: number) => Number(v.toPrecision(4)).toLocaleString("en-GB");
+const plain = (v: number) => formatNumber(v, 4);
 
 /**
  * The market potential of a launch baseline: as given (P10 / median / P90), or from another

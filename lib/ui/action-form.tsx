@@ -6,12 +6,16 @@
  * (not through the `action` prop) so that what the user typed stays in place when the server
  * rejects it; it is cleared only after a success, when `resetOnSuccess` is set.
  */
-import { createContext, startTransition, useActionState, useContext, useEffect, useRef, useState, type ReactNode } from "react";
+import { createContext, startTransition, useActionState, useContext, useEffect, useRef, type ComponentProps, type ReactNode } from "react";
 import { CopyButton } from "./copy-button";
+import { useReady } from "./use-ready";
+import ErrorBanner from "./error-banner";
 import { EMPTY_FORM_STATE, type FormAction, type FormState } from "../actions/form-state";
 
 const StateContext = createContext<FormState>(EMPTY_FORM_STATE);
 const PendingContext = createContext(false);
+/** Whether the form's script has run (its submits go through the action, not the browser). */
+const ReadyContext = createContext(false);
 
 export interface ActionFormProps {
   readonly action: FormAction;
@@ -52,62 +56,76 @@ export default function ActionForm({
   const form = useRef<HTMLFormElement>(null);
   // Until the page's script has run, a submit would be the browser's own (a GET of the same page,
   // losing what was typed): the submit buttons wait, and `data-ready` tells tests the form is live.
-  const [ready, setReady] = useState(false);
-  useEffect(() => setReady(true), []);
+  const ready = useReady();
   useEffect(() => {
     if (state.ok && resetOnSuccess) form.current?.reset();
   }, [state, resetOnSuccess]);
   return (
     <StateContext.Provider value={state}>
       <PendingContext.Provider value={pending}>
-        <form
-          ref={form}
-          className={className}
-          aria-label={ariaLabel}
-          data-ready={ready ? "" : undefined}
-          noValidate
-          onSubmit={(event) => {
-            event.preventDefault();
-            if (confirm && !window.confirm(confirm)) return;
-            // With the button that submitted it ("keep my answer" and a server-side confirmation carry their values).
-            const data = new FormData(event.currentTarget, (event.nativeEvent as SubmitEvent).submitter);
-            startTransition(() => formAction(data));
-          }}
-        >
-          {otherSubmits ? <button type="submit" hidden tabIndex={-1} aria-hidden="true" disabled={!ready || pending || submitDisabled} /> : null}
-          {state.message && !state.ok ? (
-            <p className="form-error" role="alert">
-              {state.message}
-            </p>
-          ) : null}
-          {children}
-          {state.ok && (state.message || successMessage) ? (
-            <p className="notice" role="status">
-              {state.message ?? successMessage}
-            </p>
-          ) : null}
-          {state.confirm ? (
-            <div className="card confirm-step" role="alertdialog" aria-label="Confirm before saving" data-confirm={state.confirm.value}>
-              <p>{state.confirm.text}</p>
-              <p className="hint">Nothing is saved until you confirm. Change the value above and submit again to record a different one.</p>
-              <button type="submit" name={state.confirm.field} value={state.confirm.value} disabled={pending}>
-                {state.confirm.submitLabel}
-              </button>
-            </div>
-          ) : null}
-          {state.secret ? <SecretOnce label={state.secret.label} value={state.secret.value} /> : null}
-          {state.secrets?.map((s) => <SecretOnce key={s.value} label={s.label} value={s.value} />)}
-          <div className="actions">
-            <button type="submit" className={submitClassName} disabled={!ready || pending || submitDisabled}>
-              {pending ? (pendingLabel ?? "Saving…") : submitLabel}
-            </button>
-            {state.ok === false && state.fieldErrors && Object.keys(state.fieldErrors).length > 0 ? (
-              <span className="field-error">Not saved: see the messages in red above.</span>
+        <ReadyContext.Provider value={ready}>
+          <form
+            ref={form}
+            className={className}
+            aria-label={ariaLabel}
+            data-ready={ready ? "" : undefined}
+            noValidate
+            onSubmit={(event) => {
+              event.preventDefault();
+              if (confirm && !window.confirm(confirm)) return;
+              // With the button that submitted it ("keep my answer" and a server-side confirmation carry their values).
+              const data = new FormData(event.currentTarget, (event.nativeEvent as SubmitEvent).submitter);
+              startTransition(() => formAction(data));
+            }}
+          >
+            {otherSubmits ? <button type="submit" hidden tabIndex={-1} aria-hidden="true" disabled={!ready || pending || submitDisabled} /> : null}
+            {state.message && !state.ok ? (
+              <ErrorBanner>{state.message}</ErrorBanner>
             ) : null}
-          </div>
-        </form>
+            {children}
+            {state.ok && (state.message || successMessage) ? (
+              <p className="notice" role="status">
+                {state.message ?? successMessage}
+              </p>
+            ) : null}
+            {state.confirm ? (
+              <div className="card confirm-step" role="alertdialog" aria-label="Confirm before saving" data-confirm={state.confirm.value}>
+                <p>{state.confirm.text}</p>
+                <p className="hint">Nothing is saved until you confirm. Change the value above and submit again to record a different one.</p>
+                <button type="submit" name={state.confirm.field} value={state.confirm.value} disabled={pending}>
+                  {state.confirm.submitLabel}
+                </button>
+              </div>
+            ) : null}
+            {state.secret ? <SecretOnce label={state.secret.label} value={state.secret.value} /> : null}
+            {state.secrets?.map((s) => <SecretOnce key={s.value} label={s.label} value={s.value} />)}
+            <div className="actions">
+              <button type="submit" className={submitClassName} disabled={!ready || pending || submitDisabled}>
+                {pending ? (pendingLabel ?? "Saving…") : submitLabel}
+              </button>
+              {state.ok === false && state.fieldErrors && Object.keys(state.fieldErrors).length > 0 ? (
+                <span className="field-error">Not saved: see the messages in red above.</span>
+              ) : null}
+            </div>
+          </form>
+        </ReadyContext.Provider>
       </PendingContext.Provider>
     </StateContext.Provider>
+  );
+}
+
+/**
+ * A further submit button inside an <ActionForm> whose markup the page draws (e.g. "keep my
+ * answer", with its name and value): like the form's own button, it is disabled until the form's
+ * script has run and while the form is saving, and carries `data-ready` once it is live.
+ */
+export function SubmitButton({ children, ...props }: Omit<ComponentProps<"button">, "type" | "disabled"> & { children: ReactNode }) {
+  const ready = useContext(ReadyContext);
+  const pending = useContext(PendingContext);
+  return (
+    <button {...props} type="submit" disabled={!ready || pending} data-ready={ready ? "" : undefined}>
+      {children}
+    </button>
   );
 }
 

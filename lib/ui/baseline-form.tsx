@@ -16,6 +16,8 @@
 import { startTransition, useActionState, useMemo, useState } from "react";
 import type { FormState } from "../actions/form-state";
 import BaselineChart from "./baseline-chart";
+import ErrorBanner from "./error-banner";
+import { useReady } from "./use-ready";
 import Figure from "./figure";
 import { formatNumber } from "./format";
 import LaunchTable, { type LaunchPreview } from "./launch-table";
@@ -114,6 +116,7 @@ export default function BaselineForm({
   marketQuestions: readonly { readonly id: string; readonly text: string }[];
 }) {
   const [state, formAction, pending] = useActionState(action, EMPTY);
+  const ready = useReady();
   const [source, setSource] = useState<"csv" | "values" | "launch">(defaults.source);
   const [marketSource, setMarketSource] = useState<"question" | "range">(marketQuestions.length > 0 ? "question" : "range");
   const [csv, setCsv] = useState(defaults.csv);
@@ -128,6 +131,7 @@ export default function BaselineForm({
       className="baseline-form"
       aria-label="Baseline"
       noValidate
+      data-ready={ready ? "" : undefined}
       onSubmit={(event) => {
         event.preventDefault();
         const submitter = (event.nativeEvent as SubmitEvent).submitter;
@@ -138,9 +142,7 @@ export default function BaselineForm({
       <input type="hidden" name="panelId" value={panelId} />
       <input type="hidden" name="questionId" value={questionId} />
       {state.message && !state.ok ? (
-        <p className="form-error" role="alert">
-          {state.message}
-        </p>
+        <ErrorBanner>{state.message}</ErrorBanner>
       ) : null}
       <fieldset>
         <legend>History</legend>
@@ -396,10 +398,10 @@ export default function BaselineForm({
         </p>
       ) : null}
       <div className="actions">
-        <button type="submit" name="intent" value="preview" className="secondary" disabled={pending}>
+        <button type="submit" name="intent" value="preview" className="secondary" disabled={!ready || pending}>
           {pending ? "Reading…" : "Preview"}
         </button>
-        <button type="submit" name="intent" value="attach" disabled={pending}>
+        <button type="submit" name="intent" value="attach" disabled={!ready || pending}>
           {pending ? "Fitting…" : "Attach baseline"}
         </button>
         {state.ok === false && state.fieldErrors && Object.keys(state.fieldErrors).length > 0 ? (

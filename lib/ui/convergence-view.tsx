@@ -99,9 +99,15 @@ export function RoundStatsTable({ rounds, aggregation }: { rounds: readonly Conv
             <th>Round</th>
             <th className="num">n</th>
             <th className="num">{spread ? "Median" : "Total"}</th>
-            <th className="num">Q1</th>
-            <th className="num">Q3</th>
-            <th className="num">IQR</th>
+            <th className="num">
+              Q1 <span className="hint">lower quartile</span>
+            </th>
+            <th className="num">
+              Q3 <span className="hint">upper quartile</span>
+            </th>
+            <th className="num">
+              IQR <span className="hint">Q3 − Q1</span>
+            </th>
             <th className="num">Relative IQR</th>
             <th className="num">CV</th>
           </tr>

@@ -2,7 +2,7 @@
  * A figure shown rounded, with its exact value in `data-value` (and in the title, for a
  * reader who wants every digit).
  */
-import { formatNumber, formatPercent } from "./format";
+import { formatExact, formatNumber, formatPercent } from "./format";
 
 export default function Figure({
   value,
@@ -17,7 +17,7 @@ export default function Figure({
 }) {
   const exact = value === null || value === undefined || Number.isNaN(value) ? "" : String(value);
   return (
-    <span data-stat={name} data-value={exact} title={exact || "not defined"}>
+    <span data-stat={name} data-value={exact} title={value === null || value === undefined || Number.isNaN(value) ? "not defined" : formatExact(value)}>
       {percent ? formatPercent(value, digits) : formatNumber(value, digits)}
     </span>
   );

@@ -1,7 +1,16 @@
 /**
- * Number formatting for pages. Figures are shown rounded for reading; the exact value travels
- * alongside in a data-value attribute (see <Figure/>) so that nothing is lost to rounding.
+ * The one place that formats numbers and dates for people (pages, e-mails, the audit log, the
+ * CLI): one locale, British English (Unicode CLDR en-GB: "11,400", "2 Dec 2026"), and UTC for
+ * times, whatever the server's or the browser's settings. Figures are shown rounded for reading;
+ * the exact value travels alongside in a data-value attribute (see <Figure/>) so that nothing is
+ * lost to rounding. Machine formats (JSON, CSV) keep ISO 8601 dates and full numbers. The one
+ * exception is a number put back into a form field, written in the panelist's own marks
+ * (lib/ui/typed-number-input.tsx) so that they can edit it.
  */
+
+const LOCALE = "en-GB";
+const DATE = new Intl.DateTimeFormat(LOCALE, { day: "numeric", month: "short", year: "numeric", timeZone: "UTC" });
+const DATE_TIME = new Intl.DateTimeFormat(LOCALE, { day: "numeric", month: "short", year: "numeric", hour: "2-digit", minute: "2-digit", hourCycle: "h23", timeZone: "UTC" });
 
 /** A figure with up to `digits` significant digits, thousands separated; "—" when undefined. */
 export function formatNumber(value: number | null | undefined, digits = 4): string {
@@ -10,7 +19,7 @@ export function formatNumber(value: number | null | undefined, digits = 4): stri
   if (value === 0) return "0";
   const abs = Math.abs(value);
   const decimals = abs >= 10 ** digits ? 0 : Math.max(0, digits - 1 - Math.floor(Math.log10(abs)));
-  return value.toLocaleString("en-GB", { maximumFractionDigits: Math.min(decimals, 10), minimumFractionDigits: 0 });
+  return value.toLocaleString(LOCALE, { maximumFractionDigits: Math.min(decimals, 10), minimumFractionDigits: 0 });
 }
 
 /**
@@ -36,24 +45,33 @@ export function formatExact(value: number): string {
   return frac === undefined ? grouped : `${grouped}.${frac}`;
 }
 
+/** A number with exactly `decimals` decimals, thousands separated, e.g. 1234.56 → "1,234.6" with 1; "—" when undefined. */
+export function formatDecimals(value: number | null | undefined, decimals: number): string {
+  if (value === null || value === undefined || Number.isNaN(value) || !Number.isFinite(value)) return "—";
+  return value.toLocaleString(LOCALE, { minimumFractionDigits: decimals, maximumFractionDigits: decimals });
+}
+
 /** A ratio as a percentage, e.g. 0.153 → "15.3%". */
 export function formatPercent(value: number | null | undefined, digits = 1): string {
   if (value === null || value === undefined || Number.isNaN(value) || !Number.isFinite(value)) return "—";
-  return `${(value * 100).toFixed(digits)}%`;
+  return `${formatDecimals(value * 100, digits)}%`;
 }
 
-/** A date and time in UTC, e.g. "1 Dec 2026, 21:50 UTC". */
+function asDate(value: string | Date): Date | null {
+  const d = typeof value === "string" ? new Date(value) : value;
+  return Number.isNaN(d.getTime()) ? null : d;
+}
+
+/** A date and time in UTC, e.g. "1 Dec 2026, 21:50 UTC"; "—" when missing or not a date. */
 export function formatDateTime(value: string | Date | null | undefined): string {
-  if (!value) return "—";
-  const d = typeof value === "string" ? new Date(value) : value;
-  return `${d.toLocaleString("en-GB", { day: "numeric", month: "short", year: "numeric", hour: "2-digit", minute: "2-digit", timeZone: "UTC" })} UTC`;
+  const d = value ? asDate(value) : null;
+  return d ? `${DATE_TIME.format(d)} UTC` : "—";
 }
 
-/** A date alone, in the same style as `formatDateTime` (UTC), e.g. "2 Dec 2026"; "—" when missing. */
+/** A date alone, in the same style as `formatDateTime` (UTC), e.g. "2 Dec 2026"; "—" when missing or not a date. */
 export function formatDate(value: string | Date | null | undefined): string {
-  if (!value) return "—";
-  const d = typeof value === "string" ? new Date(value) : value;
-  return d.toLocaleDateString("en-GB", { day: "numeric", month: "short", year: "numeric", timeZone: "UTC" });
+  const d = value ? asDate(value) : null;
+  return d ? DATE.format(d) : "—";
 }
 
 /**
@@ -61,5 +79,5 @@ export function formatDate(value: string | Date | null | undefined): string {
  * action", countOf(3, "round") → "3 rounds"; `plural` for nouns that do not take an -s.
  */
 export function countOf(n: number, singular: string, plural = `${singular}s`): string {
-  return `${n.toLocaleString("en-GB")} ${n === 1 ? singular : plural}`;
+  return `${n.toLocaleString(LOCALE)} ${n === 1 ? singular : plural}`;
 }

@@ -3,7 +3,7 @@
  * fit with standard errors and cautions, the p and q carried to the new product, the market
  * potential and where it came from, and the forecast adoptions per period with their 80% range.
  */
-import { formatNumber } from "./format";
+import { countOf, formatNumber } from "./format";
 import BaselineChart, { type BaselineChartStep } from "./baseline-chart";
 import type { BaselineResult } from "@/lib/forecast/baseline";
 import type { AnalogueFit } from "@/lib/forecast/launch";
@@ -66,7 +66,7 @@ export default function LaunchTable({ launch, unit }: { launch: LaunchPreview; u
       <p className="small">
         Carried to the new product: p {formatNumber(launch.p.mean, 3)} (80% {formatNumber(launch.p.lower80, 3)} to {formatNumber(launch.p.upper80, 3)}), q{" "}
         {formatNumber(launch.q.mean, 3)} (80% {formatNumber(launch.q.lower80, 3)} to {formatNumber(launch.q.upper80, 3)}); market potential {launch.market.how}.{" "}
-        {launch.draws.toLocaleString("en-GB")} simulated launches. Analogues should share the new product&apos;s adoption drivers (price, channel, who adopts
+        {countOf(launch.draws, "simulated launch", "simulated launches")}. Analogues should share the new product&apos;s adoption drivers (price, channel, who adopts
         and why): the curve&apos;s shape comes from them alone.
       </p>
       <table className="small" data-launch-steps>

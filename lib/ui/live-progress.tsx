@@ -7,6 +7,8 @@
  */
 import { useEffect, useRef, useState, useTransition } from "react";
 import { useRouter } from "next/navigation";
+import ErrorBanner from "./error-banner";
+import { useReady } from "./use-ready";
 import { formatDateTime } from "./format";
 
 /** What GET /api/v1/panels/{panelId}/progress returns (ProgressView, lib/panels/rounds.ts). */
@@ -42,6 +44,7 @@ export default function LiveProgress({
   const [names, setNames] = useState<Record<string, string> | null>(null);
   const [revealMessage, setRevealMessage] = useState<string | null>(null);
   const [pending, startTransition] = useTransition();
+  const ready = useReady();
   const router = useRouter();
   const lastStatus = useRef(initial.round?.status ?? null);
   const [reason, setReason] = useState("");
@@ -89,7 +92,7 @@ export default function LiveProgress({
         <span style={{ width: `${Math.round(share * 100)}%` }} />
       </div>
       <p className="hint">Updated every {Math.round(intervalMs / 1000)} seconds; last checked {formatDateTime(checkedAt)}.</p>
-      {error ? <p className="form-error">{error}</p> : null}
+      {error ? <ErrorBanner>{error}</ErrorBanner> : null}
       <table>
         <thead>
           <tr>
@@ -115,6 +118,7 @@ export default function LiveProgress({
       {reveal && !names ? (
         <form
           className="actions"
+          data-ready={ready ? "" : undefined}
           onSubmit={(event) => {
             event.preventDefault();
             if (reason.trim().length === 0) {
@@ -138,7 +142,7 @@ export default function LiveProgress({
             Reason for revealing names <span className="hint">Recorded in the audit log before any name is shown.</span>
             <input name="reason" value={reason} onChange={(e) => setReason(e.target.value)} maxLength={500} />
           </label>
-          <button type="submit" className="secondary" disabled={pending}>
+          <button type="submit" className="secondary" disabled={!ready || pending}>
             Reveal names (logged)
           </button>
         </form>

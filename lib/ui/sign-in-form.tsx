@@ -5,14 +5,18 @@
  */
 import { useState } from "react";
 import { signIn } from "next-auth/react";
+import ErrorBanner from "./error-banner";
+import { useReady } from "./use-ready";
 
 export default function SignInForm({ next }: { next: string }) {
   const [error, setError] = useState<string | null>(null);
   const [pending, setPending] = useState(false);
+  const ready = useReady();
   return (
     <form
       className="narrow"
       noValidate
+      data-ready={ready ? "" : undefined}
       onSubmit={async (event) => {
         event.preventDefault();
         const data = new FormData(event.currentTarget);
@@ -46,12 +50,10 @@ export default function SignInForm({ next }: { next: string }) {
         <input name="password" type="password" autoComplete="current-password" required />
       </label>
       {error ? (
-        <p className="form-error" role="alert">
-          {error}
-        </p>
+        <ErrorBanner>{error}</ErrorBanner>
       ) : null}
       <div className="actions">
-        <button type="submit" disabled={pending}>
+        <button type="submit" disabled={!ready || pending}>
           {pending ? "Signing in…" : "Sign in"}
         </button>
       </div>

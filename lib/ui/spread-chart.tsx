@@ -9,6 +9,7 @@ import { useEffect, useRef } from "react";
 import { Chart, ScatterController, PointElement, LinearScale, Tooltip, Legend, type Plugin } from "chart.js";
 import type { HistogramBin } from "@/lib/stats/histogram";
 import { legendOptions, OKABE_ITO } from "./chart-style";
+import { formatNumber } from "./format";
 
 Chart.register(ScatterController, PointElement, LinearScale, Tooltip, Legend);
 
@@ -94,7 +95,7 @@ export default function SpreadChart({ bins, own, q1, median, q3, unit }: SpreadC
         },
         plugins: {
           legend: legendOptions(),
-          tooltip: { callbacks: { label: (item) => `${item.dataset.label}: ${item.parsed.x}` } },
+          tooltip: { callbacks: { label: (item) => `${item.dataset.label}: ${formatNumber(item.parsed.x)}` } },
         },
       },
       plugins: [box],

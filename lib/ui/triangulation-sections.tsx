@@ -13,7 +13,7 @@ import { BIAS_PRIOR_STRENGTH, MIN_RESOLVED_FOR_THEIL, MIN_RESOLVED_FOR_WEIGHTS }
 import BaselineChart from "./baseline-chart";
 import DepartureChart from "./departure-chart";
 import Figure from "./figure";
-import { formatNumber } from "./format";
+import { formatDate, formatDecimals, formatExact, formatNumber } from "./format";
 import RangeChart, { type RangeRow } from "./range-chart";
 import LaunchTable, { launchPreview } from "./launch-table";
 
@@ -46,9 +46,9 @@ function who(p: { pseudonym: string; name: string | null }): string {
 
 /** A percentile (0–100) for reading: one decimal, "< 0.1" and "> 99.9" at the tails; exact value in data-value. */
 function Percentile({ value }: { value: number | null }) {
-  const text = value === null ? "—" : value < 0.1 ? "< 0.1" : value > 99.9 ? "> 99.9" : value.toFixed(1);
+  const text = value === null ? "—" : value < 0.1 ? "< 0.1" : value > 99.9 ? "> 99.9" : formatDecimals(value, 1);
   return (
-    <span data-stat="percentile" data-value={value === null ? "" : String(value)} title={value === null ? "not defined" : String(value)}>
+    <span data-stat="percentile" data-value={value === null ? "" : String(value)} title={value === null ? "not defined" : formatExact(value)}>
       {text}
     </span>
   );
@@ -62,7 +62,7 @@ export function LegWarnings({ report }: { report: QuestionReport }) {
     <section className="card warnings" aria-label="Warnings" data-warnings={report.warnings.length}>
       <ul>
         {report.warnings.map((w) => (
-          <li key={w} className="form-error" data-warning>
+          <li key={w} className="caution" data-warning>
             {w}
           </li>
         ))}
@@ -614,7 +614,7 @@ export function ResolutionScores({ report }: { report: QuestionReport }) {
       <p>
         Actual value: <Figure value={r.actual} name="actual" /> {unit}
         {r.note ? <span className="muted"> — {r.note}</span> : null}
-        {r.correctedAt ? <span className="muted small"> (corrected on {r.correctedAt.slice(0, 10)}; see the audit log)</span> : null}
+        {r.correctedAt ? <span className="muted small"> (corrected on {formatDate(r.correctedAt)}; see the audit log)</span> : null}
       </p>
       <div className="table-scroll">
         <table className="small">

@@ -147,7 +147,7 @@ describe("Delphi panel in the browser", () => {
     await org.getByLabel("E-mail").fill(ORGANISER.email);
     await org.getByLabel("Password").fill("not the password");
     await org.getByRole("button", { name: "Sign in" }).click();
-    await expect.poll(() => org.locator(".form-error").textContent()).toContain("do not match");
+    await expect.poll(() => org.locator(".error-banner").textContent()).toContain("do not match");
     await expectAccessible(org);
     await org.getByLabel("Password").fill(ORGANISER.password);
     await org.getByRole("button", { name: "Sign in" }).click();
@@ -496,7 +496,7 @@ describe("Delphi panel in the browser", () => {
     const page = await panelistPage(p.email);
     await page.goto(links.get(p.email)!);
     expect(await page.locator("h1").textContent()).toContain("This link does not work");
-    expect(await page.locator(".form-error").textContent()).toContain("withdrawn");
+    expect(await page.locator(".error-banner").textContent()).toContain("withdrawn");
     await expectAccessible(page);
 
     await row.locator("details").evaluate((d) => ((d as HTMLDetailsElement).open = true));
@@ -506,7 +506,7 @@ describe("Delphi panel in the browser", () => {
     const fresh = ((await row.locator(".secret-once code").textContent()) ?? "").trim();
     expect(fresh).not.toBe(links.get(p.email));
     await page.goto(links.get(p.email)!);
-    expect(await page.locator(".form-error").textContent()).toContain("not valid");
+    expect(await page.locator(".error-banner").textContent()).toContain("not valid");
     await page.goto(fresh);
     expect(await page.locator("h1").textContent()).toContain("Wren-2");
     await expectAccessible(page);

@@ -107,9 +107,10 @@ describe("the panelist's form", () => {
     // Prefilled, shown with the German decimal mark.
     await expect.poll(() => form.locator('input[name="q0.value"]').inputValue()).toBe("2600,5");
     expect(await form.locator('input[name="q1.high"]').inputValue()).toBe("2000,5");
-    // The form is live once its script has run (data-ready); a click before that would be the browser's own submit.
-    await page.locator('form[aria-label="Your answers"][data-ready]').waitFor();
-    await form.locator(`[data-keep="${q1}"]`).click();
+    // "Keep my answer" is disabled until the page's script has run (a click before that would be
+    // the browser's own submit, losing the action); it says when it is live (data-ready).
+    expect(await form.locator(`[data-keep="${q1}"]`).count()).toBe(1);
+    await form.locator(`[data-keep="${q1}"][data-ready]:enabled`).click();
     await expect.poll(() => form.locator(".notice").last().textContent()).toContain("kept");
     await expectAccessible(page);
     expect((await answersOf(2))[q1]).toMatchObject({ value: 2600.5, version: 1 });

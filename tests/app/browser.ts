@@ -70,6 +70,26 @@ export async function expectAccessible(page: Page): Promise<void> {
   expect.soft(await axeViolations(page), `axe-core on ${page.url()}`).toEqual([]);
 }
 
+/** The two widths every page is looked at: a desktop and a small phone. */
+export const WIDTHS = [1280, 360] as const;
+
+/**
+ * Looks at the page as it stands at each of `WIDTHS`: checks it with axe (`expectAccessible`) and
+ * saves a full-page screenshot as `<dir>/<name>-<width>.png`; then puts the viewport back.
+ */
+export async function captureWidths(page: Page, dir: string, name: string): Promise<void> {
+  const before = page.viewportSize();
+  try {
+    for (const width of WIDTHS) {
+      await page.setViewportSize({ width, height: 900 });
+      await expectAccessible(page);
+      await page.screenshot({ path: path.join(dir, `${name}-${width}.png`), fullPage: true });
+    }
+  } finally {
+    if (before) await page.setViewportSize(before);
+  }
+}
+
 /**
  * The compressed size of the JavaScript a page load fetches: the sum over the script responses of
  * their bodies as sent over the network (after Content-Encoding, Chromium's encoded body size),

@@ -2,7 +2,8 @@ import type { Metadata } from "next";
 import { redirect } from "next/navigation";
 import { getPanelistPanel } from "@/lib/panels/answers";
 import { getFeedback } from "@/lib/panels/feedback";
-import ActionForm, { FieldError } from "@/lib/ui/action-form";
+import ActionForm, { FieldError, SubmitButton } from "@/lib/ui/action-form";
+import ErrorBanner from "@/lib/ui/error-banner";
 import Figure from "@/lib/ui/figure";
 import { formatDateTime, formatNumber } from "@/lib/ui/format";
 import LinkProblem from "@/lib/ui/link-problem";
@@ -112,10 +113,10 @@ export default async function PanelistPage({ params, searchParams }: { params: P
         Your answers are anonymous to the other panelists: they see only the group&apos;s figures and unnamed rationales.
       </p>
       {late !== undefined && !view.acceptingAnswers ? (
-        <p className="form-error" role="alert" data-late-answer>
+        <ErrorBanner data-late-answer>
           Your last answer was not stored: {view.panel.status === "finished" ? "the panel had finished" : `round ${round?.number ?? ""} had closed${round?.closedAt ? ` (on ${formatDateTime(round.closedAt)})` : ""}`} before it
           arrived.
-        </p>
+        </ErrorBanner>
       ) : null}
       {view.panel.status === "finished" ? (
         <p className="notice">This panel is finished. Thank you for taking part.</p>
@@ -181,9 +182,9 @@ function AnswerFields({ q, prefix }: { q: PanelistQuestionView; prefix: string }
       ) : null}
       {q.previousAnswer && !q.answer ? (
         <p className="keep-answer">
-          <button type="submit" name="keep" value={q.id} className="secondary" data-keep={q.id}>
+          <SubmitButton name="keep" value={q.id} className="secondary" data-keep={q.id}>
             Keep my answer ({previousText(q)})
-          </button>{" "}
+          </SubmitButton>{" "}
           <span className="hint">Your final answer of round {q.previousAnswer.roundNumber}; or change it below.</span>
         </p>
       ) : null}

@@ -3,6 +3,7 @@ import { redirect } from "next/navigation";
 import { getOwnRecord } from "@/lib/triangulation/own-record";
 import { MIN_OUTCOMES_FOR_ADVICE } from "@/lib/blend/own-record";
 import Figure from "@/lib/ui/figure";
+import { formatDate } from "@/lib/ui/format";
 import LinkProblem from "@/lib/ui/link-problem";
 import OwnErrorChart from "@/lib/ui/own-error-chart";
 import { panelistFromLink } from "@/lib/ui/panelist-access";
@@ -77,7 +78,7 @@ export default async function OwnRecordPage({ params }: { params: Promise<{ toke
           <p className="muted">No outcome of your answers has been recorded yet.</p>
         ) : (
           <>
-            <OwnErrorChart labels={r.outcomes.map((o) => o.resolvedAt.slice(0, 10))} values={r.outcomes.map((o) => o.errorPercent ?? 0)} />
+            <OwnErrorChart labels={r.outcomes.map((o) => formatDate(o.resolvedAt))} values={r.outcomes.map((o) => o.errorPercent ?? 0)} />
             <p className="muted small">
               One point per recorded outcome, in the order the outcomes were recorded (dated): how far your answer (the middle of a range) was above or below the outcome,
               in percent of the outcome. The question behind each point is not listed, so that this page shows no more of your answers than your record needs.
