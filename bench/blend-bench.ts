@@ -32,7 +32,7 @@ import { readFileSync } from "node:fs";
 import { join } from "node:path";
 import { parseArgs } from "node:util";
 import { baseline } from "../lib/forecast/baseline";
-import { blendErrorCorrelation, trackRecord, type BiasFactor, type ResolvedAnswer, type ResolvedPair } from "../lib/blend";
+import { blendErrorCorrelation, trackRecord, type BiasFactor, type AnswerOutcome, type OutcomePair } from "../lib/blend";
 import { computeTriangulation, type TriangulationAnswer } from "../lib/triangulation/triangulation";
 import { normalQuantile } from "../lib/stats/normal";
 import { mulberry32 } from "../tests/helpers/prng";
@@ -75,9 +75,9 @@ const panel = Array.from({ length: K }, (_, j) => ({
   confidence: 0.4 + 0.8 * rand(),
 }));
 
-const records = new Map<string, ResolvedAnswer[]>(panel.map((p) => [p.id, []]));
+const records = new Map<string, AnswerOutcome[]>(panel.map((p) => [p.id, []]));
 const logErrors: number[] = [];
-const pairs: ResolvedPair[] = [];
+const pairs: OutcomePair[] = [];
 const blendZ: number[] = [];
 type Leg = "baseline" | "panel" | "blend";
 const tally = Object.fromEntries(

@@ -128,9 +128,9 @@ export default async function AccuracyPage() {
                           {q.panelTitle} · {q.unit}
                         </span>
                       </td>
-                      <td>{formatDate(q.resolvedAt)}</td>
+                      <td>{formatDate(q.recordedAt)}</td>
                       <td className="num">
-                        <Figure value={q.actual} name="actual" />
+                        <Figure value={q.outcomeValue} name="outcome-value" />
                       </td>
                       <td className="num">
                         <Figure value={q.rawPanel} />

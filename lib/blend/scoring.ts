@@ -78,7 +78,7 @@ export function scoreFigure(label: string, actual: number, forecast: number, opt
 }
 
 /** The figures of one question at resolution. */
-export interface ResolutionFigures {
+export interface OutcomeFigures {
   readonly rawPanel: number;
   readonly correctedPanel: number;
   readonly baseline: number;
@@ -88,7 +88,7 @@ export interface ResolutionFigures {
 }
 
 /** Scores of every figure of one question. */
-export interface ResolutionScores {
+export interface OutcomeScores {
   readonly actual: number;
   readonly rawPanel: FigureScore;
   readonly correctedPanel: FigureScore;
@@ -103,8 +103,8 @@ export interface ResolutionScores {
  * {@link scoreFigure}.
  * @throws RangeError for a non-finite actual or figure (the message names the figure).
  */
-export function scoreResolution(actual: number, figures: ResolutionFigures, options: ScoreOptions = {}): ResolutionScores {
-  assertFinite(actual, "scoreResolution", "actual");
+export function scoreOutcome(actual: number, figures: OutcomeFigures, options: ScoreOptions = {}): OutcomeScores {
+  assertFinite(actual, "scoreOutcome", "actual");
   return {
     actual,
     rawPanel: scoreFigure("raw panel", actual, figures.rawPanel, options),

@@ -26,13 +26,13 @@ export const BIAS_PRIOR_STRENGTH = 5;
  * Fewest resolved questions before Theil's decomposition is reported. With very few points the
  * correlation (and so U^R and U^D) is mostly noise: common practice, not a published threshold.
  */
-export const MIN_RESOLVED_FOR_THEIL = 5;
+export const MIN_OUTCOMES_FOR_THEIL = 5;
 
 /** Nominal coverage of a three-point answer's [P10, P90] interval. */
 export const NOMINAL_INTERVAL_COVERAGE = 0.8;
 
 /** One resolved question in a panelist's record. */
-export interface ResolvedAnswer {
+export interface AnswerOutcome {
   /** The actual value recorded at resolution. */
   readonly actual: number;
   /** The panelist's final answer (the mid / P50 of a three-point answer). */
@@ -165,7 +165,7 @@ export interface IntervalHitRate {
   readonly nominal: number;
 }
 
-function checkRecords(records: readonly ResolvedAnswer[], fn: string): void {
+function checkRecords(records: readonly AnswerOutcome[], fn: string): void {
   if (!Array.isArray(records)) throw new RangeError(`${fn}: records must be an array of resolved answers`);
   records.forEach((r, i) => {
     assertFinite(r.actual, fn, `records[${i}].actual`);
@@ -190,7 +190,7 @@ function checkRecords(records: readonly ResolvedAnswer[], fn: string): void {
  * Input: resolved answers (possibly empty; then count 0 and rate NaN).
  * @throws RangeError for a non-finite value, only one of low/high, or low > answer > high ordering errors.
  */
-export function intervalHitRate(records: readonly ResolvedAnswer[]): IntervalHitRate {
+export function intervalHitRate(records: readonly AnswerOutcome[]): IntervalHitRate {
   checkRecords(records, "intervalHitRate");
   let count = 0;
   let hits = 0;
@@ -226,7 +226,7 @@ export interface TrackRecord {
 export interface TrackRecordOptions {
   /** Prior strength n0 for the bias factor (default {@link BIAS_PRIOR_STRENGTH}). */
   readonly priorStrength?: number;
-  /** Fewest resolved questions for Theil's decomposition (default {@link MIN_RESOLVED_FOR_THEIL}). */
+  /** Fewest resolved questions for Theil's decomposition (default {@link MIN_OUTCOMES_FOR_THEIL}). */
   readonly minForTheil?: number;
 }
 
@@ -238,7 +238,7 @@ export interface TrackRecordOptions {
  * not, so such an answer is left out of the record and counted instead of making every
  * measure NaN.
  */
-export function usableRecord(r: ResolvedAnswer): boolean {
+export function usableRecord(r: AnswerOutcome): boolean {
   return [r.actual, r.answer, r.low ?? 0, r.high ?? 0].every(withinMagnitude);
 }
 
@@ -253,10 +253,10 @@ export function usableRecord(r: ResolvedAnswer): boolean {
  * that are not {@link usableRecord} are left out and counted in `skipped`.
  * @throws RangeError for a non-finite or non-positive actual/answer, malformed low/high, or bad options.
  */
-export function trackRecord(all: readonly ResolvedAnswer[], options: TrackRecordOptions = {}): TrackRecord {
+export function trackRecord(all: readonly AnswerOutcome[], options: TrackRecordOptions = {}): TrackRecord {
   const fn = "trackRecord";
   checkRecords(all, fn);
-  const minForTheil = options.minForTheil ?? MIN_RESOLVED_FOR_THEIL;
+  const minForTheil = options.minForTheil ?? MIN_OUTCOMES_FOR_THEIL;
   assertPositive(minForTheil, fn, "minForTheil");
   const records = all.filter(usableRecord);
   const skipped = all.length - records.length;

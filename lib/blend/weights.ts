@@ -22,7 +22,7 @@ export const EQUAL_PANEL_WEIGHT = 0.5;
  * Fewest resolved questions for inverse-MSE weights; with fewer the weights fall back to
  * equal. The number is common practice (a judgement call), not a published threshold.
  */
-export const MIN_RESOLVED_FOR_WEIGHTS = 3;
+export const MIN_OUTCOMES_FOR_WEIGHTS = 3;
 
 /**
  * Prior standard deviation τ of the best panel weight around equal weights, 0.1 (the best weight
@@ -40,7 +40,7 @@ export const WEIGHT_PRIOR_SD = 0.1;
  * Fewest resolved questions for the optimum with error correlation, which estimates one more
  * quantity (the correlation) than inverse-MSE weights. Common practice, not a published threshold.
  */
-export const MIN_RESOLVED_FOR_CORRELATION = 5;
+export const MIN_OUTCOMES_FOR_CORRELATION = 5;
 
 /**
  * The prior for the correlation of the panel's and the baseline's errors, 0.5, worth
@@ -54,7 +54,7 @@ export const PRIOR_ERROR_CORRELATION = 0.5;
 export type WeightRule = "equal" | "inverse-mse" | "optimal" | "organiser";
 
 /** One resolved question: the actual value and the two figures that forecast it. */
-export interface ResolvedPair {
+export interface OutcomePair {
   readonly actual: number;
   /** The panel figure that was reported for the question. */
   readonly panel: number;
@@ -73,7 +73,7 @@ export interface BlendWeights {
   /** Weight on the baseline, 1 − panel. */
   readonly baseline: number;
   /** Resolved questions behind the weight (0 for equal and organiser weights). */
-  readonly nResolved: number;
+  readonly nOutcomes: number;
   /** Mean squared error of the panel figure over the resolved questions (NaN if not used). */
   readonly msePanel: number;
   /** Mean squared error of the baseline over the resolved questions (NaN if not used). */
@@ -154,7 +154,7 @@ function result(
   panel: number,
   reason: string,
   extra: Partial<
-    Pick<BlendWeights, "nResolved" | "msePanel" | "mseBaseline" | "rawPanel" | "credibility" | "errorCorrelation" | "unconstrainedPanel" | "expectedMse">
+    Pick<BlendWeights, "nOutcomes" | "msePanel" | "mseBaseline" | "rawPanel" | "credibility" | "errorCorrelation" | "unconstrainedPanel" | "expectedMse">
   > = {},
 ): BlendWeights {
   return {
@@ -162,7 +162,7 @@ function result(
     applied,
     panel,
     baseline: 1 - panel,
-    nResolved: extra.nResolved ?? 0,
+    nOutcomes: extra.nOutcomes ?? 0,
     msePanel: extra.msePanel ?? NaN,
     mseBaseline: extra.mseBaseline ?? NaN,
     rawPanel: extra.rawPanel ?? NaN,
@@ -196,7 +196,7 @@ export function organiserWeights(panelWeight: number): BlendWeights {
 /** Options for the history-based rules. */
 export interface HistoryWeightOptions {
   /** Fewest resolved questions before the rule is used (default: the rule's named constant). */
-  readonly minResolved?: number;
+  readonly minOutcomes?: number;
   /**
    * Inverse-MSE rule: prior standard deviation τ of the best panel weight around 0.5
    * (default {@link WEIGHT_PRIOR_SD}); see {@link weightCredibility}.
@@ -204,11 +204,11 @@ export interface HistoryWeightOptions {
   readonly priorSd?: number;
 }
 
-function checkHistory(history: readonly ResolvedPair[], fn: string, minResolved: number): void {
+function checkHistory(history: readonly OutcomePair[], fn: string, minOutcomes: number): void {
   if (!Array.isArray(history)) throw new RangeError(`${fn}: history must be an array of resolved questions`);
-  assertFinite(minResolved, fn, "minResolved");
-  if (!Number.isInteger(minResolved) || minResolved < 1) {
-    throw new RangeError(`${fn}: minResolved is ${minResolved}; it must be a whole number of at least 1`);
+  assertFinite(minOutcomes, fn, "minOutcomes");
+  if (!Number.isInteger(minOutcomes) || minOutcomes < 1) {
+    throw new RangeError(`${fn}: minOutcomes is ${minOutcomes}; it must be a whole number of at least 1`);
   }
   history.forEach((h, i) => {
     assertFinite(h.actual, fn, `history[${i}].actual`);
@@ -217,7 +217,7 @@ function checkHistory(history: readonly ResolvedPair[], fn: string, minResolved:
   });
 }
 
-function historyMses(history: readonly ResolvedPair[]): { mseP: number; mseB: number; crossMoment: number } {
+function historyMses(history: readonly OutcomePair[]): { mseP: number; mseB: number; crossMoment: number } {
   const actual = history.map((h) => h.actual);
   const mseP = meanSquaredError(actual, history.map((h) => h.panel));
   const mseB = meanSquaredError(actual, history.map((h) => h.baseline));
@@ -231,7 +231,7 @@ function thin(rule: WeightRule, n: number, min: number): BlendWeights {
     "equal",
     EQUAL_PANEL_WEIGHT,
     `Equal weights: only ${n} resolved question${n === 1 ? "" : "s"}, fewer than the ${min} needed for ${rule} weights (a common-practice minimum).`,
-    { nResolved: n },
+    { nOutcomes: n },
   );
 }
 
@@ -269,24 +269,24 @@ export function weightCredibility(n: number, priorSd: number = WEIGHT_PRIOR_SD):
  * lose to equal weights in practice (the "forecast combination puzzle": Clemen 1989; Smith &
  * Wallis 2009; Genre et al. 2013), so the history only takes over when it is long.
  *
- * Fallbacks (to equal weights, with the reason): fewer than `minResolved` questions (default
- * {@link MIN_RESOLVED_FOR_WEIGHTS}), or both MSEs 0. One MSE of 0 gives that figure w_raw = 1.
+ * Fallbacks (to equal weights, with the reason): fewer than `minOutcomes` questions (default
+ * {@link MIN_OUTCOMES_FOR_WEIGHTS}), or both MSEs 0. One MSE of 0 gives that figure w_raw = 1.
  *
  * Input: resolved questions (possibly empty: thin history is an expected state).
- * @throws RangeError for a non-finite value in history (named by index), a bad minResolved or priorSd.
+ * @throws RangeError for a non-finite value in history (named by index), a bad minOutcomes or priorSd.
  * @example inverseMseWeights(history) // raw 0.1555555556 when MSE_p = 3.8 and MSE_b = 0.7, n = 5
  *   // → Z = 6/31, panel 0.5 + (6/31)·(0.1555555556 − 0.5) = 0.4333333333
  */
-export function inverseMseWeights(history: readonly ResolvedPair[], options: HistoryWeightOptions = {}): BlendWeights {
+export function inverseMseWeights(history: readonly OutcomePair[], options: HistoryWeightOptions = {}): BlendWeights {
   const fn = "inverseMseWeights";
-  const min = options.minResolved ?? MIN_RESOLVED_FOR_WEIGHTS;
+  const min = options.minOutcomes ?? MIN_OUTCOMES_FOR_WEIGHTS;
   const tau = options.priorSd ?? WEIGHT_PRIOR_SD;
   checkHistory(history, fn, min);
   assertPositive(tau, fn, "priorSd");
   const n = history.length;
   if (n < min) return thin("inverse-mse", n, min);
   const { mseP, mseB } = historyMses(history);
-  const base = { nResolved: n, msePanel: mseP, mseBaseline: mseB };
+  const base = { nOutcomes: n, msePanel: mseP, mseBaseline: mseB };
   if (mseP + mseB === 0) {
     return result("inverse-mse", "equal", EQUAL_PANEL_WEIGHT, "Equal weights: both the panel and the baseline were exact on every resolved question.", base);
   }
@@ -311,20 +311,20 @@ export function inverseMseWeights(history: readonly ResolvedPair[], options: His
  * The panel weight 1 − λ_opt is clipped to [0, 1] so that the blend stays a mixture (a negative
  * weight would extrapolate beyond both figures); the reason says when it was clipped.
  *
- * Fallbacks (to equal weights, with the reason): fewer than `minResolved` questions (default
- * {@link MIN_RESOLVED_FOR_CORRELATION}); both MSEs 0; identical error series (the optimum is
+ * Fallbacks (to equal weights, with the reason): fewer than `minOutcomes` questions (default
+ * {@link MIN_OUTCOMES_FOR_CORRELATION}); both MSEs 0; identical error series (the optimum is
  * undefined). One MSE of 0 gives that figure weight 1.
  *
- * @throws RangeError for a non-finite value in history (named by index) or a bad minResolved.
+ * @throws RangeError for a non-finite value in history (named by index) or a bad minOutcomes.
  */
-export function optimalWeights(history: readonly ResolvedPair[], options: HistoryWeightOptions = {}): BlendWeights {
+export function optimalWeights(history: readonly OutcomePair[], options: HistoryWeightOptions = {}): BlendWeights {
   const fn = "optimalWeights";
-  const min = options.minResolved ?? MIN_RESOLVED_FOR_CORRELATION;
+  const min = options.minOutcomes ?? MIN_OUTCOMES_FOR_CORRELATION;
   checkHistory(history, fn, min);
   const n = history.length;
   if (n < min) return thin("optimal", n, min);
   const { mseP, mseB, crossMoment } = historyMses(history);
-  const base = { nResolved: n, msePanel: mseP, mseBaseline: mseB };
+  const base = { nOutcomes: n, msePanel: mseP, mseBaseline: mseB };
   if (mseP === 0 || mseB === 0) {
     if (mseP === 0 && mseB === 0) {
       return result("optimal", "equal", EQUAL_PANEL_WEIGHT, "Equal weights: both the panel and the baseline were exact on every resolved question.", base);
@@ -378,7 +378,7 @@ export interface ErrorCorrelation {
  * @throws RangeError for a non-finite value in history.
  * @example blendErrorCorrelation([]).rho // 0.5
  */
-export function blendErrorCorrelation(history: readonly ResolvedPair[], priorStrength: number = BIAS_PRIOR_STRENGTH): ErrorCorrelation {
+export function blendErrorCorrelation(history: readonly OutcomePair[], priorStrength: number = BIAS_PRIOR_STRENGTH): ErrorCorrelation {
   checkHistory(history, "blendErrorCorrelation", 1);
   const n = history.length;
   let historyRho = NaN;
@@ -394,8 +394,8 @@ export function blendErrorCorrelation(history: readonly ResolvedPair[], priorStr
 export type WeightSpec =
   | { readonly rule: "equal" }
   | { readonly rule: "organiser"; readonly panelWeight: number }
-  | { readonly rule: "inverse-mse"; readonly history: readonly ResolvedPair[]; readonly minResolved?: number; readonly priorSd?: number }
-  | { readonly rule: "optimal"; readonly history: readonly ResolvedPair[]; readonly minResolved?: number };
+  | { readonly rule: "inverse-mse"; readonly history: readonly OutcomePair[]; readonly minOutcomes?: number; readonly priorSd?: number }
+  | { readonly rule: "optimal"; readonly history: readonly OutcomePair[]; readonly minOutcomes?: number };
 
 /**
  * The blend weight for a {@link WeightSpec}: dispatches to {@link equalWeights},
@@ -409,9 +409,9 @@ export function blendWeights(spec: WeightSpec): BlendWeights {
     case "organiser":
       return organiserWeights(spec.panelWeight);
     case "inverse-mse":
-      return inverseMseWeights(spec.history, { minResolved: spec.minResolved, priorSd: spec.priorSd });
+      return inverseMseWeights(spec.history, { minOutcomes: spec.minOutcomes, priorSd: spec.priorSd });
     case "optimal":
-      return optimalWeights(spec.history, { minResolved: spec.minResolved });
+      return optimalWeights(spec.history, { minOutcomes: spec.minOutcomes });
     default: {
       const rule: string = (spec as { rule: string }).rule;
       throw new RangeError(`blendWeights: unknown rule "${rule}"; use equal, organiser, inverse-mse or optimal`);

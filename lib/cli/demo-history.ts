@@ -20,7 +20,7 @@ import { closeRound, finishPanel, openRound } from "../panels/rounds";
 import { submitAnswer } from "../panels/answers";
 import { attachBaseline } from "../triangulation/baselines";
 import { setPanelBlendRule } from "../triangulation/triangulation";
-import { resolveQuestion } from "../triangulation/resolution";
+import { recordOutcome } from "../triangulation/outcome";
 import type { RosterMemberView } from "../panels/roster";
 
 /**
@@ -163,7 +163,7 @@ export async function loadPastPanels(actor: Actor, members: readonly RosterMembe
         period: "other",
         analogue: { scaleFactor: 1, note: q.baselineNote },
       });
-      await resolveQuestion(actor, panel.id, panel.questions[j].id, { actual: q.actual, note: "Quillmoor sales ledger (invented)", parts: [] });
+      await recordOutcome(actor, panel.id, panel.questions[j].id, { outcomeValue: q.actual, note: "Quillmoor sales ledger (invented)", parts: [] });
       // Date the resolution as it happened, so the history reads in time order.
       await db.resolution.update({ where: { questionId: panel.questions[j].id }, data: { resolvedAt: new Date(Date.parse(past.resolvedAt) + j * 60_000) } });
     }

@@ -139,9 +139,9 @@ export function auditSentence(event: AuditEventLike, questions: ReadonlyMap<stri
       if (d.trueValue === null) return `${who} cleared the true value of ${qText}${had ? ` (was ${num(d.from)})` : ""}.`;
       return had ? `${who} changed the true value of ${qText} from ${num(d.from)} to ${num(d.trueValue)}.` : `${who} set the true value of ${qText} to ${num(d.trueValue)}.`;
     }
-    case "question.resolved":
-      return `${who} recorded the outcome of ${qText}: ${num(d.actual)}${unit}.`;
-    case "resolution.corrected":
+    case "outcome.recorded":
+      return `${who} recorded the outcome of ${qText}: ${num(d.outcomeValue)}${unit}.`;
+    case "outcome.corrected":
       return `${who} corrected the outcome of ${qText} from ${num(d.from)} to ${num(d.to)}${unit}${REASON(d)}.`;
     case "baseline.attached":
       return `${who} attached a baseline forecast to ${qText}.`;

@@ -31,6 +31,16 @@ export interface AuditEventView {
   readonly sentence: string;
 }
 
+/** Action ids stored by earlier versions, read under today's names (with `actual` in the detail as `outcomeValue`). */
+const EARLIER_ACTIONS: Readonly<Record<string, string>> = { "question.resolved": "outcome.recorded", "resolution.corrected": "outcome.corrected" };
+
+function todaysForm(action: string, detail: Record<string, unknown>): { action: string; detail: Record<string, unknown> } {
+  const now = EARLIER_ACTIONS[action];
+  if (now === undefined) return { action, detail };
+  const { actual, ...rest } = detail;
+  return { action: now, detail: actual === undefined ? rest : { ...rest, outcomeValue: actual } };
+}
+
 /** A panel's audit log, newest first (organisers of the panel only). */
 export async function listAuditEvents(actor: Actor, panelId: string): Promise<AuditEventView[]> {
   await authorisePanel(actor, panelId, "manage");
@@ -44,7 +54,7 @@ export async function listAuditEvents(actor: Actor, panelId: string): Promise<Au
   ]);
   const byId = new Map(questions.map((q) => [q.id, q]));
   return rows.map((r) => {
-    const event = { action: r.action, actorName: r.actor?.name ?? null, detail: JSON.parse(r.detail) as Record<string, unknown> };
+    const event = { ...todaysForm(r.action, JSON.parse(r.detail) as Record<string, unknown>), actorName: r.actor?.name ?? null };
     return { id: r.id, ...event, createdAt: r.createdAt.toISOString(), sentence: auditSentence(event, byId) };
   });
 }

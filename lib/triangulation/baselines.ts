@@ -7,7 +7,7 @@
  *
  * Storage: the inputs and the engine's result are stored together when the baseline is
  * attached or replaced (the result is a pure function of the stored inputs, so nothing can go
- * stale). A resolved question's baseline is part of its scored record and can no longer change.
+ * stale). Once a question's outcome is recorded, its baseline is part of the scored record and can no longer change.
  *
  * Errors: CSV problems give 422 naming the row and column (`errors[0].row`, `.column`); the
  * engine's input errors (too short, season too long for the series, a method that does not
@@ -388,9 +388,9 @@ function refuseIfCalibration(q: Question): void {
   if (q.calibration) throw new ConflictError("calibration-question", "A calibration question has a true value instead of a baseline: enter it on the panel page (or PUT …/true-value).");
 }
 
-async function refuseIfResolved(questionId: string): Promise<void> {
+async function refuseIfOutcomeRecorded(questionId: string): Promise<void> {
   if (await db.resolution.findUnique({ where: { questionId } })) {
-    throw new ConflictError("question-resolved", "The question is resolved; its baseline is part of the scored record and can no longer change.");
+    throw new ConflictError("outcome-recorded", "The question's outcome is recorded; its baseline is part of the scored record and can no longer change.");
   }
 }
 
@@ -452,12 +452,12 @@ export async function storeBaseline(
  * Attaches a baseline to a question, or replaces the one it has (organisers of the panel;
  * audited). Returns the stored baseline with its preview.
  * @throws InvalidInputError (422) naming the field, and the CSV row and column.
- * @throws ConflictError (409) when the question is resolved.
+ * @throws ConflictError (409) when the outcome is recorded.
  */
 export async function attachBaseline(actor: Actor, panelId: string, questionId: string, input: BaselineInput): Promise<BaselineView> {
   const access = await authorisePanel(actor, panelId, "manage");
   refuseIfCalibration(await findQuestion(panelId, questionId));
-  await refuseIfResolved(questionId);
+  await refuseIfOutcomeRecorded(questionId);
   const a = await analyseBaseline(input, await launchMarket(actor, panelId, questionId, input));
   const stored = await db.$transaction(async (tx) => {
     const existed = (await tx.baseline.count({ where: { questionId } })) > 0;
@@ -482,11 +482,11 @@ export async function getBaseline(actor: Actor, panelId: string, questionId: str
   return toView(b);
 }
 
-/** Removes a question's baseline (organisers; audited). @throws ConflictError when resolved. */
+/** Removes a question's baseline (organisers; audited). @throws ConflictError when the outcome is recorded. */
 export async function removeBaseline(actor: Actor, panelId: string, questionId: string): Promise<{ id: string; deleted: true }> {
   const access = await authorisePanel(actor, panelId, "manage");
   await findQuestion(panelId, questionId);
-  await refuseIfResolved(questionId);
+  await refuseIfOutcomeRecorded(questionId);
   const b = await db.baseline.findUnique({ where: { questionId } });
   if (!b) throw new NotFoundError("The question's baseline");
   await db.$transaction(async (tx) => {

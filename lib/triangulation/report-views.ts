@@ -66,9 +66,9 @@ export interface CorrectionSummary {
   readonly meanFactor: number | null;
 }
 
-export function correctionSummary(answers: readonly Pick<CorrectedAnswer, "factor" | "resolvedQuestions">[]): CorrectionSummary {
+export function correctionSummary(answers: readonly Pick<CorrectedAnswer, "factor" | "nOutcomes">[]): CorrectionSummary {
   return {
-    panelistsWithRecord: answers.filter((a) => a.resolvedQuestions > 0).length,
+    panelistsWithRecord: answers.filter((a) => a.nOutcomes > 0).length,
     meanFactor: answers.length === 0 ? null : answers.reduce((s, a) => s + a.factor, 0) / answers.length,
   };
 }

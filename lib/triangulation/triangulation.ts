@@ -64,7 +64,7 @@ import {
   type DepartureAcrossRounds,
   type Distribution,
   type PanelErrorScale,
-  type ResolvedPair,
+  type OutcomePair,
   type WeightSpec,
 } from "@/lib/blend";
 import type { PanelLegChoice, PanelWeightRule, PanelBlendRuleInput, QuestionBlendRuleInput } from "@/lib/validation/triangulation-inputs";
@@ -106,7 +106,7 @@ export interface TriangulationInput {
   /** ln(actual / corrected panel figure) of the organiser's resolved questions (empty: the prior alone). */
   readonly panelLogErrors?: readonly number[];
   /** Resolved questions with both legs (relative figures), for the legs' error correlation (empty: the prior). */
-  readonly blendHistory?: readonly ResolvedPair[];
+  readonly blendHistory?: readonly OutcomePair[];
   /** (actual − blend)/blend sd of resolved questions, for the blend range's scale (empty: scale 1). */
   readonly blendStandardisedErrors?: readonly number[];
   /** The baseline's target-period forecast, or null without a baseline. */
@@ -129,7 +129,7 @@ export interface TriangulationInput {
 export interface CorrectedAnswer extends TriangulationAnswer {
   readonly factor: number;
   /** Resolved questions behind the factor. */
-  readonly resolvedQuestions: number;
+  readonly nOutcomes: number;
   /** Credibility n/(n + n0) of the factor. */
   readonly credibility: number;
   /** The unshrunk factor exp(mean log ratio). */
@@ -259,7 +259,7 @@ export function computeTriangulation(input: TriangulationInput): Triangulation {
       return {
         ...a,
         factor: f.factor,
-        resolvedQuestions: f.n,
+        nOutcomes: f.n,
         credibility: f.credibility,
         rawFactor: f.raw,
         correctedValue: a.value * f.factor,
@@ -337,7 +337,7 @@ export function computeTriangulation(input: TriangulationInput): Triangulation {
       cautions.push(`The panel's range rests mostly on a default prior (typical error ${Math.round(100 * e.priorScale)}%): only ${e.n} resolved question${e.n === 1 ? "" : "s"} show how far the panel figure has been from outcomes.`);
     }
     if (rawD.rule === "sum of parts") cautions.push("The parts are treated as independent; if the territories' errors move together, the total's range is wider than shown.");
-    const corrected = answers.filter((a) => a.resolvedQuestions > 0).length;
+    const corrected = answers.filter((a) => a.nOutcomes > 0).length;
     notes.push(
       corrected === 0
         ? "Bias correction: no panelist has a resolved question yet, so every factor is 1 and the corrected figure equals the raw one."
@@ -432,7 +432,7 @@ export function effectiveRule(
   return { rule: panel.blendRule as PanelWeightRule, panelWeight: panel.blendPanelWeight, from: "panel" };
 }
 
-function weightSpec(rule: PanelWeightRule, panelWeight: number | null, history: readonly ResolvedPair[]): WeightSpec {
+function weightSpec(rule: PanelWeightRule, panelWeight: number | null, history: readonly OutcomePair[]): WeightSpec {
   if (rule === "organiser" && panelWeight !== null) return { rule: "organiser", panelWeight };
   if (rule === "inverse-mse") return { rule: "inverse-mse", history };
   return { rule: "equal" };
@@ -460,7 +460,7 @@ export interface LoadedTriangulation {
   /** invitation id → roster member id. */
   readonly members: ReadonlyMap<string, string>;
   /** Roster members with a track-record note: answers skipped. */
-  readonly resolvedAt: Date | null;
+  readonly recordedAt: Date | null;
 }
 
 /**
@@ -483,8 +483,8 @@ export async function loadTriangulation(panelId: string, questionId: string, rea
     roundInputs.push({ round: r.number, answers: answers.map((a) => ({ invitationId: a.invitationId, pseudonym: a.pseudonym, value: a.value, low: a.low, high: a.high })) });
   }
   while (roundInputs.length > 0 && roundInputs.at(-1)!.answers.length === 0) roundInputs.pop();
-  const resolvedAt = q.resolution?.resolvedAt ?? null;
-  const filter: HistoryFilter = { excludeQuestionId: questionId, ...(resolvedAt ? { before: resolvedAt } : {}) };
+  const recordedAt = q.resolution?.resolvedAt ?? null;
+  const filter: HistoryFilter = { excludeQuestionId: questionId, ...(recordedAt ? { before: recordedAt } : {}) };
   const records = await reads.trackRecords(q.panel.ownerId, filter);
   const factors: Record<string, BiasFactor> = {};
   const intervalHits: Record<string, { hits: number; count: number }> = {};
@@ -496,13 +496,13 @@ export async function loadTriangulation(panelId: string, questionId: string, rea
     }
   }
   const rule = effectiveRule(q.panel, q);
-  const resolutions = await reads.resolutions(q.panel.ownerId, filter);
-  const pairs = historyOf(resolutions).pairs;
+  const outcomes = await reads.outcomes(q.panel.ownerId, filter);
+  const pairs = historyOf(outcomes).pairs;
   const history = rule.rule === "inverse-mse" ? pairs : [];
-  const blendStandardisedErrors = resolutions
+  const blendStandardisedErrors = outcomes
     .filter((r) => r.figures.blend !== null && (r.figures.blendSd ?? 0) > 0)
-    .map((r) => (r.actual - r.figures.blend!) / r.figures.blendSd!);
-  const panelLogErrors = resolutions.filter((r) => r.actual > 0 && r.figures.correctedPanel > 0).map((r) => Math.log(r.actual / r.figures.correctedPanel));
+    .map((r) => (r.outcomeValue - r.figures.blend!) / r.figures.blendSd!);
+  const panelLogErrors = outcomes.filter((r) => r.outcomeValue > 0 && r.figures.correctedPanel > 0).map((r) => Math.log(r.outcomeValue / r.figures.correctedPanel));
   const target = q.baseline ? storedTarget(q.baseline) : null;
   let baseline: BaselineForecast | null = null;
   if (target && target.mean !== null) {
@@ -554,7 +554,7 @@ export async function loadTriangulation(panelId: string, questionId: string, rea
     rule,
     baselineTarget: target,
     members,
-    resolvedAt,
+    recordedAt,
   };
 }
 

@@ -5,7 +5,7 @@
  * shrinkage, and Theil's proportions once there are enough resolved questions.
  */
 import type { RosterTrackRecordView } from "@/lib/triangulation/track-records";
-import { BIAS_PRIOR_STRENGTH, MIN_RESOLVED_FOR_THEIL } from "@/lib/blend";
+import { BIAS_PRIOR_STRENGTH, MIN_OUTCOMES_FOR_THEIL } from "@/lib/blend";
 import Figure from "./figure";
 import { countOf, formatNumber, formatPercent } from "./format";
 
@@ -78,7 +78,7 @@ export default function TrackRecordRoster({ records }: { records: readonly Roste
       <h3>Theil&apos;s decomposition of the squared error</h3>
       {withTheil.length === 0 ? (
         <p className="muted small">
-          Shown for a person once {MIN_RESOLVED_FOR_THEIL} of their answers are resolved (with fewer, the proportions are mostly noise; common practice).
+          Shown for a person once {MIN_OUTCOMES_FOR_THEIL} of their answers are resolved (with fewer, the proportions are mostly noise; common practice).
         </p>
       ) : (
         <div className="table-scroll">

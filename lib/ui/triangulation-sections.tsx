@@ -9,7 +9,7 @@
  */
 import type { BaselineView } from "@/lib/triangulation/baselines";
 import type { QuestionReport } from "@/lib/triangulation/report";
-import { BIAS_PRIOR_STRENGTH, MIN_RESOLVED_FOR_THEIL, MIN_RESOLVED_FOR_WEIGHTS } from "@/lib/blend";
+import { BIAS_PRIOR_STRENGTH, MIN_OUTCOMES_FOR_THEIL, MIN_OUTCOMES_FOR_WEIGHTS } from "@/lib/blend";
 import BaselineChart from "./baseline-chart";
 import DepartureChart from "./departure-chart";
 import Figure from "./figure";
@@ -231,7 +231,7 @@ export function LegsSideBySide({ report }: { report: QuestionReport }) {
           <p className="hint">Each answer is multiplied by its panelist&apos;s shrunk bias factor; details under &ldquo;Bias correction&rdquo;.</p>
         </div>
       </div>
-      {rows.length > 0 ? <RangeChart rows={rows} unit={unit} actual={report.resolution?.actual ?? null} /> : null}
+      {rows.length > 0 ? <RangeChart rows={rows} unit={unit} actual={report.outcome?.outcomeValue ?? null} /> : null}
     </section>
   );
 }
@@ -382,7 +382,7 @@ export function WeightInputs({ report }: { report: QuestionReport }) {
       </dd>
       <dt>Resolved questions behind it</dt>
       <dd>
-        {b.resolvedQuestionsBehindWeight ?? 0} (inverse-MSE needs at least {MIN_RESOLVED_FOR_WEIGHTS}; with fewer, equal weights apply. Even then the
+        {b.outcomesBehindWeight ?? 0} (inverse-MSE needs at least {MIN_OUTCOMES_FOR_WEIGHTS}; with fewer, equal weights apply. Even then the
         weight is shrunk toward 50/50 — the history has half the say only after 24 resolved questions — because weights estimated from short
         records lose to equal weights in practice: Smith &amp; Wallis 2009)
       </dd>
@@ -533,7 +533,7 @@ export function BiasCorrectionTable({ report }: { report: QuestionReport }) {
                     </span>
                   ) : null}
                 </td>
-                <td className="num">{p.resolvedQuestions}</td>
+                <td className="num">{p.nOutcomes}</td>
                 <td className="num">
                   <Figure value={p.rawFactor} digits={4} />
                 </td>
@@ -596,23 +596,23 @@ export function TrackRecordTable({ report, open = false }: { report: QuestionRep
           </tbody>
         </table>
       </div>
-      <p className="hint">Theil&apos;s decomposition is shown on the expert roster page once a panelist has {MIN_RESOLVED_FOR_THEIL} resolved questions.</p>
+      <p className="hint">Theil&apos;s decomposition is shown on the expert roster page once a panelist has {MIN_OUTCOMES_FOR_THEIL} resolved questions.</p>
     </details>
   );
 }
 
-/** The actual value and the scores of every figure. */
-export function ResolutionScores({ report }: { report: QuestionReport }) {
-  const r = report.resolution;
+/** The recorded outcome and the scores of every figure. */
+export function OutcomeSection({ report }: { report: QuestionReport }) {
+  const r = report.outcome;
   const unit = report.question.unit;
   if (!r) return null;
   const s = r.scores;
   const all = [s.rawPanel, s.correctedPanel, s.baseline, s.blend, ...s.panelists].filter((x): x is NonNullable<typeof x> => x !== null);
   return (
-    <section aria-labelledby="resolution-h" className="resolution" data-resolved="yes">
-      <h2 id="resolution-h">Resolution and scores</h2>
+    <section aria-labelledby="outcome-h" className="outcome" data-outcome="yes">
+      <h2 id="outcome-h">Outcome and errors</h2>
       <p>
-        Actual value: <Figure value={r.actual} name="actual" /> {unit}
+        Outcome: <Figure value={r.outcomeValue} name="outcome-value" /> {unit}
         {r.note ? <span className="muted"> — {r.note}</span> : null}
         {r.correctedAt ? <span className="muted small"> (corrected on {r.correctedAt.slice(0, 10)}; see the audit log)</span> : null}
       </p>
@@ -622,7 +622,7 @@ export function ResolutionScores({ report }: { report: QuestionReport }) {
             <tr>
               <th>Figure</th>
               <th className="num">Forecast</th>
-              <th className="num">Error (actual − forecast)</th>
+              <th className="num">Error (outcome − forecast)</th>
               <th className="num">Absolute % error</th>
               <th className="num">sMAPE term</th>
               <th className="num">Scaled error</th>
@@ -650,7 +650,7 @@ export function ResolutionScores({ report }: { report: QuestionReport }) {
       </div>
       <p className="hint">
         Scaled error = |error| / the in-sample MAE of the naive method on the baseline&apos;s history (the MASE scale, Hyndman &amp; Koehler 2006). The
-        figures are those that stood when the question was resolved.
+        figures are those that stood when the outcome was recorded.
       </p>
     </section>
   );

@@ -136,7 +136,7 @@ async function allLeaks(cookie: string): Promise<string[]> {
     found.push(...leaksInJson((await get(`${q}/report.json`, cookie)).body, `report.json ${questionId}`));
     found.push(...leaksInJson((await get(`${q}/triangulation`, cookie)).body, `triangulation ${questionId}`));
     found.push(...leaksInCsv((await get(`${q}/report.csv`, cookie)).text, `report.csv ${questionId}`));
-    const resolution = await api("GET", `${q}/resolution`, { cookie });
+    const resolution = await api("GET", `${q}/outcome`, { cookie });
     if (resolution.status === 200) found.push(...leaksInJson(resolution.body, `resolution ${questionId}`));
     found.push(...leaksInPage((await get(`/reports/${panelId}/questions/${questionId}`, cookie)).text, `report page ${questionId}`));
   }

@@ -201,17 +201,17 @@ const ROWS: readonly Row[] = [
   { route: "setPanelBlendRule", path: () => `/api/v1/panels/${P}/blend-rule`, body: () => ({ rule: "inverse-mse" }), expect: ownerOnly(200) },
   { route: "setQuestionBlendRule", path: () => `/api/v1/panels/${P}/questions/${qP}/blend-rule`, body: () => ({ rule: "organiser", panelWeight: 0.6 }), expect: ownerOnly(200) },
   { route: "getTriangulation", path: () => `/api/v1/panels/${P}/questions/${qP}/triangulation`, expect: panelRead(200) },
-  { route: "getResolution", path: () => `/api/v1/panels/${R}/questions/${qR}/resolution`, expect: panelRead(200) },
+  { route: "getOutcome", path: () => `/api/v1/panels/${R}/questions/${qR}/outcome`, expect: panelRead(200) },
   {
-    route: "resolveQuestion",
+    route: "recordOutcome",
     path: async () => {
       const p = await freshAnsweredPanel();
-      return `/api/v1/panels/${p.id}/questions/${p.questionId}/resolution`;
+      return `/api/v1/panels/${p.id}/questions/${p.questionId}/outcome`;
     },
-    body: () => ({ actual: 410 }),
+    body: () => ({ outcomeValue: 410 }),
     expect: ownerOnly(201),
   },
-  { route: "correctResolution", path: () => `/api/v1/panels/${R}/questions/${qR}/resolution`, body: () => ({ actual: 412, reason: "matrix" }), expect: ownerOnly(200) },
+  { route: "correctOutcome", path: () => `/api/v1/panels/${R}/questions/${qR}/outcome`, body: () => ({ outcomeValue: 412, reason: "matrix" }), expect: ownerOnly(200) },
   { route: "getQuestionReport", path: () => `/api/v1/panels/${P}/questions/${qP}/report.json`, expect: panelRead(200) },
   { route: "getQuestionReportCsv", path: () => `/api/v1/panels/${P}/questions/${qP}/report.csv`, expect: panelRead(200) },
   { route: "getPanelReportCsv", path: () => `/api/v1/panels/${P}/report.csv`, expect: panelRead(200) },
@@ -253,7 +253,7 @@ beforeAll(async () => {
   const resolved = await freshAnsweredPanel();
   R = resolved.id;
   qR = resolved.questionId;
-  await ok("POST", `/api/v1/panels/${R}/questions/${qR}/resolution`, owner, { actual: 411 });
+  await ok("POST", `/api/v1/panels/${R}/questions/${qR}/outcome`, owner, { outcomeValue: 411 });
 
   const p2 = await ok("POST", "/api/v1/panels", other, { title: "Another organiser's panel", questions: [QUESTION] });
   const m2 = await ok("POST", "/api/v1/roster", other, { name: "Dana Quill", email: `d.${unique()}@example.com` });

@@ -49,7 +49,7 @@ const NAN_CALLS: Record<string, () => unknown> = {
   correctThreePoint: () => blendLib.correctThreePoint({ low: 1, mid: 2, high: 3 }, NaN),
   correctedPanelFigure: () => blendLib.correctedPanelFigure([{ answer: NaN, factor: 1 }], "sum-of-parts"),
   scoreFigure: () => blendLib.scoreFigure("x", NaN, 1),
-  scoreResolution: () => blendLib.scoreResolution(1, { rawPanel: NaN, correctedPanel: 1, baseline: 1, blend: 1 }),
+  scoreOutcome: () => blendLib.scoreOutcome(1, { rawPanel: NaN, correctedPanel: 1, baseline: 1, blend: 1 }),
   trackingAlarm: () => blendLib.trackingAlarm([1], NaN),
   accuracyHistory: () =>
     blendLib.accuracyHistory([{ actual: 1, rawPanel: 1, correctedPanel: 1, baseline: 1, blend: NaN }]),

@@ -38,8 +38,8 @@ const CASES: [string, Record<string, unknown>, string | null, string][] = [
   ["question.true-value", { questionId: "q1", from: null, trueValue: 410 }, ada, "Ada Fenwick set the true value of 'Wren-1 field units' to 410."],
   ["question.true-value", { questionId: "q1", trueValue: 410 }, ada, "Ada Fenwick set the true value of 'Wren-1 field units' to 410."],
   ["question.true-value", { questionId: "q1", from: 412, trueValue: null }, ada, "Ada Fenwick cleared the true value of 'Wren-1 field units' (was 412)."],
-  ["question.resolved", { questionId: "q2", actual: 11400, parts: 0 }, ada, "Ada Fenwick recorded the outcome of 'Units in year one': 11,400 units."],
-  ["resolution.corrected", { questionId: "q2", from: 11400, to: 11250.5, reason: "late returns counted" }, ada, "Ada Fenwick corrected the outcome of 'Units in year one' from 11,400 to 11,250.5 units (reason: late returns counted)."],
+  ["outcome.recorded", { questionId: "q2", outcomeValue: 11400, parts: 0 }, ada, "Ada Fenwick recorded the outcome of 'Units in year one': 11,400 units."],
+  ["outcome.corrected", { questionId: "q2", from: 11400, to: 11250.5, reason: "late returns counted" }, ada, "Ada Fenwick corrected the outcome of 'Units in year one' from 11,400 to 11,250.5 units (reason: late returns counted)."],
   ["baseline.attached", { questionId: "q2", method: "holt-winters" }, ada, "Ada Fenwick attached a baseline forecast to 'Units in year one'."],
   ["baseline.replaced", { questionId: "q2", method: "holt" }, ada, "Ada Fenwick replaced the baseline forecast of 'Units in year one'."],
   ["baseline.removed", { questionId: "q7" }, ada, "Ada Fenwick removed the baseline forecast of a removed question."],
@@ -66,7 +66,7 @@ function recordedActions(): Set<string> {
   for (const file of files) {
     const src = readFileSync(file, "utf8");
     if (!src.includes("recordAudit(tx")) continue;
-    for (const m of src.matchAll(/"([a-z]+\.[a-z-]+)"/g)) if (/^(panel|question|resolution|baseline|round|identities|invitation)\./.test(m[1])) found.add(m[1]);
+    for (const m of src.matchAll(/"([a-z]+\.[a-z-]+)"/g)) if (/^(panel|question|outcome|baseline|round|identities|invitation)\./.test(m[1])) found.add(m[1]);
   }
   // messages.<kind>, written from the message kind
   for (const kind of ["round-opened", "reminder"]) found.add(`messages.${kind}`);

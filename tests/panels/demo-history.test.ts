@@ -56,7 +56,7 @@ afterAll(async () => {
   rmSync(path.dirname(file), { recursive: true, force: true });
 });
 
-/** Every roster member's (actual, answer, low, high) over the demo's resolved questions, from the invented tables. */
+/** Every roster member's (actual, answer, low, high) over the demo's questions with an outcome, from the invented tables. */
 function expectedRecords(): Map<number, [number, number, number | null, number | null][]> {
   const m = new Map<number, [number, number, number | null, number | null][]>();
   let k = 0;
@@ -136,17 +136,17 @@ describe("demo history", () => {
     expect(records.find((x) => x.name === "Priya Lindqvist")!.record.theil).not.toBeNull();
   });
 
-  it("the accuracy history has the eight resolved questions in time order", async () => {
+  it("the accuracy history has the eight recorded outcomes in time order", async () => {
     const h = await services.getAccuracyHistory(organiser);
     expect(h.questions).toHaveLength(8);
-    expect(h.questions.map((q) => q.actual)).toEqual(PAST_PANELS.flatMap((p) => p.questions.map((q) => q.actual)));
+    expect(h.questions.map((q) => q.outcomeValue)).toEqual(PAST_PANELS.flatMap((p) => p.questions.map((q) => q.actual)));
     expect(h.history!.n).toBe(8);
   });
 
   it("the Wren-2 report: inverse-MSE weights from 8 questions, corrected answers, the scaled analogous baseline", async () => {
     const r = await services.getQuestionReport(reviewer, wren2.panelId, wren2.questionId);
     expect(r.blend!.ruleApplied).toBe("inverse-mse");
-    expect(r.blend!.resolvedQuestionsBehindWeight).toBe(8);
+    expect(r.blend!.outcomesBehindWeight).toBe(8);
     expect(r.blend!.panelWeight).toBeGreaterThan(0);
     expect(r.blend!.panelWeight).toBeLessThan(1);
     expect(r.legs.baseline!.analogue!.scaleFactor).toBe(WREN2_SCALE);
@@ -164,19 +164,19 @@ describe("demo history", () => {
   });
 });
 
-describe("resolving the demo's sum-of-parts question (services on the demo database)", () => {
+describe("recording the outcome of the demo's sum-of-parts question (services on the demo database)", () => {
   it("refuses while a round is open, names a bad part, then scores the total and feeds each part into its panelist's record", async () => {
     const { db } = await import("../../lib/db");
-    const { resolveQuestion, correctResolution } = await import("../../lib/triangulation/resolution");
+    const { recordOutcome, correctOutcome } = await import("../../lib/triangulation/outcome");
     const { closeRound } = await import("../../lib/panels/rounds");
     const { DomainError } = await import("../../lib/errors");
     const panel = await db.panel.findUniqueOrThrow({ where: { id: wren2.panelId }, include: { questions: { orderBy: { position: "asc" } } } });
     const partsQ = panel.questions[1].id;
     const status = (p: Promise<unknown>) => p.then(() => 0, (e: unknown) => (e instanceof DomainError ? e.status : -1));
 
-    expect(await status(resolveQuestion(organiser, wren2.panelId, partsQ, { actual: 15000, note: "", parts: [] }))).toBe(409); // round 3 is open
+    expect(await status(recordOutcome(organiser, wren2.panelId, partsQ, { outcomeValue: 15000, note: "", parts: [] }))).toBe(409); // round 3 is open
     await closeRound(organiser, wren2.panelId, 3);
-    expect(await status(resolveQuestion(reviewer, wren2.panelId, partsQ, { actual: 15000, note: "", parts: [] }))).toBe(403);
+    expect(await status(recordOutcome(reviewer, wren2.panelId, partsQ, { outcomeValue: 15000, note: "", parts: [] }))).toBe(403);
 
     // Final parts: each panelist's answer in the latest round they answered (round 3 for the two
     // who answered it, round 2 for the five others: parts are carried forward, not dropped).
@@ -190,26 +190,26 @@ describe("resolving the demo's sum-of-parts question (services on the demo datab
     expect(byPseudonym.size).toBe(7);
     expect([...byPseudonym.values()].filter((v) => v.round === 3)).toHaveLength(2);
     const [[p1, a1], [p2]] = [...byPseudonym.entries()];
-    const bad = await resolveQuestion(organiser, wren2.panelId, partsQ, { actual: 15000, note: "", parts: [{ pseudonym: "Panelist NONE", actual: 1 }] }).catch((e) => e);
+    const bad = await recordOutcome(organiser, wren2.panelId, partsQ, { outcomeValue: 15000, note: "", parts: [{ pseudonym: "Panelist NONE", outcomeValue: 1 }] }).catch((e) => e);
     expect(bad.status).toBe(422);
     expect(bad.errors[0].field).toBe("parts.0.pseudonym");
 
     const before = (await services.listTrackRecords(organiser)).find((r) => r.name === a1.member)!.record.count;
-    const res = await resolveQuestion(organiser, wren2.panelId, partsQ, { actual: 5200, note: "ledger", parts: [{ pseudonym: p1, actual: 2500 }] });
+    const res = await recordOutcome(organiser, wren2.panelId, partsQ, { outcomeValue: 5200, note: "ledger", parts: [{ pseudonym: p1, outcomeValue: 2500 }] });
     // The panel figure of a sum of parts is the total of the final parts (hand: Σ of the values).
     const total = [...byPseudonym.values()].reduce((s, v) => s + v.value, 0);
     expect(res.figures.rawPanel).toBe(total);
     expect(res.scores.rawPanel.error).toBe(5200 - total);
-    expect(res.parts).toEqual([{ pseudonym: p1, actual: 2500 }]);
+    expect(res.parts).toEqual([{ pseudonym: p1, outcomeValue: 2500 }]);
     expect(res.figures.panelists).toHaveLength(7);
     const after = await services.listTrackRecords(organiser);
     expect(after.find((r) => r.name === a1.member)!.record.count).toBe(before! + 1);
     expect(p2).toBeDefined();
 
-    const fixed = await correctResolution(organiser, wren2.panelId, partsQ, { actual: 5300, reason: "one return booked late" });
+    const fixed = await correctOutcome(organiser, wren2.panelId, partsQ, { outcomeValue: 5300, reason: "one return booked late" });
     expect(fixed.scores.rawPanel.error).toBe(5300 - total);
-    expect(fixed.parts).toEqual([{ pseudonym: p1, actual: 2500 }]);
-    const audit = await db.auditEvent.findFirstOrThrow({ where: { panelId: wren2.panelId, action: "resolution.corrected" } });
+    expect(fixed.parts).toEqual([{ pseudonym: p1, outcomeValue: 2500 }]);
+    const audit = await db.auditEvent.findFirstOrThrow({ where: { panelId: wren2.panelId, action: "outcome.corrected" } });
     expect(JSON.parse(audit.detail)).toEqual({ questionId: partsQ, from: 5200, to: 5300, reason: "one return booked late" });
   });
 });

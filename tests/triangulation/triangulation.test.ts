@@ -1,7 +1,7 @@
 /**
  * Triangulation of a question composed from lib/blend (lib/triangulation/triangulation.ts
  * `computeTriangulation`), the derivation of track records and blend-weight history from stored
- * resolutions (lib/triangulation/track-records.ts), resolution scores (lib/triangulation/resolution.ts) and
+ * resolutions (lib/triangulation/track-records.ts), resolution scores (lib/triangulation/outcome.ts) and
  * the CSV export's cell neutralisation (lib/triangulation/report.ts). Pure: no database.
  *
  * Expected values come from R (Rscript, computed in the test from the same inputs: median,
@@ -11,8 +11,8 @@
 import { describe, expect, it } from "vitest";
 import { trackRecord, type BiasFactor } from "../../lib/blend";
 import { computeTriangulation, type TriangulationInput } from "../../lib/triangulation/triangulation";
-import { historyOf, recordsByMember, type ResolvedQuestion, type ResolutionFigures } from "../../lib/triangulation/track-records";
-import { checkWithinBounds, scoreFigures } from "../../lib/triangulation/resolution";
+import { historyOf, recordsByMember, type RecordedOutcome, type OutcomeFigures } from "../../lib/triangulation/track-records";
+import { checkWithinBounds, scoreFigures } from "../../lib/triangulation/outcome";
 import { InvalidInputError } from "../../lib/errors";
 import { csvCell, reportCsv } from "../../lib/triangulation/report";
 import { expectClose, runR, rVector } from "../stats/rscript";
@@ -81,7 +81,7 @@ describe("computeTriangulation: shared quantity, single values, equal weights", 
     expectClose(t.panel!.raw.intervals.flatMap((i) => [i.lower, i.upper]), [p10, p90, p025, p975], 1e-12, "panel range");
     // No track record: factor 1, corrected = raw.
     expect(t.panel!.corrected.figure).toBe(med);
-    expect(t.panel!.answers.every((a) => a.factor === 1 && a.resolvedQuestions === 0)).toBe(true);
+    expect(t.panel!.answers.every((a) => a.factor === 1 && a.nOutcomes === 0)).toBe(true);
     expect(t.notes.join(" ")).toMatch(/not from the spread of the answers/);
   });
 
@@ -146,22 +146,22 @@ describe("computeTriangulation: shared quantity, single values, equal weights", 
   });
 });
 
-/** A resolved question with one answer per invitation (figures as stored at resolution). */
+/** A question with its outcome and one answer per invitation (figures as stored with the outcome). */
 function resolved(
   actual: number,
   panelists: readonly { inv: string; member: string; value: number; low?: number; high?: number }[],
-  extra: Partial<ResolutionFigures> = {},
-  partActuals: ResolvedQuestion["partActuals"] = [],
-): ResolvedQuestion {
+  extra: Partial<OutcomeFigures> = {},
+  partOutcomes: RecordedOutcome["partOutcomes"] = [],
+): RecordedOutcome {
   return {
     questionId: `q${actual}`,
     panelId: "p",
     panelTitle: "past panel",
     text: "past question",
     unit: "units",
-    resolvedAt: new Date(0),
-    actual,
-    partActuals,
+    recordedAt: new Date(0),
+    outcomeValue: actual,
+    partOutcomes,
     figures: {
       round: 1,
       aggregation: "shared",
@@ -419,19 +419,19 @@ describe("resolution scores", () => {
     expect(scoreFigures(1000, f).panelists).toEqual([]);
   });
 
-  it("an actual outside the question's bounds is refused, naming the number (−100 for a 0–100,000 question)", () => {
+  it("an outcome outside the question's bounds is refused, naming the number (−100 for a 0–100,000 question)", () => {
     const q = { lowerBound: 0, upperBound: 100000 };
     expect(() => checkWithinBounds(q, -100)).toThrow(InvalidInputError);
     let caught: unknown = null;
     try {
-      checkWithinBounds(q, -100, [{ pseudonym: "A", actual: 200000 }]);
+      checkWithinBounds(q, -100, [{ pseudonym: "A", outcomeValue: 200000 }]);
     } catch (err) {
       caught = err;
     }
     {
       expect((caught as InvalidInputError).errors).toEqual([
-        { field: "actual", message: "-100 is outside the question's bounds 0 to 100000" },
-        { field: "parts.0.actual", message: "200000 is outside the question's bounds 0 to 100000" },
+        { field: "outcomeValue", message: "-100 is outside the question's bounds 0 to 100000" },
+        { field: "parts.0.outcomeValue", message: "200000 is outside the question's bounds 0 to 100000" },
       ]);
     }
     expect(() => checkWithinBounds(q, 0)).not.toThrow();
@@ -447,8 +447,8 @@ describe("resolution scores", () => {
     } catch (err) {
       caught = err;
     }
-    expect((caught as InvalidInputError).errors).toEqual([{ field: "actual", message: "-1 is below the question's lower bound 0" }]);
-    expect(() => checkWithinBounds(q, 120000, [{ pseudonym: "A", actual: 60000 }])).toThrow(InvalidInputError);
+    expect((caught as InvalidInputError).errors).toEqual([{ field: "outcomeValue", message: "-1 is below the question's lower bound 0" }]);
+    expect(() => checkWithinBounds(q, 120000, [{ pseudonym: "A", outcomeValue: 60000 }])).toThrow(InvalidInputError);
   });
 });
 
@@ -481,7 +481,7 @@ describe("CSV export cells (formula injection)", () => {
       convergence: { rounds: [], verdict: null, recommendation: null, reasons: [] },
       departures: null,
       biasCorrection: [],
-      resolution: null,
+      outcome: null,
       movement: null,
       distributions: { panelRaw: null, panelCorrected: null, baseline: null, blend: null },
       methodNotes: ["-note"],

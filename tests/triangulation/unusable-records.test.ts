@@ -8,19 +8,19 @@
  */
 import { describe, expect, it } from "vitest";
 import { accuracyHistory, trackRecord } from "../../lib/blend";
-import { historyOf, recordsByMember, type ResolvedQuestion } from "../../lib/triangulation/track-records";
+import { historyOf, recordsByMember, type RecordedOutcome } from "../../lib/triangulation/track-records";
 
-/** A stored resolution whose panel figures and one panelist's ("m") answer are all `figure`. */
-function resolved(actual: number, figure: number): ResolvedQuestion {
+/** A stored outcome whose panel figures and one panelist's ("m") answer are all `figure`. */
+function resolved(actual: number, figure: number): RecordedOutcome {
   return {
     questionId: `q${actual}`,
     panelId: "p",
     panelTitle: "t",
     text: "x",
     unit: "units",
-    resolvedAt: new Date(0),
-    actual,
-    partActuals: [],
+    recordedAt: new Date(0),
+    outcomeValue: actual,
+    partOutcomes: [],
     figures: {
       round: 1,
       aggregation: "shared",
@@ -65,7 +65,7 @@ describe("track records skip and count unusable pairs", () => {
     expect(rec.bias.factor).toBe(1);
   });
 
-  it("through the stored resolutions: the member's skipped count includes it", () => {
+  it("through the stored outcomes: the member's skipped count includes it", () => {
     const records = recordsByMember([resolved(100, 5e-324), resolved(110, 100)]).get("m")!.records;
     const rec = trackRecord(records);
     expect([rec.count, rec.skipped]).toEqual([1, 1]);

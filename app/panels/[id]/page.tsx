@@ -7,7 +7,7 @@ import { getPanel, getPanelMilestones, listShares } from "@/lib/panels/panels";
 import { smtpConfigured } from "@/lib/mail/smtp";
 import { listOutbox } from "@/lib/panels/messages";
 import { panelSteps, type StepId } from "@/lib/ui/panel-steps";
-import { MIN_RESOLVED_FOR_WEIGHTS } from "@/lib/blend";
+import { MIN_OUTCOMES_FOR_WEIGHTS } from "@/lib/blend";
 import { getPanelBlendRule } from "@/lib/triangulation/report-views";
 import { listRoster } from "@/lib/panels/roster";
 import { getProgress } from "@/lib/panels/rounds";
@@ -93,7 +93,7 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
     invite: "#invitations",
     rounds: "#rounds",
     blend: questionPage(milestones.firstWithoutBaseline),
-    outcome: questionPage(milestones.firstUnresolved),
+    outcome: questionPage(milestones.firstWithoutOutcome),
     report: `/reports/${id}`,
   };
   const finishForm = (primary: boolean) => (
@@ -480,7 +480,7 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
                 {panel.questions.length} have a baseline);
               </li>
               <li>
-                <a href={stepHref.outcome}>Record the outcome</a> of each question once it is known ({milestones.resolved} of {panel.questions.length} recorded);
+                <a href={stepHref.outcome}>Record the outcome</a> of each question once it is known ({milestones.outcomes} of {panel.questions.length} recorded);
               </li>
               <li>
                 <a href={stepHref.report}>Read and share the report</a>.
@@ -574,7 +574,7 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
             </label>
             <label className="inline">
               <input type="radio" name="rule" value="inverse-mse" defaultChecked={blendRule.rule === "inverse-mse"} /> Inverse-MSE from resolved history (Bates
-              &amp; Granger 1969; equal weights until {MIN_RESOLVED_FOR_WEIGHTS} questions are resolved)
+              &amp; Granger 1969; equal weights until {MIN_OUTCOMES_FOR_WEIGHTS} questions are resolved)
             </label>
             <label className="inline">
               <input type="radio" name="rule" value="organiser" defaultChecked={blendRule.rule === "organiser"} /> Set by me

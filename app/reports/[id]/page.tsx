@@ -91,9 +91,9 @@ export default async function ReportPage({ params }: { params: Promise<{ id: str
                   <td>
                     {q.calibration ? (
                       "calibration question"
-                    ) : r.resolution ? (
+                    ) : r.outcome ? (
                       <>
-                        outcome: <Figure value={r.resolution.actual} name="outcome" />
+                        outcome: <Figure value={r.outcome.outcomeValue} name="outcome" />
                       </>
                     ) : r.legs.baseline ? (
                       "baseline attached"
