@@ -1,7 +1,7 @@
 /**
  * lib/blend: the triangulation core — blend weights, the panel's and the baseline's
  * distributions and their mixture, departures from the baseline, track records and bias
- * factors, and scoring at resolution. Pure TypeScript: no framework, database or validation
+ * factors, and scoring once the outcome is known. Pure TypeScript: no framework, database or validation
  * library; relative imports only (lib/stats, lib/forecast/accuracy); plain objects in and out.
  *
  * ## Policy for empty input, NaN and out-of-range values (applies to every exported function)
@@ -11,7 +11,7 @@
  *   means before calling. (The one exception is `trackingAlarm`, whose input is a tracking-
  *   signal series that is NaN by definition while the MAD is 0; NaN never breaches.)
  * - **Empty arrays** of answers, values, parts or components throw a `RangeError`.
- *   **Resolved history** that drives a decision may be empty, because thin history is an
+ *   **The history of outcomes** that drives a decision may be empty, because thin history is an
  *   expected state with a stated fallback: `inverseMseWeights` / `optimalWeights` fall back
  *   to equal weights with the reason, `trackRecord` and `intervalHitRate` give count 0, NaN
  *   measures, bias factor 1 and no Theil decomposition.

@@ -1,28 +1,28 @@
 /**
- * Track records and the accuracy history, derived on read from the stored resolutions
- * (lib/triangulation/outcome.ts): each Resolution row keeps the actual value and the figures as
- * they stood when the question was resolved, including every panelist's final answer with
- * their roster member. Nothing is counted up in place, so correcting an actual value or
+ * Track records and the accuracy history, derived on read from the recorded outcomes
+ * (lib/triangulation/outcome.ts): each row of the Resolution table keeps the outcome value and the
+ * figures as they stood when the outcome was recorded, including every panelist's final answer with
+ * their roster member. Nothing is counted up in place, so correcting an outcome value or
  * deleting a panel changes every derived figure consistently.
  *
  * - Track record per roster member (lib/blend `trackRecord`): count, mean error, mean log
- *   ratio actual/answer, MAPE, interval hit rate of three-point answers, Theil's decomposition
+ *   ratio outcome/answer, MAPE, interval hit rate of three-point answers, Theil's decomposition
  *   once there are enough questions, and the bias factor shrunk toward 1.
- *   A shared-quantity answer is scored against the question's actual value; a sum-of-parts
- *   answer against its own part's actual when the organiser recorded one (else it is left out).
- *   Answers or actuals ≤ 0 are left out (a log ratio needs both positive) and counted in `skipped`,
+ *   A shared-quantity answer is scored against the question's outcome value; a sum-of-parts
+ *   answer against its own part's outcome when the organiser recorded one (else it is left out).
+ *   Answers or outcomes ≤ 0 are left out (a log ratio needs both positive) and counted in `skipped`,
  *   and so are answers outside the input range (lib/blend/track-record.ts `usableRecord`, stored before that rule).
  * - Accuracy history per organiser (lib/blend `accuracyHistory`): raw panel, corrected panel,
- *   baseline and blend over the resolved questions that had a baseline, in resolution order,
- *   with the tracking signal on relative errors (actual − figure)/|actual| (docs/methods.md §8). The inverse-MSE blend weights (Bates & Granger 1969) use the
+ *   baseline and blend over the questions with an outcome that had a baseline, in the order the outcomes were recorded,
+ *   with the tracking signal on relative errors (outcome − figure)/|outcome| (docs/methods.md §8). The inverse-MSE blend weights (Bates & Granger 1969) use the
  *   same history: the corrected panel figure (the one that is blended) against the baseline,
- *   with each error taken relative to the actual value ((actual − figure)/actual), so that a
+ *   with each error taken relative to the outcome value ((outcome − figure)/outcome), so that a
  *   question counted in thousands of units does not outweigh one counted in hundreds
- *   (questions with an actual of 0 are left out of the weights).
+ *   (questions with an outcome of 0 are left out of the weights).
  *
- * A question's own figures never use its own resolution: bias factors and weights for a
- * question come from resolutions of the organiser's other questions, and for a resolved
- * question only from those resolved before it.
+ * A question's own figures never use its own outcome: bias factors and weights for a
+ * question come from the outcomes of the organiser's other questions, and for a question
+ * with an outcome only from those recorded before it.
  */
 import { db } from "@/lib/db";
 import type { Actor } from "@/lib/accounts/actor";
@@ -39,7 +39,7 @@ import {
 import { usableHistoryEntry } from "@/lib/blend/scoring";
 import { jsonSafe, type JsonSafe } from "../panels/json";
 
-/** One panelist's final answer as it stood at resolution. */
+/** One panelist's final answer as it stood when the outcome was recorded. */
 export interface PanelistFigureAtOutcome {
   readonly invitationId: string;
   readonly rosterMemberId: string;
@@ -51,7 +51,7 @@ export interface PanelistFigureAtOutcome {
   readonly factor: number;
 }
 
-/** The figures of a question at resolution (stored as JSON in Resolution.figures). */
+/** The figures of a question when its outcome was recorded (stored as JSON in the Resolution table's figures column). */
 export interface OutcomeFigures {
   readonly round: number;
   readonly aggregation: "shared" | "sum-of-parts";
@@ -60,7 +60,7 @@ export interface OutcomeFigures {
   readonly correctedPanel: number;
   readonly baseline: number | null;
   readonly blend: number | null;
-  /** The blend's combined sd before its range scale (lib/blend `blend`), for the blend range's track record (absent in resolutions stored before it was kept). */
+  /** The blend's combined sd before its range scale (lib/blend `blend`), for the blend range's track record (absent in outcomes stored before it was kept). */
   readonly blendSd?: number | null;
   readonly panelWeight: number | null;
   readonly weightRule: string | null;
@@ -166,7 +166,7 @@ export function historyOf(outcomes: readonly RecordedOutcome[]): {
   readonly entries: HistoryEntry[];
   readonly used: RecordedOutcome[];
   readonly withoutBaseline: number;
-  /** Resolved questions with a baseline left out because a value is out of range (lib/blend/scoring.ts `usableHistoryEntry`). */
+  /** Questions with an outcome and a baseline left out because a value is out of range (lib/blend/scoring.ts `usableHistoryEntry`). */
   readonly unusable: number;
 } {
   const entry = (r: RecordedOutcome): HistoryEntry => ({
@@ -192,14 +192,14 @@ export interface RosterTrackRecordView {
   readonly rosterMemberId: string;
   readonly name: string;
   readonly group: string;
-  /** Resolved answers left out (a value or actual ≤ 0, or outside the input range). */
+  /** Answers with an outcome left out (a value or actual ≤ 0, or outside the input range). */
   readonly skipped: number;
   readonly record: JsonSafe<TrackRecord>;
 }
 
 /**
  * The track record of every member of the organiser's roster, over all the organiser's
- * resolved questions (organisers only; their own roster). Members without resolved answers
+ * questions with an outcome (organisers only; their own roster). Members without answers with an outcome
  * have count 0 and bias factor 1.
  */
 export async function listTrackRecords(actor: Actor): Promise<RosterTrackRecordView[]> {
@@ -219,7 +219,7 @@ export async function listTrackRecords(actor: Actor): Promise<RosterTrackRecordV
 }
 
 export interface AccuracyHistoryView {
-  /** Resolved questions in the history (those with a baseline), oldest first. */
+  /** Questions with an outcome in the history (those with a baseline), oldest first. */
   readonly questions: readonly {
     readonly questionId: string;
     readonly panelId: string;
@@ -233,11 +233,11 @@ export interface AccuracyHistoryView {
     readonly baseline: number;
     readonly blend: number;
   }[];
-  /** Resolved questions left out because they had no baseline. */
+  /** Questions with an outcome left out because they had no baseline. */
   readonly withoutBaseline: number;
-  /** Resolved questions left out because a value is outside the input range (stored before that rule). */
+  /** Questions with an outcome left out because a value is outside the input range (stored before that rule). */
   readonly unusable: number;
-  /** Accuracy of each figure with its tracking signal; null with no resolved question. */
+  /** Accuracy of each figure with its tracking signal; null with no recorded outcome. */
   readonly history: JsonSafe<AccuracyHistory> | null;
   readonly notes: readonly string[];
 }

@@ -2,7 +2,7 @@
  * Sections of a question's triangulation, shared by the organiser's question page and the
  * reviewer's report: the blended figure and range, the three legs side by side, the baseline's
  * method, parameters and holdout accuracy with its chart, the weight rule with its inputs, the
- * departure report (table and chart), the bias correction applied, the resolution's scores, and
+ * departure report (table and chart), the bias correction applied, the outcome's scores, and
  * the method notes, inputs and cautions. They only display the report read model
  * (lib/triangulation/report.ts) and the stored baseline (lib/triangulation/baselines.ts); no figure is
  * computed here.
@@ -35,7 +35,7 @@ function Range({ lower, upper, name }: { lower: number | null; upper: number | n
 
 const RULE_NAME: Record<string, string> = {
   equal: "equal weights",
-  "inverse-mse": "inverse-MSE weights from resolved history (Bates & Granger 1969)",
+  "inverse-mse": "inverse-MSE weights from past outcomes (Bates & Granger 1969)",
   organiser: "set by the organiser",
   optimal: "Bates–Granger optimal weights",
 };
@@ -220,7 +220,7 @@ export function LegsSideBySide({ report }: { report: QuestionReport }) {
         <div className="card leg" data-leg="track-record">
           <h3>Track record</h3>
           <p>
-            <strong data-stat="panelists-with-record">{t.panelistsWithRecord}</strong> of {p?.n ?? 0} panelists have resolved questions behind them.
+            <strong data-stat="panelists-with-record">{t.panelistsWithRecord}</strong> of {p?.n ?? 0} panelists have recorded outcomes behind them.
           </p>
           {t.meanFactor !== null ? (
             <p className="small">
@@ -380,16 +380,16 @@ export function WeightInputs({ report }: { report: QuestionReport }) {
       <dd>
         <Figure value={b.panelWeight} name="weight-panel" digits={4} />
       </dd>
-      <dt>Resolved questions behind it</dt>
+      <dt>Recorded outcomes behind it</dt>
       <dd>
         {b.outcomesBehindWeight ?? 0} (inverse-MSE needs at least {MIN_OUTCOMES_FOR_WEIGHTS}; with fewer, equal weights apply. Even then the
-        weight is shrunk toward 50/50 — the history has half the say only after 24 resolved questions — because weights estimated from short
+        weight is shrunk toward 50/50 — the history has half the say only after 24 outcomes — because weights estimated from short
         records lose to equal weights in practice: Smith &amp; Wallis 2009)
       </dd>
       <dt>MSE of the panel / baseline</dt>
       <dd>
         <Figure value={b.msePanel} digits={4} /> / <Figure value={b.mseBaseline} digits={4} />{" "}
-        <span className="muted">(relative errors over the organiser&apos;s resolved questions; w = (1/MSE panel) / (1/MSE panel + 1/MSE baseline))</span>
+        <span className="muted">(relative errors over the organiser&apos;s recorded outcomes; w = (1/MSE panel) / (1/MSE panel + 1/MSE baseline))</span>
       </dd>
       <dt>Why</dt>
       <dd>{b.reason}</dd>
@@ -503,8 +503,8 @@ export function BiasCorrectionTable({ report }: { report: QuestionReport }) {
     <section aria-labelledby="bias-h">
       <h2 id="bias-h">Bias correction applied</h2>
       <p className="small muted">
-        Corrected answer = answer × bias factor. Bias factor = exp(Z · mean log ratio actual/answer) with credibility Z = n / (n + {BIAS_PRIOR_STRENGTH}
-        ): with few resolved questions the factor is shrunk toward 1 (Bühlmann-style credibility; the constant {BIAS_PRIOR_STRENGTH} is a judgement call,
+        Corrected answer = answer × bias factor. Bias factor = exp(Z · mean log ratio outcome/answer) with credibility Z = n / (n + {BIAS_PRIOR_STRENGTH}
+        ): with few recorded outcomes the factor is shrunk toward 1 (Bühlmann-style credibility; the constant {BIAS_PRIOR_STRENGTH} is a judgement call,
         common practice rather than a published value). The raw and the corrected panel figures are both shown above.
       </p>
       <div className="table-scroll">
@@ -513,7 +513,7 @@ export function BiasCorrectionTable({ report }: { report: QuestionReport }) {
             <tr>
               <th>Panelist</th>
               <th className="num">Answer</th>
-              <th className="num">Resolved questions n</th>
+              <th className="num">Outcomes n</th>
               <th className="num">Unshrunk factor</th>
               <th className="num">Credibility Z</th>
               <th className="num">Factor applied</th>
@@ -567,7 +567,7 @@ export function TrackRecordTable({ report, open = false }: { report: QuestionRep
           <thead>
             <tr>
               <th>Panelist</th>
-              <th className="num">Resolved</th>
+              <th className="num">Outcomes</th>
               <th className="num">Mean error</th>
               <th className="num">Mean log ratio</th>
               <th className="num">MAPE</th>
@@ -596,7 +596,7 @@ export function TrackRecordTable({ report, open = false }: { report: QuestionRep
           </tbody>
         </table>
       </div>
-      <p className="hint">Theil&apos;s decomposition is shown on the expert roster page once a panelist has {MIN_OUTCOMES_FOR_THEIL} resolved questions.</p>
+      <p className="hint">Theil&apos;s decomposition is shown on the expert roster page once a panelist has {MIN_OUTCOMES_FOR_THEIL} recorded outcomes.</p>
     </details>
   );
 }

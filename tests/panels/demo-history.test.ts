@@ -56,7 +56,7 @@ afterAll(async () => {
   rmSync(path.dirname(file), { recursive: true, force: true });
 });
 
-/** Every roster member's (actual, answer, low, high) over the demo's questions with an outcome, from the invented tables. */
+/** Every roster member's (outcome, answer, low, high) over the demo's questions with an outcome, from the invented tables. */
 function expectedRecords(): Map<number, [number, number, number | null, number | null][]> {
   const m = new Map<number, [number, number, number | null, number | null][]>();
   let k = 0;
@@ -64,7 +64,7 @@ function expectedRecords(): Map<number, [number, number, number | null, number |
     for (const q of p.questions) {
       for (const i of p.invited) {
         const a = pastAnswer(i, k, q);
-        m.set(i, [...(m.get(i) ?? []), [q.actual, a.value, a.low ?? null, a.high ?? null]]);
+        m.set(i, [...(m.get(i) ?? []), [q.outcomeValue, a.value, a.low ?? null, a.high ?? null]]);
       }
       k++;
     }
@@ -139,7 +139,7 @@ describe("demo history", () => {
   it("the accuracy history has the eight recorded outcomes in time order", async () => {
     const h = await services.getAccuracyHistory(organiser);
     expect(h.questions).toHaveLength(8);
-    expect(h.questions.map((q) => q.outcomeValue)).toEqual(PAST_PANELS.flatMap((p) => p.questions.map((q) => q.actual)));
+    expect(h.questions.map((q) => q.outcomeValue)).toEqual(PAST_PANELS.flatMap((p) => p.questions.map((q) => q.outcomeValue)));
     expect(h.history!.n).toBe(8);
   });
 

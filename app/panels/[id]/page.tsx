@@ -235,7 +235,7 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
             ) : (
               <p>
                 <a href={`/panels/${id}/questions/${q.id}`} data-question-link={q.id}>
-                  Baseline, blend and resolution of this question
+                  Baseline, blend and outcome of this question
                 </a>{" "}
                 · <a href={`/reports/${id}/questions/${q.id}`}>Reviewer report</a>
               </p>
@@ -554,7 +554,7 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
             {blendRule.rule === "equal"
               ? "equal weights"
               : blendRule.rule === "inverse-mse"
-                ? "inverse-MSE weights from your resolved questions"
+                ? "inverse-MSE weights from your past outcomes"
                 : `set by the organiser, w = ${blendRule.panelWeight}`}
           </strong>
           {blendRule.calibrationQuestions > 0 ? (
@@ -573,8 +573,8 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
               <input type="radio" name="rule" value="equal" defaultChecked={blendRule.rule === "equal"} /> Equal weights (50/50; Blattberg &amp; Hoch 1990)
             </label>
             <label className="inline">
-              <input type="radio" name="rule" value="inverse-mse" defaultChecked={blendRule.rule === "inverse-mse"} /> Inverse-MSE from resolved history (Bates
-              &amp; Granger 1969; equal weights until {MIN_OUTCOMES_FOR_WEIGHTS} questions are resolved)
+              <input type="radio" name="rule" value="inverse-mse" defaultChecked={blendRule.rule === "inverse-mse"} /> Inverse-MSE from past outcomes (Bates
+              &amp; Granger 1969; equal weights until {MIN_OUTCOMES_FOR_WEIGHTS} outcomes are recorded)
             </label>
             <label className="inline">
               <input type="radio" name="rule" value="organiser" defaultChecked={blendRule.rule === "organiser"} /> Set by me
