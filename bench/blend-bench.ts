@@ -16,7 +16,7 @@
  * the automatic baseline the app attaches; its step at the question's horizon.
  *
  * Blend: lib/triangulation/triangulation `computeTriangulation`, exactly as the app computes a
- * question, with the track records of the questions resolved before it (bias factors,
+ * question, with the track records of the questions whose outcome came before it (bias factors,
  * interval hit rates, the panel's log errors, inverse-MSE history on relative errors), in order.
  * The inverse-MSE weight's raw value and the weight applied are summarised at the end.
  *
@@ -145,7 +145,7 @@ for (const s of series) {
   applied.push(t.weights!.panel);
   if (Number.isFinite(t.weights!.rawPanel)) lastRaw = t.weights!.rawPanel;
   n++;
-  // Resolve the question: it joins the track records of the questions that follow.
+  // Record the outcome: the question joins the track records of the questions that follow.
   for (const a of answers) {
     records.get(a.invitationId)!.push(a.low !== null && a.high !== null ? { actual, answer: a.value, low: a.low, high: a.high } : { actual, answer: a.value });
   }

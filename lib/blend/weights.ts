@@ -230,7 +230,7 @@ function thin(rule: WeightRule, n: number, min: number): BlendWeights {
     rule,
     "equal",
     EQUAL_PANEL_WEIGHT,
-    `Equal weights: only ${n} question with an outcome${n === 1 ? "" : "s"}, fewer than the ${min} needed for ${rule} weights (a common-practice minimum).`,
+    `Equal weights: only ${n} recorded outcome${n === 1 ? "" : "s"}, fewer than the ${min} needed for ${rule} weights (a common-practice minimum).`,
     { nOutcomes: n },
   );
 }

@@ -29,7 +29,7 @@ let panelistElsewhere = "";
 let P = "";
 let qP = "";
 let memberP = "";
-/** A panel (shared with the reviewer) whose question is resolved. */
+/** A panel (shared with the reviewer) whose question has a recorded outcome. */
 let R = "";
 let qR = "";
 const BASELINE = { values: [400, 410, 405, 420, 415, 430], method: "naive", horizon: 1 };
@@ -62,7 +62,7 @@ async function freshPanel(state: "draft" | "open" | "closed" = "draft"): Promise
   return { id: p.id, questionId: p.questions[0].id };
 }
 
-/** A new panel of the owner with round 1 closed and one answer in it (ready to resolve). */
+/** A new panel of the owner with round 1 closed and one answer in it (ready for its outcome). */
 async function freshAnsweredPanel(): Promise<{ id: string; questionId: string }> {
   const p = await freshPanel("open");
   const [inv] = await ok("POST", `/api/v1/panels/${p.id}/invitations`, owner, { rosterMemberIds: [await freshMember()] });
@@ -250,9 +250,9 @@ beforeAll(async () => {
   await ok("POST", `/api/v1/panels/${P}/rounds/1/close`, owner);
   await ok("POST", `/api/v1/panels/${P}/rounds`, owner, { open: true });
   await ok("PUT", `/api/v1/panels/${P}/questions/${qP}/baseline`, owner, BASELINE);
-  const resolved = await freshAnsweredPanel();
-  R = resolved.id;
-  qR = resolved.questionId;
+  const withOutcome = await freshAnsweredPanel();
+  R = withOutcome.id;
+  qR = withOutcome.questionId;
   await ok("POST", `/api/v1/panels/${R}/questions/${qR}/outcome`, owner, { outcomeValue: 411 });
 
   const p2 = await ok("POST", "/api/v1/panels", other, { title: "Another organiser's panel", questions: [QUESTION] });

@@ -4,7 +4,7 @@
  * Infinity) and bounds of ±1e308 (sums overflow) are refused at input with 422 naming the field;
  * and an answer of 5e-324 stored before that rule (written here with direct SQL) is left out of
  * its panelist's track record and counted, while the track records, the other question's
- * triangulation and report, and a new resolution all still answer. People are invented.
+ * triangulation and report, and a newly recorded outcome all still answer. People are invented.
  */
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { api, apiTokenFor, clearDatabase, createAccount, sql } from "./api-client";

@@ -1,6 +1,6 @@
 /**
  * The input policy stated once in lib/blend/index.ts, checked across every exported function:
- * NaN / ±Infinity and empty arrays throw RangeError (resolved history may be empty), out-of-range
+ * NaN / ±Infinity and empty arrays throw RangeError (past outcomes may be empty), out-of-range
  * values throw RangeError, and undefined statistics come back as NaN.
  */
 import { describe, expect, it } from "vitest";
@@ -83,7 +83,7 @@ describe("policy: empty arrays", () => {
     expect(() => blendLib.accuracyHistory([])).toThrow(RangeError);
   });
 
-  it("resolved history may be empty: equal weights, factor 1, count 0", () => {
+  it("past outcomes may be empty: equal weights, factor 1, count 0", () => {
     expect(blendLib.inverseMseWeights([]).applied).toBe("equal");
     expect(blendLib.optimalWeights([]).applied).toBe("equal");
     expect(blendLib.trackRecord([]).bias.factor).toBe(1);

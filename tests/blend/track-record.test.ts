@@ -117,7 +117,7 @@ out(c(m, exp(n / (n + 5) * m), mean(a - f), mean(abs(100 * (a - f) / a))))`);
     expect(h).toEqual({ count: 5, hits: 3, rate: 0.6, nominal: 0.8 });
   });
 
-  it(`Theil's decomposition only from ${MIN_OUTCOMES_FOR_THEIL} resolved questions on, with a note otherwise`, () => {
+  it(`Theil's decomposition only from ${MIN_OUTCOMES_FOR_THEIL} questions with an outcome on, with a note otherwise`, () => {
     const few = trackRecord(RECORD.slice(0, 4));
     expect(few.theil).toBeNull();
     expect(few.theilNote).toContain(`at least ${MIN_OUTCOMES_FOR_THEIL}`);

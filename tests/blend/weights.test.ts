@@ -97,7 +97,7 @@ describe("inverseMseWeights (Bates & Granger 1969, ρ = 0)", () => {
     expect(w.reason).toMatch(/Bates & Granger 1969/);
   });
 
-  it(`falls back to equal weights with a reason below ${MIN_OUTCOMES_FOR_WEIGHTS} resolved questions (common practice)`, () => {
+  it(`falls back to equal weights with a reason below ${MIN_OUTCOMES_FOR_WEIGHTS} questions with an outcome (common practice)`, () => {
     for (const h of [[], history.slice(0, 1), history.slice(0, 2)]) {
       const w = inverseMseWeights(h);
       expect(w.requested).toBe("inverse-mse");
