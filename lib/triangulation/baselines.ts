@@ -34,7 +34,7 @@ export type HistoryPeriod = (typeof HISTORY_PERIODS)[number];
 export type BaselineSource = "csv" | "values" | "launch";
 
 /** A launch baseline's market potential as used: the lognormal, its P10–P90, and its question (if any). */
-export interface ResolvedMarket extends MarketPotential {
+export interface MarketAsUsed extends MarketPotential {
   readonly questionId: string | null;
 }
 
@@ -138,9 +138,9 @@ function valuesCsv(values: readonly number[]): string {
  * worker pool (lib/work/pool.ts), so the request thread goes on serving panelists meanwhile.
  * @throws InvalidInputError naming the field (and the CSV row and column).
  */
-export async function analyseBaseline(input: BaselineInput, market?: ResolvedMarket): Promise<Analysed> {
+export async function analyseBaseline(input: BaselineInput, market?: MarketAsUsed): Promise<Analysed> {
   if (input.launch) {
-    if (!market) throw new Error("analyseBaseline: a launch baseline needs its resolved market potential");
+    if (!market) throw new Error("analyseBaseline: a launch baseline needs its market potential");
     return analyseLaunch(input, input.launch, market);
   }
   const source = input.csv !== undefined ? "csv" : "values";
@@ -222,7 +222,7 @@ export async function analyseBaseline(input: BaselineInput, market?: ResolvedMar
  * for the new product (lib/forecast/launch.ts, on the worker pool), periods counted from launch.
  * @throws InvalidInputError naming the analogue the fit refuses.
  */
-async function analyseLaunch(input: BaselineInput, launch: LaunchInput, market: ResolvedMarket): Promise<Analysed> {
+async function analyseLaunch(input: BaselineInput, launch: LaunchInput, market: MarketAsUsed): Promise<Analysed> {
   const horizon = input.horizon ?? 1;
   let fc;
   try {
@@ -271,7 +271,7 @@ const plain = (v: number) => Number(v.toPrecision(4)).toLocaleString("en-GB");
  * @throws InvalidInputError when the question is this one, not in the panel, has no closed
  *   round, or its range cannot carry a lognormal (needs 0 < low < figure < high).
  */
-async function launchMarket(actor: Actor, panelId: string, questionId: string, input: BaselineInput): Promise<ResolvedMarket | undefined> {
+async function launchMarket(actor: Actor, panelId: string, questionId: string, input: BaselineInput): Promise<MarketAsUsed | undefined> {
   const m = input.launch?.market;
   if (!m) return undefined;
   const field = "launch.market.questionId";
