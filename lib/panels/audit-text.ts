@@ -22,6 +22,17 @@ export interface AuditQuestion {
   readonly unit: string;
 }
 
+/** Action ids stored by earlier versions, read under today's names (with `actual` in the detail as `outcomeValue`). */
+const EARLIER_ACTIONS: Readonly<Record<string, string>> = { "question.resolved": "outcome.recorded", "resolution.corrected": "outcome.corrected" };
+
+/** A stored event's action and detail under today's names (events stored before a rename keep their old ones). */
+export function todaysForm(action: string, detail: Record<string, unknown>): { action: string; detail: Record<string, unknown> } {
+  const now = EARLIER_ACTIONS[action];
+  if (now === undefined) return { action, detail };
+  const { actual, ...rest } = detail;
+  return { action: now, detail: actual === undefined ? rest : { ...rest, outcomeValue: actual } };
+}
+
 const QUESTION_FIELDS: Record<string, string> = {
   text: "wording",
   unit: "unit",

@@ -7,7 +7,7 @@ import type { Prisma } from "@/lib/generated/prisma/client";
 import { db } from "@/lib/db";
 import type { Actor } from "@/lib/accounts/actor";
 import { authorisePanel } from "./access";
-import { auditSentence } from "./audit-text";
+import { auditSentence, todaysForm } from "./audit-text";
 
 type Tx = Prisma.TransactionClient;
 
@@ -29,16 +29,6 @@ export interface AuditEventView {
   readonly createdAt: string;
   /** The event in plain words for people (lib/panels/audit-text.ts). */
   readonly sentence: string;
-}
-
-/** Action ids stored by earlier versions, read under today's names (with `actual` in the detail as `outcomeValue`). */
-const EARLIER_ACTIONS: Readonly<Record<string, string>> = { "question.resolved": "outcome.recorded", "resolution.corrected": "outcome.corrected" };
-
-function todaysForm(action: string, detail: Record<string, unknown>): { action: string; detail: Record<string, unknown> } {
-  const now = EARLIER_ACTIONS[action];
-  if (now === undefined) return { action, detail };
-  const { actual, ...rest } = detail;
-  return { action: now, detail: actual === undefined ? rest : { ...rest, outcomeValue: actual } };
 }
 
 /** A panel's audit log, newest first (organisers of the panel only). */

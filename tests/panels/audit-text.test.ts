@@ -8,7 +8,7 @@
 import { readdirSync, readFileSync } from "node:fs";
 import { join } from "node:path";
 import { describe, expect, it } from "vitest";
-import { auditSentence, type AuditQuestion } from "../../lib/panels/audit-text";
+import { auditSentence, todaysForm, type AuditQuestion } from "../../lib/panels/audit-text";
 
 const questions = new Map<string, AuditQuestion>([
   ["q1", { text: "Wren-1 field units", unit: "units" }],
@@ -96,5 +96,16 @@ describe("auditSentence", () => {
 
   it("reads an unknown action without its id", () => {
     expect(say("panel.archived", {})).toBe("Ada Fenwick made a change to the panel.");
+  });
+
+  it("reads events stored under the earlier outcome action ids as today's", () => {
+    const recorded = todaysForm("question.resolved", { questionId: "q2", actual: 11400, parts: 0 });
+    expect(recorded).toEqual({ action: "outcome.recorded", detail: { questionId: "q2", outcomeValue: 11400, parts: 0 } });
+    expect(say(recorded.action, recorded.detail)).toBe("Ada Fenwick recorded the outcome of 'Units in year one': 11,400 units.");
+    const corrected = todaysForm("resolution.corrected", { questionId: "q2", from: 11400, to: 11250.5, reason: "late returns counted" });
+    expect(corrected.action).toBe("outcome.corrected");
+    expect(corrected.detail).toEqual({ questionId: "q2", from: 11400, to: 11250.5, reason: "late returns counted" });
+    // Today's ids pass through unchanged.
+    expect(todaysForm("round.closed", { by: "deadline" })).toEqual({ action: "round.closed", detail: { by: "deadline" } });
   });
 });
