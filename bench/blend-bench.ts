@@ -16,7 +16,7 @@
  * the automatic baseline the app attaches; its step at the question's horizon.
  *
  * Blend: lib/triangulation/triangulation `computeTriangulation`, exactly as the app computes a
- * question, with the track records of the questions resolved before it (bias factors,
+ * question, with the track records of the questions whose outcome came before it (bias factors,
  * interval hit rates, the panel's log errors, inverse-MSE history on relative errors), in order.
  * The inverse-MSE weight's raw value and the weight applied are summarised at the end.
  *
@@ -32,7 +32,7 @@ import { readFileSync } from "node:fs";
 import { join } from "node:path";
 import { parseArgs } from "node:util";
 import { baseline } from "../lib/forecast/baseline";
-import { blendErrorCorrelation, trackRecord, type BiasFactor, type ResolvedAnswer, type ResolvedPair } from "../lib/blend";
+import { blendErrorCorrelation, trackRecord, type BiasFactor, type AnswerOutcome, type OutcomePair } from "../lib/blend";
 import { computeTriangulation, type TriangulationAnswer } from "../lib/triangulation/triangulation";
 import { normalQuantile } from "../lib/stats/normal";
 import { mulberry32 } from "../tests/helpers/prng";
@@ -75,9 +75,9 @@ const panel = Array.from({ length: K }, (_, j) => ({
   confidence: 0.4 + 0.8 * rand(),
 }));
 
-const records = new Map<string, ResolvedAnswer[]>(panel.map((p) => [p.id, []]));
+const records = new Map<string, AnswerOutcome[]>(panel.map((p) => [p.id, []]));
 const logErrors: number[] = [];
-const pairs: ResolvedPair[] = [];
+const pairs: OutcomePair[] = [];
 const blendZ: number[] = [];
 type Leg = "baseline" | "panel" | "blend";
 const tally = Object.fromEntries(
@@ -145,7 +145,7 @@ for (const s of series) {
   applied.push(t.weights!.panel);
   if (Number.isFinite(t.weights!.rawPanel)) lastRaw = t.weights!.rawPanel;
   n++;
-  // Resolve the question: it joins the track records of the questions that follow.
+  // Record the outcome: the question joins the track records of the questions that follow.
   for (const a of answers) {
     records.get(a.invitationId)!.push(a.low !== null && a.high !== null ? { actual, answer: a.value, low: a.low, high: a.high } : { actual, answer: a.value });
   }

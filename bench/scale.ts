@@ -6,7 +6,7 @@
  * SQLite database and a fresh production server (`triangulate serve`, build in NEXT_DIST_DIR,
  * default .next-scale, built when absent or with SCALE_REBUILD=1), through the JSON API:
  * - N roster members; 3 earlier panels of 3 questions (single value, three-point, sum of parts),
- *   all N invited, one round answered by all, closed, every question resolved (part actuals by
+ *   all N invited, one round answered by all, closed, every question's outcome recorded (part outcomes by
  *   pseudonym on the sum-of-parts one, at most 500) and the panel finished: the track records;
  * - the measured panel: Q questions (i mod 6 = 3 three-point, i mod 6 = 5 sum of parts, the rest
  *   single values: 2/3, 1/6, 1/6 at Q = 30), all N invited; round 1 answered by all (N × Q,
@@ -86,7 +86,7 @@ function questionBody(i: number, product: string) {
     targetPeriod: "first 12 months after launch",
     lowerBound: 0,
     // The outcome of a sum-of-parts question (the total of up to 500 parts) is held to the same
-    // bounds as each part (lib/triangulation/resolution.ts checkWithinBounds), so its range covers the total.
+    // bounds as each part (lib/triangulation/outcome.ts checkWithinBounds), so its range covers the total.
     upperBound: k.aggregation === "sum-of-parts" ? 100_000_000 : 100_000,
     ...k,
   };
@@ -213,17 +213,17 @@ async function measureSize(n: number, q: number): Promise<Column> {
       if (bad.length > 0) throw new Error(`round ${round}: ${bad.length} answers not stored (statuses ${[...new Set(bad.map((b) => b.status))].join(", ")})`);
       return { out, seconds: (performance.now() - t) / 1000, cpu };
     };
-    const resolve = async (panelId: string, question: { id: string }, i: number, round: number): Promise<number> => {
-      let parts: { pseudonym: string; actual: number }[] = [];
+    const recordOutcome = async (panelId: string, question: { id: string }, i: number, round: number): Promise<number> => {
+      let parts: { pseudonym: string; outcomeValue: number }[] = [];
       if (kindOf(i).aggregation === "sum-of-parts") {
         const answers = await api("GET", `/api/v1/panels/${panelId}/rounds/${round}/answers`);
         const mine = answers.questions.find((x: { questionId: string }) => x.questionId === question.id);
         const pseudonyms = [...new Set<string>(mine.answers.map((a: { pseudonym: string }) => a.pseudonym))].slice(0, 500);
-        parts = pseudonyms.map((pseudonym) => ({ pseudonym, actual: Math.round((2000 + 500 * i) * (0.8 + 0.4 * rnd())) }));
+        parts = pseudonyms.map((pseudonym) => ({ pseudonym, outcomeValue: Math.round((2000 + 500 * i) * (0.8 + 0.4 * rnd())) }));
       }
-      const actual = parts.length > 0 ? parts.reduce((s, p) => s + p.actual, 0) : Math.round((2000 + 500 * i) * (0.9 + 0.2 * rnd()));
-      const r = await c.request("POST", `/api/v1/panels/${panelId}/questions/${question.id}/resolution`, { token, body: { actual, note: "Quillmoor shipment ledger", parts } });
-      if (r.status !== 201 && r.status !== 200) throw new Error(`resolution → ${r.status}: ${JSON.stringify(r.body)}`);
+      const outcomeValue = parts.length > 0 ? parts.reduce((s, p) => s + p.outcomeValue, 0) : Math.round((2000 + 500 * i) * (0.9 + 0.2 * rnd()));
+      const r = await c.request("POST", `/api/v1/panels/${panelId}/questions/${question.id}/outcome`, { token, body: { outcomeValue, note: "Quillmoor shipment ledger", parts } });
+      if (r.status !== 201 && r.status !== 200) throw new Error(`outcome → ${r.status}: ${JSON.stringify(r.body)}`);
       return r.ms;
     };
 
@@ -242,7 +242,7 @@ async function measureSize(n: number, q: number): Promise<Column> {
       const bad = out.filter((o) => o.status !== 201);
       if (bad.length > 0) throw new Error(`earlier panel ${e + 1}: ${bad.length} answers not stored (statuses ${[...new Set(bad.map((b) => b.status))].join(", ")})`);
       await api("POST", `/api/v1/panels/${panel.id}/rounds/1/close`);
-      for (let k = 0; k < qs.length; k++) await resolve(panel.id, qs[k], [0, 3, 5][k], 1);
+      for (let k = 0; k < qs.length; k++) await recordOutcome(panel.id, qs[k], [0, 3, 5][k], 1);
       await api("POST", `/api/v1/panels/${panel.id}/finish`);
     }
 
@@ -280,7 +280,7 @@ async function measureSize(n: number, q: number): Promise<Column> {
     for (let i = 0; i < q; i++) if (hasBaseline(i)) await api("PUT", `/api/v1/panels/${panel.id}/questions/${questions[i].id}/baseline`, { values: history, season: 4, horizon: 4 });
     console.log(`baselines on ${questions.filter((_, i) => hasBaseline(i)).length} questions: ${((performance.now() - t) / 1000).toFixed(1)} s; ${memory(server.child.pid)}`);
     const outcomeMs: number[] = [];
-    for (let i = 0; i < q; i++) if (hasOutcome(i)) outcomeMs.push(await resolve(panel.id, questions[i], i, 2));
+    for (let i = 0; i < q; i++) if (hasOutcome(i)) outcomeMs.push(await recordOutcome(panel.id, questions[i], i, 2));
     put("recording an outcome", `${fmtMs(median(outcomeMs))} (median of ${outcomeMs.length})`, median(outcomeMs));
     await api("POST", `/api/v1/panels/${panel.id}/rounds`, { open: true });
 

@@ -23,7 +23,7 @@ export const PROBLEM_TYPES = {
     description: "The operation needs an open round and none is open (round 1 has not opened yet, or the round named is not open).",
   },
   "round-closed": { status: 409, title: "Round closed", description: "The round has closed (by hand or by its deadline); answers are no longer accepted. Wait for the next round." },
-  "round-still-open": { status: 409, title: "Round still open", description: "A round is open: close it first (before the next round, finishing the panel or resolving a question)." },
+  "round-still-open": { status: 409, title: "Round still open", description: "A round is open: close it first (before the next round, finishing the panel or recording an outcome)." },
   "round-not-draft": { status: 409, title: "Round not a draft", description: "Only a draft round can be opened; this one is already open or closed." },
   "round-not-closed": { status: 409, title: "Round not closed", description: "Round statistics are computed when the round closes." },
   "round-limit-reached": { status: 409, title: "Round limit reached", description: "The panel has used its round limit: finish the panel or raise the limit." },
@@ -41,7 +41,7 @@ export const PROBLEM_TYPES = {
   "roster-member-invited": { status: 409, title: "Roster member invited", description: "The person has been invited to a panel; their answers refer to them, so they stay on the roster." },
   "already-invited": { status: 409, title: "Already invited", description: "Someone named is already invited to this panel; re-issue their link instead." },
   "already-has-access": { status: 409, title: "Already has access", description: "The user already has access to this panel (for example the owner)." },
-  "question-resolved": { status: 409, title: "Question resolved", description: "The question is resolved; its baseline and outcome can no longer change except by a correction with a reason." },
+  "outcome-recorded": { status: 409, title: "Outcome recorded", description: "The question's outcome is recorded; its baseline and outcome can no longer change except by a correction with a reason." },
   "calibration-question": {
     status: 409,
     title: "Calibration question",

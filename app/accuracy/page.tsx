@@ -16,7 +16,7 @@ const FIGURES = [
 ] as const;
 
 const MEASURES = [
-  ["n", "Resolved questions", 0],
+  ["n", "Questions with an outcome", 0],
   ["me", "Mean error (ME)", 4],
   ["mae", "MAE", 4],
   ["rmse", "RMSE", 4],
@@ -34,16 +34,16 @@ export default async function AccuracyPage() {
     <article className="accuracy-page">
       <h1>Accuracy history</h1>
       <p className="lead">
-        How each figure did over your resolved questions: the panel&apos;s raw figure, the bias-corrected panel, the statistical baseline and the blend.
+        How each figure did over your questions with a recorded outcome: the panel&apos;s raw figure, the bias-corrected panel, the statistical baseline and the blend.
       </p>
       {view.withoutBaseline > 0 ? (
-        <p className="muted small">{countOf(view.withoutBaseline, "resolved question")} had no baseline and are left out (there is no baseline or blend to compare).</p>
+        <p className="muted small">{countOf(view.withoutBaseline, "question")} with an outcome had no baseline and are left out (there is no baseline or blend to compare).</p>
       ) : null}
       {view.unusable > 0 ? (
-        <p className="muted small">{countOf(view.unusable, "resolved question")} {view.unusable === 1 ? "is" : "are"} left out because a recorded value is too extreme to score (outside 0 or 1e-12 to 1e15 in size).</p>
+        <p className="muted small">{countOf(view.unusable, "question")} with an outcome {view.unusable === 1 ? "is" : "are"} left out because a recorded value is too extreme to score (outside 0 or 1e-12 to 1e15 in size).</p>
       ) : null}
       {h === null ? (
-        <p className="muted">No resolved question with a baseline yet. Resolve a question on its page once the outcome is known.</p>
+        <p className="muted">No question with an outcome and a baseline yet. Record a question's outcome on its page once it is known.</p>
       ) : (
         <>
           <section aria-labelledby="measures-h">
@@ -97,21 +97,21 @@ export default async function AccuracyPage() {
               limit={TRACKING_SIGNAL_LIMIT}
             />
             <p className="small muted">
-              Tracking signal = cumulative relative error / mean absolute relative error, after each resolved question, with relative error = (actual −
-              figure) / |actual|: questions of different sizes count alike. A figure that stays beyond ±{TRACKING_SIGNAL_LIMIT}{" "}
+              Tracking signal = cumulative relative error / mean absolute relative error, after each recorded outcome, with relative error = (outcome −
+              figure) / |outcome|: questions of different sizes count alike. A figure that stays beyond ±{TRACKING_SIGNAL_LIMIT}{" "}
               is biased in one direction; ±{TRACKING_SIGNAL_LIMIT} is common practice, not an authoritative limit.
             </p>
           </section>
           <section aria-labelledby="questions-h">
-            <h2 id="questions-h">Resolved questions</h2>
+            <h2 id="questions-h">Questions with an outcome</h2>
             <div className="table-scroll">
               <table className="small">
                 <thead>
                   <tr>
                     <th>#</th>
                     <th>Question</th>
-                    <th>Resolved</th>
-                    <th className="num">Actual</th>
+                    <th>Recorded</th>
+                    <th className="num">Outcome</th>
                     <th className="num">Raw panel</th>
                     <th className="num">Corrected</th>
                     <th className="num">Baseline</th>
@@ -128,9 +128,9 @@ export default async function AccuracyPage() {
                           {q.panelTitle} · {q.unit}
                         </span>
                       </td>
-                      <td>{formatDate(q.resolvedAt)}</td>
+                      <td>{formatDate(q.recordedAt)}</td>
                       <td className="num">
-                        <Figure value={q.actual} name="actual" />
+                        <Figure value={q.outcomeValue} name="outcome-value" />
                       </td>
                       <td className="num">
                         <Figure value={q.rawPanel} />
@@ -159,7 +159,7 @@ export default async function AccuracyPage() {
             <li key={n}>{n}</li>
           ))}
         </ul>
-        <p className="caution">Past accuracy is a guide, not a guarantee: a few resolved questions say little about the next one.</p>
+        <p className="caution">Past accuracy is a guide, not a guarantee: a few outcomes say little about the next one.</p>
       </section>
     </article>
   );

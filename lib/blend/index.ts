@@ -1,7 +1,7 @@
 /**
  * lib/blend: the triangulation core — blend weights, the panel's and the baseline's
  * distributions and their mixture, departures from the baseline, track records and bias
- * factors, and scoring at resolution. Pure TypeScript: no framework, database or validation
+ * factors, and scoring once the outcome is known. Pure TypeScript: no framework, database or validation
  * library; relative imports only (lib/stats, lib/forecast/accuracy); plain objects in and out.
  *
  * ## Policy for empty input, NaN and out-of-range values (applies to every exported function)
@@ -11,7 +11,7 @@
  *   means before calling. (The one exception is `trackingAlarm`, whose input is a tracking-
  *   signal series that is NaN by definition while the MAD is 0; NaN never breaches.)
  * - **Empty arrays** of answers, values, parts or components throw a `RangeError`.
- *   **Resolved history** that drives a decision may be empty, because thin history is an
+ *   **The history of outcomes** that drives a decision may be empty, because thin history is an
  *   expected state with a stated fallback: `inverseMseWeights` / `optimalWeights` fall back
  *   to equal weights with the reason, `trackRecord` and `intervalHitRate` give count 0, NaN
  *   measures, bias factor 1 and no Theil decomposition.
@@ -45,8 +45,8 @@
  */
 export {
   EQUAL_PANEL_WEIGHT,
-  MIN_RESOLVED_FOR_WEIGHTS,
-  MIN_RESOLVED_FOR_CORRELATION,
+  MIN_OUTCOMES_FOR_WEIGHTS,
+  MIN_OUTCOMES_FOR_CORRELATION,
   PRIOR_ERROR_CORRELATION,
   WEIGHT_PRIOR_SD,
   weightCredibility,
@@ -59,7 +59,7 @@ export {
   blendWeights,
   type WeightRule,
   type WeightSpec,
-  type ResolvedPair,
+  type OutcomePair,
   type BlendWeights,
   type BatesGrangerOptimum,
   type ErrorCorrelation,
@@ -124,7 +124,7 @@ export {
 } from "./departure";
 export {
   BIAS_PRIOR_STRENGTH,
-  MIN_RESOLVED_FOR_THEIL,
+  MIN_OUTCOMES_FOR_THEIL,
   NOMINAL_INTERVAL_COVERAGE,
   theilDecomposition,
   meanLogRatio,
@@ -134,7 +134,7 @@ export {
   correctAnswer,
   correctThreePoint,
   correctedPanelFigure,
-  type ResolvedAnswer,
+  type AnswerOutcome,
   type TheilDecomposition,
   type BiasFactor,
   type IntervalHitRate,
@@ -147,13 +147,13 @@ export {
 export {
   TRACKING_SIGNAL_LIMIT,
   scoreFigure,
-  scoreResolution,
+  scoreOutcome,
   trackingAlarm,
   accuracyHistory,
   type FigureScore,
   type ScoreOptions,
-  type ResolutionFigures,
-  type ResolutionScores,
+  type OutcomeFigures,
+  type OutcomeScores,
   type TrackingAlarm,
   type HistoryEntry,
   type FigureHistory,

@@ -210,7 +210,7 @@ export interface BlendResult {
   /** The multiplier of σ_c used. */
   readonly rangeScale: number;
   /**
-   * σ_c before `rangeScale`: what a resolved blend's error is standardised by for the next
+   * σ_c before `rangeScale`: what a blend with an outcome's error is standardised by for the next
    * `blendRangeScale` (standardising by the scaled sd would undo the scale it came from).
    */
   readonly combinedSd: number;

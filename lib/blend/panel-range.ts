@@ -5,7 +5,7 @@
  * the outcome. Two rules live here:
  *
  * 1. Single-value answers (and single-value parts): the panel figure's predictive distribution
- *    from the log errors ln(actual / corrected panel figure) of the organiser's resolved
+ *    from the log errors ln(actual / corrected panel figure) of the organiser's recorded
  *    questions, with a stated prior when that history is short ({@link panelErrorScale},
  *    {@link panelFromTrackRecord}).
  * 2. Three-point answers: each panelist's P10–P90 range widened or narrowed by how often their
@@ -21,17 +21,17 @@ import { BIAS_PRIOR_STRENGTH, NOMINAL_INTERVAL_COVERAGE } from "./track-record";
 import { assertFinite, assertPositive } from "../stats/validate";
 
 /**
- * The prior for the scale of the panel figure's log errors when the resolved history is short:
- * scale s0 = 0.25 (a typical error of about 25% either way) worth ν0 = 3 resolved questions.
+ * The prior for the scale of the panel figure's log errors when the past outcomes is short:
+ * scale s0 = 0.25 (a typical error of about 25% either way) worth ν0 = 3 questions with an outcome.
  * A weakly informative default chosen by the project (common practice: a judgemental forecast
  * of a business quantity is rarely better than ±10% or worse than ±60% typical error); with n
- * resolved questions it carries weight ν0/(ν0 + n), so history takes over as it accumulates.
+ * questions with an outcome it carries weight ν0/(ν0 + n), so history takes over as it accumulates.
  */
 export const PANEL_LOG_ERROR_PRIOR = Object.freeze({ scale: 0.25, strength: 3 });
 
 /** The scale of the panel figure's log errors, with what it rests on. */
 export interface PanelErrorScale {
-  /** Resolved questions behind it. */
+  /** Questions with an outcome behind it. */
   readonly n: number;
   readonly priorScale: number;
   readonly priorStrength: number;
@@ -160,7 +160,7 @@ export interface RangeScale {
 
 /**
  * How much wider or narrower the blend's range must be to have held 80% of past outcomes: from
- * the standardised errors z_i = (actual_i − figure_i)/sd_i of resolved blends, the empirical
+ * the standardised errors z_i = (actual_i − figure_i)/sd_i of past blends with an outcome, the empirical
  * 80th percentile of |z_i| (Hyndman & Fan type 7) over Φ⁻¹(0.9), the value it would have for
  * well-calibrated normal ranges; shrunk toward 1 (the range as computed) with credibility
  * Z = n/(n + k), k = {@link BIAS_PRIOR_STRENGTH} (Bühlmann 1967, as the bias factor). This is

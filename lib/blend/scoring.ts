@@ -1,7 +1,7 @@
 /**
- * Scoring at resolution: every figure of a question (raw panel, corrected panel, baseline,
+ * Scoring once the outcome is known: every figure of a question (raw panel, corrected panel, baseline,
  * blend, each panelist's final answer) scored against the actual value, and an accuracy
- * history over resolved questions with the tracking signal. The measures themselves come from
+ * history over questions with an outcome with the tracking signal. The measures themselves come from
  * lib/forecast/accuracy (Hyndman & Koehler 2006). Input policy: see `index.ts`.
  */
 import {
@@ -24,7 +24,7 @@ import { assertFinite, assertFiniteArray } from "../stats/validate";
  */
 export const TRACKING_SIGNAL_LIMIT = 4;
 
-/** The scores of one figure on one resolved question. */
+/** The scores of one figure on one question with an outcome. */
 export interface FigureScore {
   /** Which figure: "raw panel", "corrected panel", "baseline", "blend", or a panelist's label. */
   readonly label: string;
@@ -77,8 +77,8 @@ export function scoreFigure(label: string, actual: number, forecast: number, opt
   };
 }
 
-/** The figures of one question at resolution. */
-export interface ResolutionFigures {
+/** The figures of one question when the outcome was recorded. */
+export interface OutcomeFigures {
   readonly rawPanel: number;
   readonly correctedPanel: number;
   readonly baseline: number;
@@ -88,7 +88,7 @@ export interface ResolutionFigures {
 }
 
 /** Scores of every figure of one question. */
-export interface ResolutionScores {
+export interface OutcomeScores {
   readonly actual: number;
   readonly rawPanel: FigureScore;
   readonly correctedPanel: FigureScore;
@@ -99,12 +99,12 @@ export interface ResolutionScores {
 }
 
 /**
- * Scores every figure of a resolved question (docs/methods.md §14.9) with
+ * Scores every figure of a question with an outcome (docs/methods.md §14.9) with
  * {@link scoreFigure}.
  * @throws RangeError for a non-finite actual or figure (the message names the figure).
  */
-export function scoreResolution(actual: number, figures: ResolutionFigures, options: ScoreOptions = {}): ResolutionScores {
-  assertFinite(actual, "scoreResolution", "actual");
+export function scoreOutcome(actual: number, figures: OutcomeFigures, options: ScoreOptions = {}): OutcomeScores {
+  assertFinite(actual, "scoreOutcome", "actual");
   return {
     actual,
     rawPanel: scoreFigure("raw panel", actual, figures.rawPanel, options),
@@ -145,7 +145,7 @@ export function trackingAlarm(series: readonly number[], limit: number = TRACKIN
   return { firstBreach: null, value: NaN, limit };
 }
 
-/** One resolved question in an accuracy history. */
+/** One question with an outcome in an accuracy history. */
 export interface HistoryEntry {
   readonly actual: number;
   readonly rawPanel: number;
@@ -158,7 +158,7 @@ export interface HistoryEntry {
 export interface FigureHistory {
   /** ME, MAE, MSE, RMSE, MPE, MAPE, sMAPE, MASE (NaN: no training series) and the last TS (on relative errors, as below). */
   readonly accuracy: AccuracyResult;
-  /** Tracking signal on relative errors after each resolved question, in order (NaN for an actual of 0). */
+  /** Tracking signal on relative errors after each question with an outcome, in order (NaN for an actual of 0). */
   readonly trackingSignal: readonly number[];
   readonly alarm: TrackingAlarm;
 }
@@ -182,7 +182,7 @@ const FIGURES = ["rawPanel", "correctedPanel", "baseline", "blend"] as const;
 const MAX_FIGURE = 1e100;
 
 /**
- * True when a resolved question can enter an accuracy history: its actual is within the input
+ * True when a question with an outcome can enter an accuracy history: its actual is within the input
  * range (./magnitude.ts) and every figure is finite and at most {@link MAX_FIGURE} in size.
  * Anything else (a value stored before the input rule) would make the history's sums overflow;
  * callers leave such a question out and count it.
@@ -192,7 +192,7 @@ export function usableHistoryEntry(e: HistoryEntry): boolean {
 }
 
 /**
- * Accuracy over resolved questions in resolution order, for the raw panel, corrected panel,
+ * Accuracy over questions with an outcome in the order the outcomes were recorded, for the raw panel, corrected panel,
  * baseline and blend: lib/forecast/accuracy `accuracy` (Hyndman & Koehler 2006) and the
  * running tracking signal with its first breach of ±limit ({@link trackingAlarm}). The questions
  * differ in size and unit, so the tracking signal is on relative errors (actual − figure)/|actual|
@@ -204,7 +204,7 @@ export function usableHistoryEntry(e: HistoryEntry): boolean {
  */
 export function accuracyHistory(entries: readonly HistoryEntry[], limit: number = TRACKING_SIGNAL_LIMIT): AccuracyHistory {
   const fn = "accuracyHistory";
-  if (!Array.isArray(entries) || entries.length === 0) throw new RangeError(`${fn}: entries is empty; at least one resolved question is needed`);
+  if (!Array.isArray(entries) || entries.length === 0) throw new RangeError(`${fn}: entries is empty; at least one question with an outcome is needed`);
   entries.forEach((e, i) => {
     assertFinite(e.actual, fn, `entries[${i}].actual`);
     for (const k of FIGURES) assertFinite(e[k], fn, `entries[${i}].${k}`);

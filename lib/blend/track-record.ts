@@ -1,8 +1,8 @@
 /**
- * Track record and bias: per panelist over resolved questions — count, mean error, mean log
+ * Track record and bias: per panelist over questions with an outcome — count, mean error, mean log
  * ratio actual/answer, MAPE, interval hit rate of three-point answers, Theil's decomposition
- * of the MSE — and the bias factor exp(mean log ratio), shrunk toward 1 when few questions are
- * resolved; corrected answers and the corrected panel figure. Input policy: see `index.ts`.
+ * of the MSE — and the bias factor exp(mean log ratio), shrunk toward 1 when few questions have
+ * an outcome; corrected answers and the corrected panel figure. Input policy: see `index.ts`.
  */
 import { meanAbsolutePercentageError, meanError, meanSquaredError } from "../forecast/accuracy";
 import { median } from "../stats/summary";
@@ -12,7 +12,7 @@ import { withinMagnitude } from "./magnitude";
 import { assertFinite, assertFinitePairs, assertNonEmpty, assertPositive } from "../stats/validate";
 
 /**
- * Prior strength n0 of the bias-factor shrinkage: with n resolved questions the mean log ratio
+ * Prior strength n0 of the bias-factor shrinkage: with n questions with an outcome the mean log ratio
  * gets credibility Z = n/(n + n0), so n0 = 5 gives half weight after 5 questions. The form
  * Z = n/(n + k) is Bühlmann's credibility factor (H. Bühlmann 1967, "Experience rating and
  * credibility", ASTIN Bulletin 4(3), 199–207 — journal details from memory, see `index.ts`),
@@ -23,17 +23,17 @@ import { assertFinite, assertFinitePairs, assertNonEmpty, assertPositive } from 
 export const BIAS_PRIOR_STRENGTH = 5;
 
 /**
- * Fewest resolved questions before Theil's decomposition is reported. With very few points the
+ * Fewest questions with an outcome before Theil's decomposition is reported. With very few points the
  * correlation (and so U^R and U^D) is mostly noise: common practice, not a published threshold.
  */
-export const MIN_RESOLVED_FOR_THEIL = 5;
+export const MIN_OUTCOMES_FOR_THEIL = 5;
 
 /** Nominal coverage of a three-point answer's [P10, P90] interval. */
 export const NOMINAL_INTERVAL_COVERAGE = 0.8;
 
-/** One resolved question in a panelist's record. */
-export interface ResolvedAnswer {
-  /** The actual value recorded at resolution. */
+/** One question with an outcome in a panelist's record. */
+export interface AnswerOutcome {
+  /** The outcome value. */
   readonly actual: number;
   /** The panelist's final answer (the mid / P50 of a three-point answer). */
   readonly answer: number;
@@ -119,7 +119,7 @@ export function meanLogRatio(actual: readonly number[], answer: readonly number[
 
 /** A bias factor and how it was shrunk. */
 export interface BiasFactor {
-  /** Resolved questions behind it. */
+  /** Questions with an outcome behind it. */
   readonly n: number;
   /** Prior strength n0 used. */
   readonly priorStrength: number;
@@ -135,7 +135,7 @@ export interface BiasFactor {
 
 /**
  * Bias factor exp(Z·m) with Z = n/(n + n0) and m the mean log ratio: the unshrunk factor
- * exp(m) pulled toward 1 on the log scale when few questions are resolved (Bühlmann-style
+ * exp(m) pulled toward 1 on the log scale when few questions have an outcome (Bühlmann-style
  * credibility, see {@link BIAS_PRIOR_STRENGTH}). n = 0 gives factor 1.
  *
  * Input: m finite; n a whole number ≥ 0; n0 finite > 0.
@@ -146,7 +146,7 @@ export function shrunkBiasFactor(meanLogRatioValue: number, n: number, priorStre
   const fn = "shrunkBiasFactor";
   assertFinite(meanLogRatioValue, fn, "meanLogRatio");
   assertFinite(n, fn, "n");
-  if (!Number.isInteger(n) || n < 0) throw new RangeError(`${fn}: n is ${n}; it must be a whole number of resolved questions`);
+  if (!Number.isInteger(n) || n < 0) throw new RangeError(`${fn}: n is ${n}; it must be a whole number of questions with an outcome`);
   assertPositive(priorStrength, fn, "priorStrength");
   const m = n === 0 ? 0 : meanLogRatioValue;
   const z = n / (n + priorStrength);
@@ -155,7 +155,7 @@ export function shrunkBiasFactor(meanLogRatioValue: number, n: number, priorStre
 
 /** Interval hit rate of three-point answers. */
 export interface IntervalHitRate {
-  /** Resolved questions with a three-point answer. */
+  /** Questions with an outcome with a three-point answer. */
   readonly count: number;
   /** Of those, actuals within [low, high] (bounds included). */
   readonly hits: number;
@@ -165,8 +165,8 @@ export interface IntervalHitRate {
   readonly nominal: number;
 }
 
-function checkRecords(records: readonly ResolvedAnswer[], fn: string): void {
-  if (!Array.isArray(records)) throw new RangeError(`${fn}: records must be an array of resolved answers`);
+function checkRecords(records: readonly AnswerOutcome[], fn: string): void {
+  if (!Array.isArray(records)) throw new RangeError(`${fn}: records must be an array of answers with an outcome`);
   records.forEach((r, i) => {
     assertFinite(r.actual, fn, `records[${i}].actual`);
     assertFinite(r.answer, fn, `records[${i}].answer`);
@@ -184,13 +184,13 @@ function checkRecords(records: readonly ResolvedAnswer[], fn: string): void {
 }
 
 /**
- * Share of resolved three-point answers whose [low, high] = [P10, P90] contained the actual,
+ * Share of three-point answers with an outcome whose [low, high] = [P10, P90] contained the actual,
  * against the nominal 80%. Records without low/high are not counted.
  *
- * Input: resolved answers (possibly empty; then count 0 and rate NaN).
+ * Input: answers with an outcome (possibly empty; then count 0 and rate NaN).
  * @throws RangeError for a non-finite value, only one of low/high, or low > answer > high ordering errors.
  */
-export function intervalHitRate(records: readonly ResolvedAnswer[]): IntervalHitRate {
+export function intervalHitRate(records: readonly AnswerOutcome[]): IntervalHitRate {
   checkRecords(records, "intervalHitRate");
   let count = 0;
   let hits = 0;
@@ -204,9 +204,9 @@ export function intervalHitRate(records: readonly ResolvedAnswer[]): IntervalHit
 
 /** A panelist's track record. */
 export interface TrackRecord {
-  /** Resolved questions. */
+  /** Questions with an outcome. */
   readonly count: number;
-  /** Resolved answers left out as unusable (see {@link usableRecord}); not in `count`. */
+  /** Answers with an outcome left out as unusable (see {@link usableRecord}); not in `count`. */
   readonly skipped: number;
   /** Mean of actual − answer (positive: answers too low); NaN when count = 0. */
   readonly meanError: number;
@@ -215,7 +215,7 @@ export interface TrackRecord {
   /** MAPE in percent (NaN when count = 0 or an actual is 0). */
   readonly mape: number;
   readonly intervalHitRate: IntervalHitRate;
-  /** Theil's decomposition, or null with fewer than the minimum resolved questions. */
+  /** Theil's decomposition, or null with fewer than the minimum questions with an outcome. */
   readonly theil: TheilDecomposition | null;
   /** Why `theil` is null ("" when it is present). */
   readonly theilNote: string;
@@ -226,37 +226,37 @@ export interface TrackRecord {
 export interface TrackRecordOptions {
   /** Prior strength n0 for the bias factor (default {@link BIAS_PRIOR_STRENGTH}). */
   readonly priorStrength?: number;
-  /** Fewest resolved questions for Theil's decomposition (default {@link MIN_RESOLVED_FOR_THEIL}). */
+  /** Fewest questions with an outcome for Theil's decomposition (default {@link MIN_OUTCOMES_FOR_THEIL}). */
   readonly minForTheil?: number;
 }
 
 /**
- * True when every value of a resolved answer is within the range every way in accepts
+ * True when every value of an answer with an outcome is within the range every way in accepts
  * (./magnitude.ts: 0 or a magnitude in [1e-12, 1e15]). Within it the log ratio, the
  * errors, their squares and sums, and the bias factor are finite; outside it (a value stored
  * before that rule, such as an answer of 5e-324, whose ln(actual/answer) is Infinity) they are
  * not, so such an answer is left out of the record and counted instead of making every
  * measure NaN.
  */
-export function usableRecord(r: ResolvedAnswer): boolean {
+export function usableRecord(r: AnswerOutcome): boolean {
   return [r.actual, r.answer, r.low ?? 0, r.high ?? 0].every(withinMagnitude);
 }
 
 /**
- * A panelist's track record over resolved questions: count; mean error and MAPE (lib/forecast/
+ * A panelist's track record over questions with an outcome: count; mean error and MAPE (lib/forecast/
  * accuracy: Hyndman & Koehler 2006); mean log ratio ({@link meanLogRatio}); interval hit rate
  * ({@link intervalHitRate}); Theil's decomposition ({@link theilDecomposition}) from
  * `minForTheil` questions on; the shrunk bias factor ({@link shrunkBiasFactor}).
  *
- * Input: resolved answers, possibly empty (thin history is expected: count 0, NaN measures,
+ * Input: answers with an outcome, possibly empty (thin history is expected: count 0, NaN measures,
  * bias factor 1, no Theil). Actuals and answers must be positive (for the log ratio). Answers
  * that are not {@link usableRecord} are left out and counted in `skipped`.
  * @throws RangeError for a non-finite or non-positive actual/answer, malformed low/high, or bad options.
  */
-export function trackRecord(all: readonly ResolvedAnswer[], options: TrackRecordOptions = {}): TrackRecord {
+export function trackRecord(all: readonly AnswerOutcome[], options: TrackRecordOptions = {}): TrackRecord {
   const fn = "trackRecord";
   checkRecords(all, fn);
-  const minForTheil = options.minForTheil ?? MIN_RESOLVED_FOR_THEIL;
+  const minForTheil = options.minForTheil ?? MIN_OUTCOMES_FOR_THEIL;
   assertPositive(minForTheil, fn, "minForTheil");
   const records = all.filter(usableRecord);
   const skipped = all.length - records.length;
@@ -271,7 +271,7 @@ export function trackRecord(all: readonly ResolvedAnswer[], options: TrackRecord
       mape: NaN,
       intervalHitRate: hit,
       theil: null,
-      theilNote: `Theil's decomposition needs at least ${minForTheil} resolved questions; there are none.`,
+      theilNote: `Theil's decomposition needs at least ${minForTheil} questions with an outcome; there are none.`,
       bias: shrunkBiasFactor(0, 0, options.priorStrength),
     };
   }
@@ -287,7 +287,7 @@ export function trackRecord(all: readonly ResolvedAnswer[], options: TrackRecord
     mape: meanAbsolutePercentageError(actual, answer),
     intervalHitRate: hit,
     theil: enough ? theilDecomposition(actual, answer) : null,
-    theilNote: enough ? "" : `Theil's decomposition needs at least ${minForTheil} resolved questions; there are ${n}.`,
+    theilNote: enough ? "" : `Theil's decomposition needs at least ${minForTheil} questions with an outcome; there are ${n}.`,
     bias: shrunkBiasFactor(mlr, n, options.priorStrength),
   };
 }

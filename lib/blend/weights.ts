@@ -1,6 +1,6 @@
 /**
- * Blend weights for the panel figure against the baseline: equal, inverse-MSE from resolved
- * history (Bates & Granger 1969), the two-forecast optimum with error correlation, or set by
+ * Blend weights for the panel figure against the baseline: equal, inverse-MSE from past
+ * outcomes (Bates & Granger 1969), the two-forecast optimum with error correlation, or set by
  * the organiser. Each result carries the inputs behind the weight so a report can show them,
  * and says why it fell back to equal weights when history is too thin. Input policy: see `index.ts`.
  */
@@ -19,10 +19,10 @@ import { assertFinite, assertPositive, assertUnitInterval } from "../stats/valid
 export const EQUAL_PANEL_WEIGHT = 0.5;
 
 /**
- * Fewest resolved questions for inverse-MSE weights; with fewer the weights fall back to
+ * Fewest questions with an outcome for inverse-MSE weights; with fewer the weights fall back to
  * equal. The number is common practice (a judgement call), not a published threshold.
  */
-export const MIN_RESOLVED_FOR_WEIGHTS = 3;
+export const MIN_OUTCOMES_FOR_WEIGHTS = 3;
 
 /**
  * Prior standard deviation τ of the best panel weight around equal weights, 0.1 (the best weight
@@ -37,14 +37,14 @@ export const MIN_RESOLVED_FOR_WEIGHTS = 3;
 export const WEIGHT_PRIOR_SD = 0.1;
 
 /**
- * Fewest resolved questions for the optimum with error correlation, which estimates one more
+ * Fewest questions with an outcome for the optimum with error correlation, which estimates one more
  * quantity (the correlation) than inverse-MSE weights. Common practice, not a published threshold.
  */
-export const MIN_RESOLVED_FOR_CORRELATION = 5;
+export const MIN_OUTCOMES_FOR_CORRELATION = 5;
 
 /**
  * The prior for the correlation of the panel's and the baseline's errors, 0.5, worth
- * {@link BIAS_PRIOR_STRENGTH} resolved questions: a panel and a model read partly the same
+ * {@link BIAS_PRIOR_STRENGTH} questions with an outcome: a panel and a model read partly the same
  * signals and tend to miss the same surprises, so their errors are positively correlated;
  * 0.5 is a judgement (common practice), not a published figure.
  */
@@ -53,8 +53,8 @@ export const PRIOR_ERROR_CORRELATION = 0.5;
 /** How a weight was (to be) chosen. */
 export type WeightRule = "equal" | "inverse-mse" | "optimal" | "organiser";
 
-/** One resolved question: the actual value and the two figures that forecast it. */
-export interface ResolvedPair {
+/** One question with an outcome: the actual value and the two figures that forecast it. */
+export interface OutcomePair {
   readonly actual: number;
   /** The panel figure that was reported for the question. */
   readonly panel: number;
@@ -72,11 +72,11 @@ export interface BlendWeights {
   readonly panel: number;
   /** Weight on the baseline, 1 − panel. */
   readonly baseline: number;
-  /** Resolved questions behind the weight (0 for equal and organiser weights). */
-  readonly nResolved: number;
-  /** Mean squared error of the panel figure over the resolved questions (NaN if not used). */
+  /** Questions with an outcome behind the weight (0 for equal and organiser weights). */
+  readonly nOutcomes: number;
+  /** Mean squared error of the panel figure over the questions with an outcome (NaN if not used). */
   readonly msePanel: number;
-  /** Mean squared error of the baseline over the resolved questions (NaN if not used). */
+  /** Mean squared error of the baseline over the questions with an outcome (NaN if not used). */
   readonly mseBaseline: number;
   /** Correlation of the two error series (about zero, as the MSEs); NaN unless the optimal rule ran. */
   readonly errorCorrelation: number;
@@ -154,7 +154,7 @@ function result(
   panel: number,
   reason: string,
   extra: Partial<
-    Pick<BlendWeights, "nResolved" | "msePanel" | "mseBaseline" | "rawPanel" | "credibility" | "errorCorrelation" | "unconstrainedPanel" | "expectedMse">
+    Pick<BlendWeights, "nOutcomes" | "msePanel" | "mseBaseline" | "rawPanel" | "credibility" | "errorCorrelation" | "unconstrainedPanel" | "expectedMse">
   > = {},
 ): BlendWeights {
   return {
@@ -162,7 +162,7 @@ function result(
     applied,
     panel,
     baseline: 1 - panel,
-    nResolved: extra.nResolved ?? 0,
+    nOutcomes: extra.nOutcomes ?? 0,
     msePanel: extra.msePanel ?? NaN,
     mseBaseline: extra.mseBaseline ?? NaN,
     rawPanel: extra.rawPanel ?? NaN,
@@ -195,8 +195,8 @@ export function organiserWeights(panelWeight: number): BlendWeights {
 
 /** Options for the history-based rules. */
 export interface HistoryWeightOptions {
-  /** Fewest resolved questions before the rule is used (default: the rule's named constant). */
-  readonly minResolved?: number;
+  /** Fewest questions with an outcome before the rule is used (default: the rule's named constant). */
+  readonly minOutcomes?: number;
   /**
    * Inverse-MSE rule: prior standard deviation τ of the best panel weight around 0.5
    * (default {@link WEIGHT_PRIOR_SD}); see {@link weightCredibility}.
@@ -204,11 +204,11 @@ export interface HistoryWeightOptions {
   readonly priorSd?: number;
 }
 
-function checkHistory(history: readonly ResolvedPair[], fn: string, minResolved: number): void {
-  if (!Array.isArray(history)) throw new RangeError(`${fn}: history must be an array of resolved questions`);
-  assertFinite(minResolved, fn, "minResolved");
-  if (!Number.isInteger(minResolved) || minResolved < 1) {
-    throw new RangeError(`${fn}: minResolved is ${minResolved}; it must be a whole number of at least 1`);
+function checkHistory(history: readonly OutcomePair[], fn: string, minOutcomes: number): void {
+  if (!Array.isArray(history)) throw new RangeError(`${fn}: history must be an array of questions with an outcome`);
+  assertFinite(minOutcomes, fn, "minOutcomes");
+  if (!Number.isInteger(minOutcomes) || minOutcomes < 1) {
+    throw new RangeError(`${fn}: minOutcomes is ${minOutcomes}; it must be a whole number of at least 1`);
   }
   history.forEach((h, i) => {
     assertFinite(h.actual, fn, `history[${i}].actual`);
@@ -217,7 +217,7 @@ function checkHistory(history: readonly ResolvedPair[], fn: string, minResolved:
   });
 }
 
-function historyMses(history: readonly ResolvedPair[]): { mseP: number; mseB: number; crossMoment: number } {
+function historyMses(history: readonly OutcomePair[]): { mseP: number; mseB: number; crossMoment: number } {
   const actual = history.map((h) => h.actual);
   const mseP = meanSquaredError(actual, history.map((h) => h.panel));
   const mseB = meanSquaredError(actual, history.map((h) => h.baseline));
@@ -230,8 +230,8 @@ function thin(rule: WeightRule, n: number, min: number): BlendWeights {
     rule,
     "equal",
     EQUAL_PANEL_WEIGHT,
-    `Equal weights: only ${n} resolved question${n === 1 ? "" : "s"}, fewer than the ${min} needed for ${rule} weights (a common-practice minimum).`,
-    { nResolved: n },
+    `Equal weights: only ${n} recorded outcome${n === 1 ? "" : "s"}, fewer than the ${min} needed for ${rule} weights (a common-practice minimum).`,
+    { nOutcomes: n },
   );
 }
 
@@ -243,7 +243,7 @@ function thin(rule: WeightRule, n: number, min: number): BlendWeights {
  * 3rd ed., §2.5, section from memory): prior N(0.5, τ²) ({@link WEIGHT_PRIOR_SD}); the raw weight
  * MSE_b/(MSE_p + MSE_b) of two equally good legs with independent normal errors is
  * Beta(n/2, n/2)-distributed (a ratio of χ²_n variables), with variance v_n = 1/(4(n + 1)).
- * With 3 resolved questions Z = 4/29 ≈ 0.14; the history gets half the say at n = 24.
+ * With 3 questions with an outcome Z = 4/29 ≈ 0.14; the history gets half the say at n = 24.
  *
  * Input: n ≥ 0 a whole number, τ > 0 finite.
  * @throws RangeError for a bad n or τ.
@@ -259,7 +259,7 @@ export function weightCredibility(n: number, priorSd: number = WEIGHT_PRIOR_SD):
 }
 
 /**
- * Inverse-MSE weights from resolved history (Bates & Granger 1969 with the error correlation
+ * Inverse-MSE weights from past outcomes (Bates & Granger 1969 with the error correlation
  * set to 0; as the diagonal-only `comb_BG` of R package GeomComb, docs/methods.md §5a):
  * w_raw = (1/MSE_p) / (1/MSE_p + 1/MSE_b) = MSE_b / (MSE_p + MSE_b), MSE by
  * lib/forecast/accuracy `meanSquaredError` (errors actual − figure), then shrunk hard toward
@@ -269,26 +269,26 @@ export function weightCredibility(n: number, priorSd: number = WEIGHT_PRIOR_SD):
  * lose to equal weights in practice (the "forecast combination puzzle": Clemen 1989; Smith &
  * Wallis 2009; Genre et al. 2013), so the history only takes over when it is long.
  *
- * Fallbacks (to equal weights, with the reason): fewer than `minResolved` questions (default
- * {@link MIN_RESOLVED_FOR_WEIGHTS}), or both MSEs 0. One MSE of 0 gives that figure w_raw = 1.
+ * Fallbacks (to equal weights, with the reason): fewer than `minOutcomes` questions (default
+ * {@link MIN_OUTCOMES_FOR_WEIGHTS}), or both MSEs 0. One MSE of 0 gives that figure w_raw = 1.
  *
- * Input: resolved questions (possibly empty: thin history is an expected state).
- * @throws RangeError for a non-finite value in history (named by index), a bad minResolved or priorSd.
+ * Input: questions with an outcome (possibly empty: thin history is an expected state).
+ * @throws RangeError for a non-finite value in history (named by index), a bad minOutcomes or priorSd.
  * @example inverseMseWeights(history) // raw 0.1555555556 when MSE_p = 3.8 and MSE_b = 0.7, n = 5
  *   // → Z = 6/31, panel 0.5 + (6/31)·(0.1555555556 − 0.5) = 0.4333333333
  */
-export function inverseMseWeights(history: readonly ResolvedPair[], options: HistoryWeightOptions = {}): BlendWeights {
+export function inverseMseWeights(history: readonly OutcomePair[], options: HistoryWeightOptions = {}): BlendWeights {
   const fn = "inverseMseWeights";
-  const min = options.minResolved ?? MIN_RESOLVED_FOR_WEIGHTS;
+  const min = options.minOutcomes ?? MIN_OUTCOMES_FOR_WEIGHTS;
   const tau = options.priorSd ?? WEIGHT_PRIOR_SD;
   checkHistory(history, fn, min);
   assertPositive(tau, fn, "priorSd");
   const n = history.length;
   if (n < min) return thin("inverse-mse", n, min);
   const { mseP, mseB } = historyMses(history);
-  const base = { nResolved: n, msePanel: mseP, mseBaseline: mseB };
+  const base = { nOutcomes: n, msePanel: mseP, mseBaseline: mseB };
   if (mseP + mseB === 0) {
-    return result("inverse-mse", "equal", EQUAL_PANEL_WEIGHT, "Equal weights: both the panel and the baseline were exact on every resolved question.", base);
+    return result("inverse-mse", "equal", EQUAL_PANEL_WEIGHT, "Equal weights: both the panel and the baseline were exact on every question with an outcome.", base);
   }
   const raw = mseB / (mseP + mseB);
   const z = weightCredibility(n, tau);
@@ -297,7 +297,7 @@ export function inverseMseWeights(history: readonly ResolvedPair[], options: His
     "inverse-mse",
     "inverse-mse",
     w,
-    `Inverse-MSE weights (Bates & Granger 1969) from ${n} resolved questions: panel MSE ${fmt(mseP)}, baseline MSE ${fmt(mseB)}, ` +
+    `Inverse-MSE weights (Bates & Granger 1969) from ${n} questions with an outcome: panel MSE ${fmt(mseP)}, baseline MSE ${fmt(mseB)}, ` +
       `raw panel weight ${fmt(raw)} shrunk toward 0.5 with credibility ${fmt(z)} ` +
       `(prior: the best weight within 0.5 ± ${fmt(2 * tau)}; estimated weights from short records lose to equal weights, Smith & Wallis 2009).`,
     { ...base, rawPanel: raw, credibility: z, expectedMse: combinationMse(1 - w, mseP, mseB, 0) },
@@ -306,31 +306,31 @@ export function inverseMseWeights(history: readonly ResolvedPair[], options: His
 
 /**
  * The two-forecast optimum with error correlation (Bates & Granger 1969; {@link batesGrangerWeights}),
- * estimated from resolved history: σ_p² = MSE_p, σ_b² = MSE_b and ρ = mean(e_p·e_b)/(σ_p·σ_b),
+ * estimated from past outcomes: σ_p² = MSE_p, σ_b² = MSE_b and ρ = mean(e_p·e_b)/(σ_p·σ_b),
  * moments about zero as for MSE (the forecasts are taken as unbiased, as in the formula).
  * The panel weight 1 − λ_opt is clipped to [0, 1] so that the blend stays a mixture (a negative
  * weight would extrapolate beyond both figures); the reason says when it was clipped.
  *
- * Fallbacks (to equal weights, with the reason): fewer than `minResolved` questions (default
- * {@link MIN_RESOLVED_FOR_CORRELATION}); both MSEs 0; identical error series (the optimum is
+ * Fallbacks (to equal weights, with the reason): fewer than `minOutcomes` questions (default
+ * {@link MIN_OUTCOMES_FOR_CORRELATION}); both MSEs 0; identical error series (the optimum is
  * undefined). One MSE of 0 gives that figure weight 1.
  *
- * @throws RangeError for a non-finite value in history (named by index) or a bad minResolved.
+ * @throws RangeError for a non-finite value in history (named by index) or a bad minOutcomes.
  */
-export function optimalWeights(history: readonly ResolvedPair[], options: HistoryWeightOptions = {}): BlendWeights {
+export function optimalWeights(history: readonly OutcomePair[], options: HistoryWeightOptions = {}): BlendWeights {
   const fn = "optimalWeights";
-  const min = options.minResolved ?? MIN_RESOLVED_FOR_CORRELATION;
+  const min = options.minOutcomes ?? MIN_OUTCOMES_FOR_CORRELATION;
   checkHistory(history, fn, min);
   const n = history.length;
   if (n < min) return thin("optimal", n, min);
   const { mseP, mseB, crossMoment } = historyMses(history);
-  const base = { nResolved: n, msePanel: mseP, mseBaseline: mseB };
+  const base = { nOutcomes: n, msePanel: mseP, mseBaseline: mseB };
   if (mseP === 0 || mseB === 0) {
     if (mseP === 0 && mseB === 0) {
-      return result("optimal", "equal", EQUAL_PANEL_WEIGHT, "Equal weights: both the panel and the baseline were exact on every resolved question.", base);
+      return result("optimal", "equal", EQUAL_PANEL_WEIGHT, "Equal weights: both the panel and the baseline were exact on every question with an outcome.", base);
     }
     const w = mseP === 0 ? 1 : 0;
-    return result("optimal", "optimal", w, `All weight on the ${w === 1 ? "panel" : "baseline"}: it was exact on all ${n} resolved questions.`, {
+    return result("optimal", "optimal", w, `All weight on the ${w === 1 ? "panel" : "baseline"}: it was exact on all ${n} questions with an outcome.`, {
       ...base,
       expectedMse: 0,
     });
@@ -351,7 +351,7 @@ export function optimalWeights(history: readonly ResolvedPair[], options: Histor
     "optimal",
     "optimal",
     w,
-    `Bates–Granger optimum with error correlation ${fmt(rho)} from ${n} resolved questions: panel MSE ${fmt(mseP)}, baseline MSE ${fmt(mseB)}` +
+    `Bates–Granger optimum with error correlation ${fmt(rho)} from ${n} questions with an outcome: panel MSE ${fmt(mseP)}, baseline MSE ${fmt(mseB)}` +
       (clipped ? `; the unconstrained panel weight ${fmt(opt.w1)} was clipped to ${w}.` : "."),
     { ...base, errorCorrelation: rho, unconstrainedPanel: opt.w1, expectedMse: combinationMse(1 - w, mseP, mseB, rho * sp * sb) },
   );
@@ -363,7 +363,7 @@ export interface ErrorCorrelation {
   readonly rho: number;
   /** ρ from the history alone, mean(e_p·e_b)/√(MSE_p·MSE_b) (NaN without usable history). */
   readonly historyRho: number;
-  /** Resolved questions behind it. */
+  /** Questions with an outcome behind it. */
   readonly n: number;
   /** Credibility Z = n/(n + k) of the history. */
   readonly credibility: number;
@@ -378,7 +378,7 @@ export interface ErrorCorrelation {
  * @throws RangeError for a non-finite value in history.
  * @example blendErrorCorrelation([]).rho // 0.5
  */
-export function blendErrorCorrelation(history: readonly ResolvedPair[], priorStrength: number = BIAS_PRIOR_STRENGTH): ErrorCorrelation {
+export function blendErrorCorrelation(history: readonly OutcomePair[], priorStrength: number = BIAS_PRIOR_STRENGTH): ErrorCorrelation {
   checkHistory(history, "blendErrorCorrelation", 1);
   const n = history.length;
   let historyRho = NaN;
@@ -394,8 +394,8 @@ export function blendErrorCorrelation(history: readonly ResolvedPair[], priorStr
 export type WeightSpec =
   | { readonly rule: "equal" }
   | { readonly rule: "organiser"; readonly panelWeight: number }
-  | { readonly rule: "inverse-mse"; readonly history: readonly ResolvedPair[]; readonly minResolved?: number; readonly priorSd?: number }
-  | { readonly rule: "optimal"; readonly history: readonly ResolvedPair[]; readonly minResolved?: number };
+  | { readonly rule: "inverse-mse"; readonly history: readonly OutcomePair[]; readonly minOutcomes?: number; readonly priorSd?: number }
+  | { readonly rule: "optimal"; readonly history: readonly OutcomePair[]; readonly minOutcomes?: number };
 
 /**
  * The blend weight for a {@link WeightSpec}: dispatches to {@link equalWeights},
@@ -409,9 +409,9 @@ export function blendWeights(spec: WeightSpec): BlendWeights {
     case "organiser":
       return organiserWeights(spec.panelWeight);
     case "inverse-mse":
-      return inverseMseWeights(spec.history, { minResolved: spec.minResolved, priorSd: spec.priorSd });
+      return inverseMseWeights(spec.history, { minOutcomes: spec.minOutcomes, priorSd: spec.priorSd });
     case "optimal":
-      return optimalWeights(spec.history, { minResolved: spec.minResolved });
+      return optimalWeights(spec.history, { minOutcomes: spec.minOutcomes });
     default: {
       const rule: string = (spec as { rule: string }).rule;
       throw new RangeError(`blendWeights: unknown rule "${rule}"; use equal, organiser, inverse-mse or optimal`);

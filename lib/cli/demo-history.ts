@@ -1,6 +1,6 @@
 /**
  * The demo's history (invented): three earlier Quillmoor Instruments panels, 2023–2025, whose
- * eight questions have been resolved, answered by the same roster members with their own
+ * eight questions have a recorded outcome, answered by the same roster members with their own
  * habits — Priya Lindqvist and Greta Solheim answer high, Owen Castellan and Felix Achterberg
  * low, Beatriz Nakamura and Hana Moravec close to the outcome — so that on first start the
  * track records, bias factors and inverse-MSE blend weights have something to show. Also the
@@ -8,7 +8,7 @@
  * quarter, scaled by a stated factor.
  *
  * Everything goes through the domain services, as the web app would; only the dates of the past
- * panels and resolutions are set afterwards, so that the history reads as 2023–2025. The
+ * panels and outcomes are set afterwards, so that the history reads as 2023–2025. The
  * answers are computed from the invented outcome, each person's habit and a fixed wobble
  * (no randomness), so the demo is the same every time.
  */
@@ -20,7 +20,7 @@ import { closeRound, finishPanel, openRound } from "../panels/rounds";
 import { submitAnswer } from "../panels/answers";
 import { attachBaseline } from "../triangulation/baselines";
 import { setPanelBlendRule } from "../triangulation/triangulation";
-import { resolveQuestion } from "../triangulation/resolution";
+import { recordOutcome } from "../triangulation/outcome";
 import type { RosterMemberView } from "../panels/roster";
 
 /**
@@ -34,8 +34,8 @@ interface PastQuestion {
   readonly unit: string;
   readonly targetPeriod: string;
   readonly answerFormat: "single" | "three-point";
-  /** The outcome recorded at resolution. */
-  readonly actual: number;
+  /** The outcome value. */
+  readonly outcomeValue: number;
   /** Where the baseline's last value sat relative to the outcome (invented). */
   readonly baselineRatio: number;
   readonly baselineNote: string;
@@ -47,7 +47,7 @@ interface PastPanel {
   /** Roster indices invited. */
   readonly invited: readonly number[];
   readonly createdAt: string;
-  readonly resolvedAt: string;
+  readonly outcomesRecordedAt: string;
   readonly questions: readonly PastQuestion[];
 }
 
@@ -57,11 +57,11 @@ export const PAST_PANELS: readonly PastPanel[] = [
     description: "Volumes for the two products launched in spring 2023, and the calibration contracts signed that year.",
     invited: [0, 1, 2, 3, 4, 5, 6],
     createdAt: "2023-01-16T09:00:00Z",
-    resolvedAt: "2024-02-05T10:00:00Z",
+    outcomesRecordedAt: "2024-02-05T10:00:00Z",
     questions: [
-      { text: "How many Fenwick-1 rain gauges will Quillmoor sell in the first twelve months after launch?", unit: "units", targetPeriod: "first 12 months after launch", answerFormat: "three-point", actual: 6400, baselineRatio: 0.92, baselineNote: "monthly orders of the older Fenwick gauge, annualised" },
-      { text: "How many Wren-1 long-life battery kits will Quillmoor sell in 2023?", unit: "kits", targetPeriod: "calendar year 2023", answerFormat: "single", actual: 3100, baselineRatio: 1.09, baselineNote: "quarterly spare-battery sales, annualised" },
-      { text: "How many annual calibration-service contracts will Quillmoor sign in 2023?", unit: "contracts", targetPeriod: "calendar year 2023", answerFormat: "single", actual: 420, baselineRatio: 0.9, baselineNote: "contracts signed per year since 2015" },
+      { text: "How many Fenwick-1 rain gauges will Quillmoor sell in the first twelve months after launch?", unit: "units", targetPeriod: "first 12 months after launch", answerFormat: "three-point", outcomeValue: 6400, baselineRatio: 0.92, baselineNote: "monthly orders of the older Fenwick gauge, annualised" },
+      { text: "How many Wren-1 long-life battery kits will Quillmoor sell in 2023?", unit: "kits", targetPeriod: "calendar year 2023", answerFormat: "single", outcomeValue: 3100, baselineRatio: 1.09, baselineNote: "quarterly spare-battery sales, annualised" },
+      { text: "How many annual calibration-service contracts will Quillmoor sign in 2023?", unit: "contracts", targetPeriod: "calendar year 2023", answerFormat: "single", outcomeValue: 420, baselineRatio: 0.9, baselineNote: "contracts signed per year since 2015" },
     ],
   },
   {
@@ -69,11 +69,11 @@ export const PAST_PANELS: readonly PastPanel[] = [
     description: "Second-year volume of the Wren-1, the Heron-1 logger's launch year, and replacement probes.",
     invited: [0, 1, 2, 3, 4, 5, 6, 7],
     createdAt: "2024-01-22T09:00:00Z",
-    resolvedAt: "2025-02-10T10:00:00Z",
+    outcomesRecordedAt: "2025-02-10T10:00:00Z",
     questions: [
-      { text: "How many Wren-1 sensors will Quillmoor sell in 2024?", unit: "units", targetPeriod: "calendar year 2024", answerFormat: "three-point", actual: 11800, baselineRatio: 1.06, baselineNote: "Wren-1 trailing-twelve-month sales by quarter" },
-      { text: "How many Heron-1 data loggers will Quillmoor sell in the first twelve months after launch?", unit: "units", targetPeriod: "first 12 months after launch", answerFormat: "single", actual: 2250, baselineRatio: 0.95, baselineNote: "first-year sales of earlier loggers, by launch" },
-      { text: "How many replacement soil probes will Quillmoor sell in 2024?", unit: "probes", targetPeriod: "calendar year 2024", answerFormat: "single", actual: 5200, baselineRatio: 1.1, baselineNote: "probe sales per year" },
+      { text: "How many Wren-1 sensors will Quillmoor sell in 2024?", unit: "units", targetPeriod: "calendar year 2024", answerFormat: "three-point", outcomeValue: 11800, baselineRatio: 1.06, baselineNote: "Wren-1 trailing-twelve-month sales by quarter" },
+      { text: "How many Heron-1 data loggers will Quillmoor sell in the first twelve months after launch?", unit: "units", targetPeriod: "first 12 months after launch", answerFormat: "single", outcomeValue: 2250, baselineRatio: 0.95, baselineNote: "first-year sales of earlier loggers, by launch" },
+      { text: "How many replacement soil probes will Quillmoor sell in 2024?", unit: "probes", targetPeriod: "calendar year 2024", answerFormat: "single", outcomeValue: 5200, baselineRatio: 1.1, baselineNote: "probe sales per year" },
     ],
   },
   {
@@ -81,10 +81,10 @@ export const PAST_PANELS: readonly PastPanel[] = [
     description: "Launch-year volume of the Kestrel-1 and Wren-1 sales in the first half of 2025.",
     invited: [0, 1, 2, 3, 4, 5, 6],
     createdAt: "2025-01-20T09:00:00Z",
-    resolvedAt: "2025-09-15T10:00:00Z",
+    outcomesRecordedAt: "2025-09-15T10:00:00Z",
     questions: [
-      { text: "How many Kestrel-1 weather stations will Quillmoor sell in the first twelve months after launch?", unit: "units", targetPeriod: "first 12 months after launch", answerFormat: "three-point", actual: 3900, baselineRatio: 0.94, baselineNote: "first-year sales of earlier stations, by launch" },
-      { text: "How many Wren-1 sensors will Quillmoor sell from January to June 2025?", unit: "units", targetPeriod: "January–June 2025", answerFormat: "single", actual: 6100, baselineRatio: 1.04, baselineNote: "Wren-1 half-year sales" },
+      { text: "How many Kestrel-1 weather stations will Quillmoor sell in the first twelve months after launch?", unit: "units", targetPeriod: "first 12 months after launch", answerFormat: "three-point", outcomeValue: 3900, baselineRatio: 0.94, baselineNote: "first-year sales of earlier stations, by launch" },
+      { text: "How many Wren-1 sensors will Quillmoor sell from January to June 2025?", unit: "units", targetPeriod: "January–June 2025", answerFormat: "single", outcomeValue: 6100, baselineRatio: 1.04, baselineNote: "Wren-1 half-year sales" },
     ],
   },
 ];
@@ -98,13 +98,13 @@ const round10 = (v: number) => Math.round(v / 10) * 10;
 
 /** Person i's answer to past question k (single value, or low / median / high). */
 export function pastAnswer(i: number, k: number, q: PastQuestion): { value: number; low?: number; high?: number } {
-  const value = round10(q.actual * HABITS[i] * wobble(i, k));
+  const value = round10(q.outcomeValue * HABITS[i] * wobble(i, k));
   return q.answerFormat === "three-point" ? { value, low: round10(value * 0.78), high: round10(value * 1.3) } : { value };
 }
 
-/** A 12-point history whose last value is actual × baselineRatio, with a gentle rise and wobble. */
+/** A 12-point history whose last value is the outcome × baselineRatio, with a gentle rise and wobble. */
 export function pastHistory(q: PastQuestion): number[] {
-  const last = q.actual * q.baselineRatio;
+  const last = q.outcomeValue * q.baselineRatio;
   return Array.from({ length: 12 }, (_, j) => Math.round(last * (0.75 + (0.25 * j) / 11) * (1 + (j === 11 ? 0 : 0.04 * Math.sin(3 * j + 1)))));
 }
 
@@ -117,7 +117,7 @@ export const WREN2_SCALE = 1.15;
 export const WREN2_SCALE_NOTE =
   "Wren-1 trailing-twelve-month sales by quarter; ×1.15 because the Wren-2 also reaches the long-range vineyard segment (about 15% more growers in the distributors' lists).";
 
-/** Loads the three past panels, answers, baselines and resolutions (in time order). */
+/** Loads the three past panels, answers, baselines and outcomes (in time order). */
 export async function loadPastPanels(actor: Actor, members: readonly RosterMemberView[]): Promise<void> {
   let k = 0;
   for (const past of PAST_PANELS) {
@@ -130,7 +130,7 @@ export async function loadPastPanels(actor: Actor, members: readonly RosterMembe
         unit: q.unit,
         targetPeriod: q.targetPeriod,
         lowerBound: 0,
-        upperBound: q.actual * 10,
+        upperBound: q.outcomeValue * 10,
         answerFormat: q.answerFormat,
         aggregation: "shared" as const,
       })),
@@ -163,9 +163,9 @@ export async function loadPastPanels(actor: Actor, members: readonly RosterMembe
         period: "other",
         analogue: { scaleFactor: 1, note: q.baselineNote },
       });
-      await resolveQuestion(actor, panel.id, panel.questions[j].id, { actual: q.actual, note: "Quillmoor sales ledger (invented)", parts: [] });
-      // Date the resolution as it happened, so the history reads in time order.
-      await db.resolution.update({ where: { questionId: panel.questions[j].id }, data: { resolvedAt: new Date(Date.parse(past.resolvedAt) + j * 60_000) } });
+      await recordOutcome(actor, panel.id, panel.questions[j].id, { outcomeValue: q.outcomeValue, note: "Quillmoor sales ledger (invented)", parts: [] });
+      // Date the outcome as it was recorded, so the history reads in time order.
+      await db.resolution.update({ where: { questionId: panel.questions[j].id }, data: { resolvedAt: new Date(Date.parse(past.outcomesRecordedAt) + j * 60_000) } });
     }
     await db.panel.update({ where: { id: panel.id }, data: { createdAt: new Date(past.createdAt) } });
   }

@@ -2,7 +2,7 @@
  * The demo scenario (invented): Quillmoor Instruments is launching the Wren-2 soil-moisture
  * sensor and asks seven people from sales, engineering and operations how many units it will
  * sell in its first year. Two rounds are closed (the answers converge, with rationales) and a
- * third is open. Three earlier panels (2023–2025) with eight resolved questions give the roster
+ * third is open. Three earlier panels (2023–2025) with eight recorded outcomes give the roster
  * members track records (lib/cli/demo-history.ts), and the first question has a baseline from
  * the Wren-1's history scaled by a stated factor, blended with inverse-MSE weights. Everything
  * goes through the domain services, as the web app would.
@@ -213,7 +213,7 @@ async function load(options: { ifEmpty: boolean }, io: CommandIo): Promise<numbe
   const lines = [
     "demo: loaded Quillmoor Instruments — panel \"Year-one unit sales of the Wren-2\" (rounds 1–2 closed, round 3 open)",
     "  and panel \"The Wren-2's course by quarter\" (a launch baseline: Bass diffusion from two earlier launches, market potential from the panel)",
-    `  history: ${PAST_PANELS.length} earlier panels with ${PAST_PANELS.reduce((n, p) => n + p.questions.length, 0)} resolved questions (track records, bias factors, inverse-MSE weights)`,
+    `  history: ${PAST_PANELS.length} earlier panels with ${PAST_PANELS.reduce((n, p) => n + p.questions.length, 0)} recorded outcomes (track records, bias factors, inverse-MSE weights)`,
     `  organiser  organiser@quillmoor.example  password: ${organiserPassword}`,
     `  reviewer   reviewer@quillmoor.example   password: ${reviewerPassword}`,
     "  panelist links (each is one person's secret; re-issue one on the panel page if it leaks):",

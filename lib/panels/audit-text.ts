@@ -22,6 +22,17 @@ export interface AuditQuestion {
   readonly unit: string;
 }
 
+/** Action ids stored by earlier versions, read under today's names (with `actual` in the detail as `outcomeValue`). */
+const EARLIER_ACTIONS: Readonly<Record<string, string>> = { "question.resolved": "outcome.recorded", "resolution.corrected": "outcome.corrected" };
+
+/** A stored event's action and detail under today's names (events stored before a rename keep their old ones). */
+export function todaysForm(action: string, detail: Record<string, unknown>): { action: string; detail: Record<string, unknown> } {
+  const now = EARLIER_ACTIONS[action];
+  if (now === undefined) return { action, detail };
+  const { actual, ...rest } = detail;
+  return { action: now, detail: actual === undefined ? rest : { ...rest, outcomeValue: actual } };
+}
+
 const QUESTION_FIELDS: Record<string, string> = {
   text: "wording",
   unit: "unit",
@@ -139,9 +150,9 @@ export function auditSentence(event: AuditEventLike, questions: ReadonlyMap<stri
       if (d.trueValue === null) return `${who} cleared the true value of ${qText}${had ? ` (was ${num(d.from)})` : ""}.`;
       return had ? `${who} changed the true value of ${qText} from ${num(d.from)} to ${num(d.trueValue)}.` : `${who} set the true value of ${qText} to ${num(d.trueValue)}.`;
     }
-    case "question.resolved":
-      return `${who} recorded the outcome of ${qText}: ${num(d.actual)}${unit}.`;
-    case "resolution.corrected":
+    case "outcome.recorded":
+      return `${who} recorded the outcome of ${qText}: ${num(d.outcomeValue)}${unit}.`;
+    case "outcome.corrected":
       return `${who} corrected the outcome of ${qText} from ${num(d.from)} to ${num(d.to)}${unit}${REASON(d)}.`;
     case "baseline.attached":
       return `${who} attached a baseline forecast to ${qText}.`;

@@ -7,7 +7,7 @@ import type { Prisma } from "@/lib/generated/prisma/client";
 import { db } from "@/lib/db";
 import type { Actor } from "@/lib/accounts/actor";
 import { authorisePanel } from "./access";
-import { auditSentence } from "./audit-text";
+import { auditSentence, todaysForm } from "./audit-text";
 
 type Tx = Prisma.TransactionClient;
 
@@ -44,7 +44,7 @@ export async function listAuditEvents(actor: Actor, panelId: string): Promise<Au
   ]);
   const byId = new Map(questions.map((q) => [q.id, q]));
   return rows.map((r) => {
-    const event = { action: r.action, actorName: r.actor?.name ?? null, detail: JSON.parse(r.detail) as Record<string, unknown> };
+    const event = { ...todaysForm(r.action, JSON.parse(r.detail) as Record<string, unknown>), actorName: r.actor?.name ?? null };
     return { id: r.id, ...event, createdAt: r.createdAt.toISOString(), sentence: auditSentence(event, byId) };
   });
 }

@@ -1,7 +1,7 @@
 /**
  * The reads that the question reports and triangulations of one request share, each done once
  * per request and then filtered per question in memory (issue 13: the panel report built each
- * question's report from its own reads of every closed round, the organiser's resolutions and
+ * question's report from its own reads of every closed round, the organiser's outcomes and
  * the convergence view, so its cost grew with questions × answers).
  *
  * A PanelReads belongs to one request of one actor (callers authorise before they read) and is
@@ -17,15 +17,15 @@ import { finalAnswers } from "./round-closing";
 import { closedRound } from "./closed-rounds";
 import { nextTurn } from "@/lib/work/turn";
 import { getConvergence, type ConvergenceView } from "./rounds";
-import { filterResolutions, loadResolutions, trackRecordsOf, type HistoryFilter, type ResolvedQuestion } from "../triangulation/track-records";
+import { filterOutcomes, loadOutcomes, trackRecordsOf, type HistoryFilter, type RecordedOutcome } from "../triangulation/track-records";
 
 type FinalAnswerRow = NonNullable<ReturnType<Awaited<ReturnType<typeof finalAnswers>>["get"]>>[number];
 
 export interface PanelReads {
   /** The final answers to one question in one round (finalAnswers' rows). */
   finalAnswers(roundId: string, questionId: string): Promise<readonly FinalAnswerRow[]>;
-  /** The organiser's resolutions that count under `filter` (as loadResolutions with it). */
-  resolutions(ownerId: string, filter: HistoryFilter): Promise<readonly ResolvedQuestion[]>;
+  /** The organiser's outcomes that count under `filter` (as loadOutcomes with it). */
+  outcomes(ownerId: string, filter: HistoryFilter): Promise<readonly RecordedOutcome[]>;
   /** Track records under `filter` (as trackRecordsFor with it). */
   trackRecords(ownerId: string, filter: HistoryFilter): Promise<ReadonlyMap<string, { record: TrackRecord; skipped: number }>>;
   /** The panel's invitations with their roster member and its name. */
@@ -52,7 +52,7 @@ const filterKey = (ownerId: string, f: HistoryFilter) => `${ownerId}\u0000${f.ex
 export function panelReads(options: { wholeRounds?: boolean } = {}): PanelReads {
   const rounds = memo<Awaited<ReturnType<typeof finalAnswers>>>();
   const roundStatus = memo<{ id: string; status: string; closedAt: Date | null } | null>();
-  const allResolutions = memo<ResolvedQuestion[]>();
+  const allOutcomes = memo<RecordedOutcome[]>();
   const records = memo<ReadonlyMap<string, { record: TrackRecord; skipped: number }>>();
   const invitations = memo<{ id: string; rosterMemberId: string; name: string }[]>();
   const convergence = memo<ConvergenceView>();
@@ -66,13 +66,13 @@ export function panelReads(options: { wholeRounds?: boolean } = {}): PanelReads 
         : await rounds(`${roundId}\u0000${questionId}`, () => finalAnswers(db, roundId, questionId));
       return byQuestion.get(questionId) ?? [];
     },
-    async resolutions(ownerId, filter) {
-      return filterResolutions(await allResolutions(ownerId, () => loadResolutions(ownerId)), filter);
+    async outcomes(ownerId, filter) {
+      return filterOutcomes(await allOutcomes(ownerId, () => loadOutcomes(ownerId)), filter);
     },
     async trackRecords(ownerId, filter) {
-      const all = await allResolutions(ownerId, () => loadResolutions(ownerId));
-      const counted = filterResolutions(all, filter);
-      // The filter only leaves resolutions out: one that leaves none out (an unresolved question's)
+      const all = await allOutcomes(ownerId, () => loadOutcomes(ownerId));
+      const counted = filterOutcomes(all, filter);
+      // The filter only leaves outcomes out: one that leaves none out (that of a question without an outcome)
       // gives the records of all of them, computed once for every such question.
       // A turn for other requests first: the records of 300 panelists take tens of milliseconds (lib/work/turn.ts).
       return records(counted.length === all.length ? `${ownerId}\u0000all` : filterKey(ownerId, filter), async () => {

@@ -182,7 +182,7 @@ export async function getPanel(actor: Actor, panelId: string): Promise<PanelView
 export async function getPanelMilestones(
   actor: Actor,
   panelId: string,
-): Promise<{ baselines: number; resolved: number; firstWithoutBaseline: string | null; firstUnresolved: string | null }> {
+): Promise<{ baselines: number; outcomes: number; firstWithoutBaseline: string | null; firstWithoutOutcome: string | null }> {
   await authorisePanel(actor, panelId, "read");
   // Calibration questions have a true value instead of a baseline and an outcome.
   const questions = await db.question.findMany({
@@ -192,9 +192,9 @@ export async function getPanelMilestones(
   });
   return {
     baselines: questions.filter((q) => q.baseline).length,
-    resolved: questions.filter((q) => q.resolution).length,
+    outcomes: questions.filter((q) => q.resolution).length,
     firstWithoutBaseline: questions.find((q) => !q.baseline)?.id ?? null,
-    firstUnresolved: questions.find((q) => !q.resolution)?.id ?? null,
+    firstWithoutOutcome: questions.find((q) => !q.resolution)?.id ?? null,
   };
 }
 

@@ -7,7 +7,7 @@
  *
  * Storage: the inputs and the engine's result are stored together when the baseline is
  * attached or replaced (the result is a pure function of the stored inputs, so nothing can go
- * stale). A resolved question's baseline is part of its scored record and can no longer change.
+ * stale). Once a question's outcome is recorded, its baseline is part of the scored record and can no longer change.
  *
  * Errors: CSV problems give 422 naming the row and column (`errors[0].row`, `.column`); the
  * engine's input errors (too short, season too long for the series, a method that does not
@@ -35,7 +35,7 @@ export type HistoryPeriod = (typeof HISTORY_PERIODS)[number];
 export type BaselineSource = "csv" | "values" | "launch";
 
 /** A launch baseline's market potential as used: the lognormal, its P10–P90, and its question (if any). */
-export interface ResolvedMarket extends MarketPotential {
+export interface MarketAsUsed extends MarketPotential {
   readonly questionId: string | null;
 }
 
@@ -139,9 +139,9 @@ function valuesCsv(values: readonly number[]): string {
  * worker pool (lib/work/pool.ts), so the request thread goes on serving panelists meanwhile.
  * @throws InvalidInputError naming the field (and the CSV row and column).
  */
-export async function analyseBaseline(input: BaselineInput, market?: ResolvedMarket): Promise<Analysed> {
+export async function analyseBaseline(input: BaselineInput, market?: MarketAsUsed): Promise<Analysed> {
   if (input.launch) {
-    if (!market) throw new Error("analyseBaseline: a launch baseline needs its resolved market potential");
+    if (!market) throw new Error("analyseBaseline: a launch baseline needs its market potential");
     return analyseLaunch(input, input.launch, market);
   }
   const source = input.csv !== undefined ? "csv" : "values";
@@ -223,7 +223,7 @@ export async function analyseBaseline(input: BaselineInput, market?: ResolvedMar
  * for the new product (lib/forecast/launch.ts, on the worker pool), periods counted from launch.
  * @throws InvalidInputError naming the analogue the fit refuses.
  */
-async function analyseLaunch(input: BaselineInput, launch: LaunchInput, market: ResolvedMarket): Promise<Analysed> {
+async function analyseLaunch(input: BaselineInput, launch: LaunchInput, market: MarketAsUsed): Promise<Analysed> {
   const horizon = input.horizon ?? 1;
   let fc;
   try {
@@ -272,7 +272,7 @@ const plain = (v: number) => formatNumber(v, 4);
  * @throws InvalidInputError when the question is this one, not in the panel, has no closed
  *   round, or its range cannot carry a lognormal (needs 0 < low < figure < high).
  */
-async function launchMarket(actor: Actor, panelId: string, questionId: string, input: BaselineInput): Promise<ResolvedMarket | undefined> {
+async function launchMarket(actor: Actor, panelId: string, questionId: string, input: BaselineInput): Promise<MarketAsUsed | undefined> {
   const m = input.launch?.market;
   if (!m) return undefined;
   const field = "launch.market.questionId";
@@ -389,9 +389,9 @@ function refuseIfCalibration(q: Question): void {
   if (q.calibration) throw new ConflictError("calibration-question", "A calibration question has a true value instead of a baseline: enter it on the panel page (or PUT …/true-value).");
 }
 
-async function refuseIfResolved(questionId: string): Promise<void> {
+async function refuseIfOutcomeRecorded(questionId: string): Promise<void> {
   if (await db.resolution.findUnique({ where: { questionId } })) {
-    throw new ConflictError("question-resolved", "The question is resolved; its baseline is part of the scored record and can no longer change.");
+    throw new ConflictError("outcome-recorded", "The question's outcome is recorded; its baseline is part of the scored record and can no longer change.");
   }
 }
 
@@ -453,12 +453,12 @@ export async function storeBaseline(
  * Attaches a baseline to a question, or replaces the one it has (organisers of the panel;
  * audited). Returns the stored baseline with its preview.
  * @throws InvalidInputError (422) naming the field, and the CSV row and column.
- * @throws ConflictError (409) when the question is resolved.
+ * @throws ConflictError (409) when the outcome is recorded.
  */
 export async function attachBaseline(actor: Actor, panelId: string, questionId: string, input: BaselineInput): Promise<BaselineView> {
   const access = await authorisePanel(actor, panelId, "manage");
   refuseIfCalibration(await findQuestion(panelId, questionId));
-  await refuseIfResolved(questionId);
+  await refuseIfOutcomeRecorded(questionId);
   const a = await analyseBaseline(input, await launchMarket(actor, panelId, questionId, input));
   const stored = await db.$transaction(async (tx) => {
     const existed = (await tx.baseline.count({ where: { questionId } })) > 0;
@@ -483,11 +483,11 @@ export async function getBaseline(actor: Actor, panelId: string, questionId: str
   return toView(b);
 }
 
-/** Removes a question's baseline (organisers; audited). @throws ConflictError when resolved. */
+/** Removes a question's baseline (organisers; audited). @throws ConflictError when the outcome is recorded. */
 export async function removeBaseline(actor: Actor, panelId: string, questionId: string): Promise<{ id: string; deleted: true }> {
   const access = await authorisePanel(actor, panelId, "manage");
   await findQuestion(panelId, questionId);
-  await refuseIfResolved(questionId);
+  await refuseIfOutcomeRecorded(questionId);
   const b = await db.baseline.findUnique({ where: { questionId } });
   if (!b) throw new NotFoundError("The question's baseline");
   await db.$transaction(async (tx) => {

@@ -3,8 +3,8 @@
  * answers turned out, across every panel they were invited to as the same roster member, from the
  * outcomes the organiser recorded.
  *
- * - Outcomes: the same resolutions and the same per-person record as the organiser's track
- *   records (./track-records.ts `loadResolutions`, `recordsByMember`, lib/blend `trackRecord`):
+ * - Outcomes: the same recorded outcomes and the same per-person record as the organiser's track
+ *   records (./track-records.ts `loadOutcomes`, `recordsByMember`, lib/blend `trackRecord`):
  *   count, interval hit rate of P10–P90 answers against 80%, mean log ratio, bias factor and its
  *   credibility. The figures equal that person's row of `/api/v1/track-records`.
  * - Calibration questions (issue 18): each counted calibration question (true value given) on a
@@ -22,16 +22,16 @@
  */
 import { db } from "@/lib/db";
 import type { Actor } from "@/lib/accounts/actor";
-import { intervalHitRate, trackRecord, type IntervalHitRate, type ResolvedAnswer } from "@/lib/blend";
+import { intervalHitRate, trackRecord, type IntervalHitRate, type AnswerOutcome } from "@/lib/blend";
 import { usableRecord } from "@/lib/blend/track-record";
 import { biasAdvice, NOMINAL_CALIBRATION_COVERAGE, rangeAdvice, type BiasAdvice, type RangeAdvice } from "@/lib/blend/own-record";
 import { authorisePanelist } from "../panels/access";
-import { loadResolutions, recordsByMember } from "./track-records";
+import { loadOutcomes, recordsByMember } from "./track-records";
 import { jsonSafe, type JsonSafe } from "../panels/json";
 
 /** One recorded outcome of the panelist's answers (no question, answer or outcome: see the module comment). */
 export interface OwnOutcome {
-  readonly resolvedAt: string;
+  readonly recordedAt: string;
   /** (answer − actual)/actual × 100. */
   readonly errorPercent: number;
 }
@@ -57,18 +57,18 @@ export async function getOwnRecord(actor: Actor): Promise<JsonSafe<OwnRecord>> {
     select: { rosterMember: { select: { id: true, ownerId: true } } },
   });
   const memberId = invitation.rosterMember.id;
-  const resolutions = await loadResolutions(invitation.rosterMember.ownerId);
+  const recorded = await loadOutcomes(invitation.rosterMember.ownerId);
 
   // The record exactly as the organiser's track record computes it.
-  const mine = recordsByMember(resolutions).get(memberId) ?? { records: [], skipped: 0 };
+  const mine = recordsByMember(recorded).get(memberId) ?? { records: [], skipped: 0 };
   const record = trackRecord(mine.records);
 
-  // Each outcome on its own, in order, for the chart and the table (same selection, one resolution at a time).
+  // Each outcome on its own, in order, for the chart and the table (same selection, one outcome at a time).
   const outcomes: OwnOutcome[] = [];
-  for (const r of resolutions) {
+  for (const r of recorded) {
     for (const a of recordsByMember([r]).get(memberId)?.records ?? []) {
       if (!usableRecord(a)) continue;
-      outcomes.push({ resolvedAt: r.resolvedAt.toISOString(), errorPercent: ((a.answer - a.actual) / a.actual) * 100 });
+      outcomes.push({ recordedAt: r.recordedAt.toISOString(), errorPercent: ((a.answer - a.actual) / a.actual) * 100 });
     }
   }
 
@@ -97,7 +97,7 @@ export async function getOwnRecord(actor: Actor): Promise<JsonSafe<OwnRecord>> {
  * a draft count (as the practice result, lib/triangulation/practice.ts): while answers can still change, a
  * hit count that moves would hint at a true value.
  */
-async function calibrationAnswers(memberId: string): Promise<ResolvedAnswer[]> {
+async function calibrationAnswers(memberId: string): Promise<AnswerOutcome[]> {
   const rows = await db.answer.findMany({
     where: {
       invitation: { rosterMemberId: memberId },
@@ -109,7 +109,7 @@ async function calibrationAnswers(memberId: string): Promise<ResolvedAnswer[]> {
     orderBy: [{ round: { number: "asc" } }, { version: "asc" }],
     select: { questionId: true, value: true, low: true, high: true, question: { select: { trueValue: true } } },
   });
-  const latest = new Map<string, ResolvedAnswer>();
+  const latest = new Map<string, AnswerOutcome>();
   for (const a of rows) latest.set(a.questionId, { actual: a.question.trueValue!, answer: a.value, low: a.low!, high: a.high! });
   return [...latest.values()];
 }

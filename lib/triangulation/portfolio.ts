@@ -84,8 +84,8 @@ function rowOf(panel: { id: string; title: string; status: string; role: PanelRo
     upper80: iv?.upper ?? null,
     convergence: convergenceState(r),
     latestRound: r.legs.panel?.round ?? null,
-    outcome: r.resolution?.actual ?? null,
-    outcomeRecordedAt: r.resolution?.resolvedAt ?? null,
+    outcome: r.outcome?.outcomeValue ?? null,
+    outcomeRecordedAt: r.outcome?.recordedAt ?? null,
     movement: r.movement,
   };
 }

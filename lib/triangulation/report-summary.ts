@@ -12,7 +12,7 @@
 import { formatNumber } from "@/lib/ui/format";
 import type { QuestionReport } from "./report";
 
-type SummaryInput = Pick<QuestionReport, "question" | "blend" | "legs" | "resolution" | "convergence">;
+type SummaryInput = Pick<QuestionReport, "question" | "blend" | "legs" | "outcome" | "convergence">;
 
 const finite = (x: number | null | undefined): x is number => typeof x === "number" && Number.isFinite(x);
 
@@ -31,7 +31,7 @@ export function reportSummary(r: SummaryInput): string {
     sentence = `There is no blended figure yet (${r.legs.baseline ? "the baseline gives no usable range" : "no baseline is attached"}); the panel's figure for ${period} is ${amount(panel.figure)}${range(panel.intervals)}`;
   else sentence = `There is no figure for ${period} yet: no closed round has answers`;
 
-  if (r.resolution) sentence += `; the recorded outcome is ${amount(r.resolution.actual)}`;
+  if (r.outcome) sentence += `; the recorded outcome is ${amount(r.outcome.outcomeValue)}`;
 
   const base = r.legs.baseline?.target.mean;
   const last = r.convergence.rounds.at(-1);

@@ -3,8 +3,8 @@
  * - The panel's blend weight rule (the default of every question that has none of its own),
  *   for the form on the organiser's panel page.
  * - What a viewer may see of the bias correction (THREATS.md, "Pseudonyms matched to named
- *   track records"). A bias factor, its unshrunk value, its credibility, the number of resolved
- *   questions behind it and the corrected answer all come from one person's history across
+ *   track records"). A bias factor, its unshrunk value, its credibility, the number of recorded
+ *   outcomes behind it and the corrected answer all come from one person's history across
  *   panels, and the same history gives the named track records (`/api/v1/track-records`); shown
  *   next to a pseudonym they name it. So while a panel's names are hidden, answers are shown
  *   without them, and the correction only as the panel's aggregate: how many panelists had a
@@ -60,15 +60,15 @@ export async function namesRevealed(actor: Actor, panelId: string, canManage: bo
 
 /** The bias correction of a panel as one aggregate (shown whether or not names are). */
 export interface CorrectionSummary {
-  /** Panelists whose factor rests on at least one resolved question. */
+  /** Panelists whose factor rests on at least one recorded outcome. */
   readonly panelistsWithRecord: number;
   /** Mean of the factors applied to the final answers (1 for a panelist without a record); null without answers. */
   readonly meanFactor: number | null;
 }
 
-export function correctionSummary(answers: readonly Pick<CorrectedAnswer, "factor" | "resolvedQuestions">[]): CorrectionSummary {
+export function correctionSummary(answers: readonly Pick<CorrectedAnswer, "factor" | "nOutcomes">[]): CorrectionSummary {
   return {
-    panelistsWithRecord: answers.filter((a) => a.resolvedQuestions > 0).length,
+    panelistsWithRecord: answers.filter((a) => a.nOutcomes > 0).length,
     meanFactor: answers.length === 0 ? null : answers.reduce((s, a) => s + a.factor, 0) / answers.length,
   };
 }

@@ -3,7 +3,7 @@
  * page and the JSON/CSV exports: the blended figure and range first; the three legs side by
  * side (panel raw and corrected with ranges, baseline with method and interval, track-record
  * summary); convergence across rounds; departures; the bias correction applied per panelist;
- * the resolution when there is one; method notes, inputs and cautions.
+ * the outcome when one is recorded; method notes, inputs and cautions.
  *
  * Panelists appear under their pseudonyms. Names, and every per-person figure drawn from a
  * panelist's history across panels (track record, bias factor, corrected answer), are added only
@@ -23,7 +23,7 @@ import type { BaselineResult } from "@/lib/forecast/baseline";
 import { authorisePanel, type PanelRole } from "../panels/access";
 import type { BaselinePreview } from "./baselines";
 import type { ConvergencePoint } from "../panels/rounds";
-import { resolutionView, type ResolutionView } from "./resolution";
+import { outcomeView, type OutcomeView } from "./outcome";
 import { runJob } from "@/lib/work/pool";
 import { loadTriangulation, type CorrectedAnswer, type DepartureReport, type LoadedTriangulation, type TriangulationInput } from "./triangulation";
 import { panelReads, type PanelReads } from "../panels/panel-reads";
@@ -73,7 +73,7 @@ export interface QuestionReport {
     readonly ruleApplied: string;
     readonly ruleFrom: "question" | "panel";
     readonly reason: string;
-    readonly resolvedQuestionsBehindWeight: number | null;
+    readonly outcomesBehindWeight: number | null;
     readonly msePanel: number | null;
     readonly mseBaseline: number | null;
     /** How the blend's range was made (lib/triangulation/triangulation.ts). */
@@ -131,7 +131,7 @@ export interface QuestionReport {
   readonly departures: JsonSafe<DepartureReport> | null;
   /** Per person: only when names are shown (`viewer.namesShown`); otherwise empty. */
   readonly biasCorrection: readonly (ReportPanelist & JsonSafe<Omit<CorrectedAnswer, "invitationId" | "pseudonym">>)[];
-  readonly resolution: ResolutionView | null;
+  readonly outcome: OutcomeView | null;
   /**
    * How the blended figure moved since the previous closed round: the blend computed from the
    * same stored inputs (baseline, weight rule, track records) with the panel's answers up to the
@@ -173,7 +173,7 @@ function blendMovement(earlier: ReturnType<typeof earlierInput>, now: number | n
 
 /**
  * The report of one question (organisers and reviewers of the panel). Computed on read from the
- * stored answers, baseline, resolutions and rules (see lib/triangulation/triangulation.ts). A page that
+ * stored answers, baseline, outcomes and rules (see lib/triangulation/triangulation.ts). A page that
  * shows several questions passes one `reads` (lib/panels/panel-reads.ts) to them all.
  */
 export async function getQuestionReport(actor: Actor, panelId: string, questionId: string, reads: PanelReads = panelReads()): Promise<QuestionReport> {
@@ -200,11 +200,11 @@ export async function getQuestionReportWithRule(
   const names = new Map((await reads.invitations(panelId)).map((i) => [i.id, i.name]));
   const nameOf = (invitationId: string) => (namesShown ? (names.get(invitationId) ?? null) : null);
   const stored = await db.baseline.findUnique({ where: { questionId } });
-  const resolution = await db.resolution.findUnique({ where: { questionId } });
+  const outcomeRow = await db.resolution.findUnique({ where: { questionId } });
   const convergence = await reads.convergence(actor, panelId);
   const cq = convergence.questions.find((q) => q.questionId === questionId);
   const verdict = convergence.evaluation?.questions.find((v) => v.questionId === questionId) ?? null;
-  const records = await reads.trackRecords(loaded.ownerId, { excludeQuestionId: questionId, ...(loaded.resolvedAt ? { before: loaded.resolvedAt } : {}) });
+  const records = await reads.trackRecords(loaded.ownerId, { excludeQuestionId: questionId, ...(loaded.recordedAt ? { before: loaded.recordedAt } : {}) });
 
   const panelists = t.panel?.answers ?? [];
   const trackPanelists = panelists.map((a) => {
@@ -268,9 +268,9 @@ export async function getQuestionReportWithRule(
   if (t.panel) inputs.push(`Panel: ${t.panel.n} final answers of round ${t.panel.round} (the last closed round with answers).`);
   const correction = correctionSummary(panelists);
   const withRecord = correction.panelistsWithRecord;
-  const resolvedBehind = Math.max(0, ...trackPanelists.map((p) => p.count ?? 0));
+  const outcomesBehind = Math.max(0, ...trackPanelists.map((p) => p.count ?? 0));
   inputs.push(
-    `Track records: the organiser's resolved questions${loaded.resolvedAt ? " resolved before this one" : ""}, this question excluded; ${withRecord} of ${trackPanelists.length} panelists have one (up to ${resolvedBehind} resolved answers each).`,
+    `Track records: the organiser's questions with a recorded outcome${loaded.recordedAt ? ", recorded before this one's" : ""}, this question excluded; ${withRecord} of ${trackPanelists.length} panelists have one (up to ${outcomesBehind} answers with an outcome each).`,
   );
   inputs.push(`Weight rule: ${loaded.rule.rule}${loaded.rule.rule === "organiser" ? ` (${loaded.rule.panelWeight} on the panel)` : ""}, set on the ${loaded.rule.from}.`);
 
@@ -278,7 +278,7 @@ export async function getQuestionReportWithRule(
   const cautions = [...warnings, ...t.cautions];
   if (t.weights && t.weights.applied !== t.weights.requested) cautions.push(t.weights.reason);
   if (t.panel && t.panel.n < 5) cautions.push(`Only ${t.panel.n} panelists answered: the panel's median and range rest on very few people.`);
-  if (resolution) cautions.push("This question is resolved: the figures above are recomputed from the stored inputs; the scores use the figures as they stood at resolution.");
+  if (outcomeRow) cautions.push("This question's outcome is recorded: the figures above are recomputed from the stored inputs; the scores use the figures as they stood when the outcome was recorded.");
 
   const c = await loadCalibration(panelId, reads);
   let calibration: QuestionReport["performanceWeights"] = null;
@@ -306,7 +306,7 @@ export async function getQuestionReportWithRule(
             ruleApplied: w.applied,
             ruleFrom: loaded.rule.from,
             reason: w.reason,
-            resolvedQuestionsBehindWeight: w.nResolved,
+            outcomesBehindWeight: w.nOutcomes,
             msePanel: jsonSafe(w.msePanel),
             mseBaseline: jsonSafe(w.mseBaseline),
             rangeHow: t.blendRangeHow ?? "",
@@ -334,7 +334,7 @@ export async function getQuestionReportWithRule(
     },
     departures: t.departures ? jsonSafe(t.departures) : null,
     biasCorrection: namesShown ? panelists.map(({ invitationId, pseudonym, ...rest }) => ({ pseudonym, name: nameOf(invitationId), ...jsonSafe(rest) })) : [],
-    resolution: resolution ? resolutionView(resolution) : null,
+    outcome: outcomeRow ? outcomeView(outcomeRow) : null,
     movement: blendMovement(earlier, t.blend?.figure ?? null, before),
     performanceWeights: calibration,
     distributions: {
@@ -415,7 +415,7 @@ export function reportRows(r: QuestionReport): Cell[][] {
   add("track record", "panel", "mean bias factor applied", r.legs.trackRecord.meanFactor);
   for (const p of r.legs.trackRecord.panelists) {
     const who = p.name ? `${p.pseudonym} (${p.name})` : p.pseudonym;
-    add("track record", who, "resolved questions", p.count);
+    add("track record", who, "questions with an outcome", p.count);
     add("track record", who, "mean log ratio", p.meanLogRatio);
     add("track record", who, "MAPE %", p.mape);
     add("track record", who, "bias factor", p.biasFactor, "", 4);
@@ -456,9 +456,9 @@ export function reportRows(r: QuestionReport): Cell[][] {
       add("departure", item, "outside 95%", d.outside95);
     }
   }
-  if (r.resolution) {
-    exact("outcome", "outcome", "value", r.resolution.actual, unit);
-    for (const s of [r.resolution.scores.rawPanel, r.resolution.scores.correctedPanel, r.resolution.scores.baseline, r.resolution.scores.blend, ...r.resolution.scores.panelists]) {
+  if (r.outcome) {
+    exact("outcome", "outcome", "value", r.outcome.outcomeValue, unit);
+    for (const s of [r.outcome.scores.rawPanel, r.outcome.scores.correctedPanel, r.outcome.scores.baseline, r.outcome.scores.blend, ...r.outcome.scores.panelists]) {
       if (!s) continue;
       add("outcome", s.label, "forecast", s.forecast, unit);
       add("outcome", s.label, "error", s.error, unit);

@@ -1,28 +1,28 @@
 /**
- * Track records and the accuracy history, derived on read from the stored resolutions
- * (lib/triangulation/resolution.ts): each Resolution row keeps the actual value and the figures as
- * they stood when the question was resolved, including every panelist's final answer with
- * their roster member. Nothing is counted up in place, so correcting an actual value or
+ * Track records and the accuracy history, derived on read from the recorded outcomes
+ * (lib/triangulation/outcome.ts): each row of the Resolution table keeps the outcome value and the
+ * figures as they stood when the outcome was recorded, including every panelist's final answer with
+ * their roster member. Nothing is counted up in place, so correcting an outcome value or
  * deleting a panel changes every derived figure consistently.
  *
  * - Track record per roster member (lib/blend `trackRecord`): count, mean error, mean log
- *   ratio actual/answer, MAPE, interval hit rate of three-point answers, Theil's decomposition
+ *   ratio outcome/answer, MAPE, interval hit rate of three-point answers, Theil's decomposition
  *   once there are enough questions, and the bias factor shrunk toward 1.
- *   A shared-quantity answer is scored against the question's actual value; a sum-of-parts
- *   answer against its own part's actual when the organiser recorded one (else it is left out).
- *   Answers or actuals ≤ 0 are left out (a log ratio needs both positive) and counted in `skipped`,
+ *   A shared-quantity answer is scored against the question's outcome value; a sum-of-parts
+ *   answer against its own part's outcome when the organiser recorded one (else it is left out).
+ *   Answers or outcomes ≤ 0 are left out (a log ratio needs both positive) and counted in `skipped`,
  *   and so are answers outside the input range (lib/blend/track-record.ts `usableRecord`, stored before that rule).
  * - Accuracy history per organiser (lib/blend `accuracyHistory`): raw panel, corrected panel,
- *   baseline and blend over the resolved questions that had a baseline, in resolution order,
- *   with the tracking signal on relative errors (actual − figure)/|actual| (docs/methods.md §8). The inverse-MSE blend weights (Bates & Granger 1969) use the
+ *   baseline and blend over the questions with an outcome that had a baseline, in the order the outcomes were recorded,
+ *   with the tracking signal on relative errors (outcome − figure)/|outcome| (docs/methods.md §8). The inverse-MSE blend weights (Bates & Granger 1969) use the
  *   same history: the corrected panel figure (the one that is blended) against the baseline,
- *   with each error taken relative to the actual value ((actual − figure)/actual), so that a
+ *   with each error taken relative to the outcome value ((outcome − figure)/outcome), so that a
  *   question counted in thousands of units does not outweigh one counted in hundreds
- *   (questions with an actual of 0 are left out of the weights).
+ *   (questions with an outcome of 0 are left out of the weights).
  *
- * A question's own figures never use its own resolution: bias factors and weights for a
- * question come from resolutions of the organiser's other questions, and for a resolved
- * question only from those resolved before it.
+ * A question's own figures never use its own outcome: bias factors and weights for a
+ * question come from the outcomes of the organiser's other questions, and for a question
+ * with an outcome only from those recorded before it.
  */
 import { db } from "@/lib/db";
 import type { Actor } from "@/lib/accounts/actor";
@@ -32,15 +32,15 @@ import {
   trackRecord,
   type AccuracyHistory,
   type HistoryEntry,
-  type ResolvedAnswer,
-  type ResolvedPair,
+  type AnswerOutcome,
+  type OutcomePair,
   type TrackRecord,
 } from "@/lib/blend";
 import { usableHistoryEntry } from "@/lib/blend/scoring";
 import { jsonSafe, type JsonSafe } from "../panels/json";
 
-/** One panelist's final answer as it stood at resolution. */
-export interface ResolvedPanelistFigure {
+/** One panelist's final answer as it stood when the outcome was recorded. */
+export interface PanelistFigureAtOutcome {
   readonly invitationId: string;
   readonly rosterMemberId: string;
   readonly pseudonym: string;
@@ -51,8 +51,8 @@ export interface ResolvedPanelistFigure {
   readonly factor: number;
 }
 
-/** The figures of a question at resolution (stored as JSON in Resolution.figures). */
-export interface ResolutionFigures {
+/** The figures of a question when its outcome was recorded (stored as JSON in the Resolution table's figures column). */
+export interface OutcomeFigures {
   readonly round: number;
   readonly aggregation: "shared" | "sum-of-parts";
   readonly answerFormat: "single" | "three-point";
@@ -60,46 +60,46 @@ export interface ResolutionFigures {
   readonly correctedPanel: number;
   readonly baseline: number | null;
   readonly blend: number | null;
-  /** The blend's combined sd before its range scale (lib/blend `blend`), for the blend range's track record (absent in resolutions stored before it was kept). */
+  /** The blend's combined sd before its range scale (lib/blend `blend`), for the blend range's track record (absent in outcomes stored before it was kept). */
   readonly blendSd?: number | null;
   readonly panelWeight: number | null;
   readonly weightRule: string | null;
-  readonly panelists: readonly ResolvedPanelistFigure[];
+  readonly panelists: readonly PanelistFigureAtOutcome[];
   /** The baseline's history as used (scaled), for the MASE scale of the scores. */
   readonly baselineTraining: readonly number[];
   readonly baselineSeason: number;
 }
 
-/** A stored resolution, parsed. */
-export interface ResolvedQuestion {
+/** A stored outcome (a row of the `Resolution` table), parsed. */
+export interface RecordedOutcome {
   readonly questionId: string;
   readonly panelId: string;
   readonly panelTitle: string;
   readonly text: string;
   readonly unit: string;
-  readonly resolvedAt: Date;
-  readonly actual: number;
-  readonly partActuals: readonly { readonly invitationId: string; readonly actual: number }[];
-  readonly figures: ResolutionFigures;
+  readonly recordedAt: Date;
+  readonly outcomeValue: number;
+  readonly partOutcomes: readonly { readonly invitationId: string; readonly actual: number }[];
+  readonly figures: OutcomeFigures;
 }
 
-/** Which resolutions count for a question's figures (see the module comment). */
+/** Which outcomes count for a question's figures (see the module comment). */
 export interface HistoryFilter {
   /** Leave this question out. */
   readonly excludeQuestionId?: string;
-  /** Only resolutions strictly before this time. */
+  /** Only outcomes recorded strictly before this time. */
   readonly before?: Date;
 }
 
-/** The resolutions that count under `filter`, in their order (the in-memory form of {@link loadResolutions}' filter). */
-export function filterResolutions(resolutions: readonly ResolvedQuestion[], filter: HistoryFilter): ResolvedQuestion[] {
-  return resolutions.filter(
-    (r) => (filter.excludeQuestionId === undefined || r.questionId !== filter.excludeQuestionId) && (!filter.before || r.resolvedAt.getTime() < filter.before.getTime()),
+/** The outcomes that count under `filter`, in their order (the in-memory form of {@link loadOutcomes}' filter). */
+export function filterOutcomes(outcomes: readonly RecordedOutcome[], filter: HistoryFilter): RecordedOutcome[] {
+  return outcomes.filter(
+    (r) => (filter.excludeQuestionId === undefined || r.questionId !== filter.excludeQuestionId) && (!filter.before || r.recordedAt.getTime() < filter.before.getTime()),
   );
 }
 
-/** The organiser's resolutions, oldest first. */
-export async function loadResolutions(ownerId: string, filter: HistoryFilter = {}): Promise<ResolvedQuestion[]> {
+/** The organiser's recorded outcomes, oldest first. */
+export async function loadOutcomes(ownerId: string, filter: HistoryFilter = {}): Promise<RecordedOutcome[]> {
   const rows = await db.resolution.findMany({
     where: {
       ownerId,
@@ -115,24 +115,24 @@ export async function loadResolutions(ownerId: string, filter: HistoryFilter = {
     panelTitle: r.question.panel.title,
     text: r.question.text,
     unit: r.question.unit,
-    resolvedAt: r.resolvedAt,
-    actual: r.actual,
-    partActuals: JSON.parse(r.partActuals) as ResolvedQuestion["partActuals"],
-    figures: JSON.parse(r.figures) as ResolutionFigures,
+    recordedAt: r.resolvedAt,
+    outcomeValue: r.actual,
+    partOutcomes: JSON.parse(r.partActuals) as RecordedOutcome["partOutcomes"],
+    figures: JSON.parse(r.figures) as OutcomeFigures,
   }));
 }
 
-/** Each roster member's resolved answers (see the module comment for what is left out). */
-export function recordsByMember(resolutions: readonly ResolvedQuestion[]): Map<string, { records: ResolvedAnswer[]; skipped: number }> {
-  const out = new Map<string, { records: ResolvedAnswer[]; skipped: number }>();
-  for (const r of resolutions) {
-    // Each part's actual by invitation (the first, as a search of the list would find it).
+/** Each roster member's answers with an outcome (see the module comment for what is left out). */
+export function recordsByMember(outcomes: readonly RecordedOutcome[]): Map<string, { records: AnswerOutcome[]; skipped: number }> {
+  const out = new Map<string, { records: AnswerOutcome[]; skipped: number }>();
+  for (const r of outcomes) {
+    // Each part's outcome by invitation (the first, as a search of the list would find it).
     const parts = new Map<string, number>();
-    for (const x of r.partActuals) if (!parts.has(x.invitationId)) parts.set(x.invitationId, x.actual);
+    for (const x of r.partOutcomes) if (!parts.has(x.invitationId)) parts.set(x.invitationId, x.actual);
     for (const p of r.figures.panelists) {
       const entry = out.get(p.rosterMemberId) ?? { records: [], skipped: 0 };
       out.set(p.rosterMemberId, entry);
-      const actual = r.figures.aggregation === "shared" ? r.actual : parts.get(p.invitationId);
+      const actual = r.figures.aggregation === "shared" ? r.outcomeValue : parts.get(p.invitationId);
       if (actual === undefined) continue;
       if (!(actual > 0) || !(p.value > 0)) {
         entry.skipped++;
@@ -145,10 +145,10 @@ export function recordsByMember(resolutions: readonly ResolvedQuestion[]): Map<s
   return out;
 }
 
-/** Track records (lib/blend `trackRecord`) per roster member from the given resolutions. */
-export function trackRecordsOf(resolutions: readonly ResolvedQuestion[]): Map<string, { record: TrackRecord; skipped: number }> {
+/** Track records (lib/blend `trackRecord`) per roster member from the given outcomes. */
+export function trackRecordsOf(outcomes: readonly RecordedOutcome[]): Map<string, { record: TrackRecord; skipped: number }> {
   const out = new Map<string, { record: TrackRecord; skipped: number }>();
-  for (const [id, { records, skipped }] of recordsByMember(resolutions)) {
+  for (const [id, { records, skipped }] of recordsByMember(outcomes)) {
     const record = trackRecord(records);
     out.set(id, { record, skipped: skipped + record.skipped });
   }
@@ -157,33 +157,33 @@ export function trackRecordsOf(resolutions: readonly ResolvedQuestion[]): Map<st
 
 /** Track records (lib/blend `trackRecord`) of the organiser's roster members. */
 export async function trackRecordsFor(ownerId: string, filter: HistoryFilter = {}): Promise<Map<string, { record: TrackRecord; skipped: number }>> {
-  return trackRecordsOf(await loadResolutions(ownerId, filter));
+  return trackRecordsOf(await loadOutcomes(ownerId, filter));
 }
 
-/** The resolved questions with a baseline, as blend-weight history and accuracy-history entries. */
-export function historyOf(resolutions: readonly ResolvedQuestion[]): {
-  readonly pairs: ResolvedPair[];
+/** The questions with an outcome and a baseline, as blend-weight history and accuracy-history entries. */
+export function historyOf(outcomes: readonly RecordedOutcome[]): {
+  readonly pairs: OutcomePair[];
   readonly entries: HistoryEntry[];
-  readonly used: ResolvedQuestion[];
+  readonly used: RecordedOutcome[];
   readonly withoutBaseline: number;
-  /** Resolved questions with a baseline left out because a value is out of range (lib/blend/scoring.ts `usableHistoryEntry`). */
+  /** Questions with an outcome and a baseline left out because a value is out of range (lib/blend/scoring.ts `usableHistoryEntry`). */
   readonly unusable: number;
 } {
-  const entry = (r: ResolvedQuestion): HistoryEntry => ({
-    actual: r.actual,
+  const entry = (r: RecordedOutcome): HistoryEntry => ({
+    actual: r.outcomeValue,
     rawPanel: r.figures.rawPanel,
     correctedPanel: r.figures.correctedPanel,
     baseline: r.figures.baseline!,
     blend: r.figures.blend!,
   });
-  const withBaseline = resolutions.filter((r) => r.figures.baseline !== null && r.figures.blend !== null);
+  const withBaseline = outcomes.filter((r) => r.figures.baseline !== null && r.figures.blend !== null);
   const used = withBaseline.filter((r) => usableHistoryEntry(entry(r)));
   return {
     used,
-    withoutBaseline: resolutions.length - withBaseline.length,
+    withoutBaseline: outcomes.length - withBaseline.length,
     unusable: withBaseline.length - used.length,
     // Relative errors (figure / actual against 1), so that questions of different sizes count alike.
-    pairs: used.filter((r) => r.actual !== 0).map((r) => ({ actual: 1, panel: r.figures.correctedPanel / r.actual, baseline: r.figures.baseline! / r.actual })),
+    pairs: used.filter((r) => r.outcomeValue !== 0).map((r) => ({ actual: 1, panel: r.figures.correctedPanel / r.outcomeValue, baseline: r.figures.baseline! / r.outcomeValue })),
     entries: used.map(entry),
   };
 }
@@ -192,14 +192,14 @@ export interface RosterTrackRecordView {
   readonly rosterMemberId: string;
   readonly name: string;
   readonly group: string;
-  /** Resolved answers left out (a value or actual ≤ 0, or outside the input range). */
+  /** Answers with an outcome left out (a value or actual ≤ 0, or outside the input range). */
   readonly skipped: number;
   readonly record: JsonSafe<TrackRecord>;
 }
 
 /**
  * The track record of every member of the organiser's roster, over all the organiser's
- * resolved questions (organisers only; their own roster). Members without resolved answers
+ * questions with an outcome (organisers only; their own roster). Members without answers with an outcome
  * have count 0 and bias factor 1.
  */
 export async function listTrackRecords(actor: Actor): Promise<RosterTrackRecordView[]> {
@@ -219,25 +219,25 @@ export async function listTrackRecords(actor: Actor): Promise<RosterTrackRecordV
 }
 
 export interface AccuracyHistoryView {
-  /** Resolved questions in the history (those with a baseline), oldest first. */
+  /** Questions with an outcome in the history (those with a baseline), oldest first. */
   readonly questions: readonly {
     readonly questionId: string;
     readonly panelId: string;
     readonly panelTitle: string;
     readonly text: string;
     readonly unit: string;
-    readonly resolvedAt: string;
-    readonly actual: number;
+    readonly recordedAt: string;
+    readonly outcomeValue: number;
     readonly rawPanel: number;
     readonly correctedPanel: number;
     readonly baseline: number;
     readonly blend: number;
   }[];
-  /** Resolved questions left out because they had no baseline. */
+  /** Questions with an outcome left out because they had no baseline. */
   readonly withoutBaseline: number;
-  /** Resolved questions left out because a value is outside the input range (stored before that rule). */
+  /** Questions with an outcome left out because a value is outside the input range (stored before that rule). */
   readonly unusable: number;
-  /** Accuracy of each figure with its tracking signal; null with no resolved question. */
+  /** Accuracy of each figure with its tracking signal; null with no recorded outcome. */
   readonly history: JsonSafe<AccuracyHistory> | null;
   readonly notes: readonly string[];
 }
@@ -245,7 +245,7 @@ export interface AccuracyHistoryView {
 /** The organiser's accuracy history: raw vs corrected vs baseline vs blend (organisers only). */
 export async function getAccuracyHistory(actor: Actor): Promise<AccuracyHistoryView> {
   const user = requireOrganiser(actor);
-  const h = historyOf(await loadResolutions(user.userId));
+  const h = historyOf(await loadOutcomes(user.userId));
   return {
     questions: h.used.map((r) => ({
       questionId: r.questionId,
@@ -253,8 +253,8 @@ export async function getAccuracyHistory(actor: Actor): Promise<AccuracyHistoryV
       panelTitle: r.panelTitle,
       text: r.text,
       unit: r.unit,
-      resolvedAt: r.resolvedAt.toISOString(),
-      actual: r.actual,
+      recordedAt: r.recordedAt.toISOString(),
+      outcomeValue: r.outcomeValue,
       rawPanel: r.figures.rawPanel,
       correctedPanel: r.figures.correctedPanel,
       baseline: r.figures.baseline!,
@@ -264,8 +264,8 @@ export async function getAccuracyHistory(actor: Actor): Promise<AccuracyHistoryV
     unusable: h.unusable,
     history: h.entries.length > 0 ? jsonSafe(accuracyHistory(h.entries)) : null,
     notes: [
-      "Errors are actual − figure (positive: the figure was too low). MAE, RMSE and ME mix the questions' units; MAPE and sMAPE compare across questions. MASE is not given across questions (their scales differ).",
-      "Tracking signal = cumulative relative error / running mean absolute relative error after each question, with relative error (actual − figure)/|actual|, so that a large question does not outweigh small ones (a question with an actual of 0 is left out of it); |TS| > 4 flags a biased figure (±4 is common practice, no authoritative source).",
+      "Errors are outcome − figure (positive: the figure was too low). MAE, RMSE and ME mix the questions' units; MAPE and sMAPE compare across questions. MASE is not given across questions (their scales differ).",
+      "Tracking signal = cumulative relative error / running mean absolute relative error after each question, with relative error (outcome − figure)/|outcome|, so that a large question does not outweigh small ones (a question with an outcome of 0 is left out of it); |TS| > 4 flags a biased figure (±4 is common practice, no authoritative source).",
     ],
   };
 }

@@ -7,7 +7,7 @@
  *
  * Computed on read, not cached: the inputs are the final answers of the closed rounds, the
  * stored baseline, the question's or panel's weight rule, and the track records derived from
- * the organiser's stored resolutions (lib/triangulation/track-records.ts). The computation takes a few
+ * the organiser's recorded outcomes (lib/triangulation/track-records.ts). The computation takes a few
  * milliseconds, and computing on read means no cached figure can outlive a changed input.
  *
  * Rules (each stated again in the result's notes):
@@ -18,14 +18,14 @@
  *   panelist's interval hit rate (lib/blend `intervalWidthFactor`), then the linear pool
  *   (shared) or the normal approximation of the total (sum of parts); single values or
  *   single-value parts → the figure's predictive distribution from the log errors of the
- *   organiser's resolved corrected panel figures, with a stated prior when they are few
+ *   corrected panel figures of the organiser's recorded outcomes, with a stated prior when they are few
  *   (lib/blend `panelFromTrackRecord`). A sum of parts therefore always has a range.
  * - Bias correction: each panelist's answer × their shrunk bias factor from their track record
  *   (lib/blend `shrunkBiasFactor`); the corrected figure is the median of the corrected answers
  *   or the sum of the corrected parts; the corrected distribution is built the same way from the
  *   corrected answers. Raw and corrected are always both reported.
  * - Blend: one normal predictive distribution (docs/methods.md §15d), weight by the question's
- *   rule, else the panel's (equal, inverse-MSE from the organiser's resolved history shrunk
+ *   rule, else the panel's (equal, inverse-MSE from the organiser's past outcomes shrunk
  *   toward equal, or organiser-set); the blend figure
  *   w·panel + (1 − w)·baseline is the median of its normal predictive distribution (Bates &
  *   Granger's combined error variance), so it lies inside the blend's ranges.
@@ -62,7 +62,7 @@ import {
   type DepartureAcrossRounds,
   type Distribution,
   type PanelErrorScale,
-  type ResolvedPair,
+  type OutcomePair,
   type WeightSpec,
 } from "../blend";
 import { targetPoolMedian } from "./calibration-figures";
@@ -90,13 +90,13 @@ export interface TriangulationInput {
   readonly rounds: readonly TriangulationRound[];
   /** Bias factor per invitation id (missing: no track record, factor 1). */
   readonly factors: Readonly<Record<string, BiasFactor>>;
-  /** Interval hits per invitation id: resolved three-point answers and how many held the outcome (missing: none). */
+  /** Interval hits per invitation id: three-point answers with an outcome and how many held the outcome (missing: none). */
   readonly intervalHits?: Readonly<Record<string, { readonly hits: number; readonly count: number }>>;
-  /** ln(actual / corrected panel figure) of the organiser's resolved questions (empty: the prior alone). */
+  /** ln(outcome / corrected panel figure) of the organiser's recorded outcomes (empty: the prior alone). */
   readonly panelLogErrors?: readonly number[];
-  /** Resolved questions with both legs (relative figures), for the legs' error correlation (empty: the prior). */
-  readonly blendHistory?: readonly ResolvedPair[];
-  /** (actual − blend)/blend sd of resolved questions, for the blend range's scale (empty: scale 1). */
+  /** Recorded outcomes with both legs (relative figures), for the legs' error correlation (empty: the prior). */
+  readonly blendHistory?: readonly OutcomePair[];
+  /** (outcome − blend)/blend sd of recorded outcomes, for the blend range's scale (empty: scale 1). */
   readonly blendStandardisedErrors?: readonly number[];
   /** The baseline's target-period forecast, or null without a baseline. */
   readonly baseline: BaselineForecast | null;
@@ -117,8 +117,8 @@ export interface TriangulationInput {
 /** A panelist's answer with its correction. */
 export interface CorrectedAnswer extends TriangulationAnswer {
   readonly factor: number;
-  /** Resolved questions behind the factor. */
-  readonly resolvedQuestions: number;
+  /** Recorded outcomes behind the factor. */
+  readonly nOutcomes: number;
   /** Credibility n/(n + n0) of the factor. */
   readonly credibility: number;
   /** The unshrunk factor exp(mean log ratio). */
@@ -248,7 +248,7 @@ export function computeTriangulation(input: TriangulationInput): Triangulation {
       return {
         ...a,
         factor: f.factor,
-        resolvedQuestions: f.n,
+        nOutcomes: f.n,
         credibility: f.credibility,
         rawFactor: f.raw,
         correctedValue: a.value * f.factor,
@@ -292,7 +292,7 @@ export function computeTriangulation(input: TriangulationInput): Triangulation {
       "three-point pool": `Panel range: the equal-weight linear pool (Stone 1961) of the three-point answers, each read as P10/P50/P90 of a two-piece normal, ${fromHits}.`,
       "performance-weighted pool": `Panel range: the linear pool of the three-point answers with Cooke's performance weights from ${input.performance && "calibrationQuestions" in input.performance ? input.performance.calibrationQuestions : 0} calibration questions (docs/methods.md §21), each answer read as P10/P50/P90 of a two-piece normal, ${fromHits}.`,
       "sum of parts": `Panel range: the total of the parts as a normal with the summed means and variances of the three-point parts (parts taken as independent), ${fromHits}.`,
-      "track record": `Panel range: from the track record, not from the spread of the answers. Log errors ln(actual / corrected panel figure) of ${e.n} resolved question${e.n === 1 ? "" : "s"} pooled with a prior scale of ${e.priorScale} worth ${e.priorStrength} questions give a scale of ${e.scale.toPrecision(3)}; the range is figure × exp(±t·scale) with t the Student t quantile on ${e.df} degrees of freedom (Gelman et al. 2013, §2.6).`,
+      "track record": `Panel range: from the track record, not from the spread of the answers. Log errors ln(outcome / corrected panel figure) of ${e.n} recorded outcome${e.n === 1 ? "" : "s"} pooled with a prior scale of ${e.priorScale} worth ${e.priorStrength} questions give a scale of ${e.scale.toPrecision(3)}; the range is figure × exp(±t·scale) with t the Student t quantile on ${e.df} degrees of freedom (Gelman et al. 2013, §2.6).`,
     }[rawD.rule];
     panel = {
       round: final.round,
@@ -323,14 +323,14 @@ export function computeTriangulation(input: TriangulationInput): Triangulation {
     }
     notes.push(rangeHow);
     if (rawD.rule === "track record" && e.n < e.priorStrength) {
-      cautions.push(`The panel's range rests mostly on a default prior (typical error ${Math.round(100 * e.priorScale)}%): only ${e.n} resolved question${e.n === 1 ? "" : "s"} show how far the panel figure has been from outcomes.`);
+      cautions.push(`The panel's range rests mostly on a default prior (typical error ${Math.round(100 * e.priorScale)}%): only ${e.n} recorded outcome${e.n === 1 ? "" : "s"} show how far the panel figure has been from outcomes.`);
     }
     if (rawD.rule === "sum of parts") cautions.push("The parts are treated as independent; if the territories' errors move together, the total's range is wider than shown.");
-    const corrected = answers.filter((a) => a.resolvedQuestions > 0).length;
+    const corrected = answers.filter((a) => a.nOutcomes > 0).length;
     notes.push(
       corrected === 0
-        ? "Bias correction: no panelist has a resolved question yet, so every factor is 1 and the corrected figure equals the raw one."
-        : `Bias correction: ${corrected} of ${answers.length} panelists have a track record; each answer × exp(Z·mean log ratio) with Z = n/(n + 5) (shrinkage toward 1 with few resolved questions; Bühlmann-style credibility, the constant 5 is a judgement call).`,
+        ? "Bias correction: no panelist has a recorded outcome yet, so every factor is 1 and the corrected figure equals the raw one."
+        : `Bias correction: ${corrected} of ${answers.length} panelists have a track record; each answer × exp(Z·mean log ratio) with Z = n/(n + 5) (shrinkage toward 1 with few recorded outcomes; Bühlmann-style credibility, the constant 5 is a judgement call).`,
     );
     if (input.aggregation === "sum-of-parts") notes.push("Corrected total: the sum of the corrected parts.");
   } else {
@@ -362,21 +362,21 @@ export function computeTriangulation(input: TriangulationInput): Triangulation {
       blendRangeHow =
         `Blend range: one normal centred on the blended figure, sd √(w²σp² + (1−w)²σb² + 2w(1−w)ρσpσb) = ${blended.distribution.sd.toPrecision(4)} ` +
         `(Bates & Granger 1969), from the panel's range (σp = ${blended.panelSd.toPrecision(4)}) and the baseline's (σb = ${blended.baselineSd.toPrecision(4)}) ` +
-        `with the legs' error correlation ρ = ${rho.rho.toPrecision(3)} (${rho.credibility > 0 ? `${rho.n} resolved questions, shrunk toward the prior 0.5` : "the stated prior 0.5"})` +
+        `with the legs' error correlation ρ = ${rho.rho.toPrecision(3)} (${rho.credibility > 0 ? `${rho.n} recorded outcomes, shrunk toward the prior 0.5` : "the stated prior 0.5"})` +
         (scale.n > 0 ? ` and × ${scale.scale.toPrecision(3)} from how often ${scale.n} past blends' ranges held` : "") +
         "; not the mixture of the two legs, which would be too wide (docs/methods.md §15d).";
       if (weights.applied === "inverse-mse") {
-        notes.push("Inverse-MSE weights use relative errors, (actual − figure)/actual, over the organiser's resolved questions with a baseline, so that questions of different sizes count alike; the MSEs quoted are of those relative errors.");
+        notes.push("Inverse-MSE weights use relative errors, (outcome − figure)/outcome, over the organiser's recorded outcomes with a baseline, so that questions of different sizes count alike; the MSEs quoted are of those relative errors.");
       }
       notes.push(
         `Blend: ${weights.panel.toPrecision(3)} × corrected panel figure + ${weights.baseline.toPrecision(3)} × baseline (Bates & Granger 1969); the figure is the median of the blend's distribution, a normal with sd √(w²σp² + (1−w)²σb² + 2w(1−w)ρσpσb) = ${blended.distribution.sd.toPrecision(4)}, ` +
           `σp = ${blended.panelSd.toPrecision(4)} and σb = ${blended.baselineSd.toPrecision(4)} implied by each leg's 80% range, ρ = ${rho.rho.toPrecision(3)} ` +
           (rho.credibility > 0
-            ? `(errors of ${rho.n} resolved questions, correlation ${rho.historyRho.toPrecision(3)}, shrunk toward 0.5 with credibility ${rho.credibility.toPrecision(3)}). `
-            : "(the stated prior: no resolved questions with both legs yet). ") +
+            ? `(errors of ${rho.n} recorded outcomes, correlation ${rho.historyRho.toPrecision(3)}, shrunk toward 0.5 with credibility ${rho.credibility.toPrecision(3)}). `
+            : "(the stated prior: no recorded outcomes with both legs yet). ") +
           (scale.n > 0
-            ? `The sd is × ${scale.scale.toPrecision(3)}: the 80th percentile of |standardised error| of ${scale.n} resolved blends over Φ⁻¹(0.9) is ${scale.historyScale.toPrecision(3)}, shrunk toward 1 with credibility ${scale.credibility.toPrecision(3)}. `
-            : "No resolved blend yet to check the range against, so it is used as computed. ") +
+            ? `The sd is × ${scale.scale.toPrecision(3)}: the 80th percentile of |standardised error| of ${scale.n} blends with a recorded outcome over Φ⁻¹(0.9) is ${scale.historyScale.toPrecision(3)}, shrunk toward 1 with credibility ${scale.credibility.toPrecision(3)}. `
+            : "No blend with a recorded outcome yet to check the range against, so it is used as computed. ") +
           weights.reason,
       );
       const answersOut: AnswerDeparture[] = [];

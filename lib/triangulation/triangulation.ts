@@ -6,7 +6,7 @@
 import { db } from "@/lib/db";
 import { InvalidInputError, NotFoundError } from "@/lib/errors";
 import type { Actor } from "@/lib/accounts/actor";
-import type { BaselineForecast, BiasFactor, ResolvedPair, WeightSpec } from "@/lib/blend";
+import type { BaselineForecast, BiasFactor, OutcomePair, WeightSpec } from "@/lib/blend";
 import type { PanelLegChoice, PanelWeightRule, PanelBlendRuleInput, QuestionBlendRuleInput } from "@/lib/validation/triangulation-inputs";
 import { authorisePanel } from "../panels/access";
 import { recordAudit } from "../panels/audit";
@@ -31,7 +31,7 @@ export function effectiveRule(
   return { rule: panel.blendRule as PanelWeightRule, panelWeight: panel.blendPanelWeight, from: "panel" };
 }
 
-function weightSpec(rule: PanelWeightRule, panelWeight: number | null, history: readonly ResolvedPair[]): WeightSpec {
+function weightSpec(rule: PanelWeightRule, panelWeight: number | null, history: readonly OutcomePair[]): WeightSpec {
   if (rule === "organiser" && panelWeight !== null) return { rule: "organiser", panelWeight };
   if (rule === "inverse-mse") return { rule: "inverse-mse", history };
   return { rule: "equal" };
@@ -59,7 +59,7 @@ export interface LoadedTriangulation {
   /** invitation id → roster member id. */
   readonly members: ReadonlyMap<string, string>;
   /** Roster members with a track-record note: answers skipped. */
-  readonly resolvedAt: Date | null;
+  readonly recordedAt: Date | null;
 }
 
 /**
@@ -82,8 +82,8 @@ export async function loadTriangulation(panelId: string, questionId: string, rea
     roundInputs.push({ round: r.number, answers: answers.map((a) => ({ invitationId: a.invitationId, pseudonym: a.pseudonym, value: a.value, low: a.low, high: a.high })) });
   }
   while (roundInputs.length > 0 && roundInputs.at(-1)!.answers.length === 0) roundInputs.pop();
-  const resolvedAt = q.resolution?.resolvedAt ?? null;
-  const filter: HistoryFilter = { excludeQuestionId: questionId, ...(resolvedAt ? { before: resolvedAt } : {}) };
+  const recordedAt = q.resolution?.resolvedAt ?? null;
+  const filter: HistoryFilter = { excludeQuestionId: questionId, ...(recordedAt ? { before: recordedAt } : {}) };
   const records = await reads.trackRecords(q.panel.ownerId, filter);
   const factors: Record<string, BiasFactor> = {};
   const intervalHits: Record<string, { hits: number; count: number }> = {};
@@ -95,13 +95,13 @@ export async function loadTriangulation(panelId: string, questionId: string, rea
     }
   }
   const rule = effectiveRule(q.panel, q);
-  const resolutions = await reads.resolutions(q.panel.ownerId, filter);
-  const pairs = historyOf(resolutions).pairs;
+  const outcomes = await reads.outcomes(q.panel.ownerId, filter);
+  const pairs = historyOf(outcomes).pairs;
   const history = rule.rule === "inverse-mse" ? pairs : [];
-  const blendStandardisedErrors = resolutions
+  const blendStandardisedErrors = outcomes
     .filter((r) => r.figures.blend !== null && (r.figures.blendSd ?? 0) > 0)
-    .map((r) => (r.actual - r.figures.blend!) / r.figures.blendSd!);
-  const panelLogErrors = resolutions.filter((r) => r.actual > 0 && r.figures.correctedPanel > 0).map((r) => Math.log(r.actual / r.figures.correctedPanel));
+    .map((r) => (r.outcomeValue - r.figures.blend!) / r.figures.blendSd!);
+  const panelLogErrors = outcomes.filter((r) => r.outcomeValue > 0 && r.figures.correctedPanel > 0).map((r) => Math.log(r.outcomeValue / r.figures.correctedPanel));
   const target = q.baseline ? storedTarget(q.baseline) : null;
   let baseline: BaselineForecast | null = null;
   if (target && target.mean !== null) {
@@ -153,7 +153,7 @@ export async function loadTriangulation(panelId: string, questionId: string, rea
     rule,
     baselineTarget: target,
     members,
-    resolvedAt,
+    recordedAt,
   };
 }
 

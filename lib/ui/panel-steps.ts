@@ -19,7 +19,7 @@ export interface PanelStepInput {
   /** Questions with a statistical baseline attached. */
   readonly baselines: number;
   /** Questions whose outcome is recorded. */
-  readonly resolved: number;
+  readonly outcomes: number;
 }
 
 export interface PanelStep {
@@ -47,7 +47,7 @@ export function panelSteps(i: PanelStepInput): PanelStep[] {
     invite: count(i.invitations) > 0,
     rounds: i.finished,
     blend: questions > 0 && count(i.baselines) >= questions,
-    outcome: questions > 0 && count(i.resolved) >= questions,
+    outcome: questions > 0 && count(i.outcomes) >= questions,
     report: false,
   };
   const order: StepId[] = ["questions", "invite", "rounds", "blend", "outcome", "report"];

@@ -87,7 +87,7 @@ export default function RangeChart({ rows, unit, actual }: { rows: readonly Rang
         <canvas ref={canvas} role="img" aria-label={`80% and 95% ranges of each figure in ${unit}; the black mark is the figure itself`} />
       </div>
       <figcaption className="muted small">
-        Each bar is a range (wide and pale: 95%, narrow and dark: 80%); the black mark is the figure{actual !== undefined && actual !== null ? "; the dashed green line is the actual value" : ""}.
+        Each bar is a range (wide and pale: 95%, narrow and dark: 80%); the black mark is the figure{actual !== undefined && actual !== null ? "; the dashed green line is the outcome" : ""}.
       </figcaption>
     </figure>
   );

@@ -1,11 +1,11 @@
 /**
  * Track records of the organiser's expert roster (lib/triangulation/track-records.ts
- * `listTrackRecords`): per member the resolved questions, mean error, mean log ratio
- * actual/answer, MAPE, interval hit rate of three-point answers, the bias factor with its
- * shrinkage, and Theil's proportions once there are enough resolved questions.
+ * `listTrackRecords`): per member the questions with an outcome, mean error, mean log ratio
+ * outcome/answer, MAPE, interval hit rate of three-point answers, the bias factor with its
+ * shrinkage, and Theil's proportions once there are enough outcomes.
  */
 import type { RosterTrackRecordView } from "@/lib/triangulation/track-records";
-import { BIAS_PRIOR_STRENGTH, MIN_RESOLVED_FOR_THEIL } from "@/lib/blend";
+import { BIAS_PRIOR_STRENGTH, MIN_OUTCOMES_FOR_THEIL } from "@/lib/blend";
 import Figure from "./figure";
 import { countOf, formatNumber, formatPercent } from "./format";
 
@@ -14,18 +14,18 @@ export default function TrackRecordRoster({ records }: { records: readonly Roste
   return (
     <>
       <p className="small muted">
-        Over your resolved questions. Mean error = mean of (actual − answer): positive means the person answers too low. Mean log ratio = mean of ln(actual /
-        answer). Bias factor = exp(Z · mean log ratio) with credibility Z = n / (n + {BIAS_PRIOR_STRENGTH}): with few resolved questions the factor is shrunk
+        Over your questions with a recorded outcome. Mean error = mean of (outcome − answer): positive means the person answers too low. Mean log ratio = mean of ln(outcome /
+        answer). Bias factor = exp(Z · mean log ratio) with credibility Z = n / (n + {BIAS_PRIOR_STRENGTH}): with few recorded outcomes the factor is shrunk
         toward 1, so one lucky or unlucky question does not swing a person&apos;s correction (Bühlmann-style credibility; the constant{" "}
         {BIAS_PRIOR_STRENGTH} is a judgement call — common practice, not a published value). The corrected answer is answer × factor. Interval hit rate: the
-        share of actuals inside the person&apos;s low–high range (nominally 80% for P10–P90).
+        share of outcomes inside the person&apos;s low–high range (nominally 80% for P10–P90).
       </p>
       <div className="table-scroll">
         <table className="small track-records">
           <thead>
             <tr>
               <th>Name</th>
-              <th className="num">Resolved n</th>
+              <th className="num">Outcomes n</th>
               <th className="num">Mean error</th>
               <th className="num">Mean log ratio</th>
               <th className="num">MAPE</th>
@@ -40,7 +40,7 @@ export default function TrackRecordRoster({ records }: { records: readonly Roste
               <tr key={r.rosterMemberId} data-track-record={r.name}>
                 <td>
                   {r.name} {r.group ? <span className="muted">· {r.group}</span> : null}
-                  {r.skipped > 0 ? <span className="hint">{countOf(r.skipped, "answer")} left out (value or actual ≤ 0, or too extreme to score)</span> : null}
+                  {r.skipped > 0 ? <span className="hint">{countOf(r.skipped, "answer")} left out (value or outcome ≤ 0, or too extreme to score)</span> : null}
                 </td>
                 <td className="num" data-stat="count">
                   {r.record.count}
@@ -78,7 +78,7 @@ export default function TrackRecordRoster({ records }: { records: readonly Roste
       <h3>Theil&apos;s decomposition of the squared error</h3>
       {withTheil.length === 0 ? (
         <p className="muted small">
-          Shown for a person once {MIN_RESOLVED_FOR_THEIL} of their answers are resolved (with fewer, the proportions are mostly noise; common practice).
+          Shown for a person once {MIN_OUTCOMES_FOR_THEIL} of their answers have an outcome (with fewer, the proportions are mostly noise; common practice).
         </p>
       ) : (
         <div className="table-scroll">
@@ -127,7 +127,7 @@ export default function TrackRecordRoster({ records }: { records: readonly Roste
           </table>
           <p className="hint">
             Theil (1966): U<sup>M</sup> + U<sup>R</sup> + U<sup>D</sup> = 1 and U<sup>M</sup> + U<sup>S</sup> + U<sup>C</sup> = 1. A large U<sup>M</sup> is a systematic bias (what the bias factor corrects); a large U<sup>R</sup> means
-            the person&apos;s answers move too much or too little with the actual values; U<sup>D</sup> is the unsystematic rest.
+            the person&apos;s answers move too much or too little with the outcomes; U<sup>D</sup> is the unsystematic rest.
           </p>
         </div>
       )}

@@ -1,7 +1,7 @@
 "use client";
 /**
  * Tracking signal of each figure (raw panel, corrected panel, baseline, blend) after each
- * resolved question, with the ±4 limits that common practice uses to flag a biased forecast
+ * recorded outcome, with the ±4 limits that common practice uses to flag a biased forecast
  * (no authoritative source; stated on the page). The signal is on relative errors
  * (docs/methods.md §8). Each figure has its own colour-blind-safe colour, marker shape and dash
  * (`signalDatasets`). The values come from lib/blend `accuracyHistory`; the chart only draws them.
@@ -32,7 +32,7 @@ export default function TrackingSignalChart({ labels, series, limit }: { labels:
   }, [labels, series, limit]);
   return (
     <div className="chart-box" data-chart="tracking-signal">
-      <canvas ref={canvas} role="img" aria-label={`Tracking signal of each figure after each resolved question, with limits at plus and minus ${limit}`} />
+      <canvas ref={canvas} role="img" aria-label={`Tracking signal of each figure after each recorded outcome, with limits at plus and minus ${limit}`} />
     </div>
   );
 }

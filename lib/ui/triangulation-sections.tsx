@@ -2,14 +2,14 @@
  * Sections of a question's triangulation, shared by the organiser's question page and the
  * reviewer's report: the blended figure and range, the three legs side by side, the baseline's
  * method, parameters and holdout accuracy with its chart, the weight rule with its inputs, the
- * departure report (table and chart), the bias correction applied, the resolution's scores, and
+ * departure report (table and chart), the bias correction applied, the outcome's scores, and
  * the method notes, inputs and cautions. They only display the report read model
  * (lib/triangulation/report.ts) and the stored baseline (lib/triangulation/baselines.ts); no figure is
  * computed here.
  */
 import type { BaselineView } from "@/lib/triangulation/baselines";
 import type { QuestionReport } from "@/lib/triangulation/report";
-import { BIAS_PRIOR_STRENGTH, MIN_RESOLVED_FOR_THEIL, MIN_RESOLVED_FOR_WEIGHTS } from "@/lib/blend";
+import { BIAS_PRIOR_STRENGTH, MIN_OUTCOMES_FOR_THEIL, MIN_OUTCOMES_FOR_WEIGHTS } from "@/lib/blend";
 import BaselineChart from "./baseline-chart";
 import DepartureChart from "./departure-chart";
 import Figure from "./figure";
@@ -35,7 +35,7 @@ function Range({ lower, upper, name }: { lower: number | null; upper: number | n
 
 const RULE_NAME: Record<string, string> = {
   equal: "equal weights",
-  "inverse-mse": "inverse-MSE weights from resolved history (Bates & Granger 1969)",
+  "inverse-mse": "inverse-MSE weights from past outcomes (Bates & Granger 1969)",
   organiser: "set by the organiser",
   optimal: "Bates–Granger optimal weights",
 };
@@ -220,7 +220,7 @@ export function LegsSideBySide({ report }: { report: QuestionReport }) {
         <div className="card leg" data-leg="track-record">
           <h3>Track record</h3>
           <p>
-            <strong data-stat="panelists-with-record">{t.panelistsWithRecord}</strong> of {p?.n ?? 0} panelists have resolved questions behind them.
+            <strong data-stat="panelists-with-record">{t.panelistsWithRecord}</strong> of {p?.n ?? 0} panelists have recorded outcomes behind them.
           </p>
           {t.meanFactor !== null ? (
             <p className="small">
@@ -231,7 +231,7 @@ export function LegsSideBySide({ report }: { report: QuestionReport }) {
           <p className="hint">Each answer is multiplied by its panelist&apos;s shrunk bias factor; details under &ldquo;Bias correction&rdquo;.</p>
         </div>
       </div>
-      {rows.length > 0 ? <RangeChart rows={rows} unit={unit} actual={report.resolution?.actual ?? null} /> : null}
+      {rows.length > 0 ? <RangeChart rows={rows} unit={unit} actual={report.outcome?.outcomeValue ?? null} /> : null}
     </section>
   );
 }
@@ -380,16 +380,16 @@ export function WeightInputs({ report }: { report: QuestionReport }) {
       <dd>
         <Figure value={b.panelWeight} name="weight-panel" digits={4} />
       </dd>
-      <dt>Resolved questions behind it</dt>
+      <dt>Recorded outcomes behind it</dt>
       <dd>
-        {b.resolvedQuestionsBehindWeight ?? 0} (inverse-MSE needs at least {MIN_RESOLVED_FOR_WEIGHTS}; with fewer, equal weights apply. Even then the
-        weight is shrunk toward 50/50 — the history has half the say only after 24 resolved questions — because weights estimated from short
+        {b.outcomesBehindWeight ?? 0} (inverse-MSE needs at least {MIN_OUTCOMES_FOR_WEIGHTS}; with fewer, equal weights apply. Even then the
+        weight is shrunk toward 50/50 — the history has half the say only after 24 outcomes — because weights estimated from short
         records lose to equal weights in practice: Smith &amp; Wallis 2009)
       </dd>
       <dt>MSE of the panel / baseline</dt>
       <dd>
         <Figure value={b.msePanel} digits={4} /> / <Figure value={b.mseBaseline} digits={4} />{" "}
-        <span className="muted">(relative errors over the organiser&apos;s resolved questions; w = (1/MSE panel) / (1/MSE panel + 1/MSE baseline))</span>
+        <span className="muted">(relative errors over the organiser&apos;s recorded outcomes; w = (1/MSE panel) / (1/MSE panel + 1/MSE baseline))</span>
       </dd>
       <dt>Why</dt>
       <dd>{b.reason}</dd>
@@ -503,8 +503,8 @@ export function BiasCorrectionTable({ report }: { report: QuestionReport }) {
     <section aria-labelledby="bias-h">
       <h2 id="bias-h">Bias correction applied</h2>
       <p className="small muted">
-        Corrected answer = answer × bias factor. Bias factor = exp(Z · mean log ratio actual/answer) with credibility Z = n / (n + {BIAS_PRIOR_STRENGTH}
-        ): with few resolved questions the factor is shrunk toward 1 (Bühlmann-style credibility; the constant {BIAS_PRIOR_STRENGTH} is a judgement call,
+        Corrected answer = answer × bias factor. Bias factor = exp(Z · mean log ratio outcome/answer) with credibility Z = n / (n + {BIAS_PRIOR_STRENGTH}
+        ): with few recorded outcomes the factor is shrunk toward 1 (Bühlmann-style credibility; the constant {BIAS_PRIOR_STRENGTH} is a judgement call,
         common practice rather than a published value). The raw and the corrected panel figures are both shown above.
       </p>
       <div className="table-scroll">
@@ -513,7 +513,7 @@ export function BiasCorrectionTable({ report }: { report: QuestionReport }) {
             <tr>
               <th>Panelist</th>
               <th className="num">Answer</th>
-              <th className="num">Resolved questions n</th>
+              <th className="num">Outcomes n</th>
               <th className="num">Unshrunk factor</th>
               <th className="num">Credibility Z</th>
               <th className="num">Factor applied</th>
@@ -533,7 +533,7 @@ export function BiasCorrectionTable({ report }: { report: QuestionReport }) {
                     </span>
                   ) : null}
                 </td>
-                <td className="num">{p.resolvedQuestions}</td>
+                <td className="num">{p.nOutcomes}</td>
                 <td className="num">
                   <Figure value={p.rawFactor} digits={4} />
                 </td>
@@ -567,7 +567,7 @@ export function TrackRecordTable({ report, open = false }: { report: QuestionRep
           <thead>
             <tr>
               <th>Panelist</th>
-              <th className="num">Resolved</th>
+              <th className="num">Outcomes</th>
               <th className="num">Mean error</th>
               <th className="num">Mean log ratio</th>
               <th className="num">MAPE</th>
@@ -596,23 +596,23 @@ export function TrackRecordTable({ report, open = false }: { report: QuestionRep
           </tbody>
         </table>
       </div>
-      <p className="hint">Theil&apos;s decomposition is shown on the expert roster page once a panelist has {MIN_RESOLVED_FOR_THEIL} resolved questions.</p>
+      <p className="hint">Theil&apos;s decomposition is shown on the expert roster page once a panelist has {MIN_OUTCOMES_FOR_THEIL} recorded outcomes.</p>
     </details>
   );
 }
 
-/** The actual value and the scores of every figure. */
-export function ResolutionScores({ report }: { report: QuestionReport }) {
-  const r = report.resolution;
+/** The recorded outcome and the scores of every figure. */
+export function OutcomeSection({ report }: { report: QuestionReport }) {
+  const r = report.outcome;
   const unit = report.question.unit;
   if (!r) return null;
   const s = r.scores;
   const all = [s.rawPanel, s.correctedPanel, s.baseline, s.blend, ...s.panelists].filter((x): x is NonNullable<typeof x> => x !== null);
   return (
-    <section aria-labelledby="resolution-h" className="resolution" data-resolved="yes">
-      <h2 id="resolution-h">Resolution and scores</h2>
+    <section aria-labelledby="outcome-h" className="outcome" data-outcome="yes">
+      <h2 id="outcome-h">Outcome and errors</h2>
       <p>
-        Actual value: <Figure value={r.actual} name="actual" /> {unit}
+        Outcome: <Figure value={r.outcomeValue} name="outcome-value" /> {unit}
         {r.note ? <span className="muted"> — {r.note}</span> : null}
         {r.correctedAt ? <span className="muted small"> (corrected on {formatDate(r.correctedAt)}; see the audit log)</span> : null}
       </p>
@@ -622,7 +622,7 @@ export function ResolutionScores({ report }: { report: QuestionReport }) {
             <tr>
               <th>Figure</th>
               <th className="num">Forecast</th>
-              <th className="num">Error (actual − forecast)</th>
+              <th className="num">Error (outcome − forecast)</th>
               <th className="num">Absolute % error</th>
               <th className="num">sMAPE term</th>
               <th className="num">Scaled error</th>
@@ -650,7 +650,7 @@ export function ResolutionScores({ report }: { report: QuestionReport }) {
       </div>
       <p className="hint">
         Scaled error = |error| / the in-sample MAE of the naive method on the baseline&apos;s history (the MASE scale, Hyndman &amp; Koehler 2006). The
-        figures are those that stood when the question was resolved.
+        figures are those that stood when the outcome was recorded.
       </p>
     </section>
   );

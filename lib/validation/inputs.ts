@@ -16,7 +16,7 @@ export const USER_ROLES = ["organiser", "reviewer"] as const;
 
 const text = (max: number) => z.string().trim().min(1, "must not be empty").max(max, `at most ${max} characters`);
 const id = z.string().min(1, "must not be empty").max(64, "must be an identifier of at most 64 characters").describe("identifier");
-/** A value a client gives (an answer, a bound, an actual, a history value): the rule in ./numbers.ts. */
+/** A value a client gives (an answer, a bound, an outcome, a history value): the rule in ./numbers.ts. */
 export const usableNumber = z.number().superRefine((v, ctx) => {
   const problem = numberProblem(v);
   if (problem) ctx.addIssue({ code: "custom", message: problem });

@@ -1,6 +1,6 @@
 /**
  * The one rule for every number a client gives as a value (answers and their three-point
- * values, question bounds, actual values and part actuals, baseline history and future values,
+ * values, question bounds, outcome values and part outcomes, baseline history and future values,
  * scale factors), on every path: the JSON API and server actions through the zod schemas of
  * this folder (`usableNumber` in ./inputs.ts), CSV cells through lib/csv. The range and why it
  * keeps every derived figure finite: lib/blend/magnitude.ts. Pure: no zod here, so lib/csv can

@@ -1,6 +1,6 @@
 /**
  * zod 4 schemas of what clients send for triangulation (issue 4): baselines on questions,
- * blend weight rules, resolutions. Used by the route table (lib/http/routes.ts) and by pages'
+ * blend weight rules, outcomes. Used by the route table (lib/http/routes.ts) and by pages'
  * server actions; the services in lib/panels and lib/triangulation take their parsed types.
  */
 import { z } from "zod";
@@ -145,7 +145,7 @@ export type PanelLegChoice = (typeof PANEL_LEGS)[number];
 /** The blend weight rule of a panel. `panelWeight` (0–1) is required for the organiser rule. */
 export const panelBlendRuleInput = z
   .object({
-    rule: z.enum(WEIGHT_RULES).describe("equal (50/50), inverse-mse (Bates & Granger, from resolved history) or organiser"),
+    rule: z.enum(WEIGHT_RULES).describe("equal (50/50), inverse-mse (Bates & Granger, from past outcomes) or organiser"),
     panelWeight: z.number().min(0, "at least 0").max(1, "at most 1").optional().describe("The panel's weight (organiser rule)"),
     panelLeg: z
       .enum(PANEL_LEGS, { error: 'must be "equal" or "performance"' })
@@ -172,24 +172,24 @@ export const questionBlendRuleInput = z
   });
 export type QuestionBlendRuleInput = z.infer<typeof questionBlendRuleInput>;
 
-const partActuals = z
-  .array(z.object({ pseudonym: text(60), actual: finite }))
+const partOutcomes = z
+  .array(z.object({ pseudonym: text(60), outcomeValue: finite }))
   .max(500)
   .default([])
-  .describe("Sum-of-parts questions: each part's actual, by the panelist's pseudonym (feeds their track record)");
+  .describe("Sum-of-parts questions: each part's outcome, by the panelist's pseudonym (feeds their track record)");
 
-/** Resolving a question: its actual value (once). */
-export const resolutionInput = z.object({
-  actual: finite.describe("The actual value, in the question's unit"),
-  note: z.string().trim().max(2000).default("").describe("Where the actual value comes from"),
-  parts: partActuals,
+/** Recording a question's outcome: its outcome value (once). */
+export const outcomeInput = z.object({
+  outcomeValue: finite.describe("The outcome value, in the question's unit"),
+  note: z.string().trim().max(2000).default("").describe("Where the outcome value comes from"),
+  parts: partOutcomes,
 });
-export type ResolutionInput = z.infer<typeof resolutionInput>;
+export type OutcomeInput = z.infer<typeof outcomeInput>;
 
-/** Correcting a recorded actual value (audited, with the reason). */
-export const resolutionCorrection = z.object({
-  actual: finite.describe("The corrected actual value"),
+/** Correcting a recorded outcome value (audited, with the reason). */
+export const outcomeCorrection = z.object({
+  outcomeValue: finite.describe("The corrected outcome value"),
   reason: text(500).describe("Why the recorded value was wrong; kept in the audit log"),
-  parts: partActuals.optional(),
+  parts: partOutcomes.optional(),
 });
-export type ResolutionCorrection = z.infer<typeof resolutionCorrection>;
+export type OutcomeCorrection = z.infer<typeof outcomeCorrection>;

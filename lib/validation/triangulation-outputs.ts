@@ -1,7 +1,7 @@
 /**
  * zod 4 schemas of what the triangulation routes return (issue 4), for the OpenAPI document.
  * They describe the services' return types in lib/triangulation (baselines, triangulation,
- * resolution, track-records, report). Numbers that are undefined for the data (e.g. a percent
+ * outcome, track-records, report). Numbers that are undefined for the data (e.g. a percent
  * of a zero baseline) are null.
  */
 import { z } from "zod";
@@ -148,7 +148,7 @@ const ownAnswerFields = {
 /** Figures from the panelist's history across panels: only for an organiser who revealed the names. */
 const historyFields = {
   factor: n0,
-  resolvedQuestions: z.number().int(),
+  nOutcomes: z.number().int(),
   credibility: n0,
   rawFactor: n0,
   correctedValue: n0,
@@ -163,7 +163,7 @@ const weights = z.object({
   applied: z.string(),
   panel: num,
   baseline: num,
-  nResolved: z.number().int(),
+  nOutcomes: z.number().int(),
   msePanel: n0,
   mseBaseline: n0,
   errorCorrelation: n0,
@@ -203,7 +203,7 @@ export const triangulation = z.object({
 const figureScore = z.object({
   label: z.string(),
   forecast: num,
-  actual: num,
+  outcomeValue: num,
   error: num,
   absoluteError: num,
   percentError: n0,
@@ -212,12 +212,12 @@ const figureScore = z.object({
   scaledError: n0.describe("|error| / the baseline history's in-sample naive MAE (null without a baseline)"),
 });
 
-export const resolution = z.object({
+export const outcome = z.object({
   questionId: z.string(),
-  actual: num,
+  outcomeValue: num,
   note: z.string(),
-  parts: z.array(z.object({ pseudonym: z.string(), actual: num })),
-  resolvedAt: dateTime,
+  parts: z.array(z.object({ pseudonym: z.string(), outcomeValue: num })),
+  recordedAt: dateTime,
   correctedAt: dateTime.nullable(),
   figures: z.object({
     round: z.number().int(),
@@ -233,7 +233,7 @@ export const resolution = z.object({
     panelists: z.array(z.object({ pseudonym: z.string(), value: num, low: n0, high: n0 })),
   }),
   scores: z.object({
-    actual: num,
+    outcomeValue: num,
     rawPanel: figureScore,
     correctedPanel: figureScore,
     baseline: figureScore.nullable(),
@@ -256,7 +256,7 @@ export const rosterTrackRecord = z.object({
   rosterMemberId: z.string(),
   name: z.string(),
   group: z.string(),
-  skipped: z.number().int().describe("Resolved answers left out: a value or actual ≤ 0, or outside the accepted range"),
+  skipped: z.number().int().describe("Answers with an outcome left out: a value or outcome ≤ 0, or outside the accepted range"),
   record: z.object({
     ...trackRecordFields,
     intervalHitRate: z.object({ count: z.number().int(), hits: z.number().int(), rate: n0, nominal: num }),
@@ -278,8 +278,8 @@ export const accuracyHistory = z.object({
       panelTitle: z.string(),
       text: z.string(),
       unit: z.string(),
-      resolvedAt: dateTime,
-      actual: num,
+      recordedAt: dateTime,
+      outcomeValue: num,
       rawPanel: num,
       correctedPanel: num,
       baseline: num,
@@ -287,7 +287,7 @@ export const accuracyHistory = z.object({
     }),
   ),
   withoutBaseline: z.number().int(),
-  unusable: z.number().int().describe("Resolved questions left out because a stored value is outside the accepted range"),
+  unusable: z.number().int().describe("Questions with an outcome left out because a stored value is outside the accepted range"),
   history: z.object({ n: z.number().int(), rawPanel: figureHistory, correctedPanel: figureHistory, baseline: figureHistory, blend: figureHistory }).nullable(),
   notes: z.array(z.string()),
 });
@@ -376,7 +376,7 @@ export const questionReport = z.object({
       ruleApplied: z.string(),
       ruleFrom: z.enum(["question", "panel"]),
       reason: z.string(),
-      resolvedQuestionsBehindWeight: n0,
+      outcomesBehindWeight: n0,
       msePanel: n0,
       mseBaseline: n0,
       rangeHow: z.string().describe("how the blend's range was made"),
@@ -437,7 +437,7 @@ export const questionReport = z.object({
   }),
   departures: departures.nullable(),
   biasCorrection: z.array(z.object({ ...panelist, ...correctedAnswerFields })).describe("empty unless viewer.namesShown"),
-  resolution: resolution.nullable(),
+  outcome: outcome.nullable(),
   movement: blendMovement.nullable(),
   distributions: z.object({ panelRaw: loose.nullable(), panelCorrected: loose.nullable(), baseline: loose.nullable(), blend: loose.nullable() }).describe("lib/blend distributions behind the ranges, for charts"),
   performanceWeights: z

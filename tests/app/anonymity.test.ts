@@ -1,10 +1,10 @@
 /**
  * Anonymity while names are hidden (issue 11, item 2; THREATS.md "Pseudonyms matched to named
- * track records"). The demo (`triangulate demo`: three resolved earlier panels, the Wren-2 panel
+ * track records"). The demo (`triangulate demo`: three earlier panels with recorded outcomes, the Wren-2 panel
  * with two closed rounds) gives seven panelists track records. The organiser sees the named
  * records on `/api/v1/track-records`; until the audited reveal, no figure shown next to a
  * pseudonym — in the report JSON, CSV and page, the question page, the triangulation and the
- * resolution — may equal one of those named figures (or a ratio of two figures of one
+ * outcome — may equal one of those named figures (or a ratio of two figures of one
  * pseudonym, such as corrected answer / answer = bias factor). Revoking an invitation must not
  * remove its pseudonym from live progress.
  *
@@ -125,7 +125,7 @@ function leaksInPage(html: string, where: string): string[] {
   return found;
 }
 
-/** Every report, triangulation and resolution of the panels this viewer can read. */
+/** Every report, triangulation and outcome of the panels this viewer can read. */
 async function allLeaks(cookie: string): Promise<string[]> {
   const found: string[] = [];
   const readable = new Set(((await get("/api/v1/panels", cookie)).body as { id: string }[]).map((p) => p.id));
@@ -136,8 +136,8 @@ async function allLeaks(cookie: string): Promise<string[]> {
     found.push(...leaksInJson((await get(`${q}/report.json`, cookie)).body, `report.json ${questionId}`));
     found.push(...leaksInJson((await get(`${q}/triangulation`, cookie)).body, `triangulation ${questionId}`));
     found.push(...leaksInCsv((await get(`${q}/report.csv`, cookie)).text, `report.csv ${questionId}`));
-    const resolution = await api("GET", `${q}/resolution`, { cookie });
-    if (resolution.status === 200) found.push(...leaksInJson(resolution.body, `resolution ${questionId}`));
+    const outcome = await api("GET", `${q}/outcome`, { cookie });
+    if (outcome.status === 200) found.push(...leaksInJson(outcome.body, `outcome ${questionId}`));
     found.push(...leaksInPage((await get(`/reports/${panelId}/questions/${questionId}`, cookie)).text, `report page ${questionId}`));
   }
   for (const panelId of readable) {
@@ -173,7 +173,7 @@ afterAll(() => clearDatabase());
 
 describe("while names are hidden", () => {
   it("the demo gives the organiser named track records to match against", () => {
-    // The demo's seven panelists answered resolved earlier questions (lib/cli/demo-history.ts).
+    // The demo's seven panelists answered earlier questions with a recorded outcome (lib/cli/demo-history.ts).
     expect(named.length).toBeGreaterThanOrEqual(7 * 3);
     expect(wrenId).not.toBe("");
     expect(questions.length).toBeGreaterThan(2);
@@ -200,7 +200,7 @@ describe("while names are hidden", () => {
     const report = (await get(`/api/v1/panels/${q.panelId}/questions/${q.questionId}/report.json`, organiser)).body;
     expect(report.viewer.namesShown).toBe(false);
     expect(typeof report.legs.panel.corrected.figure).toBe("number");
-    // All seven demo panelists answered resolved earlier questions (lib/cli/demo-history.ts).
+    // All seven demo panelists answered earlier questions with a recorded outcome (lib/cli/demo-history.ts).
     expect(report.legs.trackRecord.panelistsWithRecord).toBe(7);
     expect(typeof report.legs.trackRecord.meanFactor).toBe("number");
   });

@@ -29,7 +29,7 @@ let panelistElsewhere = "";
 let P = "";
 let qP = "";
 let memberP = "";
-/** A panel (shared with the reviewer) whose question is resolved. */
+/** A panel (shared with the reviewer) whose question has a recorded outcome. */
 let R = "";
 let qR = "";
 const BASELINE = { values: [400, 410, 405, 420, 415, 430], method: "naive", horizon: 1 };
@@ -62,7 +62,7 @@ async function freshPanel(state: "draft" | "open" | "closed" = "draft"): Promise
   return { id: p.id, questionId: p.questions[0].id };
 }
 
-/** A new panel of the owner with round 1 closed and one answer in it (ready to resolve). */
+/** A new panel of the owner with round 1 closed and one answer in it (ready for its outcome). */
 async function freshAnsweredPanel(): Promise<{ id: string; questionId: string }> {
   const p = await freshPanel("open");
   const [inv] = await ok("POST", `/api/v1/panels/${p.id}/invitations`, owner, { rosterMemberIds: [await freshMember()] });
@@ -201,17 +201,17 @@ const ROWS: readonly Row[] = [
   { route: "setPanelBlendRule", path: () => `/api/v1/panels/${P}/blend-rule`, body: () => ({ rule: "inverse-mse" }), expect: ownerOnly(200) },
   { route: "setQuestionBlendRule", path: () => `/api/v1/panels/${P}/questions/${qP}/blend-rule`, body: () => ({ rule: "organiser", panelWeight: 0.6 }), expect: ownerOnly(200) },
   { route: "getTriangulation", path: () => `/api/v1/panels/${P}/questions/${qP}/triangulation`, expect: panelRead(200) },
-  { route: "getResolution", path: () => `/api/v1/panels/${R}/questions/${qR}/resolution`, expect: panelRead(200) },
+  { route: "getOutcome", path: () => `/api/v1/panels/${R}/questions/${qR}/outcome`, expect: panelRead(200) },
   {
-    route: "resolveQuestion",
+    route: "recordOutcome",
     path: async () => {
       const p = await freshAnsweredPanel();
-      return `/api/v1/panels/${p.id}/questions/${p.questionId}/resolution`;
+      return `/api/v1/panels/${p.id}/questions/${p.questionId}/outcome`;
     },
-    body: () => ({ actual: 410 }),
+    body: () => ({ outcomeValue: 410 }),
     expect: ownerOnly(201),
   },
-  { route: "correctResolution", path: () => `/api/v1/panels/${R}/questions/${qR}/resolution`, body: () => ({ actual: 412, reason: "matrix" }), expect: ownerOnly(200) },
+  { route: "correctOutcome", path: () => `/api/v1/panels/${R}/questions/${qR}/outcome`, body: () => ({ outcomeValue: 412, reason: "matrix" }), expect: ownerOnly(200) },
   { route: "getQuestionReport", path: () => `/api/v1/panels/${P}/questions/${qP}/report.json`, expect: panelRead(200) },
   { route: "getQuestionReportCsv", path: () => `/api/v1/panels/${P}/questions/${qP}/report.csv`, expect: panelRead(200) },
   { route: "getPanelReportCsv", path: () => `/api/v1/panels/${P}/report.csv`, expect: panelRead(200) },
@@ -250,10 +250,10 @@ beforeAll(async () => {
   await ok("POST", `/api/v1/panels/${P}/rounds/1/close`, owner);
   await ok("POST", `/api/v1/panels/${P}/rounds`, owner, { open: true });
   await ok("PUT", `/api/v1/panels/${P}/questions/${qP}/baseline`, owner, BASELINE);
-  const resolved = await freshAnsweredPanel();
-  R = resolved.id;
-  qR = resolved.questionId;
-  await ok("POST", `/api/v1/panels/${R}/questions/${qR}/resolution`, owner, { actual: 411 });
+  const withOutcome = await freshAnsweredPanel();
+  R = withOutcome.id;
+  qR = withOutcome.questionId;
+  await ok("POST", `/api/v1/panels/${R}/questions/${qR}/outcome`, owner, { outcomeValue: 411 });
 
   const p2 = await ok("POST", "/api/v1/panels", other, { title: "Another organiser's panel", questions: [QUESTION] });
   const m2 = await ok("POST", "/api/v1/roster", other, { name: "Dana Quill", email: `d.${unique()}@example.com` });

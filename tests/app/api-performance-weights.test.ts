@@ -139,7 +139,7 @@ describe("calibration questions: what is accepted", () => {
     const baseline = await api("PUT", `${q}/baseline`, { token: owner, body: { values: [1, 2, 3, 4, 5, 6], method: "naive" } });
     expect(baseline.status).toBe(409);
     expect(baseline.body.type).toBe("/problems/calibration-question");
-    const outcome = await api("POST", `${q}/resolution`, { token: owner, body: { actual: 4173.5 } });
+    const outcome = await api("POST", `${q}/outcome`, { token: owner, body: { outcomeValue: 4173.5 } });
     expect(outcome.status).toBe(409);
     expect(outcome.body.type).toBe("/problems/calibration-question");
   });

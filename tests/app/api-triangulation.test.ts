@@ -1,8 +1,8 @@
 /**
  * Triangulation over HTTP (issue 4): a baseline attached from CSV (its forecast checked against
  * R's forecast::naive on the same series), CSV errors naming row and column, the blend and the
- * departures, resolving a question and correcting the actual (audited), the report as JSON and
- * CSV for a reviewer, the track records and the accuracy history derived from the resolution.
+ * departures, recording a question's outcome and correcting it (audited), the report as JSON and
+ * CSV for a reviewer, the track records and the accuracy history derived from the outcome.
  *
  * The series is the NIST/SEMATECH e-Handbook §6.4.3.1 12-point series
  * (tests/reference-data/nist_handbook_6431_ses12.csv); people and answers are invented.
@@ -114,7 +114,7 @@ describe("baseline on a question", () => {
   });
 });
 
-describe("triangulation, resolution and the report", () => {
+describe("triangulation, outcome and the report", () => {
   let sd = 0;
   let rz: number[] = [];
   let rp: number[] = [];
@@ -163,33 +163,36 @@ describe("triangulation, resolution and the report", () => {
     await ok("PUT", `${q()}/blend-rule`, owner, { rule: "panel" });
   });
 
-  it("resolves once (scores: error = actual − figure), refuses a second time, and corrects with an audited reason", async () => {
-    const denied = await api("POST", `${q()}/resolution`, { cookie: reviewerCookie, body: { actual: 77 } });
+  it("records the outcome once (scores: error = outcome − figure), refuses a second time, and corrects with an audited reason", async () => {
+    const denied = await api("POST", `${q()}/outcome`, { cookie: reviewerCookie, body: { outcomeValue: 77 } });
     expect(denied.status).toBe(403);
     // The question's bounds are 0 to 1000: −100 is refused with the number named, and nothing is stored.
-    const outside = await api("POST", `${q()}/resolution`, { token: owner, body: { actual: -100 } });
+    const outside = await api("POST", `${q()}/outcome`, { token: owner, body: { outcomeValue: -100 } });
     expect(outside.status).toBe(422);
-    expect(outside.body.errors[0]).toEqual({ field: "actual", message: "-100 is outside the question's bounds 0 to 1000" });
-    const res = await api("POST", `${q()}/resolution`, { token: owner, body: { actual: 77, note: "sales ledger" } });
+    expect(outside.body.errors[0]).toEqual({ field: "outcomeValue", message: "-100 is outside the question's bounds 0 to 1000" });
+    const res = await api("POST", `${q()}/outcome`, { token: owner, body: { outcomeValue: 77, note: "sales ledger" } });
     expect(res.status, res.text).toBe(201);
+    expect(res.body).toMatchObject({ outcomeValue: 77, note: "sales ledger", scores: { outcomeValue: 77, rawPanel: { forecast: 75, outcomeValue: 77 } } });
+    expect(Number.isNaN(Date.parse(res.body.recordedAt))).toBe(false);
     expect(res.body.scores.rawPanel.error).toBe(2);
     expect(res.body.scores.baseline.error).toBeCloseTo(7, 9);
     expect(res.body.scores.blend.error).toBeCloseTo(4.5, 9);
     expect(res.body.scores.panelists.map((s: any) => s.error).sort((a: number, b: number) => a - b)).toEqual(ANSWERS.map((v) => 77 - v).sort((a, b) => a - b));
-    const twice = await api("POST", `${q()}/resolution`, { token: owner, body: { actual: 76 } });
+    const twice = await api("POST", `${q()}/outcome`, { token: owner, body: { outcomeValue: 76 } });
     expect(twice.status).toBe(409);
-    const fix = await api("PATCH", `${q()}/resolution`, { token: owner, body: { actual: 78, reason: "a late return was booked twice" } });
+    expect(twice.body.type).toBe("/problems/outcome-recorded");
+    const fix = await api("PATCH", `${q()}/outcome`, { token: owner, body: { outcomeValue: 78, reason: "a late return was booked twice" } });
     expect(fix.status, fix.text).toBe(200);
     expect(fix.body.scores.rawPanel.error).toBe(3);
     expect(fix.body.correctedAt).not.toBeNull();
     const audit = await ok<any[]>("GET", `/api/v1/panels/${panelId}/audit`, owner);
-    const corrected = audit.find((e) => e.action === "resolution.corrected");
+    const corrected = audit.find((e) => e.action === "outcome.corrected");
     expect(corrected.detail).toEqual({ questionId, from: 77, to: 78, reason: "a late return was booked twice" });
     const frozen = await api("PUT", `${q()}/baseline`, { token: owner, body: { csv, method: "drift", horizon: 3 } });
     expect(frozen.status).toBe(409);
   });
 
-  it("the reviewer's report JSON: blend first, three legs, pseudonyms only, the resolution", async () => {
+  it("the reviewer's report JSON: blend first, three legs, pseudonyms only, the outcome", async () => {
     const res = await api("GET", `${q()}/report.json`, { cookie: reviewerCookie });
     expect(res.status, res.text).toBe(200);
     const r = res.body;
@@ -204,7 +207,7 @@ describe("triangulation, resolution and the report", () => {
     expect(r.biasCorrection).toEqual([]);
     expect(r.convergence.rounds.map((c: any) => c.median)).toEqual([75]);
     expect(r.departures.answers).toHaveLength(5);
-    expect(r.resolution.actual).toBe(78);
+    expect(r.outcome.outcomeValue).toBe(78);
     expect(r.cautions.join(" ")).toMatch(/do not make it|does not make/);
     expect(r.inputs.join(" ")).toMatch(/12 observations/);
     // The sentence the report leads with. By hand: naive forecast = the last observation, 70
@@ -217,7 +220,7 @@ describe("triangulation, resolution and the report", () => {
 
   it("names appear in the report only for the organiser, after revealing them (audited)", async () => {
     expect((await ok("GET", `${q()}/report.json`, owner)).viewer.namesShown).toBe(false);
-    await ok("POST", `/api/v1/panels/${panelId}/reveal`, owner, { reason: "check the resolution" });
+    await ok("POST", `/api/v1/panels/${panelId}/reveal`, owner, { reason: "check the outcome" });
     const r = await ok("GET", `${q()}/report.json`, owner);
     expect(r.viewer.namesShown).toBe(true);
     expect(r.biasCorrection.map((b: any) => b.name).sort()).toEqual(["Expert 1", "Expert 2", "Expert 3", "Expert 4", "Expert 5"]);
@@ -265,7 +268,7 @@ describe("triangulation, resolution and the report", () => {
     expect(lines.slice(1).map((l) => l.replace(/^1,/, ""))).toEqual(text.trimEnd().split("\r\n").slice(1).map((l) => (l.includes("generated at") ? expect.any(String) : l)));
   });
 
-  it("track records and the accuracy history derive from the stored resolution", async () => {
+  it("track records and the accuracy history derive from the stored outcome", async () => {
     const records = await ok<any[]>("GET", "/api/v1/track-records", owner);
     expect(records).toHaveLength(5);
     const byName = Object.fromEntries(records.map((r) => [r.name, r.record]));
@@ -279,7 +282,7 @@ describe("triangulation, resolution and the report", () => {
     });
     const h = await ok("GET", "/api/v1/accuracy-history", owner);
     expect(h.questions).toHaveLength(1);
-    expect(h.questions[0]).toMatchObject({ actual: 78, rawPanel: 75 });
+    expect(h.questions[0]).toMatchObject({ outcomeValue: 78, rawPanel: 75 });
     expect(h.questions[0].blend).toBeCloseTo(72.5, 12);
     expect(h.history.n).toBe(1);
     expect(h.history.rawPanel.trackingSignal).toEqual([1]); // TS = 3 / |3|

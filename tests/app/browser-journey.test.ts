@@ -300,7 +300,7 @@ describe("the organiser's whole journey", () => {
       if (k === 0) expect(corrected).toBe(median5(PANELISTS.map((p) => p.r2[0])));
       const blend = await stat(org, "blend-figure");
       expect(blend).toBeCloseTo(0.5 * corrected + 0.5 * q.history.at(-1)!, 9);
-      const form = org.locator("section[aria-labelledby=resolve-h] form");
+      const form = org.locator("section[aria-labelledby=outcome-form-h] form");
       await form.locator('input[inputmode="decimal"]').first().fill(String(q.outcome));
       await form.locator("input:not([type=hidden])").nth(1).fill("Quillmoor shipping ledger and dealer list");
       await form.locator(".actions button[type=submit]").click();

@@ -1,6 +1,6 @@
 /**
  * Browser test of triangulation (issue 4): baseline on a question, blend, departures,
- * resolution, track records, accuracy history and the reviewer's report, in Chromium through
+ * outcome, track records, accuracy history and the reviewer's report, in Chromium through
  * playwright-core against the production build that tests/app/server-setup.ts starts.
  *
  * Set-up over the API: an organiser and a reviewer are created with the admin CLI
@@ -16,12 +16,12 @@
  *   (Blattberg & Hoch 1990 default; hand computation below), the panel median from R;
  * - the departure table's z of one answer equals R's (x − mean) / sd with the sd implied by
  *   R's own 80% interval, sd = (upper80 − lower80) / (2·qnorm(0.9));
- * - records the outcome in two steps: an actual of −100 (outside the question's 0–1000 bounds) is
+ * - records the outcome in two steps: an outcome of −100 (outside the question's 0–1000 bounds) is
  *   refused before any confirmation; 73 shows "Record 73 hundred units …" and nothing is stored
  *   (the API's GET answers 404) until that is confirmed; the correction shows the old and new
  *   numbers with the unit the same way;
- * - resolves the question: the scores follow actual − forecast (hand computation); the
- *   expert roster shows each person's track record (mean log ratio ln(actual/answer) and the
+ * - records the outcome: the scores follow outcome − forecast (hand computation); the
+ *   expert roster shows each person's track record (mean log ratio ln(outcome/answer) and the
  *   shrunk bias factor exp(n/(n+5) · ln ratio) computed here), and the accuracy page lists the
  *   question;
  * - the reviewer opens the report: the blended figure comes first, then the three legs, the
@@ -56,7 +56,7 @@ const PANELISTS = [
   { name: "Della Marchbank", answer: 90 },
 ] as const;
 const ACTUAL = 73;
-/** The actual value after the organiser's audited correction. */
+/** The outcome value after the organiser's audited correction. */
 const CORRECTED = 75;
 
 interface RBaseline {
@@ -233,7 +233,7 @@ describe("triangulation in the browser", () => {
     await org.getByRole("button", { name: "Save weight rule" }).click();
     await expect.poll(() => org.locator('[data-weight-rule="equal"]').count()).toBe(1);
     near(await stat(org, "panel-raw"), expected.median, 1e-12, "raw panel figure = R median");
-    // No resolved history yet: every bias factor is 1, so the corrected figure is the raw one.
+    // No past outcomes yet: every bias factor is 1, so the corrected figure is the raw one.
     near(await stat(org, "panel-corrected"), expected.median, 1e-12, "corrected = raw without a track record");
     // Blattberg & Hoch (1990) 50/50: blend = 0.5·panel + 0.5·baseline (hand computation from the formula).
     const blend = 0.5 * expected.median + 0.5 * expected.mean;
@@ -245,39 +245,39 @@ describe("triangulation in the browser", () => {
     await expectAccessible(org);
   });
 
-  it("an actual value outside the question's bounds is refused before any confirmation, naming the number and the bounds", async () => {
-    await org.getByLabel(/^Actual value/).fill("-100");
-    await org.getByRole("button", { name: "Resolve", exact: true }).click();
-    const error = org.locator('[data-field="actual"]');
+  it("an outcome value outside the question's bounds is refused before any confirmation, naming the number and the bounds", async () => {
+    await org.getByLabel(/^Outcome value/).fill("-100");
+    await org.getByRole("button", { name: "Record the outcome", exact: true }).click();
+    const error = org.locator('[data-field="outcomeValue"]');
     await error.waitFor({ state: "visible" });
     expect(await error.textContent()).toContain("-100 is outside the question's bounds 0 to 1000");
     expect(await org.locator("[data-confirm]").count()).toBe(0);
     await expectAccessible(org);
-    expect((await api("GET", `/api/v1/panels/${panelId}/questions/${questionId}/resolution`, { token })).status).toBe(404);
+    expect((await api("GET", `/api/v1/panels/${panelId}/questions/${questionId}/outcome`, { token })).status).toBe(404);
   });
 
   it("shows the number being recorded, with its unit, and saves only after it is confirmed", async () => {
-    await org.getByLabel(/^Actual value/).fill(String(ACTUAL));
+    await org.getByLabel(/^Outcome value/).fill(String(ACTUAL));
     await org.getByLabel("Where the value comes from").fill("Quillmoor shipping ledger");
-    await org.getByRole("button", { name: "Resolve", exact: true }).click();
+    await org.getByRole("button", { name: "Record the outcome", exact: true }).click();
     const confirm = org.locator(`[data-confirm="${ACTUAL}"]`);
     await confirm.waitFor({ state: "visible" });
     // The server read the field and states the value it will store, in the question's unit.
-    expect(await confirm.textContent()).toContain(`Record ${ACTUAL} hundred units as the actual value`);
+    expect(await confirm.textContent()).toContain(`Record ${ACTUAL} hundred units as the outcome of`);
     await expectAccessible(org);
     // Nothing is saved before the confirmation.
-    expect((await api("GET", `/api/v1/panels/${panelId}/questions/${questionId}/resolution`, { token })).status).toBe(404);
-    expect(await org.locator('[data-resolved="yes"]').count()).toBe(0);
+    expect((await api("GET", `/api/v1/panels/${panelId}/questions/${questionId}/outcome`, { token })).status).toBe(404);
+    expect(await org.locator('[data-outcome="yes"]').count()).toBe(0);
     await confirm.getByRole("button", { name: `Yes, record ${ACTUAL} hundred units` }).click();
-    await org.locator('[data-resolved="yes"]').waitFor({ state: "visible" });
-    const stored = await api("GET", `/api/v1/panels/${panelId}/questions/${questionId}/resolution`, { token });
+    await org.locator('[data-outcome="yes"]').waitFor({ state: "visible" });
+    const stored = await api("GET", `/api/v1/panels/${panelId}/questions/${questionId}/outcome`, { token });
     expect(stored.status).toBe(200);
-    expect(stored.body.actual).toBe(ACTUAL);
+    expect(stored.body.outcomeValue).toBe(ACTUAL);
   });
 
-  it("resolves the question; every figure is scored and the track records and accuracy history follow", async () => {
-    expect(await stat(org, "actual")).toBe(ACTUAL);
-    // Error = actual − forecast (Hyndman & Koehler 2006 sign convention), by hand.
+  it("records the outcome; every figure is scored and the track records and accuracy history follow", async () => {
+    expect(await stat(org, "outcome-value")).toBe(ACTUAL);
+    // Error = outcome − forecast (Hyndman & Koehler 2006 sign convention), by hand.
     const blend = 0.5 * expected.median + 0.5 * expected.mean;
     near(await stat(org.locator('[data-score="blend"]'), "error"), ACTUAL - blend, 1e-9, "blend error");
     near(await stat(org.locator('[data-score="baseline"]'), "error"), ACTUAL - expected.mean, 1e-9, "baseline error");
@@ -288,8 +288,8 @@ describe("triangulation in the browser", () => {
     await org.locator("#track-records-h").waitFor({ state: "visible" });
     const della = org.locator('tr[data-track-record="Della Marchbank"]');
     expect(await della.locator('[data-stat="count"]').textContent()).toBe("1");
-    near(await stat(della, "mean-error"), ACTUAL - 90, 1e-12, "mean error = actual − answer");
-    near(await stat(della, "mean-log-ratio"), Math.log(ACTUAL / 90), 1e-12, "ln(actual/answer)");
+    near(await stat(della, "mean-error"), ACTUAL - 90, 1e-12, "mean error = outcome − answer");
+    near(await stat(della, "mean-log-ratio"), Math.log(ACTUAL / 90), 1e-12, "ln(outcome/answer)");
     // Shrunk bias factor exp(Z·m), Z = n/(n + 5) with n = 1 (credibility, constant 5 stated on the page).
     near(await stat(della, "bias-factor"), Math.exp((1 / 6) * Math.log(ACTUAL / 90)), 1e-12, "bias factor");
     await expectAccessible(org);
@@ -298,32 +298,32 @@ describe("triangulation in the browser", () => {
     await org.goto(`${baseURL}/accuracy`);
     await org.locator('[data-chart="tracking-signal"]').waitFor({ state: "visible" });
     const q = org.locator(`tr[data-history-question="${questionId}"]`);
-    expect(await stat(q, "actual")).toBe(ACTUAL);
+    expect(await stat(q, "outcome-value")).toBe(ACTUAL);
     near(await stat(q, "blend"), blend, 1e-9, "blend in the history");
-    // One question: MAE of the blend = |actual − blend|.
+    // One question: MAE of the blend = |outcome − blend|.
     near(await stat(org, "blend-mae"), Math.abs(ACTUAL - blend), 1e-9, "MAE of the blend over one question");
     await expectAccessible(org);
     await org.screenshot({ path: path.join(shots, "accuracy.png"), fullPage: true });
   });
 
-  it("corrects the actual value with a reason: the scores follow and the correction is in the audit log", async () => {
+  it("corrects the outcome with a reason: the scores follow and the correction is in the audit log", async () => {
     await org.goto(`${baseURL}/panels/${panelId}/questions/${questionId}`);
-    await org.getByLabel(/^Corrected actual value/).fill(String(CORRECTED));
+    await org.getByLabel(/^Corrected outcome value/).fill(String(CORRECTED));
     await org.getByLabel("Reason").fill("The ledger missed two late pallets");
-    await org.getByRole("button", { name: "Correct the actual value" }).click();
+    await org.getByRole("button", { name: "Correct the outcome" }).click();
     // The correction, too, shows the old and the new number with the unit before it is saved.
     const confirm = org.locator(`[data-confirm="${CORRECTED}"]`);
     await confirm.waitFor({ state: "visible" });
     expect(await confirm.textContent()).toContain(`from ${ACTUAL} hundred units to ${CORRECTED} hundred units`);
-    expect((await api("GET", `/api/v1/panels/${panelId}/questions/${questionId}/resolution`, { token })).body.actual).toBe(ACTUAL);
+    expect((await api("GET", `/api/v1/panels/${panelId}/questions/${questionId}/outcome`, { token })).body.outcomeValue).toBe(ACTUAL);
     await confirm.getByRole("button", { name: `Yes, correct it to ${CORRECTED} hundred units` }).click();
-    await expect.poll(() => org.locator('[data-stat="actual"]').first().getAttribute("data-value")).toBe(String(CORRECTED));
+    await expect.poll(() => org.locator('[data-stat="outcome-value"]').first().getAttribute("data-value")).toBe(String(CORRECTED));
     const blend = 0.5 * expected.median + 0.5 * expected.mean;
-    // The reported figures stay; only the scores move: error = corrected actual − blend.
+    // The reported figures stay; only the scores move: error = corrected outcome − blend.
     near(await stat(org.locator('[data-score="blend"]'), "forecast"), blend, 1e-9, "blend as reported");
     near(await stat(org.locator('[data-score="blend"]'), "error"), CORRECTED - blend, 1e-9, "rescored blend error");
-    await expect.poll(() => org.locator("section[aria-labelledby=resolve-h]").textContent()).toContain("The ledger missed two late pallets");
-    await org.screenshot({ path: path.join(shots, "question-resolved.png"), fullPage: true });
+    await expect.poll(() => org.locator("section[aria-labelledby=outcome-form-h]").textContent()).toContain("The ledger missed two late pallets");
+    await org.screenshot({ path: path.join(shots, "question-outcome.png"), fullPage: true });
     await expectAccessible(org);
     // On a 360-px phone the organiser's question page fits its width: no sideways scrolling.
     await org.setViewportSize({ width: 360, height: 800 });
@@ -334,7 +334,7 @@ describe("triangulation in the browser", () => {
         throw new Error(`${err.message}\nwider than 360 px: ${(await overflowing(org)).join(", ")}`);
       });
     await expectAccessible(org);
-    await org.screenshot({ path: path.join(shots, "question-resolved-phone.png"), fullPage: true });
+    await org.screenshot({ path: path.join(shots, "question-outcome-phone.png"), fullPage: true });
     await org.setViewportSize({ width: 1280, height: 900 });
   });
 

@@ -69,7 +69,7 @@ const HOSTILE_TEXT: readonly string[] = [
   "__proto__",
   "constructor",
 ];
-const HOSTILE_KEYS = ["__proto__", "constructor", "toString", "value", "panelId", "questionId", "rationale", "actual", "future.constructor", "future.__proto__", "lowerBound", "k\ud800"];
+const HOSTILE_KEYS = ["__proto__", "constructor", "toString", "value", "panelId", "questionId", "rationale", "outcomeValue", "future.constructor", "future.__proto__", "lowerBound", "k\ud800"];
 
 /** Arguments that are not what the action declares. */
 const HOSTILE_ARGS: readonly unknown[][] = [[], [null], [1, 2, 3], ["x", "y", "z"], [{}, "not a form"], [{ $gt: "" }, 5], [[[[[[]]]]]], ["\ud800", "\u0000"]];
@@ -200,7 +200,7 @@ describe("server actions check input and limits as the API does", () => {
 describe("fuzz: hostile input through every server action", () => {
   it("the build registers the app's server actions", () => {
     const names = actions.map((a) => a.name);
-    for (const n of ["submitAnswerAction", "addQuestionAction", "inviteAction", "baselineAction", "resolveAction", "createPanelAction", "revealNamesAction", "createFirstOrganiserAction"]) {
+    for (const n of ["submitAnswerAction", "addQuestionAction", "inviteAction", "baselineAction", "recordOutcomeAction", "createPanelAction", "revealNamesAction", "createFirstOrganiserAction"]) {
       expect(names).toContain(n);
     }
   });

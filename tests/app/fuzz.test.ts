@@ -118,8 +118,8 @@ function validBody(op: string): unknown {
     previewBaseline: { values: [1, 2, 3, 4, 5, 6, 7, 8] },
     setPanelBlendRule: { rule: "equal" },
     setQuestionBlendRule: { rule: "equal" },
-    resolveQuestion: { actual: 500 },
-    correctResolution: { actual: 501, reason: "fuzz" },
+    recordOutcome: { outcomeValue: 500 },
+    correctOutcome: { outcomeValue: 501, reason: "fuzz" },
   };
   return bodies[op] ?? {};
 }

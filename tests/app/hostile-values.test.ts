@@ -4,7 +4,7 @@
  * Infinity) and bounds of ±1e308 (sums overflow) are refused at input with 422 naming the field;
  * and an answer of 5e-324 stored before that rule (written here with direct SQL) is left out of
  * its panelist's track record and counted, while the track records, the other question's
- * triangulation and report, and a new resolution all still answer. People are invented.
+ * triangulation and report, and a newly recorded outcome all still answer. People are invented.
  */
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { api, apiTokenFor, clearDatabase, createAccount, sql } from "./api-client";
@@ -71,7 +71,7 @@ describe("an answer of 5e-324 stored before the rule", () => {
     await sql(`UPDATE "Answer" SET "value" = ? WHERE "questionId" = ? AND "value" = ?`, [5e-324, Q1, 450]);
     await ok("POST", `/api/v1/panels/${P}/rounds/1/close`, {});
 
-    expect((await api("POST", `/api/v1/panels/${P}/questions/${Q1}/resolution`, { token: owner, body: { actual: 480 } })).status).toBe(201);
+    expect((await api("POST", `/api/v1/panels/${P}/questions/${Q1}/outcome`, { token: owner, body: { outcomeValue: 480 } })).status).toBe(201);
 
     const records = await api("GET", "/api/v1/track-records", { token: owner });
     expect(records.status).toBe(200);
@@ -88,9 +88,9 @@ describe("an answer of 5e-324 stored before the rule", () => {
         expect(res.status, `${q === Q1 ? "Q1" : "Q2"} ${path}`).toBe(200);
       }
     }
-    expect((await api("POST", `/api/v1/panels/${P}/questions/${Q2}/resolution`, { token: owner, body: { actual: 1000 } })).status).toBe(201);
+    expect((await api("POST", `/api/v1/panels/${P}/questions/${Q2}/outcome`, { token: owner, body: { outcomeValue: 1000 } })).status).toBe(201);
     // Correcting the first actual works as well.
-    expect((await api("PATCH", `/api/v1/panels/${P}/questions/${Q1}/resolution`, { token: owner, body: { actual: 470, reason: "typo" } })).status).toBe(200);
+    expect((await api("PATCH", `/api/v1/panels/${P}/questions/${Q1}/outcome`, { token: owner, body: { outcomeValue: 470, reason: "typo" } })).status).toBe(200);
     expect((await api("GET", "/api/v1/track-records", { token: owner })).status).toBe(200);
     expect((await api("GET", "/api/v1/accuracy-history", { token: owner })).status).toBe(200);
   });

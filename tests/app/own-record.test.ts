@@ -66,8 +66,8 @@ beforeAll(async () => {
     await answer(p1.tokens[k], p1.questionIds[1], x.q2);
   }
   await ok("POST", `/api/v1/panels/${p1.id}/rounds/1/close`, owner);
-  await ok("POST", `/api/v1/panels/${p1.id}/questions/${p1.questionIds[0]}/resolution`, owner, { actual: ACTUAL.q1 });
-  await ok("POST", `/api/v1/panels/${p1.id}/questions/${p1.questionIds[1]}/resolution`, owner, { actual: ACTUAL.q2 });
+  await ok("POST", `/api/v1/panels/${p1.id}/questions/${p1.questionIds[0]}/outcome`, owner, { outcomeValue: ACTUAL.q1 });
+  await ok("POST", `/api/v1/panels/${p1.id}/questions/${p1.questionIds[1]}/outcome`, owner, { outcomeValue: ACTUAL.q2 });
 
   // Earlier panel 2: a three-point question and a calibration question (P5 / P50 / P95) with its true value.
   const p2 = await panel("Wren-1 second year", [question("Wren-1 units in year two", "three-point"), question("Wren-1 field units", "three-point", { calibration: true, trueValue: ACTUAL.cal })], ["a", "b"]);
@@ -77,7 +77,7 @@ beforeAll(async () => {
     await answer(p2.tokens[k], p2.questionIds[1], x.cal);
   }
   await ok("POST", `/api/v1/panels/${p2.id}/rounds/1/close`, owner);
-  await ok("POST", `/api/v1/panels/${p2.id}/questions/${p2.questionIds[0]}/resolution`, owner, { actual: ACTUAL.q3 });
+  await ok("POST", `/api/v1/panels/${p2.id}/questions/${p2.questionIds[0]}/outcome`, owner, { outcomeValue: ACTUAL.q3 });
 
   // The current panel: a and b invited; c invited, then withdrawn.
   const p3 = await panel("Wren-2 first year", [question("Wren-2 units in year one", "single")], ["a", "b", "c"]);

@@ -83,7 +83,7 @@ beforeAll(async () => {
   await ok("POST", `/api/v1/panels/${spares.id}/rounds/1/open`, orgA, {});
   for (let i = 0; i < 3; i++) await answer(t2[i], spares.q, SPARES[i]);
   await ok("POST", `/api/v1/panels/${spares.id}/rounds/1/close`, orgA);
-  await ok("POST", `/api/v1/panels/${spares.id}/questions/${spares.q}/resolution`, orgA, { actual: OUTCOME, note: "invented" });
+  await ok("POST", `/api/v1/panels/${spares.id}/questions/${spares.q}/outcome`, orgA, { outcomeValue: OUTCOME, note: "invented" });
 
   const p3 = await ok("POST", "/api/v1/panels", orgB, { title: "Wren-2 export markets", questions: [question("Wren-2 units sold abroad in year one?")] });
   exportPanel = p3.id;

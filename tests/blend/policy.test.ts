@@ -1,6 +1,6 @@
 /**
  * The input policy stated once in lib/blend/index.ts, checked across every exported function:
- * NaN / ±Infinity and empty arrays throw RangeError (resolved history may be empty), out-of-range
+ * NaN / ±Infinity and empty arrays throw RangeError (past outcomes may be empty), out-of-range
  * values throw RangeError, and undefined statistics come back as NaN.
  */
 import { describe, expect, it } from "vitest";
@@ -49,7 +49,7 @@ const NAN_CALLS: Record<string, () => unknown> = {
   correctThreePoint: () => blendLib.correctThreePoint({ low: 1, mid: 2, high: 3 }, NaN),
   correctedPanelFigure: () => blendLib.correctedPanelFigure([{ answer: NaN, factor: 1 }], "sum-of-parts"),
   scoreFigure: () => blendLib.scoreFigure("x", NaN, 1),
-  scoreResolution: () => blendLib.scoreResolution(1, { rawPanel: NaN, correctedPanel: 1, baseline: 1, blend: 1 }),
+  scoreOutcome: () => blendLib.scoreOutcome(1, { rawPanel: NaN, correctedPanel: 1, baseline: 1, blend: 1 }),
   trackingAlarm: () => blendLib.trackingAlarm([1], NaN),
   accuracyHistory: () =>
     blendLib.accuracyHistory([{ actual: 1, rawPanel: 1, correctedPanel: 1, baseline: 1, blend: NaN }]),
@@ -83,7 +83,7 @@ describe("policy: empty arrays", () => {
     expect(() => blendLib.accuracyHistory([])).toThrow(RangeError);
   });
 
-  it("resolved history may be empty: equal weights, factor 1, count 0", () => {
+  it("past outcomes may be empty: equal weights, factor 1, count 0", () => {
     expect(blendLib.inverseMseWeights([]).applied).toBe("equal");
     expect(blendLib.optimalWeights([]).applied).toBe("equal");
     expect(blendLib.trackRecord([]).bias.factor).toBe(1);

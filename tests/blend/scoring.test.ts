@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { TRACKING_SIGNAL_LIMIT, accuracyHistory, scoreFigure, scoreResolution, trackingAlarm } from "../../lib/blend";
+import { TRACKING_SIGNAL_LIMIT, accuracyHistory, scoreFigure, scoreOutcome, trackingAlarm } from "../../lib/blend";
 import { trackingSignalSeries } from "../../lib/forecast/accuracy";
 import { referenceCsv } from "../stats/reference-data";
 import { runR, rVector } from "../stats/rscript";
@@ -119,9 +119,9 @@ describe("trackingAlarm", () => {
   });
 });
 
-describe("scoreResolution: every figure of one question", () => {
+describe("scoreOutcome: every figure of one question", () => {
   it("errors, percent errors and sMAPE by hand from the definitions (docs/methods.md §4)", () => {
-    const s = scoreResolution(120, {
+    const s = scoreOutcome(120, {
       rawPanel: 100,
       correctedPanel: 110,
       baseline: 125,
@@ -154,7 +154,7 @@ describe("scoreResolution: every figure of one question", () => {
     const s = scoreFigure("blend", 0, 5);
     expect(s.absolutePercentError).toBeNaN();
     expect(s.error).toBe(-5);
-    expect(() => scoreResolution(NaN, { rawPanel: 1, correctedPanel: 1, baseline: 1, blend: 1 })).toThrow(/actual/);
-    expect(() => scoreResolution(1, { rawPanel: 1, correctedPanel: 1, baseline: 1, blend: 1, panelists: { X: NaN } })).toThrow(/X/);
+    expect(() => scoreOutcome(NaN, { rawPanel: 1, correctedPanel: 1, baseline: 1, blend: 1 })).toThrow(/actual/);
+    expect(() => scoreOutcome(1, { rawPanel: 1, correctedPanel: 1, baseline: 1, blend: 1, panelists: { X: NaN } })).toThrow(/X/);
   });
 });

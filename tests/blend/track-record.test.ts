@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import {
   BIAS_PRIOR_STRENGTH,
-  MIN_RESOLVED_FOR_THEIL,
+  MIN_OUTCOMES_FOR_THEIL,
   correctAnswer,
   correctThreePoint,
   correctedPanelFigure,
@@ -10,7 +10,7 @@ import {
   shrunkBiasFactor,
   theilDecomposition,
   trackRecord,
-  type ResolvedAnswer,
+  type AnswerOutcome,
 } from "../../lib/blend";
 import { referenceCsv } from "../stats/reference-data";
 import { runR, rVector } from "../stats/rscript";
@@ -64,7 +64,7 @@ out(c(mse, (mean(p) - mean(a))^2 / mse, (sp - rr * sa)^2 / mse, (1 - rr^2) * sa^
 });
 
 // An invented track record: a panelist who tends to answer low.
-const RECORD: readonly ResolvedAnswer[] = Object.freeze([
+const RECORD: readonly AnswerOutcome[] = Object.freeze([
   Object.freeze({ actual: 100, answer: 80, low: 70, high: 95 }),
   Object.freeze({ actual: 130, answer: 120, low: 100, high: 140 }),
   Object.freeze({ actual: 110, answer: 95, low: 85, high: 110 }),
@@ -74,7 +74,7 @@ const RECORD: readonly ResolvedAnswer[] = Object.freeze([
 ]);
 
 /** The bias factor computed in the test by a plain loop from the formula exp(n/(n + n0)·mean ln(a/f)). */
-function loopFactor(records: readonly ResolvedAnswer[], n0: number): { mlr: number; factor: number } {
+function loopFactor(records: readonly AnswerOutcome[], n0: number): { mlr: number; factor: number } {
   let s = 0;
   for (const r of records) s += Math.log(r.actual / r.answer);
   const n = records.length;
@@ -117,10 +117,10 @@ out(c(m, exp(n / (n + 5) * m), mean(a - f), mean(abs(100 * (a - f) / a))))`);
     expect(h).toEqual({ count: 5, hits: 3, rate: 0.6, nominal: 0.8 });
   });
 
-  it(`Theil's decomposition only from ${MIN_RESOLVED_FOR_THEIL} resolved questions on, with a note otherwise`, () => {
+  it(`Theil's decomposition only from ${MIN_OUTCOMES_FOR_THEIL} questions with an outcome on, with a note otherwise`, () => {
     const few = trackRecord(RECORD.slice(0, 4));
     expect(few.theil).toBeNull();
-    expect(few.theilNote).toContain(`at least ${MIN_RESOLVED_FOR_THEIL}`);
+    expect(few.theilNote).toContain(`at least ${MIN_OUTCOMES_FOR_THEIL}`);
     const enough = trackRecord(RECORD);
     expect(enough.theil).not.toBeNull();
     expect(enough.theil!.um + enough.theil!.ur + enough.theil!.ud).toBeCloseTo(1, 13);

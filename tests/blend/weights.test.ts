@@ -1,8 +1,8 @@
 import { describe, expect, it } from "vitest";
 import {
   EQUAL_PANEL_WEIGHT,
-  MIN_RESOLVED_FOR_CORRELATION,
-  MIN_RESOLVED_FOR_WEIGHTS,
+  MIN_OUTCOMES_FOR_CORRELATION,
+  MIN_OUTCOMES_FOR_WEIGHTS,
   WEIGHT_PRIOR_SD,
   batesGrangerWeights,
   blendWeights,
@@ -11,12 +11,12 @@ import {
   optimalWeights,
   organiserWeights,
   weightCredibility,
-  type ResolvedPair,
+  type OutcomePair,
 } from "../../lib/blend";
 import { runR, rVector } from "../stats/rscript";
 
 /** History whose panel and baseline errors (actual − figure) are the given series. */
-function historyFromErrors(ePanel: readonly number[], eBaseline: readonly number[]): readonly ResolvedPair[] {
+function historyFromErrors(ePanel: readonly number[], eBaseline: readonly number[]): readonly OutcomePair[] {
   return Object.freeze(
     ePanel.map((e, i) => {
       const actual = 1000 + 37 * i;
@@ -81,7 +81,7 @@ describe("inverseMseWeights (Bates & Granger 1969, ρ = 0)", () => {
   it("reproduces the §5a inverse-MSE check values and reports the inputs behind the weight", () => {
     const w = inverseMseWeights(history);
     expect(w.applied).toBe("inverse-mse");
-    expect(w.nResolved).toBe(5);
+    expect(w.nOutcomes).toBe(5);
     expect(w.msePanel).toBeCloseTo(3.8, 12);
     expect(w.mseBaseline).toBeCloseTo(0.7, 12);
     expect(w.rawPanel).toBeCloseTo(0.1555555556, 9);
@@ -97,17 +97,17 @@ describe("inverseMseWeights (Bates & Granger 1969, ρ = 0)", () => {
     expect(w.reason).toMatch(/Bates & Granger 1969/);
   });
 
-  it(`falls back to equal weights with a reason below ${MIN_RESOLVED_FOR_WEIGHTS} resolved questions (common practice)`, () => {
+  it(`falls back to equal weights with a reason below ${MIN_OUTCOMES_FOR_WEIGHTS} questions with an outcome (common practice)`, () => {
     for (const h of [[], history.slice(0, 1), history.slice(0, 2)]) {
       const w = inverseMseWeights(h);
       expect(w.requested).toBe("inverse-mse");
       expect(w.applied).toBe("equal");
       expect(w.panel).toBe(0.5);
-      expect(w.nResolved).toBe(h.length);
-      expect(w.reason).toContain(`fewer than the ${MIN_RESOLVED_FOR_WEIGHTS}`);
+      expect(w.nOutcomes).toBe(h.length);
+      expect(w.reason).toContain(`fewer than the ${MIN_OUTCOMES_FOR_WEIGHTS}`);
     }
     expect(inverseMseWeights(history.slice(0, 3)).applied).toBe("inverse-mse");
-    expect(inverseMseWeights(history.slice(0, 3), { minResolved: 4 }).applied).toBe("equal");
+    expect(inverseMseWeights(history.slice(0, 3), { minOutcomes: 4 }).applied).toBe("equal");
   });
 
   it("gives raw weight 1 to a figure that was exact, shrunk by Z = 4/29 (hand), and equal weights when both were", () => {
@@ -162,7 +162,7 @@ o <- optimize(f, c(-2, 3), tol = 1e-12)
 out(c(o$minimum, o$objective, mean(ep*eb)/sqrt(mean(ep^2)*mean(eb^2))))`);
     const w = optimalWeights(historyFromErrors(ep, eb));
     expect(w.applied).toBe("optimal");
-    expect(w.nResolved).toBe(7);
+    expect(w.nOutcomes).toBe(7);
     expect(lambda).toBeGreaterThan(0); // R's optimum is interior here (about 0.62), so no clipping
     expect(lambda).toBeLessThan(1);
     expect(Math.abs(w.baseline - lambda)).toBeLessThan(1e-8);
@@ -197,10 +197,10 @@ out(c(o$minimum, mean(eb^2)))`);
     expect(w.unconstrainedPanel).toBeLessThan(0);
   });
 
-  it(`falls back to equal weights below ${MIN_RESOLVED_FOR_CORRELATION} questions and for identical errors`, () => {
+  it(`falls back to equal weights below ${MIN_OUTCOMES_FOR_CORRELATION} questions and for identical errors`, () => {
     const h4 = historyFromErrors([1, 2, -1, 3], [2, 1, 0, -1]);
     expect(optimalWeights(h4).applied).toBe("equal");
-    expect(optimalWeights(h4).reason).toContain(`fewer than the ${MIN_RESOLVED_FOR_CORRELATION}`);
+    expect(optimalWeights(h4).reason).toContain(`fewer than the ${MIN_OUTCOMES_FOR_CORRELATION}`);
     const same = optimalWeights(historyFromErrors([1, 2, -1, 3, 2], [1, 2, -1, 3, 2]));
     expect(same.applied).toBe("equal");
     expect(same.reason).toMatch(/identical/);
@@ -212,7 +212,7 @@ describe("equal, organiser and dispatch", () => {
   it("equal weights are 0.5 / 0.5 (Blattberg & Hoch 1990)", () => {
     const w = equalWeights();
     expect(EQUAL_PANEL_WEIGHT).toBe(0.5);
-    expect([w.panel, w.baseline, w.nResolved]).toEqual([0.5, 0.5, 0]);
+    expect([w.panel, w.baseline, w.nOutcomes]).toEqual([0.5, 0.5, 0]);
     expect(w.reason).toMatch(/Blattberg & Hoch 1990/);
   });
 
@@ -231,7 +231,7 @@ describe("equal, organiser and dispatch", () => {
     expect(blendWeights({ rule: "organiser", panelWeight: 0.25 }).panel).toBe(0.25);
     expect(blendWeights({ rule: "inverse-mse", history: h }).panel).toBeCloseTo(13 / 30, 14); // §5a, shrunk with Z = 6/31 (hand, above)
     expect(blendWeights({ rule: "inverse-mse", history: h, priorSd: 0.5 }).panel).toBeCloseTo(43 / 210, 14); // Z = 6/7 (hand, above)
-    expect(blendWeights({ rule: "inverse-mse", history: h, minResolved: 6 }).applied).toBe("equal");
+    expect(blendWeights({ rule: "inverse-mse", history: h, minOutcomes: 6 }).applied).toBe("equal");
     expect(blendWeights({ rule: "optimal", history: h }).applied).toBe("optimal");
     expect(() => blendWeights({ rule: "median" } as never)).toThrow(/unknown rule/);
   });
@@ -244,6 +244,6 @@ describe("equal, organiser and dispatch", () => {
     ];
     expect(() => inverseMseWeights(h)).toThrow(/history\[1\]\.panel/);
     expect(() => optimalWeights([{ actual: Infinity, panel: 1, baseline: 1 }])).toThrow(/history\[0\]\.actual/);
-    expect(() => inverseMseWeights(h.slice(0, 1), { minResolved: 0 })).toThrow(/minResolved/);
+    expect(() => inverseMseWeights(h.slice(0, 1), { minOutcomes: 0 })).toThrow(/minOutcomes/);
   });
 });

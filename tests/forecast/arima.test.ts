@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { arimaOriginForecasts, autoArima, chooseDifferences, fitArima, forecastArima, kpssStatistic, minRootModulus, type ArimaSpec } from "../../lib/forecast/arima";
 import arimaMethod from "../../lib/forecast/methods/arima";
-import { expectClose, runRBatch } from "../stats/rscript";
+import { expectClose, runR, runRBatch } from "../stats/rscript";
 
 const R_PRELUDE = "suppressPackageStartupMessages(library(forecast))";
 

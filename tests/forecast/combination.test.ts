@@ -6,7 +6,7 @@
 import { describe, expect, it } from "vitest";
 import { baseline } from "../../lib/forecast/baseline";
 import { combineForecasts, combineTotals, overlapDegreesOfFreedom, type CombinationMember } from "../../lib/forecast/combination";
-import { rEvalBatch } from "../helpers/r";
+import { rEval, rEvalBatch } from "../helpers/r";
 
 /**
  * Series of R's datasets on which our AICc choice of ETS member is R's ets() choice, with the

@@ -8,7 +8,7 @@
 import { readdirSync, readFileSync } from "node:fs";
 import { join } from "node:path";
 import { describe, expect, it } from "vitest";
-import { auditSentence, type AuditQuestion } from "../../lib/panels/audit-text";
+import { auditSentence, todaysForm, type AuditQuestion } from "../../lib/panels/audit-text";
 
 const questions = new Map<string, AuditQuestion>([
   ["q1", { text: "Wren-1 field units", unit: "units" }],
@@ -38,8 +38,8 @@ const CASES: [string, Record<string, unknown>, string | null, string][] = [
   ["question.true-value", { questionId: "q1", from: null, trueValue: 410 }, ada, "Ada Fenwick set the true value of 'Wren-1 field units' to 410."],
   ["question.true-value", { questionId: "q1", trueValue: 410 }, ada, "Ada Fenwick set the true value of 'Wren-1 field units' to 410."],
   ["question.true-value", { questionId: "q1", from: 412, trueValue: null }, ada, "Ada Fenwick cleared the true value of 'Wren-1 field units' (was 412)."],
-  ["question.resolved", { questionId: "q2", actual: 11400, parts: 0 }, ada, "Ada Fenwick recorded the outcome of 'Units in year one': 11,400 units."],
-  ["resolution.corrected", { questionId: "q2", from: 11400, to: 11250.5, reason: "late returns counted" }, ada, "Ada Fenwick corrected the outcome of 'Units in year one' from 11,400 to 11,250.5 units (reason: late returns counted)."],
+  ["outcome.recorded", { questionId: "q2", outcomeValue: 11400, parts: 0 }, ada, "Ada Fenwick recorded the outcome of 'Units in year one': 11,400 units."],
+  ["outcome.corrected", { questionId: "q2", from: 11400, to: 11250.5, reason: "late returns counted" }, ada, "Ada Fenwick corrected the outcome of 'Units in year one' from 11,400 to 11,250.5 units (reason: late returns counted)."],
   ["baseline.attached", { questionId: "q2", method: "holt-winters" }, ada, "Ada Fenwick attached a baseline forecast to 'Units in year one'."],
   ["baseline.replaced", { questionId: "q2", method: "holt" }, ada, "Ada Fenwick replaced the baseline forecast of 'Units in year one'."],
   ["baseline.removed", { questionId: "q7" }, ada, "Ada Fenwick removed the baseline forecast of a removed question."],
@@ -66,7 +66,7 @@ function recordedActions(): Set<string> {
   for (const file of files) {
     const src = readFileSync(file, "utf8");
     if (!src.includes("recordAudit(tx")) continue;
-    for (const m of src.matchAll(/"([a-z]+\.[a-z-]+)"/g)) if (/^(panel|question|resolution|baseline|round|identities|invitation)\./.test(m[1])) found.add(m[1]);
+    for (const m of src.matchAll(/"([a-z]+\.[a-z-]+)"/g)) if (/^(panel|question|outcome|baseline|round|identities|invitation)\./.test(m[1])) found.add(m[1]);
   }
   // messages.<kind>, written from the message kind
   for (const kind of ["round-opened", "reminder"]) found.add(`messages.${kind}`);
@@ -96,5 +96,16 @@ describe("auditSentence", () => {
 
   it("reads an unknown action without its id", () => {
     expect(say("panel.archived", {})).toBe("Ada Fenwick made a change to the panel.");
+  });
+
+  it("reads events stored under the earlier outcome action ids as today's", () => {
+    const recorded = todaysForm("question.resolved", { questionId: "q2", actual: 11400, parts: 0 });
+    expect(recorded).toEqual({ action: "outcome.recorded", detail: { questionId: "q2", outcomeValue: 11400, parts: 0 } });
+    expect(say(recorded.action, recorded.detail)).toBe("Ada Fenwick recorded the outcome of 'Units in year one': 11,400 units.");
+    const corrected = todaysForm("resolution.corrected", { questionId: "q2", from: 11400, to: 11250.5, reason: "late returns counted" });
+    expect(corrected.action).toBe("outcome.corrected");
+    expect(corrected.detail).toEqual({ questionId: "q2", from: 11400, to: 11250.5, reason: "late returns counted" });
+    // Today's ids pass through unchanged.
+    expect(todaysForm("round.closed", { by: "deadline" })).toEqual({ action: "round.closed", detail: { by: "deadline" } });
   });
 });

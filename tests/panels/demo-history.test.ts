@@ -56,7 +56,7 @@ afterAll(async () => {
   rmSync(path.dirname(file), { recursive: true, force: true });
 });
 
-/** Every roster member's (actual, answer, low, high) over the demo's resolved questions, from the invented tables. */
+/** Every roster member's (outcome, answer, low, high) over the demo's questions with an outcome, from the invented tables. */
 function expectedRecords(): Map<number, [number, number, number | null, number | null][]> {
   const m = new Map<number, [number, number, number | null, number | null][]>();
   let k = 0;
@@ -64,7 +64,7 @@ function expectedRecords(): Map<number, [number, number, number | null, number |
     for (const q of p.questions) {
       for (const i of p.invited) {
         const a = pastAnswer(i, k, q);
-        m.set(i, [...(m.get(i) ?? []), [q.actual, a.value, a.low ?? null, a.high ?? null]]);
+        m.set(i, [...(m.get(i) ?? []), [q.outcomeValue, a.value, a.low ?? null, a.high ?? null]]);
       }
       k++;
     }
@@ -136,17 +136,17 @@ describe("demo history", () => {
     expect(records.find((x) => x.name === "Priya Lindqvist")!.record.theil).not.toBeNull();
   });
 
-  it("the accuracy history has the eight resolved questions in time order", async () => {
+  it("the accuracy history has the eight recorded outcomes in time order", async () => {
     const h = await services.getAccuracyHistory(organiser);
     expect(h.questions).toHaveLength(8);
-    expect(h.questions.map((q) => q.actual)).toEqual(PAST_PANELS.flatMap((p) => p.questions.map((q) => q.actual)));
+    expect(h.questions.map((q) => q.outcomeValue)).toEqual(PAST_PANELS.flatMap((p) => p.questions.map((q) => q.outcomeValue)));
     expect(h.history!.n).toBe(8);
   });
 
   it("the Wren-2 report: inverse-MSE weights from 8 questions, corrected answers, the scaled analogous baseline", async () => {
     const r = await services.getQuestionReport(reviewer, wren2.panelId, wren2.questionId);
     expect(r.blend!.ruleApplied).toBe("inverse-mse");
-    expect(r.blend!.resolvedQuestionsBehindWeight).toBe(8);
+    expect(r.blend!.outcomesBehindWeight).toBe(8);
     expect(r.blend!.panelWeight).toBeGreaterThan(0);
     expect(r.blend!.panelWeight).toBeLessThan(1);
     expect(r.legs.baseline!.analogue!.scaleFactor).toBe(WREN2_SCALE);
@@ -159,7 +159,7 @@ describe("demo history", () => {
     // The report page's table (computed apart, on the worker pool) shows exactly this report's blend.
     const { getPanelReportRows } = await import("../../lib/triangulation/panel-reports");
     const [row] = await getPanelReportRows(reviewer, wren2.panelId, [wren2.questionId]);
-    expect(row).toEqual({ questionId: wren2.questionId, blend: { figure: r.blend!.figure, intervals: r.blend!.intervals }, outcome: r.resolution?.actual ?? null, hasBaseline: true });
+    expect(row).toEqual({ questionId: wren2.questionId, blend: { figure: r.blend!.figure, intervals: r.blend!.intervals }, outcome: r.outcome?.outcomeValue ?? null, hasBaseline: true });
     const { db } = await import("../../lib/db");
     const stored = await db.baseline.findUniqueOrThrow({ where: { questionId: wren2.questionId } });
     const preview = JSON.parse(stored.preview) as { rows: { value: number; scaled: number }[] };
@@ -168,19 +168,19 @@ describe("demo history", () => {
   });
 });
 
-describe("resolving the demo's sum-of-parts question (services on the demo database)", () => {
+describe("recording the outcome of the demo's sum-of-parts question (services on the demo database)", () => {
   it("refuses while a round is open, names a bad part, then scores the total and feeds each part into its panelist's record", async () => {
     const { db } = await import("../../lib/db");
-    const { resolveQuestion, correctResolution } = await import("../../lib/triangulation/resolution");
+    const { recordOutcome, correctOutcome } = await import("../../lib/triangulation/outcome");
     const { closeRound } = await import("../../lib/panels/rounds");
     const { DomainError } = await import("../../lib/errors");
     const panel = await db.panel.findUniqueOrThrow({ where: { id: wren2.panelId }, include: { questions: { orderBy: { position: "asc" } } } });
     const partsQ = panel.questions[1].id;
     const status = (p: Promise<unknown>) => p.then(() => 0, (e: unknown) => (e instanceof DomainError ? e.status : -1));
 
-    expect(await status(resolveQuestion(organiser, wren2.panelId, partsQ, { actual: 15000, note: "", parts: [] }))).toBe(409); // round 3 is open
+    expect(await status(recordOutcome(organiser, wren2.panelId, partsQ, { outcomeValue: 15000, note: "", parts: [] }))).toBe(409); // round 3 is open
     await closeRound(organiser, wren2.panelId, 3);
-    expect(await status(resolveQuestion(reviewer, wren2.panelId, partsQ, { actual: 15000, note: "", parts: [] }))).toBe(403);
+    expect(await status(recordOutcome(reviewer, wren2.panelId, partsQ, { outcomeValue: 15000, note: "", parts: [] }))).toBe(403);
 
     // Final parts: each panelist's answer in the latest round they answered (round 3 for the two
     // who answered it, round 2 for the five others: parts are carried forward, not dropped).
@@ -194,29 +194,29 @@ describe("resolving the demo's sum-of-parts question (services on the demo datab
     expect(byPseudonym.size).toBe(7);
     expect([...byPseudonym.values()].filter((v) => v.round === 3)).toHaveLength(2);
     const [[p1, a1], [, a2]] = [...byPseudonym.entries()];
-    const bad = await resolveQuestion(organiser, wren2.panelId, partsQ, { actual: 15000, note: "", parts: [{ pseudonym: "Panelist NONE", actual: 1 }] }).catch((e) => e);
+    const bad = await recordOutcome(organiser, wren2.panelId, partsQ, { outcomeValue: 15000, note: "", parts: [{ pseudonym: "Panelist NONE", outcomeValue: 1 }] }).catch((e) => e);
     expect(bad.status).toBe(422);
     expect(bad.errors[0].field).toBe("parts.0.pseudonym");
 
     const records = await services.listTrackRecords(organiser);
     const before = records.find((r) => r.name === a1.member)!.record.count;
     const before2 = records.find((r) => r.name === a2.member)!.record.count;
-    const res = await resolveQuestion(organiser, wren2.panelId, partsQ, { actual: 5200, note: "ledger", parts: [{ pseudonym: p1, actual: 2500 }] });
+    const res = await recordOutcome(organiser, wren2.panelId, partsQ, { outcomeValue: 5200, note: "ledger", parts: [{ pseudonym: p1, outcomeValue: 2500 }] });
     // The panel figure of a sum of parts is the total of the final parts (hand: Σ of the values).
     const total = [...byPseudonym.values()].reduce((s, v) => s + v.value, 0);
     expect(res.figures.rawPanel).toBe(total);
     expect(res.scores.rawPanel.error).toBe(5200 - total);
-    expect(res.parts).toEqual([{ pseudonym: p1, actual: 2500 }]);
+    expect(res.parts).toEqual([{ pseudonym: p1, outcomeValue: 2500 }]);
     expect(res.figures.panelists).toHaveLength(7);
     const after = await services.listTrackRecords(organiser);
     expect(after.find((r) => r.name === a1.member)!.record.count).toBe(before! + 1);
     // A part whose actual was not given (the second panelist's) is not scored: no new record.
     expect(after.find((r) => r.name === a2.member)!.record.count).toBe(before2);
 
-    const fixed = await correctResolution(organiser, wren2.panelId, partsQ, { actual: 5300, reason: "one return booked late" });
+    const fixed = await correctOutcome(organiser, wren2.panelId, partsQ, { outcomeValue: 5300, reason: "one return booked late" });
     expect(fixed.scores.rawPanel.error).toBe(5300 - total);
-    expect(fixed.parts).toEqual([{ pseudonym: p1, actual: 2500 }]);
-    const audit = await db.auditEvent.findFirstOrThrow({ where: { panelId: wren2.panelId, action: "resolution.corrected" } });
+    expect(fixed.parts).toEqual([{ pseudonym: p1, outcomeValue: 2500 }]);
+    const audit = await db.auditEvent.findFirstOrThrow({ where: { panelId: wren2.panelId, action: "outcome.corrected" } });
     expect(JSON.parse(audit.detail)).toEqual({ questionId: partsQ, from: 5200, to: 5300, reason: "one return booked late" });
   });
 });

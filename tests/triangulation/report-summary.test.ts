@@ -26,7 +26,7 @@ function input(over: Partial<Omit<Input, "blend">> & { panel?: { figure: number;
       baseline: baseline === null ? null : ({ target: { mean: baseline } } as unknown as Input["legs"]["baseline"]),
       trackRecord: { panelistsWithRecord: 0, meanFactor: null, panelists: [] },
     },
-    resolution: null,
+    outcome: null,
     convergence: { rounds: [], verdict: null, recommendation: null, reasons: [] },
     ...rest,
   };
@@ -35,7 +35,7 @@ function input(over: Partial<Omit<Input, "blend">> & { panel?: { figure: number;
 describe("reportSummary", () => {
   it("figure, range, outcome and the gap between the panel and the baseline", () => {
     const s = reportSummary(
-      input({ blend: { figure: 76, lower: 70, upper: 82 }, panel: { figure: 72, lower: 60, upper: 86 }, baseline: 80, resolution: { actual: 78 } as Input["resolution"] }),
+      input({ blend: { figure: 76, lower: 70, upper: 82 }, panel: { figure: 72, lower: 60, upper: 86 }, baseline: 80, outcome: { outcomeValue: 78 } as Input["outcome"] }),
     );
     expect(s).toBe(
       "The blended figure for year one is 76 units, with an 80% range of 70 to 82; the recorded outcome is 78 units; the main disagreement is between the panel's corrected figure (72) and the baseline's forecast (80): 10% apart, the panel below the baseline.",

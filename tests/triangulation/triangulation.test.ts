@@ -1,7 +1,7 @@
 /**
  * Triangulation of a question composed from lib/blend (lib/triangulation/triangulation.ts
  * `computeTriangulation`), the derivation of track records and blend-weight history from stored
- * resolutions (lib/triangulation/track-records.ts), resolution scores (lib/triangulation/resolution.ts) and
+ * recorded outcomes (lib/triangulation/track-records.ts), outcome scores (lib/triangulation/outcome.ts) and
  * the CSV export's cell neutralisation (lib/triangulation/report.ts). Pure: no database.
  *
  * Expected values come from R (Rscript, computed in the test from the same inputs: median,
@@ -11,8 +11,8 @@
 import { describe, expect, it } from "vitest";
 import { trackRecord, type BiasFactor } from "../../lib/blend";
 import { computeTriangulation, type TriangulationInput } from "../../lib/triangulation/triangulation";
-import { historyOf, recordsByMember, type ResolvedQuestion, type ResolutionFigures } from "../../lib/triangulation/track-records";
-import { checkWithinBounds, scoreFigures } from "../../lib/triangulation/resolution";
+import { historyOf, recordsByMember, type RecordedOutcome, type OutcomeFigures } from "../../lib/triangulation/track-records";
+import { checkWithinBounds, scoreFigures } from "../../lib/triangulation/outcome";
 import { InvalidInputError } from "../../lib/errors";
 import { csvCell, reportCsv } from "../../lib/triangulation/report";
 import { expectClose, runR, rVector } from "../stats/rscript";
@@ -40,7 +40,7 @@ function sharedInput(overrides: Partial<TriangulationInput> = {}): Triangulation
   };
 }
 
-/** Log errors ln(actual / corrected panel figure) of four invented resolved questions. */
+/** Log errors ln(actual / corrected panel figure) of four invented questions with an outcome. */
 const LOG_ERRORS = [0.1, -0.2, 0.15, -0.05];
 
 /**
@@ -81,7 +81,7 @@ describe("computeTriangulation: shared quantity, single values, equal weights", 
     expectClose(t.panel!.raw.intervals.flatMap((i) => [i.lower, i.upper]), [p10, p90, p025, p975], 1e-12, "panel range");
     // No track record: factor 1, corrected = raw.
     expect(t.panel!.corrected.figure).toBe(med);
-    expect(t.panel!.answers.every((a) => a.factor === 1 && a.resolvedQuestions === 0)).toBe(true);
+    expect(t.panel!.answers.every((a) => a.factor === 1 && a.nOutcomes === 0)).toBe(true);
     expect(t.notes.join(" ")).toMatch(/not from the spread of the answers/);
   });
 
@@ -100,9 +100,9 @@ describe("computeTriangulation: shared quantity, single values, equal weights", 
   });
 
   it("says how each range was made: the panel's from the track record with the stated prior (docs/methods.md §15a: 0.25 worth 3), the blend's from one normal", () => {
-    // §15a's prior: scale s0 = 0.25 worth ν0 = 3 questions; 4 resolved questions → 3 + 4 = 7 degrees of freedom.
+    // §15a's prior: scale s0 = 0.25 worth ν0 = 3 questions; 4 questions with an outcome → 3 + 4 = 7 degrees of freedom.
     expect(t.panel!.rangeHow).toMatch(/from the track record, not from the spread of the answers/);
-    expect(t.panel!.rangeHow).toContain("4 resolved questions pooled with a prior scale of 0.25 worth 3 questions");
+    expect(t.panel!.rangeHow).toContain("4 recorded outcomes pooled with a prior scale of 0.25 worth 3 questions");
     expect(t.panel!.rangeHow).toContain("on 7 degrees of freedom");
     // The blend: one normal with the Bates–Granger sd, the number the range is read from, and the prior ρ = 0.5 (§15e).
     expect(t.blendRangeHow).toContain(`= ${t.blend!.distribution.sd.toPrecision(4)} `);
@@ -146,22 +146,22 @@ describe("computeTriangulation: shared quantity, single values, equal weights", 
   });
 });
 
-/** A resolved question with one answer per invitation (figures as stored at resolution). */
-function resolved(
+/** A question with its outcome and one answer per invitation (figures as stored with the outcome). */
+function withOutcome(
   actual: number,
   panelists: readonly { inv: string; member: string; value: number; low?: number; high?: number }[],
-  extra: Partial<ResolutionFigures> = {},
-  partActuals: ResolvedQuestion["partActuals"] = [],
-): ResolvedQuestion {
+  extra: Partial<OutcomeFigures> = {},
+  partOutcomes: RecordedOutcome["partOutcomes"] = [],
+): RecordedOutcome {
   return {
     questionId: `q${actual}`,
     panelId: "p",
     panelTitle: "past panel",
     text: "past question",
     unit: "units",
-    resolvedAt: new Date(0),
-    actual,
-    partActuals,
+    recordedAt: new Date(0),
+    outcomeValue: actual,
+    partOutcomes,
     figures: {
       round: 1,
       aggregation: "shared",
@@ -180,17 +180,17 @@ function resolved(
   };
 }
 
-describe("bias correction from track records derived from stored resolutions", () => {
-  // Invented history: "opt" answered high three times, "pes" low twice, "cal" never resolved.
+describe("bias correction from track records derived from recorded outcomes", () => {
+  // Invented history: "opt" answered high three times, "pes" low twice, "cal" never had an outcome.
   const history = [
-    resolved(100, [{ inv: "x1", member: "opt", value: 125, low: 100, high: 150 }, { inv: "x2", member: "pes", value: 80, low: 70, high: 95 }]),
-    resolved(200, [{ inv: "y1", member: "opt", value: 240, low: 210, high: 300 }, { inv: "y2", member: "pes", value: 175, low: 150, high: 210 }]),
-    resolved(150, [{ inv: "z1", member: "opt", value: 180, low: 120, high: 200 }]),
+    withOutcome(100, [{ inv: "x1", member: "opt", value: 125, low: 100, high: 150 }, { inv: "x2", member: "pes", value: 80, low: 70, high: 95 }]),
+    withOutcome(200, [{ inv: "y1", member: "opt", value: 240, low: 210, high: 300 }, { inv: "y2", member: "pes", value: 175, low: 150, high: 210 }]),
+    withOutcome(150, [{ inv: "z1", member: "opt", value: 180, low: 120, high: 200 }]),
   ];
   const byMember = recordsByMember(history);
   const factor = (m: string): BiasFactor => trackRecord(byMember.get(m)!.records).bias;
 
-  it("each member's track record equals a loop over their resolved answers", () => {
+  it("each member's track record equals a loop over their answers with an outcome", () => {
     for (const [member, rows] of [
       ["opt", [[100, 125, 100, 150], [200, 240, 210, 300], [150, 180, 120, 200]]],
       ["pes", [[100, 80, 70, 95], [200, 175, 150, 210]]],
@@ -297,7 +297,7 @@ describe("bias correction from track records derived from stored resolutions", (
   });
 
   it("a sum-of-parts answer counts against its own part's actual, and only when recorded; answers ≤ 0 are skipped", () => {
-    const parts = resolved(
+    const parts = withOutcome(
       1000,
       [{ inv: "s1", member: "opt", value: 500 }, { inv: "s2", member: "pes", value: 300 }, { inv: "s3", member: "zero", value: 0 }],
       { aggregation: "sum-of-parts" },
@@ -369,13 +369,13 @@ describe("three-point ranges rescaled by each panelist's interval hit rate", () 
   });
 });
 
-describe("inverse-MSE weights from the organiser's resolved history (relative errors)", () => {
+describe("inverse-MSE weights from the organiser's past outcomes (relative errors)", () => {
   it("raw w_panel = MSE_b / (MSE_p + MSE_b) = 17/23 (Bates & Granger 1969, ρ = 0), shrunk toward 0.5 with Z = 4/29", () => {
     const h = historyOf([
-      resolved(100, [], { correctedPanel: 110, rawPanel: 112, baseline: 90, blend: 100 }),
-      resolved(200, [], { correctedPanel: 190, rawPanel: 185, baseline: 230, blend: 210 }),
-      resolved(400, [], { correctedPanel: 420, rawPanel: 430, baseline: 360, blend: 390 }),
-      resolved(300, [], { correctedPanel: 310, rawPanel: 310 }), // no baseline: left out
+      withOutcome(100, [], { correctedPanel: 110, rawPanel: 112, baseline: 90, blend: 100 }),
+      withOutcome(200, [], { correctedPanel: 190, rawPanel: 185, baseline: 230, blend: 210 }),
+      withOutcome(400, [], { correctedPanel: 420, rawPanel: 430, baseline: 360, blend: 390 }),
+      withOutcome(300, [], { correctedPanel: 310, rawPanel: 310 }), // no baseline: left out
     ]);
     expect(h.withoutBaseline).toBe(1);
     // Relative errors (actual − figure)/actual: panel −0.1, 0.05, −0.05 → MSE 0.015/3;
@@ -390,27 +390,27 @@ describe("inverse-MSE weights from the organiser's resolved history (relative er
     expect(h.entries.map((e) => e.blend)).toEqual([100, 210, 390]);
   });
 
-  it("with fewer than 3 resolved questions the rule falls back to equal weights and says why", () => {
-    const h = historyOf([resolved(100, [], { correctedPanel: 110, baseline: 90, blend: 100 })]);
+  it("with fewer than 3 questions with an outcome the rule falls back to equal weights and says why", () => {
+    const h = historyOf([withOutcome(100, [], { correctedPanel: 110, baseline: 90, blend: 100 })]);
     const t = computeTriangulation(sharedInput({ weight: { rule: "inverse-mse", history: h.pairs } }));
     expect(t.weights!.applied).toBe("equal");
-    expect(t.weights!.reason).toMatch(/only 1 resolved question/);
+    expect(t.weights!.reason).toMatch(/only 1 recorded outcome/);
   });
 });
 
-describe("resolution scores", () => {
+describe("outcome scores", () => {
   it("errors are actual − figure; percent errors 100·error/actual (hand computation)", () => {
-    const s = scoreFigures(1000, resolved(1000, [{ inv: "a", member: "m", value: 1250 }], { rawPanel: 900, correctedPanel: 950, baseline: 1100, blend: 1020 }).figures);
+    const s = scoreFigures(1000, withOutcome(1000, [{ inv: "a", member: "m", value: 1250 }], { rawPanel: 900, correctedPanel: 950, baseline: 1100, blend: 1020 }).figures);
     expect([s.rawPanel.error, s.correctedPanel.error, s.baseline!.error, s.blend!.error]).toEqual([100, 50, -100, -20]);
     expect(s.rawPanel.absolutePercentError).toBeCloseTo(10, 12);
     expect(s.panelists[0]).toMatchObject({ label: "a", error: -250 });
-    const noBaseline = scoreFigures(1000, resolved(1000, [], { rawPanel: 900, correctedPanel: 950 }).figures);
+    const noBaseline = scoreFigures(1000, withOutcome(1000, [], { rawPanel: 900, correctedPanel: 950 }).figures);
     expect(noBaseline.baseline).toBeNull();
     expect(noBaseline.blend).toBeNull();
   });
 
   it("a sum-of-parts answer is scored only against its own part's actual, never the total (hand: 450 − 500 = −50)", () => {
-    const f = resolved(1000, [{ inv: "s1", member: "m1", value: 500 }, { inv: "s2", member: "m2", value: 300 }], { aggregation: "sum-of-parts", rawPanel: 800, correctedPanel: 800, baseline: 900, blend: 850 }).figures;
+    const f = withOutcome(1000, [{ inv: "s1", member: "m1", value: 500 }, { inv: "s2", member: "m2", value: 300 }], { aggregation: "sum-of-parts", rawPanel: 800, correctedPanel: 800, baseline: 900, blend: 850 }).figures;
     const s = scoreFigures(1000, f, [{ invitationId: "s1", actual: 450 }]);
     expect(s.rawPanel.error).toBe(200); // the total against the total
     expect(s.panelists).toHaveLength(1); // s2 has no part actual: not scored
@@ -419,19 +419,19 @@ describe("resolution scores", () => {
     expect(scoreFigures(1000, f).panelists).toEqual([]);
   });
 
-  it("an actual outside the question's bounds is refused, naming the number (−100 for a 0–100,000 question)", () => {
+  it("an outcome outside the question's bounds is refused, naming the number (−100 for a 0–100,000 question)", () => {
     const q = { lowerBound: 0, upperBound: 100000 };
     expect(() => checkWithinBounds(q, -100)).toThrow(InvalidInputError);
     let caught: unknown = null;
     try {
-      checkWithinBounds(q, -100, [{ pseudonym: "A", actual: 200000 }]);
+      checkWithinBounds(q, -100, [{ pseudonym: "A", outcomeValue: 200000 }]);
     } catch (err) {
       caught = err;
     }
     {
       expect((caught as InvalidInputError).errors).toEqual([
-        { field: "actual", message: "-100 is outside the question's bounds 0 to 100000" },
-        { field: "parts.0.actual", message: "200000 is outside the question's bounds 0 to 100000" },
+        { field: "outcomeValue", message: "-100 is outside the question's bounds 0 to 100000" },
+        { field: "parts.0.outcomeValue", message: "200000 is outside the question's bounds 0 to 100000" },
       ]);
     }
     expect(() => checkWithinBounds(q, 0)).not.toThrow();
@@ -447,8 +447,8 @@ describe("resolution scores", () => {
     } catch (err) {
       caught = err;
     }
-    expect((caught as InvalidInputError).errors).toEqual([{ field: "actual", message: "-1 is below the question's lower bound 0" }]);
-    expect(() => checkWithinBounds(q, 120000, [{ pseudonym: "A", actual: 60000 }])).toThrow(InvalidInputError);
+    expect((caught as InvalidInputError).errors).toEqual([{ field: "outcomeValue", message: "-1 is below the question's lower bound 0" }]);
+    expect(() => checkWithinBounds(q, 120000, [{ pseudonym: "A", outcomeValue: 60000 }])).toThrow(InvalidInputError);
   });
 });
 
@@ -481,7 +481,7 @@ describe("CSV export cells (formula injection)", () => {
       convergence: { rounds: [], verdict: null, recommendation: null, reasons: [] },
       departures: null,
       biasCorrection: [],
-      resolution: null,
+      outcome: null,
       movement: null,
       distributions: { panelRaw: null, panelCorrected: null, baseline: null, blend: null },
       methodNotes: ["-note"],

@@ -8,19 +8,19 @@
  */
 import { describe, expect, it } from "vitest";
 import { accuracyHistory, trackRecord } from "../../lib/blend";
-import { historyOf, recordsByMember, type ResolvedQuestion } from "../../lib/triangulation/track-records";
+import { historyOf, recordsByMember, type RecordedOutcome } from "../../lib/triangulation/track-records";
 
-/** A stored resolution whose panel figures and one panelist's ("m") answer are all `figure`. */
-function resolved(actual: number, figure: number): ResolvedQuestion {
+/** A stored outcome whose panel figures and one panelist's ("m") answer are all `figure`. */
+function withOutcome(actual: number, figure: number): RecordedOutcome {
   return {
     questionId: `q${actual}`,
     panelId: "p",
     panelTitle: "t",
     text: "x",
     unit: "units",
-    resolvedAt: new Date(0),
-    actual,
-    partActuals: [],
+    recordedAt: new Date(0),
+    outcomeValue: actual,
+    partOutcomes: [],
     figures: {
       round: 1,
       aggregation: "shared",
@@ -65,8 +65,8 @@ describe("track records skip and count unusable pairs", () => {
     expect(rec.bias.factor).toBe(1);
   });
 
-  it("through the stored resolutions: the member's skipped count includes it", () => {
-    const records = recordsByMember([resolved(100, 5e-324), resolved(110, 100)]).get("m")!.records;
+  it("through the stored outcomes: the member's skipped count includes it", () => {
+    const records = recordsByMember([withOutcome(100, 5e-324), withOutcome(110, 100)]).get("m")!.records;
     const rec = trackRecord(records);
     expect([rec.count, rec.skipped]).toEqual([1, 1]);
     expect(rec.meanLogRatio).toBeCloseTo(0.0953101798043249, 15); // ln 1.1
@@ -76,7 +76,7 @@ describe("track records skip and count unusable pairs", () => {
 describe("the accuracy history leaves out questions whose figures would overflow", () => {
 
   it("a question with figures of −1e308 against an actual of 1e308 is counted, not used", () => {
-    const h = historyOf([resolved(1e308, -1e308), resolved(110, 100), resolved(90, 100)]);
+    const h = historyOf([withOutcome(1e308, -1e308), withOutcome(110, 100), withOutcome(90, 100)]);
     expect(h.unusable).toBe(1);
     expect(h.entries).toHaveLength(2);
     const a = accuracyHistory(h.entries).rawPanel.accuracy;
@@ -87,7 +87,7 @@ describe("the accuracy history leaves out questions whose figures would overflow
   });
 
   it("an actual of 5e-324 is counted, not used", () => {
-    const h = historyOf([resolved(5e-324, 100), resolved(110, 100)]);
+    const h = historyOf([withOutcome(5e-324, 100), withOutcome(110, 100)]);
     expect([h.unusable, h.entries.length]).toEqual([1, 1]);
   });
 });

@@ -85,7 +85,7 @@ describe("sum-of-parts convergence: the panel page and the report agree", () => 
       convergence: { rounds: [POINT], verdict: null, recommendation: null, reasons: [] },
       departures: null,
       biasCorrection: [],
-      resolution: null,
+      outcome: null,
       movement: null,
       distributions: { panelRaw: null, panelCorrected: null, baseline: null, blend: null },
       methodNotes: [],

@@ -8,7 +8,7 @@ import { describe, expect, it } from "vitest";
 import { panelSteps, type PanelStepInput } from "../../lib/ui/panel-steps";
 
 const nextOf = (i: PanelStepInput) => panelSteps(i).find((s) => s.state === "next")?.id;
-const base: PanelStepInput = { questions: 0, invitations: 0, finished: false, baselines: 0, resolved: 0 };
+const base: PanelStepInput = { questions: 0, invitations: 0, finished: false, baselines: 0, outcomes: 0 };
 
 describe("panelSteps", () => {
   it("lists questions, invitations, rounds, baseline/blend, outcome, report in that order", () => {
@@ -22,7 +22,7 @@ describe("panelSteps", () => {
     expect(nextOf({ ...base, questions: 2, invitations: 5, finished: true })).toBe("blend");
     expect(nextOf({ ...base, questions: 2, invitations: 5, finished: true, baselines: 1 })).toBe("blend");
     expect(nextOf({ ...base, questions: 2, invitations: 5, finished: true, baselines: 2 })).toBe("outcome");
-    expect(nextOf({ ...base, questions: 2, invitations: 5, finished: true, baselines: 2, resolved: 2 })).toBe("report");
+    expect(nextOf({ ...base, questions: 2, invitations: 5, finished: true, baselines: 2, outcomes: 2 })).toBe("report");
   });
 
   it("marks exactly one step next, the ones before it done when they are", () => {

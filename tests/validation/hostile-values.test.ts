@@ -9,7 +9,7 @@
  */
 import { describe, expect, it } from "vitest";
 import { answerInput, questionInput } from "../../lib/validation/inputs";
-import { baselineInput, resolutionCorrection, resolutionInput } from "../../lib/validation/triangulation-inputs";
+import { baselineInput, outcomeCorrection, outcomeInput } from "../../lib/validation/triangulation-inputs";
 import { NUMBER_RANGE_MESSAGE } from "../../lib/validation/numbers";
 import { DEPTH_MESSAGE, MAX_DEPTH, NUL_MESSAGE, SURROGATE_MESSAGE, textFieldErrors } from "../../lib/validation/nul";
 import { readSeriesCsv } from "../../lib/csv/parse";
@@ -50,10 +50,10 @@ describe("numbers whose ratios or sums overflow are refused at input", () => {
     ]);
   });
 
-  it("actual values, part actuals, corrections, pasted history, future values and scale factors", () => {
-    expect(messages(resolutionInput.safeParse({ actual: 5e-324 }))).toEqual([`actual: ${NUMBER_RANGE_MESSAGE}`]);
-    expect(messages(resolutionInput.safeParse({ actual: 10, parts: [{ pseudonym: "P1", actual: 1e300 }] }))).toEqual([`parts.0.actual: ${NUMBER_RANGE_MESSAGE}`]);
-    expect(messages(resolutionCorrection.safeParse({ actual: -1e308, reason: "typo" }))).toEqual([`actual: ${NUMBER_RANGE_MESSAGE}`]);
+  it("outcome values, part outcomes, corrections, pasted history, future values and scale factors", () => {
+    expect(messages(outcomeInput.safeParse({ outcomeValue: 5e-324 }))).toEqual([`outcomeValue: ${NUMBER_RANGE_MESSAGE}`]);
+    expect(messages(outcomeInput.safeParse({ outcomeValue: 10, parts: [{ pseudonym: "P1", outcomeValue: 1e300 }] }))).toEqual([`parts.0.outcomeValue: ${NUMBER_RANGE_MESSAGE}`]);
+    expect(messages(outcomeCorrection.safeParse({ outcomeValue: -1e308, reason: "typo" }))).toEqual([`outcomeValue: ${NUMBER_RANGE_MESSAGE}`]);
     expect(messages(baselineInput.safeParse({ values: [1, 2, 5e-324] }))).toEqual([`values.2: ${NUMBER_RANGE_MESSAGE}`]);
     expect(messages(baselineInput.safeParse({ csv: "x,value\n1,2\n", futureValues: { x: [1e200] } }))).toEqual([`futureValues.x.0: ${NUMBER_RANGE_MESSAGE}`]);
     expect(messages(baselineInput.safeParse({ values: [1, 2], analogue: { scaleFactor: 5e-324, note: "n" } }))).toEqual([`analogue.scaleFactor: ${NUMBER_RANGE_MESSAGE}`]);

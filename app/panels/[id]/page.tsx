@@ -7,7 +7,7 @@ import { getPanel, getPanelMilestones, listShares } from "@/lib/panels/panels";
 import { smtpConfigured } from "@/lib/mail/smtp";
 import { listOutbox } from "@/lib/panels/messages";
 import { panelSteps, type StepId } from "@/lib/ui/panel-steps";
-import { MIN_RESOLVED_FOR_WEIGHTS } from "@/lib/blend";
+import { MIN_OUTCOMES_FOR_WEIGHTS } from "@/lib/blend";
 import { getPanelBlendRule } from "@/lib/triangulation/report-views";
 import { listRoster } from "@/lib/panels/roster";
 import { getProgress } from "@/lib/panels/rounds";
@@ -93,7 +93,7 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
     invite: "#invitations",
     rounds: "#rounds",
     blend: questionPage(milestones.firstWithoutBaseline),
-    outcome: questionPage(milestones.firstUnresolved),
+    outcome: questionPage(milestones.firstWithoutOutcome),
     report: `/reports/${id}`,
   };
   const finishForm = (primary: boolean) => (
@@ -235,7 +235,7 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
             ) : (
               <p>
                 <a href={`/panels/${id}/questions/${q.id}`} data-question-link={q.id}>
-                  Baseline, blend and resolution of this question
+                  Baseline, blend and outcome of this question
                 </a>{" "}
                 · <a href={`/reports/${id}/questions/${q.id}`}>Reviewer report</a>
               </p>
@@ -480,7 +480,7 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
                 {panel.questions.length} have a baseline);
               </li>
               <li>
-                <a href={stepHref.outcome}>Record the outcome</a> of each question once it is known ({milestones.resolved} of {panel.questions.length} recorded);
+                <a href={stepHref.outcome}>Record the outcome</a> of each question once it is known ({milestones.outcomes} of {panel.questions.length} recorded);
               </li>
               <li>
                 <a href={stepHref.report}>Read and share the report</a>.
@@ -554,7 +554,7 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
             {blendRule.rule === "equal"
               ? "equal weights"
               : blendRule.rule === "inverse-mse"
-                ? "inverse-MSE weights from your resolved questions"
+                ? "inverse-MSE weights from your past outcomes"
                 : `set by the organiser, w = ${blendRule.panelWeight}`}
           </strong>
           {blendRule.calibrationQuestions > 0 ? (
@@ -573,8 +573,8 @@ export default async function PanelPage({ params }: { params: Promise<{ id: stri
               <input type="radio" name="rule" value="equal" defaultChecked={blendRule.rule === "equal"} /> Equal weights (50/50; Blattberg &amp; Hoch 1990)
             </label>
             <label className="inline">
-              <input type="radio" name="rule" value="inverse-mse" defaultChecked={blendRule.rule === "inverse-mse"} /> Inverse-MSE from resolved history (Bates
-              &amp; Granger 1969; equal weights until {MIN_RESOLVED_FOR_WEIGHTS} questions are resolved)
+              <input type="radio" name="rule" value="inverse-mse" defaultChecked={blendRule.rule === "inverse-mse"} /> Inverse-MSE from past outcomes (Bates
+              &amp; Granger 1969; equal weights until {MIN_OUTCOMES_FOR_WEIGHTS} outcomes are recorded)
             </label>
             <label className="inline">
               <input type="radio" name="rule" value="organiser" defaultChecked={blendRule.rule === "organiser"} /> Set by me

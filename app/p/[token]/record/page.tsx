@@ -78,7 +78,7 @@ export default async function OwnRecordPage({ params }: { params: Promise<{ toke
           <p className="muted">No outcome of your answers has been recorded yet.</p>
         ) : (
           <>
-            <OwnErrorChart labels={r.outcomes.map((o) => formatDate(o.resolvedAt))} values={r.outcomes.map((o) => o.errorPercent ?? 0)} />
+            <OwnErrorChart labels={r.outcomes.map((o) => formatDate(o.recordedAt))} values={r.outcomes.map((o) => o.errorPercent ?? 0)} />
             <p className="muted small">
               One point per recorded outcome, in the order the outcomes were recorded (dated): how far your answer (the middle of a range) was above or below the outcome,
               in percent of the outcome. The question behind each point is not listed, so that this page shows no more of your answers than your record needs.

@@ -1,16 +1,16 @@
 "use server";
 /**
  * Server actions of the organiser's question page: baseline (preview or attach), blend weight
- * rule, resolution and its audited correction. Each one: parse the form with the zod schema
+ * rule, outcome and its audited correction. Each one: parse the form with the zod schema
  * from lib/validation, call one service, revalidate, return what the form shows.
  */
 import { revalidatePath } from "next/cache";
 import { attachBaseline, previewBaseline, type BaselineView } from "@/lib/triangulation/baselines";
-import { correctResolution, previewResolution, resolveQuestion, type ResolutionPreview } from "@/lib/triangulation/resolution";
+import { correctOutcome, previewOutcome, recordOutcome, type OutcomePreview } from "@/lib/triangulation/outcome";
 import { setQuestionBlendRule } from "@/lib/triangulation/triangulation";
 import { getCurrentUser } from "@/lib/session";
 import { params } from "@/lib/validation/inputs";
-import { baselineInput, questionBlendRuleInput, resolutionCorrection, resolutionInput } from "@/lib/validation/triangulation-inputs";
+import { baselineInput, questionBlendRuleInput, outcomeCorrection, outcomeInput } from "@/lib/validation/triangulation-inputs";
 import type { FormState } from "@/lib/actions/form-state";
 import type { BaselineFormState, BaselinePreviewPayload } from "@/lib/ui/baseline-form";
 import { formObject, fromThrown, fromZodError, withNumbers } from "@/lib/actions/form-result";
@@ -28,7 +28,7 @@ function revalidate(panelId: string, questionId: string): void {
   revalidatePath(`/reports/${panelId}/questions/${questionId}`);
 }
 
-/** After a resolution changes: the question's pages plus the track records and accuracy history. */
+/** After an outcome changes: the question's pages plus the track records and accuracy history. */
 function revalidateScored(panelId: string, questionId: string): void {
   revalidate(panelId, questionId);
   revalidatePath("/accuracy");
@@ -89,46 +89,46 @@ export async function blendRuleAction(_p: FormState, formData: FormData): Promis
 }
 
 /**
- * The first submission of an actual value only checks it (as saving would) and shows the number
+ * The first submission of an outcome value only checks it (as saving would) and shows the number
  * as it will be stored, with its unit; the form's confirm button sends it back as
- * `confirmActual`, and only a submission whose actual equals it is saved.
+ * `confirmOutcome`, and only a submission whose outcome value equals it is saved.
  */
-function confirmStep(p: ResolutionPreview): FormState {
-  const v = `${formatExact(p.actual)} ${p.unit}`;
+function confirmStep(p: OutcomePreview): FormState {
+  const v = `${formatExact(p.outcomeValue)} ${p.unit}`;
   const correcting = p.recorded !== null;
   return {
     confirm: {
-      field: "confirmActual",
-      value: String(p.actual),
+      field: "confirmOutcome",
+      value: String(p.outcomeValue),
       text: correcting
-        ? `Correct the recorded actual value from ${formatExact(p.recorded!)} ${p.unit} to ${v}? The correction and your reason are logged.`
-        : `Record ${v} as the actual value of “${p.text}”? Every figure is scored against it; a later correction is logged.`,
+        ? `Correct the recorded outcome value from ${formatExact(p.recorded!)} ${p.unit} to ${v}? The correction and your reason are logged.`
+        : `Record ${v} as the outcome of “${p.text}”? Every figure is scored against it; a later correction is logged.`,
       submitLabel: correcting ? `Yes, correct it to ${v}` : `Yes, record ${v}`,
     },
   };
 }
 
 /** True when the form carries the confirmation of exactly this value. */
-function confirmed(values: Record<string, string>, actual: number): boolean {
-  return values.confirmActual !== undefined && values.confirmActual !== "" && Number(values.confirmActual) === actual;
+function confirmed(values: Record<string, string>, outcomeValue: number): boolean {
+  return values.confirmOutcome !== undefined && values.confirmOutcome !== "" && Number(values.confirmOutcome) === outcomeValue;
 }
 
-export async function resolveAction(_p: FormState, formData: FormData): Promise<FormState> {
+export async function recordOutcomeAction(_p: FormState, formData: FormData): Promise<FormState> {
   const values = formObject(formData);
   return signedInAction(values, params.question, async (user, id, input) => {
-    if (!confirmed(values, input.actual)) return confirmStep(await previewResolution(user, id.panelId, id.questionId, input, "resolve"));
-    const r = await resolveQuestion(user, id.panelId, id.questionId, input);
+    if (!confirmed(values, input.outcomeValue)) return confirmStep(await previewOutcome(user, id.panelId, id.questionId, input, "record"));
+    const r = await recordOutcome(user, id.panelId, id.questionId, input);
     revalidateScored(id.panelId, id.questionId);
-    return { ok: true, message: `Resolved with the actual value ${formatExact(r.actual)}; every figure is scored below.` };
-  }, [resolutionInput, withNumbers({ actual: values.actual ?? "", note: values.note ?? "" }, ["actual"])]);
+    return { ok: true, message: `Outcome recorded: ${formatExact(r.outcomeValue)}; every figure is scored below.` };
+  }, [outcomeInput, withNumbers({ outcomeValue: values.outcomeValue ?? "", note: values.note ?? "" }, ["outcomeValue"])]);
 }
 
-export async function correctResolutionAction(_p: FormState, formData: FormData): Promise<FormState> {
+export async function correctOutcomeAction(_p: FormState, formData: FormData): Promise<FormState> {
   const values = formObject(formData);
   return signedInAction(values, params.question, async (user, id, input) => {
-    if (!confirmed(values, input.actual)) return confirmStep(await previewResolution(user, id.panelId, id.questionId, input, "correct"));
-    const r = await correctResolution(user, id.panelId, id.questionId, input);
+    if (!confirmed(values, input.outcomeValue)) return confirmStep(await previewOutcome(user, id.panelId, id.questionId, input, "correct"));
+    const r = await correctOutcome(user, id.panelId, id.questionId, input);
     revalidateScored(id.panelId, id.questionId);
-    return { ok: true, message: `Actual value corrected to ${formatExact(r.actual)}; the correction and its reason are in the audit log.` };
-  }, [resolutionCorrection, withNumbers({ actual: values.actual ?? "", reason: values.reason ?? "" }, ["actual"])]);
+    return { ok: true, message: `Outcome value corrected to ${formatExact(r.outcomeValue)}; the correction and its reason are in the audit log.` };
+  }, [outcomeCorrection, withNumbers({ outcomeValue: values.outcomeValue ?? "", reason: values.reason ?? "" }, ["outcomeValue"])]);
 }

@@ -18,11 +18,11 @@ import {
   DepartureSection,
   LegsSideBySide,
   NotesInputsCautions,
-  ResolutionScores,
+  OutcomeSection,
   TrackRecordTable,
   WeightInputs,
 } from "@/lib/ui/triangulation-sections";
-import { baselineAction, blendRuleAction, correctResolutionAction, resolveAction } from "./actions";
+import { baselineAction, blendRuleAction, correctOutcomeAction, recordOutcomeAction } from "./actions";
 
 export const metadata: Metadata = { title: "Question" };
 
@@ -55,9 +55,9 @@ export default async function QuestionPage({ params }: { params: Promise<{ id: s
     baselineOrNull(() => getBaseline(user, id, qid)),
     listAuditEvents(user, id),
   ]);
-  const resolved = report.resolution !== null;
+  const hasOutcome = report.outcome !== null;
   const openRound = panel.rounds.some((r) => r.status === "open");
-  const corrections = audit.filter((e) => e.action === "resolution.corrected" && e.detail.questionId === qid);
+  const corrections = audit.filter((e) => e.action === "outcome.corrected" && e.detail.questionId === qid);
   const rule = current.from === "question" ? current.rule : "panel";
   return (
     <article className="question-page">
@@ -78,8 +78,8 @@ export default async function QuestionPage({ params }: { params: Promise<{ id: s
 
       <section aria-labelledby="attach-h" className="card">
         <h2 id="attach-h">{baseline ? "Replace the baseline" : "Attach a baseline"}</h2>
-        {resolved ? (
-          <p className="muted">The question is resolved: its baseline is part of the scored record and can no longer change.</p>
+        {hasOutcome ? (
+          <p className="muted">The outcome is recorded: the baseline is part of the scored record and can no longer change.</p>
         ) : (
           <>
             <p className="hint">
@@ -120,11 +120,11 @@ export default async function QuestionPage({ params }: { params: Promise<{ id: s
       <section aria-labelledby="weights-h" className="card">
         <h2 id="weights-h">Blend weight rule</h2>
         <p className="small">
-          Rule now: <strong>{current.rule === "equal" ? "equal weights" : current.rule === "inverse-mse" ? "inverse-MSE from resolved history" : `set by the organiser (w = ${current.panelWeight})`}</strong>,{" "}
+          Rule now: <strong>{current.rule === "equal" ? "equal weights" : current.rule === "inverse-mse" ? "inverse-MSE from past outcomes" : `set by the organiser (w = ${current.panelWeight})`}</strong>,{" "}
           {current.from === "question" ? "set on this question" : "the panel's rule"}.
         </p>
         <WeightInputs report={report} />
-        {resolved ? null : (
+        {hasOutcome ? null : (
           <ActionForm action={blendRuleAction} submitLabel="Save weight rule" ariaLabel="Blend weight rule">
             <input type="hidden" name="panelId" value={id} />
             <input type="hidden" name="questionId" value={qid} />
@@ -137,7 +137,7 @@ export default async function QuestionPage({ params }: { params: Promise<{ id: s
                 <input type="radio" name="rule" value="equal" defaultChecked={rule === "equal"} /> Equal weights (50/50; Blattberg &amp; Hoch 1990)
               </label>
               <label className="inline">
-                <input type="radio" name="rule" value="inverse-mse" defaultChecked={rule === "inverse-mse"} /> Inverse-MSE from resolved history (Bates &amp;
+                <input type="radio" name="rule" value="inverse-mse" defaultChecked={rule === "inverse-mse"} /> Inverse-MSE from past outcomes (Bates &amp;
                 Granger 1969)
               </label>
               <label className="inline">
@@ -159,21 +159,21 @@ export default async function QuestionPage({ params }: { params: Promise<{ id: s
       <TrackRecordTable report={report} />
       <DepartureSection report={report} />
 
-      <section aria-labelledby="resolve-h" className="card">
-        <h2 id="resolve-h">{resolved ? "Correct the actual value" : "Resolve the question"}</h2>
-        {resolved ? (
+      <section aria-labelledby="outcome-form-h" className="card">
+        <h2 id="outcome-form-h">{hasOutcome ? "Correct the outcome" : "Record the outcome"}</h2>
+        {hasOutcome ? (
           <>
             <p className="hint">
               A correction rescores the figures as they were reported; the old value, the new one and your reason are kept in the audit log.
             </p>
-            <ActionForm action={correctResolutionAction} submitLabel="Correct the actual value" ariaLabel="Correct the actual value">
+            <ActionForm action={correctOutcomeAction} submitLabel="Correct the outcome" ariaLabel="Correct the outcome">
               <input type="hidden" name="panelId" value={id} />
               <input type="hidden" name="questionId" value={qid} />
               <div className="row">
                 <label>
-                  Corrected actual value ({question.unit})
-                  <input name="actual" inputMode="decimal" />
-                  <FieldError name="actual" />
+                  Corrected outcome value ({question.unit})
+                  <input name="outcomeValue" inputMode="decimal" />
+                  <FieldError name="outcomeValue" />
                 </label>
                 <label style={{ flexBasis: "24rem" }}>
                   Reason
@@ -203,14 +203,14 @@ export default async function QuestionPage({ params }: { params: Promise<{ id: s
               and the track records behind bias factors and inverse-MSE weights include it from then on. You will see the number as it will be recorded, with
               its unit, and confirm it before anything is saved.
             </p>
-            <ActionForm action={resolveAction} submitLabel="Resolve" ariaLabel="Resolve the question">
+            <ActionForm action={recordOutcomeAction} submitLabel="Record the outcome" ariaLabel="Record the outcome">
               <input type="hidden" name="panelId" value={id} />
               <input type="hidden" name="questionId" value={qid} />
               <div className="row">
                 <label>
-                  Actual value ({question.unit})
-                  <input name="actual" inputMode="decimal" />
-                  <FieldError name="actual" />
+                  Outcome value ({question.unit})
+                  <input name="outcomeValue" inputMode="decimal" />
+                  <FieldError name="outcomeValue" />
                 </label>
                 <label style={{ flexBasis: "24rem" }}>
                   Where the value comes from
@@ -223,7 +223,7 @@ export default async function QuestionPage({ params }: { params: Promise<{ id: s
         )}
       </section>
 
-      <ResolutionScores report={report} />
+      <OutcomeSection report={report} />
       <NotesInputsCautions report={report} />
     </article>
   );

@@ -14,7 +14,7 @@ import {
   DepartureSection,
   LegsSideBySide,
   NotesInputsCautions,
-  ResolutionScores,
+  OutcomeSection,
   TrackRecordTable,
   WeightInputs,
 } from "@/lib/ui/triangulation-sections";
@@ -110,7 +110,7 @@ export default async function QuestionReportPage({ params }: { params: Promise<{
           <WeightInputs report={report} />
         </section>
       ) : null}
-      <ResolutionScores report={report} />
+      <OutcomeSection report={report} />
       <NotesInputsCautions report={report} />
     </article>
   );

@@ -1,32 +1,35 @@
 /**
- * Resolution (docs/methods.md §14.9): the organiser records a question's actual value,
+ * Outcome (docs/methods.md §14.9): the organiser records a question's outcome value,
  * once. The figures as they stand at that moment (raw panel, corrected panel, baseline, blend
  * and each panelist's final answer, with the bias factor applied to it) are stored with it and
- * scored by lib/blend `scoreResolution` / `scoreFigure` (errors actual − figure, percent
+ * scored by lib/blend `scoreOutcome` / `scoreFigure` (errors outcome − figure, percent
  * errors, and the scaled error against the baseline history's naive MAE, Hyndman & Koehler
  * 2006). Track records and the accuracy history are derived from these rows on read
  * (lib/triangulation/track-records.ts).
  *
- * Correcting a recorded actual is a separate, audited action with a reason; it rescores the
+ * Correcting a recorded outcome is a separate, audited action with a reason; it rescores the
  * stored figures (which do not change: they are what was reported).
  *
- * A question can be resolved once its panel has a closed round with answers to it and no
+ * The rows live in the database table `Resolution` (its name from an earlier version; the
+ * columns `actual` and `resolvedAt` are mapped here to `outcomeValue` and `recordedAt`).
+ *
+ * An outcome can be recorded once its panel has a closed round with answers to it and no
  * round is open (an open round would change the panel figure after it was scored).
  */
 import { db, isUniqueViolation } from "@/lib/db";
 import { ConflictError, InvalidInputError, NotFoundError, type FieldError } from "@/lib/errors";
 import type { Actor } from "@/lib/accounts/actor";
-import { scoreFigure, scoreResolution, type FigureScore, type ResolutionScores } from "@/lib/blend";
-import type { ResolutionCorrection, ResolutionInput } from "@/lib/validation/triangulation-inputs";
+import { scoreFigure, scoreOutcome, type FigureScore, type OutcomeScores } from "@/lib/blend";
+import type { OutcomeCorrection, OutcomeInput } from "@/lib/validation/triangulation-inputs";
 import { authorisePanel } from "../panels/access";
 import { recordAudit } from "../panels/audit";
 import { loadTriangulation } from "./triangulation";
 import { runJob } from "@/lib/work/pool";
-import type { ResolutionFigures } from "./track-records";
+import type { OutcomeFigures } from "./track-records";
 import { jsonSafe, type JsonSafe } from "../panels/json";
 import type { BaselinePreview } from "./baselines";
 
-/** The scores of a resolution; baseline and blend are null without a baseline. */
+/** The scores of an outcome as stored (lib/blend's field names); baseline and blend are null without a baseline. */
 export interface StoredScores {
   readonly actual: number;
   readonly rawPanel: FigureScore;
@@ -37,18 +40,31 @@ export interface StoredScores {
   readonly panelists: readonly FigureScore[];
 }
 
-export interface ResolutionView {
+/** One figure's scores as shown: lib/blend's `FigureScore` with its `actual` named `outcomeValue`. */
+export type ShownScore = Omit<JsonSafe<FigureScore>, "actual"> & { readonly outcomeValue: number | null };
+
+/** The stored scores as shown (API, pages, CSV). */
+export interface ShownScores {
+  readonly outcomeValue: number | null;
+  readonly rawPanel: ShownScore;
+  readonly correctedPanel: ShownScore;
+  readonly baseline: ShownScore | null;
+  readonly blend: ShownScore | null;
+  readonly panelists: readonly ShownScore[];
+}
+
+export interface OutcomeView {
   readonly questionId: string;
-  readonly actual: number;
+  readonly outcomeValue: number;
   readonly note: string;
-  readonly parts: readonly { readonly pseudonym: string; readonly actual: number }[];
-  readonly resolvedAt: string;
+  readonly parts: readonly { readonly pseudonym: string; readonly outcomeValue: number }[];
+  readonly recordedAt: string;
   readonly correctedAt: string | null;
-  readonly figures: Omit<ResolutionFigures, "panelists" | "baselineTraining"> & {
+  readonly figures: Omit<OutcomeFigures, "panelists" | "baselineTraining"> & {
     /** Answers only: the bias factor each one got comes from its panelist's history across panels and would name them (lib/triangulation/report-views.ts). */
     readonly panelists: readonly { readonly pseudonym: string; readonly value: number; readonly low: number | null; readonly high: number | null }[];
   };
-  readonly scores: JsonSafe<StoredScores>;
+  readonly scores: ShownScores;
 }
 
 /**
@@ -57,7 +73,7 @@ export interface ResolutionView {
  * On a sum-of-parts question an answer is a part, so it is scored only against its own part's
  * actual (`parts`, by invitation id), never against the total, and without the total's MASE scale.
  */
-export function scoreFigures(actual: number, f: ResolutionFigures, parts: readonly { invitationId: string; actual: number }[] = []): StoredScores {
+export function scoreFigures(actual: number, f: OutcomeFigures, parts: readonly { invitationId: string; actual: number }[] = []): StoredScores {
   const options = f.baselineTraining.length >= 2 ? { training: f.baselineTraining, season: f.baselineSeason } : {};
   const sum = f.aggregation === "sum-of-parts";
   const panelistScores = () =>
@@ -69,7 +85,7 @@ export function scoreFigures(actual: number, f: ResolutionFigures, parts: readon
       : f.panelists.map((p) => scoreFigure(p.pseudonym, actual, p.value, options));
   if (f.baseline !== null && f.blend !== null) {
     const panelists = sum ? {} : Object.fromEntries(f.panelists.map((p) => [p.pseudonym, p.value]));
-    const s: ResolutionScores = scoreResolution(actual, { rawPanel: f.rawPanel, correctedPanel: f.correctedPanel, baseline: f.baseline, blend: f.blend, panelists }, options);
+    const s: OutcomeScores = scoreOutcome(actual, { rawPanel: f.rawPanel, correctedPanel: f.correctedPanel, baseline: f.baseline, blend: f.blend, panelists }, options);
     return sum ? { ...s, panelists: panelistScores() } : s;
   }
   return {
@@ -83,16 +99,16 @@ export function scoreFigures(actual: number, f: ResolutionFigures, parts: readon
 }
 
 /**
- * Holds an actual value, and each part's, to the question's plausible bounds, naming the number
- * and the bounds in the message (an actual of −100 for a 0–100,000 question is refused, 422).
+ * Holds an outcome value, and each part's, to the question's plausible bounds, naming the number
+ * and the bounds in the message (an outcome of −100 for a 0–100,000 question is refused, 422).
  * On a sum-of-parts question the bounds are one part's (each panelist answers for their own part),
  * so the total is held to the lower bound only: it may exceed a part's upper bound.
  * @throws InvalidInputError for a value outside [lowerBound, upperBound].
  */
 export function checkWithinBounds(
   question: { lowerBound: number; upperBound: number; aggregation?: string },
-  actual: number,
-  parts: readonly { pseudonym: string; actual: number }[] = [],
+  outcomeValue: number,
+  parts: readonly { pseudonym: string; outcomeValue: number }[] = [],
 ): void {
   const errors: FieldError[] = [];
   const check = (field: string, v: number) => {
@@ -101,48 +117,63 @@ export function checkWithinBounds(
     }
   };
   if (question.aggregation === "sum-of-parts") {
-    if (actual < question.lowerBound) errors.push({ field: "actual", message: `${actual} is below the question's lower bound ${question.lowerBound}` });
-  } else check("actual", actual);
-  parts.forEach((p, i) => check(`parts.${i}.actual`, p.actual));
+    if (outcomeValue < question.lowerBound) errors.push({ field: "outcomeValue", message: `${outcomeValue} is below the question's lower bound ${question.lowerBound}` });
+  } else check("outcomeValue", outcomeValue);
+  parts.forEach((p, i) => check(`parts.${i}.outcomeValue`, p.outcomeValue));
   if (errors.length > 0) throw new InvalidInputError(errors);
 }
 
 function partsFor(
-  parts: readonly { pseudonym: string; actual: number }[],
-  figures: ResolutionFigures,
+  parts: readonly { pseudonym: string; outcomeValue: number }[],
+  figures: OutcomeFigures,
 ): { invitationId: string; actual: number }[] {
   if (parts.length > 0 && figures.aggregation !== "sum-of-parts") {
-    throw new InvalidInputError([{ field: "parts", message: "part actuals apply only to sum-of-parts questions" }]);
+    throw new InvalidInputError([{ field: "parts", message: "part outcomes apply only to sum-of-parts questions" }]);
   }
   const errors: FieldError[] = [];
   const out: { invitationId: string; actual: number }[] = [];
   parts.forEach((p, i) => {
     const who = figures.panelists.find((x) => x.pseudonym === p.pseudonym);
     if (!who) errors.push({ field: `parts.${i}.pseudonym`, message: `no panelist ${p.pseudonym} answered this question in round ${figures.round}` });
-    else out.push({ invitationId: who.invitationId, actual: p.actual });
+    else out.push({ invitationId: who.invitationId, actual: p.outcomeValue });
   });
   if (errors.length > 0) throw new InvalidInputError(errors);
   return out;
 }
 
-function view(r: { questionId: string; actual: number; note: string; partActuals: string; figures: string; scores: string; resolvedAt: Date; correctedAt: Date | null }): ResolutionView {
-  const f = JSON.parse(r.figures) as ResolutionFigures;
+/** A stored score with `actual` (the stored name) shown as `outcomeValue`. */
+function shownScore(s: JsonSafe<FigureScore>): ShownScore {
+  const { actual, ...rest } = s;
+  return { ...rest, outcomeValue: actual };
+}
+
+/** A row of the `Resolution` table (the table's historical name) as the outcome view. */
+function view(r: { questionId: string; actual: number; note: string; partActuals: string; figures: string; scores: string; resolvedAt: Date; correctedAt: Date | null }): OutcomeView {
+  const f = JSON.parse(r.figures) as OutcomeFigures;
   const parts = JSON.parse(r.partActuals) as { invitationId: string; actual: number }[];
   const { baselineTraining: _t, panelists, ...rest } = f;
+  const s = JSON.parse(r.scores) as JsonSafe<StoredScores>;
   return {
     questionId: r.questionId,
-    actual: r.actual,
+    outcomeValue: r.actual,
     note: r.note,
-    parts: parts.map((p) => ({ pseudonym: f.panelists.find((x) => x.invitationId === p.invitationId)?.pseudonym ?? "?", actual: p.actual })),
-    resolvedAt: r.resolvedAt.toISOString(),
+    parts: parts.map((p) => ({ pseudonym: f.panelists.find((x) => x.invitationId === p.invitationId)?.pseudonym ?? "?", outcomeValue: p.actual })),
+    recordedAt: r.resolvedAt.toISOString(),
     correctedAt: r.correctedAt?.toISOString() ?? null,
     figures: { ...rest, panelists: panelists.map((p) => ({ pseudonym: p.pseudonym, value: p.value, low: p.low, high: p.high })) },
-    scores: JSON.parse(r.scores) as JsonSafe<StoredScores>,
+    scores: {
+      outcomeValue: s.actual,
+      rawPanel: shownScore(s.rawPanel),
+      correctedPanel: shownScore(s.correctedPanel),
+      baseline: s.baseline && shownScore(s.baseline),
+      blend: s.blend && shownScore(s.blend),
+      panelists: s.panelists.map(shownScore),
+    },
   };
 }
 
-/** The figures of a question as they stand now, for storing at resolution. */
-export async function currentFigures(panelId: string, questionId: string): Promise<ResolutionFigures> {
+/** The figures of a question as they stand now, for storing with its outcome. */
+export async function currentFigures(panelId: string, questionId: string): Promise<OutcomeFigures> {
   const loaded = await loadTriangulation(panelId, questionId);
   const t = await runJob("triangulation", loaded.input);
   if (!t.panel) throw new ConflictError("no-panel-figure", "No closed round has answers to this question, so there is no panel figure to score yet.");
@@ -174,85 +205,85 @@ export async function currentFigures(panelId: string, questionId: string): Promi
 }
 
 /** What is about to be recorded, for the confirmation the organiser sees before saving. */
-export interface ResolutionPreview {
+export interface OutcomePreview {
   readonly questionId: string;
   readonly text: string;
   readonly unit: string;
-  /** The actual value as it will be stored. */
-  readonly actual: number;
-  /** The value recorded now (a correction); null before the question is resolved. */
+  /** The outcome value as it will be stored. */
+  readonly outcomeValue: number;
+  /** The value recorded now (a correction); null before the outcome is recorded. */
   readonly recorded: number | null;
-  readonly parts: readonly { readonly pseudonym: string; readonly actual: number }[];
+  readonly parts: readonly { readonly pseudonym: string; readonly outcomeValue: number }[];
 }
 
-/** The checks before a first resolution; the question row on success. */
-async function readyToResolve(actor: Actor, panelId: string, questionId: string, input: ResolutionInput) {
+/** The checks before an outcome is first recorded; the question row on success. */
+async function readyToRecord(actor: Actor, panelId: string, questionId: string, input: OutcomeInput) {
   const access = await authorisePanel(actor, panelId, "manage");
   const question = await db.question.findFirst({ where: { id: questionId, panelId } });
   if (!question) throw new NotFoundError("The question");
   if (question.calibration) throw new ConflictError("calibration-question", "A calibration question has a true value instead of an outcome: enter it on the panel page (or PUT …/true-value).");
   if (await db.resolution.findUnique({ where: { questionId } })) {
-    throw new ConflictError("question-resolved", "The question is already resolved; correct the recorded value instead (PATCH, with a reason).");
+    throw new ConflictError("outcome-recorded", "The question's outcome is already recorded; correct the recorded value instead (PATCH, with a reason).");
   }
   if (await db.round.findFirst({ where: { panelId, status: "open" } })) {
-    throw new ConflictError("round-still-open", "A round is open: close it before resolving, so the panel figure that is scored is final.");
+    throw new ConflictError("round-still-open", "A round is open: close it before recording the outcome, so the panel figure that is scored is final.");
   }
-  checkWithinBounds(question, input.actual, input.parts);
+  checkWithinBounds(question, input.outcomeValue, input.parts);
   return { access, question };
 }
 
-/** The checks before a correction; the question and its resolution on success. */
-async function readyToCorrect(actor: Actor, panelId: string, questionId: string, input: ResolutionCorrection) {
+/** The checks before a correction; the question and its stored outcome on success. */
+async function readyToCorrect(actor: Actor, panelId: string, questionId: string, input: OutcomeCorrection) {
   const access = await authorisePanel(actor, panelId, "manage");
   const question = await db.question.findFirst({ where: { id: questionId, panelId } });
   if (!question) throw new NotFoundError("The question");
   const existing = await db.resolution.findUnique({ where: { questionId } });
-  if (!existing) throw new NotFoundError("The question's resolution");
-  checkWithinBounds(question, input.actual, input.parts ?? []);
+  if (!existing) throw new NotFoundError("The question's outcome");
+  checkWithinBounds(question, input.outcomeValue, input.parts ?? []);
   return { access, question, existing };
 }
 
 /**
- * Everything {@link resolveQuestion} (or, for a resolved question, {@link correctResolution})
+ * Everything {@link recordOutcome} (or, for a recorded outcome, {@link correctOutcome})
  * checks, without writing: the value that would be recorded with the question's unit, so the
  * organiser confirms the number itself before it is saved (the form's two steps).
- * @throws as resolveQuestion / correctResolution do.
+ * @throws as recordOutcome / correctOutcome do.
  */
-export async function previewResolution(
+export async function previewOutcome(
   actor: Actor,
   panelId: string,
   questionId: string,
-  input: ResolutionInput | ResolutionCorrection,
-  kind: "resolve" | "correct",
-): Promise<ResolutionPreview> {
+  input: OutcomeInput | OutcomeCorrection,
+  kind: "record" | "correct",
+): Promise<OutcomePreview> {
   const ready =
-    kind === "resolve"
-      ? { ...(await readyToResolve(actor, panelId, questionId, input as ResolutionInput)), existing: null }
-      : await readyToCorrect(actor, panelId, questionId, input as ResolutionCorrection);
+    kind === "record"
+      ? { ...(await readyToRecord(actor, panelId, questionId, input as OutcomeInput)), existing: null }
+      : await readyToCorrect(actor, panelId, questionId, input as OutcomeCorrection);
   const q = ready.question;
-  return { questionId, text: q.text, unit: q.unit, actual: input.actual, recorded: ready.existing?.actual ?? null, parts: input.parts ?? [] };
+  return { questionId, text: q.text, unit: q.unit, outcomeValue: input.outcomeValue, recorded: ready.existing?.actual ?? null, parts: input.parts ?? [] };
 }
 
 /**
- * Records a question's actual value and scores every figure (organisers of the panel; audited).
- * @throws ConflictError (409) when already resolved, a round is open, or there is no panel figure.
- * @throws InvalidInputError (422) for part actuals on a shared question, an unknown pseudonym, or a
+ * Records a question's outcome value and scores every figure (organisers of the panel; audited).
+ * @throws ConflictError (409) when the outcome is already recorded, a round is open, or there is no panel figure.
+ * @throws InvalidInputError (422) for part outcomes on a shared question, an unknown pseudonym, or a
  *   value outside the question's bounds.
  */
-export async function resolveQuestion(actor: Actor, panelId: string, questionId: string, input: ResolutionInput): Promise<ResolutionView> {
-  const { access } = await readyToResolve(actor, panelId, questionId, input);
+export async function recordOutcome(actor: Actor, panelId: string, questionId: string, input: OutcomeInput): Promise<OutcomeView> {
+  const { access } = await readyToRecord(actor, panelId, questionId, input);
   const figures = await currentFigures(panelId, questionId);
   const parts = partsFor(input.parts, figures);
-  const scores = jsonSafe(scoreFigures(input.actual, figures, parts));
+  const scores = jsonSafe(scoreFigures(input.outcomeValue, figures, parts));
   const stored = await db.$transaction(async (tx) => {
     if (await tx.resolution.findUnique({ where: { questionId } })) {
-      throw new ConflictError("question-resolved", "The question was resolved a moment ago by someone else; correct the recorded value instead.");
+      throw new ConflictError("outcome-recorded", "The outcome was recorded a moment ago by someone else; correct the recorded value instead.");
     }
     const r = await tx.resolution.create({
       data: {
         questionId,
         ownerId: access.panel.ownerId,
-        actual: input.actual,
+        actual: input.outcomeValue,
         note: input.note,
         partActuals: JSON.stringify(parts),
         figures: JSON.stringify(figures),
@@ -260,12 +291,12 @@ export async function resolveQuestion(actor: Actor, panelId: string, questionId:
         resolvedById: access.actor.userId,
       },
     });
-    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "question.resolved", detail: { questionId, actual: input.actual, parts: parts.length } });
+    await recordAudit(tx, { actorId: access.actor.userId, panelId, action: "outcome.recorded", detail: { questionId, outcomeValue: input.outcomeValue, parts: parts.length } });
     return r;
   }).catch((err: unknown) => {
-    // Two resolutions racing: the unique questionId lets one win; the other is told so.
+    // Two outcomes recorded at once: the unique questionId lets one win; the other is told so.
     if (isUniqueViolation(err)) {
-      throw new ConflictError("question-resolved", "The question was resolved a moment ago by someone else; correct the recorded value instead.");
+      throw new ConflictError("outcome-recorded", "The outcome was recorded a moment ago by someone else; correct the recorded value instead.");
     }
     throw err;
   });
@@ -273,39 +304,39 @@ export async function resolveQuestion(actor: Actor, panelId: string, questionId:
 }
 
 /**
- * Corrects a recorded actual value (organisers; audited with the old value, the new one and
+ * Corrects a recorded outcome value (organisers; audited with the old value, the new one and
  * the reason). The stored figures stay as they were reported; their scores are recomputed.
- * @throws NotFoundError when the question is not resolved.
+ * @throws NotFoundError when no outcome is recorded.
  */
-export async function correctResolution(actor: Actor, panelId: string, questionId: string, input: ResolutionCorrection): Promise<ResolutionView> {
+export async function correctOutcome(actor: Actor, panelId: string, questionId: string, input: OutcomeCorrection): Promise<OutcomeView> {
   const { access, existing } = await readyToCorrect(actor, panelId, questionId, input);
-  const figures = JSON.parse(existing.figures) as ResolutionFigures;
+  const figures = JSON.parse(existing.figures) as OutcomeFigures;
   const parts = input.parts !== undefined ? partsFor(input.parts, figures) : (JSON.parse(existing.partActuals) as { invitationId: string; actual: number }[]);
-  const scores = jsonSafe(scoreFigures(input.actual, figures, parts));
+  const scores = jsonSafe(scoreFigures(input.outcomeValue, figures, parts));
   const updated = await db.$transaction(async (tx) => {
     const r = await tx.resolution.update({
       where: { questionId },
-      data: { actual: input.actual, partActuals: JSON.stringify(parts), scores: JSON.stringify(scores), correctedAt: new Date() },
+      data: { actual: input.outcomeValue, partActuals: JSON.stringify(parts), scores: JSON.stringify(scores), correctedAt: new Date() },
     });
     await recordAudit(tx, {
       actorId: access.actor.userId,
       panelId,
-      action: "resolution.corrected",
-      detail: { questionId, from: existing.actual, to: input.actual, reason: input.reason },
+      action: "outcome.corrected",
+      detail: { questionId, from: existing.actual, to: input.outcomeValue, reason: input.reason },
     });
     return r;
   });
   return view(updated);
 }
 
-/** A question's resolution (organisers and reviewers). @throws NotFoundError when unresolved. */
-export async function getResolution(actor: Actor, panelId: string, questionId: string): Promise<ResolutionView> {
+/** A question's outcome (organisers and reviewers). @throws NotFoundError when none is recorded. */
+export async function getOutcome(actor: Actor, panelId: string, questionId: string): Promise<OutcomeView> {
   await authorisePanel(actor, panelId, "read");
   const q = await db.question.findFirst({ where: { id: questionId, panelId }, include: { resolution: true } });
   if (!q) throw new NotFoundError("The question");
-  if (!q.resolution) throw new NotFoundError("The question's resolution");
+  if (!q.resolution) throw new NotFoundError("The question's outcome");
   return view(q.resolution);
 }
 
-/** The resolution view of a stored row (for the report). */
-export const resolutionView = view;
+/** The outcome view of a stored row (for the report). */
+export const outcomeView = view;
