@@ -1,8 +1,11 @@
 /**
- * The whole organiser journey of issue 15 in Chromium (playwright-core) against the suite's
- * production server: an organiser signs in, puts five people on the roster, creates a panel with
- * two questions and invites the five; the panelists answer round 1 on 360-px phones; the
- * organiser closes it and runs round 2 (one panelist keeps an answer with one tap), closes it and
+ * The whole organiser journey of issue 15 in Chromium (playwright-core) against a production
+ * server of the suite's build that sends its mail through a real SMTP server started here
+ * (tests/app/smtp-inbox.ts): an organiser signs in, puts five people on the roster, creates a panel with
+ * two questions and invites the five, each by an e-mail with their own link; the panelists answer
+ * round 1 on 360-px phones, and a reminder reaches only the two who have not answered yet; the
+ * organiser closes it and runs round 2 (its notice reaches all five; one panelist keeps an answer
+ * with one tap), closes it and
  * finishes the panel; attaches a baseline to each question, blends with equal weights, records
  * each outcome and reads the report. Each step checks what the page shows (the panel page's next
  * step, counts, figures), every page is checked with axe-core, and each main page is saved at
@@ -19,10 +22,12 @@
 import { mkdtempSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import type { Browser, BrowserContext, Page } from "playwright-core";
-import { baseURL, clearDatabase, createAccount } from "./api-client";
+import { freePort, startServer, type RunningServer } from "../harness/harness";
+import { clearDatabase, createAccount, databaseUrl } from "./api-client";
 import { captureWidths, expectAccessible, launchChromium, signInPage, stat } from "./browser";
+import { linkIn, startSmtpInbox, type Received, type SmtpInbox } from "./smtp-inbox";
 
 /** The two questions, each with a short history for its baseline and the outcome recorded at the end. */
 const QUESTIONS = [
@@ -61,6 +66,10 @@ const KEEPER = 2;
 const median5 = (xs: readonly number[]) => [...xs].sort((a, b) => a - b)[2];
 
 let browser: Browser;
+/** The SMTP server the journey's mail goes through, and the app instance that sends through it. */
+let inbox: SmtpInbox;
+let app: RunningServer | undefined;
+let base = "";
 let orgCtx: BrowserContext;
 let org: Page;
 let shots = "";
@@ -86,6 +95,19 @@ async function nextStep(): Promise<string | null> {
   return org.locator("[data-next-step]").getAttribute("data-next-step");
 }
 
+/**
+ * Sends the e-mail of `kind` from the organiser's panel page (the round must be open) and returns
+ * the messages the SMTP server accepted for it (the action answers after it accepted them).
+ */
+async function sendNotice(kind: "round-opened" | "reminder", sent: number): Promise<Received[]> {
+  const before = inbox.received.length;
+  const form = org.getByRole("form", { name: "E-mail the panelists" });
+  await form.locator(`input[name="kind"][value="${kind}"]`).check();
+  await form.getByRole("button", { name: "Send e-mail" }).click();
+  await expect.poll(() => form.locator(".notice").textContent()).toContain(`${sent} sent`);
+  return inbox.received.slice(before);
+}
+
 /** Waits until the organiser's live progress shows `count`. */
 async function progress(count: string): Promise<void> {
   await expect.poll(() => org.locator('[data-testid="progress-count"]').textContent(), { timeout: 60_000 }).toBe(count);
@@ -96,28 +118,55 @@ async function fitsPhone(page: Page): Promise<void> {
   expect(await page.evaluate(() => document.documentElement.scrollWidth), `no sideways scrolling at 360 px on ${page.url()}`).toBeLessThanOrEqual(360);
 }
 
+/**
+ * The one message to panelist `p` among `mails`: sent to that person alone, with the subject
+ * words, their own private link (as the page showed it) when `withLink` and no link otherwise,
+ * and nobody else's name, address or link.
+ */
+function expectOwnMessage(mails: readonly Received[], p: (typeof PANELISTS)[number], subject: string, withLink: boolean): void {
+  const own = mails.filter((m) => m.rcptTo.includes(p.email));
+  expect(own, `messages to ${p.email}`).toHaveLength(1);
+  const [m] = own;
+  expect(m.rcptTo).toEqual([p.email]);
+  expect(m.headers.to).toContain(`<${p.email}>`);
+  expect(m.headers.subject).toContain(subject);
+  expect(linkIn(m)).toBe(withLink ? links.get(p.email) : null);
+  const all = `${JSON.stringify(m.headers)}\n${m.body}`;
+  for (const other of PANELISTS) {
+    if (other.email === p.email) continue;
+    expect(all, `message to ${p.email} names ${other.name}`).not.toContain(other.name);
+    expect(all, `message to ${p.email} holds ${other.email}`).not.toContain(other.email);
+    expect(all, `message to ${p.email} holds another link`).not.toContain(links.get(other.email)!);
+  }
+}
+
 describe("the organiser's whole journey", () => {
   beforeAll(async () => {
     shots = mkdtempSync(path.join(os.tmpdir(), "triangulate-journey-"));
     console.log(`journey screenshots: ${shots}`);
+    inbox = await startSmtpInbox();
+    app = await startServer({ databaseUrl, port: await freePort(), distDir: process.env.NEXT_DIST_DIR || ".next", secret: inject("authSecret"), env: inbox.env });
+    base = app.baseURL;
     browser = await launchChromium();
     orgCtx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
   });
 
   afterAll(async () => {
     await browser?.close();
+    await app?.stop();
+    await inbox?.close();
     await clearDatabase();
   });
 
   it("signs in, puts five people on the roster and creates a panel with two questions", async () => {
     const signIn = await orgCtx.newPage();
-    await signIn.goto(`${baseURL}/sign-in`);
+    await signIn.goto(`${base}/sign-in`);
     await signIn.getByRole("button", { name: "Sign in" }).waitFor();
     await captureWidths(signIn, shots, "01-sign-in");
     await signIn.close();
-    org = await signInPage(orgCtx, createAccount("Perpetua Holloway"), "/panels");
+    org = await signInPage(orgCtx, createAccount("Perpetua Holloway"), "/panels", base);
     await captureWidths(org, shots, "02-panels-empty");
-    await org.goto(`${baseURL}/roster`);
+    await org.goto(`${base}/roster`);
     const add = org.getByRole("form", { name: "Add a person" });
     for (const p of PANELISTS) {
       await add.getByLabel("Name").fill(p.name);
@@ -129,7 +178,7 @@ describe("the organiser's whole journey", () => {
     await expect.poll(() => org.locator("tr[data-roster-member]").count()).toBe(5);
     await captureWidths(org, shots, "03-roster");
 
-    await org.goto(`${baseURL}/panels/new`);
+    await org.goto(`${base}/panels/new`);
     await org.getByLabel(/^Title/).waitFor();
     await captureWidths(org, shots, "04-new-panel");
     await org.getByLabel(/^Title/).fill("Wren-2 next quarter (Quillmoor Instruments)");
@@ -156,7 +205,7 @@ describe("the organiser's whole journey", () => {
     await captureWidths(org, shots, "05-panel-questions");
   });
 
-  it("invites the five: each private link is shown once and waits in the outbox", async () => {
+  it("invites the five: each person gets their own private link by e-mail, and nothing waits in the outbox", async () => {
     const form = org.getByRole("form", { name: "Invite panelists" });
     for (const box of await form.locator('input[name="rosterMemberIds"]').all()) await box.check();
     await form.getByRole("button", { name: "Create invitations" }).click();
@@ -166,9 +215,12 @@ describe("the organiser's whole journey", () => {
       links.set(email, ((await box.locator("code").textContent()) ?? "").trim());
     }
     expect([...links.keys()].sort()).toEqual(PANELISTS.map((p) => p.email).sort());
+    // The action answers once the SMTP server has accepted every message.
+    expect(inbox.received).toHaveLength(5);
+    for (const p of PANELISTS) expectOwnMessage(inbox.received, p, "Invitation", true);
     await captureWidths(org, shots, "06-panel-invited");
     await org.goto(`${panelUrl}/outbox`);
-    await expect.poll(() => org.locator("[data-outbox-message]").count()).toBe(5);
+    await org.getByText("The outbox is empty.").waitFor();
     await captureWidths(org, shots, "07-outbox");
     expect(await nextStep()).toBe("rounds");
   });
@@ -192,6 +244,13 @@ describe("the organiser's whole journey", () => {
       await fitsPhone(page);
       await expectAccessible(page);
       await page.close();
+      if (i === 2) {
+        // Three have answered: a reminder goes to the other two only, each naming nobody else.
+        await progress("3/5");
+        const reminders = await sendNotice("reminder", 2);
+        expect(reminders.map((m) => m.rcptTo[0]).sort()).toEqual([PANELISTS[3].email, PANELISTS[4].email].sort());
+        for (const q of PANELISTS.slice(3)) expectOwnMessage(reminders, q, "Reminder: round 1", false);
+      }
     }
     await progress("5/5");
     await captureWidths(org, shots, "09-panel-live-progress");
@@ -214,6 +273,10 @@ describe("the organiser's whole journey", () => {
 
     await org.getByRole("button", { name: "Start round 2" }).click();
     await progress("0/5");
+    // The notice that round 2 is open reaches all five, each alone.
+    const notices = await sendNotice("round-opened", 5);
+    expect(notices).toHaveLength(5);
+    for (const p of PANELISTS) expectOwnMessage(notices, p, "Round 2 of", false);
   });
 
   it("round 2: revised answers with one 'Save all'; one panelist keeps an answer with one tap", async () => {
@@ -342,14 +405,14 @@ describe("the organiser's whole journey", () => {
       ["22-portfolio", "/portfolio"],
       ["23-accuracy", "/accuracy"],
     ] as const) {
-      await org.goto(`${baseURL}${url}`);
+      await org.goto(`${base}${url}`);
       await org.locator("h1").first().waitFor();
       await captureWidths(org, shots, name);
     }
   });
 
   it("a page that does not exist shows the one error banner, with a way back", async () => {
-    await org.goto(`${baseURL}/panels/no-such-panel`);
+    await org.goto(`${base}/panels/no-such-panel`);
     await expect.poll(() => org.locator("[data-not-found]").count()).toBe(1);
     const banner = org.locator("main .error-banner");
     expect(await banner.count()).toBe(1);

@@ -20,10 +20,10 @@ export function launchChromium(): Promise<Browser> {
  * for a reviewer, who reaches it through a redirect from /panels (waiting for the final page keeps
  * that redirect from landing after the test's next navigation).
  */
-export async function signInPage(ctx: BrowserContext, user: TestUser, home: "/panels" | "/reports" = "/panels"): Promise<Page> {
+export async function signInPage(ctx: BrowserContext, user: TestUser, home: "/panels" | "/reports" = "/panels", origin = baseURL): Promise<Page> {
   const page = await ctx.newPage();
   page.on("dialog", (d) => void d.accept());
-  await page.goto(`${baseURL}/sign-in`);
+  await page.goto(`${origin}/sign-in`);
   await page.getByLabel("E-mail").fill(user.email);
   await page.getByLabel("Password").fill(user.password);
   await page.getByRole("button", { name: "Sign in" }).click();
