@@ -37,15 +37,8 @@ import { emptyReference, runR, tallyReference, type ReferenceForecast, type Refe
 import type { M3Series, SeriesScore } from "./m3-score";
 import type { benchJobs } from "./m3-worker";
 
-interface Tally {
-  series: number;
-  smape: number;
-  mase: number;
-  maseCount: number;
-  points: number;
-  in80: number;
-  in95: number;
-  failures: number;
+/** A reference tally plus the project's own counts: forecasts outside their own bounds, and the competition's Theta beside them. */
+interface Tally extends ReferenceTally {
   incoherent: number;
   thetaSmape: number;
   thetaMase: number;
