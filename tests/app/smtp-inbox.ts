@@ -6,6 +6,7 @@
  * A second app instance pointed at it (`smtpEnv`) sends through it.
  */
 import { SMTPServer } from "smtp-server";
+import { expect } from "vitest";
 import { freePort } from "../harness/harness";
 
 export interface Received {
@@ -63,6 +64,28 @@ function parse(raw: string, rcptTo: string[]): Received {
 /** The panelist link a message carries on a line of its own, or null. */
 export function linkIn(m: Received): string | null {
   return /^(https?:\/\/\S+\/p\/[A-Za-z0-9_-]+)$/m.exec(m.body)?.[1] ?? null;
+}
+
+/** Someone a message must not betray: their name, address and private link (or its token), when known. */
+export interface Person {
+  readonly name: string;
+  readonly email: string;
+  readonly secret?: string;
+}
+
+/**
+ * Fails if message `m`, sent to `own`, holds any other person's name, address or secret, or any
+ * of `also` (e.g. panelists' pseudonyms): anonymity holds in the mail too (THREATS.md).
+ */
+export function expectNothingOfOthers(m: Received, own: string, people: readonly Person[], also: readonly string[] = []): void {
+  const all = `${JSON.stringify(m.headers)}\n${m.body}`;
+  for (const other of people) {
+    if (other.email === own) continue;
+    expect(all, `message to ${own} names ${other.name}`).not.toContain(other.name);
+    expect(all, `message to ${own} holds ${other.email}`).not.toContain(other.email);
+    if (other.secret) expect(all, `message to ${own} holds another person's link`).not.toContain(other.secret);
+  }
+  for (const s of also) expect(all, `message to ${own} holds ${s}`).not.toContain(s);
 }
 
 /** Starts the server on a free loopback port. */
