@@ -99,9 +99,15 @@ export function historySpread(
   return { spread: sum.map(rms), count, origins, memberSpread: memberSum.map((m) => m.map(rms)) };
 }
 
+/** The members' error model: their average step variances read as a linear innovations model (c_k of lib/forecast/total.ts; 0, independent period errors, when a member gives no finite step sd). */
+function membersInnovations(sd: readonly number[], h: number): number[] {
+  return sd.length === h && sd.every((x) => Number.isFinite(x) && x > 0) ? weightsFromStepVariances(sd.map((x) => x * x)) : new Array<number>(Math.max(h - 1, 0)).fill(0);
+}
+
 /**
  * Quantile of a new error in units of a spread estimated as the root mean square of k independent
- * errors centred on zero (k effective degrees of freedom for correlated ones): Student's t with k degrees of freedom (a new normal error over s is t_k; e.g.
+ * errors centred on zero (k effective degrees of freedom for correlated ones): Student's t with k
+ * degrees of freedom (a new normal error over s is t_k; e.g.
  * Hahn & Meeker (1991), *Statistical Intervals*, ch. 4 — from memory). Wider than the normal
  * quantile where the history is short.
  */
@@ -153,8 +159,7 @@ export function combineForecasts(members: readonly CombinationMember[], y: reado
     return raw[last] * (Number.isFinite(growth) && growth > 0 ? growth : 1);
   });
   const errors = raw.map((_, j) => history.count[at(j)]);
-  // The members' error model: their average step variances read as a linear innovations model.
-  const c = sd.every((x) => Number.isFinite(x) && x > 0) ? weightsFromStepVariances(sd.map((x) => x * x)) : new Array<number>(Math.max(h - 1, 0)).fill(0);
+  const c = membersInnovations(sd, h);
   const df = raw.map((_, j) => overlapDegreesOfFreedom(history.origins[at(j)], innovationWeights(c, at(j) + 1, at(j) + 1)));
   const ratio = raw.map((_, j) => {
     if (last < 0) return 1;
@@ -251,10 +256,7 @@ export function combineTotals(
   }
   const count = used.length;
   const spread = count >= MIN_HISTORY_ERRORS ? Math.sqrt(sum / count) : NaN;
-  // The members' error model: their average step variances read as a linear innovations model.
-  const sd = meanOf(members.map((m) => m.forecast.sd));
-  const c = sd.length === h && sd.every((x) => Number.isFinite(x) && x > 0) ? weightsFromStepVariances(sd.map((x) => x * x)) : new Array<number>(Math.max(h - 1, 0)).fill(0);
-  const df = overlapDegreesOfFreedom(used, innovationWeights(c, h, from));
+  const df = overlapDegreesOfFreedom(used, innovationWeights(membersInnovations(meanOf(members.map((m) => m.forecast.sd)), h), h, from));
   const lower: Record<string, number> = {};
   const upper: Record<string, number> = {};
   for (const level of levels) {
