@@ -418,7 +418,8 @@ export function baseline(input: RawSeries | readonly (number | null)[], options:
 /**
  * The default "auto": the members of {@link COMBINATION_MEMBERS} that apply and fit, each on the
  * whole series, combined by lib/forecast/combination.ts (means averaged; intervals the wider of
- * the quantile average and the empirical bounds from the history). One member alone is returned
+ * the quantile average, narrowed by the members' diversification, and the empirical bounds from
+ * the history). One member alone is returned
  * as itself; none gives null (the caller falls back to selection).
  */
 function combination(
@@ -475,7 +476,7 @@ function combination(
   const weights: Record<string, number> = {};
   for (const f of fits) weights[f.method.id] = 1 / k;
   notes.push(
-    `equal-weight combination of ${fits.map((f) => f.method.id).join(" and ")}; intervals: the members' bounds averaged quantile by quantile, widened to the combination's own ${c.relative ? "relative " : ""}multi-step errors on the history where those are wider`,
+    `equal-weight combination of ${fits.map((f) => f.method.id).join(" and ")}; intervals: the members' bounds averaged quantile by quantile and narrowed by how much smaller the combination's errors on the history are than the members', widened to the combination's own ${c.relative ? "relative " : ""}multi-step errors on the history where those are wider`,
     ...c.notes,
   );
   let totalResult: TotalResult | undefined;

@@ -1,8 +1,10 @@
 /**
  * The automatic baseline's combination (docs/methods.md §20): the equal-weight mean of ETS
  * chosen by AICc and the Theta method, with intervals that are the wider of (a) the members'
- * bounds averaged quantile by quantile and (b) empirical bounds from the combination's own
- * multi-step errors on the history. Pure TypeScript.
+ * bounds averaged quantile by quantile, narrowed by the ratio of the combination's spread of
+ * errors on the history to the members' average, and (b) empirical bounds from the
+ * combination's own multi-step errors on the history, with Student t quantiles on the effective
+ * number of independent errors. Pure TypeScript.
  *
  * Sources: combining ETS, ARIMA and Theta-type forecasts beat the single chosen method in the M3
  * and M4 competitions (Makridakis & Hibon 2000, IJF 16(4); Makridakis, Spiliotis &
@@ -11,7 +13,9 @@
  * quantiles?", Management Science 59(7), 1594–1611. Empirical intervals from a method's own
  * h-step errors on the history: Williams & Goodman (1971), "A simple method for the
  * construction of empirical confidence limits for economic forecasts", JASA 66(336), 752–754;
- * Lee & Scholtes (2014), "Empirical prediction intervals revisited", IJF 30(2), 217–234.
+ * Lee & Scholtes (2014), "Empirical prediction intervals revisited", IJF 30(2), 217–234. The
+ * variance of a combined forecast: Bates & Granger (1969), "The combination of forecasts",
+ * Operational Research Quarterly 20(4), 451–468. Effective degrees of freedom: Satterthwaite (1946).
  */
 import { normalQuantile } from "../stats/normal";
 import { studentTQuantile } from "../stats/student-t";
@@ -35,8 +39,12 @@ export interface CombinedForecast {
   readonly upper: Record<string, number[]>;
   /** Root mean square of the history errors per step (relative when `relative`). */
   readonly spread: number[];
-  /** Number of history errors behind each step's spread (the t quantile's degrees of freedom). */
+  /** Number of history errors behind each step's spread. */
   readonly errors: number[];
+  /** Effective degrees of freedom of each step's spread (the t quantile's; fewer than `errors`: overlapping origins). */
+  readonly df: number[];
+  /** Ratio of the combination's history spread to the members' average, by which the quantile average is narrowed (1 without history). */
+  readonly ratio: number[];
   readonly relative: boolean;
   readonly notes: string[];
 }
@@ -52,11 +60,15 @@ function meanOf(rows: readonly (readonly number[])[]): number[] {
 }
 
 /**
- * Root mean square of the combination's errors on the history, per step 1..h, and how many
- * errors each rests on:
- * e_{t,j} = y_{t+j} − f_{t,j} from every origin t ≥ {@link firstOrigin} with y_{t+j} observed;
- * relative errors e/|f| when `relative` (a forecast ≤ 0 is then skipped). Steps with fewer than
- * {@link MIN_HISTORY_ERRORS} errors give NaN.
+ * Root mean square of the combination's errors on the history, per step 1..h, and what each
+ * rests on: e_{t,j} = y_{t+j} − f_{t,j} from every origin t ≥ {@link firstOrigin} with y_{t+j}
+ * observed; relative errors e/|f| when `relative` (a forecast ≤ 0 is then skipped). Steps with
+ * fewer than {@link MIN_HISTORY_ERRORS} errors give NaN. `origins[j]` lists the origins behind
+ * step j (for {@link overlapDegreesOfFreedom}); `memberSpread[i][j]` is the same root mean square
+ * of member i's own errors y_{t+j} − f^i_{t,j} over the same origins, divided by the
+ * combination's forecast when relative (so that the combination's error is the members' average
+ * error and, by Minkowski's inequality, spread_j ≤ the average of memberSpread[·][j]).
+ * Input: `memberOrigins` optional (then memberSpread is empty).
  */
 export function historySpread(
   y: readonly number[],
@@ -64,25 +76,38 @@ export function historySpread(
   h: number,
   season: number,
   relative: boolean,
-): { spread: number[]; count: number[] } {
+  memberOrigins: readonly (readonly (readonly number[])[])[] = [],
+): { spread: number[]; count: number[]; origins: number[][]; memberSpread: number[][] } {
   const sum = new Array<number>(h).fill(0);
   const count = new Array<number>(h).fill(0);
+  const origins: number[][] = Array.from({ length: h }, () => []);
+  const memberSum = memberOrigins.map(() => new Array<number>(h).fill(0));
   for (let t = firstOrigin(y.length, season); t < y.length; t++) {
     const f = combined(t);
     for (let j = 0; j < h && t + j < y.length; j++) {
       if (relative && !(f[j] > 0)) continue;
-      const e = relative ? (y[t + j] - f[j]) / f[j] : y[t + j] - f[j];
+      const scale = relative ? f[j] : 1;
+      const e = (y[t + j] - f[j]) / scale;
       if (!Number.isFinite(e)) continue;
       sum[j] += e * e;
       count[j]++;
+      origins[j].push(t);
+      memberOrigins.forEach((o, i) => (memberSum[i][j] += ((y[t + j] - o[t][j]) / scale) ** 2));
     }
   }
-  return { spread: sum.map((s, j) => (count[j] >= MIN_HISTORY_ERRORS ? Math.sqrt(s / count[j]) : NaN)), count };
+  const rms = (s: number, j: number) => (count[j] >= MIN_HISTORY_ERRORS ? Math.sqrt(s / count[j]) : NaN);
+  return { spread: sum.map(rms), count, origins, memberSpread: memberSum.map((m) => m.map(rms)) };
+}
+
+/** The members' error model: their average step variances read as a linear innovations model (c_k of lib/forecast/total.ts; 0, independent period errors, when a member gives no finite step sd). */
+function membersInnovations(sd: readonly number[], h: number): number[] {
+  return sd.length === h && sd.every((x) => Number.isFinite(x) && x > 0) ? weightsFromStepVariances(sd.map((x) => x * x)) : new Array<number>(Math.max(h - 1, 0)).fill(0);
 }
 
 /**
- * Quantile of a new error in units of a spread estimated as the root mean square of k errors
- * centred on zero: Student's t with k degrees of freedom (a new normal error over s is t_k; e.g.
+ * Quantile of a new error in units of a spread estimated as the root mean square of k independent
+ * errors centred on zero (k effective degrees of freedom for correlated ones): Student's t with k
+ * degrees of freedom (a new normal error over s is t_k; e.g.
  * Hahn & Meeker (1991), *Statistical Intervals*, ch. 4 — from memory). Wider than the normal
  * quantile where the history is short.
  */
@@ -94,14 +119,23 @@ function errorQuantile(level: number, k: number): number {
 /**
  * Equal-weight combination of the members (see the file comment).
  *
- * mean_j = average of the members' means. For each level L: the quantile-averaged bounds
- * (average of the members' L-bounds), widened where the empirical bound mean_j ∓ q_j·s_j·scale_j is
- * wider (q_j the Student t quantile of L with k_j degrees of freedom, k_j the number of errors behind
- * s_j; s_j from {@link historySpread}; scale_j = |mean_j| for
- * relative errors, used when every observation is above zero, else 1). Past the last step with
- * enough history errors, s_j grows like the members' average forecast sd (k_j stays that step's).
- * So the mean always lies
- * inside its intervals and each interval is at least as wide as the quantile average.
+ * mean_j = average of the members' means. For each level L and step j, the wider of:
+ * - the quantile average narrowed by the members' diversification: mean_j ∓ r_j·(mean_j − Q^lo_j)
+ *   and mean_j + r_j·(Q^hi_j − mean_j), Q the average of the members' L-bounds and
+ *   r_j = s_j / (average over members of s^i_j) ≤ 1, the ratio of the combination's root mean
+ *   square error on the history to the members' average (both from {@link historySpread}, over the
+ *   same origins). Averaging quantiles gives the spread of a typical member; the combination's
+ *   error, the average of the members' errors, has a smaller spread unless they are perfectly
+ *   correlated (Bates & Granger 1969, the variance of a combined forecast). r_j = 1 where the
+ *   history gives no spread.
+ * - the empirical bound mean_j ∓ q_j·s_j·scale_j: q_j the Student t quantile of L with ν_j
+ *   degrees of freedom, ν_j the effective number of independent errors behind s_j
+ *   ({@link overlapDegreesOfFreedom}: step-j errors from origins less than j apart share
+ *   innovations, weighted ψ_{j−i} by the members' average step sd read as a linear innovations
+ *   model, as for totals); scale_j = |mean_j| for relative errors (used when every observation
+ *   is above zero), else 1.
+ * Past the last step J with enough history errors, s_j = s_J·σ̄_j/σ̄_J (σ̄ the members' average
+ * forecast sd), and ν_j, r_j are J's. The mean always lies inside its intervals.
  *
  * Input: at least one member, all with the same horizon and levels; y the fitted series.
  * Non-finite member values propagate (the caller drops failed members first).
@@ -110,20 +144,29 @@ export function combineForecasts(members: readonly CombinationMember[], y: reado
   const h = members[0].forecast.mean.length;
   const mean = meanOf(members.map((m) => m.forecast.mean));
   const relative = y.every((v) => v > 0);
-  const history = historySpread(y, (t) => meanOf(members.map((m) => m.origins[t])), h, season, relative);
+  const history = historySpread(y, (t) => meanOf(members.map((m) => m.origins[t])), h, season, relative, members.map((m) => m.origins));
   const raw = history.spread;
   const sd = meanOf(members.map((m) => m.forecast.sd));
   let last = -1;
   raw.forEach((s, j) => {
     if (Number.isFinite(s)) last = j;
   });
+  const at = (j: number) => (last < 0 ? j : Math.min(j, last));
   const spread = raw.map((s, j) => {
     if (last < 0) return NaN;
     if (j <= last) return s;
     const growth = sd[j] / sd[last];
     return raw[last] * (Number.isFinite(growth) && growth > 0 ? growth : 1);
   });
-  const errors = raw.map((_, j) => history.count[last < 0 ? j : Math.min(j, last)]);
+  const errors = raw.map((_, j) => history.count[at(j)]);
+  const c = membersInnovations(sd, h);
+  const df = raw.map((_, j) => overlapDegreesOfFreedom(history.origins[at(j)], innovationWeights(c, at(j) + 1, at(j) + 1)));
+  const ratio = raw.map((_, j) => {
+    if (last < 0) return 1;
+    const average = history.memberSpread.reduce((a, m) => a + m[at(j)], 0) / members.length;
+    const r = raw[at(j)] / average;
+    return Number.isFinite(r) && r > 0 ? Math.min(r, 1) : 1;
+  });
   const notes: string[] = [];
   if (last < 0) notes.push("too short a history for empirical intervals: the members' bounds averaged quantile by quantile");
   const lower: Record<string, number[]> = {};
@@ -132,17 +175,17 @@ export function combineForecasts(members: readonly CombinationMember[], y: reado
     const key = String(level);
     const lo = meanOf(members.map((m) => m.forecast.lower[key]));
     const hi = meanOf(members.map((m) => m.forecast.upper[key]));
-    const z = errors.map((k) => errorQuantile(level, k));
+    const z = df.map((k) => errorQuantile(level, k));
     lower[key] = mean.map((mu, j) => {
       const half = z[j] * spread[j] * (relative ? Math.abs(mu) : 1);
-      return Math.min(lo[j], mu, Number.isFinite(half) ? mu - half : Infinity);
+      return Math.min(mu - ratio[j] * (mu - lo[j]), mu, Number.isFinite(half) ? mu - half : Infinity);
     });
     upper[key] = mean.map((mu, j) => {
       const half = z[j] * spread[j] * (relative ? Math.abs(mu) : 1);
-      return Math.max(hi[j], mu, Number.isFinite(half) ? mu + half : -Infinity);
+      return Math.max(mu + ratio[j] * (hi[j] - mu), mu, Number.isFinite(half) ? mu + half : -Infinity);
     });
   }
-  return { mean, lower, upper, spread, errors, relative, notes };
+  return { mean, lower, upper, spread, errors, df, ratio, relative, notes };
 }
 
 /**
@@ -213,10 +256,7 @@ export function combineTotals(
   }
   const count = used.length;
   const spread = count >= MIN_HISTORY_ERRORS ? Math.sqrt(sum / count) : NaN;
-  // The members' error model: their average step variances read as a linear innovations model.
-  const sd = meanOf(members.map((m) => m.forecast.sd));
-  const c = sd.length === h && sd.every((x) => Number.isFinite(x) && x > 0) ? weightsFromStepVariances(sd.map((x) => x * x)) : new Array<number>(Math.max(h - 1, 0)).fill(0);
-  const df = overlapDegreesOfFreedom(used, innovationWeights(c, h, from));
+  const df = overlapDegreesOfFreedom(used, innovationWeights(membersInnovations(meanOf(members.map((m) => m.forecast.sd)), h), h, from));
   const lower: Record<string, number> = {};
   const upper: Record<string, number> = {};
   for (const level of levels) {

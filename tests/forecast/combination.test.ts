@@ -102,9 +102,13 @@ describe("auto with members ets, theta, arima: the equal-weight combination of t
 /**
  * Two members whose in-sample forecasts from every origin R gives directly: SES with α fixed
  * and ℓ0 = y1 (R's ses(initial = "simple")), so that the forecast from origin t is
- * ses(y[1:t])'s. The expected bounds are computed in R from the rule in docs/methods.md §20
- * (Student t quantiles from R's qt() with as many degrees of freedom as errors), written
- * independently of lib/forecast/combination.ts.
+ * ses(y[1:t])'s. The expected bounds are computed in R from the rule in docs/methods.md §20, written
+ * independently of lib/forecast/combination.ts: Student t quantiles from R's qt() with the
+ * effective degrees of freedom ν_j = N²/Σ_{r,s} ρ²_{|t_r − t_s|} of the N step-j errors
+ * (ρ_d = Σ_i w_i w_{i+d} / Σ_i w_i², w_i = ψ_{j−i} from the members' average step sd,
+ * ψ_0 = 1, ψ_k = √((v_{k+1} − v_k)/v_1)), and the quantile average narrowed by
+ * r_j = s_j / mean(s^1_j, s^2_j), the members' own root mean square errors over the same origins
+ * relative to the combination's forecast.
  */
 function sesPairInR(values: string, h: number): string {
   return `y <- ${values}; n <- length(y); h <- ${h}; al <- c(0.3, 0.8)
@@ -114,14 +118,21 @@ function sesPairInR(values: string, h: number): string {
     orig <- lapply(org, function(o) rbind(rep(y[1], h), o[1:(n - 1), , drop = FALSE]))
     mu <- (fc[[1]]$mean + fc[[2]]$mean) / 2
     sd <- ((fc[[1]]$upper[, 2] - fc[[1]]$mean) + (fc[[2]]$upper[, 2] - fc[[2]]$mean)) / 2 / qnorm(0.975)
-    t0 <- max(2, ceiling(n / 3)); s <- rep(NA, h); cnt <- rep(0, h)
-    for (j in 1:h) { e <- c(); for (t in t0:(n - 1)) if (t + j <= n) { f <- (orig[[1]][t + 1, j] + orig[[2]][t + 1, j]) / 2; e <- c(e, (y[t + j] - f) / f) }
-      cnt[j] <- length(e); if (length(e) >= 3) s[j] <- sqrt(mean(e^2)) }
-    last <- max(which(!is.na(s))); for (j in 1:h) if (j > last) { s[j] <- s[last] * sd[j] / sd[last]; cnt[j] <- cnt[last] }
-    for (k in 1:2) { z <- qt(c(0.9, 0.975)[k], df = cnt)
-      lo <- pmin((fc[[1]]$lower[, k] + fc[[2]]$lower[, k]) / 2, mu - z * s * abs(mu))
-      hi <- pmax((fc[[1]]$upper[, k] + fc[[2]]$upper[, k]) / 2, mu + z * s * abs(mu))
+    psi <- c(1, sqrt(pmax(diff(sd^2), 0) / sd[1]^2))
+    t0 <- max(2, ceiling(n / 3)); s <- rep(NA, h); cnt <- rep(0, h); nu <- rep(NA, h); r <- rep(1, h)
+    for (j in 1:h) { e <- c(); e1 <- c(); e2 <- c(); used <- c()
+      for (t in t0:(n - 1)) if (t + j <= n) { f <- (orig[[1]][t + 1, j] + orig[[2]][t + 1, j]) / 2; e <- c(e, (y[t + j] - f) / f)
+        e1 <- c(e1, (y[t + j] - orig[[1]][t + 1, j]) / f); e2 <- c(e2, (y[t + j] - orig[[2]][t + 1, j]) / f); used <- c(used, t) }
+      cnt[j] <- length(e)
+      if (length(e) >= 3) { s[j] <- sqrt(mean(e^2)); r[j] <- s[j] / ((sqrt(mean(e1^2)) + sqrt(mean(e2^2))) / 2)
+        w <- rev(psi[1:j]); g <- sapply(0:(j - 1), function(d) sum(w[1:(j - d)] * w[(1 + d):j]))
+        D <- abs(outer(used, used, "-")); rho <- ifelse(D < j, g[pmin(D, j - 1) + 1] / g[1], 0); nu[j] <- length(e)^2 / sum(rho^2) } }
+    last <- max(which(!is.na(s))); for (j in 1:h) if (j > last) { s[j] <- s[last] * sd[j] / sd[last]; cnt[j] <- cnt[last]; nu[j] <- nu[last]; r[j] <- r[last] }
+    for (k in 1:2) { z <- qt(c(0.9, 0.975)[k], df = nu)
+      lo <- pmin(mu - r * (mu - (fc[[1]]$lower[, k] + fc[[2]]$lower[, k]) / 2), mu - z * s * abs(mu))
+      hi <- pmax(mu + r * ((fc[[1]]$upper[, k] + fc[[2]]$upper[, k]) / 2 - mu), mu + z * s * abs(mu))
       out(paste0("lo", k), lo); out(paste0("hi", k), hi) }
+    out("nu", nu); out("r", r); out("cnt", cnt)
     for (i in 1:2) { out(paste0("mean", i), fc[[i]]$mean); out(paste0("sd", i), (fc[[i]]$upper[, 2] - fc[[i]]$mean) / qnorm(0.975))
       for (k in 1:2) { out(paste0("l", i, k), fc[[i]]$lower[, k]); out(paste0("u", i, k), fc[[i]]$upper[, k]) }
       out(paste0("orig", i), t(orig[[i]])) }
@@ -142,7 +153,7 @@ function membersFrom(r: Record<string, number[]>, h: number): CombinationMember[
   }));
 }
 
-describe("combineForecasts: quantile average widened to the history's relative errors", () => {
+describe("combineForecasts: quantile average narrowed by the members' diversification, widened to the history's relative errors", () => {
   it("matches an R computation of the rule on the Nile series (SES α = 0.3 and 0.8 from R's ses())", () => {
     const h = 10;
     const r = R.nile; // h = 10
@@ -150,7 +161,14 @@ describe("combineForecasts: quantile average widened to the history's relative e
     expect(c.relative).toBe(true);
     c.mean.forEach((v, j) => expect(v).toBeCloseTo(r.mu[j], 8));
     c.spread.forEach((v, j) => expect(v).toBeCloseTo(r.s[j], 10));
+    c.df.forEach((v, j) => expect(v).toBeCloseTo(r.nu[j], 8));
+    c.ratio.forEach((v, j) => expect(v).toBeCloseTo(r.r[j], 10));
+    // One-step errors share no innovation: as many degrees of freedom as errors; later steps fewer.
+    expect(c.df[0]).toBeCloseTo(r.cnt[0], 10);
+    expect(c.df[h - 1]).toBeLessThan(r.cnt[h - 1] / 2);
     c.lower["80"].forEach((v, j) => expect(v).toBeCloseTo(r.lo1[j], 6));
+    c.lower["95"].forEach((v, j) => expect(v).toBeCloseTo(r.lo2[j], 6));
+    c.upper["80"].forEach((v, j) => expect(v).toBeCloseTo(r.hi1[j], 6));
     c.upper["95"].forEach((v, j) => expect(v).toBeCloseTo(r.hi2[j], 6));
   });
 
@@ -160,6 +178,8 @@ describe("combineForecasts: quantile average widened to the history's relative e
     const c = combineForecasts(membersFrom(r, h), r.y, 1, [80, 95]);
     // With t ≥ max(2, ⌈15/3⌉) = 5, step 9 has origins 5 and 6 only: extrapolated from step 8 (R above).
     c.spread.forEach((v, j) => expect(v).toBeCloseTo(r.s[j], 10));
+    c.df.forEach((v, j) => expect(v).toBeCloseTo(r.nu[j], 8));
+    c.ratio.forEach((v, j) => expect(v).toBeCloseTo(r.r[j], 10));
     c.lower["95"].forEach((v, j) => expect(v).toBeCloseTo(r.lo2[j], 6));
     c.upper["80"].forEach((v, j) => expect(v).toBeCloseTo(r.hi1[j], 6));
   });
