@@ -26,6 +26,7 @@ import { ForecastInputError, METHOD_IDS, type Fit, type Forecast, type Method, t
  * it is available by name (`method: "arima"`).
  */
 export const NOT_AUTOMATIC: Readonly<Partial<Record<MethodId, string>>> = {
+  "ets-weighted": "not compared automatically (the same ETS fits as ets, weighted by AICc; the default combination's member); ask for it by name",
   arima: "not compared automatically (an order search at every origin); ask for it by name",
   bass: "not compared automatically (a diffusion curve for adoptions since launch); ask for it by name",
 };

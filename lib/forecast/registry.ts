@@ -14,6 +14,7 @@ import dampedHolt from "./methods/damped-holt";
 import holtWintersAdditive from "./methods/holt-winters-additive";
 import holtWintersMultiplicative from "./methods/holt-winters-multiplicative";
 import ets from "./methods/ets";
+import etsWeighted from "./methods/ets-weighted";
 import theta from "./methods/theta";
 import linearTrend from "./methods/linear-trend";
 import regression from "./methods/regression";
@@ -33,6 +34,7 @@ export const METHODS: readonly Method[] = ([
   holtWintersAdditive,
   holtWintersMultiplicative,
   ets,
+  etsWeighted,
   theta,
   linearTrend,
   regression,

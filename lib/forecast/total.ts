@@ -17,6 +17,8 @@
  *   var = σ² Σ_{i=1}^{b} (#{j ∈ [max(i,a), b] : j ≡ i mod lag})² + se_b² (Σ_{j=a}^{b} ⌈j/lag⌉)².
  * Non-linear ETS members (M errors, M season): sums over the window of the simulated sample
  * paths (fixed PRNG start value), bounds their type-7 quantiles.
+ * Akaike-weighted ETS (`ets-weighted`): the total of its largest-weight member moved to the sum of
+ * the weighted means, as its step bounds.
  * Bass diffusion: (b − a + 1)·s² plus the parameters' part gᵀCg of the summed curve (lib/forecast/bass.ts).
  * Other methods: their step variances v_j read as a linear innovations model with
  * non-negative weights, c_k = √((v_{k+1} − v_k)/v_1) (exact for the models above, e.g. ARIMA
@@ -25,7 +27,8 @@
 import { checkHorizon, type EtsModel } from "./ets";
 import { memberOf } from "./ets/family";
 import { errorWeights, hasClosedForm, normalBounds, pointForecasts, sampleBounds } from "./ets/distribution";
-import { samplePaths, PATHS, type EtsSpec, type Smoothing } from "./ets/state-space";
+import { samplePaths, PATHS, type EtsSpec, type EtsState, type Smoothing } from "./ets/state-space";
+import { weightedMembers, weightedPointForecasts } from "./methods/ets-weighted";
 import { ForecastInputError, type Fit, type FutureX, type Method } from "./types";
 import { bassForecastSum } from "./bass";
 import { asBassFit } from "./methods/bass";
@@ -90,8 +93,8 @@ function fromNormal(mean: number, variance: number, levels: readonly number[], h
   return { mean, sd, lower, upper, how };
 }
 
-function fromPaths(spec: EtsSpec, par: Smoothing, fit: Fit, a: number, b: number, levels: readonly number[], origin: Parameters<typeof samplePaths>[2]): TotalForecast {
-  const paths = samplePaths(spec, par, origin, fit.sigma2, b);
+function fromPaths(spec: EtsSpec, par: Smoothing, sigma2: number, a: number, b: number, levels: readonly number[], origin: EtsState): TotalForecast {
+  const paths = samplePaths(spec, par, origin, sigma2, b);
   const sums = new Array<number>(PATHS).fill(0);
   for (let i = a - 1; i < b; i++) for (let p = 0; p < PATHS; p++) sums[p] += paths[i * PATHS + p];
   sums.sort((x, y) => x - y);
@@ -110,6 +113,15 @@ function fromPaths(spec: EtsSpec, par: Smoothing, fit: Fit, a: number, b: number
 
 /** Σ of x over steps a..x.length (x holds steps 1..b). */
 const windowSum = (x: readonly number[], a: number) => x.slice(a - 1).reduce((s, v) => s + v, 0);
+
+/** The total over steps a..b of one ETS member: closed form for class 1, simulated sample paths otherwise. */
+function memberTotal(spec: EtsSpec, par: Smoothing, origin: EtsState, sigma2: number, a: number, b: number, levels: readonly number[]): TotalForecast {
+  if (spec.error === "A" && hasClosedForm(spec)) {
+    const mean = windowSum(pointForecasts(spec, par, origin, b), a);
+    return fromNormal(mean, linearTotalVariance(sigma2, errorWeights(spec, par, b), b, a), levels, `closed form for ETS(A,${spec.trend},${spec.season}) (Hyndman et al. 2008 ch. 6)`);
+  }
+  return fromPaths(spec, par, sigma2, a, b, levels, origin);
+}
 
 /**
  * Mean and bounds of the total over steps a..b (`from` = a, default 1; `h` = b) of a fitted
@@ -135,11 +147,17 @@ export function forecastTotal(fit: Fit, method: Method, h: number, levels: reado
         }
       : memberOf(fit);
     checkHorizon(method.id, h, levels);
-    if (spec.error === "A" && hasClosedForm(spec)) {
-      const mean = windowSum(pointForecasts(spec, par, origin, h), a);
-      return fromNormal(mean, linearTotalVariance(fit.sigma2, errorWeights(spec, par, h), h, a), levels, `closed form for ETS(A,${spec.trend},${spec.season}) (Hyndman et al. 2008 ch. 6)`);
-    }
-    return fromPaths(spec, par, fit, a, h, levels, origin);
+    return memberTotal(spec, par, origin, fit.sigma2, a, h, levels);
+  }
+  if (fit.method === "ets-weighted") {
+    // The largest-weight member's total moved to the weighted mean, as its step bounds (lib/forecast/methods/ets-weighted.ts).
+    checkHorizon(method.id, h, levels);
+    const { members, top } = weightedMembers(fit);
+    const x = members[top];
+    const t = memberTotal(x.spec, x.par, x.origin, x.sigma2, a, h, levels);
+    const shift = windowSum(weightedPointForecasts(members, h), a) - t.mean;
+    const move = (r: Record<string, number>) => Object.fromEntries(Object.entries(r).map(([k, v]) => [k, v + shift]));
+    return { mean: t.mean + shift, sd: t.sd, lower: move(t.lower), upper: move(t.upper), how: `${t.how}, moved to the Akaike-weighted mean of the ETS members` };
   }
   if (fit.method === "bass") {
     checkHorizon(method.id, h, levels);

@@ -18,6 +18,7 @@ export const METHOD_IDS = [
   "holt-winters-additive",
   "holt-winters-multiplicative",
   "ets",
+  "ets-weighted",
   "theta",
   "linear-trend",
   "regression",

@@ -125,10 +125,11 @@ function seasonRatios(r: EtsFitResult): Record<string, number> | undefined {
   return out;
 }
 
-/** Result of {@link chooseMember}: the chosen fit and every member's AICc. */
+/** Result of {@link chooseMember}: the chosen fit, every member's AICc and every member's fit (in `table`'s order). */
 export interface FamilyChoice {
   readonly best: StateSpaceFit;
   readonly table: readonly { readonly model: string; readonly aicc: number }[];
+  readonly members: readonly StateSpaceFit[];
 }
 
 /**
@@ -138,6 +139,7 @@ export interface FamilyChoice {
  */
 export function chooseMember(y: readonly number[], m: number): FamilyChoice {
   const table: { model: string; aicc: number }[] = [];
+  const members: StateSpaceFit[] = [];
   const lsFits = new Map<string, EtsFitResult>();
   let best: StateSpaceFit | undefined;
   for (const spec of candidateSpecs(y, m)) {
@@ -156,13 +158,14 @@ export function chooseMember(y: readonly number[], m: number): FamilyChoice {
         fit = fitMember(spec, y, undefined, lsFits.get(key));
       }
       table.push({ model: specName(spec), aicc: fit.aicc });
+      members.push(fit);
       if (!best || fit.aicc < best.aicc) best = fit;
     } catch (e) {
       if (!(e instanceof ForecastInputError)) throw e;
     }
   }
   if (!best) throw new ForecastInputError("ets: no member of the family could be fitted to this series");
-  return { best, table };
+  return { best, table, members };
 }
 
 /**
