@@ -49,7 +49,7 @@ options:
   --season N          season length, e.g. 12 for monthly data, 4 for quarterly (default: 1)
   --horizon H         steps to forecast (default: the future rows if any, else 2 x season,
                       or 10 without a season)
-  --method M          auto (default: the average of ETS chosen by AICc and Theta,
+  --method M          auto (default: the average of ETS weighted by AICc and Theta,
                       intervals widened to its own errors on the history) or one of:
 ${wrap(METHOD_IDS.join(", "), 68, 22)}
   --levels L1,L2      prediction interval levels in percent (default: ${DEFAULT_LEVELS.join(",")})

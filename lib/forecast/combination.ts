@@ -1,6 +1,6 @@
 /**
- * The automatic baseline's combination (docs/methods.md §20): the equal-weight mean of ETS
- * chosen by AICc and the Theta method, with intervals that are the wider of (a) the members'
+ * The automatic baseline's combination (docs/methods.md §20): the equal-weight mean of the ETS
+ * family weighted by AICc (lib/forecast/methods/ets-weighted.ts) and the Theta method, with intervals that are the wider of (a) the members'
  * bounds averaged quantile by quantile, narrowed by the ratio of the combination's spread of
  * errors on the history to the members' average, and (b) empirical bounds from the
  * combination's own multi-step errors on the history, with Student t quantiles on the effective

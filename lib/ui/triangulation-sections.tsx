@@ -265,7 +265,7 @@ export function BaselineDetails({ report, baseline }: { report: QuestionReport; 
           <dt>Method</dt>
           <dd data-stat="baseline-method">
             {chosen}
-            {b.requestedMethod === "auto" ? " — the automatic baseline: ETS chosen by AICc and Theta, averaged" : " — named by the organiser"}
+            {b.requestedMethod === "auto" ? " — the automatic baseline: ETS weighted by AICc and Theta, averaged" : " — named by the organiser"}
           </dd>
           <dt>Parameters</dt>
           <dd>

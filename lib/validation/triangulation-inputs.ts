@@ -100,7 +100,7 @@ export const baselineInput = z
       .optional()
       .describe("The history is an analogous product's, scaled by scaleFactor"),
     season: z.number().int("must be a whole number").min(1, "at least 1").max(52, "at most 52").default(1).describe("Season length (4 quarterly, 12 monthly)"),
-    method: z.enum(BASELINE_METHODS).default("auto").describe("auto (ETS chosen by AICc and Theta, averaged) or a method id"),
+    method: z.enum(BASELINE_METHODS).default("auto").describe("auto (ETS weighted by AICc and Theta, averaged) or a method id"),
     horizon: z.number().int("must be a whole number").min(1, "at least 1").max(1000, "at most 1000").optional().describe("Steps to the target period (value), or the last period b of a total or average over periods firstPeriod..b"),
     firstPeriod: z
       .number()

@@ -144,7 +144,7 @@ describe("triangulate baseline", () => {
     expect(zero.code).toBe(2);
   });
 
-  it("the automatic baseline combines ets and theta and keeps the field names of issue 2", async () => {
+  it("the automatic baseline combines ets-weighted and theta and keeps the field names of issue 2", async () => {
     const res = await cli(["baseline", "airpassengers.csv", "--season", "12", "--horizon", "12"]);
     expect(res.err).toBe("");
     expect(res.code).toBe(0);
@@ -156,10 +156,10 @@ describe("triangulate baseline", () => {
     expect(out.season).toBe(12);
     expect(out.forecast).toHaveLength(12);
     expect(out.fitted).toHaveLength(144);
-    // docs/methods.md §20: equal weights on ETS (AICc) and Theta; no candidates are scored.
+    // docs/methods.md §20: equal weights on ETS (its members weighted by AICc) and Theta; no candidates are scored.
     expect(out.method).toBe("combination");
-    expect(out.combination.map((c: { method: string }) => c.method)).toEqual(["ets", "theta"]);
-    expect(out.parameters).toEqual({ ets: 0.5, theta: 0.5 });
+    expect(out.combination.map((c: { method: string }) => c.method)).toEqual(["ets-weighted", "theta"]);
+    expect(out.parameters).toEqual({ "ets-weighted": 0.5, theta: 0.5 });
     expect(out.candidates).toEqual([]);
   });
 
