@@ -21,7 +21,7 @@
 import { fitEts, type EtsFitResult } from "./least-squares";
 import { etsKeys, etsMinLength, type SeasonKind, type TrendKind } from "./model";
 import { ForecastInputError, type Fit } from "../types";
-import { evaluate, fitStateSpace, type StateSpaceFit } from "./estimate";
+import { evaluate, fitSeasonalByJointSearch, fitStateSpace, type StateSpaceFit } from "./estimate";
 import { specName, type ErrorKind, type EtsSpec, type EtsState, type Smoothing } from "./state-space";
 
 const TRENDS: readonly TrendKind[] = ["N", "A", "Ad"];
@@ -106,6 +106,10 @@ export function fitMember(
   const start = start0 && Object.values(start0).every(Number.isFinite) && Object.keys(start0).length > 0
     ? { beta: 0, gamma: 0, phi: 1, b0: 0, ...start0 }
     : asRecord(fromLeastSquares(spec, y, ls ?? fitEts(`ETS(${specName(spec)})`, model, y, season)));
+  if (spec.season === "M" && !given && !warm) {
+    const joint = fitSeasonalByJointSearch(spec, y, start);
+    if (joint) return joint;
+  }
   return fitStateSpace(spec, y, { ...start, ...given }, given);
 }
 

@@ -50,9 +50,11 @@ export interface ChainFactors {
  * Scratch of the derivative passes: the running derivatives of level (dl), trend (db) and
  * seasonal ring (ds, m·P) with respect to the P search variables, one row of the Jacobian
  * (jrow), the outputs J'J (a, upper triangle, P×P) and J'e (rhs), and for the seasonal pass the
- * stored Jacobian (jcols, column-major n·P) and errors (ecol, n).
+ * stored Jacobian (jcols, column-major n·P), errors (ecol, n) and, for relative errors, the
+ * gradient of the mean log fitted value (meanLog, P).
  */
 export interface DerivativeWork {
+  readonly meanLog: Float64Array;
   readonly dl: Float64Array;
   readonly db: Float64Array;
   readonly ds: Float64Array;
@@ -121,8 +123,15 @@ export function filter(y: ArrayLike<number>, shape: Shape, par: Smoothing, st: E
  * (column-major in `d.jcols`, and in `d.ecol`); the products are then formed as dot products
  * over time, each summed in time order as a running update would. The ring of `st` is
  * overwritten. Returns the SSE.
+ *
+ * With `relative` (multiplicative errors; the point recursions are the same), the products are
+ * those of the least-squares form of the M-error likelihood instead: n·log Σ ε_t² + 2 Σ log f_t
+ * = n·log Σ r_t², r_t = g·ε_t, ε_t = (y_t − f_t)/f_t, g the geometric mean of the f_t
+ * (Hyndman et al. 2008 §5.1 with σ² concentrated out). Its Jacobian, with the common factor g
+ * dropped (it cancels in the damped step), is ∂ε_t/∂w + ε_t·∂log g/∂w
+ * = −(y_t/f_t²)·∂f_t/∂w + ε_t·(1/n) Σ_s (∂f_s/∂w)/f_s; J'e then holds −J'ε.
  */
-export function jointPass(y: Float64Array, shape: Shape, layout: SearchLayout, par: Smoothing, chain: ChainFactors, st: EtsState, d: DerivativeWork): number {
+export function jointPass(y: Float64Array, shape: Shape, layout: SearchLayout, par: Smoothing, chain: ChainFactors, st: EtsState, d: DerivativeWork, relative = false): number {
   const { trendOn, season, m } = shape;
   const { P, iAlpha, iBeta, iGamma, iPhi } = layout;
   const { alpha, beta, gamma, phi } = par;
@@ -196,6 +205,21 @@ export function jointPass(y: Float64Array, shape: Shape, layout: SearchLayout, p
     ecol[t] = e;
     for (let j = 0, o = t; j < P; j++, o += n) jcols[o] = jrow[j];
     if (++k === m) k = 0;
+  }
+  if (relative) {
+    const g = d.meanLog;
+    for (let j = 0, o = 0; j < P; j++) {
+      let v = 0;
+      for (let t = 0; t < n; t++, o++) v += jcols[o] / (y[t] - ecol[t]);
+      g[j] = v / n;
+    }
+    for (let t = 0; t < n; t++) {
+      const f = y[t] - ecol[t];
+      const eps = ecol[t] / f;
+      const w = y[t] / (f * f);
+      for (let j = 0, o = t; j < P; j++, o += n) jcols[o] = w * jcols[o] - eps * g[j];
+      ecol[t] = eps;
+    }
   }
   for (let i = 0; i < P; i++) {
     const ci = i * n;
