@@ -153,11 +153,17 @@ export function chooseMember(y: readonly number[], m: number): FamilyChoice {
         lsFits.set(key, r);
         fit = fromLeastSquares(spec, y, r);
       } else {
-        // The least-squares start of an M-season member: A,·,M warm-started from the fitted A,·,A.
+        // An M-season member: its likelihood searched jointly from the fitted A,·,A of the same
+        // trend (seasonal states as ratios). Failing that, Nelder–Mead from the least-squares
+        // A,·,M, itself warm-started from the same values.
         const additive = spec.season === "M" && !lsFits.has(key) ? lsFits.get(`${spec.trend},A`) : undefined;
         const warm = additive ? seasonRatios(additive) : undefined;
-        if (warm) lsFits.set(key, fitEts(`ETS(${specName(spec)})`, { trend: spec.trend, season: spec.season }, y, spec.m, undefined, warm));
-        fit = fitMember(spec, y, undefined, lsFits.get(key));
+        const joint = warm ? fitSeasonalByJointSearch(spec, y, warm) : undefined;
+        if (joint) fit = joint;
+        else {
+          if (warm) lsFits.set(key, fitEts(`ETS(${specName(spec)})`, { trend: spec.trend, season: spec.season }, y, spec.m, undefined, warm));
+          fit = fitMember(spec, y, undefined, lsFits.get(key));
+        }
       }
       table.push({ model: specName(spec), aicc: fit.aicc });
       if (!best || fit.aicc < best.aicc) best = fit;
