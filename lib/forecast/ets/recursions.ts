@@ -143,6 +143,8 @@ export function jointPass(y: Float64Array, shape: Shape, layout: SearchLayout, p
   let b = st.trend;
   let k = st.k;
   let sse = 0;
+  const g = d.meanLog;
+  if (relative) g.fill(0);
   for (let t = 0; t < n; t++) {
     const q = trendOn ? l + phi * b : l;
     const sv = season === 0 ? 0 : ring[k];
@@ -202,23 +204,26 @@ export function jointPass(y: Float64Array, shape: Shape, layout: SearchLayout, p
     if (iBeta >= 0) jrow[iBeta] *= cBU;
     if (iGamma >= 0) jrow[iGamma] *= cGV;
     sse += e * e;
-    ecol[t] = e;
-    for (let j = 0, o = t; j < P; j++, o += n) jcols[o] = jrow[j];
+    if (relative) {
+      // Row t of −(y_t/f_t²)·∂f_t/∂w (sign as J'e needs), and the running sums of (∂f_t/∂w)/f_t.
+      const f = y[t] - e;
+      const w = y[t] / (f * f);
+      for (let j = 0, o = t; j < P; j++, o += n) {
+        g[j] += jrow[j] / f;
+        jcols[o] = w * jrow[j];
+      }
+      ecol[t] = e / f;
+    } else {
+      ecol[t] = e;
+      for (let j = 0, o = t; j < P; j++, o += n) jcols[o] = jrow[j];
+    }
     if (++k === m) k = 0;
   }
   if (relative) {
-    const g = d.meanLog;
+    // The gradient of log g, (1/n) Σ_t (∂f_t/∂w)/f_t, times ε_t, column by column.
     for (let j = 0, o = 0; j < P; j++) {
-      let v = 0;
-      for (let t = 0; t < n; t++, o++) v += jcols[o] / (y[t] - ecol[t]);
-      g[j] = v / n;
-    }
-    for (let t = 0; t < n; t++) {
-      const f = y[t] - ecol[t];
-      const eps = ecol[t] / f;
-      const w = y[t] / (f * f);
-      for (let j = 0, o = t; j < P; j++, o += n) jcols[o] = w * jcols[o] - eps * g[j];
-      ecol[t] = eps;
+      const gj = g[j] / n;
+      for (let t = 0; t < n; t++, o++) jcols[o] -= ecol[t] * gj;
     }
   }
   for (let i = 0; i < P; i++) {
