@@ -15,7 +15,7 @@
 import { minimise } from "../optimise";
 import { etsKeys, ALPHA_LOWER, ALPHA_UPPER, BETA_LOWER, BETA_UPPER, GAMMA_LOWER, GAMMA_UPPER, PHI_LOWER, PHI_UPPER } from "./model";
 import { ForecastInputError } from "../types";
-import { refineJoint } from "./joint-search";
+import { JOINT_ITERATIONS, refineJoint } from "./joint-search";
 import type { Problem } from "./initial-states";
 import { aicc, filterSeries, likelihood, makeState, type EtsSpec, type EtsState, type Filtered, type Smoothing } from "./state-space";
 
@@ -197,8 +197,9 @@ export function originState(fit: StateSpaceFit): EtsState {
  * seasonal states above zero, summing to m). It starts from `start` (the least-squares fit of
  * A,·,M, which has the same point recursions) and runs to convergence: Nelder–Mead over the
  * m + 4 or so values of a monthly member used up R's budget of 2,000 evaluations on most M3
- * series without converging. Undefined when the start or the end has no finite likelihood (the
- * caller then uses {@link fitStateSpace}).
+ * series without converging. Undefined when the start or the end has no finite likelihood, or
+ * the search was still improving after JOINT_ITERATIONS steps (the caller then uses
+ * {@link fitStateSpace}).
  */
 export function fitSeasonalByJointSearch(spec: EtsSpec, y: readonly number[], start: Readonly<Record<string, number>>): StateSpaceFit | undefined {
   const m = spec.m;
@@ -239,10 +240,11 @@ export function fitSeasonalByJointSearch(spec: EtsSpec, y: readonly number[], st
     },
     x0,
     z0,
-    undefined,
+    JOINT_ITERATIONS,
     true,
   );
-  if (!Number.isFinite(r.sse)) return undefined;
+  // Not finite, or still improving when the iterations ran out (a slow crawl along a valley).
+  if (!Number.isFinite(r.sse) || r.iterations >= JOINT_ITERATIONS) return undefined;
   const at = (k: string) => r.x[names.indexOf(k)];
   const alpha = at("alpha");
   const par: Smoothing = {

@@ -13,6 +13,8 @@ import { likelihood, type EtsSpec } from "./state-space";
 
 /** Relative SSE gain of an accepted Levenberg–Marquardt step under which the joint search stops. */
 const JOINT_TOL = 1e-10;
+/** Most Levenberg–Marquardt iterations of one joint search run to convergence. */
+export const JOINT_ITERATIONS = 400;
 
 /** How the free smoothing parameters map onto the search box (see readPar in fitEts, ./least-squares.ts). */
 export interface JointSpec {
@@ -105,7 +107,7 @@ export function refineJoint(
   spec: JointSpec,
   x0: readonly number[],
   z0: ArrayLike<number>,
-  maxIter = 400,
+  maxIter = JOINT_ITERATIONS,
   relative = false,
 ): { x: number[]; z: Float64Array; sse: number; iterations: number } {
   const { y, shape, freeL0, freeB0, freeS, nStates: p } = problem;
