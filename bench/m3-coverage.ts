@@ -15,7 +15,8 @@
  * The series are spread over worker threads (node:worker_threads; default: one per core, at
  * most 2 — this machine's cores), each taking the next series when it is done with one; the
  * time printed is the wall time of the whole run after the workers have loaded the code, with
- * the CPU time of all threads beside it.
+ * the CPU time of all threads beside it, the main thread's part of it, and the tail (how long
+ * after a worker first found no series left the last one was done).
  *
  * `--total` also asks for the total over the horizon (docs/methods.md §10, §20) and reports how
  * often the held-out sum lies inside its 80% and 95% intervals; with `--from A`, the total of
