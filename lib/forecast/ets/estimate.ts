@@ -5,11 +5,13 @@
  *
  * The parameters and the initial states ℓ0, b0, s1…s(m−1) (s_m makes the seasonal states sum to
  * 0 or m) minimise the −2 log-likelihood n·log Σ ε_t² + 2 Σ log|f_t| of Hyndman et al. (2008)
- * §5.1 (σ² concentrated out), by Nelder–Mead (lib/forecast/optimise.ts) as in R's
- * forecast::ets, in R's "usual" region: alpha ∈ [1e-4, 0.9999], beta ∈ [1e-4, alpha],
- * gamma ∈ [1e-4, 1 − alpha], phi ∈ [0.8, 0.98]; multiplicative seasonal states stay above 0.
- * The search starts from `start` (the caller passes the least-squares fit of the same
- * structure with additive errors, which has the same point recursions).
+ * §5.1 (σ² concentrated out), in R's "usual" region: alpha ∈ [1e-4, 0.9999],
+ * beta ∈ [1e-4, alpha], gamma ∈ [1e-4, 1 − alpha], phi ∈ [0.8, 0.98]; multiplicative seasonal
+ * states stay above 0. Two searches: Nelder–Mead (lib/forecast/optimise.ts) as in R's
+ * forecast::ets ({@link fitStateSpace}), and for the M-season members with every value free the
+ * joint Levenberg–Marquardt search on the likelihood as a sum of squares
+ * ({@link fitSeasonalByJointSearch}). Both start from `start` (the caller passes a fit with
+ * additive errors and the same point recursions).
  * σ² = Σ ε_t² / (n − k), k the number of estimated parameters and states (R's ets).
  */
 import { minimise } from "../optimise";
@@ -194,10 +196,11 @@ export function originState(fit: StateSpaceFit): EtsState {
  * the likelihood written as a sum of squares (n·log Σ ε_t² + 2 Σ log f_t = n·log Σ (g·ε_t)², g
  * the geometric mean of the fitted values f_t), with exact derivatives through the recursions,
  * in the same region as {@link fitStateSpace} (beta and gamma as fractions of their ranges;
- * seasonal states above zero, summing to m). It starts from `start` (the least-squares fit of
- * A,·,M, which has the same point recursions) and runs to convergence: Nelder–Mead over the
- * m + 4 or so values of a monthly member used up R's budget of 2,000 evaluations on most M3
- * series without converging. Undefined when the start or the end has no finite likelihood, or
+ * seasonal states above zero, summing to m). It starts from `start` (every value: the family's
+ * choice passes the fitted A,·,A of the same trend with its seasonal states as ratios, ./family.ts;
+ * fitMember the least-squares A,·,M, which has the same point recursions) and runs to
+ * convergence: Nelder–Mead over the 14–17 values of a monthly member used up R's budget of 2,000
+ * evaluations on more than half of M3's monthly series without converging (docs/methods.md §2e). Undefined when the start or the end has no finite likelihood, or
  * the search was still improving after JOINT_ITERATIONS steps (the caller then uses
  * {@link fitStateSpace}).
  */

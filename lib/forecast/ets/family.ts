@@ -9,10 +9,12 @@
  * that widen with the level).
  *
  * A-error members are fitted by least squares (./least-squares.ts, their likelihood); the
- * M-error members by maximum likelihood (./estimate.ts) from the least-squares fit of the same
- * structure (already fitted as a candidate, or for A,·,M one joint search warm-started from the
- * fitted A,·,A of the same trend, its seasonal states as ratios: one fit shared, not a second
- * full search). Likelihoods of both error types are on the same scale (n·log Σε² + 2Σlog|f| vs
+ * M-error members by maximum likelihood (./estimate.ts): without an M season by Nelder–Mead from
+ * the A-error member of the same structure (already fitted as a candidate); with an M season by
+ * the joint Levenberg–Marquardt search on the likelihood, started from the fitted A,·,A of the
+ * same trend with its seasonal states as ratios, and only when that fails by the least-squares
+ * A,·,M (one joint search warm-started from the same values) and Nelder–Mead from there.
+ * Likelihoods of both error types are on the same scale (n·log Σε² + 2Σlog|f| vs
  * n·log Σe², both −2 log L up to the same constant), so one AICc compares them.
  *
  * A fit records its member in state.model (a code, see modelCode) so that the member and its
