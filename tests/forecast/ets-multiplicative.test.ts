@@ -13,11 +13,13 @@
  * 4. Estimation: maximising the likelihood ourselves gives a log-likelihood no lower than R's
  *    minus 0.5 (half a unit of log-likelihood = an AICc difference of 1, below the difference of
  *    2 usually read as support for one model over another: Burnham & Anderson 2002, common
- *    practice). R's Nelder–Mead may stop before the optimum, so ours is often higher.
+ *    practice). R's Nelder–Mead may stop before the optimum, so ours is often higher. For the
+ *    M-season members also on the automatic choice's own route (chooseMember: the joint search
+ *    started from the fitted A-season member), compared by AICc.
  */
 import { describe, expect, it } from "vitest";
 import { evaluate, fitStateSpace } from "../../lib/forecast/ets/estimate";
-import { fitMember, memberToFit } from "../../lib/forecast/ets/family";
+import { chooseMember, fitMember, memberToFit } from "../../lib/forecast/ets/family";
 import { memberForecast } from "../../lib/forecast/ets/distribution";
 import type { EtsSpec } from "../../lib/forecast/ets/state-space";
 import { normalQuantile } from "../../lib/stats/normal";
@@ -117,6 +119,16 @@ describe("multiplicative-error ETS members reproduce R's forecast::ets", () => {
       const ours = fitMember(c.spec, y);
       expect(ours.loglik).toBeGreaterThan(r.loglik[0] - 0.5); // R f$loglik, tolerance in the file comment
     });
+
+    if (c.spec.season === "M") {
+      it(`${c.label} on ${c.series}: the automatic choice's own search (from the fitted A-season member) is at least as good as R's (AICc within 1)`, () => {
+        const { y } = rSeries(c.series);
+        const r = reference[`m${i}`];
+        const row = chooseMember(y, c.spec.m).table.find((t) => t.model === c.label);
+        // R f$aicc; an AICc 1 higher is a log-likelihood 0.5 lower (tolerance in the file comment)
+        expect(row!.aicc).toBeLessThan(r.aicc[0] + 1);
+      });
+    }
   }
 
   it("refuses non-positive data for a multiplicative member", () => {

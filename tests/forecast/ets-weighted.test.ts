@@ -61,6 +61,7 @@ const CASES = [
   { series: "UKgas", origins: [60] },
   { series: "LakeHuron", origins: [] },
   { series: "WWWusage", origins: [] },
+  { series: "AirPassengers", origins: [] },
 ];
 preloadSeries(CASES.map((c) => c.series));
 const R = rEvalBatch(
@@ -119,15 +120,18 @@ describe("ets-weighted estimated by us", () => {
     expect(maxRelDiff(etsWeighted.forecast(fit, 10, []).mean as number[], r.mean)).toBeLessThan(1e-4);
   });
 
-  for (const series of ["Nile", "USAccDeaths", "UKgas", "WWWusage"]) {
-    it(`${series}: every member's AICc at most R's + 1, weighted mean within 1% of R's`, () => {
+  // AirPassengers: every member's AICc at most R's + 1 (R's ets(model = "MNM") stops about 63
+  // above ours), so the weights and the mean differ from R's by more than 1% there: AICc only.
+  for (const series of ["Nile", "USAccDeaths", "UKgas", "WWWusage", "AirPassengers"]) {
+    const meanToo = series !== "AirPassengers";
+    it(`${series}: every member's AICc at most R's + 1${meanToo ? ", weighted mean within 1% of R's" : ""}`, () => {
       const { y, m } = rSeries(series);
       const r = R[series];
       const names = memberNames(m, y.every((v) => v > 0));
       const fit = etsWeighted.fit({ y, season: m });
       expect(Object.keys(fit.parameters).filter((k) => k.endsWith(".weight"))).toEqual(names.map((k) => `${k}.weight`));
       for (const k of names) expect(fit.state[`${k}.aicc`] as number).toBeLessThanOrEqual(r[`aicc.${k}`][0] + 1);
-      expect(maxRelDiff(etsWeighted.forecast(fit, r.h[0], []).mean as number[], r.mean)).toBeLessThan(0.01);
+      if (meanToo) expect(maxRelDiff(etsWeighted.forecast(fit, r.h[0], []).mean as number[], r.mean)).toBeLessThan(0.01);
     });
   }
 });

@@ -151,35 +151,36 @@ export function pathBounds(paths: Float64Array, count: number, h: number, levels
  * Rearranges finite values `a` in place so that a[k] holds the k-th smallest value (0-based)
  * for every k in `ks` (ascending, within range), with no larger value before and no smaller
  * one after each such position: the values a full sort would put there. Hoare's selection
- * (Hoare 1961, "Algorithm 65: Find", CACM 4(7); Wirth's formulation) on the part of the array
- * to the right of the previous position, O(n) expected per position; no allocation.
+ * (Hoare 1961, "Algorithm 65: Find", CACM 4(7); Wirth's formulation), O(n) expected per
+ * position: the middle position of `ks` first, then those below it in the part below it and
+ * those above in the part above (each later search in a shorter part); no allocation.
  */
-function selectOrderStatistics(a: Float64Array, ks: readonly number[]): void {
-  let from = 0;
-  const last = a.length - 1;
-  for (const k of ks) {
-    let left = from;
-    let right = last;
-    while (left < right) {
-      const x = a[k];
-      let i = left;
-      let j = right;
-      do {
-        while (a[i] < x) i++;
-        while (x < a[j]) j--;
-        if (i <= j) {
-          const tmp = a[i];
-          a[i] = a[j];
-          a[j] = tmp;
-          i++;
-          j--;
-        }
-      } while (i <= j);
-      if (j < k) left = i;
-      if (k < i) right = j;
-    }
-    from = k + 1;
+function selectOrderStatistics(a: Float64Array, ks: readonly number[], from = 0, to = ks.length, lo = 0, hi = a.length - 1): void {
+  if (from >= to) return;
+  const mid = (from + to) >> 1;
+  const k = ks[mid];
+  let left = lo;
+  let right = hi;
+  while (left < right) {
+    const x = a[k];
+    let i = left;
+    let j = right;
+    do {
+      while (a[i] < x) i++;
+      while (x < a[j]) j--;
+      if (i <= j) {
+        const tmp = a[i];
+        a[i] = a[j];
+        a[j] = tmp;
+        i++;
+        j--;
+      }
+    } while (i <= j);
+    if (j < k) left = i;
+    if (k < i) right = j;
   }
+  selectOrderStatistics(a, ks, from, mid, lo, k - 1);
+  selectOrderStatistics(a, ks, mid + 1, to, k + 1, hi);
 }
 
 /** Sample standard deviation (n − 1 divisor). */

@@ -5,16 +5,20 @@
  *
  * The parameters and the initial states ℓ0, b0, s1…s(m−1) (s_m makes the seasonal states sum to
  * 0 or m) minimise the −2 log-likelihood n·log Σ ε_t² + 2 Σ log|f_t| of Hyndman et al. (2008)
- * §5.1 (σ² concentrated out), by Nelder–Mead (lib/forecast/optimise.ts) as in R's
- * forecast::ets, in R's "usual" region: alpha ∈ [1e-4, 0.9999], beta ∈ [1e-4, alpha],
- * gamma ∈ [1e-4, 1 − alpha], phi ∈ [0.8, 0.98]; multiplicative seasonal states stay above 0.
- * The search starts from `start` (the caller passes the least-squares fit of the same
- * structure with additive errors, which has the same point recursions).
+ * §5.1 (σ² concentrated out), in R's "usual" region: alpha ∈ [1e-4, 0.9999],
+ * beta ∈ [1e-4, alpha], gamma ∈ [1e-4, 1 − alpha], phi ∈ [0.8, 0.98]; multiplicative seasonal
+ * states stay above 0. Two searches: Nelder–Mead (lib/forecast/optimise.ts) as in R's
+ * forecast::ets ({@link fitStateSpace}), and for the M-season members with every value free the
+ * joint Levenberg–Marquardt search on the likelihood as a sum of squares
+ * ({@link fitSeasonalByJointSearch}). Both start from `start` (the caller passes a fit with
+ * additive errors and the same point recursions).
  * σ² = Σ ε_t² / (n − k), k the number of estimated parameters and states (R's ets).
  */
 import { minimise } from "../optimise";
-import { etsKeys, ALPHA_LOWER, ALPHA_UPPER, BETA_LOWER, GAMMA_LOWER, PHI_LOWER, PHI_UPPER } from "./model";
+import { etsKeys, ALPHA_LOWER, ALPHA_UPPER, BETA_LOWER, BETA_UPPER, GAMMA_LOWER, GAMMA_UPPER, PHI_LOWER, PHI_UPPER } from "./model";
 import { ForecastInputError } from "../types";
+import { JOINT_ITERATIONS, refineJoint } from "./joint-search";
+import type { Problem } from "./initial-states";
 import { aicc, filterSeries, likelihood, makeState, type EtsSpec, type EtsState, type Filtered, type Smoothing } from "./state-space";
 
 /** Objective evaluations allowed to the whole search, both stages (R's ets: Nelder–Mead with maxit 2,000, counted in evaluations). */
@@ -184,4 +188,76 @@ export function fitStateSpace(
 export function originState(fit: StateSpaceFit): EtsState {
   const f = fit.filtered.final;
   return { level: f.level, trend: f.trend, ring: Float64Array.from(f.ring), k: f.k };
+}
+
+/**
+ * Maximum likelihood of an M-error member with an M season, every value estimated, by the joint
+ * Levenberg–Marquardt search of the least-squares members (./joint-search.ts, `relative`) on
+ * the likelihood written as a sum of squares (n·log Σ ε_t² + 2 Σ log f_t = n·log Σ (g·ε_t)², g
+ * the geometric mean of the fitted values f_t), with exact derivatives through the recursions,
+ * in the same region as {@link fitStateSpace} (beta and gamma as fractions of their ranges;
+ * seasonal states above zero, summing to m). It starts from `start` (every value: the family's
+ * choice passes the fitted A,·,A of the same trend with its seasonal states as ratios, ./family.ts;
+ * fitMember the least-squares A,·,M, which has the same point recursions) and runs to
+ * convergence: Nelder–Mead over the 14–17 values of a monthly member used up R's budget of 2,000
+ * evaluations on more than half of M3's monthly series without converging (docs/methods.md §2e). Undefined when the start or the end has no finite likelihood, or
+ * the search was still improving after JOINT_ITERATIONS steps (the caller then uses
+ * {@link fitStateSpace}).
+ */
+export function fitSeasonalByJointSearch(spec: EtsSpec, y: readonly number[], start: Readonly<Record<string, number>>): StateSpaceFit | undefined {
+  const m = spec.m;
+  if (spec.error !== "M" || spec.season !== "M" || !(m >= 2)) return undefined;
+  const trendOn = spec.trend !== "N";
+  const damped = spec.trend === "Ad";
+  const names = ["alpha", ...(trendOn ? ["beta"] : []), "gamma", ...(damped ? ["phi"] : [])];
+  const nStates = (trendOn ? 2 : 1) + m - 1;
+  const clamp = (v: number, lo: number, hi: number) => Math.min(hi, Math.max(lo, v));
+  const betaHi = (alpha: number) => Math.max(BETA_LOWER, Math.min(BETA_UPPER, alpha));
+  const gammaHi = (alpha: number) => Math.max(GAMMA_LOWER, Math.min(GAMMA_UPPER, 1 - alpha));
+  const alpha0 = clamp(start.alpha, ALPHA_LOWER, ALPHA_UPPER);
+  const frac = (v: number, lo: number, hi: number) => (hi > lo ? clamp((v - lo) / (hi - lo), 0, 1) : 0);
+  const x0 = names.map((k) =>
+    k === "alpha" ? alpha0 : k === "beta" ? frac(start.beta, BETA_LOWER, betaHi(alpha0)) : k === "gamma" ? frac(start.gamma, GAMMA_LOWER, gammaHi(alpha0)) : clamp(start.phi, PHI_LOWER, PHI_UPPER),
+  );
+  const z0 = [start.l0, ...(trendOn ? [start.b0] : []), ...Array.from({ length: m - 1 }, (_, i) => start[`s${i + 1}`])];
+  if (![...x0, ...z0].every(Number.isFinite)) return undefined;
+  const problem: Problem = { y: Float64Array.from(y), shape: { trendOn, season: 2, m }, given: {}, freeL0: true, freeB0: trendOn, freeS: true, nStates };
+  const r = refineJoint(
+    problem,
+    {
+      nPar: names.length,
+      iAlpha: 0,
+      iBeta: names.indexOf("beta"),
+      iGamma: names.indexOf("gamma"),
+      iPhi: names.indexOf("phi"),
+      lower: names.map((k) => (k === "alpha" ? ALPHA_LOWER : k === "phi" ? PHI_LOWER : 0)),
+      upper: names.map((k) => (k === "alpha" ? ALPHA_UPPER : k === "phi" ? PHI_UPPER : 1)),
+      betaLo: BETA_LOWER,
+      betaUp: BETA_UPPER,
+      gammaLo: GAMMA_LOWER,
+      gammaUp: GAMMA_UPPER,
+      alphaFixed: NaN,
+      betaFixed: 0,
+      gammaFixed: NaN,
+      phiFixed: 1,
+    },
+    x0,
+    z0,
+    JOINT_ITERATIONS,
+    true,
+  );
+  // Not finite, or still improving when the iterations ran out (a slow crawl along a valley).
+  if (!Number.isFinite(r.sse) || r.iterations >= JOINT_ITERATIONS) return undefined;
+  const at = (k: string) => r.x[names.indexOf(k)];
+  const alpha = at("alpha");
+  const par: Smoothing = {
+    alpha,
+    beta: trendOn ? BETA_LOWER + at("beta") * (betaHi(alpha) - BETA_LOWER) : 0,
+    gamma: GAMMA_LOWER + at("gamma") * (gammaHi(alpha) - GAMMA_LOWER),
+    phi: damped ? at("phi") : 1,
+  };
+  const s = Array.from(r.z.subarray(trendOn ? 2 : 1));
+  s.push(m - s.reduce((a, b) => a + b, 0));
+  const fit = evaluate(spec, y, par, { l0: r.z[0], b0: trendOn ? r.z[1] : 0, s }, names.length + nStates);
+  return Number.isFinite(fit.aicc) ? fit : undefined;
 }

@@ -9,10 +9,12 @@
  * that widen with the level).
  *
  * A-error members are fitted by least squares (./least-squares.ts, their likelihood); the
- * M-error members by maximum likelihood (./estimate.ts) from the least-squares fit of the same
- * structure (already fitted as a candidate, or for A,·,M one joint search warm-started from the
- * fitted A,·,A of the same trend, its seasonal states as ratios: one fit shared, not a second
- * full search). Likelihoods of both error types are on the same scale (n·log Σε² + 2Σlog|f| vs
+ * M-error members by maximum likelihood (./estimate.ts): without an M season by Nelder–Mead from
+ * the A-error member of the same structure (already fitted as a candidate); with an M season by
+ * the joint Levenberg–Marquardt search on the likelihood, started from the fitted A,·,A of the
+ * same trend with its seasonal states as ratios, and only when that fails by the least-squares
+ * A,·,M (one joint search warm-started from the same values) and Nelder–Mead from there.
+ * Likelihoods of both error types are on the same scale (n·log Σε² + 2Σlog|f| vs
  * n·log Σe², both −2 log L up to the same constant), so one AICc compares them.
  *
  * A fit records its member in state.model (a code, see modelCode) so that the member and its
@@ -21,7 +23,7 @@
 import { fitEts, type EtsFitResult } from "./least-squares";
 import { etsKeys, etsMinLength, type SeasonKind, type TrendKind } from "./model";
 import { ForecastInputError, type Fit } from "../types";
-import { evaluate, fitStateSpace, type StateSpaceFit } from "./estimate";
+import { evaluate, fitSeasonalByJointSearch, fitStateSpace, type StateSpaceFit } from "./estimate";
 import { specName, type ErrorKind, type EtsSpec, type EtsState, type Smoothing } from "./state-space";
 
 const TRENDS: readonly TrendKind[] = ["N", "A", "Ad"];
@@ -106,6 +108,10 @@ export function fitMember(
   const start = start0 && Object.values(start0).every(Number.isFinite) && Object.keys(start0).length > 0
     ? { beta: 0, gamma: 0, phi: 1, b0: 0, ...start0 }
     : asRecord(fromLeastSquares(spec, y, ls ?? fitEts(`ETS(${specName(spec)})`, model, y, season)));
+  if (spec.season === "M" && !given && !warm) {
+    const joint = fitSeasonalByJointSearch(spec, y, start);
+    if (joint) return joint;
+  }
   return fitStateSpace(spec, y, { ...start, ...given }, given);
 }
 
@@ -151,11 +157,17 @@ export function chooseMember(y: readonly number[], m: number): FamilyChoice {
         lsFits.set(key, r);
         fit = fromLeastSquares(spec, y, r);
       } else {
-        // The least-squares start of an M-season member: A,·,M warm-started from the fitted A,·,A.
+        // An M-season member: its likelihood searched jointly from the fitted A,·,A of the same
+        // trend (seasonal states as ratios). Failing that, Nelder–Mead from the least-squares
+        // A,·,M, itself warm-started from the same values.
         const additive = spec.season === "M" && !lsFits.has(key) ? lsFits.get(`${spec.trend},A`) : undefined;
         const warm = additive ? seasonRatios(additive) : undefined;
-        if (warm) lsFits.set(key, fitEts(`ETS(${specName(spec)})`, { trend: spec.trend, season: spec.season }, y, spec.m, undefined, warm));
-        fit = fitMember(spec, y, undefined, lsFits.get(key));
+        const joint = warm ? fitSeasonalByJointSearch(spec, y, warm) : undefined;
+        if (joint) fit = joint;
+        else {
+          if (warm) lsFits.set(key, fitEts(`ETS(${specName(spec)})`, { trend: spec.trend, season: spec.season }, y, spec.m, undefined, warm));
+          fit = fitMember(spec, y, undefined, lsFits.get(key));
+        }
       }
       table.push({ model: specName(spec), aicc: fit.aicc });
       members.push(fit);

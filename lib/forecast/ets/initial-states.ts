@@ -219,19 +219,53 @@ export function solveStates(problem: Problem, par: Smoothing, ws: Workspace): nu
   const ns = freeS ? m - 1 : 0;
   const off = (freeL0 ? 1 : 0) + (freeB0 ? 1 : 0);
   if (freeS) {
-    // Lagged cross-products with the unconstrained seasonal columns U_j(t) = r0(t − j).
-    for (let j = 0; j < m; j++) {
+    // Lagged cross-products with the unconstrained seasonal columns U_j(t) = r0(t − j), two lags
+    // per sweep over time (each sum still in time order; those of a response that is not free
+    // are not used and set to 0).
+    let j = 0;
+    for (; j + 1 < m; j += 2) {
+      const u = r0[0];
+      let cl0 = 0;
+      let cb0 = 0;
+      let ce0 = 0;
+      cl0 += u * rl[j];
+      cb0 += u * rb[j];
+      ce0 += u * e0[j];
+      let cl1 = 0;
+      let cb1 = 0;
+      let ce1 = 0;
+      for (let t = j + 1; t < n; t++) {
+        const l = rl[t];
+        const b = rb[t];
+        const e = e0[t];
+        const u0 = r0[t - j];
+        const u1 = r0[t - j - 1];
+        cl0 += u0 * l;
+        cb0 += u0 * b;
+        ce0 += u0 * e;
+        cl1 += u1 * l;
+        cb1 += u1 * b;
+        ce1 += u1 * e;
+      }
+      corrL[j] = freeL0 ? cl0 : 0;
+      corrB[j] = freeB0 ? cb0 : 0;
+      corrE[j] = ce0;
+      corrL[j + 1] = freeL0 ? cl1 : 0;
+      corrB[j + 1] = freeB0 ? cb1 : 0;
+      corrE[j + 1] = ce1;
+    }
+    for (; j < m; j++) {
       let cl = 0;
       let cb = 0;
       let ce = 0;
       for (let t = j; t < n; t++) {
         const u = r0[t - j];
-        if (freeL0) cl += u * rl[t];
-        if (freeB0) cb += u * rb[t];
+        cl += u * rl[t];
+        cb += u * rb[t];
         ce += u * e0[t];
       }
-      corrL[j] = cl;
-      corrB[j] = cb;
+      corrL[j] = freeL0 ? cl : 0;
+      corrB[j] = freeB0 ? cb : 0;
       corrE[j] = ce;
     }
     // U_i·U_j (i ≤ j) = Σ_{u=0}^{n−1−j} r0(u)·r0(u + j − i).

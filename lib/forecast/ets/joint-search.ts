@@ -9,9 +9,12 @@
 import { choleskySolve, dampedSystem } from "./linear-algebra";
 import { emptyState, loadStates, type Problem } from "./initial-states";
 import { filter, jointPass, jointPassNonSeasonal, type ChainFactors, type DerivativeWork, type SearchLayout } from "./recursions";
+import { likelihood, type EtsSpec } from "./state-space";
 
 /** Relative SSE gain of an accepted Levenberg–Marquardt step under which the joint search stops. */
 const JOINT_TOL = 1e-10;
+/** Most Levenberg–Marquardt iterations of one joint search run to convergence. */
+export const JOINT_ITERATIONS = 400;
 
 /** How the free smoothing parameters map onto the search box (see readPar in fitEts, ./least-squares.ts). */
 export interface JointSpec {
@@ -93,13 +96,19 @@ export function bestCandidates(
  * parameters on their bounds (projected steps). Starts from (x0, z0) on the raw data;
  * returns the best point found. Seasonal states, when free, are constrained to sum to 0
  * (additive) or m (multiplicative).
+ *
+ * `relative` (an M season only): the same search for the member with multiplicative errors and
+ * the same point recursions, on its likelihood (jointPass's least-squares form of it); `sse`
+ * is then exp(lik/n) = Σ ε_t²·g² (g the geometric mean of the fitted values, lik of
+ * ./state-space.ts), and seasonal states that are not all above zero are refused.
  */
 export function refineJoint(
   problem: Problem,
   spec: JointSpec,
   x0: readonly number[],
   z0: ArrayLike<number>,
-  maxIter = 400,
+  maxIter = JOINT_ITERATIONS,
+  relative = false,
 ): { x: number[]; z: Float64Array; sse: number; iterations: number } {
   const { y, shape, freeL0, freeB0, freeS, nStates: p } = problem;
   const { trendOn, season, m } = shape;
@@ -114,6 +123,7 @@ export function refineJoint(
   const zTrialView = wTrial.subarray(nPar);
   const layout: SearchLayout = { P, iAlpha, iBeta, iGamma, iPhi };
   const d: DerivativeWork = {
+    meanLog: new Float64Array(relative ? P : 0),
     dl: new Float64Array(P),
     db: new Float64Array(P),
     ds: new Float64Array(m * P),
@@ -143,9 +153,15 @@ export function refineJoint(
     now.gamma = season !== 0 ? (iGamma >= 0 ? spec.gammaLo + v[iGamma] * chain.gammaV : spec.gammaFixed) : 0;
     now.phi = iPhi >= 0 ? v[iPhi] : spec.phiFixed;
   };
+  const mError: EtsSpec = { error: "M", trend: trendOn ? "A" : "N", season: "M", m };
+  const work = emptyState(m);
   const sseAt = (v: Float64Array, zv: Float64Array): number => {
     mapPar(v);
     loadStates(problem, zv, st);
+    if (relative) {
+      for (let i = 0; i < m; i++) if (!(st.ring[i] > 0)) return Infinity;
+      return Math.exp(likelihood(mError, now, st, y, work) / n);
+    }
     const r = filter(y, shape, now, st, null);
     return Number.isFinite(r) ? r : Infinity;
   };
@@ -172,7 +188,7 @@ export function refineJoint(
       }
     }
     if (season === 0) jointPassNonSeasonal(y, shape, layout, now, chain, st, d);
-    else jointPass(y, shape, layout, now, chain, st, d);
+    else jointPass(y, shape, layout, now, chain, st, d, relative);
     let accepted = false;
     let gain = 0;
     for (let attempt = 0; attempt < 16; attempt++) {

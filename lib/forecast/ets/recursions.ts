@@ -50,9 +50,11 @@ export interface ChainFactors {
  * Scratch of the derivative passes: the running derivatives of level (dl), trend (db) and
  * seasonal ring (ds, m·P) with respect to the P search variables, one row of the Jacobian
  * (jrow), the outputs J'J (a, upper triangle, P×P) and J'e (rhs), and for the seasonal pass the
- * stored Jacobian (jcols, column-major n·P) and errors (ecol, n).
+ * stored Jacobian (jcols, column-major n·P), errors (ecol, n) and, for relative errors, the
+ * gradient of the mean log fitted value (meanLog, P).
  */
 export interface DerivativeWork {
+  readonly meanLog: Float64Array;
   readonly dl: Float64Array;
   readonly db: Float64Array;
   readonly ds: Float64Array;
@@ -121,8 +123,15 @@ export function filter(y: ArrayLike<number>, shape: Shape, par: Smoothing, st: E
  * (column-major in `d.jcols`, and in `d.ecol`); the products are then formed as dot products
  * over time, each summed in time order as a running update would. The ring of `st` is
  * overwritten. Returns the SSE.
+ *
+ * With `relative` (multiplicative errors; the point recursions are the same), the products are
+ * those of the least-squares form of the M-error likelihood instead: n·log Σ ε_t² + 2 Σ log f_t
+ * = n·log Σ r_t², r_t = g·ε_t, ε_t = (y_t − f_t)/f_t, g the geometric mean of the f_t
+ * (Hyndman et al. 2008 §5.1 with σ² concentrated out). Its Jacobian, with the common factor g
+ * dropped (it cancels in the damped step), is ∂ε_t/∂w + ε_t·∂log g/∂w
+ * = −(y_t/f_t²)·∂f_t/∂w + ε_t·(1/n) Σ_s (∂f_s/∂w)/f_s; J'e then holds −J'ε.
  */
-export function jointPass(y: Float64Array, shape: Shape, layout: SearchLayout, par: Smoothing, chain: ChainFactors, st: EtsState, d: DerivativeWork): number {
+export function jointPass(y: Float64Array, shape: Shape, layout: SearchLayout, par: Smoothing, chain: ChainFactors, st: EtsState, d: DerivativeWork, relative = false): number {
   const { trendOn, season, m } = shape;
   const { P, iAlpha, iBeta, iGamma, iPhi } = layout;
   const { alpha, beta, gamma, phi } = par;
@@ -134,6 +143,8 @@ export function jointPass(y: Float64Array, shape: Shape, layout: SearchLayout, p
   let b = st.trend;
   let k = st.k;
   let sse = 0;
+  const g = d.meanLog;
+  if (relative) g.fill(0);
   for (let t = 0; t < n; t++) {
     const q = trendOn ? l + phi * b : l;
     const sv = season === 0 ? 0 : ring[k];
@@ -193,46 +204,29 @@ export function jointPass(y: Float64Array, shape: Shape, layout: SearchLayout, p
     if (iBeta >= 0) jrow[iBeta] *= cBU;
     if (iGamma >= 0) jrow[iGamma] *= cGV;
     sse += e * e;
-    ecol[t] = e;
-    for (let j = 0, o = t; j < P; j++, o += n) jcols[o] = jrow[j];
+    if (relative) {
+      // Row t of −(y_t/f_t²)·∂f_t/∂w (sign as J'e needs), and the running sums of (∂f_t/∂w)/f_t.
+      const f = y[t] - e;
+      const w = y[t] / (f * f);
+      for (let j = 0, o = t; j < P; j++, o += n) {
+        g[j] += jrow[j] / f;
+        jcols[o] = w * jrow[j];
+      }
+      ecol[t] = e / f;
+    } else {
+      ecol[t] = e;
+      for (let j = 0, o = t; j < P; j++, o += n) jcols[o] = jrow[j];
+    }
     if (++k === m) k = 0;
   }
-  for (let i = 0; i < P; i++) {
-    const ci = i * n;
-    let r = 0;
-    for (let t = 0; t < n; t++) r += jcols[ci + t] * ecol[t];
-    rhs[i] = r;
-    const oi = i * P;
-    let j = i;
-    for (; j + 3 < P; j += 4) {
-      // Four columns per sweep over time (each sum still runs in time order).
-      const c0 = j * n;
-      const c1 = c0 + n;
-      const c2 = c1 + n;
-      const c3 = c2 + n;
-      let v0 = 0;
-      let v1 = 0;
-      let v2 = 0;
-      let v3 = 0;
-      for (let t = 0; t < n; t++) {
-        const x = jcols[ci + t];
-        v0 += x * jcols[c0 + t];
-        v1 += x * jcols[c1 + t];
-        v2 += x * jcols[c2 + t];
-        v3 += x * jcols[c3 + t];
-      }
-      a[oi + j] = v0;
-      a[oi + j + 1] = v1;
-      a[oi + j + 2] = v2;
-      a[oi + j + 3] = v3;
-    }
-    for (; j < P; j++) {
-      const cj = j * n;
-      let v = 0;
-      for (let t = 0; t < n; t++) v += jcols[ci + t] * jcols[cj + t];
-      a[oi + j] = v;
+  if (relative) {
+    // The gradient of log g, (1/n) Σ_t (∂f_t/∂w)/f_t, times ε_t, column by column.
+    for (let j = 0, o = 0; j < P; j++) {
+      const gj = g[j] / n;
+      for (let t = 0; t < n; t++, o++) jcols[o] -= ecol[t] * gj;
     }
   }
+  gramProducts(jcols, ecol, n, P, a, rhs);
   return sse;
 }
 
@@ -284,4 +278,105 @@ export function jointPassNonSeasonal(y: Float64Array, shape: Shape, layout: Sear
     b = phiT * b + beta * e;
   }
   return sse;
+}
+
+/**
+ * J'J (upper triangle, row-major P×P, into `a`) and J'e (into `rhs`) from the Jacobian stored
+ * column-major (`jcols`, n·P) and the errors (`ecol`, n). Every product is one sum over time in
+ * time order; two rows and four columns are formed per sweep over time (fewer loads per product
+ * than one row at a time, the same sums). No allocation.
+ */
+function gramProducts(jcols: Float64Array, ecol: Float64Array, n: number, P: number, a: Float64Array, rhs: Float64Array): void {
+  let i = 0;
+  for (; i + 1 < P; i += 2) {
+    const ci = i * n;
+    const cn = ci + n;
+    // The two rows' J'e entries and their 2×2 block on the diagonal.
+    let r0 = 0;
+    let r1 = 0;
+    let d00 = 0;
+    let d01 = 0;
+    let d11 = 0;
+    for (let t = 0; t < n; t++) {
+      const x = jcols[ci + t];
+      const z = jcols[cn + t];
+      const e = ecol[t];
+      r0 += x * e;
+      r1 += z * e;
+      d00 += x * x;
+      d01 += x * z;
+      d11 += z * z;
+    }
+    rhs[i] = r0;
+    rhs[i + 1] = r1;
+    const oi = i * P;
+    const on = oi + P;
+    a[oi + i] = d00;
+    a[oi + i + 1] = d01;
+    a[on + i + 1] = d11;
+    let j = i + 2;
+    for (; j + 3 < P; j += 4) {
+      const c0 = j * n;
+      const c1 = c0 + n;
+      const c2 = c1 + n;
+      const c3 = c2 + n;
+      let u0 = 0;
+      let u1 = 0;
+      let u2 = 0;
+      let u3 = 0;
+      let v0 = 0;
+      let v1 = 0;
+      let v2 = 0;
+      let v3 = 0;
+      for (let t = 0; t < n; t++) {
+        const x = jcols[ci + t];
+        const z = jcols[cn + t];
+        const w0 = jcols[c0 + t];
+        const w1 = jcols[c1 + t];
+        const w2 = jcols[c2 + t];
+        const w3 = jcols[c3 + t];
+        u0 += x * w0;
+        u1 += x * w1;
+        u2 += x * w2;
+        u3 += x * w3;
+        v0 += z * w0;
+        v1 += z * w1;
+        v2 += z * w2;
+        v3 += z * w3;
+      }
+      a[oi + j] = u0;
+      a[oi + j + 1] = u1;
+      a[oi + j + 2] = u2;
+      a[oi + j + 3] = u3;
+      a[on + j] = v0;
+      a[on + j + 1] = v1;
+      a[on + j + 2] = v2;
+      a[on + j + 3] = v3;
+    }
+    for (; j < P; j++) {
+      const cj = j * n;
+      let u = 0;
+      let v = 0;
+      for (let t = 0; t < n; t++) {
+        const w = jcols[cj + t];
+        u += jcols[ci + t] * w;
+        v += jcols[cn + t] * w;
+      }
+      a[oi + j] = u;
+      a[on + j] = v;
+    }
+  }
+  if (i < P) {
+    // The last row alone (odd P).
+    const ci = i * n;
+    let r = 0;
+    let d = 0;
+    for (let t = 0; t < n; t++) {
+      const x = jcols[ci + t];
+      r += x * ecol[t];
+      d += x * x;
+    }
+    rhs[i] = r;
+    a[i * P + i] = d;
+  }
 }

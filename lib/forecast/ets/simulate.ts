@@ -3,7 +3,7 @@
  * distribution has no closed form (Hyndman, Koehler, Ord & Snyder 2008 §6.1; R's forecast::ets
  * simulates too). Deterministic: the same fit always gives the same paths. Pure TypeScript.
  */
-import { normalStream, PATHS, PATH_RNG_START } from "./state-space";
+import { normalStream, sharedNormals, PATHS, PATH_RNG_START } from "./state-space";
 
 /** Number of simulated paths for the intervals of the multiplicative-season model. */
 export const SIMULATION_PATHS = PATHS;
@@ -33,7 +33,9 @@ export function simulateAam(
 ): Float64Array {
   const out = new Float64Array(h * paths);
   const ring = new Float64Array(m);
-  const gauss = normalStream(SIMULATION_RNG_START);
+  const z = sharedNormals(SIMULATION_RNG_START, h * paths);
+  const gauss = z ? null : normalStream(SIMULATION_RNG_START);
+  let draw = 0;
   for (let p = 0; p < paths; p++) {
     for (let j = 0; j < m; j++) ring[j] = seasonNext[j];
     let l = level;
@@ -42,7 +44,7 @@ export function simulateAam(
     for (let i = 0; i < h; i++) {
       const q = l + phi * b;
       const sv = ring[k];
-      const e = sigma * gauss();
+      const e = sigma * (z ? z[draw++] : gauss!());
       out[i * paths + p] = q * sv + e;
       l = q + (alpha * e) / sv;
       b = phi * b + (beta * e) / sv;
