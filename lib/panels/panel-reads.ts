@@ -15,9 +15,9 @@ import type { Actor } from "@/lib/accounts/actor";
 import type { TrackRecord } from "@/lib/blend";
 import { finalAnswers } from "./round-closing";
 import { closedRound } from "./closed-rounds";
-import { nextTurn } from "@/lib/work/turn";
 import { getConvergence, type ConvergenceView } from "./rounds";
-import { filterOutcomes, loadOutcomes, trackRecordsOf, type HistoryFilter, type RecordedOutcome } from "../triangulation/track-records";
+import { runJob } from "@/lib/work/pool";
+import { filterOutcomes, loadOutcomes, type HistoryFilter, type RecordedOutcome } from "../triangulation/track-records";
 
 type FinalAnswerRow = NonNullable<ReturnType<Awaited<ReturnType<typeof finalAnswers>>["get"]>>[number];
 
@@ -74,11 +74,9 @@ export function panelReads(options: { wholeRounds?: boolean } = {}): PanelReads 
       const counted = filterOutcomes(all, filter);
       // The filter only leaves outcomes out: one that leaves none out (that of a question without an outcome)
       // gives the records of all of them, computed once for every such question.
-      // A turn for other requests first: the records of 300 panelists take tens of milliseconds (lib/work/turn.ts).
-      return records(counted.length === all.length ? `${ownerId}\u0000all` : filterKey(ownerId, filter), async () => {
-        await nextTurn();
-        return trackRecordsOf(counted);
-      });
+      // On the worker pool: the records of 300 panelists take tens of milliseconds, and a page with
+      // outcomes on many questions computes them once per such question (issue 13).
+      return records(counted.length === all.length ? `${ownerId}\u0000all` : filterKey(ownerId, filter), () => runJob("trackRecords", counted));
     },
     invitations(panelId) {
       return invitations(panelId, async () =>
