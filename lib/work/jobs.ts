@@ -9,6 +9,7 @@ import type { RawSeries } from "../forecast/series";
 import { launchForecast, type MarketPotential } from "../forecast/launch";
 import { computeCalibration } from "../triangulation/calibration-figures";
 import { blendsOf, computeTriangulation, triangulationWithEarlier, type TriangulationInput } from "../triangulation/triangulation-figures";
+import { evaluateStoppingRules } from "../stats/stopping-rules";
 import { trackRecordsOf, type RecordedOutcome } from "../triangulation/track-record-figures";
 
 export const jobs = {
@@ -23,6 +24,8 @@ export const jobs = {
   triangulation: (input: TriangulationInput) => computeTriangulation(input),
   /** A question's triangulation and the blend figure before its final round (the question report). */
   triangulationWithEarlier: (arg: { readonly input: TriangulationInput; readonly earlier: TriangulationInput | null }) => triangulationWithEarlier(arg.input, arg.earlier),
+  /** The stopping rules' verdicts after a round (lib/stats/stopping-rules.ts). */
+  stoppingRules: (input: Parameters<typeof evaluateStoppingRules>[0]) => evaluateStoppingRules(input),
   /** Track records per roster member from the outcomes that count (lib/triangulation/track-record-figures.ts). */
   trackRecords: (outcomes: readonly RecordedOutcome[]) => trackRecordsOf(outcomes),
   /** The blend figure and intervals of each question (a panel's report table). */
