@@ -54,6 +54,7 @@ export function panelReads(options: { wholeRounds?: boolean } = {}): PanelReads 
   const roundStatus = memo<{ id: string; status: string; closedAt: Date | null } | null>();
   const allOutcomes = memo<RecordedOutcome[]>();
   const records = memo<ReadonlyMap<string, { record: TrackRecord; skipped: number }>>();
+  const outcomesText = memo<string>();
   const invitations = memo<{ id: string; rosterMemberId: string; name: string }[]>();
   const convergence = memo<ConvergenceView>();
   const reads: PanelReads = {
@@ -76,7 +77,12 @@ export function panelReads(options: { wholeRounds?: boolean } = {}): PanelReads 
       // gives the records of all of them, computed once for every such question.
       // On the worker pool: the records of 300 panelists take tens of milliseconds, and a page with
       // outcomes on many questions computes them once per such question (issue 13).
-      return records(counted.length === all.length ? `${ownerId}\u0000all` : filterKey(ownerId, filter), () => runJob("trackRecords", counted));
+      // The outcomes cross to the worker as one JSON text made once per request, with the positions that count.
+      return records(counted.length === all.length ? `${ownerId}\u0000all` : filterKey(ownerId, filter), async () => {
+        const text = await outcomesText(ownerId, async () => JSON.stringify(all));
+        const kept = new Set(counted);
+        return runJob("trackRecords", { outcomes: text, keep: counted.length === all.length ? null : all.flatMap((o, i) => (kept.has(o) ? [i] : [])) });
+      });
     },
     invitations(panelId) {
       return invitations(panelId, async () =>

@@ -52,8 +52,11 @@ export interface RecordedOutcome {
   readonly figures: OutcomeFigures;
 }
 
+/** What the track records read of a recorded outcome. */
+export type ScoredOutcome = Pick<RecordedOutcome, "outcomeValue" | "partOutcomes" | "figures">;
+
 /** Each roster member's answers with an outcome (see the module comment for what is left out). */
-export function recordsByMember(outcomes: readonly RecordedOutcome[]): Map<string, { records: AnswerOutcome[]; skipped: number }> {
+export function recordsByMember(outcomes: readonly ScoredOutcome[]): Map<string, { records: AnswerOutcome[]; skipped: number }> {
   const out = new Map<string, { records: AnswerOutcome[]; skipped: number }>();
   for (const r of outcomes) {
     // Each part's outcome by invitation (the first, as a search of the list would find it).
@@ -76,11 +79,30 @@ export function recordsByMember(outcomes: readonly RecordedOutcome[]): Map<strin
 }
 
 /** Track records (lib/blend `trackRecord`) per roster member from the given outcomes. */
-export function trackRecordsOf(outcomes: readonly RecordedOutcome[]): Map<string, { record: TrackRecord; skipped: number }> {
+export function trackRecordsOf(outcomes: readonly ScoredOutcome[]): Map<string, { record: TrackRecord; skipped: number }> {
   const out = new Map<string, { record: TrackRecord; skipped: number }>();
   for (const [id, { records, skipped }] of recordsByMember(outcomes)) {
     const record = trackRecord(records);
     out.set(id, { record, skipped: skipped + record.skipped });
   }
   return out;
+}
+
+let lastText: string | null = null;
+let lastParsed: readonly ScoredOutcome[] = [];
+
+/**
+ * {@link trackRecordsOf} the outcomes at positions `keep` (all when null) of `text`, a JSON array
+ * of recorded outcomes. A request sends its outcomes as one text, which crosses to the worker
+ * thread as one copy (the outcomes' objects, every panelist's figures, were cloned one by one for
+ * each question); the last text parsed is kept, as a request sends the same text for each of its
+ * questions. Positions outside the array are ignored.
+ */
+export function trackRecordsOfText(text: string, keep: readonly number[] | null): Map<string, { record: TrackRecord; skipped: number }> {
+  if (text !== lastText) {
+    lastParsed = JSON.parse(text) as ScoredOutcome[];
+    lastText = text;
+  }
+  const all = lastParsed;
+  return trackRecordsOf(keep === null ? all : keep.flatMap((i) => (i >= 0 && i < all.length ? [all[i]] : [])));
 }

@@ -10,7 +10,7 @@ import { launchForecast, type MarketPotential } from "../forecast/launch";
 import { computeCalibration } from "../triangulation/calibration-figures";
 import { blendsOf, computeTriangulation, triangulationWithEarlier, type TriangulationInput } from "../triangulation/triangulation-figures";
 import { evaluateStoppingRules } from "../stats/stopping-rules";
-import { trackRecordsOf, type RecordedOutcome } from "../triangulation/track-record-figures";
+import { trackRecordsOfText } from "../triangulation/track-record-figures";
 
 export const jobs = {
   /** The baseline engine's fit and forecast (lib/forecast/baseline.ts). */
@@ -26,8 +26,8 @@ export const jobs = {
   triangulationWithEarlier: (arg: { readonly input: TriangulationInput; readonly earlier: TriangulationInput | null }) => triangulationWithEarlier(arg.input, arg.earlier),
   /** The stopping rules' verdicts after a round (lib/stats/stopping-rules.ts). */
   stoppingRules: (input: Parameters<typeof evaluateStoppingRules>[0]) => evaluateStoppingRules(input),
-  /** Track records per roster member from the outcomes that count (lib/triangulation/track-record-figures.ts). */
-  trackRecords: (outcomes: readonly RecordedOutcome[]) => trackRecordsOf(outcomes),
+  /** Track records per roster member from the outcomes that count, sent as one JSON text (lib/triangulation/track-record-figures.ts). */
+  trackRecords: (arg: { readonly outcomes: string; readonly keep: readonly number[] | null }) => trackRecordsOfText(arg.outcomes, arg.keep),
   /** The blend figure and intervals of each question (a panel's report table). */
   blends: (inputs: readonly TriangulationInput[]) => blendsOf(inputs),
 };
