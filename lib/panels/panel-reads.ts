@@ -17,6 +17,7 @@ import { finalAnswers } from "./round-closing";
 import { closedRound } from "./closed-rounds";
 import { getConvergence, type ConvergenceView } from "./rounds";
 import { runJob } from "@/lib/work/pool";
+import { nextTurn } from "@/lib/work/turn";
 import { filterOutcomes, loadOutcomes, type HistoryFilter, type RecordedOutcome } from "../triangulation/track-records";
 
 type FinalAnswerRow = NonNullable<ReturnType<Awaited<ReturnType<typeof finalAnswers>>["get"]>>[number];
@@ -79,7 +80,15 @@ export function panelReads(options: { wholeRounds?: boolean } = {}): PanelReads 
       // outcomes on many questions computes them once per such question (issue 13).
       // The outcomes cross to the worker as one JSON text made once per request, with the positions that count.
       return records(counted.length === all.length ? `${ownerId}\u0000all` : filterKey(ownerId, filter), async () => {
-        const text = await outcomesText(ownerId, async () => JSON.stringify(all));
+        // Written an outcome at a time, a turn of the event loop before each (lib/work/turn.ts): it is megabytes at 1,000 panelists.
+        const text = await outcomesText(ownerId, async () => {
+          const parts: string[] = [];
+          for (const outcome of all) {
+            await nextTurn();
+            parts.push(JSON.stringify(outcome));
+          }
+          return `[${parts.join(",")}]`;
+        });
         const kept = new Set(counted);
         return runJob("trackRecords", { outcomes: text, keep: counted.length === all.length ? null : all.flatMap((o, i) => (kept.has(o) ? [i] : [])) });
       });

@@ -37,6 +37,7 @@ import {
 } from "@/lib/blend";
 import { usableHistoryEntry } from "@/lib/blend/scoring";
 import { jsonSafe, type JsonSafe } from "../panels/json";
+import { nextTurn } from "@/lib/work/turn";
 import { trackRecordsOf, type OutcomeFigures, type RecordedOutcome } from "./track-record-figures";
 
 export * from "./track-record-figures";
@@ -56,7 +57,13 @@ export function filterOutcomes(outcomes: readonly RecordedOutcome[], filter: His
   );
 }
 
-/** The organiser's recorded outcomes, oldest first. */
+/**
+ * The organiser's recorded outcomes, oldest first. Each outcome's figures (every panelist's
+ * answer: about 150 kB of JSON at 1,000 panelists) are read and parsed one outcome at a time,
+ * with a turn of the event loop before each (lib/work/turn.ts): the SQLite driver answers
+ * synchronously, and all of them at once held other requests back for a quarter of a second at
+ * 1,000 panelists × 50 questions (issue 13).
+ */
 export async function loadOutcomes(ownerId: string, filter: HistoryFilter = {}): Promise<RecordedOutcome[]> {
   const rows = await db.resolution.findMany({
     where: {
@@ -65,19 +72,27 @@ export async function loadOutcomes(ownerId: string, filter: HistoryFilter = {}):
       ...(filter.before ? { resolvedAt: { lt: filter.before } } : {}),
     },
     orderBy: [{ resolvedAt: "asc" }, { id: "asc" }],
+    omit: { figures: true, partActuals: true },
     include: { question: { include: { panel: { select: { id: true, title: true } } } } },
   });
-  return rows.map((r) => ({
-    questionId: r.questionId,
-    panelId: r.question.panel.id,
-    panelTitle: r.question.panel.title,
-    text: r.question.text,
-    unit: r.question.unit,
-    recordedAt: r.resolvedAt,
-    outcomeValue: r.actual,
-    partOutcomes: JSON.parse(r.partActuals) as RecordedOutcome["partOutcomes"],
-    figures: JSON.parse(r.figures) as OutcomeFigures,
-  }));
+  const outcomes: RecordedOutcome[] = [];
+  for (const r of rows) {
+    await nextTurn();
+    const stored = await db.resolution.findUnique({ where: { id: r.id }, select: { figures: true, partActuals: true } });
+    if (!stored) continue; // deleted with its panel since the list was read
+    outcomes.push({
+      questionId: r.questionId,
+      panelId: r.question.panel.id,
+      panelTitle: r.question.panel.title,
+      text: r.question.text,
+      unit: r.question.unit,
+      recordedAt: r.resolvedAt,
+      outcomeValue: r.actual,
+      partOutcomes: JSON.parse(stored.partActuals) as RecordedOutcome["partOutcomes"],
+      figures: JSON.parse(stored.figures) as OutcomeFigures,
+    });
+  }
+  return outcomes;
 }
 
 /** Track records (lib/blend `trackRecord`) of the organiser's roster members. */
