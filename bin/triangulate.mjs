@@ -9,10 +9,11 @@ import { register } from "tsx/esm/api";
 
 const heapBounded = [...process.execArgv, process.env.NODE_OPTIONS ?? ""].some((a) => a.includes("--max-old-space-size"));
 if (process.argv[2] === "serve" && !heapBounded) {
-  // The server's main-thread old space is bounded (lib/work/heap-limits.json), as `npm start` bounds
+  // The server's main-thread heap is bounded (lib/work/heap-limits.json), as `npm start` bounds
   // it: started without a bound, `serve` runs itself again with one, passing signals and its exit on.
   const limits = JSON.parse(readFileSync(new URL("../lib/work/heap-limits.json", import.meta.url), "utf8"));
-  const args = [...process.execArgv, `--max-old-space-size=${limits.serverOldSpaceMiB}`, fileURLToPath(import.meta.url), ...process.argv.slice(2)];
+  const heap = [`--max-old-space-size=${limits.serverOldSpaceMiB}`, `--max-semi-space-size=${limits.serverSemiSpaceMiB}`];
+  const args = [...process.execArgv, ...heap, fileURLToPath(import.meta.url), ...process.argv.slice(2)];
   const server = spawn(process.execPath, args, { stdio: "inherit" });
   for (const sig of ["SIGINT", "SIGTERM"]) process.on(sig, () => server.kill(sig));
   server.on("exit", (code, signal) => process.exit(code ?? (signal ? 1 : 0)));
