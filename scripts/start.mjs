@@ -63,8 +63,14 @@ if (!existsSync(buildId) || Math.max(...sources) > statSync(buildId).mtimeMs) {
   run(bin("next"), ["build"], env);
 }
 
-// The production server: Next.js, with the answer route served directly (lib/http/server.ts).
-const server = spawn(process.execPath, [path.join(root, "bin", "triangulate.mjs"), "serve", "--port", env.PORT], { stdio: ["inherit", "pipe", "inherit"], env });
+// The production server: Next.js, with the answer route served directly (lib/http/server.ts), its
+// main thread's heap bounded (old space and young generation's semi-spaces, lib/work/heap-limits.json;
+// the worker threads' bound is set where they start, lib/work/pool.ts) unless NODE_OPTIONS bounds the old space.
+const heapLimits = JSON.parse(readFileSync(path.join(root, "lib", "work", "heap-limits.json"), "utf8"));
+const heapFlag = /--max-old-space-size/.test(env.NODE_OPTIONS ?? "")
+  ? []
+  : [`--max-old-space-size=${heapLimits.serverOldSpaceMiB}`, `--max-semi-space-size=${heapLimits.serverSemiSpaceMiB}`];
+const server = spawn(process.execPath, [...heapFlag, path.join(root, "bin", "triangulate.mjs"), "serve", "--port", env.PORT], { stdio: ["inherit", "pipe", "inherit"], env });
 let announced = false;
 server.stdout.on("data", (chunk) => {
   process.stdout.write(chunk);

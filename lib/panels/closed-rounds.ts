@@ -25,8 +25,13 @@ export interface ClosedRound {
   readonly statistics: ReadonlyMap<string, QuestionStatistics>;
 }
 
-/** Final answers kept over all cached rounds (a round of 1,000 panelists × 50 questions holds 50,000). */
-export const KEEP_ANSWERS = 200_000;
+/**
+ * Final answers kept over all cached rounds (a round of 1,000 panelists × 50 questions holds
+ * 50,000): three such rounds. About 730 bytes of heap each with the round's statistics (measured
+ * on the 300 × 30 scale scenario, issue 13), so at most about 105 MiB, within the server's bounded
+ * heap (lib/work/heap-limits.json).
+ */
+export const KEEP_ANSWERS = 150_000;
 
 interface Kept {
   size: number;

@@ -15,9 +15,10 @@ import type { Actor } from "@/lib/accounts/actor";
 import type { TrackRecord } from "@/lib/blend";
 import { finalAnswers } from "./round-closing";
 import { closedRound } from "./closed-rounds";
-import { nextTurn } from "@/lib/work/turn";
 import { getConvergence, type ConvergenceView } from "./rounds";
-import { filterOutcomes, loadOutcomes, trackRecordsOf, type HistoryFilter, type RecordedOutcome } from "../triangulation/track-records";
+import { runJob } from "@/lib/work/pool";
+import { nextTurn } from "@/lib/work/turn";
+import { filterOutcomes, loadOutcomes, type HistoryFilter, type RecordedOutcome } from "../triangulation/track-records";
 
 type FinalAnswerRow = NonNullable<ReturnType<Awaited<ReturnType<typeof finalAnswers>>["get"]>>[number];
 
@@ -54,6 +55,7 @@ export function panelReads(options: { wholeRounds?: boolean } = {}): PanelReads 
   const roundStatus = memo<{ id: string; status: string; closedAt: Date | null } | null>();
   const allOutcomes = memo<RecordedOutcome[]>();
   const records = memo<ReadonlyMap<string, { record: TrackRecord; skipped: number }>>();
+  const outcomesText = memo<string>();
   const invitations = memo<{ id: string; rosterMemberId: string; name: string }[]>();
   const convergence = memo<ConvergenceView>();
   const reads: PanelReads = {
@@ -74,10 +76,21 @@ export function panelReads(options: { wholeRounds?: boolean } = {}): PanelReads 
       const counted = filterOutcomes(all, filter);
       // The filter only leaves outcomes out: one that leaves none out (that of a question without an outcome)
       // gives the records of all of them, computed once for every such question.
-      // A turn for other requests first: the records of 300 panelists take tens of milliseconds (lib/work/turn.ts).
+      // On the worker pool: the records of 300 panelists take tens of milliseconds, and a page with
+      // outcomes on many questions computes them once per such question (issue 13).
+      // The outcomes cross to the worker as one JSON text made once per request, with the positions that count.
       return records(counted.length === all.length ? `${ownerId}\u0000all` : filterKey(ownerId, filter), async () => {
-        await nextTurn();
-        return trackRecordsOf(counted);
+        // Written an outcome at a time, a turn of the event loop before each (lib/work/turn.ts): it is megabytes at 1,000 panelists.
+        const text = await outcomesText(ownerId, async () => {
+          const parts: string[] = [];
+          for (const outcome of all) {
+            await nextTurn();
+            parts.push(JSON.stringify(outcome));
+          }
+          return `[${parts.join(",")}]`;
+        });
+        const kept = new Set(counted);
+        return runJob("trackRecords", { outcomes: text, keep: counted.length === all.length ? null : all.flatMap((o, i) => (kept.has(o) ? [i] : [])) });
       });
     },
     invitations(panelId) {

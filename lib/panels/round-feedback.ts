@@ -7,13 +7,13 @@
  * Built once per closed round and kept (issue 13: each panelist page re-read the round's every
  * answer and re-parsed its statistics' JSON), from lib/panels/closed-rounds.ts, for the same
  * reason and under the same rules (immutable data keyed on the round's id and closing time, on
- * globalThis, bounded by the answers held). Questions are fixed once round 1 opens
+ * globalThis, bounded by the answers held, the same number as there). Questions are fixed once round 1 opens
  * (lib/panels/panels.ts requireDraft), so their text is kept too. A question nobody answered
  * has n = 0 and no bins.
  */
 import { db } from "@/lib/db";
 import { histogram, type HistogramBin } from "@/lib/stats";
-import { closedRound } from "./closed-rounds";
+import { closedRound, KEEP_ANSWERS } from "./closed-rounds";
 
 export interface RoundFeedbackQuestion {
   readonly questionId: string;
@@ -38,8 +38,6 @@ export interface RoundFeedbackQuestion {
 
 export type RoundFeedback = readonly RoundFeedbackQuestion[];
 
-/** Final answers kept over all cached rounds (a 1,000 × 50 round holds 50,000). */
-const KEEP_ANSWERS = 200_000;
 
 interface Kept {
   readonly answers: number;

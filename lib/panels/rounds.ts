@@ -10,11 +10,11 @@ import type { Round } from "@/lib/generated/prisma/client";
 import type { NextRoundInput, RoundOpen } from "@/lib/validation/inputs";
 import {
   consensusApplies,
-  evaluateStoppingRules,
   type QuestionRoundFigures,
   type StoppingEvaluation,
 } from "@/lib/stats/stopping-rules";
 import { authorisePanel } from "./access";
+import { runJob } from "@/lib/work/pool";
 import { recordAudit } from "./audit";
 import { closeRoundInTx, finalAnswers } from "./round-closing";
 import { closedRound, type ClosedRound } from "./closed-rounds";
@@ -322,8 +322,9 @@ export async function getConvergence(actor: Actor, panelId: string): Promise<Con
   // The stability rule compares the distributions of the answers, so it needs the answers themselves.
   const lastAnswers = last ? closed.get(last.id)!.answers : null;
   const previousAnswers = previous ? closed.get(previous.id)!.answers : null;
+  // On the worker pool: the stability rule sorts every question's answers of two rounds (issue 13).
   const evaluation = last
-    ? evaluateStoppingRules({
+    ? await runJob("stoppingRules", {
         roundNumber: last.number,
         current: statsOf(last).map((x) => figuresOf(x, lastAnswers!)),
         previous: previous ? statsOf(previous).map((x) => figuresOf(x, previousAnswers!)) : null,

@@ -32,56 +32,15 @@ import {
   trackRecord,
   type AccuracyHistory,
   type HistoryEntry,
-  type AnswerOutcome,
   type OutcomePair,
   type TrackRecord,
 } from "@/lib/blend";
 import { usableHistoryEntry } from "@/lib/blend/scoring";
 import { jsonSafe, type JsonSafe } from "../panels/json";
+import { nextTurn } from "@/lib/work/turn";
+import { trackRecordsOf, type OutcomeFigures, type RecordedOutcome } from "./track-record-figures";
 
-/** One panelist's final answer as it stood when the outcome was recorded. */
-export interface PanelistFigureAtOutcome {
-  readonly invitationId: string;
-  readonly rosterMemberId: string;
-  readonly pseudonym: string;
-  readonly value: number;
-  readonly low: number | null;
-  readonly high: number | null;
-  /** The bias factor applied to this answer in the corrected panel figure. */
-  readonly factor: number;
-}
-
-/** The figures of a question when its outcome was recorded (stored as JSON in the Resolution table's figures column). */
-export interface OutcomeFigures {
-  readonly round: number;
-  readonly aggregation: "shared" | "sum-of-parts";
-  readonly answerFormat: "single" | "three-point";
-  readonly rawPanel: number;
-  readonly correctedPanel: number;
-  readonly baseline: number | null;
-  readonly blend: number | null;
-  /** The blend's combined sd before its range scale (lib/blend `blend`), for the blend range's track record (absent in outcomes stored before it was kept). */
-  readonly blendSd?: number | null;
-  readonly panelWeight: number | null;
-  readonly weightRule: string | null;
-  readonly panelists: readonly PanelistFigureAtOutcome[];
-  /** The baseline's history as used (scaled), for the MASE scale of the scores. */
-  readonly baselineTraining: readonly number[];
-  readonly baselineSeason: number;
-}
-
-/** A stored outcome (a row of the `Resolution` table), parsed. */
-export interface RecordedOutcome {
-  readonly questionId: string;
-  readonly panelId: string;
-  readonly panelTitle: string;
-  readonly text: string;
-  readonly unit: string;
-  readonly recordedAt: Date;
-  readonly outcomeValue: number;
-  readonly partOutcomes: readonly { readonly invitationId: string; readonly actual: number }[];
-  readonly figures: OutcomeFigures;
-}
+export * from "./track-record-figures";
 
 /** Which outcomes count for a question's figures (see the module comment). */
 export interface HistoryFilter {
@@ -98,7 +57,13 @@ export function filterOutcomes(outcomes: readonly RecordedOutcome[], filter: His
   );
 }
 
-/** The organiser's recorded outcomes, oldest first. */
+/**
+ * The organiser's recorded outcomes, oldest first. Each outcome's figures (every panelist's
+ * answer: about 150 kB of JSON at 1,000 panelists) are read and parsed one outcome at a time,
+ * with a turn of the event loop before each (lib/work/turn.ts): the SQLite driver answers
+ * synchronously, and all of them at once held other requests back for a quarter of a second at
+ * 1,000 panelists × 50 questions (issue 13).
+ */
 export async function loadOutcomes(ownerId: string, filter: HistoryFilter = {}): Promise<RecordedOutcome[]> {
   const rows = await db.resolution.findMany({
     where: {
@@ -107,52 +72,27 @@ export async function loadOutcomes(ownerId: string, filter: HistoryFilter = {}):
       ...(filter.before ? { resolvedAt: { lt: filter.before } } : {}),
     },
     orderBy: [{ resolvedAt: "asc" }, { id: "asc" }],
+    omit: { figures: true, partActuals: true },
     include: { question: { include: { panel: { select: { id: true, title: true } } } } },
   });
-  return rows.map((r) => ({
-    questionId: r.questionId,
-    panelId: r.question.panel.id,
-    panelTitle: r.question.panel.title,
-    text: r.question.text,
-    unit: r.question.unit,
-    recordedAt: r.resolvedAt,
-    outcomeValue: r.actual,
-    partOutcomes: JSON.parse(r.partActuals) as RecordedOutcome["partOutcomes"],
-    figures: JSON.parse(r.figures) as OutcomeFigures,
-  }));
-}
-
-/** Each roster member's answers with an outcome (see the module comment for what is left out). */
-export function recordsByMember(outcomes: readonly RecordedOutcome[]): Map<string, { records: AnswerOutcome[]; skipped: number }> {
-  const out = new Map<string, { records: AnswerOutcome[]; skipped: number }>();
-  for (const r of outcomes) {
-    // Each part's outcome by invitation (the first, as a search of the list would find it).
-    const parts = new Map<string, number>();
-    for (const x of r.partOutcomes) if (!parts.has(x.invitationId)) parts.set(x.invitationId, x.actual);
-    for (const p of r.figures.panelists) {
-      const entry = out.get(p.rosterMemberId) ?? { records: [], skipped: 0 };
-      out.set(p.rosterMemberId, entry);
-      const actual = r.figures.aggregation === "shared" ? r.outcomeValue : parts.get(p.invitationId);
-      if (actual === undefined) continue;
-      if (!(actual > 0) || !(p.value > 0)) {
-        entry.skipped++;
-        continue;
-      }
-      const threePoint = r.figures.answerFormat === "three-point" && p.low !== null && p.high !== null;
-      entry.records.push(threePoint ? { actual, answer: p.value, low: p.low!, high: p.high! } : { actual, answer: p.value });
-    }
+  const outcomes: RecordedOutcome[] = [];
+  for (const r of rows) {
+    await nextTurn();
+    const stored = await db.resolution.findUnique({ where: { id: r.id }, select: { figures: true, partActuals: true } });
+    if (!stored) continue; // deleted with its panel since the list was read
+    outcomes.push({
+      questionId: r.questionId,
+      panelId: r.question.panel.id,
+      panelTitle: r.question.panel.title,
+      text: r.question.text,
+      unit: r.question.unit,
+      recordedAt: r.resolvedAt,
+      outcomeValue: r.actual,
+      partOutcomes: JSON.parse(stored.partActuals) as RecordedOutcome["partOutcomes"],
+      figures: JSON.parse(stored.figures) as OutcomeFigures,
+    });
   }
-  return out;
-}
-
-/** Track records (lib/blend `trackRecord`) per roster member from the given outcomes. */
-export function trackRecordsOf(outcomes: readonly RecordedOutcome[]): Map<string, { record: TrackRecord; skipped: number }> {
-  const out = new Map<string, { record: TrackRecord; skipped: number }>();
-  for (const [id, { records, skipped }] of recordsByMember(outcomes)) {
-    const record = trackRecord(records);
-    out.set(id, { record, skipped: skipped + record.skipped });
-  }
-  return out;
+  return outcomes;
 }
 
 /** Track records (lib/blend `trackRecord`) of the organiser's roster members. */

@@ -12,6 +12,23 @@ const LOCALE = "en-GB";
 const DATE = new Intl.DateTimeFormat(LOCALE, { day: "numeric", month: "short", year: "numeric", timeZone: "UTC" });
 const DATE_TIME = new Intl.DateTimeFormat(LOCALE, { day: "numeric", month: "short", year: "numeric", hour: "2-digit", minute: "2-digit", hourCycle: "h23", timeZone: "UTC" });
 
+/**
+ * The number formats, made once per number of decimals: `value.toLocaleString(LOCALE, options)`
+ * is defined as formatting with `new Intl.NumberFormat(LOCALE, options)` (ECMA-402, Number.prototype.toLocaleString),
+ * so the text is the same, but building the format on each call took a third of a large page's
+ * rendering (issue 13: the report page's convergence tables show thousands of figures).
+ */
+const NUMBER_FORMATS = new Map<string, Intl.NumberFormat>();
+function numberFormat(minimumFractionDigits: number, maximumFractionDigits: number): Intl.NumberFormat {
+  const key = `${minimumFractionDigits}/${maximumFractionDigits}`;
+  let f = NUMBER_FORMATS.get(key);
+  if (!f) {
+    f = new Intl.NumberFormat(LOCALE, { minimumFractionDigits, maximumFractionDigits });
+    NUMBER_FORMATS.set(key, f);
+  }
+  return f;
+}
+
 /** A figure with up to `digits` significant digits, thousands separated; "—" when undefined. */
 export function formatNumber(value: number | null | undefined, digits = 4): string {
   if (value === null || value === undefined || Number.isNaN(value)) return "—";
@@ -19,7 +36,7 @@ export function formatNumber(value: number | null | undefined, digits = 4): stri
   if (value === 0) return "0";
   const abs = Math.abs(value);
   const decimals = abs >= 10 ** digits ? 0 : Math.max(0, digits - 1 - Math.floor(Math.log10(abs)));
-  return value.toLocaleString(LOCALE, { maximumFractionDigits: Math.min(decimals, 10), minimumFractionDigits: 0 });
+  return numberFormat(0, Math.min(decimals, 10)).format(value);
 }
 
 /**
@@ -48,7 +65,7 @@ export function formatExact(value: number): string {
 /** A number with exactly `decimals` decimals, thousands separated, e.g. 1234.56 → "1,234.6" with 1; "—" when undefined. */
 export function formatDecimals(value: number | null | undefined, decimals: number): string {
   if (value === null || value === undefined || Number.isNaN(value) || !Number.isFinite(value)) return "—";
-  return value.toLocaleString(LOCALE, { minimumFractionDigits: decimals, maximumFractionDigits: decimals });
+  return numberFormat(decimals, decimals).format(value);
 }
 
 /** A ratio as a percentage, e.g. 0.153 → "15.3%". */

@@ -1,7 +1,7 @@
 /**
  * The computations that run in the worker pool (lib/work/pool.ts), by name. Each takes and
  * returns plain data (structured clone: no functions, no class instances; Maps are kept). Only the
- * pure core, and lib/triangulation/calibration-figures.ts and triangulation-figures.ts (which import only the core), is imported here:
+ * pure core, and lib/triangulation/calibration-figures.ts, triangulation-figures.ts and track-record-figures.ts (which import only the core), is imported here:
  * a worker loads no database, framework or zod.
  */
 import { baseline, type BaselineOptions } from "../forecast/baseline";
@@ -9,6 +9,8 @@ import type { RawSeries } from "../forecast/series";
 import { launchForecast, type MarketPotential } from "../forecast/launch";
 import { computeCalibration } from "../triangulation/calibration-figures";
 import { blendsOf, computeTriangulation, triangulationWithEarlier, type TriangulationInput } from "../triangulation/triangulation-figures";
+import { evaluateStoppingRules } from "../stats/stopping-rules";
+import { trackRecordsOfText } from "../triangulation/track-record-figures";
 
 export const jobs = {
   /** The baseline engine's fit and forecast (lib/forecast/baseline.ts). */
@@ -22,6 +24,10 @@ export const jobs = {
   triangulation: (input: TriangulationInput) => computeTriangulation(input),
   /** A question's triangulation and the blend figure before its final round (the question report). */
   triangulationWithEarlier: (arg: { readonly input: TriangulationInput; readonly earlier: TriangulationInput | null }) => triangulationWithEarlier(arg.input, arg.earlier),
+  /** The stopping rules' verdicts after a round (lib/stats/stopping-rules.ts). */
+  stoppingRules: (input: Parameters<typeof evaluateStoppingRules>[0]) => evaluateStoppingRules(input),
+  /** Track records per roster member from the outcomes that count, sent as one JSON text (lib/triangulation/track-record-figures.ts). */
+  trackRecords: (arg: { readonly outcomes: string; readonly keep: readonly number[] | null }) => trackRecordsOfText(arg.outcomes, arg.keep),
   /** The blend figure and intervals of each question (a panel's report table). */
   blends: (inputs: readonly TriangulationInput[]) => blendsOf(inputs),
 };

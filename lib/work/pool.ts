@@ -14,6 +14,11 @@
  * and `triangulate serve` run in, when this module is part of Next.js's bundle, whose chunks do
  * not keep the file layout). It lives on globalThis: route modules load twice in the production
  * server (DEVELOPERS.md), and two pools would compete for the cores.
+ *
+ * Each worker's old generation is bounded (`workerOldGenerationMiB` in lib/work/heap-limits.json,
+ * node:worker_threads `resourceLimits`): V8 collects garbage before the heap grows past it, so
+ * the server's memory stays bounded (issue 13), and a job that needs more fails alone (its
+ * worker stops with ERR_WORKER_OUT_OF_MEMORY and is replaced) instead of the whole process.
  */
 import { existsSync } from "node:fs";
 import { Worker } from "node:worker_threads";
@@ -21,6 +26,7 @@ import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { ForecastInputError } from "../forecast/types";
 import type { JobName, Jobs } from "./jobs";
+import heapLimits from "./heap-limits.json";
 
 /** A job table: plain-data functions by name. */
 export type JobTable = Record<string, (arg: never) => unknown>;
@@ -81,7 +87,7 @@ function fail(state: PoolState, slot: Slot, err: Error): void {
 }
 
 function spawn(state: PoolState, slot: Slot): Worker {
-  const worker = new Worker(state.boot);
+  const worker = new Worker(state.boot, { resourceLimits: { maxOldGenerationSizeMb: heapLimits.workerOldGenerationMiB } });
   worker.on("message", (reply: Reply) => {
     const task = slot.running;
     if (!task || task.id !== reply.id) return;

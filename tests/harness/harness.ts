@@ -18,6 +18,7 @@ import path from "node:path";
 import { performance } from "node:perf_hooks";
 import { openSql } from "./sql";
 import { mulberry32 } from "../helpers/prng";
+import heapLimits from "../../lib/work/heap-limits.json";
 
 export { mulberry32 };
 
@@ -94,6 +95,10 @@ export async function startServer(o: ServerOptions, timeoutMs = 60_000): Promise
   // The server runs in this child process (Next.js included, no worker), so a signal to the child reaches it.
   // SERVER_NODE_ARGS, e.g. "--cpu-prof --cpu-prof-dir=/tmp/prof", profiles the server under load.
   const nodeArgs = (process.env.SERVER_NODE_ARGS ?? "").split(" ").filter(Boolean);
+  // The main thread's heap bounded as `npm start` bounds it (scripts/start.mjs), unless SERVER_NODE_ARGS bounds the old space.
+  if (!nodeArgs.some((a) => a.startsWith("--max-old-space-size"))) {
+    nodeArgs.unshift(`--max-old-space-size=${heapLimits.serverOldSpaceMiB}`, `--max-semi-space-size=${heapLimits.serverSemiSpaceMiB}`);
+  }
   const child = spawn(process.execPath, [...nodeArgs, path.join(root, "bin", "triangulate.mjs"), "serve", "--port", String(o.port), "--hostname", "127.0.0.1"], {
     cwd: root,
     env: serverEnv(o),
