@@ -4,7 +4,7 @@
  * statements, so a new import of next, react, Prisma, zod, lib/db, lib/http, lib/panels,
  * lib/triangulation, lib/actions or node's worker_threads / fs / net fails here.
  */
-import { readdirSync, readFileSync } from "node:fs";
+import { existsSync, readdirSync, readFileSync } from "node:fs";
 import path from "node:path";
 import { describe, expect, it } from "vitest";
 
@@ -81,5 +81,34 @@ describe("pure core boundary", () => {
   it("lists no exception for a file that does not exist", () => {
     const files = new Set(CORE.flatMap(sourceFiles));
     expect(Object.keys(EXCEPTIONS).filter((f) => !files.has(f))).toEqual([]);
+  });
+});
+
+/**
+ * The modules a worker thread loads (lib/work/jobs.ts and all it imports, followed through
+ * relative specifiers), each with the "@/" specifiers it names. The worker and the CLI run under
+ * plain Node with tsx, where the app's "@/" path alias does not resolve.
+ */
+function aliasedInWorker(entry: string): string[] {
+  const seen = new Set<string>();
+  const found: string[] = [];
+  const visit = (file: string) => {
+    if (seen.has(file)) return;
+    seen.add(file);
+    for (const spec of specifiers(readFileSync(path.join(root, file), "utf8"))) {
+      if (spec.startsWith("@/")) found.push(`${file} imports ${spec}`);
+      if (!spec.startsWith(".")) continue;
+      const base = path.posix.join(path.posix.dirname(file), spec);
+      const next = [`${base}.ts`, `${base}.tsx`, `${base}/index.ts`, base].find((f) => existsSync(path.join(root, f)) && /\.(ts|tsx|mts|js|mjs)$/.test(f));
+      if (next) visit(next);
+    }
+  };
+  visit(entry);
+  return found;
+}
+
+describe("worker thread's modules", () => {
+  it("import one another by relative paths only (no \"@/\" alias), so the worker and the CLI load them", () => {
+    expect(aliasedInWorker("lib/work/jobs.ts")).toEqual([]);
   });
 });

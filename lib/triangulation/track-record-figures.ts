@@ -6,7 +6,7 @@
  * these. Empty input gives an empty map; a member whose every answer is left out has a record of
  * count 0 (lib/blend `trackRecord`).
  */
-import { trackRecord, type AnswerOutcome, type TrackRecord } from "@/lib/blend";
+import { trackRecord, type AnswerOutcome, type TrackRecord } from "../blend";
 
 /** One panelist's final answer as it stood when the outcome was recorded. */
 export interface PanelistFigureAtOutcome {
