@@ -420,9 +420,8 @@ export function baseline(input: RawSeries | readonly (number | null)[], options:
 
 /**
  * The default "auto": the members of {@link COMBINATION_MEMBERS} that apply and fit, each on the
- * whole series, combined by lib/forecast/combination.ts (means averaged; intervals the wider of
- * the quantile average, narrowed by the members' diversification, and the empirical bounds from
- * the history). One member alone is returned
+ * whole series, combined by lib/forecast/combination.ts (means averaged; intervals from the
+ * combination's own errors on the history, scaled to the residual degrees of freedom). One member alone is returned
  * as itself; none gives null (the caller falls back to selection).
  */
 function combination(
@@ -472,14 +471,15 @@ function combination(
       notes: [...notes, ...fit.notes],
     };
   }
-  const members: CombinationMember[] = fits.map((f) => ({ forecast: f.fc, origins: f.method.originForecasts!(f.fit, s.y, s.horizon) }));
+  // Every method with originForecasts gives Fit.estimated; a method without the count is taken as estimating nothing.
+  const members: CombinationMember[] = fits.map((f) => ({ forecast: f.fc, origins: f.method.originForecasts!(f.fit, s.y, s.horizon), estimated: f.fit.estimated ?? 0 }));
   const c = combineForecasts(members, s.y, s.season, levels);
   const k = fits.length;
   const fitted = s.y.map((_, t) => fits.reduce((a, f) => a + f.fit.fitted[t], 0) / k);
   const weights: Record<string, number> = {};
   for (const f of fits) weights[f.method.id] = 1 / k;
   notes.push(
-    `equal-weight combination of ${fits.map((f) => f.method.id).join(" and ")}; intervals: the members' bounds averaged quantile by quantile and narrowed by how much smaller the combination's errors on the history are than the members', widened to the combination's own ${c.relative ? "relative " : ""}multi-step errors on the history where those are wider`,
+    `equal-weight combination of ${fits.map((f) => f.method.id).join(" and ")}; intervals from the combination's own ${c.relative ? "relative " : ""}multi-step errors on the history, scaled by ${c.correction.toFixed(3)} for the values the members estimated`,
     ...c.notes,
   );
   let totalResult: TotalResult | undefined;

@@ -1,21 +1,21 @@
 /**
  * The automatic baseline's combination (docs/methods.md §20): the equal-weight mean of the ETS
- * family weighted by AICc (lib/forecast/methods/ets-weighted.ts) and the Theta method, with intervals that are the wider of (a) the members'
- * bounds averaged quantile by quantile, narrowed by the ratio of the combination's spread of
- * errors on the history to the members' average, and (b) empirical bounds from the
- * combination's own multi-step errors on the history, with Student t quantiles on the effective
- * number of independent errors. Pure TypeScript.
+ * family weighted by AICc (lib/forecast/methods/ets-weighted.ts) and the Theta method, with
+ * empirical intervals from the combination's own multi-step errors on the history: their root
+ * mean square scaled to the residual degrees of freedom n − p (p the members' average number of
+ * estimated values), with Student t quantiles on the effective number of independent errors.
+ * Where the history is too short for them, the members' bounds averaged quantile by quantile.
+ * Pure TypeScript.
  *
  * Sources: combining ETS, ARIMA and Theta-type forecasts beat the single chosen method in the M3
  * and M4 competitions (Makridakis & Hibon 2000, IJF 16(4); Makridakis, Spiliotis &
- * Assimakopoulos 2020, IJF 36(1)); equal weights (Clemen 1989, IJF 5(4)). Quantile averaging:
- * Lichtendahl, Grushka-Cockayne & Winkler (2013), "Is it better to average probabilities or
- * quantiles?", Management Science 59(7), 1594–1611. Empirical intervals from a method's own
- * h-step errors on the history: Williams & Goodman (1971), "A simple method for the
- * construction of empirical confidence limits for economic forecasts", JASA 66(336), 752–754;
- * Lee & Scholtes (2014), "Empirical prediction intervals revisited", IJF 30(2), 217–234. The
- * variance of a combined forecast: Bates & Granger (1969), "The combination of forecasts",
- * Operational Research Quarterly 20(4), 451–468. Effective degrees of freedom: Satterthwaite (1946).
+ * Assimakopoulos 2020, IJF 36(1)); equal weights (Clemen 1989, IJF 5(4)). Empirical intervals
+ * from a method's own h-step errors on the history: Williams & Goodman (1971), "A simple method
+ * for the construction of empirical confidence limits for economic forecasts", JASA 66(336),
+ * 752–754; Lee & Scholtes (2014), "Empirical prediction intervals revisited", IJF 30(2), 217–234.
+ * Quantile averaging: Lichtendahl, Grushka-Cockayne & Winkler (2013), "Is it better to average
+ * probabilities or quantiles?", Management Science 59(7), 1594–1611. Effective degrees of
+ * freedom: Satterthwaite (1946).
  */
 import { normalQuantile } from "../stats/normal";
 import { studentTQuantile } from "../stats/student-t";
@@ -30,6 +30,8 @@ export interface CombinationMember {
   readonly forecast: Forecast;
   /** Its in-sample forecasts from every origin t = 0..n−1 (Method.originForecasts), steps 1..h. */
   readonly origins: readonly (readonly number[])[];
+  /** Values it estimated from the series (Fit.estimated: parameters, initial states, seasonal indices). */
+  readonly estimated: number;
 }
 
 /** The combination's forecast and, per step, the empirical spread used (NaN where none). */
@@ -43,8 +45,8 @@ export interface CombinedForecast {
   readonly errors: number[];
   /** Effective degrees of freedom of each step's spread (the t quantile's; fewer than `errors`: overlapping origins). */
   readonly df: number[];
-  /** Ratio of the combination's history spread to the members' average, by which the quantile average is narrowed (1 without history). */
-  readonly ratio: number[];
+  /** √(n/(n − p)), by which the spread is scaled to the residual degrees of freedom (NaN when n − p < 1). */
+  readonly correction: number;
   readonly relative: boolean;
   readonly notes: string[];
 }
@@ -64,11 +66,7 @@ function meanOf(rows: readonly (readonly number[])[]): number[] {
  * rests on: e_{t,j} = y_{t+j} − f_{t,j} from every origin t ≥ {@link firstOrigin} with y_{t+j}
  * observed; relative errors e/|f| when `relative` (a forecast ≤ 0 is then skipped). Steps with
  * fewer than {@link MIN_HISTORY_ERRORS} errors give NaN. `origins[j]` lists the origins behind
- * step j (for {@link overlapDegreesOfFreedom}); `memberSpread[i][j]` is the same root mean square
- * of member i's own errors y_{t+j} − f^i_{t,j} over the same origins, divided by the
- * combination's forecast when relative (so that the combination's error is the members' average
- * error and, by Minkowski's inequality, spread_j ≤ the average of memberSpread[·][j]).
- * Input: `memberOrigins` optional (then memberSpread is empty).
+ * step j (for {@link overlapDegreesOfFreedom}).
  */
 export function historySpread(
   y: readonly number[],
@@ -76,27 +74,34 @@ export function historySpread(
   h: number,
   season: number,
   relative: boolean,
-  memberOrigins: readonly (readonly (readonly number[])[])[] = [],
-): { spread: number[]; count: number[]; origins: number[][]; memberSpread: number[][] } {
+): { spread: number[]; count: number[]; origins: number[][] } {
   const sum = new Array<number>(h).fill(0);
   const count = new Array<number>(h).fill(0);
   const origins: number[][] = Array.from({ length: h }, () => []);
-  const memberSum = memberOrigins.map(() => new Array<number>(h).fill(0));
   for (let t = firstOrigin(y.length, season); t < y.length; t++) {
     const f = combined(t);
     for (let j = 0; j < h && t + j < y.length; j++) {
       if (relative && !(f[j] > 0)) continue;
-      const scale = relative ? f[j] : 1;
-      const e = (y[t + j] - f[j]) / scale;
+      const e = (y[t + j] - f[j]) / (relative ? f[j] : 1);
       if (!Number.isFinite(e)) continue;
       sum[j] += e * e;
       count[j]++;
       origins[j].push(t);
-      memberOrigins.forEach((o, i) => (memberSum[i][j] += ((y[t + j] - o[t][j]) / scale) ** 2));
     }
   }
-  const rms = (s: number, j: number) => (count[j] >= MIN_HISTORY_ERRORS ? Math.sqrt(s / count[j]) : NaN);
-  return { spread: sum.map(rms), count, origins, memberSpread: memberSum.map((m) => m.map(rms)) };
+  return { spread: sum.map((s, j) => (count[j] >= MIN_HISTORY_ERRORS ? Math.sqrt(s / count[j]) : NaN)), count, origins };
+}
+
+/**
+ * √(n/(n − p)): the factor that turns a root mean square of errors on the values a model was
+ * fitted to into an estimate of the spread of new errors. In-sample errors are too small by about
+ * (n − p)/n in mean square when p values were estimated from the n observations (the residual
+ * degrees of freedom of least squares; the same count gives σ² = SSE/(n − k) of R's ets() and
+ * Arima(), Hyndman et al. 2008 §5.2 — from memory). p = the members' average of Fit.estimated.
+ * NaN when n − p < 1 (too many values estimated for the errors to say anything).
+ */
+export function residualCorrection(n: number, p: number): number {
+  return n - p >= 1 && p >= 0 ? Math.sqrt(n / (n - p)) : NaN;
 }
 
 /** The members' error model: their average step variances read as a linear innovations model (c_k of lib/forecast/total.ts; 0, independent period errors, when a member gives no finite step sd). */
@@ -119,23 +124,17 @@ function errorQuantile(level: number, k: number): number {
 /**
  * Equal-weight combination of the members (see the file comment).
  *
- * mean_j = average of the members' means. For each level L and step j, the wider of:
- * - the quantile average narrowed by the members' diversification: mean_j ∓ r_j·(mean_j − Q^lo_j)
- *   and mean_j + r_j·(Q^hi_j − mean_j), Q the average of the members' L-bounds and
- *   r_j = s_j / (average over members of s^i_j) ≤ 1, the ratio of the combination's root mean
- *   square error on the history to the members' average (both from {@link historySpread}, over the
- *   same origins). Averaging quantiles gives the spread of a typical member; the combination's
- *   error, the average of the members' errors, has a smaller spread unless they are perfectly
- *   correlated (Bates & Granger 1969, the variance of a combined forecast). r_j = 1 where the
- *   history gives no spread.
- * - the empirical bound mean_j ∓ q_j·s_j·scale_j: q_j the Student t quantile of L with ν_j
- *   degrees of freedom, ν_j the effective number of independent errors behind s_j
- *   ({@link overlapDegreesOfFreedom}: step-j errors from origins less than j apart share
- *   innovations, weighted ψ_{j−i} by the members' average step sd read as a linear innovations
- *   model, as for totals); scale_j = |mean_j| for relative errors (used when every observation
- *   is above zero), else 1.
- * Past the last step J with enough history errors, s_j = s_J·σ̄_j/σ̄_J (σ̄ the members' average
- * forecast sd), and ν_j, r_j are J's. The mean always lies inside its intervals.
+ * mean_j = average of the members' means. For each level L and step j, the empirical bound
+ * mean_j ∓ q_j·c·s_j·scale_j: s_j the root mean square of the combination's step-j errors on the
+ * history ({@link historySpread}); c = {@link residualCorrection}(n, p), p the members' average
+ * number of estimated values; q_j the Student t quantile of L with ν_j degrees of freedom, ν_j the
+ * effective number of independent errors behind s_j ({@link overlapDegreesOfFreedom}: step-j
+ * errors from origins less than j apart share innovations, weighted ψ_{j−i} by the members'
+ * average step sd read as a linear innovations model, as for totals); scale_j = |mean_j| for
+ * relative errors (used when every observation is above zero), else 1. Past the last step J with
+ * enough history errors, s_j = s_J·σ̄_j/σ̄_J (σ̄ the members' average forecast sd) and ν_j = ν_J.
+ * Without any history spread (or with c NaN), the members' L-bounds averaged quantile by quantile.
+ * The mean always lies inside its intervals.
  *
  * Input: at least one member, all with the same horizon and levels; y the fitted series.
  * Non-finite member values propagate (the caller drops failed members first).
@@ -144,13 +143,15 @@ export function combineForecasts(members: readonly CombinationMember[], y: reado
   const h = members[0].forecast.mean.length;
   const mean = meanOf(members.map((m) => m.forecast.mean));
   const relative = y.every((v) => v > 0);
-  const history = historySpread(y, (t) => meanOf(members.map((m) => m.origins[t])), h, season, relative, members.map((m) => m.origins));
+  const history = historySpread(y, (t) => meanOf(members.map((m) => m.origins[t])), h, season, relative);
   const raw = history.spread;
   const sd = meanOf(members.map((m) => m.forecast.sd));
+  const correction = residualCorrection(y.length, members.reduce((a, m) => a + m.estimated, 0) / members.length);
   let last = -1;
   raw.forEach((s, j) => {
     if (Number.isFinite(s)) last = j;
   });
+  if (!Number.isFinite(correction)) last = -1;
   const at = (j: number) => (last < 0 ? j : Math.min(j, last));
   const spread = raw.map((s, j) => {
     if (last < 0) return NaN;
@@ -161,12 +162,6 @@ export function combineForecasts(members: readonly CombinationMember[], y: reado
   const errors = raw.map((_, j) => history.count[at(j)]);
   const c = membersInnovations(sd, h);
   const df = raw.map((_, j) => overlapDegreesOfFreedom(history.origins[at(j)], innovationWeights(c, at(j) + 1, at(j) + 1)));
-  const ratio = raw.map((_, j) => {
-    if (last < 0) return 1;
-    const average = history.memberSpread.reduce((a, m) => a + m[at(j)], 0) / members.length;
-    const r = raw[at(j)] / average;
-    return Number.isFinite(r) && r > 0 ? Math.min(r, 1) : 1;
-  });
   const notes: string[] = [];
   if (last < 0) notes.push("too short a history for empirical intervals: the members' bounds averaged quantile by quantile");
   const lower: Record<string, number[]> = {};
@@ -175,17 +170,11 @@ export function combineForecasts(members: readonly CombinationMember[], y: reado
     const key = String(level);
     const lo = meanOf(members.map((m) => m.forecast.lower[key]));
     const hi = meanOf(members.map((m) => m.forecast.upper[key]));
-    const z = df.map((k) => errorQuantile(level, k));
-    lower[key] = mean.map((mu, j) => {
-      const half = z[j] * spread[j] * (relative ? Math.abs(mu) : 1);
-      return Math.min(mu - ratio[j] * (mu - lo[j]), mu, Number.isFinite(half) ? mu - half : Infinity);
-    });
-    upper[key] = mean.map((mu, j) => {
-      const half = z[j] * spread[j] * (relative ? Math.abs(mu) : 1);
-      return Math.max(mu + ratio[j] * (hi[j] - mu), mu, Number.isFinite(half) ? mu + half : -Infinity);
-    });
+    const half = mean.map((mu, j) => errorQuantile(level, df[j]) * correction * spread[j] * (relative ? Math.abs(mu) : 1));
+    lower[key] = mean.map((mu, j) => (Number.isFinite(half[j]) ? mu - half[j] : Math.min(lo[j], mu)));
+    upper[key] = mean.map((mu, j) => (Number.isFinite(half[j]) ? mu + half[j] : Math.max(hi[j], mu)));
   }
-  return { mean, lower, upper, spread, errors, df, ratio, relative, notes };
+  return { mean, lower, upper, spread, errors, df, correction, relative, notes };
 }
 
 /**
@@ -214,17 +203,18 @@ export function overlapDegreesOfFreedom(origins: readonly number[], weights: rea
 }
 
 /**
- * The total over steps a..b (`from` = a, default 1; `h` = b) for the combination: the members'
- * totals (over the same steps) averaged quantile by quantile, widened like the steps by the
- * empirical spread of the combination's sums over the same window on the history: from every
- * origin t ≥ {@link firstOrigin} with y_{t+a}..y_{t+b} observed, e_t = Σ_{j=a}^{b} (y_{t+j} − f_{t,j}),
- * relative to the forecast sum when every observation is above zero. Neighbouring origins'
+ * The total over steps a..b (`from` = a, default 1; `h` = b) for the combination: the wider of the
+ * members' totals (over the same steps) averaged quantile by quantile and the empirical bound
+ * mean ∓ q·c·s·scale from the combination's sums over the same window on the history (the
+ * empirical bound alone covered M3's held-out sums too little, docs/methods.md §20): from every origin t ≥ {@link firstOrigin} with y_{t+a}..y_{t+b} observed,
+ * e_t = Σ_{j=a}^{b} (y_{t+j} − f_{t,j}), relative to the forecast sum when every observation is
+ * above zero; s their root mean square, c = {@link residualCorrection}. Neighbouring origins'
  * window sums share most of their innovations, so the t quantile has the effective degrees of
  * freedom of {@link overlapDegreesOfFreedom}, not the number of sums, with the innovations'
  * weights of the members' error model: their average step variances read as a linear
  * innovations model (c_k of lib/forecast/total.ts; c = 0, independent period errors, when a
- * member gives no finite step sd). Fewer than
- * {@link MIN_HISTORY_ERRORS} sums: the quantile average alone.
+ * member gives no finite step sd). Fewer than {@link MIN_HISTORY_ERRORS} sums: the members'
+ * totals averaged alone.
  */
 export function combineTotals(
   totals: readonly { readonly mean: number; readonly lower: Record<string, number>; readonly upper: Record<string, number> }[],
@@ -255,7 +245,8 @@ export function combineTotals(
     used.push(t);
   }
   const count = used.length;
-  const spread = count >= MIN_HISTORY_ERRORS ? Math.sqrt(sum / count) : NaN;
+  const correction = residualCorrection(y.length, members.reduce((a, m) => a + m.estimated, 0) / members.length);
+  const spread = count >= MIN_HISTORY_ERRORS ? correction * Math.sqrt(sum / count) : NaN;
   const df = overlapDegreesOfFreedom(used, innovationWeights(membersInnovations(meanOf(members.map((m) => m.forecast.sd)), h), h, from));
   const lower: Record<string, number> = {};
   const upper: Record<string, number> = {};

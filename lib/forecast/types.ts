@@ -77,6 +77,13 @@ export interface Fit {
   /** Notes for people (fallbacks taken, bounds hit, …). */
   readonly notes: readonly string[];
   /**
+   * Number of values estimated from the series: parameters, initial states and seasonal indices
+   * (the Akaike-weighted mean for `ets-weighted`). The automatic combination's empirical intervals
+   * use n − estimated residual degrees of freedom (docs/methods.md §20). Optional: the methods that
+   * can be combination members (those with `originForecasts`) give it.
+   */
+  readonly estimated?: number;
+  /**
    * Names of the explanatory columns a `regression` fit used, in the order its forecast
    * expects `futureX` (optional; other methods leave it out).
    */

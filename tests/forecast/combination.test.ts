@@ -5,7 +5,10 @@
  */
 import { describe, expect, it } from "vitest";
 import { baseline } from "../../lib/forecast/baseline";
-import { combineForecasts, combineTotals, overlapDegreesOfFreedom, type CombinationMember } from "../../lib/forecast/combination";
+import etsMethod from "../../lib/forecast/methods/ets";
+import etsWeighted from "../../lib/forecast/methods/ets-weighted";
+import thetaMethod from "../../lib/forecast/methods/theta";
+import { combineForecasts, combineTotals, overlapDegreesOfFreedom, residualCorrection, type CombinationMember } from "../../lib/forecast/combination";
 import { rEval, rEvalBatch } from "../helpers/r";
 import { R_MEMBERS } from "../helpers/ets-members";
 
@@ -43,6 +46,27 @@ describe("auto: the equal-weight combination of Akaike-weighted ETS and Theta", 
       // tests/forecast/ets-weighted.test.ts); Theta agrees with thetaf() to 1e-8
       // (tests/forecast/theta.test.ts), so 1% bounds the difference.
       res.forecast.forEach((s, i) => expect(Math.abs(s.mean! - r.combined[i]) / Math.abs(r.combined[i])).toBeLessThan(0.01));
+    });
+  }
+});
+
+describe("the number of values each member estimated (the residual degrees of freedom of the intervals)", () => {
+  for (const c of AGREEING) {
+    it(`${c.series}: ets counts what R's ets() estimates; theta its α, ℓ0, slope and m − 1 seasonal indices`, () => {
+      const r = R[`auto_${c.series}`];
+      const m = r.m[0];
+      // R 4.x + forecast: length(ets(y)$par), the smoothing parameters and initial states R estimated.
+      expect(etsMethod.fit({ y: r.y, season: m }).estimated).toBe(r.npar[0]);
+      // Theta: counted by hand from its definition (R's thetaf() gives no count); adjusted when R's
+      // decompose-based test does (tests/forecast/theta.test.ts checks the adjustment against thetaf()).
+      const theta = thetaMethod.fit({ y: r.y, season: m });
+      expect(theta.estimated).toBe(3 + ((theta.state.season as number[]).length > 0 ? m - 1 : 0));
+      if (c.series === "UKgas" || c.series === "USAccDeaths" || c.series === "nottem") expect(theta.estimated).toBe(3 + m - 1);
+      if (c.series === "Nile" || c.series === "LakeHuron" || c.series === "WWWusage") expect(theta.estimated).toBe(3);
+      // The Akaike-weighted member: the weighted mean of its members' counts, between the smallest and largest.
+      const w = etsWeighted.fit({ y: r.y, season: m });
+      expect(w.estimated!).toBeGreaterThanOrEqual(2);
+      expect(w.estimated!).toBeLessThanOrEqual(m > 1 ? 6 + m - 1 : 5); // ETS(·,Ad,·): α, β, γ, φ, ℓ0, b0 and m − 1 seasonal states
     });
   }
 });
@@ -110,9 +134,8 @@ describe("auto with members ets, theta, arima: the equal-weight combination of t
  * independently of lib/forecast/combination.ts: Student t quantiles from R's qt() with the
  * effective degrees of freedom ν_j = N²/Σ_{r,s} ρ²_{|t_r − t_s|} of the N step-j errors
  * (ρ_d = Σ_i w_i w_{i+d} / Σ_i w_i², w_i = ψ_{j−i} from the members' average step sd,
- * ψ_0 = 1, ψ_k = √((v_{k+1} − v_k)/v_1)), and the quantile average narrowed by
- * r_j = s_j / mean(s^1_j, s^2_j), the members' own root mean square errors over the same origins
- * relative to the combination's forecast.
+ * ψ_0 = 1, ψ_k = √((v_{k+1} − v_k)/v_1)), and the spread scaled by √(n/(n − p)) with p = 2 (the
+ * test gives each member two estimated values, as if α and ℓ0 had been fitted).
  */
 function sesPairInR(values: string, h: number): string {
   return `y <- ${values}; n <- length(y); h <- ${h}; al <- c(0.3, 0.8)
@@ -123,20 +146,17 @@ function sesPairInR(values: string, h: number): string {
     mu <- (fc[[1]]$mean + fc[[2]]$mean) / 2
     sd <- ((fc[[1]]$upper[, 2] - fc[[1]]$mean) + (fc[[2]]$upper[, 2] - fc[[2]]$mean)) / 2 / qnorm(0.975)
     psi <- c(1, sqrt(pmax(diff(sd^2), 0) / sd[1]^2))
-    t0 <- max(2, ceiling(n / 3)); s <- rep(NA, h); cnt <- rep(0, h); nu <- rep(NA, h); r <- rep(1, h)
-    for (j in 1:h) { e <- c(); e1 <- c(); e2 <- c(); used <- c()
-      for (t in t0:(n - 1)) if (t + j <= n) { f <- (orig[[1]][t + 1, j] + orig[[2]][t + 1, j]) / 2; e <- c(e, (y[t + j] - f) / f)
-        e1 <- c(e1, (y[t + j] - orig[[1]][t + 1, j]) / f); e2 <- c(e2, (y[t + j] - orig[[2]][t + 1, j]) / f); used <- c(used, t) }
+    t0 <- max(2, ceiling(n / 3)); s <- rep(NA, h); cnt <- rep(0, h); nu <- rep(NA, h); corr <- sqrt(n / (n - 2))
+    for (j in 1:h) { e <- c(); used <- c()
+      for (t in t0:(n - 1)) if (t + j <= n) { f <- (orig[[1]][t + 1, j] + orig[[2]][t + 1, j]) / 2; e <- c(e, (y[t + j] - f) / f); used <- c(used, t) }
       cnt[j] <- length(e)
-      if (length(e) >= 3) { s[j] <- sqrt(mean(e^2)); r[j] <- s[j] / ((sqrt(mean(e1^2)) + sqrt(mean(e2^2))) / 2)
+      if (length(e) >= 3) { s[j] <- sqrt(mean(e^2))
         w <- rev(psi[1:j]); g <- sapply(0:(j - 1), function(d) sum(w[1:(j - d)] * w[(1 + d):j]))
         D <- abs(outer(used, used, "-")); rho <- ifelse(D < j, g[pmin(D, j - 1) + 1] / g[1], 0); nu[j] <- length(e)^2 / sum(rho^2) } }
-    last <- max(which(!is.na(s))); for (j in 1:h) if (j > last) { s[j] <- s[last] * sd[j] / sd[last]; cnt[j] <- cnt[last]; nu[j] <- nu[last]; r[j] <- r[last] }
+    last <- max(which(!is.na(s))); for (j in 1:h) if (j > last) { s[j] <- s[last] * sd[j] / sd[last]; cnt[j] <- cnt[last]; nu[j] <- nu[last] }
     for (k in 1:2) { z <- qt(c(0.9, 0.975)[k], df = nu)
-      lo <- pmin(mu - r * (mu - (fc[[1]]$lower[, k] + fc[[2]]$lower[, k]) / 2), mu - z * s * abs(mu))
-      hi <- pmax(mu + r * ((fc[[1]]$upper[, k] + fc[[2]]$upper[, k]) / 2 - mu), mu + z * s * abs(mu))
-      out(paste0("lo", k), lo); out(paste0("hi", k), hi) }
-    out("nu", nu); out("r", r); out("cnt", cnt)
+      out(paste0("lo", k), mu - z * corr * s * abs(mu)); out(paste0("hi", k), mu + z * corr * s * abs(mu)) }
+    out("nu", nu); out("cnt", cnt); out("corr", corr)
     for (i in 1:2) { out(paste0("mean", i), fc[[i]]$mean); out(paste0("sd", i), (fc[[i]]$upper[, 2] - fc[[i]]$mean) / qnorm(0.975))
       for (k in 1:2) { out(paste0("l", i, k), fc[[i]]$lower[, k]); out(paste0("u", i, k), fc[[i]]$upper[, k]) }
       out(paste0("orig", i), t(orig[[i]])) }
@@ -154,10 +174,11 @@ function membersFrom(r: Record<string, number[]>, h: number): CombinationMember[
       sd: r[`sd${i}`],
     },
     origins: Array.from({ length: r.y.length }, (_, t) => r[`orig${i}`].slice(t * h, (t + 1) * h)),
+    estimated: 2,
   }));
 }
 
-describe("combineForecasts: quantile average narrowed by the members' diversification, widened to the history's relative errors", () => {
+describe("combineForecasts: empirical bounds from the history's relative errors, scaled to the residual degrees of freedom", () => {
   it("matches an R computation of the rule on the Nile series (SES α = 0.3 and 0.8 from R's ses())", () => {
     const h = 10;
     const r = R.nile; // h = 10
@@ -166,7 +187,7 @@ describe("combineForecasts: quantile average narrowed by the members' diversific
     c.mean.forEach((v, j) => expect(v).toBeCloseTo(r.mu[j], 8));
     c.spread.forEach((v, j) => expect(v).toBeCloseTo(r.s[j], 10));
     c.df.forEach((v, j) => expect(v).toBeCloseTo(r.nu[j], 8));
-    c.ratio.forEach((v, j) => expect(v).toBeCloseTo(r.r[j], 10));
+    expect(c.correction).toBeCloseTo(r.corr[0], 12);
     // One-step errors share no innovation: as many degrees of freedom as errors; later steps fewer.
     expect(c.df[0]).toBeCloseTo(r.cnt[0], 10);
     expect(c.df[h - 1]).toBeLessThan(r.cnt[h - 1] / 2);
@@ -183,9 +204,29 @@ describe("combineForecasts: quantile average narrowed by the members' diversific
     // With t ≥ max(2, ⌈15/3⌉) = 5, step 9 has origins 5 and 6 only: extrapolated from step 8 (R above).
     c.spread.forEach((v, j) => expect(v).toBeCloseTo(r.s[j], 10));
     c.df.forEach((v, j) => expect(v).toBeCloseTo(r.nu[j], 8));
-    c.ratio.forEach((v, j) => expect(v).toBeCloseTo(r.r[j], 10));
+    expect(c.correction).toBeCloseTo(Math.sqrt(15 / 13), 12); // √(n/(n − p)), n = 15, p = 2 (hand computation)
     c.lower["95"].forEach((v, j) => expect(v).toBeCloseTo(r.lo2[j], 6));
     c.upper["80"].forEach((v, j) => expect(v).toBeCloseTo(r.hi1[j], 6));
+  });
+});
+
+describe("residualCorrection and the fallback without a usable history spread", () => {
+  it("is √(n/(n − p)) and undefined once n − p < 1 (hand computation)", () => {
+    expect(residualCorrection(20, 4)).toBeCloseTo(Math.sqrt(20 / 16), 14);
+    expect(residualCorrection(10, 0)).toBe(1);
+    expect(residualCorrection(10, 9)).toBeCloseTo(Math.sqrt(10), 14);
+    expect(residualCorrection(10, 9.5)).toBeNaN();
+    expect(residualCorrection(10, -1)).toBeNaN();
+  });
+
+  it("averages the members' own bounds (R's ses() intervals) when the members estimated as many values as there are observations", () => {
+    const h = 10;
+    const r = R.nile;
+    const members = membersFrom(r, h).map((m) => ({ ...m, estimated: r.y.length }));
+    const c = combineForecasts(members, r.y, 1, [80, 95]);
+    expect(c.notes.join(" ")).toMatch(/too short a history/);
+    c.lower["80"].forEach((v, j) => expect(v).toBeCloseTo((r.l11[j] + r.l21[j]) / 2, 8));
+    c.upper["95"].forEach((v, j) => expect(v).toBeCloseTo((r.u12[j] + r.u22[j]) / 2, 8));
   });
 });
 
@@ -196,7 +237,8 @@ describe("combineForecasts: quantile average narrowed by the members' diversific
  * quantile; the relative errors of the combination's window sums from origins t ≥ max(2, ⌈n/3⌉);
  * the effective degrees of freedom N²/Σ_{r,s} ρ²_{|t_r − t_s|}, ρ_k = Σ_i w_i w_{i+k} / Σ_i w_i² with
  * the innovations' weights w_i = Σ_{j=max(i,a)}^{h} ψ_{j−i} of the members' average step sd read as
- * a linear innovations model (ψ_0 = 1, ψ_k = √((v_{k+1} − v_k)/v_1)); R's qt().
+ * a linear innovations model (ψ_0 = 1, ψ_k = √((v_{k+1} − v_k)/v_1)); R's qt(); the spread scaled by
+ * √(n/(n − p)), p = 2; the wider of that and the members' totals averaged.
  */
 function windowTotalInR(values: string, h: number, a: number): string {
   return `y <- ${values}; n <- length(y); h <- ${h}; a <- ${a}; w <- h - a + 1; al <- c(0.3, 0.8)
@@ -210,7 +252,7 @@ function windowTotalInR(values: string, h: number, a: number): string {
     mu <- (tot[[1]]$mean + tot[[2]]$mean) / 2
     t0 <- max(2, ceiling(n / 3)); e <- c(); used <- c()
     for (t in t0:(n - h)) { f <- (orig[[1]][t + 1, ] + orig[[2]][t + 1, ]) / 2; fs <- sum(f[a:h]); e <- c(e, (sum(y[t + (a:h)]) - fs) / fs); used <- c(used, t) }
-    s <- sqrt(mean(e^2)); N <- length(e)
+    s <- sqrt(mean(e^2)) * sqrt(n / (n - 2)); N <- length(e)
     sdm <- ((fc[[1]]$upper[, 2] - fc[[1]]$mean) + (fc[[2]]$upper[, 2] - fc[[2]]$mean)) / 2 / qnorm(0.975); v <- sdm^2
     psi <- c(1, sqrt(pmax(diff(v), 0) / v[1]))
     wts <- sapply(1:h, function(i) sum(psi[(max(i, a):h) - i + 1]))
@@ -231,7 +273,7 @@ const R = rEvalBatch<string>({
       `auto_${c.series}`,
       `${R_MEMBERS}y <- ${c.series}; m <- frequency(y); h <- if (m > 1) 2 * m else 10
         f <- ets(y); w <- members(y, h, c()); b <- thetaf(y, h = h)$mean
-        out("y", y); out("combined", (w$mean + as.numeric(b)) / 2)
+        out("y", y); out("combined", (w$mean + as.numeric(b)) / 2); out("npar", length(f$par))
         out("model", match(unlist(strsplit(gsub("ETS\\\\(|\\\\)", "", f$method), ",")), c("A", "M", "N", "Ad")))`,
     ]),
   ),
@@ -245,7 +287,7 @@ describe("combineTotals: a window's total widened to the history's window sums",
   it("matches an R computation of the rule for periods 4..10 on the Nile series", () => {
     const [h, a] = [10, 4];
     const r = R.window; // h = 10, a = 4
-    const members = [1, 2].map((i) => ({ forecast: { method: "ses" as const, mean: [], levels: [80, 95], lower: {}, upper: {}, sd: r[`sd${i}`] }, origins: Array.from({ length: r.y.length }, (_, t) => r[`orig${i}`].slice(t * h, (t + 1) * h)) }));
+    const members = [1, 2].map((i) => ({ forecast: { method: "ses" as const, mean: [], levels: [80, 95], lower: {}, upper: {}, sd: r[`sd${i}`] }, origins: Array.from({ length: r.y.length }, (_, t) => r[`orig${i}`].slice(t * h, (t + 1) * h)), estimated: 2 }));
     const totals = [1, 2].map((i) => ({ mean: r[`tm${i}`][0], lower: { "80": r[`tl${i}`][0], "95": r[`tl${i}`][1] }, upper: { "80": r[`th${i}`][0], "95": r[`th${i}`][1] } }));
     const c = combineTotals(totals, members, r.y, 1, h, [80, 95], a);
     expect(c.sums).toBe(r.N[0]);

@@ -219,6 +219,7 @@ export function memberToFit(fit: StateSpaceFit, y: readonly number[], notes: str
     season: spec.m,
     sse: residuals.reduce((a, e) => a + e * e, 0),
     notes,
+    estimated: fit.estimated,
   };
 }
 

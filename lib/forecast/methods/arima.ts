@@ -101,7 +101,8 @@ const arima: Method = {
       fit.sigma2,
       notes,
     );
-    return base;
+    // The estimated coefficients (npar counts σ² too) and the m − 1 free seasonal indices when adjusted.
+    return { ...base, estimated: fit.npar - 1 + (indices ? input.season - 1 : 0) };
   },
   /** @throws ForecastInputError for a bad horizon or level. */
   forecast(fit: Fit, h: number, levels: readonly number[]): Forecast {

@@ -134,6 +134,7 @@ function toFit(members: readonly Member[], y: readonly number[], notes: string[]
     n: y.length,
     season: Math.max(...members.map((x) => x.spec.m)),
     sse: residuals.reduce((a, e) => a + e * e, 0),
+    estimated: members.reduce((a, x) => a + x.weight * x.fit.estimated, 0),
     notes: [...notes, `weights (Akaike, by AICc): ${members.map((x) => `${x.name} ${x.weight.toFixed(3)}`).join("; ")}; intervals of ${top.name} moved to the weighted mean`],
   };
 }

@@ -85,6 +85,8 @@ const theta: Method = {
       season: m,
       sse,
       notes,
+      // SES's estimated α and ℓ0, the slope, and the m − 1 free seasonal indices when adjusted.
+      estimated: ses.estimated + 1 + (indices ? m - 1 : 0),
     };
   },
   /** @throws ForecastInputError for a bad horizon or level. */
