@@ -85,7 +85,7 @@ export default async function QuestionPage({ params }: { params: Promise<{ id: s
             <p className="hint">
               The history the statistical baseline is fitted to: the series of past periods up to the last one known. The forecast for the target period
               comes with 80% and 95% prediction intervals; &ldquo;automatic&rdquo; averages exponential smoothing (its models weighted by AICc) and the Theta method, its
-              intervals widened to the combination&apos;s own errors on the history (docs/methods.md §20). A product with no history yet can borrow the course of analogous launches (Bass diffusion, with the market potential from the
+              intervals set by the combination&apos;s own errors on the history, allowing for the values the models estimated (docs/methods.md §20). A product with no history yet can borrow the course of analogous launches (Bass diffusion, with the market potential from the
               panel).
             </p>
             <details open={!baseline}>
