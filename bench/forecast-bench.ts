@@ -10,7 +10,9 @@
  *   - R: `forecast(ets(train), h)` and `forecast(auto.arima(train), h)` (forecast package).
  * Test-set MASE for all three is computed here with the same formula (Hyndman & Koehler 2006:
  * test MAE divided by the in-sample MAE of the naive, or seasonal naive, forecast on the
- * training part). Summary: geometric mean over series of MASE(ours) / MASE(R).
+ * training part). Summary: geometric mean over series of MASE(ours) / MASE(R), and the share of
+ * held-out points inside each one's 80% and 95% intervals (R's forecast() bounds, ours from the
+ * baseline): a check of the intervals on series the M3 bench never sees.
  * Time: our automatic selection over all series in one process (performance.now around the
  * loop, after the modules are loaded) against R's `ets()` over the same series (system.time
  * around the loop inside R, so R's start-up is excluded). The process's CPU time over our
@@ -100,18 +102,27 @@ manifest <- data.frame(name = sapply(split, function(s) s$name), season = sapply
 write.csv(manifest, file.path(dir, "manifest.csv"), row.names = FALSE)
 ets_fc <- vector("list", length(split))
 t_ets <- system.time(for (i in seq_along(split)) {
-  ets_fc[[i]] <- forecast(ets(split[[i]]$train), h = split[[i]]$h)$mean
+  ets_fc[[i]] <- forecast(ets(split[[i]]$train), h = split[[i]]$h, level = c(80, 95))
 })[["elapsed"]]
 arima_fc <- vector("list", length(split))
 t_arima <- system.time(for (i in seq_along(split)) {
-  arima_fc[[i]] <- forecast(auto.arima(split[[i]]$train), h = split[[i]]$h)$mean
+  arima_fc[[i]] <- forecast(auto.arima(split[[i]]$train), h = split[[i]]$h, level = c(80, 95))
 })[["elapsed"]]
-out <- do.call(rbind, lapply(seq_along(split), function(i) rbind(
-  data.frame(name = split[[i]]$name, model = "ets", step = seq_len(split[[i]]$h), mean = as.numeric(ets_fc[[i]])),
-  data.frame(name = split[[i]]$name, model = "arima", step = seq_len(split[[i]]$h), mean = as.numeric(arima_fc[[i]])))))
+rows <- function(i, model, fc) data.frame(name = split[[i]]$name, model = model, step = seq_len(split[[i]]$h),
+  mean = as.numeric(fc$mean), lo80 = as.numeric(fc$lower[, 1]), hi80 = as.numeric(fc$upper[, 1]),
+  lo95 = as.numeric(fc$lower[, 2]), hi95 = as.numeric(fc$upper[, 2]))
+out <- do.call(rbind, lapply(seq_along(split), function(i) rbind(rows(i, "ets", ets_fc[[i]]), rows(i, "arima", arima_fc[[i]]))))
 write.csv(out, file.path(dir, "r-forecasts.csv"), row.names = FALSE)
 write.csv(data.frame(ets = t_ets, arima = t_arima), file.path(dir, "r-times.csv"), row.names = FALSE)
 `;
+
+/** A method's 80% and 95% bounds for steps 1..h (NaN where not known). */
+interface Bounds {
+  lo80: number[];
+  hi80: number[];
+  lo95: number[];
+  hi95: number[];
+}
 
 interface Split {
   name: string;
@@ -121,6 +132,8 @@ interface Split {
   test: number[];
   ets: number[];
   arima: number[];
+  etsBounds: Bounds;
+  arimaBounds: Bounds;
 }
 
 function column(text: string, name: string): string[] {
@@ -145,8 +158,10 @@ function exportFromR(cache?: string): { splits: Split[]; etsSeconds: number; ari
       const [name, season, horizon] = [r.fields[0], Number(r.fields[1]), Number(r.fields[2])];
       const read = (suffix: string) =>
         readSeriesCsv(readFileSync(join(dir, `${name}.${suffix}.csv`), "utf8")).y.map((v) => v as number);
-      const fc = (model: string) => rfc.filter((x) => x.fields[0] === name && x.fields[1] === model).map((x) => Number(x.fields[3]));
-      return { name, season, horizon, train: read("train"), test: read("test"), ets: fc("ets"), arima: fc("arima") };
+      // Columns: name, model, step, mean, lo80, hi80, lo95, hi95 (a --cache from before the bounds has none: NaN).
+      const fc = (model: string, k = 3) => rfc.filter((x) => x.fields[0] === name && x.fields[1] === model).map((x) => Number(x.fields[k] ?? NaN));
+      const bounds = (model: string): Bounds => ({ lo80: fc(model, 4), hi80: fc(model, 5), lo95: fc(model, 6), hi95: fc(model, 7) });
+      return { name, season, horizon, train: read("train"), test: read("test"), ets: fc("ets"), arima: fc("arima"), etsBounds: bounds("ets"), arimaBounds: bounds("arima") };
     });
     return { splits, etsSeconds: Number(column(times, "ets")[0]), arimaSeconds: Number(column(times, "arima")[0]) };
   } finally {
@@ -164,6 +179,20 @@ function mase(train: readonly number[], test: readonly number[], fc: readonly nu
   return e / test.length / scale;
 }
 
+/** Held-out points inside a method's 80% and 95% bounds, and how many points had bounds. */
+function held(test: readonly number[], b: Bounds | null): { points: number; in80: number; in95: number } {
+  let points = 0;
+  let in80 = 0;
+  let in95 = 0;
+  test.forEach((y, j) => {
+    if (!b || !Number.isFinite(b.lo95[j])) return;
+    points++;
+    if (b.lo80[j] <= y && y <= b.hi80[j]) in80++;
+    if (b.lo95[j] <= y && y <= b.hi95[j]) in95++;
+  });
+  return { points, in80, in95 };
+}
+
 const geomean = (xs: number[]) => Math.exp(xs.reduce((a, x) => a + Math.log(x), 0) / xs.length);
 
 interface RunSummary {
@@ -175,12 +204,15 @@ interface RunSummary {
   vsEts: number;
   vsArima: number;
   failures: string[];
+  /** Held-out points inside the 80% / 95% intervals: ours, R ets(), R auto.arima(). */
+  coverage: Record<"ours" | "ets" | "arima", { points: number; in80: number; in95: number }>;
 }
 
 function runOurs(splits: Split[], label: string, opts: BaselineOptions): RunSummary {
   const rows: RunSummary["rows"] = [];
   const failures: string[] = [];
   const forecasts: (number[] | null)[] = [];
+  const bounds: (Bounds | null)[] = [];
   const methods: string[] = [];
   const t0 = performance.now();
   const c0 = process.cpuUsage();
@@ -188,9 +220,12 @@ function runOurs(splits: Split[], label: string, opts: BaselineOptions): RunSumm
     try {
       const r = baseline(s.train, { ...opts, method: "auto", season: s.season, horizon: s.horizon, levels: [80, 95] });
       forecasts.push(r.forecast.map((f) => f.mean ?? NaN));
+      const at = (side: "lower" | "upper", level: string) => r.forecast.map((f) => f[side][level] ?? NaN);
+      bounds.push({ lo80: at("lower", "80"), hi80: at("upper", "80"), lo95: at("lower", "95"), hi95: at("upper", "95") });
       methods.push(r.method === "combination" ? `comb(${r.combination!.map((c) => c.method).join("+")})` : r.method);
     } catch (e) {
       forecasts.push(null);
+      bounds.push(null);
       methods.push("FAILED");
       failures.push(`${s.name}: ${e instanceof Error ? e.message : String(e)}`);
     }
@@ -212,7 +247,17 @@ function runOurs(splits: Split[], label: string, opts: BaselineOptions): RunSumm
     });
   });
   const ok = rows.filter((r) => Number.isFinite(r.ours));
+  const coverage = { ours: { points: 0, in80: 0, in95: 0 }, ets: { points: 0, in80: 0, in95: 0 }, arima: { points: 0, in80: 0, in95: 0 } };
+  splits.forEach((s, i) => {
+    for (const [key, b] of [["ours", bounds[i]], ["ets", s.etsBounds], ["arima", s.arimaBounds]] as const) {
+      const c = held(s.test, b);
+      coverage[key].points += c.points;
+      coverage[key].in80 += c.in80;
+      coverage[key].in95 += c.in95;
+    }
+  });
   return {
+    coverage,
     label,
     rows,
     seconds,
@@ -275,6 +320,8 @@ function main() {
   console.log("");
   console.log(`series: ${splits.length} (${splits.filter((s) => s.season === 12).length} monthly, ${splits.filter((s) => s.season === 4).length} quarterly, ${splits.filter((s) => s.season === 1).length} non-seasonal)`);
   console.log(`geometric mean of MASE ratios: ours/ets = ${fmt(main.vsEts)}, ours/auto.arima = ${fmt(main.vsArima)}`);
+  const pct = (c: { points: number; in80: number; in95: number }) => (c.points ? `${fmt((100 * c.in80) / c.points, 1)}% / ${fmt((100 * c.in95) / c.points, 1)}%` : "-");
+  console.log(`held-out points inside the 80% / 95% intervals (${main.coverage.ours.points} points): ours ${pct(main.coverage.ours)}, R ets() ${pct(main.coverage.ets)}, R auto.arima() ${pct(main.coverage.arima)}`);
   console.log(`time: ours ${fmt(main.seconds, 2)} s (automatic selection, all series, one process); R ets() ${fmt(etsSeconds, 2)} s; R auto.arima() ${fmt(arimaSeconds, 2)} s (inside R, start-up excluded)`);
   console.log(`second pass in the same process (compiled code warm): ours ${fmt(warm.seconds, 2)} s, ratio to ets ${fmt(warm.seconds / etsSeconds)}`);
   // CPU time is less disturbed than wall time by other processes on a loaded machine.
