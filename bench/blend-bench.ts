@@ -22,7 +22,8 @@
  *
  * Printed: coverage of the 80% and 95% ranges of the baseline, the corrected panel leg and
  * the blend (goal for the blend: within ±3 points of nominal), and each figure's mean absolute
- * log error |ln(actual/figure)| and MAPE. Options: --every N (default 5), --panelists K
+ * log error |ln(actual/figure)| and MAPE. Options: --every N (default 5), --offset R (default 0:
+ * the series i with i mod N = R; the N offsets split M3 into N disjoint samples), --panelists K
  * (default 7), --three-point, --weights equal|inverse-mse (default equal, the app's default rule:
  * prisma Panel.blendRule; inverse-mse is the organiser's opt-in rule, shrunk toward equal weights
  * as docs/methods.md §15c states), --shared s.
@@ -41,6 +42,7 @@ const { values: args } = parseArgs({
   options: {
     data: { type: "string", default: join(process.cwd(), "..", "shared", "benchmark-data", "m3.jsonl") },
     every: { type: "string", default: "5" },
+    offset: { type: "string", default: "0" },
     panelists: { type: "string", default: "7" },
     "three-point": { type: "boolean", default: false },
     weights: { type: "string", default: "equal" },
@@ -59,6 +61,11 @@ interface Series {
 }
 
 const every = Number(args.every);
+const offset = Number(args.offset);
+if (!(Number.isInteger(every) && every >= 1 && Number.isInteger(offset) && offset >= 0 && offset < every)) {
+  console.error("--every must be a whole number ≥ 1 and --offset a whole number from 0 to every − 1");
+  process.exit(2);
+}
 const K = Number(args.panelists);
 const threePoint = args["three-point"] === true;
 const rule = args.weights === "equal" ? "equal" : "inverse-mse";
@@ -66,7 +73,7 @@ const series = readFileSync(args.data!, "utf8")
   .split("\n")
   .filter((l) => l.trim())
   .map((l) => JSON.parse(l) as Series)
-  .filter((_, i) => i % every === 0);
+  .filter((_, i) => i % every === offset);
 
 const panel = Array.from({ length: K }, (_, j) => ({
   id: `p${j}`,
@@ -155,7 +162,7 @@ for (const s of series) {
 }
 
 const pct = (x: number) => `${((100 * x) / n).toFixed(1)}%`;
-console.log(`Simulated panel study: ${n} questions from M3 (every ${every}th series; ${skipped} skipped: no usable baseline or actual ≤ 0), ${K} panelists (shared error ${args.shared}), ${threePoint ? "three-point" : "single-value"} answers, ${rule} weights; ${((performance.now() - t0) / 1000).toFixed(1)} s`);
+console.log(`Simulated panel study: ${n} questions from M3 (every ${every}th series${offset ? ` from the ${offset + 1}th` : ""}; ${skipped} skipped: no usable baseline or actual ≤ 0), ${K} panelists (shared error ${args.shared}), ${threePoint ? "three-point" : "single-value"} answers, ${rule} weights; ${((performance.now() - t0) / 1000).toFixed(1)} s`);
 console.log("figure     80% coverage  95% coverage  mean |ln(actual/figure)|  MAPE");
 for (const k of ["baseline", "panel", "blend"] as Leg[]) {
   const x = tally[k];
