@@ -479,7 +479,7 @@ function combination(
   const weights: Record<string, number> = {};
   for (const f of fits) weights[f.method.id] = 1 / k;
   notes.push(
-    `equal-weight combination of ${fits.map((f) => f.method.id).join(" and ")}; intervals from the combination's own ${c.relative ? "relative " : ""}multi-step errors on the history, scaled by ${c.correction.toFixed(3)} for the values the members estimated`,
+    `equal-weight combination of ${fits.map((f) => f.method.id).join(" and ")}${c.spread.some(Number.isFinite) ? `; intervals from the combination's own ${c.relative ? "relative " : ""}multi-step errors on the history, scaled by ${c.correction.toFixed(3)} for the values the members estimated` : ""}`,
     ...c.notes,
   );
   let totalResult: TotalResult | undefined;

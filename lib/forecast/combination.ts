@@ -97,8 +97,9 @@ export function historySpread(
  * fitted to into an estimate of the spread of new errors. In-sample errors are too small by about
  * (n − p)/n in mean square when p values were estimated from the n observations (the residual
  * degrees of freedom of least squares; the same count gives σ² = SSE/(n − k) of R's ets() and
- * Arima(), Hyndman et al. 2008 §5.2 — from memory). p = the members' average of Fit.estimated.
- * NaN when n − p < 1 (too many values estimated for the errors to say anything).
+ * Arima(), Hyndman et al. 2008 — from memory). p = the members' average of Fit.estimated.
+ * NaN when n − p < 1 (too many values estimated for the errors to say anything) or when n or p
+ * is NaN or p < 0.
  */
 export function residualCorrection(n: number, p: number): number {
   return n - p >= 1 && p >= 0 ? Math.sqrt(n / (n - p)) : NaN;
