@@ -10,6 +10,7 @@ import etsWeighted from "../../lib/forecast/methods/ets-weighted";
 import thetaMethod from "../../lib/forecast/methods/theta";
 import { combineForecasts, combineTotals, overlapDegreesOfFreedom, residualCorrection, type CombinationMember } from "../../lib/forecast/combination";
 import { rEval, rEvalBatch } from "../helpers/r";
+import { mulberry32 } from "../helpers/prng";
 import { R_MEMBERS } from "../helpers/ets-members";
 
 /**
@@ -124,6 +125,32 @@ describe("auto with members ets, theta, arima: the equal-weight combination of t
     expect(res.total!.lower["80"]!).toBeLessThan(sum);
     expect(res.total!.upper["80"]!).toBeGreaterThan(sum);
     expect(res.total!.upper["80"]!).toBeLessThanOrEqual(res.total!.upper["95"]!);
+  });
+});
+
+describe("auto on random series: every range is finite and ordered", () => {
+  it("holds 95% ⊇ 80% ∋ mean for 90 seeded random walks (lengths 4–63, seasons 1, 4, 12, half with negative values)", () => {
+    // A structural property of docs/methods.md §20 (no reference value): the empirical bounds, the
+    // fallback to the members' bounds and the residual correction never cross or leave a NaN.
+    const rand = mulberry32(20261203);
+    for (let k = 0; k < 90; k++) {
+      const n = 4 + Math.floor(rand() * 60);
+      const m = [1, 4, 12][k % 3];
+      const negative = k % 2 === 0;
+      let v = negative ? 0 : 100;
+      const y = Array.from({ length: n }, (_, t) => {
+        v += (rand() - 0.5) * 10 + (negative ? 0 : 0.5);
+        return negative ? v : Math.max(v, 1) * (m > 1 ? 1 + 0.2 * Math.sin((2 * Math.PI * t) / m) : 1);
+      });
+      const res = baseline(y, { season: m, horizon: 6, total: true });
+      for (const s of res.forecast) {
+        const row = [s.lower["95"], s.lower["80"], s.mean, s.upper["80"], s.upper["95"]];
+        expect(row.every((x) => x !== null && Number.isFinite(x)), `series ${k} (n = ${n}, m = ${m})`).toBe(true);
+        for (let i = 1; i < row.length; i++) expect(row[i]!, `series ${k} (n = ${n}, m = ${m})`).toBeGreaterThanOrEqual(row[i - 1]!);
+      }
+      expect(res.total!.lower["95"]!).toBeLessThanOrEqual(res.total!.lower["80"]!);
+      expect(res.total!.upper["80"]!).toBeLessThanOrEqual(res.total!.upper["95"]!);
+    }
   });
 });
 
