@@ -105,6 +105,11 @@ export function residualCorrection(n: number, p: number): number {
   return n - p >= 1 && p >= 0 ? Math.sqrt(n / (n - p)) : NaN;
 }
 
+/** {@link residualCorrection} of the fitted series with p the members' average of `estimated`. */
+function membersCorrection(y: readonly number[], members: readonly CombinationMember[]): number {
+  return residualCorrection(y.length, members.reduce((a, m) => a + m.estimated, 0) / members.length);
+}
+
 /** The members' error model: their average step variances read as a linear innovations model (c_k of lib/forecast/total.ts; 0, independent period errors, when a member gives no finite step sd). */
 function membersInnovations(sd: readonly number[], h: number): number[] {
   return sd.length === h && sd.every((x) => Number.isFinite(x) && x > 0) ? weightsFromStepVariances(sd.map((x) => x * x)) : new Array<number>(Math.max(h - 1, 0)).fill(0);
@@ -147,12 +152,14 @@ export function combineForecasts(members: readonly CombinationMember[], y: reado
   const history = historySpread(y, (t) => meanOf(members.map((m) => m.origins[t])), h, season, relative);
   const raw = history.spread;
   const sd = meanOf(members.map((m) => m.forecast.sd));
-  const correction = residualCorrection(y.length, members.reduce((a, m) => a + m.estimated, 0) / members.length);
+  const correction = membersCorrection(y, members);
+  // The last step with a history spread; none (−1) also when c is NaN: then the members' bounds.
   let last = -1;
-  raw.forEach((s, j) => {
-    if (Number.isFinite(s)) last = j;
-  });
-  if (!Number.isFinite(correction)) last = -1;
+  if (Number.isFinite(correction)) {
+    raw.forEach((s, j) => {
+      if (Number.isFinite(s)) last = j;
+    });
+  }
   const at = (j: number) => (last < 0 ? j : Math.min(j, last));
   const spread = raw.map((s, j) => {
     if (last < 0) return NaN;
@@ -246,8 +253,7 @@ export function combineTotals(
     used.push(t);
   }
   const count = used.length;
-  const correction = residualCorrection(y.length, members.reduce((a, m) => a + m.estimated, 0) / members.length);
-  const spread = count >= MIN_HISTORY_ERRORS ? correction * Math.sqrt(sum / count) : NaN;
+  const spread = count >= MIN_HISTORY_ERRORS ? membersCorrection(y, members) * Math.sqrt(sum / count) : NaN;
   const df = overlapDegreesOfFreedom(used, innovationWeights(membersInnovations(meanOf(members.map((m) => m.forecast.sd)), h), h, from));
   const lower: Record<string, number> = {};
   const upper: Record<string, number> = {};
